@@ -1,0 +1,97 @@
+// `npm start`: dependencies, a private PostgreSQL on 127.0.0.1, the client build, then the app
+// (which migrates and seeds the demo). Ctrl-C stops everything cleanly. Node built-ins only.
+import { existsSync, readdirSync, statSync } from 'node:fs'
+import { fork } from 'node:child_process'
+import { dirname, join } from 'node:path'
+import { fileURLToPath } from 'node:url'
+import { ensureDependencies } from './lib/deps.mjs'
+import { startCluster } from './lib/postgres.mjs'
+import { log, run } from './lib/run.mjs'
+
+const root = join(dirname(fileURLToPath(import.meta.url)), '..')
+process.chdir(root)
+const dataDir = join(root, process.env.DATA_DIR ?? '.data')
+
+function newestMtime(path) {
+  if (!existsSync(path)) return 0
+  const stat = statSync(path)
+  if (!stat.isDirectory()) return stat.mtimeMs
+  return Math.max(stat.mtimeMs, ...readdirSync(path).map((name) => newestMtime(join(path, name))))
+}
+
+function ensureClientBuild() {
+  const built = newestMtime(join(root, 'dist', 'index.html'))
+  const sources = Math.max(newestMtime(join(root, 'src')), newestMtime(join(root, 'shared')), newestMtime(join(root, 'index.html')))
+  if (built && built > sources) return
+  log('Building the client…')
+  run(join(root, 'node_modules', '.bin', 'vite'), ['build', '--logLevel', 'warn'])
+}
+
+const children = []
+let cluster = null
+let stopping = false
+
+async function shutdown(code) {
+  if (stopping) return
+  stopping = true
+  log('Stopping…')
+  await Promise.all(
+    children.map(
+      (child) =>
+        new Promise((resolve) => {
+          if (child.exitCode !== null) return resolve()
+          child.once('exit', resolve)
+          child.kill('SIGTERM')
+          setTimeout(() => child.kill('SIGKILL'), 10_000).unref()
+        }),
+    ),
+  )
+  cluster?.stop()
+  log('Stopped.')
+  process.exit(code)
+}
+process.on('SIGINT', () => void shutdown(0))
+process.on('SIGTERM', () => void shutdown(0))
+
+try {
+  ensureDependencies(root)
+  const env = { ...process.env, DATA_DIR: dataDir, SEED_DEMO: process.env.SEED_DEMO ?? '1', NODE_ENV: process.env.NODE_ENV ?? 'production' }
+  if (!process.env.DATABASE_URL) {
+    cluster = await startCluster(join(dataDir, 'postgres'))
+    env.DATABASE_URL = cluster.createDatabase('tankwarden')
+    log(`PostgreSQL is up on 127.0.0.1:${cluster.port} (data in ${cluster.base})`)
+  }
+  ensureClientBuild()
+
+  const app = fork(join(root, 'server', 'index.ts'), [], {
+    env,
+    execArgv: ['--import', 'tsx'],
+    stdio: ['inherit', 'inherit', 'inherit', 'ipc'],
+  })
+  children.push(app)
+  app.on('exit', (code) => {
+    if (!stopping) {
+      log(`The app stopped (exit ${code}).`)
+      void shutdown(code || 1)
+    }
+  })
+  app.on('message', (message) => {
+    if (message?.type !== 'ready') return
+    const url = `http://127.0.0.1:${message.port}`
+    const lines = [
+      '',
+      `  Tankwarden is running:  ${url}`,
+      '',
+      ...(message.demo?.length
+        ? ['  Demo sign-ins (password for all: ' + message.demo[0].password + '):', ...message.demo.map((d) => `    ${d.role.padEnd(7)} ${d.email}`)]
+        : []),
+      '',
+      '  Ctrl-C stops the app and the database.',
+      '',
+    ]
+    console.log(lines.join('\n'))
+  })
+} catch (error) {
+  log(error instanceof Error ? error.message : String(error))
+  await shutdown(1)
+}

@@ -1,0 +1,45 @@
+import { existsSync } from 'node:fs'
+import { join, resolve } from 'node:path'
+import express from 'express'
+import helmet from 'helmet'
+import { pinoHttp } from 'pino-http'
+import type { AppContext } from './context'
+import { errorHandler, notFoundHandler } from './http/errors'
+import { apiRouter } from './routes'
+
+export const JSON_BODY_LIMIT = '1mb'
+
+/** Builds the Express app without listening, so tests can drive it with supertest. */
+export function createApp(ctx: AppContext) {
+  const app = express()
+  app.disable('x-powered-by')
+  app.set('trust proxy', 'loopback')
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          // Vuetify and ECharts set inline styles; scripts stay same-origin only.
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'connect-src': ["'self'", 'ws:', 'wss:'],
+          'upgrade-insecure-requests': null,
+        },
+      },
+    }),
+  )
+  if (ctx.config.logLevel !== 'silent') {
+    app.use(pinoHttp({ logger: ctx.logger, autoLogging: { ignore: (req) => req.url === '/api/v1/health' } }))
+  }
+  app.use('/api/v1', express.json({ limit: JSON_BODY_LIMIT }), apiRouter(ctx))
+  app.use('/api', notFoundHandler)
+
+  const dist = resolve('dist')
+  if (ctx.config.serveClient && existsSync(join(dist, 'index.html'))) {
+    app.use(express.static(dist, { index: false, maxAge: '1h' }))
+    // Client-side routes all load the same page.
+    app.get('/*splat', (_req, res) => res.sendFile(join(dist, 'index.html')))
+  }
+  app.use(notFoundHandler)
+  app.use(errorHandler(ctx.logger))
+  return app
+}

@@ -1,0 +1,30 @@
+import type { RequestHandler } from 'express'
+import type { Passport } from 'passport'
+import { forbidden, unauthenticated } from '../errors'
+import type { Actor } from './actor'
+import { roleAllows, type Permission } from './permissions'
+
+/** Requires a valid user token; answers 401 in the API's error shape otherwise. */
+export function authenticate(passport: InstanceType<typeof Passport>): RequestHandler {
+  return (req, res, next) => {
+    passport.authenticate('user-jwt', { session: false }, (error: unknown, actor: Actor | false) => {
+      if (error) return next(error)
+      if (!actor) return next(unauthenticated('Sign in first, or sign in again: the token is missing, expired or revoked'))
+      req.actor = actor
+      next()
+    })(req, res, next)
+  }
+}
+
+export function allow(permission: Permission): RequestHandler {
+  return (req, _res, next) => {
+    if (!req.actor) return next(unauthenticated())
+    if (!roleAllows(req.actor.role, permission)) return next(forbidden())
+    next()
+  }
+}
+
+export function actorOf(req: { actor?: Actor }): Actor {
+  if (!req.actor) throw unauthenticated()
+  return req.actor
+}

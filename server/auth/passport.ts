@@ -1,0 +1,45 @@
+import { Passport } from 'passport'
+import { Strategy as BearerStrategy } from 'passport-http-bearer'
+import type { Models } from '../models'
+import type { Actor } from './actor'
+import { verifyAccessToken } from './tokens'
+
+/**
+ * One Passport instance per app. Each credential kind is its own named strategy:
+ * 'user-jwt' now; device tokens and wall-display credentials slot in beside it.
+ */
+export function createPassport(models: Models, jwtSecret: string) {
+  const passport = new Passport()
+  passport.use(
+    'user-jwt',
+    new BearerStrategy(async (token, done) => {
+      try {
+        done(null, (await userActorFromToken(models, jwtSecret, token)) ?? false)
+      } catch (error) {
+        done(error as Error)
+      }
+    }),
+  )
+  return passport
+}
+
+export async function userActorFromToken(models: Models, jwtSecret: string, token: string): Promise<Actor | null> {
+  const claims = verifyAccessToken(jwtSecret, token)
+  if (!claims) return null
+  const session = await models.Session.findByPk(claims.jti)
+  if (!session || session.revokedAt || session.expiresAt.getTime() <= Date.now()) return null
+  const user = await models.User.findOne({
+    where: { id: Number(claims.sub), organizationId: claims.org },
+    include: [{ association: 'sites', attributes: ['id'] }],
+  })
+  if (!user || !user.active || session.userId !== user.id) return null
+  const siteIds = user.role === 'viewer' && user.sites?.length ? user.sites.map((s) => s.id) : null
+  return {
+    kind: 'user',
+    userId: user.id,
+    organizationId: user.organizationId,
+    role: user.role,
+    siteIds,
+    sessionId: session.id,
+  }
+}

@@ -1,0 +1,16 @@
+import type { Role } from '../../shared/schemas/auth'
+
+/** The one place that says which roles may do what. Routes name a permission, never a role. */
+export const PERMISSIONS = {
+  'org.read': ['owner', 'keeper', 'viewer'],
+  'sites.write': ['owner'],
+  'tanks.write': ['owner', 'keeper'],
+  'tanks.archive': ['owner'],
+  'users.manage': ['owner'],
+} as const satisfies Record<string, readonly Role[]>
+
+export type Permission = keyof typeof PERMISSIONS
+
+export function roleAllows(role: Role, permission: Permission): boolean {
+  return (PERMISSIONS[permission] as readonly Role[]).includes(role)
+}

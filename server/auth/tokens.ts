@@ -1,0 +1,39 @@
+import { randomUUID, createHash, randomBytes } from 'node:crypto'
+import jwt from 'jsonwebtoken'
+
+export type AccessClaims = { sub: string; org: number; jti: string; typ: 'user' }
+
+/** HS256 only: a token with any other `alg` (including `none`) is refused on verification. */
+const ALGORITHM = 'HS256' as const
+
+export function signAccessToken(secret: string, claims: { userId: number; organizationId: number }, hours: number) {
+  const jti = randomUUID()
+  const expiresAt = new Date(Date.now() + hours * 3600_000)
+  const token = jwt.sign({ org: claims.organizationId, typ: 'user' }, secret, {
+    algorithm: ALGORITHM,
+    subject: String(claims.userId),
+    jwtid: jti,
+    expiresIn: Math.round(hours * 3600),
+  })
+  return { token, jti, expiresAt }
+}
+
+export function verifyAccessToken(secret: string, token: string): AccessClaims | null {
+  try {
+    const payload = jwt.verify(token, secret, { algorithms: [ALGORITHM] })
+    if (typeof payload !== 'object' || payload.typ !== 'user' || !payload.sub || !payload.jti) return null
+    return payload as AccessClaims
+  } catch {
+    return null
+  }
+}
+
+/** A random secret for links (invitations, later acknowledge links) and its stored hash. */
+export function newSecretToken() {
+  const token = randomBytes(32).toString('base64url')
+  return { token, hash: hashSecret(token) }
+}
+
+export function hashSecret(token: string) {
+  return createHash('sha256').update(token).digest('hex')
+}

@@ -1,0 +1,15 @@
+import { Sequelize } from 'sequelize'
+import pg from 'pg'
+
+// BIGINT counts and NUMERIC sums come back as strings by default; our ids and counts fit in a double.
+pg.types.setTypeParser(pg.types.builtins.INT8, (v) => Number(v))
+
+export function createSequelize(databaseUrl: string, options: { poolMax?: number } = {}): Sequelize {
+  return new Sequelize(databaseUrl, {
+    dialect: 'postgres',
+    dialectModule: pg,
+    logging: false,
+    pool: { max: options.poolMax ?? 10, min: 0, idle: 10_000, acquire: 15_000 },
+    define: { underscored: true },
+  })
+}

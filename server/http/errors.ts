@@ -1,0 +1,34 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express'
+import type { Logger } from '../logger'
+import { AppError } from '../errors'
+
+export const notFoundHandler: RequestHandler = (req, _res, next) =>
+  next(new AppError(404, 'not_found', `No such endpoint: ${req.method} ${req.path}`))
+
+/** Maps every error to the one error shape; anything unexpected is logged and answered 500 without detail. */
+export function errorHandler(logger: Logger): ErrorRequestHandler {
+  return (error, req, res, _next) => {
+    let appError: AppError
+    if (error instanceof AppError) {
+      appError = error
+    } else if (error?.type === 'entity.too.large') {
+      appError = new AppError(413, 'too_large', `The request body is larger than the limit (${error.limit} bytes)`)
+    } else if (error?.type === 'entity.parse.failed') {
+      appError = new AppError(400, 'invalid_json', 'The request body is not valid JSON')
+    } else if (typeof error?.status === 'number' && error.status >= 400 && error.status < 500) {
+      appError = new AppError(error.status, 'bad_request', error.message ?? 'Bad request')
+    } else {
+      logger.error({ err: error, method: req.method, path: req.path }, 'unhandled error')
+      appError = new AppError(500, 'internal', 'Something went wrong on our side; it has been logged')
+    }
+    if (appError.retryAfterSeconds) res.setHeader('Retry-After', String(appError.retryAfterSeconds))
+    res.status(appError.status).json({
+      error: {
+        code: appError.code,
+        message: appError.message,
+        ...(appError.fields ? { fields: appError.fields } : {}),
+        ...(appError.retryAfterSeconds ? { retryAfterSeconds: appError.retryAfterSeconds } : {}),
+      },
+    })
+  }
+}

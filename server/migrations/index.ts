@@ -1,0 +1,5 @@
+import type { Migration } from '../db/migrate'
+import createFoundation from './202612020200-create-foundation'
+
+/** Every migration in order. Add new files here; never edit one that has shipped. */
+export const migrations: Migration[] = [createFoundation]

@@ -1,0 +1,50 @@
+import { Router } from 'express'
+import { rateLimit, ipKeyGenerator } from 'express-rate-limit'
+import { changePasswordSchema, signInSchema } from '../../shared/schemas/auth'
+import { actorOf, type authenticate } from '../auth/middleware'
+import type { AppContext } from '../context'
+import { AppError } from '../errors'
+import { parse } from '../http/validate'
+import { authService } from '../services/auth'
+
+export function authRouter(ctx: AppContext, requireUser: ReturnType<typeof authenticate>) {
+  const router = Router()
+  const auth = authService(ctx)
+  const windowMs = ctx.config.signInWindowMinutes * 60_000
+
+  // Counted per address and e-mail, so one person cannot lock out the whole shop behind one router.
+  const signInLimiter = rateLimit({
+    windowMs,
+    limit: ctx.config.signInLimit,
+    standardHeaders: 'draft-7',
+    legacyHeaders: false,
+    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.email ?? '').toLowerCase()}`,
+    handler: (req, _res, next) => {
+      const resetTime = (req as { rateLimit?: { resetTime?: Date } }).rateLimit?.resetTime
+      const retry = Math.max(1, Math.ceil(((resetTime?.getTime() ?? Date.now() + windowMs) - Date.now()) / 1000))
+      next(new AppError(429, 'rate_limited', `Too many sign-in attempts; try again in ${retry} s`, undefined, retry))
+    },
+  })
+
+  router.post('/sign-in', signInLimiter, async (req, res) => {
+    const { email, password } = parse(signInSchema, req, 'body')
+    res.json(await auth.signIn(email, password))
+  })
+
+  router.post('/sign-out', requireUser, async (req, res) => {
+    await auth.signOut(actorOf(req))
+    res.status(204).end()
+  })
+
+  router.get('/me', requireUser, async (req, res) => {
+    res.json(await auth.me(actorOf(req)))
+  })
+
+  router.post('/password', requireUser, async (req, res) => {
+    const { currentPassword, newPassword } = parse(changePasswordSchema, req, 'body')
+    await auth.changePassword(actorOf(req), currentPassword, newPassword)
+    res.status(204).end()
+  })
+
+  return router
+}

@@ -1,0 +1,29 @@
+import { Router } from 'express'
+import { createPassport } from '../auth/passport'
+import { authenticate } from '../auth/middleware'
+import type { AppContext } from '../context'
+import { authRouter } from './auth'
+import { invitationsRouter } from './invitations'
+import { sitesRouter } from './sites'
+import { tanksRouter } from './tanks'
+import { usersRouter } from './users'
+
+export const API_VERSION = '0.1.0'
+
+/** Mounts one router per resource under /api/v1. */
+export function apiRouter(ctx: AppContext) {
+  const passport = createPassport(ctx.models, ctx.config.jwtSecret)
+  const requireUser = authenticate(passport)
+  const router = Router()
+
+  router.get('/health', async (_req, res) => {
+    await ctx.sequelize.query('SELECT 1')
+    res.json({ ok: true, version: API_VERSION })
+  })
+  router.use('/auth', authRouter(ctx, requireUser))
+  router.use('/invitations', invitationsRouter(ctx))
+  router.use('/users', requireUser, usersRouter(ctx))
+  router.use('/sites', requireUser, sitesRouter(ctx))
+  router.use('/tanks', requireUser, tanksRouter(ctx))
+  return router
+}

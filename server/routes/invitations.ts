@@ -1,0 +1,24 @@
+import { Router } from 'express'
+import { z } from 'zod'
+import { acceptInviteSchema } from '../../shared/schemas/auth'
+import type { AppContext } from '../context'
+import { parse } from '../http/validate'
+import { usersService } from '../services/users'
+
+/** The invitee has no account yet: these routes are open, guarded by the secret token alone. */
+export function invitationsRouter(ctx: AppContext) {
+  const router = Router()
+  const users = usersService(ctx)
+
+  router.get('/:token', async (req, res) => {
+    const { token } = parse(z.object({ token: z.string().min(20).max(200) }), req, 'params')
+    res.json(await users.describeInvitation(token))
+  })
+
+  router.post('/accept', async (req, res) => {
+    const { token, password, name } = parse(acceptInviteSchema, req, 'body')
+    res.status(201).json(await users.acceptInvitation(token, password, name))
+  })
+
+  return router
+}

@@ -1,0 +1,41 @@
+import type { TankInput } from '../../shared/schemas/tanks'
+
+/**
+ * An invented business for the demo: Marrowfen Aquatics, a shop with a fish room across town.
+ * Every name, address and person here is made up.
+ */
+export const DEMO_PASSWORD = 'tankwarden-demo'
+
+export const DEMO_ORGANIZATION = 'Marrowfen Aquatics'
+
+export const DEMO_SITES = [
+  { key: 'shop', name: 'Marrowfen shop floor', timeZone: 'Europe/Berlin', address: '12 Pike Street (invented)' },
+  { key: 'fishroom', name: 'Cedar Row fish room', timeZone: 'Europe/Berlin', address: 'Unit 4, Cedar Row (invented)' },
+] as const
+
+export const DEMO_USERS = [
+  { email: 'owner@marrowfen.example', name: 'Ottilie Fenwright', role: 'owner', sites: [] },
+  { email: 'keeper@marrowfen.example', name: 'Ravi Okonjo', role: 'keeper', sites: [] },
+  { email: 'keeper2@marrowfen.example', name: 'Maren Lindqvist-Hale', role: 'keeper', sites: [] },
+  { email: 'viewer@marrowfen.example', name: 'Tobias Quillfeather', role: 'viewer', sites: ['fishroom'] },
+] as const
+
+type DemoTank = Omit<TankInput, 'siteId'> & { site: 'shop' | 'fishroom' }
+
+const rect = (lengthCm: number, widthCm: number, heightCm: number) =>
+  ({ shape: 'rectangular', lengthCm, widthCm, heightCm }) as const
+
+const base = { filter: '', media: '', notes: '', substrateDepthCm: 5, volumeLitres: null, sortOrder: 0 }
+
+export const DEMO_TANKS: DemoTank[] = [
+  { ...base, site: 'shop', name: 'Display 1 — community', kind: 'tropical_freshwater', stage: 'established', dimensions: rect(120, 45, 55), heater: { watts: 300, setPointC: 26, topCm: 30 }, lightSchedule: { on: '09:00', off: '20:00' }, filter: 'External canister', media: 'Sponge, ceramic rings, carbon', sortOrder: 1 },
+  { ...base, site: 'shop', name: 'Display 2 — planted scape', kind: 'planted', stage: 'established', dimensions: rect(90, 45, 45), heater: { watts: 200, setPointC: 25, topCm: 24 }, lightSchedule: { on: '10:00', off: '18:00' }, filter: 'External canister', media: 'Sponge, sintered glass', sortOrder: 2 },
+  { ...base, site: 'shop', name: 'Sales row A1', kind: 'tropical_freshwater', stage: 'established', dimensions: rect(60, 40, 40), heater: { watts: 100, setPointC: 25.5, topCm: 22 }, lightSchedule: { on: '09:00', off: '19:00' }, filter: 'Sponge (air-driven)', sortOrder: 3 },
+  { ...base, site: 'shop', name: 'Sales row A2', kind: 'tropical_freshwater', stage: 'cycling', dimensions: rect(60, 40, 40), heater: { watts: 100, setPointC: 25.5, topCm: 22 }, lightSchedule: { on: '09:00', off: '19:00' }, filter: 'Sponge (air-driven)', notes: 'Set up last week; fishless cycle running.', sortOrder: 4 },
+  { ...base, site: 'shop', name: 'Goldfish bowl front', kind: 'coldwater', stage: 'established', dimensions: { shape: 'bow_front', lengthCm: 100, widthCm: 35, bowCm: 10, heightCm: 50 }, heater: null, lightSchedule: { on: '09:00', off: '19:00' }, filter: 'Hang-on-back', sortOrder: 5 },
+  { ...base, site: 'shop', name: 'Reef display', kind: 'marine', stage: 'established', dimensions: rect(150, 60, 60), heater: { watts: 2 * 300, setPointC: 25.5, topCm: 35 }, lightSchedule: { on: '11:00', off: '21:00' }, filter: 'Sump with protein skimmer', media: 'Live rock, filter floss', sortOrder: 6 },
+  { ...base, site: 'fishroom', name: 'Quarantine Q1', kind: 'tropical_freshwater', stage: 'quarantine', dimensions: rect(80, 35, 40), heater: { watts: 150, setPointC: 26.5, topCm: 25 }, lightSchedule: { on: '08:00', off: '16:00' }, filter: 'Sponge (air-driven)', notes: 'Arrivals held here before the shop floor.', sortOrder: 1 },
+  { ...base, site: 'fishroom', name: 'Brackish B1', kind: 'brackish', stage: 'established', dimensions: rect(100, 40, 45), heater: { watts: 200, setPointC: 26, topCm: 28 }, lightSchedule: { on: '08:00', off: '18:00' }, filter: 'External canister', sortOrder: 2 },
+  { ...base, site: 'fishroom', name: 'Breeding cylinder C1', kind: 'tropical_freshwater', stage: 'established', dimensions: { shape: 'cylinder', diameterCm: 50, heightCm: 60 }, heater: { watts: 150, setPointC: 27, topCm: 30 }, lightSchedule: { on: '08:00', off: '18:00' }, filter: 'Sponge (air-driven)', sortOrder: 3 },
+  { ...base, site: 'fishroom', name: 'Spare tub S1', kind: 'coldwater', stage: 'empty', dimensions: null, volumeLitres: 200, heater: null, lightSchedule: null, notes: 'Dry; kept for overflow stock.', sortOrder: 4 },
+]

@@ -1,0 +1,48 @@
+import bcrypt from 'bcryptjs'
+import type { AppContext } from '../context'
+import { tanksService } from '../services/tanks'
+import { DEMO_ORGANIZATION, DEMO_PASSWORD, DEMO_SITES, DEMO_TANKS, DEMO_USERS } from './demo-scenario'
+
+/** Seeds the demo scenario into an empty database; does nothing when any organization exists. */
+export async function seedDemoIfEmpty(ctx: AppContext): Promise<boolean> {
+  const { models, sequelize } = ctx
+  if ((await models.Organization.count()) > 0) return false
+  const passwordHash = await bcrypt.hash(DEMO_PASSWORD, ctx.config.bcryptRounds)
+  await sequelize.transaction(async (transaction) => {
+    const org = await models.Organization.create({ name: DEMO_ORGANIZATION }, { transaction })
+    const sites = new Map<string, number>()
+    for (const s of DEMO_SITES) {
+      const site = await models.Site.create(
+        { organizationId: org.id, name: s.name, timeZone: s.timeZone, address: s.address },
+        { transaction },
+      )
+      sites.set(s.key, site.id)
+    }
+    for (const u of DEMO_USERS) {
+      const user = await models.User.create(
+        { organizationId: org.id, email: u.email, name: u.name, role: u.role, passwordHash },
+        { transaction },
+      )
+      for (const key of u.sites) await models.UserSite.create({ userId: user.id, siteId: sites.get(key)! }, { transaction })
+    }
+  })
+  // Tanks go through the service so volumes and default targets are computed as for any user.
+  const owner = await models.User.findOne({ where: { email: DEMO_USERS[0].email } })
+  const actor = {
+    kind: 'user' as const,
+    userId: owner!.id,
+    organizationId: owner!.organizationId,
+    role: 'owner' as const,
+    siteIds: null,
+    sessionId: 'seed',
+  }
+  const siteIds = new Map((await models.Site.findAll()).map((s) => [s.name, s.id]))
+  const tanks = tanksService(ctx)
+  for (const { site, ...tank } of DEMO_TANKS) {
+    const siteName = DEMO_SITES.find((s) => s.key === site)!.name
+    await tanks.create(actor, { ...tank, siteId: siteIds.get(siteName)! })
+  }
+  return true
+}
+
+export const DEMO_SIGN_INS = DEMO_USERS.map((u) => ({ email: u.email, role: u.role, password: DEMO_PASSWORD }))

@@ -1,0 +1,115 @@
+import { Op, type Order, type WhereOptions } from 'sequelize'
+import { grossVolumeLitres } from '../../shared/chemistry/volume'
+import { defaultTargetsFor } from '../../shared/schemas/tank-defaults'
+import { tankInputSchema, type TankInput, type TankListQuery, type TankUpdate } from '../../shared/schemas/tanks'
+import type { Page } from '../../shared/schemas/common'
+import type { PublicTank } from '../../shared/schemas/tanks'
+import type { Actor } from '../auth/actor'
+import type { AppContext } from '../context'
+import { badRequest, fromZod, notFound } from '../errors'
+import { canSeeSite, siteScope } from './scope'
+import { publicTank } from './serializers'
+
+const SORT_COLUMNS: Record<TankListQuery['sortBy'], Order> = {
+  name: [['name', 'ASC']],
+  site: [['name', 'ASC']], // replaced by the site-name order in list()
+  kind: [['kind', 'ASC'], ['name', 'ASC']],
+  stage: [['stage', 'ASC'], ['name', 'ASC']],
+  volume: [['volumeLitres', 'ASC'], ['name', 'ASC']],
+  updated: [['updatedAt', 'ASC'], ['name', 'ASC']],
+}
+
+function withDirection(order: Order, desc: boolean): Order {
+  if (!desc || !Array.isArray(order)) return order
+  return order.map((part) => {
+    const items = [...(part as unknown[])]
+    items[items.length - 1] = 'DESC'
+    return items
+  }) as Order
+}
+
+/** The stored volume: computed from inside dimensions when given, else the entered figure. */
+function volumeOf(input: Pick<TankInput, 'dimensions' | 'volumeLitres'>) {
+  if (input.dimensions) {
+    return { volumeLitres: Math.round(grossVolumeLitres(input.dimensions) * 10) / 10, volumeSource: 'dimensions' as const }
+  }
+  return { volumeLitres: input.volumeLitres as number, volumeSource: 'entered' as const }
+}
+
+export function tanksService(ctx: AppContext) {
+  const { models } = ctx
+  const include = [{ association: 'site', attributes: ['id', 'name', 'timeZone'] }]
+
+  async function find(actor: Actor, id: number) {
+    const tank = await models.Tank.findOne({ where: { id, ...siteScope(actor, 'siteId') }, include })
+    if (!tank) throw notFound('Tank not found')
+    return tank
+  }
+
+  async function assertSiteUsable(actor: Actor, siteId: number) {
+    const site = await models.Site.findByPk(siteId)
+    if (!canSeeSite(actor, site)) throw badRequest('siteId: no such site', { siteId: 'no such site' })
+    if (site!.archivedAt) throw badRequest('siteId: the site is archived', { siteId: 'the site is archived' })
+  }
+
+  return {
+    find,
+
+    async list(actor: Actor, q: TankListQuery): Promise<Page<PublicTank>> {
+      const where: Record<string | symbol, unknown> = { ...(siteScope(actor, 'siteId') as object) }
+      if (!q.includeArchived) where.archivedAt = null
+      if (q.siteId) where.siteId = actor.siteIds && !actor.siteIds.includes(q.siteId) ? -1 : q.siteId
+      if (q.stage) where.stage = q.stage
+      if (q.kind) where.kind = q.kind
+      if (q.search) {
+        const like = `%${q.search.replace(/[\\%_]/g, (c) => `\\${c}`)}%`
+        where[Op.or] = [{ name: { [Op.iLike]: like } }, { notes: { [Op.iLike]: like } }]
+      }
+      const order =
+        q.sortBy === 'site'
+          ? ([[{ model: models.Site, as: 'site' }, 'name', q.sortDesc ? 'DESC' : 'ASC'], ['name', 'ASC']] as Order)
+          : withDirection(SORT_COLUMNS[q.sortBy], q.sortDesc)
+      const { rows, count } = await models.Tank.findAndCountAll({
+        where: where as WhereOptions,
+        include,
+        order,
+        limit: q.pageSize,
+        offset: (q.page - 1) * q.pageSize,
+      })
+      return { items: rows.map(publicTank), total: count, page: q.page, pageSize: q.pageSize }
+    },
+
+    async get(actor: Actor, id: number) {
+      return publicTank(await find(actor, id))
+    },
+
+    async create(actor: Actor, input: TankInput) {
+      await assertSiteUsable(actor, input.siteId)
+      const tank = await models.Tank.create({
+        ...input,
+        ...volumeOf(input),
+        targets: input.targets ?? defaultTargetsFor(input.kind),
+        organizationId: actor.organizationId,
+      })
+      return publicTank(await find(actor, tank.id))
+    },
+
+    async update(actor: Actor, id: number, changes: TankUpdate) {
+      const tank = await find(actor, id)
+      const current = publicTank(tank)
+      // Validate the merged tank so cross-field rules (volume known, heater inside the tank) still hold.
+      const merged = tankInputSchema.safeParse({ ...current, ...changes })
+      if (!merged.success) throw fromZod(merged.error, 'body')
+      if (changes.siteId && changes.siteId !== tank.siteId) await assertSiteUsable(actor, changes.siteId)
+      const next = merged.data
+      await tank.update({ ...next, ...volumeOf(next), targets: next.targets ?? tank.targets })
+      return publicTank(await find(actor, id))
+    },
+
+    async setArchived(actor: Actor, id: number, archived: boolean) {
+      const tank = await find(actor, id)
+      await tank.update({ archivedAt: archived ? new Date() : null })
+      return publicTank(tank)
+    },
+  }
+}

@@ -1,0 +1,159 @@
+import { Op } from 'sequelize'
+import type { InviteInput, Role } from '../../shared/schemas/auth'
+import type { UserActor } from '../auth/actor'
+import { hashSecret, newSecretToken } from '../auth/tokens'
+import type { AppContext } from '../context'
+import { badRequest, conflict, notFound } from '../errors'
+import { authService } from './auth'
+import { publicUser } from './serializers'
+
+const INVITATION_DAYS = 7
+
+type UserChanges = { role?: Role; active?: boolean; name?: string; siteIds?: number[] }
+
+export function usersService(ctx: AppContext) {
+  const { models, sequelize } = ctx
+  const auth = authService(ctx)
+  const include = [{ association: 'sites', attributes: ['id'] }]
+
+  async function assertSitesInOrganization(organizationId: number, siteIds: number[]) {
+    if (!siteIds.length) return
+    const found = await models.Site.count({ where: { id: siteIds, organizationId } })
+    if (found !== new Set(siteIds).size) throw badRequest('siteIds: unknown site', { siteIds: 'unknown site' })
+  }
+
+  function publicInvitation(inv: InstanceType<typeof models.Invitation>) {
+    return {
+      id: inv.id,
+      email: inv.email,
+      name: inv.name,
+      role: inv.role,
+      siteIds: inv.siteIds,
+      expiresAt: inv.expiresAt.toISOString(),
+      createdAt: inv.createdAt.toISOString(),
+    }
+  }
+
+  async function pendingInvitation(token: string) {
+    const inv = await models.Invitation.findOne({ where: { tokenHash: hashSecret(token) } })
+    if (!inv || inv.acceptedAt || inv.expiresAt.getTime() <= Date.now()) {
+      throw notFound('This invitation is unknown, already used or expired')
+    }
+    return inv
+  }
+
+  return {
+    async list(actor: UserActor) {
+      const users = await models.User.findAll({
+        where: { organizationId: actor.organizationId },
+        include,
+        order: [['name', 'ASC']],
+      })
+      return users.map(publicUser)
+    },
+
+    async update(actor: UserActor, id: number, changes: UserChanges) {
+      return sequelize.transaction(async (transaction) => {
+        // Lock the organization's owners so two owners demoting each other cannot both succeed.
+        const owners = await models.User.findAll({
+          where: { organizationId: actor.organizationId, role: 'owner', active: true },
+          lock: transaction.LOCK.UPDATE,
+          transaction,
+        })
+        const user = await models.User.findOne({ where: { id, organizationId: actor.organizationId }, transaction })
+        if (!user) throw notFound('User not found')
+        const losesOwner =
+          user.role === 'owner' && user.active && ((changes.role && changes.role !== 'owner') || changes.active === false)
+        if (losesOwner && owners.length <= 1) {
+          throw conflict('last_owner', 'The organization must keep at least one active owner')
+        }
+        if (changes.siteIds) await assertSitesInOrganization(actor.organizationId, changes.siteIds)
+        const { siteIds, ...fields } = changes
+        await user.update(fields, { transaction })
+        if (siteIds) {
+          await models.UserSite.destroy({ where: { userId: user.id }, transaction })
+          await models.UserSite.bulkCreate(siteIds.map((siteId) => ({ userId: user.id, siteId })), { transaction })
+        }
+        if (changes.active === false || changes.role) {
+          // A deactivated user or a changed role takes effect at once: their sessions end.
+          await models.Session.update({ revokedAt: new Date() }, { where: { userId: user.id, revokedAt: null }, transaction })
+        }
+        await user.reload({ include, transaction })
+        return publicUser(user)
+      })
+    },
+
+    async listInvitations(actor: UserActor) {
+      const rows = await models.Invitation.findAll({
+        where: { organizationId: actor.organizationId, acceptedAt: null, expiresAt: { [Op.gt]: new Date() } },
+        order: [['createdAt', 'DESC']],
+      })
+      return rows.map(publicInvitation)
+    },
+
+    async invite(actor: UserActor, input: InviteInput) {
+      if (await models.User.findOne({ where: { email: input.email } })) {
+        throw conflict('email_taken', 'Someone already uses this e-mail address', { email: 'already in use' })
+      }
+      const siteIds = input.role === 'viewer' ? (input.siteIds ?? []) : []
+      await assertSitesInOrganization(actor.organizationId, siteIds)
+      const { token, hash } = newSecretToken()
+      const invitation = await models.Invitation.create({
+        organizationId: actor.organizationId,
+        email: input.email,
+        name: input.name,
+        role: input.role,
+        siteIds,
+        tokenHash: hash,
+        invitedBy: actor.userId,
+        expiresAt: new Date(Date.now() + INVITATION_DAYS * 86400_000),
+      })
+      return { invitation: publicInvitation(invitation), link: `/accept-invite?token=${token}` }
+    },
+
+    async revokeInvitation(actor: UserActor, id: number) {
+      const count = await models.Invitation.destroy({ where: { id, organizationId: actor.organizationId, acceptedAt: null } })
+      if (!count) throw notFound('Invitation not found')
+    },
+
+    async describeInvitation(token: string) {
+      const inv = await pendingInvitation(token)
+      const organization = await models.Organization.findByPk(inv.organizationId)
+      return {
+        email: inv.email,
+        name: inv.name,
+        role: inv.role,
+        organizationName: organization?.name ?? '',
+        expiresAt: inv.expiresAt.toISOString(),
+      }
+    },
+
+    async acceptInvitation(token: string, password: string, name?: string) {
+      const user = await sequelize.transaction(async (transaction) => {
+        const inv = await pendingInvitation(token)
+        await inv.reload({ lock: transaction.LOCK.UPDATE, transaction })
+        if (inv.acceptedAt) throw notFound('This invitation is unknown, already used or expired')
+        if (await models.User.findOne({ where: { email: inv.email }, transaction })) {
+          throw conflict('email_taken', 'Someone already uses this e-mail address')
+        }
+        const created = await models.User.create(
+          {
+            organizationId: inv.organizationId,
+            email: inv.email,
+            name: name ?? inv.name,
+            role: inv.role,
+            passwordHash: await auth.hashPassword(password),
+          },
+          { transaction },
+        )
+        if (inv.siteIds.length) {
+          await models.UserSite.bulkCreate(inv.siteIds.map((siteId) => ({ userId: created.id, siteId })), { transaction })
+        }
+        await inv.update({ acceptedAt: new Date() }, { transaction })
+        return created
+      })
+      await user.reload({ include })
+      return auth.openSession(user)
+    },
+  }
+}

@@ -1,0 +1,6 @@
+export * from './schema'
+export * from './types'
+export { evaluate, replay, rebuildState } from './evaluate'
+export type { ReplayResult } from './evaluate'
+export { defaultRulesForTank } from './defaults'
+export type { TankRuleDefaultsInput } from './defaults'

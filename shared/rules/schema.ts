@@ -1,0 +1,107 @@
+import { z } from 'zod'
+import { METRIC_KEYS } from '../metrics/registry'
+
+// A week bounds every duration: longer holds or windows would need more history than the
+// engine keeps in memory for one rule.
+const MAX_MINUTES = 7 * 24 * 60
+
+const metricSchema = z.enum(METRIC_KEYS)
+const finite = z.number().finite()
+const holdMinutesSchema = z.number().min(0).max(MAX_MINUTES)
+const marginSchema = z.number().min(0).max(1000)
+
+export const ruleSeveritySchema = z.enum(['warning', 'alarm'])
+export type RuleSeverity = z.infer<typeof ruleSeveritySchema>
+
+export const aboveSpecSchema = z.object({
+  kind: z.literal('above'),
+  metric: metricSchema,
+  limit: finite,
+  holdMinutes: holdMinutesSchema.default(0),
+  clearMargin: marginSchema.default(0),
+})
+
+export const belowSpecSchema = z.object({
+  kind: z.literal('below'),
+  metric: metricSchema,
+  limit: finite,
+  holdMinutes: holdMinutesSchema.default(0),
+  clearMargin: marginSchema.default(0),
+})
+
+export const outsideSpecSchema = z
+  .object({
+    kind: z.literal('outside'),
+    metric: metricSchema,
+    min: finite,
+    max: finite,
+    holdMinutes: holdMinutesSchema.default(0),
+    clearMargin: marginSchema.default(0),
+  })
+  // A clear band that is empty would leave an incident open for ever.
+  .refine((spec) => spec.max - spec.min > 2 * spec.clearMargin, {
+    message: 'max must exceed min by more than twice the clear margin',
+    path: ['max'],
+  })
+
+export const rateSpecSchema = z.object({
+  kind: z.literal('rate'),
+  metric: metricSchema,
+  maxChange: z.number().positive().finite(),
+  windowMinutes: z.number().positive().max(MAX_MINUTES),
+})
+
+export const quietSpecSchema = z.object({
+  kind: z.literal('quiet'),
+  metric: metricSchema,
+  quietMinutes: z.number().positive().max(MAX_MINUTES),
+})
+
+export const heaterLineSpecSchema = z.object({
+  kind: z.literal('heater_line'),
+  marginCm: marginSchema,
+  holdMinutes: holdMinutesSchema.default(0),
+  clearMargin: marginSchema.default(0.5),
+})
+
+export const lightScheduleSpecSchema = z.object({
+  kind: z.literal('light_schedule'),
+  holdMinutes: holdMinutesSchema,
+  onLux: z.number().positive().finite().default(50),
+})
+
+export const watchRuleSpecSchema = z.discriminatedUnion('kind', [
+  aboveSpecSchema,
+  belowSpecSchema,
+  outsideSpecSchema,
+  rateSpecSchema,
+  quietSpecSchema,
+  heaterLineSpecSchema,
+  lightScheduleSpecSchema,
+])
+
+/** A parsed spec: every default filled in. This is what the evaluator takes. */
+export type WatchRuleSpec = z.output<typeof watchRuleSpecSchema>
+/** What an API client may send: defaulted fields may be left out. */
+export type WatchRuleSpecInput = z.input<typeof watchRuleSpecSchema>
+export type WatchRuleKind = WatchRuleSpec['kind']
+export type SpecOfKind<K extends WatchRuleKind> = Extract<WatchRuleSpec, { kind: K }>
+
+export const watchRuleDraftSchema = z.object({
+  name: z.string().trim().min(1).max(120),
+  severity: ruleSeveritySchema,
+  spec: watchRuleSpecSchema,
+})
+export type WatchRuleDraft = z.output<typeof watchRuleDraftSchema>
+
+/** The metric a spec watches; the two tank-context kinds have a fixed one. */
+export function metricOfSpec(spec: WatchRuleSpec): (typeof METRIC_KEYS)[number] {
+  switch (spec.kind) {
+    case 'heater_line':
+      return 'water_level'
+    case 'light_schedule':
+      return 'light'
+    default:
+      return spec.metric
+  }
+}

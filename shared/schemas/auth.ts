@@ -1,0 +1,61 @@
+import { z } from 'zod'
+
+export const ROLES = ['owner', 'keeper', 'viewer'] as const
+export type Role = (typeof ROLES)[number]
+export const roleSchema = z.enum(ROLES)
+
+export const emailSchema = z.string().trim().toLowerCase().email('not an e-mail address').max(254)
+export const passwordSchema = z.string().min(10, 'at least 10 characters').max(200)
+
+export const signInSchema = z.object({
+  email: emailSchema,
+  password: z.string().min(1, 'required').max(200),
+})
+export type SignInInput = z.infer<typeof signInSchema>
+
+export const changePasswordSchema = z.object({
+  currentPassword: z.string().min(1, 'required').max(200),
+  newPassword: passwordSchema,
+})
+
+export const inviteSchema = z.object({
+  email: emailSchema,
+  name: z.string().trim().min(1, 'required').max(120),
+  role: roleSchema,
+  /** For viewers: the sites they may see; empty or absent means every site. */
+  siteIds: z.array(z.number().int().positive()).max(500).optional(),
+})
+export type InviteInput = z.infer<typeof inviteSchema>
+
+export const acceptInviteSchema = z.object({
+  token: z.string().min(20).max(200),
+  password: passwordSchema,
+  name: z.string().trim().min(1).max(120).optional(),
+})
+
+export const updateUserSchema = z
+  .object({
+    role: roleSchema.optional(),
+    active: z.boolean().optional(),
+    name: z.string().trim().min(1).max(120).optional(),
+    siteIds: z.array(z.number().int().positive()).max(500).optional(),
+  })
+  .refine((v) => Object.keys(v).length > 0, 'nothing to change')
+
+export interface PublicUser {
+  id: number
+  email: string
+  name: string
+  role: Role
+  active: boolean
+  siteIds: number[]
+  organizationId: number
+  createdAt: string
+}
+
+export interface SessionInfo {
+  token: string
+  expiresAt: string
+  user: PublicUser
+  organization: { id: number; name: string }
+}

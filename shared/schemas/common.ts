@@ -1,0 +1,34 @@
+import { z } from 'zod'
+
+export const idSchema = z.coerce.number().int().positive()
+export const idParamsSchema = z.object({ id: idSchema })
+
+/** `HH:MM`, 24-hour local wall-clock time. */
+export const clockTimeSchema = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'use HH:MM (24-hour)')
+
+export const timeZoneSchema = z.string().min(1).refine((zone) => {
+  try {
+    new Intl.DateTimeFormat('en', { timeZone: zone })
+    return true
+  } catch {
+    return false
+  }
+}, 'unknown time zone')
+
+export const pageQuerySchema = z.object({
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(200).default(25),
+  search: z.string().trim().max(100).optional(),
+})
+
+/** The one error shape every API error answers with. */
+export interface ApiErrorBody {
+  error: { code: string; message: string; fields?: Record<string, string>; retryAfterSeconds?: number }
+}
+
+export interface Page<T> {
+  items: T[]
+  total: number
+  page: number
+  pageSize: number
+}

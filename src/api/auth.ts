@@ -1,0 +1,44 @@
+import type { PublicUser, Role, SessionInfo, SignInInput } from '@shared/schemas/auth'
+import { http } from './client'
+
+export interface Organization {
+  id: number
+  name: string
+}
+
+export interface Me {
+  user: PublicUser
+  organization: Organization
+}
+
+export interface InvitationPreview {
+  email: string
+  name: string
+  role: Role
+  organizationName: string
+  expiresAt: string
+}
+
+export async function signIn(input: SignInInput): Promise<SessionInfo> {
+  return (await http.post<SessionInfo>('/auth/sign-in', input)).data
+}
+
+export async function signOut(): Promise<void> {
+  await http.post('/auth/sign-out')
+}
+
+export async function fetchMe(): Promise<Me> {
+  return (await http.get<Me>('/auth/me')).data
+}
+
+export async function changePassword(input: { currentPassword: string; newPassword: string }): Promise<void> {
+  await http.post('/auth/password', input)
+}
+
+export async function fetchInvitation(token: string): Promise<InvitationPreview> {
+  return (await http.get<InvitationPreview>(`/invitations/${encodeURIComponent(token)}`)).data
+}
+
+export async function acceptInvitation(input: { token: string; password: string; name?: string }): Promise<SessionInfo> {
+  return (await http.post<SessionInfo>('/invitations/accept', input)).data
+}

@@ -1,0 +1,54 @@
+import type { Role } from '@shared/schemas/auth'
+import { METRICS, type MetricKey } from '@shared/metrics/registry'
+
+export const ROLE_LABELS: Record<Role, string> = {
+  owner: 'Owner',
+  keeper: 'Keeper',
+  viewer: 'Viewer',
+}
+
+export const ROLE_HINTS: Record<Role, string> = {
+  owner: 'Everything, including sites and people',
+  keeper: 'Adds and edits tanks, later test-kit entries and care',
+  viewer: 'Reads only, optionally limited to some sites',
+}
+
+export const SHAPE_LABELS = {
+  rectangular: 'Rectangular',
+  cylinder: 'Cylinder',
+  bow_front: 'Bow front',
+} as const
+
+const numberFormats = new Map<number, Intl.NumberFormat>()
+
+/** Fixed decimals, grouped thousands; a dash when there is nothing to show. */
+export function formatNumber(value: number | null | undefined, decimals = 0): string {
+  if (value == null || !Number.isFinite(value)) return '—'
+  let format = numberFormats.get(decimals)
+  if (!format) {
+    format = new Intl.NumberFormat('en', { minimumFractionDigits: decimals, maximumFractionDigits: decimals })
+    numberFormats.set(decimals, format)
+  }
+  return format.format(value)
+}
+
+export function metricLabel(key: MetricKey): string {
+  return METRICS[key].label
+}
+
+export function metricUnit(key: MetricKey): string {
+  return METRICS[key].unitLabel
+}
+
+export function formatBand(key: MetricKey, band: { min: number; max: number } | undefined): string {
+  if (!band) return '—'
+  const precision = METRICS[key].precision
+  const unit = METRICS[key].unitLabel
+  const suffix = unit === 'pH' ? '' : ` ${unit}`
+  return `${formatNumber(band.min, precision)} – ${formatNumber(band.max, precision)}${suffix}`
+}
+
+export function formatDate(iso: string | null | undefined): string {
+  if (!iso) return '—'
+  return new Date(iso).toLocaleString('en', { dateStyle: 'medium', timeStyle: 'short' })
+}

@@ -1,0 +1,68 @@
+import '@fontsource/roboto/400.css'
+import '@fontsource/roboto/500.css'
+import '@fontsource/roboto/700.css'
+import '@fontsource/roboto-mono/400.css'
+import '@fontsource/roboto-mono/500.css'
+import '@mdi/font/css/materialdesignicons.css'
+import 'vuetify/styles'
+import { createVuetify, type ThemeDefinition } from 'vuetify'
+import { aliases, mdi } from 'vuetify/iconsets/mdi'
+import { initialThemeName } from '@/composables/useThemePreference'
+
+// Tank-state colours (steady, watch, alarm, quiet) are theme colours so later screens can use
+// `color="alarm"` and get the right shade for light and dark alike.
+export const tankwardenLight: ThemeDefinition = {
+  dark: false,
+  colors: {
+    background: '#F3F6F6',
+    surface: '#FFFFFF',
+    'surface-variant': '#DDE5E6',
+    'on-surface-variant': '#1D2B2E',
+    primary: '#11606B',
+    secondary: '#3E4A61',
+    error: '#B3261E',
+    warning: '#B7791F',
+    success: '#2F7D5B',
+    info: '#3A6EA5',
+    steady: '#2F7D5B',
+    watch: '#B7791F',
+    alarm: '#B3261E',
+    quiet: '#5D5F86',
+  },
+}
+
+// Lighter tints on dark surfaces keep the same meanings at comparable contrast.
+export const tankwardenDark: ThemeDefinition = {
+  dark: true,
+  colors: {
+    background: '#0E1517',
+    surface: '#162124',
+    'surface-variant': '#2A3A3E',
+    'on-surface-variant': '#DCE6E8',
+    primary: '#5CB9C4',
+    secondary: '#A9B6CF',
+    error: '#F28B82',
+    warning: '#E5AE55',
+    success: '#6CC69A',
+    info: '#8DB8E8',
+    steady: '#6CC69A',
+    watch: '#E5AE55',
+    alarm: '#F28B82',
+    quiet: '#A7A9DB',
+  },
+}
+
+export const vuetify = createVuetify({
+  icons: { defaultSet: 'mdi', aliases, sets: { mdi } },
+  theme: {
+    defaultTheme: initialThemeName(),
+    themes: { tankwardenLight, tankwardenDark },
+  },
+  defaults: {
+    VTextField: { variant: 'outlined', density: 'comfortable' },
+    VSelect: { variant: 'outlined', density: 'comfortable' },
+    VAutocomplete: { variant: 'outlined', density: 'comfortable' },
+    VTextarea: { variant: 'outlined', density: 'comfortable' },
+    VCard: { variant: 'flat', border: true },
+  },
+})

@@ -1,0 +1,71 @@
+import type { RouteRecordRaw } from 'vue-router'
+import type { Role } from '@shared/schemas/auth'
+
+declare module 'vue-router' {
+  interface RouteMeta {
+    /** Reachable without signing in. */
+    public?: boolean
+    /** Only these roles may open the route; absent means every signed-in role. */
+    roles?: Role[]
+    title?: string
+  }
+}
+
+const EDITORS: Role[] = ['owner', 'keeper']
+
+export const routes: RouteRecordRaw[] = [
+  {
+    path: '/sign-in',
+    name: 'sign-in',
+    component: () => import('@/views/SignInView.vue'),
+    meta: { public: true, title: 'Sign in' },
+  },
+  {
+    path: '/accept-invite',
+    name: 'accept-invite',
+    component: () => import('@/views/AcceptInviteView.vue'),
+    meta: { public: true, title: 'Join your team' },
+  },
+  {
+    path: '/',
+    component: () => import('@/components/layout/AppShell.vue'),
+    children: [
+      { path: '', redirect: { name: 'tanks' } },
+      { path: 'tanks', name: 'tanks', component: () => import('@/views/TanksView.vue'), meta: { title: 'Tanks' } },
+      {
+        path: 'tanks/new',
+        name: 'tank-new',
+        component: () => import('@/views/TankEditView.vue'),
+        meta: { title: 'New tank', roles: EDITORS },
+      },
+      {
+        path: 'tanks/:id(\\d+)',
+        name: 'tank',
+        component: () => import('@/views/TankView.vue'),
+        props: (route) => ({ id: Number(route.params.id) }),
+        meta: { title: 'Tank' },
+      },
+      {
+        path: 'tanks/:id(\\d+)/edit',
+        name: 'tank-edit',
+        component: () => import('@/views/TankEditView.vue'),
+        props: (route) => ({ id: Number(route.params.id) }),
+        meta: { title: 'Edit tank', roles: EDITORS },
+      },
+      { path: 'sites', name: 'sites', component: () => import('@/views/SitesView.vue'), meta: { title: 'Sites' } },
+      {
+        path: 'users',
+        name: 'users',
+        component: () => import('@/views/UsersView.vue'),
+        meta: { title: 'People', roles: ['owner'] },
+      },
+      { path: 'account', name: 'account', component: () => import('@/views/AccountView.vue'), meta: { title: 'Account' } },
+      {
+        path: ':pathMatch(.*)*',
+        name: 'not-found',
+        component: () => import('@/views/NotFoundView.vue'),
+        meta: { title: 'Not found' },
+      },
+    ],
+  },
+]

@@ -1,0 +1,95 @@
+import { acceptHMRUpdate, defineStore } from 'pinia'
+import { computed, ref } from 'vue'
+import type { PublicUser, SessionInfo } from '@shared/schemas/auth'
+import * as authApi from '@/api/auth'
+import type { Organization } from '@/api/auth'
+import { provideToken, storeToken, storedToken } from '@/api/session'
+
+export const useAuthStore = defineStore('auth', () => {
+  const token = ref<string | null>(storedToken())
+  const expiresAt = ref<string | null>(null)
+  const user = ref<PublicUser | null>(null)
+  const organization = ref<Organization | null>(null)
+  let restoring: Promise<void> | null = null
+
+  provideToken(() => token.value)
+
+  const role = computed(() => user.value?.role ?? null)
+  const isSignedIn = computed(() => token.value != null && user.value != null)
+  const isOwner = computed(() => role.value === 'owner')
+  const canEdit = computed(() => role.value === 'owner' || role.value === 'keeper')
+
+  function applySession(session: SessionInfo) {
+    token.value = session.token
+    expiresAt.value = session.expiresAt
+    user.value = session.user
+    organization.value = session.organization
+    storeToken(session.token)
+  }
+
+  function clearSession() {
+    token.value = null
+    expiresAt.value = null
+    user.value = null
+    organization.value = null
+    restoring = null
+    storeToken(null)
+  }
+
+  async function signIn(email: string, password: string) {
+    applySession(await authApi.signIn({ email, password }))
+  }
+
+  async function acceptInvitation(inviteToken: string, password: string, name?: string) {
+    applySession(await authApi.acceptInvitation({ token: inviteToken, password, name }))
+  }
+
+  async function signOut() {
+    try {
+      if (token.value) await authApi.signOut()
+    } catch {
+      // The session ends locally whatever the server says; a dead token is harmless.
+    } finally {
+      clearSession()
+    }
+  }
+
+  /** Loads the user behind a remembered token, once; a stale token is dropped. */
+  function restore(): Promise<void> {
+    if (!token.value || user.value) return Promise.resolve()
+    restoring ??= authApi
+      .fetchMe()
+      .then((me) => {
+        user.value = me.user
+        organization.value = me.organization
+      })
+      .catch(() => clearSession())
+      .finally(() => {
+        restoring = null
+      })
+    return restoring
+  }
+
+  async function changePassword(currentPassword: string, newPassword: string) {
+    await authApi.changePassword({ currentPassword, newPassword })
+  }
+
+  return {
+    token,
+    expiresAt,
+    user,
+    organization,
+    role,
+    isSignedIn,
+    isOwner,
+    canEdit,
+    signIn,
+    signOut,
+    acceptInvitation,
+    restore,
+    clearSession,
+    changePassword,
+  }
+})
+
+if (import.meta.hot) import.meta.hot.accept(acceptHMRUpdate(useAuthStore, import.meta.hot))

@@ -1,0 +1,52 @@
+import { acceptHMRUpdate, defineStore } from 'pinia'
+import { ref } from 'vue'
+import type { PublicTank, TankInput, TankUpdate } from '@shared/schemas/tanks'
+import * as tanksApi from '@/api/tanks'
+import type { TankListParams } from '@/api/tanks'
+
+export const useTanksStore = defineStore('tanks', () => {
+  const items = ref<PublicTank[]>([])
+  const total = ref(0)
+  const loading = ref(false)
+  const lastQuery = ref<TankListParams>({})
+  const current = ref<PublicTank | null>(null)
+  // Only the newest list request may write; a slow older answer must not overwrite it.
+  let listRequest = 0
+
+  async function fetchPage(query: TankListParams) {
+    const ticket = ++listRequest
+    lastQuery.value = { ...query }
+    loading.value = true
+    try {
+      const page = await tanksApi.listTanks(query)
+      if (ticket !== listRequest) return
+      items.value = page.items
+      total.value = page.total
+    } finally {
+      if (ticket === listRequest) loading.value = false
+    }
+  }
+
+  async function fetchTank(id: number) {
+    current.value = current.value?.id === id ? current.value : null
+    const tank = await tanksApi.getTank(id)
+    current.value = tank
+    return tank
+  }
+
+  function remember(tank: PublicTank) {
+    current.value = tank
+    const index = items.value.findIndex((t) => t.id === tank.id)
+    if (index !== -1) items.value.splice(index, 1, tank)
+    return tank
+  }
+
+  const create = async (input: TankInput) => remember(await tanksApi.createTank(input))
+  const update = async (id: number, changes: TankUpdate) => remember(await tanksApi.updateTank(id, changes))
+  const archive = async (id: number) => remember(await tanksApi.archiveTank(id))
+  const unarchive = async (id: number) => remember(await tanksApi.unarchiveTank(id))
+
+  return { items, total, loading, lastQuery, current, fetchPage, fetchTank, create, update, archive, unarchive }
+})
+
+if (import.meta.hot) import.meta.hot.accept(acceptHMRUpdate(useTanksStore, import.meta.hot))

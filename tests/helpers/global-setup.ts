@@ -1,0 +1,19 @@
+import pg from 'pg'
+import { createSequelize } from '../../server/db/sequelize'
+import { migrate } from '../../server/db/migrate'
+import { TEMPLATE_DB, adminUrl, databaseUrl } from './db-urls'
+
+/** Once per run: a migrated template database that every test file clones. */
+export default async function setup() {
+  if (!process.env.DATABASE_URL) {
+    throw new Error('DATABASE_URL is not set: run the suites through `npm test`, which starts a throwaway PostgreSQL')
+  }
+  const admin = new pg.Client({ connectionString: adminUrl() })
+  await admin.connect()
+  await admin.query(`DROP DATABASE IF EXISTS ${TEMPLATE_DB}`)
+  await admin.query(`CREATE DATABASE ${TEMPLATE_DB}`)
+  await admin.end()
+  const sequelize = createSequelize(databaseUrl(TEMPLATE_DB))
+  await migrate(sequelize)
+  await sequelize.close()
+}
