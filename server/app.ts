@@ -5,6 +5,7 @@ import helmet from 'helmet'
 import { pinoHttp } from 'pino-http'
 import type { AppContext } from './context'
 import { errorHandler, notFoundHandler } from './http/errors'
+import { MAX_PAYLOAD_BYTES } from '../shared/ingest/contract'
 import { apiRouter } from './routes'
 
 export const JSON_BODY_LIMIT = '1mb'
@@ -30,6 +31,8 @@ export function createApp(ctx: AppContext) {
   if (ctx.config.logLevel !== 'silent') {
     app.use(pinoHttp({ logger: ctx.logger, autoLogging: { ignore: (req) => req.url === '/api/v1/health' } }))
   }
+  // Device batches have their own, documented size limit; everything else the general one.
+  app.use('/api/v1/readings', express.json({ limit: MAX_PAYLOAD_BYTES }))
   app.use('/api/v1', express.json({ limit: JSON_BODY_LIMIT }), apiRouter(ctx))
   app.use('/api', notFoundHandler)
 

@@ -1,12 +1,32 @@
 import type { Config } from './config'
 import type { AppContext } from './context'
 import { createSequelize } from './db/sequelize'
+import { createEventBus } from './events'
+import { BatchWriter, type BatchWriterOptions } from './ingest/batch-writer'
+import { DeviceStatusTracker } from './ingest/device-status'
+import { createIngest } from './ingest/ingest-service'
 import { createLogger } from './logger'
 import { initModels } from './models'
 
-/** Builds the shared context (database, models, logger) from a config. */
-export function createContext(config: Config): AppContext {
+/** Builds the shared context (database, models, logger, events, ingest) from a config. */
+export function createContext(config: Config, options: { writer?: BatchWriterOptions } = {}): AppContext {
   const sequelize = createSequelize(config.databaseUrl)
   const models = initModels(sequelize)
-  return { config, sequelize, models, logger: createLogger(config.logLevel) }
+  const logger = createLogger(config.logLevel)
+  const events = createEventBus()
+  const writer = new BatchWriter(sequelize, logger, {
+    ...options.writer,
+    onStored: (rows) => events.emit('readings.stored', rows),
+  })
+  const status = new DeviceStatusTracker(sequelize, logger)
+  const ingest = createIngest({ writer, status, limits: config.readingLimits })
+  return { config, sequelize, models, logger, events, readings: { writer, status, ingest } }
+}
+
+/** Writes what is still buffered and closes the database. */
+export async function closeContext(ctx: AppContext) {
+  await ctx.readings.writer.drain()
+  ctx.readings.status.stop()
+  await ctx.readings.status.flush()
+  await ctx.sequelize.close()
 }

@@ -21,6 +21,13 @@ const envSchema = z.object({
   SIGN_IN_LIMIT: z.coerce.number().int().positive().default(10),
   SIGN_IN_WINDOW_MINUTES: z.coerce.number().positive().default(15),
   SERVE_CLIENT: boolish.default(true),
+  MQTT_URL: z.string().url().optional(),
+  MQTT_HOST: z.string().default('127.0.0.1'),
+  MQTT_PORT: z.coerce.number().int().min(0).max(65535).default(1883),
+  MQTT_WS_PORT: z.coerce.number().int().min(0).max(65535).optional(),
+  MAX_FUTURE_SECONDS: z.coerce.number().int().min(0).max(86400).default(300),
+  MAX_READING_AGE_DAYS: z.coerce.number().int().min(1).max(3650).default(400),
+  RAW_RETENTION_DAYS: z.coerce.number().int().min(1).max(3650).default(90),
   BCRYPT_ROUNDS: z.coerce.number().int().min(4).max(15).default(11),
 })
 
@@ -39,6 +46,9 @@ export type Config = Readonly<{
   signInWindowMinutes: number
   serveClient: boolean
   bcryptRounds: number
+  mqtt: { url?: string; host: string; port: number; wsPort?: number }
+  readingLimits: { maxFutureSeconds: number; maxAgeDays: number }
+  rawRetentionDays: number
 }>
 
 /** The JWT secret is generated once and kept in the data folder when not configured. */
@@ -74,6 +84,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     signInWindowMinutes: e.SIGN_IN_WINDOW_MINUTES,
     serveClient: e.SERVE_CLIENT,
     bcryptRounds: e.BCRYPT_ROUNDS,
+    mqtt: { url: e.MQTT_URL, host: e.MQTT_HOST, port: e.MQTT_PORT, wsPort: e.MQTT_WS_PORT },
+    readingLimits: { maxFutureSeconds: e.MAX_FUTURE_SECONDS, maxAgeDays: e.MAX_READING_AGE_DAYS },
+    rawRetentionDays: e.RAW_RETENTION_DAYS,
   })
 }
 
@@ -93,6 +106,9 @@ export function testConfig(overrides: Partial<Config> & { databaseUrl: string })
     signInWindowMinutes: 15,
     serveClient: false,
     bcryptRounds: 4,
+    mqtt: { host: '127.0.0.1', port: 0 },
+    readingLimits: { maxFutureSeconds: 300, maxAgeDays: 400 },
+    rawRetentionDays: 90,
     ...overrides,
   })
 }

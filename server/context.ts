@@ -1,5 +1,9 @@
 import type { Sequelize } from 'sequelize'
 import type { Config } from './config'
+import type { EventBus } from './events'
+import type { BatchWriter } from './ingest/batch-writer'
+import type { DeviceStatusTracker } from './ingest/device-status'
+import type { Ingest } from './ingest/ingest-service'
 import type { Logger } from './logger'
 import type { Models } from './models'
 
@@ -9,4 +13,6 @@ export type AppContext = {
   sequelize: Sequelize
   models: Models
   logger: Logger
+  events: EventBus
+  readings: { writer: BatchWriter; status: DeviceStatusTracker; ingest: Ingest }
 }

@@ -1,37 +1,20 @@
-import { createServer } from 'node:http'
 import { loadConfig } from './config'
-import { createApp } from './app'
-import { createContext } from './bootstrap'
-import { migrate } from './db/migrate'
-import { seedDemoIfEmpty, DEMO_SIGN_INS } from './seeders/demo'
+import { DEMO_SIGN_INS } from './seeders/demo'
+import { startServer } from './server'
 
-/** The composition root: config → database → migrations → demo → HTTP, with a clean shutdown. */
+/** The process entry point: config from the environment, start, report readiness, stop on a signal. */
 async function main() {
   const config = loadConfig()
-  const ctx = createContext(config)
-  const { logger, sequelize } = ctx
-  await sequelize.authenticate()
-  const applied = await migrate(sequelize)
-  if (applied.length) logger.info({ applied }, 'migrations applied')
-  if (config.seedDemo && (await seedDemoIfEmpty(ctx))) {
-    logger.info('demo scenario seeded')
+  const running = await startServer(config)
+  if (process.send) {
+    process.send({ type: 'ready', port: running.port, mqttPort: running.mqttPort, demo: config.seedDemo ? DEMO_SIGN_INS : [] })
   }
-
-  const server = createServer(createApp(ctx))
-  await new Promise<void>((resolve) => server.listen(config.port, config.host, resolve))
-  const address = server.address()
-  const port = typeof address === 'object' && address ? address.port : config.port
-  logger.info({ port }, 'Tankwarden is listening')
-  if (process.send) process.send({ type: 'ready', port, demo: config.seedDemo ? DEMO_SIGN_INS : [] })
-
   let stopping = false
   const stop = async (signal: string) => {
     if (stopping) return
     stopping = true
-    logger.info({ signal }, 'shutting down')
-    server.closeAllConnections?.()
-    await new Promise((resolve) => server.close(resolve))
-    await sequelize.close()
+    running.ctx.logger.info({ signal }, 'shutting down')
+    await running.stop()
     process.exit(0)
   }
   process.on('SIGINT', () => void stop('SIGINT'))

@@ -1,4 +1,5 @@
 import type { Role } from '../../shared/schemas/auth'
+import type { DeviceActor } from './device-tokens'
 
 /** Who is making a request. Device and wall-display actors join this union in later work. */
 export type UserActor = {
@@ -20,6 +21,7 @@ declare global {
     }
     interface Request {
       actor?: Actor
+      device?: DeviceActor
     }
   }
 }

@@ -2,6 +2,7 @@ import type { RequestHandler } from 'express'
 import type { Passport } from 'passport'
 import { forbidden, unauthenticated } from '../errors'
 import type { Actor } from './actor'
+import type { DeviceActor } from './device-tokens'
 import { roleAllows, type Permission } from './permissions'
 
 /** Requires a valid user token; answers 401 in the API's error shape otherwise. */
@@ -27,4 +28,16 @@ export function allow(permission: Permission): RequestHandler {
 export function actorOf(req: { actor?: Actor }): Actor {
   if (!req.actor) throw unauthenticated()
   return req.actor
+}
+
+/** Requires a device token (never a user token); sets `req.device`. */
+export function authenticateDevice(passport: InstanceType<typeof Passport>): RequestHandler {
+  return (req, res, next) => {
+    passport.authenticate('device-token', { session: false }, (error: unknown, device: DeviceActor | false) => {
+      if (error) return next(error)
+      if (!device) return next(unauthenticated('A valid device token is required'))
+      req.device = device
+      next()
+    })(req, res, next)
+  }
 }

@@ -3,10 +3,11 @@ import { Strategy as BearerStrategy } from 'passport-http-bearer'
 import type { Models } from '../models'
 import type { Actor } from './actor'
 import { verifyAccessToken } from './tokens'
+import { deviceFromToken } from './device-tokens'
 
 /**
  * One Passport instance per app. Each credential kind is its own named strategy:
- * 'user-jwt' now; device tokens and wall-display credentials slot in beside it.
+ * 'user-jwt' for people, 'device-token' for sensor nodes; wall-display credentials slot in beside them.
  */
 export function createPassport(models: Models, jwtSecret: string) {
   const passport = new Passport()
@@ -15,6 +16,16 @@ export function createPassport(models: Models, jwtSecret: string) {
     new BearerStrategy(async (token, done) => {
       try {
         done(null, (await userActorFromToken(models, jwtSecret, token)) ?? false)
+      } catch (error) {
+        done(error as Error)
+      }
+    }),
+  )
+  passport.use(
+    'device-token',
+    new BearerStrategy(async (token, done) => {
+      try {
+        done(null, (await deviceFromToken(models, token)) ?? false)
       } catch (error) {
         done(error as Error)
       }

@@ -7,6 +7,7 @@ export const PERMISSIONS = {
   'tanks.write': ['owner', 'keeper'],
   'tanks.archive': ['owner'],
   'users.manage': ['owner'],
+  'devices.manage': ['owner'],
 } as const satisfies Record<string, readonly Role[]>
 
 export type Permission = keyof typeof PERMISSIONS

@@ -8,3 +8,13 @@ export function parse<S extends z.ZodType>(schema: S, req: Request, where: 'body
   if (!result.success) throw fromZod(result.error, where)
   return result.data
 }
+
+/**
+ * For PATCH bodies: zod 4 fills `.default()` values even inside `.partial()`, so a body naming one
+ * field would otherwise reset every defaulted field. Only the keys the client sent are kept.
+ */
+export function parseChanges<S extends z.ZodType>(schema: S, req: Request): Partial<z.infer<S>> {
+  const data = parse(schema, req, 'body') as Record<string, unknown>
+  const sent: object = req.body && typeof req.body === 'object' ? req.body : {}
+  return Object.fromEntries(Object.entries(data).filter(([key]) => Object.hasOwn(sent, key))) as Partial<z.infer<S>>
+}

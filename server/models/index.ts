@@ -6,15 +6,18 @@ import { Session } from './session'
 import { Invitation } from './invitation'
 import { Site } from './site'
 import { Tank } from './tank'
+import { Device } from './device'
 
-export { Organization, User, UserSite, Session, Invitation, Site, Tank }
+export { Organization, User, UserSite, Session, Invitation, Site, Tank, Device }
 
 /** Binds every model to this Sequelize instance and declares the associations, in one place. */
 export function initModels(sequelize: Sequelize) {
-  for (const model of [Organization, User, UserSite, Session, Invitation, Site, Tank]) model.initModel(sequelize)
+  for (const model of [Organization, User, UserSite, Session, Invitation, Site, Tank, Device]) model.initModel(sequelize)
   User.belongsToMany(Site, { through: UserSite, as: 'sites', foreignKey: 'userId', otherKey: 'siteId' })
   Tank.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
   Site.hasMany(Tank, { as: 'tanks', foreignKey: 'siteId' })
-  return { Organization, User, UserSite, Session, Invitation, Site, Tank }
+  Device.belongsTo(Tank, { as: 'tank', foreignKey: 'tankId' })
+  Tank.hasMany(Device, { as: 'devices', foreignKey: 'tankId' })
+  return { Organization, User, UserSite, Session, Invitation, Site, Tank, Device }
 }
 export type Models = ReturnType<typeof initModels>

@@ -1,8 +1,10 @@
 import { Router } from 'express'
 import { createPassport } from '../auth/passport'
-import { authenticate } from '../auth/middleware'
+import { authenticate, authenticateDevice } from '../auth/middleware'
 import type { AppContext } from '../context'
 import { authRouter } from './auth'
+import { devicesRouter } from './devices'
+import { readingsRouter } from './readings'
 import { invitationsRouter } from './invitations'
 import { sitesRouter } from './sites'
 import { tanksRouter } from './tanks'
@@ -25,5 +27,7 @@ export function apiRouter(ctx: AppContext) {
   router.use('/users', requireUser, usersRouter(ctx))
   router.use('/sites', requireUser, sitesRouter(ctx))
   router.use('/tanks', requireUser, tanksRouter(ctx))
+  router.use('/devices', requireUser, devicesRouter(ctx))
+  router.use('/readings', authenticateDevice(passport), readingsRouter(ctx))
   return router
 }

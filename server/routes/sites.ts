@@ -3,7 +3,7 @@ import { idParamsSchema } from '../../shared/schemas/common'
 import { siteInputSchema, siteListQuerySchema, siteUpdateSchema } from '../../shared/schemas/sites'
 import { actorOf, allow } from '../auth/middleware'
 import type { AppContext } from '../context'
-import { parse } from '../http/validate'
+import { parse, parseChanges } from '../http/validate'
 import { sitesService } from '../services/sites'
 
 export function sitesRouter(ctx: AppContext) {
@@ -22,7 +22,7 @@ export function sitesRouter(ctx: AppContext) {
   })
   router.patch('/:id', allow('sites.write'), async (req, res) => {
     const { id } = parse(idParamsSchema, req, 'params')
-    res.json(await sites.update(actorOf(req), id, parse(siteUpdateSchema, req, 'body')))
+    res.json(await sites.update(actorOf(req), id, parseChanges(siteUpdateSchema, req)))
   })
   router.post('/:id/archive', allow('sites.write'), async (req, res) => {
     res.json(await sites.setArchived(actorOf(req), parse(idParamsSchema, req, 'params').id, true))

@@ -3,7 +3,7 @@ import { idParamsSchema } from '../../shared/schemas/common'
 import { tankInputSchema, tankListQuerySchema, tankUpdateSchema } from '../../shared/schemas/tanks'
 import { actorOf, allow } from '../auth/middleware'
 import type { AppContext } from '../context'
-import { parse } from '../http/validate'
+import { parse, parseChanges } from '../http/validate'
 import { tanksService } from '../services/tanks'
 
 export function tanksRouter(ctx: AppContext) {
@@ -21,7 +21,7 @@ export function tanksRouter(ctx: AppContext) {
   })
   router.patch('/:id', allow('tanks.write'), async (req, res) => {
     const { id } = parse(idParamsSchema, req, 'params')
-    res.json(await tanks.update(actorOf(req), id, parse(tankUpdateSchema, req, 'body')))
+    res.json(await tanks.update(actorOf(req), id, parseChanges(tankUpdateSchema, req)))
   })
   router.post('/:id/archive', allow('tanks.archive'), async (req, res) => {
     res.json(await tanks.setArchived(actorOf(req), parse(idParamsSchema, req, 'params').id, true))

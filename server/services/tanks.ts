@@ -28,10 +28,25 @@ function withDirection(order: Order, desc: boolean): Order {
   }) as Order
 }
 
+/** Geometry the schema lets through but the formula refuses (a bow deeper than half the length) is bad input, not a 500. */
+function volumeFromDimensions(dimensions: NonNullable<TankInput['dimensions']>) {
+  let litres: number
+  try {
+    litres = Math.round(grossVolumeLitres(dimensions) * 10) / 10
+  } catch (error) {
+    if (!(error instanceof RangeError)) throw error
+    const field = `dimensions.${/^\w+/.exec(error.message)?.[0] ?? 'shape'}`
+    throw badRequest(`${field}: ${error.message}`, { [field]: error.message })
+  }
+  // Stored to 0.1 L, and the table refuses a volume of zero.
+  if (litres <= 0) throw badRequest('dimensions: holds less than 0.05 L', { dimensions: 'holds less than 0.05 L' })
+  return litres
+}
+
 /** The stored volume: computed from inside dimensions when given, else the entered figure. */
 function volumeOf(input: Pick<TankInput, 'dimensions' | 'volumeLitres'>) {
   if (input.dimensions) {
-    return { volumeLitres: Math.round(grossVolumeLitres(input.dimensions) * 10) / 10, volumeSource: 'dimensions' as const }
+    return { volumeLitres: volumeFromDimensions(input.dimensions), volumeSource: 'dimensions' as const }
   }
   return { volumeLitres: input.volumeLitres as number, volumeSource: 'entered' as const }
 }

@@ -69,12 +69,13 @@ export function usersService(ctx: AppContext) {
         }
         if (changes.siteIds) await assertSitesInOrganization(actor.organizationId, changes.siteIds)
         const { siteIds, ...fields } = changes
+        const roleChanged = changes.role !== undefined && changes.role !== user.role
         await user.update(fields, { transaction })
         if (siteIds) {
           await models.UserSite.destroy({ where: { userId: user.id }, transaction })
           await models.UserSite.bulkCreate(siteIds.map((siteId) => ({ userId: user.id, siteId })), { transaction })
         }
-        if (changes.active === false || changes.role) {
+        if (changes.active === false || roleChanged) {
           // A deactivated user or a changed role takes effect at once: their sessions end.
           await models.Session.update({ revokedAt: new Date() }, { where: { userId: user.id, revokedAt: null }, transaction })
         }

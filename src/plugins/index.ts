@@ -4,6 +4,7 @@ import { vuetify } from './vuetify'
 import { router } from '@/router'
 import { onUnauthorized } from '@/api/session'
 import { useAuthStore } from '@/stores/auth'
+import { resetSessionStores } from '@/stores/session-reset'
 
 export function registerPlugins(app: App) {
   const pinia = createPinia()
@@ -14,6 +15,7 @@ export function registerPlugins(app: App) {
   // An expired or revoked session ends here, whichever request noticed it first.
   onUnauthorized(() => {
     useAuthStore(pinia).clearSession()
+    resetSessionStores(pinia)
     const current = router.currentRoute.value
     if (current.meta.public) return
     void router.replace({ name: 'sign-in', query: { redirect: current.fullPath } })

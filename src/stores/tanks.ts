@@ -28,10 +28,16 @@ export const useTanksStore = defineStore('tanks', () => {
   }
 
   async function fetchTank(id: number) {
-    current.value = current.value?.id === id ? current.value : null
-    const tank = await tanksApi.getTank(id)
-    current.value = tank
-    return tank
+    if (current.value?.id !== id) current.value = null
+    try {
+      const tank = await tanksApi.getTank(id)
+      current.value = tank
+      return tank
+    } catch (error) {
+      // A tank that is gone or no longer visible must not linger on screen.
+      if (current.value?.id === id) current.value = null
+      throw error
+    }
   }
 
   function remember(tank: PublicTank) {
@@ -46,7 +52,16 @@ export const useTanksStore = defineStore('tanks', () => {
   const archive = async (id: number) => remember(await tanksApi.archiveTank(id))
   const unarchive = async (id: number) => remember(await tanksApi.unarchiveTank(id))
 
-  return { items, total, loading, lastQuery, current, fetchPage, fetchTank, create, update, archive, unarchive }
+  function $reset() {
+    listRequest++
+    items.value = []
+    total.value = 0
+    loading.value = false
+    lastQuery.value = {}
+    current.value = null
+  }
+
+  return { items, total, loading, lastQuery, current, fetchPage, fetchTank, create, update, archive, unarchive, $reset }
 })
 
 if (import.meta.hot) import.meta.hot.accept(acceptHMRUpdate(useTanksStore, import.meta.hot))

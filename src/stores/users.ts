@@ -39,7 +39,12 @@ export const useUsersStore = defineStore('users', () => {
     invitations.value = invitations.value.filter((invitation) => invitation.id !== id)
   }
 
-  return { users, invitations, loading, load, update, invite, revoke }
+  function $reset() {
+    users.value = []
+    invitations.value = []
+  }
+
+  return { users, invitations, loading, load, update, invite, revoke, $reset }
 })
 
 if (import.meta.hot) import.meta.hot.accept(acceptHMRUpdate(useUsersStore, import.meta.hot))

@@ -16,7 +16,7 @@ const num = (value: number): string => String(Number(value.toFixed(4)))
 const minute = (ms: number): string => num((ms - T0) / MIN)
 
 /** Events written compactly with minutes from T0, e.g. `trip@10 28.5 since@0`. */
-export function describe(event: RuleEvent): string {
+export function describeEvent(event: RuleEvent): string {
   switch (event.type) {
     case 'trip':
       return `trip@${minute(event.at)} ${num(event.value)} since@${minute(event.since)}`
@@ -43,7 +43,7 @@ export function run(rule: WatchRuleSpec, steps: Step[], ctx: RuleContext = {}, s
     const result = evaluate(rule, state, toInput(step), ctx)
     state = result.state
     states.push(state)
-    if (result.event) events.push(describe(result.event))
+    if (result.event) events.push(describeEvent(result.event))
   }
   return { events, state, states }
 }

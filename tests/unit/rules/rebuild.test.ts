@@ -1,7 +1,7 @@
 import { describe as group, expect, it } from 'vitest'
 import { evaluate, rebuildState, replay } from '../../../shared/rules'
 import type { RuleContext, RuleState, WatchRuleSpec } from '../../../shared/rules'
-import { at, describe, run, spec, ticks, timeline, toInput } from './clock'
+import { at, describeEvent, run, spec, ticks, timeline, toInput } from './clock'
 
 // After a restart the engine has only the stored readings and the clock; no old ticks.
 const isScheduledOn = (ms: number) => {
@@ -74,7 +74,7 @@ group('restart while tripped', () => {
 
   it('replay lists the events a stored history produced, the final tick included', () => {
     const history = [{ at: at(0), value: 28.5 }, { at: at(2), value: 28.6 }]
-    expect(replay(above, history, at(12)).events.map(describe)).toEqual(['trip@12 28.6 since@0'])
+    expect(replay(above, history, at(12)).events.map(describeEvent)).toEqual(['trip@12 28.6 since@0'])
   })
 
   it('trips on the restart tick when the hold ended during the downtime', () => {

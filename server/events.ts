@@ -1,0 +1,31 @@
+import { EventEmitter } from 'node:events'
+
+export type StoredReading = {
+  tankId: number
+  metric: string
+  time: Date
+  value: number
+  source: 'device' | 'test_kit' | 'import'
+}
+
+/** Everything that happens in-process and that other parts react to. Models import no transport. */
+export type EventMap = {
+  'readings.stored': [StoredReading[]]
+  'device.revoked': [{ deviceId: number }]
+}
+
+export type EventBus = {
+  on<K extends keyof EventMap>(event: K, listener: (...args: EventMap[K]) => void): void
+  off<K extends keyof EventMap>(event: K, listener: (...args: EventMap[K]) => void): void
+  emit<K extends keyof EventMap>(event: K, ...args: EventMap[K]): void
+}
+
+export function createEventBus(): EventBus {
+  const emitter = new EventEmitter()
+  emitter.setMaxListeners(100)
+  return {
+    on: (event, listener) => void emitter.on(event, listener as (...a: unknown[]) => void),
+    off: (event, listener) => void emitter.off(event, listener as (...a: unknown[]) => void),
+    emit: (event, ...args) => void emitter.emit(event, ...args),
+  }
+}

@@ -1,0 +1,174 @@
+import type { Sequelize } from 'sequelize'
+import type { Logger } from '../logger'
+
+export type ReadingRow = {
+  sourceKey: string
+  metric: string
+  time: Date
+  tankId: number
+  value: number
+  source: 'device' | 'test_kit' | 'import'
+}
+
+type Pending = {
+  rows: ReadingRow[]
+  /** Held requests (MQTT) wait out a database outage; others fail at once so HTTP can answer 503. */
+  hold: boolean
+  resolve: (inserted: boolean[]) => void
+  reject: (error: Error) => void
+}
+
+export class DatabaseUnavailableError extends Error {
+  constructor(message = 'The database is unavailable') {
+    super(message)
+  }
+}
+export class BufferFullError extends Error {}
+
+export type BatchWriterOptions = {
+  flushMs?: number
+  maxBatchRows?: number
+  /** Most rows held in memory while the database is away; past it new held writes are refused. */
+  maxBufferedRows?: number
+  onStored?: (rows: ReadingRow[]) => void
+}
+
+const keyOf = (r: { sourceKey: string; metric: string; time: Date }) => `${r.sourceKey}|${r.metric}|${r.time.getTime()}`
+
+/**
+ * Collects readings from every source and writes them in batches: one
+ * `INSERT … SELECT FROM unnest(…) ON CONFLICT DO NOTHING RETURNING` per flush, so each caller
+ * learns which of its rows were new and which were duplicates.
+ */
+export class BatchWriter {
+  private queue: Pending[] = []
+  private queuedRows = 0
+  private timer: NodeJS.Timeout | null = null
+  private flushing = false
+  private retryDelayMs = 0
+  healthy = true
+  refusedRows = 0
+  private readonly flushMs: number
+  private readonly maxBatchRows: number
+  private readonly maxBufferedRows: number
+
+  constructor(
+    private readonly sequelize: Sequelize,
+    private readonly logger: Logger,
+    private readonly options: BatchWriterOptions = {},
+  ) {
+    this.flushMs = options.flushMs ?? 200
+    this.maxBatchRows = options.maxBatchRows ?? 5000
+    this.maxBufferedRows = options.maxBufferedRows ?? 200_000
+  }
+
+  get bufferedRows() {
+    return this.queuedRows
+  }
+
+  write(rows: ReadingRow[], { hold = false } = {}): Promise<boolean[]> {
+    if (!rows.length) return Promise.resolve([])
+    if (!hold && !this.healthy) return Promise.reject(new DatabaseUnavailableError())
+    if (this.queuedRows + rows.length > this.maxBufferedRows) {
+      this.refusedRows += rows.length
+      this.logger.warn({ refused: rows.length, buffered: this.queuedRows }, 'reading buffer full; readings refused')
+      return Promise.reject(new BufferFullError('The reading buffer is full'))
+    }
+    return new Promise((resolve, reject) => {
+      this.queue.push({ rows, hold, resolve, reject })
+      this.queuedRows += rows.length
+      if (this.queuedRows >= this.maxBatchRows) this.schedule(0)
+      else this.schedule(this.flushMs)
+    })
+  }
+
+  private schedule(delay: number) {
+    if (this.flushing) return
+    if (this.timer && delay > 0) return
+    if (this.timer) clearTimeout(this.timer)
+    this.timer = setTimeout(() => void this.flush(), Math.max(delay, this.retryDelayMs))
+  }
+
+  /** Writes everything queued now (used by shutdown and tests). */
+  async drain() {
+    while (this.queue.length) {
+      if (this.timer) clearTimeout(this.timer)
+      this.timer = null
+      await this.flush()
+      if (!this.healthy && this.queue.length) break
+    }
+  }
+
+  private takeBatch(): Pending[] {
+    const batch: Pending[] = []
+    let n = 0
+    while (this.queue.length && (n === 0 || n + this.queue[0].rows.length <= this.maxBatchRows)) {
+      const next = this.queue.shift()!
+      n += next.rows.length
+      batch.push(next)
+    }
+    this.queuedRows -= n
+    return batch
+  }
+
+  private async flush() {
+    this.timer = null
+    if (this.flushing || !this.queue.length) return
+    this.flushing = true
+    const batch = this.takeBatch()
+    try {
+      const inserted = await this.insert(batch.flatMap((p) => p.rows))
+      this.healthy = true
+      this.retryDelayMs = 0
+      for (const pending of batch) pending.resolve(pending.rows.map((r) => inserted.delete(keyOf(r))))
+    } catch (error) {
+      this.healthy = false
+      this.retryDelayMs = Math.min(5000, Math.max(250, this.retryDelayMs * 2))
+      this.logger.error({ err: error, rows: batch.reduce((n, p) => n + p.rows.length, 0) }, 'writing readings failed')
+      // Held writes go back to the front of the queue and wait for the database; the rest fail now.
+      const held = batch.filter((p) => p.hold)
+      for (const p of batch) if (!p.hold) p.reject(new DatabaseUnavailableError())
+      this.queue.unshift(...held)
+      this.queuedRows += held.reduce((n, p) => n + p.rows.length, 0)
+      for (const p of this.queue.filter((q) => !q.hold)) p.reject(new DatabaseUnavailableError())
+      this.queue = this.queue.filter((q) => q.hold)
+      this.queuedRows = this.queue.reduce((n, p) => n + p.rows.length, 0)
+    } finally {
+      this.flushing = false
+    }
+    if (this.queue.length) this.schedule(this.healthy && this.queuedRows >= this.maxBatchRows ? 0 : this.flushMs)
+  }
+
+  /** Inserts the rows and answers the keys that were new. */
+  private async insert(rows: ReadingRow[]): Promise<Set<string>> {
+    const unique = new Map<string, ReadingRow>()
+    for (const r of rows) if (!unique.has(keyOf(r))) unique.set(keyOf(r), r)
+    const list = [...unique.values()]
+    const [result] = (await this.sequelize.query(
+      `INSERT INTO readings (source_key, metric, time, tank_id, value, source)
+       SELECT * FROM unnest($1::text[], $2::text[], $3::timestamptz[], $4::int[], $5::float8[], $6::text[])
+       ON CONFLICT DO NOTHING
+       RETURNING source_key, metric, time, tank_id, value, source`,
+      {
+        bind: [
+          list.map((r) => r.sourceKey),
+          list.map((r) => r.metric),
+          list.map((r) => r.time.toISOString()),
+          list.map((r) => r.tankId),
+          list.map((r) => r.value),
+          list.map((r) => r.source),
+        ],
+      },
+    )) as [Array<{ source_key: string; metric: string; time: Date; tank_id: number; value: number; source: ReadingRow['source'] }>, unknown]
+    const stored = result.map((r) => ({
+      sourceKey: r.source_key,
+      metric: r.metric,
+      time: r.time,
+      tankId: r.tank_id,
+      value: r.value,
+      source: r.source,
+    }))
+    if (stored.length) this.options.onStored?.(stored)
+    return new Set(stored.map(keyOf))
+  }
+}

@@ -1,0 +1,89 @@
+import { readingsMessageSchema, MAX_READINGS_PER_MESSAGE, type IngestSummary, type ReadingOutcome } from '../../shared/ingest/contract'
+import type { DeviceActor } from '../auth/device-tokens'
+import type { BatchWriter, ReadingRow } from './batch-writer'
+import type { DeviceStatusTracker } from './device-status'
+import { checkReading, type ReadingLimits } from './validate-readings'
+
+/** The message cannot be read at all (not JSON, wrong envelope): nothing in it was stored. */
+export class MalformedMessageError extends Error {}
+
+export type IngestDeps = {
+  writer: BatchWriter
+  status: DeviceStatusTracker
+  limits: ReadingLimits
+}
+
+function parseEnvelope(body: unknown) {
+  const parsed = readingsMessageSchema.safeParse(body)
+  if (parsed.success) return parsed.data.readings
+  const issue = parsed.error.issues[0]
+  const where = issue.path.join('.') || 'body'
+  if (issue.path[0] === 'readings' && issue.code === 'too_big') {
+    return new MalformedMessageError(`readings: at most ${MAX_READINGS_PER_MESSAGE} readings per message`)
+  }
+  return new MalformedMessageError(`${where}: ${issue.message} (expected {"v":1,"readings":[…]})`)
+}
+
+/**
+ * One path for every device reading, whatever the transport: validate, convert to canonical
+ * units, check plausibility and clock, dedupe, write in batches, and answer per reading.
+ */
+export function createIngest(deps: IngestDeps) {
+  const { writer, status, limits } = deps
+
+  async function fromDevice(device: DeviceActor, body: unknown, options: { hold: boolean }): Promise<IngestSummary> {
+    const readings = parseEnvelope(body)
+    if (readings instanceof MalformedMessageError) {
+      status.rejected(device.deviceId, 1, readings.message)
+      throw readings
+    }
+    const now = Date.now()
+    const results: ReadingOutcome[] = []
+    const rows: ReadingRow[] = []
+    const rowIndex: number[] = []
+    readings.forEach((raw, index) => {
+      const checked = checkReading(raw, limits, now)
+      if (!checked.ok) {
+        results[index] = { index, outcome: 'rejected', reason: checked.reason }
+        return
+      }
+      rows.push({
+        sourceKey: `d:${device.deviceId}`,
+        metric: checked.metric,
+        time: checked.time,
+        tankId: device.tankId,
+        value: checked.value,
+        source: 'device',
+      })
+      rowIndex.push(index)
+    })
+    const inserted = await writer.write(rows, { hold: options.hold })
+    inserted.forEach((isNew, i) => {
+      const index = rowIndex[i]
+      results[index] = { index, outcome: isNew ? 'accepted' : 'duplicate' }
+    })
+    const summary = tally(results)
+    status.seen(device.deviceId)
+    if (summary.rejected) {
+      const firstReason = results.find((r) => r.outcome === 'rejected') as { reason: string }
+      status.rejected(device.deviceId, summary.rejected, firstReason.reason)
+    }
+    return summary
+  }
+
+  return { fromDevice }
+}
+
+function tally(results: ReadingOutcome[]): IngestSummary {
+  let accepted = 0
+  let duplicates = 0
+  let rejected = 0
+  for (const r of results) {
+    if (r.outcome === 'accepted') accepted++
+    else if (r.outcome === 'duplicate') duplicates++
+    else rejected++
+  }
+  return { accepted, duplicates, rejected, results }
+}
+
+export type Ingest = ReturnType<typeof createIngest>

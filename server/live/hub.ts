@@ -1,0 +1,151 @@
+import type { IncomingMessage, Server } from 'node:http'
+import type { Duplex } from 'node:stream'
+import { Op, QueryTypes } from 'sequelize'
+import { WebSocketServer, type WebSocket } from 'ws'
+import { LIVE_CLOSE, liveClientMessageSchema, type LiveReading, type LiveServerMessage } from '../../shared/schemas/live'
+import type { Actor } from '../auth/actor'
+import { userActorFromToken } from '../auth/passport'
+import type { AppContext } from '../context'
+import type { StoredReading } from '../events'
+import { siteScope } from '../services/scope'
+
+const AUTH_TIMEOUT_MS = 5000
+const CATCH_UP_LIMIT = 5000
+
+type Peer = { socket: WebSocket; actor?: Actor; tanks: Set<number>; buffer: LiveReading[] }
+
+export type LiveHubOptions = { coalesceMs?: number }
+
+/**
+ * The live hub: a `ws` server on the HTTP server's `/ws` upgrade. Each socket authenticates
+ * with its first frame, subscribes to tanks or a site it may see, and receives new readings
+ * coalesced to a few frames a second.
+ */
+export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubOptions = {}) {
+  const wss = new WebSocketServer({ noServer: true, maxPayload: 64 * 1024 })
+  const peers = new Set<Peer>()
+  const coalesceMs = options.coalesceMs ?? 250
+
+  const send = (peer: Peer, message: LiveServerMessage) => {
+    if (peer.socket.readyState === peer.socket.OPEN) peer.socket.send(JSON.stringify(message))
+  }
+
+  async function visibleTanks(actor: Actor, tankIds?: number[], siteId?: number) {
+    const where: Record<string | symbol, unknown> = { ...(siteScope(actor, 'siteId') as object), archivedAt: null }
+    if (tankIds) where.id = { [Op.in]: tankIds }
+    if (siteId) where.siteId = siteId
+    const rows = await ctx.models.Tank.findAll({ where, attributes: ['id'] })
+    return rows.map((t) => t.id)
+  }
+
+  async function catchUp(peer: Peer, tankIds: number[], since: string) {
+    const rows = await ctx.sequelize.query<{ tank_id: number; metric: string; time: Date; value: number; source: LiveReading['source'] }>(
+      `SELECT tank_id, metric, time, value, source FROM readings
+        WHERE tank_id = ANY($tanks) AND time > $since ORDER BY time LIMIT ${CATCH_UP_LIMIT}`,
+      { bind: { tanks: tankIds, since }, type: QueryTypes.SELECT },
+    )
+    send(peer, {
+      type: 'readings',
+      catchUp: true,
+      readings: rows.map((r) => ({ tankId: r.tank_id, metric: r.metric, time: r.time.toISOString(), value: r.value, source: r.source })),
+    })
+  }
+
+  async function onMessage(peer: Peer, data: string) {
+    let json: unknown
+    try {
+      json = JSON.parse(data)
+    } catch {
+      return send(peer, { type: 'error', code: 'invalid_json', message: 'Frames must be JSON' })
+    }
+    const parsed = liveClientMessageSchema.safeParse(json)
+    if (!parsed.success) {
+      return send(peer, { type: 'error', code: 'invalid_message', message: parsed.error.issues[0].message })
+    }
+    const message = parsed.data
+    if (message.type === 'auth') {
+      const actor = await userActorFromToken(ctx.models, ctx.config.jwtSecret, message.token)
+      if (!actor) return peer.socket.close(LIVE_CLOSE.unauthenticated, 'token missing, expired or revoked')
+      peer.actor = actor
+      return send(peer, { type: 'ready', role: actor.role })
+    }
+    if (!peer.actor) return peer.socket.close(LIVE_CLOSE.unauthenticated, 'authenticate first')
+    if (message.type === 'ping') return send(peer, { type: 'pong' })
+    if (message.type === 'unsubscribe') {
+      for (const id of message.tankIds) peer.tanks.delete(id)
+      return send(peer, { type: 'subscribed', tankIds: [...peer.tanks] })
+    }
+    const allowed = await visibleTanks(peer.actor, message.tankIds, message.siteId)
+    const asked = message.tankIds ?? []
+    if (asked.some((id) => !allowed.includes(id)) || (message.siteId && !allowed.length && !(await siteVisible(peer.actor, message.siteId)))) {
+      return send(peer, { type: 'error', code: 'forbidden', message: 'You may not watch one or more of these tanks' })
+    }
+    for (const id of allowed) peer.tanks.add(id)
+    send(peer, { type: 'subscribed', tankIds: [...peer.tanks].sort((a, b) => a - b) })
+    if (message.since && allowed.length) await catchUp(peer, allowed, message.since)
+  }
+
+  async function siteVisible(actor: Actor, siteId: number) {
+    const site = await ctx.models.Site.findOne({ where: { id: siteId, ...(siteScope(actor, 'id') as object) } })
+    return !!site
+  }
+
+  const onStored = (rows: StoredReading[]) => {
+    for (const peer of peers) {
+      if (!peer.tanks.size) continue
+      for (const r of rows) {
+        if (peer.tanks.has(r.tankId)) {
+          peer.buffer.push({ tankId: r.tankId, metric: r.metric, time: r.time.toISOString(), value: r.value, source: r.source })
+        }
+      }
+    }
+  }
+  ctx.events.on('readings.stored', onStored)
+
+  const flushTimer = setInterval(() => {
+    for (const peer of peers) {
+      if (!peer.buffer.length) continue
+      const readings = peer.buffer
+      peer.buffer = []
+      send(peer, { type: 'readings', readings })
+    }
+  }, coalesceMs)
+  flushTimer.unref()
+
+  wss.on('connection', (socket: WebSocket) => {
+    const peer: Peer = { socket, tanks: new Set(), buffer: [] }
+    peers.add(peer)
+    const authTimer = setTimeout(() => {
+      if (!peer.actor) socket.close(LIVE_CLOSE.unauthenticated, 'authenticate first')
+    }, AUTH_TIMEOUT_MS)
+    socket.on('message', (data) => {
+      onMessage(peer, data.toString()).catch((error) => {
+        ctx.logger.error({ err: error }, 'live message failed')
+        send(peer, { type: 'error', code: 'internal', message: 'That did not work; try again' })
+      })
+    })
+    socket.on('close', () => {
+      clearTimeout(authTimer)
+      peers.delete(peer)
+    })
+    socket.on('error', () => socket.terminate())
+  })
+
+  const onUpgrade = (req: IncomingMessage, socket: Duplex, head: Buffer) => {
+    const path = (req.url ?? '').split('?')[0]
+    if (path !== '/ws') return socket.destroy()
+    wss.handleUpgrade(req, socket, head, (ws) => wss.emit('connection', ws, req))
+  }
+  server.on('upgrade', onUpgrade)
+
+  return {
+    peerCount: () => peers.size,
+    close() {
+      clearInterval(flushTimer)
+      ctx.events.off('readings.stored', onStored)
+      server.off('upgrade', onUpgrade)
+      for (const peer of peers) peer.socket.close(1001, 'server stopping')
+      wss.close()
+    },
+  }
+}

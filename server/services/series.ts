@@ -1,0 +1,167 @@
+import { QueryTypes } from 'sequelize'
+import { METRIC_KEYS, METRICS, type MetricKey } from '../../shared/metrics/registry'
+import type {
+  LatestResponse,
+  ReadingSource,
+  SeriesBucket,
+  SeriesQuery,
+  SeriesResponse,
+  SiteLatestResponse,
+} from '../../shared/schemas/series'
+import type { AppContext } from '../context'
+
+/**
+ * Buckets are aligned to this instant (a Monday, 00:00 UTC), not to the requested range: every chart
+ * of the same step then shares boundaries, hour-and-longer buckets hold whole rolled-up hours, and
+ * week buckets start on Mondays.
+ */
+export const BUCKET_ORIGIN = '2000-01-01T00:00:00Z'
+const ORIGIN_MS = Date.parse(BUCKET_ORIGIN)
+const HOUR = 3600
+const DAY = 24 * HOUR
+
+/** Steps a chart axis reads well at, in seconds; past the list, weeks keep doubling. */
+export const NICE_STEPS = [
+  1, 2, 5, 10, 15, 30,
+  60, 2 * 60, 5 * 60, 10 * 60, 15 * 60, 30 * 60,
+  HOUR, 2 * HOUR, 3 * HOUR, 6 * HOUR, 12 * HOUR,
+  DAY, 2 * DAY, 7 * DAY,
+]
+
+function* stepsFrom(minimumSeconds: number) {
+  for (const step of NICE_STEPS) if (step >= minimumSeconds) yield step
+  for (let weeks = 2; ; weeks *= 2) if (weeks * 7 * DAY >= minimumSeconds) yield weeks * 7 * DAY
+}
+
+/** How many origin-aligned buckets of `stepSeconds` touch the half-open range [from, to). */
+export function bucketsTouching(from: Date, to: Date, stepSeconds: number): number {
+  const stepMs = stepSeconds * 1000
+  const first = Math.floor((from.getTime() - ORIGIN_MS) / stepMs)
+  const last = Math.floor((to.getTime() - 1 - ORIGIN_MS) / stepMs)
+  return last - first + 1
+}
+
+/** The smallest nice step giving at most `points` buckets over the range (at least `floorSeconds`). */
+export function chooseBucketSeconds(from: Date, to: Date, points: number, floorSeconds = 1): number {
+  const rangeSeconds = (to.getTime() - from.getTime()) / 1000
+  for (const step of stepsFrom(Math.max(floorSeconds, Math.ceil(rangeSeconds / points)))) {
+    if (bucketsTouching(from, to, step) <= points) return step
+  }
+  throw new Error('unreachable: the step list is unbounded')
+}
+
+type RawRow = { time: Date; value: number; source: ReadingSource }
+type BucketRow = { bucket: Date; min: number; mean: number; max: number; count: number }
+type LatestRow = { tank_id: number; metric: MetricKey; time: Date; value: number; source: ReadingSource }
+
+// Only reads up to points + 1 index entries: raw-or-buckets needs no exact count of a long range.
+const COUNT_SQL = `
+SELECT
+  (SELECT count(*) FROM (
+     SELECT 1 FROM readings
+     WHERE tank_id = $1 AND metric = $2 AND time >= $3::timestamptz AND time <= $4::timestamptz
+     LIMIT $5) capped) AS raw,
+  EXISTS (SELECT 1 FROM readings_hourly
+     WHERE tank_id = $1 AND metric = $2
+       AND hour > $3::timestamptz - interval '1 hour' AND hour < $4::timestamptz) AS rolled_up`
+
+const RAW_SQL = `
+SELECT time, value, source FROM readings
+WHERE tank_id = $1 AND metric = $2 AND time >= $3::timestamptz AND time < $4::timestamptz
+ORDER BY time, source_key`
+
+/*
+ * Rolled-up hours and the raw rows still kept are disjoint sets of readings: the retention job deletes
+ * exactly the rows it rolls up, in the same statement. So a bucket is the union of both, with no
+ * per-hour overlap test. A rolled-up hour counts whole when it overlaps the range.
+ */
+const BUCKETS_SQL = `
+WITH samples AS (
+  SELECT time AS t, value AS lo, value AS hi, value AS total, 1 AS n
+  FROM readings
+  WHERE tank_id = $1 AND metric = $2 AND time >= $3::timestamptz AND time < $4::timestamptz
+  UNION ALL
+  SELECT hour, min, max, sum, count
+  FROM readings_hourly
+  WHERE tank_id = $1 AND metric = $2 AND hour > $3::timestamptz - interval '1 hour' AND hour < $4::timestamptz
+)
+SELECT date_bin($5::integer * interval '1 second', t, $6::timestamptz) AS bucket,
+       min(lo) AS min, sum(total) / sum(n) AS mean, max(hi) AS max, sum(n) AS count
+FROM samples
+GROUP BY bucket
+ORDER BY bucket`
+
+/*
+ * One index probe per (tank, metric): the newest entry of (tank_id, metric, time) read backwards.
+ * DISTINCT ON (metric) would walk every reading of the tank instead, since PostgreSQL 15 cannot
+ * skip between metrics in the index.
+ */
+const LATEST_SQL = `
+SELECT t.tank_id, m.metric, r.time, r.value, r.source
+FROM unnest($1::integer[]) AS t(tank_id)
+CROSS JOIN unnest($2::text[]) AS m(metric)
+CROSS JOIN LATERAL (
+  SELECT time, value, source FROM readings
+  WHERE readings.tank_id = t.tank_id AND readings.metric = m.metric
+  ORDER BY time DESC
+  LIMIT 1
+) r`
+
+function latestByMetric(rows: LatestRow[]): LatestResponse {
+  const out: LatestResponse = {}
+  for (const row of rows) out[row.metric] = { value: row.value, time: row.time.toISOString(), source: row.source }
+  return out
+}
+
+export function seriesService(ctx: AppContext) {
+  const select = <T extends object>(sql: string, bind: unknown[]) =>
+    ctx.sequelize.query<T>(sql, { bind, type: QueryTypes.SELECT })
+
+  async function latestFor(tankIds: number[]): Promise<LatestRow[]> {
+    if (!tankIds.length) return []
+    return select<LatestRow>(LATEST_SQL, [tankIds, METRIC_KEYS])
+  }
+
+  return {
+    /** Every reading when the range holds at most `points` of them, else min/mean/max per time bucket. */
+    async series(tankId: number, q: SeriesQuery): Promise<SeriesResponse> {
+      const head = {
+        metric: q.metric,
+        unit: METRICS[q.metric].unit,
+        from: q.from.toISOString(),
+        to: q.to.toISOString(),
+      }
+      const range = [tankId, q.metric, q.from, q.to]
+      const [counted] = await select<{ raw: number; rolled_up: boolean }>(COUNT_SQL, [...range, q.points + 1])
+      if (!counted.rolled_up && counted.raw <= q.points) {
+        const rows = await select<RawRow>(RAW_SQL, range)
+        const raw = rows.map((r) => ({ t: r.time.toISOString(), value: r.value, source: r.source }))
+        return { ...head, bucketSeconds: 0, points: [], raw }
+      }
+      // Rolled-up hours cannot be split, so a range reaching into them is shown in hours or longer.
+      const bucketSeconds = chooseBucketSeconds(q.from, q.to, q.points, 1)
+      const rows = await select<BucketRow>(BUCKETS_SQL, [...range, bucketSeconds, BUCKET_ORIGIN])
+      const points: SeriesBucket[] = rows.map((r) => ({
+        t: r.bucket.toISOString(),
+        min: r.min,
+        mean: r.mean,
+        max: r.max,
+        count: r.count,
+      }))
+      return { ...head, bucketSeconds, points, raw: [] }
+    },
+
+    /** Newest value of each metric the tank has ever reported. */
+    async latest(tankId: number): Promise<LatestResponse> {
+      return latestByMetric(await latestFor([tankId]))
+    },
+
+    /** Newest values for many tanks in one query; the caller has already scoped `tankIds` to the actor. */
+    async siteLatest(tankIds: number[]): Promise<SiteLatestResponse> {
+      const ids = [...new Set(tankIds)]
+      const rowsByTank = new Map<number, LatestRow[]>(ids.map((id) => [id, []]))
+      for (const row of await latestFor(ids)) rowsByTank.get(row.tank_id)!.push(row)
+      return ids.map((tankId) => ({ tankId, metrics: latestByMetric(rowsByTank.get(tankId)!) }))
+    },
+  }
+}

@@ -1,0 +1,59 @@
+import { z } from 'zod'
+
+/**
+ * The device contract, version 1 — the same JSON over MQTT and HTTP.
+ *
+ * MQTT: connect with username = the device id, password = the device token.
+ *   publish readings to  tankwarden/v1/devices/{deviceId}/readings   (QoS 0 or 1)
+ *   subscribe only to    tankwarden/v1/devices/{deviceId}/commands
+ *   rejected readings are recorded on the device (last error, counter) and shown in the devices table.
+ * HTTP: POST /api/v1/readings with `Authorization: Bearer <device token>`.
+ */
+export const CONTRACT_VERSION = 1
+export const TOPIC_PREFIX = 'tankwarden/v1/devices'
+export const MAX_READINGS_PER_MESSAGE = 1000
+export const MAX_PAYLOAD_BYTES = 256 * 1024
+
+export const readingsTopic = (deviceId: number | string) => `${TOPIC_PREFIX}/${deviceId}/readings`
+export const commandsTopic = (deviceId: number | string) => `${TOPIC_PREFIX}/${deviceId}/commands`
+
+const TOPIC_RE = /^tankwarden\/v1\/devices\/(\d{1,10})\/(readings|commands)$/
+
+export function parseDeviceTopic(topic: string): { deviceId: number; channel: 'readings' | 'commands' } | null {
+  const match = TOPIC_RE.exec(topic)
+  if (!match) return null
+  return { deviceId: Number(match[1]), channel: match[2] as 'readings' | 'commands' }
+}
+
+/** One reading as a device sends it: any accepted unit, ISO 8601 time with a zone. */
+export const deviceReadingSchema = z.object({
+  metric: z.string().min(1).max(40),
+  value: z.number().finite(),
+  unit: z.string().min(1).max(20).optional(),
+  time: z.iso.datetime({ offset: true }),
+})
+export type DeviceReading = z.infer<typeof deviceReadingSchema>
+
+export const readingsMessageSchema = z.object({
+  v: z.literal(CONTRACT_VERSION),
+  readings: z.array(z.unknown()).min(1).max(MAX_READINGS_PER_MESSAGE),
+})
+export type ReadingsMessage = { v: 1; readings: DeviceReading[] }
+
+export type ReadingOutcome =
+  | { index: number; outcome: 'accepted' }
+  | { index: number; outcome: 'duplicate' }
+  | { index: number; outcome: 'rejected'; reason: string }
+
+export interface IngestSummary {
+  accepted: number
+  duplicates: number
+  rejected: number
+  results: ReadingOutcome[]
+}
+
+/** Device token format: `twd_<deviceId>_<secret>`, so the server finds the device without a scan. */
+export function parseDeviceToken(token: string): { deviceId: number; secret: string } | null {
+  const match = /^twd_(\d{1,10})_([A-Za-z0-9_-]{20,100})$/.exec(token)
+  return match ? { deviceId: Number(match[1]), secret: match[2] } : null
+}

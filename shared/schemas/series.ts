@@ -1,0 +1,78 @@
+import { z } from 'zod'
+import { METRIC_KEYS, type MetricKey } from '../metrics/registry'
+
+export const READING_SOURCES = ['device', 'test_kit', 'import'] as const
+export type ReadingSource = (typeof READING_SOURCES)[number]
+
+export const SERIES_DEFAULT_HOURS = 24
+export const SERIES_MAX_DAYS = 400
+export const SERIES_POINTS = { min: 10, max: 5000, default: 500 } as const
+
+const HOUR_MS = 3_600_000
+const DAY_MS = 24 * HOUR_MS
+
+// A bare local time would be read in the server's zone; the offset (or Z) makes the instant unambiguous.
+const instantSchema = z.iso
+  .datetime({ offset: true, message: 'use an ISO 8601 time with an offset, e.g. 2026-03-01T12:00:00Z' })
+  .transform((s) => new Date(s))
+
+export const seriesQuerySchema = z
+  .object({
+    metric: z.enum(METRIC_KEYS),
+    from: instantSchema.optional(),
+    to: instantSchema.optional(),
+    points: z.coerce
+      .number()
+      .int('must be a whole number')
+      .min(SERIES_POINTS.min, `at least ${SERIES_POINTS.min}`)
+      .max(SERIES_POINTS.max, `at most ${SERIES_POINTS.max}`)
+      .default(SERIES_POINTS.default),
+  })
+  .transform(({ metric, from, to, points }) => {
+    const end = to ?? new Date()
+    const start = from ?? new Date(end.getTime() - SERIES_DEFAULT_HOURS * HOUR_MS)
+    return { metric, from: start, to: end, points }
+  })
+  .refine((q) => q.from.getTime() < q.to.getTime(), { message: 'must be before to', path: ['from'] })
+  .refine((q) => q.to.getTime() - q.from.getTime() <= SERIES_MAX_DAYS * DAY_MS, {
+    message: `the range may span at most ${SERIES_MAX_DAYS} days`,
+    path: ['from'],
+  })
+export type SeriesQuery = z.output<typeof seriesQuerySchema>
+
+export const seriesBucketSchema = z.object({
+  /** Start of the bucket, ISO 8601 UTC. */
+  t: z.string(),
+  min: z.number(),
+  mean: z.number(),
+  max: z.number(),
+  count: z.number().int(),
+})
+export type SeriesBucket = z.infer<typeof seriesBucketSchema>
+
+export const rawReadingSchema = z.object({ t: z.string(), value: z.number(), source: z.enum(READING_SOURCES) })
+export type RawReading = z.infer<typeof rawReadingSchema>
+
+export const seriesResponseSchema = z.object({
+  metric: z.enum(METRIC_KEYS),
+  /** Canonical unit of the metric (shared/metrics/registry). */
+  unit: z.string(),
+  from: z.string(),
+  to: z.string(),
+  /** Width of each bucket in seconds; 0 means `raw` holds every reading and `points` is empty. */
+  bucketSeconds: z.number().int().min(0),
+  points: z.array(seriesBucketSchema),
+  raw: z.array(rawReadingSchema),
+})
+export type SeriesResponse = z.infer<typeof seriesResponseSchema>
+
+export const latestValueSchema = z.object({ value: z.number(), time: z.string(), source: z.enum(READING_SOURCES) })
+export type LatestValue = z.infer<typeof latestValueSchema>
+
+/** Newest reading per metric; a metric never measured on the tank is absent. */
+export const latestResponseSchema = z.partialRecord(z.enum(METRIC_KEYS), latestValueSchema)
+export type LatestResponse = Partial<Record<MetricKey, LatestValue>>
+
+/** The wall display: newest readings of every tank shown, one entry per tank in the order asked. */
+export const siteLatestSchema = z.array(z.object({ tankId: z.number().int().positive(), metrics: latestResponseSchema }))
+export type SiteLatestResponse = Array<{ tankId: number; metrics: LatestResponse }>

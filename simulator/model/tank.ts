@@ -1,0 +1,173 @@
+// One simulated tank: couples the level, heat, light and pH models on a simulated clock.
+import type { DeviceReading } from '../../shared/ingest/contract'
+import { localMinutesOfDay } from './clock'
+import { litresAtLevel, START_FILL_FRACTION, tankGeometry, type TankGeometry } from './geometry'
+import { initialLevelState, stepLevel, WATER_CHANGE_TOTAL_S, waterChangeLevelCm, type LevelState } from './level'
+import { lightLux, scheduleFraction } from './light'
+import { initialPhState, phValue, stepPh, type PhState } from './ph'
+import { gaussian, mulberry32, type Random } from './random'
+import { NO_SCENARIO, scenarioElapsedS, type Scenario, type ScenarioPlan } from './scenarios'
+import type { SimTankSpec } from './spec'
+import { mixedTemperatureC, roomTemperatureC, stepTemperature, type HeaterMode, type ThermalState } from './temperature'
+
+/** Longest physics step; far below the hours-long thermal time constant and the 10-minute drain. */
+export const MAX_STEP_S = 30
+/** Keepers temper replacement water to within about a kelvin of the tank (common practice). */
+export const REFILL_BELOW_SET_POINT_K = 0.5
+/** Sensor noise (one standard deviation). Assumptions. */
+export const SENSOR_NOISE = { temperatureC: 0.02, ph: 0.01, luxFraction: 0.01, levelCm: 0.05 } as const
+
+export interface TankSimulationOptions {
+  seed: number
+  /** Simulated clock at the start, epoch ms. */
+  startMs: number
+  plan?: ScenarioPlan
+  /** Room temperature at an instant; the day–night curve in the site's zone by default. */
+  roomC?: (epochMs: number) => number
+  initialWaterC?: number
+}
+
+export interface TankSnapshot {
+  simMs: number
+  waterC: number
+  roomC: number
+  heaterOn: boolean
+  ph: number
+  lux: number
+  levelCm: number
+  /** The tank's scenario is running now. */
+  faultActive: boolean
+}
+
+const round = (value: number, places: number) => Math.round(value * 10 ** places) / 10 ** places
+
+export class TankSimulation {
+  readonly geometry: TankGeometry
+  readonly plan: ScenarioPlan
+  private readonly random: Random
+  private readonly roomAt: (epochMs: number) => number
+  private readonly startMs: number
+  private simMs: number
+  private thermal: ThermalState
+  private ph: PhState = initialPhState()
+  private level: LevelState
+  private changeStartCm: number | null = null
+
+  constructor(
+    readonly spec: SimTankSpec,
+    options: TankSimulationOptions,
+  ) {
+    this.geometry = tankGeometry(spec)
+    this.plan = options.plan ?? NO_SCENARIO
+    this.random = mulberry32(options.seed)
+    this.roomAt = options.roomC ?? ((ms) => roomTemperatureC(localMinutesOfDay(ms, spec.timeZone)))
+    this.startMs = options.startMs
+    this.simMs = options.startMs
+    const waterC = options.initialWaterC ?? spec.heater?.setPointC ?? this.roomAt(options.startMs)
+    this.thermal = { waterC, heaterOn: false }
+    this.level = initialLevelState(this.geometry.heightCm * START_FILL_FRACTION)
+  }
+
+  get elapsedS(): number {
+    return (this.simMs - this.startMs) / 1000
+  }
+
+  private faultElapsedS(scenario: Scenario, activeForS = Infinity): number | null {
+    return this.plan.scenario === scenario ? scenarioElapsedS(this.plan, this.elapsedS, activeForS) : null
+  }
+
+  /** Advances the simulated clock by `dtS` seconds. */
+  advance(dtS: number): void {
+    let remaining = dtS
+    while (remaining > 1e-9) {
+      const step = Math.min(MAX_STEP_S, remaining)
+      this.step(step)
+      remaining -= step
+    }
+  }
+
+  private heaterMode(): HeaterMode {
+    if (this.faultElapsedS('heater_stuck_on') !== null) return 'stuck_on'
+    if (this.faultElapsedS('heater_failed') !== null) return 'failed'
+    return 'normal'
+  }
+
+  private lightFraction(): number {
+    if (this.faultElapsedS('light_stuck_on') !== null) return 1
+    return scheduleFraction(localMinutesOfDay(this.simMs, this.spec.timeZone), this.spec.lightSchedule)
+  }
+
+  private stepWater(dtS: number, roomC: number): void {
+    const before = this.level.levelCm
+    const change = this.faultElapsedS('large_water_change', WATER_CHANGE_TOTAL_S)
+    if (change !== null) {
+      this.changeStartCm ??= before
+      const levelCm = waterChangeLevelCm(change, this.changeStartCm, this.level.targetCm) ?? this.level.targetCm
+      this.level = { ...this.level, levelCm, toppingUp: false }
+    } else {
+      if (this.changeStartCm !== null) this.level = { ...this.level, levelCm: this.level.targetCm }
+      this.changeStartCm = null
+      this.level = stepLevel(this.level, dtS)
+    }
+    const addedLitres = litresAtLevel(this.geometry, this.level.levelCm) - litresAtLevel(this.geometry, before)
+    if (addedLitres > 0) {
+      // Water-change water is tempered to the tank; top-up water comes from a reservoir at room temperature.
+      const setPoint = this.spec.heater?.setPointC
+      const addedC = change !== null && setPoint !== undefined ? setPoint - REFILL_BELOW_SET_POINT_K : roomC
+      const litres = litresAtLevel(this.geometry, before)
+      this.thermal = { ...this.thermal, waterC: mixedTemperatureC(litres, this.thermal.waterC, addedLitres, addedC) }
+    }
+  }
+
+  private step(dtS: number): void {
+    const roomC = this.roomAt(this.simMs)
+    this.stepWater(dtS, roomC)
+    const heater = this.spec.heater
+    this.thermal = stepTemperature(
+      this.thermal,
+      {
+        waterLitres: litresAtLevel(this.geometry, this.level.levelCm),
+        exposedAreaM2: this.geometry.exposedAreaM2,
+        roomC,
+        heater,
+        heaterMode: this.heaterMode(),
+        heaterSubmerged: !heater || this.level.levelCm >= heater.topCm,
+      },
+      dtS,
+    )
+    this.ph = stepPh(this.ph, this.spec.kind, this.lightFraction(), dtS, this.random)
+    this.simMs += dtS * 1000
+  }
+
+  /** True values now, without sensor noise. */
+  snapshot(): TankSnapshot {
+    const fraction = this.lightFraction()
+    return {
+      simMs: this.simMs,
+      waterC: this.thermal.waterC,
+      roomC: this.roomAt(this.simMs),
+      heaterOn: this.thermal.heaterOn,
+      ph: phValue(this.spec.kind, this.ph, this.faultElapsedS('ph_crash')),
+      lux: lightLux(this.spec.kind, fraction, false),
+      levelCm: this.level.levelCm,
+      faultActive: this.plan.scenario !== 'none' && scenarioElapsedS(this.plan, this.elapsedS) !== null,
+    }
+  }
+
+  /** The node has gone silent (sensor_quiet scenario). */
+  isQuiet(): boolean {
+    return this.faultElapsedS('sensor_quiet') !== null
+  }
+
+  /** What the node reports now, with sensor noise, stamped `time` (ISO 8601 with zone). */
+  readings(time: string): DeviceReading[] {
+    const s = this.snapshot()
+    const noise = () => gaussian(this.random)
+    return [
+      { metric: 'temperature', value: round(s.waterC + SENSOR_NOISE.temperatureC * noise(), 2), unit: 'C', time },
+      { metric: 'ph', value: round(s.ph + SENSOR_NOISE.ph * noise(), 2), unit: 'pH', time },
+      { metric: 'light', value: Math.max(0, Math.round(s.lux * (1 + SENSOR_NOISE.luxFraction * noise()))), unit: 'lux', time },
+      { metric: 'water_level', value: round(Math.max(0, s.levelCm + SENSOR_NOISE.levelCm * noise()), 2), unit: 'cm', time },
+    ]
+  }
+}

@@ -1,0 +1,233 @@
+import { randomUUID } from 'node:crypto'
+import jwt from 'jsonwebtoken'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { UserActor } from '../../server/auth/actor'
+import { authService } from '../../server/services/auth'
+import { tanksService } from '../../server/services/tanks'
+import { usersService } from '../../server/services/users'
+import { tankInputSchema } from '../../shared/schemas/tanks'
+import { bearer, sampleTank, startTestApp, TEST_PASSWORD, type TestOrg } from '../helpers/app'
+
+const JWT_SECRET = 'test-secret-that-is-long-enough-for-hs256-signing'
+const CALLERS = ['owner', 'keeper', 'viewer', 'noToken', 'expired', 'tampered', 'algNone', 'otherOrg'] as const
+type Caller = (typeof CALLERS)[number]
+type Expected = Record<Caller, number>
+type Method = 'get' | 'post' | 'patch' | 'delete'
+
+/** Everything a case may need, created fresh per case so one case's writes never decide another's status. */
+type World = {
+  org: TestOrg
+  freshEmail(): string
+  freshTank(archived?: boolean): Promise<number>
+  freshSite(archived?: boolean): Promise<number>
+  freshInvitation(): Promise<{ id: number; token: string }>
+  freshUser(): Promise<number>
+  freshDevice(): Promise<number>
+}
+
+/** What one case sends: the value for the route's `:param` and the body, both made fresh per case. */
+type Prepared = { param?: number | string; body?: unknown }
+type RouteCase = { method: Method; route: string; expected: Expected; prepare: (w: World) => Promise<Prepared> | Prepared }
+
+const everyone = (status: number) => Object.fromEntries(CALLERS.map((c) => [c, status])) as Expected
+/** `otherOrg` is the owner of another organization: the strongest role, so only tenancy can stop it. */
+const signedIn = (owner: number, keeper: number, viewer: number, otherOrg: number): Expected => ({
+  owner, keeper, viewer, otherOrg, noToken: 401, expired: 401, tampered: 401, algNone: 401,
+})
+const row = (method: Method, route: string, expected: Expected, prepare: RouteCase['prepare'] = () => ({})): RouteCase => ({
+  method, route, expected, prepare,
+})
+const ownerOnly = signedIn(200, 403, 403, 404)
+const probe = async (w: World) => ({ tankId: await w.freshTank(), name: 'Probe', metrics: ['temperature'], intervalSeconds: 60 })
+
+/** One row per route the API serves. A new route adds a row here; the coverage test below insists. */
+const ROUTES: RouteCase[] = [
+  row('get', '/health', everyone(200)),
+  row('post', '/auth/sign-in', everyone(200), (w) => ({ body: { email: w.org.users.keeper.email, password: TEST_PASSWORD } })),
+  row('post', '/auth/sign-out', signedIn(204, 204, 204, 204)),
+  row('get', '/auth/me', signedIn(200, 200, 200, 200)),
+  row('post', '/auth/password', signedIn(204, 204, 204, 204), () => ({
+    body: { currentPassword: TEST_PASSWORD, newPassword: TEST_PASSWORD },
+  })),
+  row('get', '/invitations/:token', everyone(200), async (w) => ({ param: (await w.freshInvitation()).token })),
+  row('post', '/invitations/accept', everyone(201), async (w) => ({
+    body: { token: (await w.freshInvitation()).token, password: 'a-long-enough-password' },
+  })),
+  row('get', '/users', signedIn(200, 403, 403, 200)),
+  row('get', '/users/invitations', signedIn(200, 403, 403, 200)),
+  row('post', '/users/invitations', signedIn(201, 403, 403, 201), (w) => ({
+    body: { email: w.freshEmail(), name: 'New keeper', role: 'keeper' },
+  })),
+  row('delete', '/users/invitations/:id', signedIn(204, 403, 403, 404), async (w) => ({ param: (await w.freshInvitation()).id })),
+  row('patch', '/users/:id', ownerOnly, async (w) => ({ param: await w.freshUser(), body: { name: 'Renamed keeper' } })),
+  row('get', '/sites', signedIn(200, 200, 200, 200)),
+  row('get', '/sites/:id', signedIn(200, 200, 200, 404), async (w) => ({ param: await w.freshSite() })),
+  row('post', '/sites', signedIn(201, 403, 403, 201), () => ({ body: { name: 'Back room', timeZone: 'Europe/Paris' } })),
+  row('patch', '/sites/:id', ownerOnly, async (w) => ({ param: await w.freshSite(), body: { name: 'Renamed site' } })),
+  row('post', '/sites/:id/archive', ownerOnly, async (w) => ({ param: await w.freshSite() })),
+  row('post', '/sites/:id/unarchive', ownerOnly, async (w) => ({ param: await w.freshSite(true) })),
+  row('get', '/tanks', signedIn(200, 200, 200, 200)),
+  row('get', '/tanks/:id', signedIn(200, 200, 200, 404), async (w) => ({ param: await w.freshTank() })),
+  // The other organization's owner names this organization's site: for them that site does not exist.
+  row('post', '/tanks', signedIn(201, 201, 403, 400), (w) => ({ body: sampleTank(w.org.siteIds[0]) })),
+  row('patch', '/tanks/:id', signedIn(200, 200, 403, 404), async (w) => ({ param: await w.freshTank(), body: { stage: 'quarantine' } })),
+  row('post', '/tanks/:id/archive', ownerOnly, async (w) => ({ param: await w.freshTank() })),
+  row('post', '/tanks/:id/unarchive', ownerOnly, async (w) => ({ param: await w.freshTank(true) })),
+  row('get', '/devices', signedIn(200, 200, 200, 200)),
+  row('get', '/devices/:id', signedIn(200, 200, 200, 404), async (w) => ({ param: await w.freshDevice() })),
+  // Here a foreign tank in the body answers 404 (the devices service looks the tank up like a detail route).
+  row('post', '/devices', signedIn(201, 403, 403, 404), async (w) => ({ body: await probe(w) })),
+  row('patch', '/devices/:id', ownerOnly, async (w) => ({ param: await w.freshDevice(), body: { name: 'Renamed probe' } })),
+  row('post', '/devices/:id/rotate', ownerOnly, async (w) => ({ param: await w.freshDevice() })),
+  row('post', '/devices/:id/revoke', ownerOnly, async (w) => ({ param: await w.freshDevice() })),
+  // A person's token, however valid, is never a device token.
+  row('post', '/readings', everyone(401), () => ({ body: { readings: [] } })),
+]
+
+const ERROR_CODES: Record<number, string> = { 400: 'invalid_input', 401: 'unauthenticated', 403: 'forbidden', 404: 'not_found' }
+const CASES = ROUTES.flatMap((r) =>
+  CALLERS.map((caller) => ({ ...r, caller, status: r.expected[caller], name: `${r.method.toUpperCase()} ${r.route} as ${caller}` })),
+)
+
+let t: Awaited<ReturnType<typeof startTestApp>>
+let org: TestOrg
+let other: TestOrg
+let world: World
+let emailCounter = 0
+
+const ownerActor = (o: TestOrg): UserActor => ({
+  kind: 'user', userId: o.users.owner.id, organizationId: o.organizationId, role: 'owner', siteIds: null, sessionId: randomUUID(),
+})
+
+async function freshToken(userId: number) {
+  const user = await t.ctx.models.User.findByPk(userId, { include: [{ association: 'sites' }] })
+  return (await authService(t.ctx).openSession(user!)).token
+}
+
+/** A live session row, so a forged token for it fails on the token alone and not on a missing session. */
+async function liveSessionId(userId: number) {
+  const id = randomUUID()
+  await t.ctx.models.Session.create({ id, userId, expiresAt: new Date(Date.now() + 3600_000) })
+  return id
+}
+
+const base64url = (value: object) => Buffer.from(JSON.stringify(value)).toString('base64url')
+
+async function ownerClaims() {
+  return { sub: String(org.users.owner.id), org: org.organizationId, typ: 'user', jti: await liveSessionId(org.users.owner.id) }
+}
+
+async function tokenFor(caller: Caller): Promise<string | null> {
+  switch (caller) {
+    case 'noToken':
+      return null
+    case 'owner':
+    case 'keeper':
+    case 'viewer':
+      return freshToken(org.users[caller].id)
+    case 'otherOrg':
+      return freshToken(other.users.owner.id)
+    case 'tampered': {
+      const [header, payload, signature] = (await freshToken(org.users.owner.id)).split('.')
+      // The first character carries the top six bits of the first byte, so the signature really changes.
+      return `${header}.${payload}.${signature[0] === 'A' ? 'B' : 'A'}${signature.slice(1)}`
+    }
+    case 'expired': {
+      const { sub, jti, ...rest } = await ownerClaims()
+      return jwt.sign(rest, JWT_SECRET, { algorithm: 'HS256', subject: sub, jwtid: jti, expiresIn: -60 })
+    }
+    case 'algNone': {
+      const now = Math.floor(Date.now() / 1000)
+      const claims = { ...(await ownerClaims()), iat: now, exp: now + 3600 }
+      return `${base64url({ alg: 'none', typ: 'JWT' })}.${base64url(claims)}.`
+    }
+  }
+}
+
+function send(method: Method, path: string, token: string | null, body?: unknown) {
+  let req = t.api()[method](`/api/v1${path}`)
+  if (token) req = req.set(bearer(token))
+  return body === undefined ? req : req.send(body as object)
+}
+
+beforeAll(async () => {
+  t = await startTestApp({ signInLimit: 1000 })
+  org = await t.createOrg('Roles Org')
+  other = await t.createOrg('Stranger Org')
+  const { models } = t.ctx
+  world = {
+    org,
+    freshEmail: () => `person-${++emailCounter}@roles.example`,
+    async freshTank(archived = false) {
+      const tank = await tanksService(t.ctx).create(ownerActor(org), tankInputSchema.parse(sampleTank(org.siteIds[0])))
+      if (archived) await models.Tank.update({ archivedAt: new Date() }, { where: { id: tank.id } })
+      return tank.id
+    },
+    async freshSite(archived = false) {
+      const site = await models.Site.create({
+        organizationId: org.organizationId, name: 'Fresh site', timeZone: 'Europe/Berlin', archivedAt: archived ? new Date() : null,
+      })
+      return site.id
+    },
+    async freshInvitation() {
+      const input = { email: world.freshEmail(), name: 'Invitee', role: 'keeper' as const }
+      const { invitation, link } = await usersService(t.ctx).invite(ownerActor(org), input)
+      return { id: invitation.id, token: new URL(link, 'http://localhost').searchParams.get('token')! }
+    },
+    async freshUser() {
+      const user = await models.User.create({
+        organizationId: org.organizationId, email: world.freshEmail(), name: 'Target', role: 'keeper', passwordHash: 'unused',
+      })
+      return user.id
+    },
+    async freshDevice() {
+      const res = await send('post', '/devices', await freshToken(org.users.owner.id), await probe(world))
+      expect(res.status, JSON.stringify(res.body)).toBe(201)
+      return res.body.device.id as number
+    },
+  }
+})
+afterAll(async () => {
+  console.log(`route-roles: ${CASES.length} cases (${ROUTES.length} routes × ${CALLERS.length} callers)`)
+  await t?.close()
+})
+
+describe('every route × every caller answers the exact status', () => {
+  it.each(CASES.map((c) => [`${c.name} → ${c.status}`, c] as const))('%s', async (_name, c) => {
+    const { param, body } = await c.prepare(world)
+    const res = await send(c.method, c.route.replace(/:\w+/, String(param)), await tokenFor(c.caller), body)
+    expect(res.status, JSON.stringify(res.body)).toBe(c.status)
+    if (ERROR_CODES[c.status]) expect(res.body.error.code).toBe(ERROR_CODES[c.status])
+  })
+})
+
+describe('the table itself', () => {
+  it('lists exactly the routes the app serves', () => {
+    type Layer = { route?: { path: string; methods: Record<string, boolean> }; handle?: { stack?: Layer[] }; rawPath?: string }
+    const walk = (stack: Layer[], prefix: string): string[] =>
+      stack.flatMap((layer) => {
+        if (layer.route) {
+          const path = `${prefix}${layer.route.path}`.replace(/(.)\/$/, '$1')
+          return Object.keys(layer.route.methods).map((m) => `${m.toUpperCase()} ${path}`)
+        }
+        if (layer.handle?.stack) return walk(layer.handle.stack, prefix + (layer.rawPath === '/' ? '' : (layer.rawPath ?? '')))
+        return []
+      })
+    const served = walk((t.app as unknown as { router: { stack: Layer[] } }).router.stack, '')
+      .map((r) => r.replace(' /api/v1', ' '))
+      .sort()
+    const listed = ROUTES.map((r) => `${r.method.toUpperCase()} ${r.route}`).sort()
+    const notInTable = served.filter((r) => !listed.includes(r))
+    const notServed = listed.filter((r) => !served.includes(r))
+    expect({ notInTable, notServed }).toEqual({ notInTable: [], notServed: [] })
+    expect(listed).toEqual(served)
+  })
+
+  it('the forged tokens fail only on what was forged: the same claims signed properly are accepted', async () => {
+    const { sub, jti, ...rest } = await ownerClaims()
+    const good = jwt.sign(rest, JWT_SECRET, { algorithm: 'HS256', subject: sub, jwtid: jti, expiresIn: 60 })
+    const res = await send('get', '/auth/me', good)
+    expect(res.status).toBe(200)
+    expect(res.body.user.id).toBe(org.users.owner.id)
+  })
+})

@@ -1,0 +1,122 @@
+import { flushPromises } from '@vue/test-utils'
+import { beforeEach, describe, expect, it, vi } from 'vitest'
+import type { Role } from '@shared/schemas/auth'
+import type { PublicTank } from '@shared/schemas/tanks'
+
+vi.mock('@/api/tanks', () => ({
+  listTanks: vi.fn(),
+  getTank: vi.fn(),
+  createTank: vi.fn(),
+  updateTank: vi.fn(),
+  archiveTank: vi.fn(),
+  unarchiveTank: vi.fn(),
+}))
+vi.mock('@/api/sites', () => ({
+  listSites: vi.fn(),
+  createSite: vi.fn(),
+  updateSite: vi.fn(),
+  archiveSite: vi.fn(),
+  unarchiveSite: vi.fn(),
+}))
+
+import { getTank } from '@/api/tanks'
+import { listSites } from '@/api/sites'
+import SitesView from '@/views/SitesView.vue'
+import TankView from '@/views/TankView.vue'
+import { mountView } from './mount'
+
+const tank: PublicTank = {
+  id: 12,
+  name: 'Quarantine A',
+  siteId: 3,
+  siteName: 'Back fish room',
+  kind: 'marine',
+  stage: 'quarantine',
+  dimensions: null,
+  volumeLitres: 80,
+  volumeSource: 'entered',
+  substrateDepthCm: 0,
+  heater: { watts: 100, setPointC: 25, topCm: 20 },
+  filter: 'sponge',
+  media: '',
+  lightSchedule: { on: '10:00', off: '18:00' },
+  targets: { temperature: { min: 24, max: 27 }, ph: { min: 8, max: 8.4 } },
+  notes: '',
+  sortOrder: 0,
+  archivedAt: null,
+  createdAt: '2025-01-01T00:00:00.000Z',
+  updatedAt: '2025-01-01T00:00:00.000Z',
+}
+
+beforeEach(() => {
+  vi.mocked(getTank).mockResolvedValue(tank)
+  vi.mocked(listSites).mockResolvedValue([
+    { id: 3, name: 'Back fish room', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 1 },
+  ])
+})
+
+const buttonTexts = (wrapper: { findAll: (s: string) => { text: () => string }[] }) =>
+  wrapper.findAll('a, button').map((el) => el.text())
+
+async function tankPageAs(role: Role) {
+  const { wrapper } = await mountView(TankView, { role, props: { id: 12 } })
+  await flushPromises()
+  return wrapper
+}
+
+describe('tank page', () => {
+  it('shows the facts, target bands and empty panels', async () => {
+    const wrapper = await tankPageAs('viewer')
+    const text = wrapper.text()
+    expect(text).toContain('Quarantine A')
+    expect(text).toContain('80 L')
+    expect(text).toContain('25.0 °C')
+    expect(text).toContain('10:00–18:00')
+    expect(text).toMatch(/Temperature\s24\.0 – 27\.0 °C/)
+    expect(text).toMatch(/pH\s8\.00 – 8\.40/)
+    for (const empty of ['No readings yet.', 'No watch rules yet.', 'No care tasks yet.', 'No history yet.']) {
+      expect(text).toContain(empty)
+    }
+  })
+
+  it('gives a viewer no edit or archive controls', async () => {
+    const texts = buttonTexts(await tankPageAs('viewer'))
+    expect(texts).not.toContain('Edit tank')
+    expect(texts).not.toContain('Archive')
+  })
+
+  it('lets a keeper edit but not archive', async () => {
+    const texts = buttonTexts(await tankPageAs('keeper'))
+    expect(texts).toContain('Edit tank')
+    expect(texts).not.toContain('Archive')
+  })
+
+  it('lets an owner edit and archive', async () => {
+    const texts = buttonTexts(await tankPageAs('owner'))
+    expect(texts).toContain('Edit tank')
+    expect(texts).toContain('Archive')
+  })
+})
+
+describe('sites page', () => {
+  async function sitesPageAs(role: Role) {
+    const { wrapper } = await mountView(SitesView, { role })
+    await flushPromises()
+    return wrapper
+  }
+
+  it('lists the sites to a keeper without any management controls', async () => {
+    const wrapper = await sitesPageAs('keeper')
+    expect(wrapper.text()).toContain('Back fish room')
+    expect(wrapper.find('[data-test="new-site"]').exists()).toBe(false)
+    expect(wrapper.find('[aria-label="Edit Back fish room"]').exists()).toBe(false)
+    expect(wrapper.find('[aria-label="Archive Back fish room"]').exists()).toBe(false)
+  })
+
+  it('gives the owner create, edit and archive controls', async () => {
+    const wrapper = await sitesPageAs('owner')
+    expect(wrapper.find('[data-test="new-site"]').exists()).toBe(true)
+    expect(wrapper.find('[aria-label="Edit Back fish room"]').exists()).toBe(true)
+    expect(wrapper.find('[aria-label="Archive Back fish room"]').exists()).toBe(true)
+  })
+})

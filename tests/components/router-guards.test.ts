@@ -1,0 +1,96 @@
+import { createPinia, setActivePinia } from 'pinia'
+import { beforeEach, describe, expect, it, vi } from 'vitest'
+import { defineComponent, h } from 'vue'
+import { createMemoryHistory, createRouter, type RouteRecordRaw } from 'vue-router'
+
+vi.mock('@/api/auth', () => ({
+  signIn: vi.fn(),
+  signOut: vi.fn(),
+  fetchMe: vi.fn(),
+  changePassword: vi.fn(),
+  fetchInvitation: vi.fn(),
+  acceptInvitation: vi.fn(),
+}))
+
+import { fetchMe } from '@/api/auth'
+import { installGuards, isChunkLoadError } from '@/router'
+import { routes } from '@/router/routes'
+import { useAuthStore } from '@/stores/auth'
+import { userWithRole } from './mount'
+
+const Blank = defineComponent({ render: () => h('div') })
+
+// The app's routes with their names, paths and meta, but blank pages instead of lazy views.
+function blankRoutes(records: RouteRecordRaw[]): RouteRecordRaw[] {
+  return records.map((record) => {
+    if ('redirect' in record && record.redirect) return record
+    return { ...record, component: Blank, children: record.children ? blankRoutes(record.children) : undefined } as RouteRecordRaw
+  })
+}
+
+function appRouter() {
+  const router = createRouter({ history: createMemoryHistory(), routes: blankRoutes(routes) })
+  installGuards(router)
+  return router
+}
+
+beforeEach(() => {
+  setActivePinia(createPinia())
+  vi.mocked(fetchMe).mockReset()
+})
+
+describe('route guards', () => {
+  it('sends a signed-out visitor to sign-in with a way back', async () => {
+    const router = appRouter()
+    await router.push('/tanks/5')
+    expect(router.currentRoute.value.name).toBe('sign-in')
+    expect(router.currentRoute.value.query.redirect).toBe('/tanks/5')
+  })
+
+  it('restores a remembered session before deciding', async () => {
+    localStorage.setItem('tw.token', 'remembered')
+    vi.mocked(fetchMe).mockResolvedValue({ user: userWithRole('keeper'), organization: { id: 1, name: 'Shop' } })
+    const router = appRouter()
+    await router.push('/tanks/new')
+    expect(fetchMe).toHaveBeenCalledTimes(1)
+    expect(router.currentRoute.value.name).toBe('tank-new')
+  })
+
+  it('drops a stale token and asks to sign in', async () => {
+    localStorage.setItem('tw.token', 'expired')
+    vi.mocked(fetchMe).mockRejectedValue(new Error('401'))
+    const router = appRouter()
+    await router.push('/sites')
+    expect(router.currentRoute.value.name).toBe('sign-in')
+    expect(localStorage.getItem('tw.token')).toBeNull()
+  })
+
+  it.each([
+    ['viewer', '/tanks/new', 'tanks'],
+    ['viewer', '/tanks/3/edit', 'tanks'],
+    ['keeper', '/users', 'tanks'],
+    ['keeper', '/tanks/3/edit', 'tank-edit'],
+    ['owner', '/users', 'users'],
+  ] as const)('a %s opening %s lands on %s', async (role, path, expected) => {
+    const auth = useAuthStore()
+    auth.token = 'token'
+    auth.user = userWithRole(role)
+    const router = appRouter()
+    await router.push(path)
+    expect(router.currentRoute.value.name).toBe(expected)
+  })
+
+  it('redirects / to the tanks', async () => {
+    const auth = useAuthStore()
+    auth.token = 'token'
+    auth.user = userWithRole('viewer')
+    const router = appRouter()
+    await router.push('/')
+    expect(router.currentRoute.value.name).toBe('tanks')
+  })
+
+  it('recognises a vanished lazy chunk', () => {
+    expect(isChunkLoadError(new TypeError('Failed to fetch dynamically imported module: /assets/TankView-1a2b.js'))).toBe(true)
+    expect(isChunkLoadError(new Error('Request failed with status code 500'))).toBe(false)
+  })
+})

@@ -1,0 +1,73 @@
+import bcrypt from 'bcryptjs'
+import type { AppContext } from '../../server/context'
+import { newDeviceToken } from '../../server/auth/device-tokens'
+import { authService } from '../../server/services/auth'
+import type { Role } from '../../shared/schemas/auth'
+
+export const TEST_PASSWORD = 'correct-horse-battery'
+let passwordHash: string | undefined
+let counter = 0
+
+export type TestOrg = {
+  organizationId: number
+  siteIds: number[]
+  users: Record<Role, { id: number; email: string; token: string }>
+}
+
+/** An organization with two sites and one user of each role, each signed in. */
+export async function createOrgIn(ctx: AppContext, name = `Org ${counter + 1}`): Promise<TestOrg> {
+  counter++
+  passwordHash ??= await bcrypt.hash(TEST_PASSWORD, 4)
+  const org = await ctx.models.Organization.create({ name })
+  const siteA = await ctx.models.Site.create({ organizationId: org.id, name: `${name} shop`, timeZone: 'Europe/Berlin' })
+  const siteB = await ctx.models.Site.create({ organizationId: org.id, name: `${name} fish room`, timeZone: 'America/New_York' })
+  const auth = authService(ctx)
+  const users = {} as TestOrg['users']
+  const slug = name.toLowerCase().replace(/[^a-z0-9]+/g, '-')
+  for (const role of ['owner', 'keeper', 'viewer'] as const) {
+    const user = await ctx.models.User.create({
+      organizationId: org.id,
+      email: `${role}@${slug}-${counter}-${process.pid}.example`,
+      name: `${role} of ${name}`,
+      role,
+      passwordHash,
+    })
+    await user.reload({ include: [{ association: 'sites' }] })
+    const session = await auth.openSession(user)
+    users[role] = { id: user.id, email: user.email, token: session.token }
+  }
+  return { organizationId: org.id, siteIds: [siteA.id, siteB.id], users }
+}
+
+/** A tank with a device reporting temperature, pH, light and water level; answers the device token. */
+export async function createTankWithDevice(ctx: AppContext, org: TestOrg, name = 'Tank with sensor') {
+  const tank = await ctx.models.Tank.create({
+    organizationId: org.organizationId,
+    siteId: org.siteIds[0],
+    name,
+    kind: 'tropical_freshwater',
+    stage: 'established',
+    dimensions: { shape: 'rectangular', lengthCm: 100, widthCm: 40, heightCm: 50 },
+    volumeLitres: 200,
+    volumeSource: 'dimensions',
+    substrateDepthCm: 0,
+    heater: { watts: 200, setPointC: 26, topCm: 30 },
+    filter: '',
+    media: '',
+    lightSchedule: { on: '09:00', off: '20:00' },
+    targets: { temperature: { min: 24, max: 28 } },
+    notes: '',
+    sortOrder: 0,
+  })
+  const device = await ctx.models.Device.create({
+    organizationId: org.organizationId,
+    tankId: tank.id,
+    name: `${name} node`,
+    metrics: ['temperature', 'ph', 'light', 'water_level'],
+    intervalSeconds: 60,
+    tokenHash: 'pending',
+  })
+  const { token, hash } = newDeviceToken(device.id)
+  await device.update({ tokenHash: hash })
+  return { tankId: tank.id, deviceId: device.id, token }
+}
