@@ -15,6 +15,8 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
       appError = new AppError(413, 'too_large', `The request body is larger than the limit (${error.limit} bytes)`)
     } else if (error?.type === 'entity.parse.failed') {
       appError = new AppError(400, 'invalid_json', 'The request body is not valid JSON')
+    } else if (isDatabaseUnavailable(error)) {
+      appError = new AppError(503, 'unavailable', 'The database is unavailable; try again shortly', undefined, 5)
     } else if (typeof error?.status === 'number' && error.status >= 400 && error.status < 500) {
       appError = new AppError(error.status, 'bad_request', error.message ?? 'Bad request')
     } else {
@@ -31,4 +33,13 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
       },
     })
   }
+}
+
+/** Connection failures and server shutdowns are outages to wait out (503), not bugs (500). */
+export function isDatabaseUnavailable(error: unknown): boolean {
+  if (!error || typeof error !== 'object') return false
+  const e = error as { name?: string; original?: { code?: string }; parent?: { code?: string }; code?: string }
+  if (e.name?.startsWith('SequelizeConnection') || e.name === 'ConnectionAcquireTimeoutError') return true
+  const code = e.original?.code ?? e.parent?.code ?? e.code ?? ''
+  return /^(08|57P0)/.test(code) || ['ECONNREFUSED', 'ECONNRESET', 'EPIPE', 'ETIMEDOUT'].includes(code)
 }

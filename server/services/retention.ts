@@ -28,10 +28,10 @@ WITH gone AS (
   FROM gone
   GROUP BY 1, 2, 3
   ON CONFLICT (tank_id, metric, hour) DO UPDATE SET
-    min = EXCLUDED.min,
-    max = EXCLUDED.max,
-    sum = EXCLUDED.sum,
-    count = EXCLUDED.count
+    min = LEAST(h.min, EXCLUDED.min),
+    max = GREATEST(h.max, EXCLUDED.max),
+    sum = h.sum + EXCLUDED.sum,
+    count = h.count + EXCLUDED.count
   RETURNING 1
 )
 SELECT (SELECT count(*) FROM merged) AS hours, (SELECT count(*) FROM gone) AS deleted`

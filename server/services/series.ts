@@ -15,7 +15,7 @@ import type { AppContext } from '../context'
  * of the same step then shares boundaries, hour-and-longer buckets hold whole rolled-up hours, and
  * week buckets start on Mondays.
  */
-export const BUCKET_ORIGIN = '2000-01-01T00:00:00Z'
+export const BUCKET_ORIGIN = '2000-01-03T00:00:00Z'
 const ORIGIN_MS = Date.parse(BUCKET_ORIGIN)
 const HOUR = 3600
 const DAY = 24 * HOUR
@@ -59,7 +59,7 @@ const COUNT_SQL = `
 SELECT
   (SELECT count(*) FROM (
      SELECT 1 FROM readings
-     WHERE tank_id = $1 AND metric = $2 AND time >= $3::timestamptz AND time <= $4::timestamptz
+     WHERE tank_id = $1 AND metric = $2 AND time >= $3::timestamptz AND time < $4::timestamptz
      LIMIT $5) capped) AS raw,
   EXISTS (SELECT 1 FROM readings_hourly
      WHERE tank_id = $1 AND metric = $2
@@ -139,7 +139,7 @@ export function seriesService(ctx: AppContext) {
         return { ...head, bucketSeconds: 0, points: [], raw }
       }
       // Rolled-up hours cannot be split, so a range reaching into them is shown in hours or longer.
-      const bucketSeconds = chooseBucketSeconds(q.from, q.to, q.points, 1)
+      const bucketSeconds = chooseBucketSeconds(q.from, q.to, q.points, counted.rolled_up ? HOUR : 1)
       const rows = await select<BucketRow>(BUCKETS_SQL, [...range, bucketSeconds, BUCKET_ORIGIN])
       const points: SeriesBucket[] = rows.map((r) => ({
         t: r.bucket.toISOString(),

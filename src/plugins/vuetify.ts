@@ -28,6 +28,9 @@ export const tankwardenLight: ThemeDefinition = {
     watch: '#B7791F',
     alarm: '#B3261E',
     quiet: '#5D5F86',
+    // Amber is too light for white text; everything else carries white well.
+    'on-watch': '#1F1400',
+    'on-warning': '#1F1400',
   },
 }
 
@@ -49,6 +52,17 @@ export const tankwardenDark: ThemeDefinition = {
     watch: '#E5AE55',
     alarm: '#F28B82',
     quiet: '#A7A9DB',
+    // The light tints need dark text on top to stay legible.
+    'on-primary': '#00292E',
+    'on-secondary': '#161E2C',
+    'on-error': '#3D0B08',
+    'on-warning': '#2B1C00',
+    'on-success': '#08261A',
+    'on-info': '#0B2139',
+    'on-steady': '#08261A',
+    'on-watch': '#2B1C00',
+    'on-alarm': '#3D0B08',
+    'on-quiet': '#181A3A',
   },
 }
 

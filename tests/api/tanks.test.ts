@@ -11,7 +11,6 @@ import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
 let t: Awaited<ReturnType<typeof startTestApp>>
 let org: TestOrg
 let stranger: TestOrg
-let owner: Record<string, string>
 let keeper: Record<string, string>
 
 const create = (body: object, auth = keeper) => t.api().post('/api/v1/tanks').set(auth).send(body)
@@ -29,7 +28,6 @@ beforeAll(async () => {
   t = await startTestApp()
   org = await t.createOrg('Tank Org')
   stranger = await t.createOrg('Stranger')
-  owner = bearer(org.users.owner.token)
   keeper = bearer(org.users.keeper.token)
 })
 afterAll(() => t.close())
