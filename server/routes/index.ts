@@ -5,6 +5,7 @@ import type { AppContext } from '../context'
 import { authRouter } from './auth'
 import { devicesRouter } from './devices'
 import { readingsRouter } from './readings'
+import { seriesRoutes } from './series'
 import { invitationsRouter } from './invitations'
 import { sitesRouter } from './sites'
 import { tanksRouter } from './tanks'
@@ -26,7 +27,7 @@ export function apiRouter(ctx: AppContext) {
   router.use('/invitations', invitationsRouter(ctx))
   router.use('/users', requireUser, usersRouter(ctx))
   router.use('/sites', requireUser, sitesRouter(ctx))
-  router.use('/tanks', requireUser, tanksRouter(ctx))
+  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx))
   router.use('/devices', requireUser, devicesRouter(ctx))
   router.use('/readings', authenticateDevice(passport), readingsRouter(ctx))
   return router
