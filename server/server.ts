@@ -8,6 +8,7 @@ import { attachLiveHub } from './live/hub'
 import { startEmbeddedBroker, type EmbeddedBroker } from './mqtt/broker'
 import { startExternalConsumer } from './mqtt/external'
 import { seedDemoIfEmpty } from './seeders/demo'
+import { startRetentionJob } from './services/retention'
 
 export type RunningServer = {
   ctx: AppContext
@@ -40,6 +41,8 @@ export async function startServer(config: Config): Promise<RunningServer> {
   if (config.mqtt.url) external = await startExternalConsumer(ctx, config.mqtt.url)
   else broker = await startEmbeddedBroker(ctx, { host: config.mqtt.host, port: config.mqtt.port })
 
+  const stopRetention = startRetentionJob(ctx, { rawRetentionDays: config.rawRetentionDays, everyMs: 3600_000 })
+
   logger.info({ port, mqttPort: broker?.port ?? null }, 'Tankwarden is listening')
 
   let stopped = false
@@ -51,6 +54,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
     async stop() {
       if (stopped) return
       stopped = true
+      stopRetention()
       hub.close()
       await broker?.close()
       await external?.close()

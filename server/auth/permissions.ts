@@ -8,6 +8,7 @@ export const PERMISSIONS = {
   'tanks.archive': ['owner'],
   'users.manage': ['owner'],
   'devices.manage': ['owner'],
+  'kit.write': ['owner', 'keeper'],
 } as const satisfies Record<string, readonly Role[]>
 
 export type Permission = keyof typeof PERMISSIONS

@@ -1,4 +1,4 @@
-import type { Sequelize } from 'sequelize'
+import type { Sequelize, Transaction } from 'sequelize'
 import type { Logger } from '../logger'
 
 export type ReadingRow = {
@@ -139,36 +139,38 @@ export class BatchWriter {
     if (this.queue.length) this.schedule(this.healthy && this.queuedRows >= this.maxBatchRows ? 0 : this.flushMs)
   }
 
-  /** Inserts the rows and answers the keys that were new. */
   private async insert(rows: ReadingRow[]): Promise<Set<string>> {
-    const unique = new Map<string, ReadingRow>()
-    for (const r of rows) if (!unique.has(keyOf(r))) unique.set(keyOf(r), r)
-    const list = [...unique.values()]
-    const [result] = (await this.sequelize.query(
-      `INSERT INTO readings (source_key, metric, time, tank_id, value, source)
-       SELECT * FROM unnest($1::text[], $2::text[], $3::timestamptz[], $4::int[], $5::float8[], $6::text[])
-       ON CONFLICT DO NOTHING
-       RETURNING source_key, metric, time, tank_id, value, source`,
-      {
-        bind: [
-          list.map((r) => r.sourceKey),
-          list.map((r) => r.metric),
-          list.map((r) => r.time.toISOString()),
-          list.map((r) => r.tankId),
-          list.map((r) => r.value),
-          list.map((r) => r.source),
-        ],
-      },
-    )) as [Array<{ source_key: string; metric: string; time: Date; tank_id: number; value: number; source: ReadingRow['source'] }>, unknown]
-    const stored = result.map((r) => ({
-      sourceKey: r.source_key,
-      metric: r.metric,
-      time: r.time,
-      tankId: r.tank_id,
-      value: r.value,
-      source: r.source,
-    }))
+    const stored = await insertReadings(this.sequelize, rows)
     if (stored.length) this.options.onStored?.(stored)
     return new Set(stored.map(keyOf))
   }
+}
+
+/**
+ * One statement for any number of rows: `INSERT … SELECT FROM unnest(…) ON CONFLICT DO NOTHING`.
+ * Answers the rows that were new (duplicates, also within `rows`, are left out).
+ */
+export async function insertReadings(sequelize: Sequelize, rows: ReadingRow[], transaction?: Transaction): Promise<ReadingRow[]> {
+  if (!rows.length) return []
+  const unique = new Map<string, ReadingRow>()
+  for (const r of rows) if (!unique.has(keyOf(r))) unique.set(keyOf(r), r)
+  const list = [...unique.values()]
+  const [result] = (await sequelize.query(
+    `INSERT INTO readings (source_key, metric, time, tank_id, value, source)
+     SELECT * FROM unnest($1::text[], $2::text[], $3::timestamptz[], $4::int[], $5::float8[], $6::text[])
+     ON CONFLICT DO NOTHING
+     RETURNING source_key, metric, time, tank_id, value, source`,
+    {
+      bind: [
+        list.map((r) => r.sourceKey),
+        list.map((r) => r.metric),
+        list.map((r) => r.time.toISOString()),
+        list.map((r) => r.tankId),
+        list.map((r) => r.value),
+        list.map((r) => r.source),
+      ],
+      transaction,
+    },
+  )) as [Array<{ source_key: string; metric: string; time: Date; tank_id: number; value: number; source: ReadingRow['source'] }>, unknown]
+  return result.map((r) => ({ sourceKey: r.source_key, metric: r.metric, time: r.time, tankId: r.tank_id, value: r.value, source: r.source }))
 }

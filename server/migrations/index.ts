@@ -1,6 +1,19 @@
 import type { Migration } from '../db/migrate'
 import createFoundation from './202612020200-create-foundation'
 import createReadings from './202612020230-create-readings'
+import createTestKitEntries from './202612020300-create-test-kit-entries'
+import createMailOutbox from './202612020330-create-mail-outbox'
+import createDutyRoster from './202612020340-create-duty-roster'
+import createWatchRulesIncidents from './202612020350-create-watch-rules-incidents'
+import createWallCredentials from './202612020400-create-wall-credentials'
 
 /** Every migration in order. Add new files here; never edit one that has shipped. */
-export const migrations: Migration[] = [createFoundation, createReadings]
+export const migrations: Migration[] = [
+  createFoundation,
+  createReadings,
+  createTestKitEntries,
+  createMailOutbox,
+  createDutyRoster,
+  createWatchRulesIncidents,
+  createWallCredentials,
+]

@@ -7,17 +7,21 @@ import { Invitation } from './invitation'
 import { Site } from './site'
 import { Tank } from './tank'
 import { Device } from './device'
+import { TestKitEntry, TestKitEntryRevision, OutboxMessage } from './test-kit-entry'
+import { OutboxMessage } from './outbox-message'
 
-export { Organization, User, UserSite, Session, Invitation, Site, Tank, Device }
+export { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage }
 
 /** Binds every model to this Sequelize instance and declares the associations, in one place. */
 export function initModels(sequelize: Sequelize) {
-  for (const model of [Organization, User, UserSite, Session, Invitation, Site, Tank, Device]) model.initModel(sequelize)
+  for (const model of [Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage]) model.initModel(sequelize)
   User.belongsToMany(Site, { through: UserSite, as: 'sites', foreignKey: 'userId', otherKey: 'siteId' })
   Tank.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
   Site.hasMany(Tank, { as: 'tanks', foreignKey: 'siteId' })
   Device.belongsTo(Tank, { as: 'tank', foreignKey: 'tankId' })
   Tank.hasMany(Device, { as: 'devices', foreignKey: 'tankId' })
-  return { Organization, User, UserSite, Session, Invitation, Site, Tank, Device }
+  TestKitEntry.belongsTo(User, { as: 'author', foreignKey: 'enteredBy' })
+  TestKitEntry.hasMany(TestKitEntryRevision, { as: 'revisions', foreignKey: 'entryId' })
+  return { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage }
 }
 export type Models = ReturnType<typeof initModels>

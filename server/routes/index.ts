@@ -6,6 +6,7 @@ import { authRouter } from './auth'
 import { devicesRouter } from './devices'
 import { readingsRouter } from './readings'
 import { seriesRoutes } from './series'
+import { tankTestKitRoutes, testKitEntriesRouter } from './test-kit'
 import { invitationsRouter } from './invitations'
 import { sitesRouter } from './sites'
 import { tanksRouter } from './tanks'
@@ -27,7 +28,8 @@ export function apiRouter(ctx: AppContext) {
   router.use('/invitations', invitationsRouter(ctx))
   router.use('/users', requireUser, usersRouter(ctx))
   router.use('/sites', requireUser, sitesRouter(ctx))
-  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx))
+  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx))
+  router.use('/test-kit-entries', requireUser, testKitEntriesRouter(ctx))
   router.use('/devices', requireUser, devicesRouter(ctx))
   router.use('/readings', authenticateDevice(passport), readingsRouter(ctx))
   return router

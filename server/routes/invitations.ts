@@ -11,7 +11,8 @@ export function invitationsRouter(ctx: AppContext) {
   const users = usersService(ctx)
 
   router.get('/:token', async (req, res) => {
-    const { token } = parse(z.object({ token: z.string().min(20).max(200) }), req, 'params')
+    // No minimum length: a truncated link is an unknown invitation (404), not a malformed request.
+    const { token } = parse(z.object({ token: z.string().max(200) }), req, 'params')
     res.json(await users.describeInvitation(token))
   })
 

@@ -28,7 +28,7 @@ export const SWING_PH: Record<TankKind, number> = {
 export const SWING_TAU_S = 90 * 60
 /** Slow drift: Ornstein–Uhlenbeck with this spread and time constant. Assumption. */
 export const DRIFT_SD = 0.05
-export const DRIFT_TAU_S = 2 * 86_400
+export const DRIFT_TAU_S = 7 * 86_400
 /** A pH crash (buffer exhausted) loses this much over CRASH_DURATION_S. */
 export const CRASH_DROP = 1
 export const CRASH_DURATION_S = 3 * 3600

@@ -72,8 +72,8 @@ export class TankSimulation {
     return (this.simMs - this.startMs) / 1000
   }
 
-  private faultElapsedS(scenario: Scenario, activeForS = Infinity): number | null {
-    return this.plan.scenario === scenario ? scenarioElapsedS(this.plan, this.elapsedS, activeForS) : null
+  private faultElapsedS(scenario: Scenario, activeForS = Infinity, atElapsedS = this.elapsedS): number | null {
+    return this.plan.scenario === scenario ? scenarioElapsedS(this.plan, atElapsedS, activeForS) : null
   }
 
   /** Advances the simulated clock by `dtS` seconds. */
@@ -99,7 +99,8 @@ export class TankSimulation {
 
   private stepWater(dtS: number, roomC: number): void {
     const before = this.level.levelCm
-    const change = this.faultElapsedS('large_water_change', WATER_CHANGE_TOTAL_S)
+    // The level is where the pumps have taken it by the end of this step.
+    const change = this.faultElapsedS('large_water_change', WATER_CHANGE_TOTAL_S, this.elapsedS + dtS)
     if (change !== null) {
       this.changeStartCm ??= before
       const levelCm = waterChangeLevelCm(change, this.changeStartCm, this.level.targetCm) ?? this.level.targetCm

@@ -12,7 +12,7 @@ const JWT_SECRET = 'test-secret-that-is-long-enough-for-hs256-signing'
 const CALLERS = ['owner', 'keeper', 'viewer', 'noToken', 'expired', 'tampered', 'algNone', 'otherOrg'] as const
 type Caller = (typeof CALLERS)[number]
 type Expected = Record<Caller, number>
-type Method = 'get' | 'post' | 'patch' | 'delete'
+type Method = 'get' | 'post' | 'put' | 'patch' | 'delete'
 
 /** Everything a case may need, created fresh per case so one case's writes never decide another's status. */
 type World = {
@@ -26,7 +26,7 @@ type World = {
 }
 
 /** What one case sends: the value for the route's `:param` and the body, both made fresh per case. */
-type Prepared = { param?: number | string; body?: unknown }
+type Prepared = { param?: number | string; query?: string; body?: unknown }
 type RouteCase = { method: Method; route: string; expected: Expected; prepare: (w: World) => Promise<Prepared> | Prepared }
 
 const everyone = (status: number) => Object.fromEntries(CALLERS.map((c) => [c, status])) as Expected
@@ -73,6 +73,8 @@ const ROUTES: RouteCase[] = [
   row('patch', '/tanks/:id', signedIn(200, 200, 403, 404), async (w) => ({ param: await w.freshTank(), body: { stage: 'quarantine' } })),
   row('post', '/tanks/:id/archive', ownerOnly, async (w) => ({ param: await w.freshTank() })),
   row('post', '/tanks/:id/unarchive', ownerOnly, async (w) => ({ param: await w.freshTank(true) })),
+  row('get', '/tanks/:id/series', signedIn(200, 200, 200, 404), async (w) => ({ param: await w.freshTank(), query: 'metric=temperature' })),
+  row('get', '/tanks/:id/latest', signedIn(200, 200, 200, 404), async (w) => ({ param: await w.freshTank() })),
   row('get', '/devices', signedIn(200, 200, 200, 200)),
   row('get', '/devices/:id', signedIn(200, 200, 200, 404), async (w) => ({ param: await w.freshDevice() })),
   // Here a foreign tank in the body answers 404 (the devices service looks the tank up like a detail route).
@@ -194,8 +196,9 @@ afterAll(async () => {
 
 describe('every route × every caller answers the exact status', () => {
   it.each(CASES.map((c) => [`${c.name} → ${c.status}`, c] as const))('%s', async (_name, c) => {
-    const { param, body } = await c.prepare(world)
-    const res = await send(c.method, c.route.replace(/:\w+/, String(param)), await tokenFor(c.caller), body)
+    const { param, query, body } = await c.prepare(world)
+    const path = `${c.route.replace(/:\w+/, String(param))}${query ? `?${query}` : ''}`
+    const res = await send(c.method, path, await tokenFor(c.caller), body)
     expect(res.status, JSON.stringify(res.body)).toBe(c.status)
     if (ERROR_CODES[c.status]) expect(res.body.error.code).toBe(ERROR_CODES[c.status])
   })

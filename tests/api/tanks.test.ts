@@ -3,10 +3,11 @@ import { DEFAULT_TARGETS } from '../../shared/schemas/tank-defaults'
 import { TANK_KINDS } from '../../shared/schemas/tanks'
 import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
 
-// Volume checks: 1 L = 1 dm³ = 1000 cm³ (BIPM, The International System of Units, 9th ed., 2019,
-// Table 8). Shapes: V = l·w·h for a box, V = π·r²·h for a cylinder, semicircle area π·r²/2, circular
-// segment area ½·R²·(θ − sin θ) (E. W. Weisstein, CRC Concise Encyclopedia of Mathematics, 1999,
-// entries "Cylinder", "Semicircle", "Circular Segment"). The API stores litres to 0.1 L.
+// Volume checks: 1 L = 1 dm³ = 10³ cm³ (BIPM, The International System of Units (SI Brochure), 8th ed.,
+// 2006, updated 2014, Table 6). Box V = l·w·h, cylinder V = π·r²·h, semicircle area π·r²/2 (elementary
+// geometry). Circular segment of chord c and height s: R = (c²/4 + s²)/(2s), θ = 2·asin(c/2R),
+// area ½·R²·(θ − sin θ) (E. W. Weisstein, CRC Concise Encyclopedia of Mathematics, 1999, "Circular
+// Segment"; same formula in Wikipedia, "Circular segment", 2016). The API stores litres to 0.1 L.
 
 let t: Awaited<ReturnType<typeof startTestApp>>
 let org: TestOrg

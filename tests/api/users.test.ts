@@ -76,6 +76,7 @@ describe('invitation → description → acceptance', () => {
     const expired = await invited({ email: 'late@users.example', name: 'Late', role: 'keeper' })
     await t.ctx.models.Invitation.update({ expiresAt: new Date(Date.now() - 1000) }, { where: { id: expired.id } })
     const unknown = randomBytes(32).toString('base64url')
+    expect((await describeInvite(used.token.slice(0, 8))).body.error).toEqual({ code: 'not_found', message: GONE })
     for (const token of [used.token, expired.token, unknown]) {
       for (const res of [await describeInvite(token), await accept({ token, password: NEW_PASSWORD })]) {
         expect(res.status).toBe(404)
@@ -83,6 +84,10 @@ describe('invitation → description → acceptance', () => {
       }
     }
     expect((await signIn('late@users.example', NEW_PASSWORD)).status).toBe(401)
+    const pending = (await t.api().get('/api/v1/users/invitations').set(owner)).body.map((i: { id: number }) => i.id)
+    expect(pending.filter((id: number) => id === used.id || id === expired.id)).toEqual([])
+    const revokeUsed = await t.api().delete(`/api/v1/users/invitations/${used.id}`).set(owner)
+    expect([revokeUsed.status, revokeUsed.body.error.message]).toEqual([404, 'Invitation not found'])
   })
 
   it('refuses an e-mail already in use, in any organization and any letter case: 409 email_taken', async () => {

@@ -71,7 +71,7 @@ describe('MQTT ingest over real TCP', () => {
 
   it('cuts the connection when a device publishes to another device topic', async () => {
     const client = await connect(String(node.deviceId), node.token)
-    const closed = new Promise((resolve) => client.once('close', resolve))
+    const closed = new Promise<void>((resolve) => client.once('close', () => resolve()))
     client.publish(readingsTopic(other.deviceId), JSON.stringify({ v: 1, readings: [{ metric: 'ph', value: 7, time: new Date().toISOString() }] }), { qos: 1 })
     await closed
     expect(await rowsFor(other.tankId)).toHaveLength(0)
@@ -115,7 +115,7 @@ describe('MQTT ingest over real TCP', () => {
   it('cuts a live connection when the device is revoked', async () => {
     const fresh = await createTankWithDevice(s.ctx, org, 'Revoked tank')
     const client = await connect(String(fresh.deviceId), fresh.token)
-    const closed = new Promise((resolve) => client.once('close', resolve))
+    const closed = new Promise<void>((resolve) => client.once('close', () => resolve()))
     await s.ctx.models.Device.update({ revokedAt: new Date() }, { where: { id: fresh.deviceId } })
     s.ctx.events.emit('device.revoked', { deviceId: fresh.deviceId })
     await closed
