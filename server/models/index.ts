@@ -7,7 +7,7 @@ import { Invitation } from './invitation'
 import { Site } from './site'
 import { Tank } from './tank'
 import { Device } from './device'
-import { TestKitEntry, TestKitEntryRevision, OutboxMessage } from './test-kit-entry'
+import { TestKitEntry, TestKitEntryRevision } from './test-kit-entry'
 import { OutboxMessage } from './outbox-message'
 
 export { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage }
