@@ -29,6 +29,9 @@ const envSchema = z.object({
   MAX_READING_AGE_DAYS: z.coerce.number().int().min(1).max(3650).default(400),
   RAW_RETENTION_DAYS: z.coerce.number().int().min(1).max(3650).default(90),
   BCRYPT_ROUNDS: z.coerce.number().int().min(4).max(15).default(11),
+  SMTP_URL: z.string().url('SMTP_URL must be an smtp:// or smtps:// URL').optional(),
+  FAKE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
+  MAIL_FROM: z.string().min(3).default('Tankwarden <alerts@tankwarden.invalid>'),
 })
 
 export type Config = Readonly<{
@@ -49,6 +52,7 @@ export type Config = Readonly<{
   mqtt: { url?: string; host: string; port: number; wsPort?: number }
   readingLimits: { maxFutureSeconds: number; maxAgeDays: number }
   rawRetentionDays: number
+  mail: { smtpUrl?: string; fakeSmtpPort: number; from: string }
 }>
 
 /** The JWT secret is generated once and kept in the data folder when not configured. */
@@ -87,6 +91,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     mqtt: { url: e.MQTT_URL, host: e.MQTT_HOST, port: e.MQTT_PORT, wsPort: e.MQTT_WS_PORT },
     readingLimits: { maxFutureSeconds: e.MAX_FUTURE_SECONDS, maxAgeDays: e.MAX_READING_AGE_DAYS },
     rawRetentionDays: e.RAW_RETENTION_DAYS,
+    mail: { smtpUrl: e.SMTP_URL, fakeSmtpPort: e.FAKE_SMTP_PORT, from: e.MAIL_FROM },
   })
 }
 
@@ -109,6 +114,7 @@ export function testConfig(overrides: Partial<Config> & { databaseUrl: string })
     mqtt: { host: '127.0.0.1', port: 0 },
     readingLimits: { maxFutureSeconds: 300, maxAgeDays: 400 },
     rawRetentionDays: 90,
+    mail: { fakeSmtpPort: 0, from: 'Tankwarden <alerts@tankwarden.invalid>' },
     ...overrides,
   })
 }

@@ -12,6 +12,7 @@ export type StoredReading = {
 export type EventMap = {
   'readings.stored': [StoredReading[]]
   'device.revoked': [{ deviceId: number }]
+  'mail.attempted': [{ outboxId: number; incidentId: number | null; kind: string; to: string; ok: boolean; error?: string }]
 }
 
 export type EventBus = {

@@ -1,7 +1,7 @@
 import type { Role } from '../../shared/schemas/auth'
 import type { DeviceActor } from './device-tokens'
 
-/** Who is making a request. Device and wall-display actors join this union in later work. */
+/** A signed-in person. */
 export type UserActor = {
   kind: 'user'
   userId: number
@@ -11,7 +11,17 @@ export type UserActor = {
   siteIds: number[] | null
   sessionId: string
 }
-export type Actor = UserActor
+
+/** A wall display: read-only, one site, nothing but the wall. */
+export type WallActor = {
+  kind: 'wall'
+  credentialId: number
+  organizationId: number
+  siteIds: number[]
+  role: 'wall'
+}
+
+export type Actor = UserActor | WallActor
 
 declare global {
   // eslint-disable-next-line @typescript-eslint/no-namespace

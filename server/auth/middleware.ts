@@ -1,14 +1,14 @@
 import type { RequestHandler } from 'express'
 import type { Passport } from 'passport'
 import { forbidden, unauthenticated } from '../errors'
-import type { Actor } from './actor'
+import type { Actor, UserActor } from './actor'
 import type { DeviceActor } from './device-tokens'
 import { roleAllows, type Permission } from './permissions'
 
 /** Requires a valid user token; answers 401 in the API's error shape otherwise. */
-export function authenticate(passport: InstanceType<typeof Passport>): RequestHandler {
+export function authenticate(passport: InstanceType<typeof Passport>, strategies: string[] = ['user-jwt']): RequestHandler {
   return (req, res, next) => {
-    passport.authenticate('user-jwt', { session: false }, (error: unknown, actor: Actor | false) => {
+    passport.authenticate(strategies, { session: false }, (error: unknown, actor: Actor | false) => {
       if (error) return next(error)
       if (!actor) return next(unauthenticated('Sign in first, or sign in again: the token is missing, expired or revoked'))
       req.actor = actor
@@ -25,7 +25,15 @@ export function allow(permission: Permission): RequestHandler {
   }
 }
 
-export function actorOf(req: { actor?: Actor }): Actor {
+/** The signed-in person; a wall display never reaches routes that ask for one. */
+export function actorOf(req: { actor?: Actor }): UserActor {
+  if (!req.actor) throw unauthenticated()
+  if (req.actor.kind !== 'user') throw forbidden('A wall display can only show its wall')
+  return req.actor
+}
+
+/** A person or a wall display, for the few read routes both may use. */
+export function viewerOf(req: { actor?: Actor }): Actor {
   if (!req.actor) throw unauthenticated()
   return req.actor
 }

@@ -1,13 +1,14 @@
 import { Passport } from 'passport'
 import { Strategy as BearerStrategy } from 'passport-http-bearer'
 import type { Models } from '../models'
-import type { Actor } from './actor'
+import type { UserActor } from './actor'
 import { verifyAccessToken } from './tokens'
 import { deviceFromToken } from './device-tokens'
+import { wallFromToken } from './wall-tokens'
 
 /**
  * One Passport instance per app. Each credential kind is its own named strategy:
- * 'user-jwt' for people, 'device-token' for sensor nodes; wall-display credentials slot in beside them.
+ * 'user-jwt' for people, 'wall-token' for wall displays, 'device-token' for sensor nodes.
  */
 export function createPassport(models: Models, jwtSecret: string) {
   const passport = new Passport()
@@ -16,6 +17,16 @@ export function createPassport(models: Models, jwtSecret: string) {
     new BearerStrategy(async (token, done) => {
       try {
         done(null, (await userActorFromToken(models, jwtSecret, token)) ?? false)
+      } catch (error) {
+        done(error as Error)
+      }
+    }),
+  )
+  passport.use(
+    'wall-token',
+    new BearerStrategy(async (token, done) => {
+      try {
+        done(null, (await wallFromToken(models, token)) ?? false)
       } catch (error) {
         done(error as Error)
       }
@@ -34,7 +45,7 @@ export function createPassport(models: Models, jwtSecret: string) {
   return passport
 }
 
-export async function userActorFromToken(models: Models, jwtSecret: string, token: string): Promise<Actor | null> {
+export async function userActorFromToken(models: Models, jwtSecret: string, token: string): Promise<UserActor | null> {
   const claims = verifyAccessToken(jwtSecret, token)
   if (!claims) return null
   const session = await models.Session.findByPk(claims.jti)

@@ -1,7 +1,10 @@
 import type { Role } from '../../shared/schemas/auth'
 
+type Caller = Role | 'wall'
+
 /** The one place that says which roles may do what. Routes name a permission, never a role. */
 export const PERMISSIONS = {
+  'wall.read': ['owner', 'keeper', 'viewer', 'wall'],
   'org.read': ['owner', 'keeper', 'viewer'],
   'sites.write': ['owner'],
   'tanks.write': ['owner', 'keeper'],
@@ -9,10 +12,10 @@ export const PERMISSIONS = {
   'users.manage': ['owner'],
   'devices.manage': ['owner'],
   'kit.write': ['owner', 'keeper'],
-} as const satisfies Record<string, readonly Role[]>
+} as const satisfies Record<string, readonly Caller[]>
 
 export type Permission = keyof typeof PERMISSIONS
 
-export function roleAllows(role: Role, permission: Permission): boolean {
-  return (PERMISSIONS[permission] as readonly Role[]).includes(role)
+export function roleAllows(role: Caller, permission: Permission): boolean {
+  return (PERMISSIONS[permission] as readonly Caller[]).includes(role)
 }

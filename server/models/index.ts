@@ -8,13 +8,15 @@ import { Site } from './site'
 import { Tank } from './tank'
 import { Device } from './device'
 import { TestKitEntry, TestKitEntryRevision } from './test-kit-entry'
-import { OutboxMessage } from './outbox-message'
+import { FakeMailboxMessage, OutboxMessage } from './outbox-message'
+import { WallCredential } from './wall-credential'
+import { DutyShift, DutyOverride } from './duty'
 
-export { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage }
+export { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride }
 
 /** Binds every model to this Sequelize instance and declares the associations, in one place. */
 export function initModels(sequelize: Sequelize) {
-  for (const model of [Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage]) model.initModel(sequelize)
+  for (const model of [Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride]) model.initModel(sequelize)
   User.belongsToMany(Site, { through: UserSite, as: 'sites', foreignKey: 'userId', otherKey: 'siteId' })
   Tank.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
   Site.hasMany(Tank, { as: 'tanks', foreignKey: 'siteId' })
@@ -22,6 +24,6 @@ export function initModels(sequelize: Sequelize) {
   Tank.hasMany(Device, { as: 'devices', foreignKey: 'tankId' })
   TestKitEntry.belongsTo(User, { as: 'author', foreignKey: 'enteredBy' })
   TestKitEntry.hasMany(TestKitEntryRevision, { as: 'revisions', foreignKey: 'entryId' })
-  return { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage }
+  return { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride }
 }
 export type Models = ReturnType<typeof initModels>

@@ -1,0 +1,49 @@
+import { z } from 'zod'
+import type { LatestResponse } from './series'
+import type { Targets, TankKind, TankStage } from './tanks'
+
+export const TANK_STATES = ['alarm', 'watch', 'quiet', 'steady'] as const
+export type TankState = (typeof TANK_STATES)[number]
+
+export interface WallTank {
+  id: number
+  name: string
+  kind: TankKind
+  stage: TankStage
+  sortOrder: number
+  volumeLitres: number
+  heater: { watts: number; setPointC: number; topCm: number } | null
+  lightSchedule: { on: string; off: string } | null
+  targets: Targets
+  latest: LatestResponse
+  /** Temperature over the last hours, for the tile's trend line. */
+  trend: Array<{ t: string; value: number }>
+  state: TankState
+  stateReasons: string[]
+  openIncident: { id: number; title: string; severity: 'warning' | 'alarm'; openedAt: string } | null
+  snoozedUntil: string | null
+  lightOn: boolean | null
+  lightScheduledOn: boolean | null
+  newestReadingAt: string | null
+}
+
+export interface WallResponse {
+  site: { id: number; name: string; timeZone: string }
+  generatedAt: string
+  tanks: WallTank[]
+  onDuty: Array<{ userId: number; name: string }>
+  backupContact: { userId: number; name: string } | null
+  openIncidents: number
+  overdueCareTasks: number | null
+}
+
+export const wallCredentialInputSchema = z.object({ name: z.string().trim().min(1, 'required').max(80) })
+
+export interface PublicWallCredential {
+  id: number
+  name: string
+  siteId: number
+  createdAt: string
+  lastUsedAt: string | null
+  revokedAt: string | null
+}
