@@ -5,6 +5,7 @@ export type AccessClaims = { sub: string; org: number; jti: string; typ: 'user' 
 
 /** HS256 only: a token with any other `alg` (including `none`) is refused on verification. */
 const ALGORITHM = 'HS256' as const
+const UUID_RE = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i
 
 export function signAccessToken(secret: string, claims: { userId: number; organizationId: number }, hours: number) {
   const jti = randomUUID()
@@ -22,6 +23,8 @@ export function verifyAccessToken(secret: string, token: string): AccessClaims |
   try {
     const payload = jwt.verify(token, secret, { algorithms: [ALGORITHM] })
     if (typeof payload !== 'object' || payload.typ !== 'user' || !payload.sub || !payload.jti) return null
+    // The session id is a UUID; anything else would only reach the database to fail there.
+    if (!UUID_RE.test(payload.jti) || !/^\d{1,10}$/.test(payload.sub) || !Number.isInteger(payload.org)) return null
     return payload as AccessClaims
   } catch {
     return null

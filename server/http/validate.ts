@@ -1,9 +1,11 @@
 import type { Request } from 'express'
 import type { z } from 'zod'
-import { fromZod } from '../errors'
+import { badRequest, fromZod } from '../errors'
 
 /** Parses one part of a request with a shared zod schema; a failure is a 400 naming the fields. */
 export function parse<S extends z.ZodType>(schema: S, req: Request, where: 'body' | 'query' | 'params'): z.infer<S> {
+  const nul = findNul(req[where])
+  if (nul !== null) throw badRequest(`${nul || where}: control character NUL is not allowed`, { [nul || where]: 'contains a NUL character' })
   const result = schema.safeParse(req[where] ?? {})
   if (!result.success) throw fromZod(result.error, where)
   return result.data
@@ -17,4 +19,16 @@ export function parseChanges<S extends z.ZodType>(schema: S, req: Request): Part
   const data = parse(schema, req, 'body') as Record<string, unknown>
   const sent: object = req.body && typeof req.body === 'object' ? req.body : {}
   return Object.fromEntries(Object.entries(data).filter(([key]) => Object.hasOwn(sent, key))) as Partial<z.infer<S>>
+}
+
+/** PostgreSQL text cannot hold NUL; the path of the first string containing one, else null. */
+function findNul(value: unknown, path = ''): string | null {
+  if (typeof value === 'string') return value.includes('\u0000') ? path : null
+  if (value && typeof value === 'object') {
+    for (const [key, inner] of Object.entries(value)) {
+      const found = findNul(inner, path ? `${path}.${key}` : key)
+      if (found !== null) return found
+    }
+  }
+  return null
 }

@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { UserActor } from '../../server/auth/actor'
 import { authService } from '../../server/services/auth'
 import { tanksService } from '../../server/services/tanks'
+import { testKitService } from '../../server/services/test-kit'
 import { usersService } from '../../server/services/users'
 import { tankInputSchema } from '../../shared/schemas/tanks'
 import { bearer, sampleTank, startTestApp, TEST_PASSWORD, type TestOrg } from '../helpers/app'
@@ -39,6 +40,15 @@ const row = (method: Method, route: string, expected: Expected, prepare: RouteCa
 })
 const ownerOnly = signedIn(200, 403, 403, 404)
 const probe = async (w: World) => ({ tankId: await w.freshTank(), name: 'Probe', metrics: ['temperature'], intervalSeconds: 60 })
+
+const kitBody = { values: [{ metric: 'ph', value: 7.1, unit: 'pH' }], notes: 'weekly check' }
+async function keepersEntry(w: World) {
+  const tankId = await w.freshTank()
+  const keeper = await t.ctx.models.User.findByPk(w.org.users.keeper.id)
+  const actor: UserActor = { kind: 'user', userId: keeper!.id, organizationId: keeper!.organizationId, role: 'keeper', siteIds: null, sessionId: randomUUID() }
+  const entry = await testKitService(t.ctx).create(actor, tankId, { values: kitBody.values as never, notes: '' })
+  return entry.id
+}
 
 /** One row per route the API serves. A new route adds a row here; the coverage test below insists. */
 const ROUTES: RouteCase[] = [
@@ -82,6 +92,12 @@ const ROUTES: RouteCase[] = [
   row('patch', '/devices/:id', ownerOnly, async (w) => ({ param: await w.freshDevice(), body: { name: 'Renamed probe' } })),
   row('post', '/devices/:id/rotate', ownerOnly, async (w) => ({ param: await w.freshDevice() })),
   row('post', '/devices/:id/revoke', ownerOnly, async (w) => ({ param: await w.freshDevice() })),
+  row('get', '/tanks/:id/test-kit-entries', signedIn(200, 200, 200, 404), async (w) => ({ param: await w.freshTank() })),
+  row('post', '/tanks/:id/test-kit-entries', signedIn(201, 201, 403, 404), async (w) => ({ param: await w.freshTank(), body: kitBody })),
+  // Entries are made by the keeper: only their author may change them, within the edit window.
+  row('put', '/test-kit-entries/:id', signedIn(403, 200, 403, 404), async (w) => ({ param: await keepersEntry(w), body: kitBody })),
+  row('delete', '/test-kit-entries/:id', signedIn(403, 204, 403, 404), async (w) => ({ param: await keepersEntry(w) })),
+  row('get', '/test-kit-entries/:id/history', signedIn(200, 200, 200, 404), async (w) => ({ param: await keepersEntry(w) })),
   // A person's token, however valid, is never a device token.
   row('post', '/readings', everyone(401), () => ({ body: { readings: [] } })),
 ]

@@ -1,0 +1,24 @@
+import type { DeviceInput, PublicDevice } from '@shared/schemas/devices'
+import { http } from './client'
+
+export interface DeviceWithToken {
+  device: PublicDevice
+  /** Shown once; the server keeps only a hash. */
+  token: string
+}
+
+export async function listDevices(tankId: number): Promise<PublicDevice[]> {
+  return (await http.get<PublicDevice[]>('/devices', { params: { tankId: String(tankId) } })).data
+}
+
+export async function createDevice(input: DeviceInput): Promise<DeviceWithToken> {
+  return (await http.post<DeviceWithToken>('/devices', input)).data
+}
+
+export async function rotateDeviceToken(id: number): Promise<DeviceWithToken> {
+  return (await http.post<DeviceWithToken>(`/devices/${id}/rotate`)).data
+}
+
+export async function revokeDevice(id: number): Promise<PublicDevice> {
+  return (await http.post<PublicDevice>(`/devices/${id}/revoke`)).data
+}

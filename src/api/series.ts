@@ -1,0 +1,24 @@
+import type { MetricKey } from '@shared/metrics/registry'
+import type { LatestResponse, SeriesResponse } from '@shared/schemas/series'
+import { http } from './client'
+
+export interface SeriesParams {
+  metric: MetricKey
+  from: Date
+  to: Date
+  points?: number
+}
+
+export async function getSeries(tankId: number, params: SeriesParams): Promise<SeriesResponse> {
+  const query: Record<string, string> = {
+    metric: params.metric,
+    from: params.from.toISOString(),
+    to: params.to.toISOString(),
+  }
+  if (params.points) query.points = String(params.points)
+  return (await http.get<SeriesResponse>(`/tanks/${tankId}/series`, { params: query })).data
+}
+
+export async function getLatest(tankId: number): Promise<LatestResponse> {
+  return (await http.get<LatestResponse>(`/tanks/${tankId}/latest`)).data
+}
