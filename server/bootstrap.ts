@@ -7,6 +7,7 @@ import { DeviceStatusTracker } from './ingest/device-status'
 import { createIngest } from './ingest/ingest-service'
 import { createLogger } from './logger'
 import { initModels } from './models'
+import { silentNotifier } from './rules/notifier'
 
 /** Builds the shared context (database, models, logger, events, ingest) from a config. */
 export function createContext(config: Config, options: { writer?: BatchWriterOptions } = {}): AppContext {
@@ -20,7 +21,7 @@ export function createContext(config: Config, options: { writer?: BatchWriterOpt
   })
   const status = new DeviceStatusTracker(sequelize, logger)
   const ingest = createIngest({ writer, status, limits: config.readingLimits })
-  return { config, sequelize, models, logger, events, readings: { writer, status, ingest } }
+  return { config, sequelize, models, logger, events, readings: { writer, status, ingest }, alerts: { notifier: silentNotifier } }
 }
 
 /** Writes what is still buffered and closes the database. */

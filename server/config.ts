@@ -28,6 +28,10 @@ const envSchema = z.object({
   MAX_FUTURE_SECONDS: z.coerce.number().int().min(0).max(86400).default(300),
   MAX_READING_AGE_DAYS: z.coerce.number().int().min(1).max(3650).default(400),
   RAW_RETENTION_DAYS: z.coerce.number().int().min(1).max(3650).default(90),
+  RULES_TICK_SECONDS: z.coerce.number().positive().max(300).default(10),
+  ESCALATE_ALARM_MINUTES: z.coerce.number().positive().max(1440).default(15),
+  ESCALATE_WARNING_MINUTES: z.coerce.number().positive().max(1440).default(60),
+  REPEAT_MINUTES: z.coerce.number().positive().max(1440).default(30),
   BCRYPT_ROUNDS: z.coerce.number().int().min(4).max(15).default(11),
   SMTP_URL: z.string().url('SMTP_URL must be an smtp:// or smtps:// URL').optional(),
   FAKE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
@@ -52,6 +56,8 @@ export type Config = Readonly<{
   mqtt: { url?: string; host: string; port: number; wsPort?: number }
   readingLimits: { maxFutureSeconds: number; maxAgeDays: number }
   rawRetentionDays: number
+  rulesTickMs: number
+  alertTiming: { escalateAlarmAfterMinutes: number; escalateWarningAfterMinutes: number; repeatEveryMinutes: number }
   mail: { smtpUrl?: string; fakeSmtpPort: number; from: string }
 }>
 
@@ -91,6 +97,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     mqtt: { url: e.MQTT_URL, host: e.MQTT_HOST, port: e.MQTT_PORT, wsPort: e.MQTT_WS_PORT },
     readingLimits: { maxFutureSeconds: e.MAX_FUTURE_SECONDS, maxAgeDays: e.MAX_READING_AGE_DAYS },
     rawRetentionDays: e.RAW_RETENTION_DAYS,
+    rulesTickMs: e.RULES_TICK_SECONDS * 1000,
+    alertTiming: { escalateAlarmAfterMinutes: e.ESCALATE_ALARM_MINUTES, escalateWarningAfterMinutes: e.ESCALATE_WARNING_MINUTES, repeatEveryMinutes: e.REPEAT_MINUTES },
     mail: { smtpUrl: e.SMTP_URL, fakeSmtpPort: e.FAKE_SMTP_PORT, from: e.MAIL_FROM },
   })
 }
@@ -114,6 +122,8 @@ export function testConfig(overrides: Partial<Config> & { databaseUrl: string })
     mqtt: { host: '127.0.0.1', port: 0 },
     readingLimits: { maxFutureSeconds: 300, maxAgeDays: 400 },
     rawRetentionDays: 90,
+    rulesTickMs: 10_000,
+    alertTiming: { escalateAlarmAfterMinutes: 15, escalateWarningAfterMinutes: 60, repeatEveryMinutes: 30 },
     mail: { fakeSmtpPort: 0, from: 'Tankwarden <alerts@tankwarden.invalid>' },
     ...overrides,
   })

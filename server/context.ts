@@ -4,6 +4,7 @@ import type { EventBus } from './events'
 import type { BatchWriter } from './ingest/batch-writer'
 import type { DeviceStatusTracker } from './ingest/device-status'
 import type { Ingest } from './ingest/ingest-service'
+import type { IncidentNotifier } from './rules/notifier'
 import type { Logger } from './logger'
 import type { Models } from './models'
 
@@ -15,4 +16,6 @@ export type AppContext = {
   logger: Logger
   events: EventBus
   readings: { writer: BatchWriter; status: DeviceStatusTracker; ingest: Ingest }
+  /** Who hears about incidents; the mail notifier in a running server, silent in bare tests. */
+  alerts: { notifier: IncidentNotifier }
 }

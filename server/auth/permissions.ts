@@ -12,6 +12,10 @@ export const PERMISSIONS = {
   'users.manage': ['owner'],
   'devices.manage': ['owner'],
   'kit.write': ['owner', 'keeper'],
+  'rules.manage': ['owner'],
+  'snoozes.write': ['owner', 'keeper'],
+  'incidents.handle': ['owner', 'keeper'],
+  'roster.manage': ['owner'],
 } as const satisfies Record<string, readonly Caller[]>
 
 export type Permission = keyof typeof PERMISSIONS

@@ -14,11 +14,13 @@ function headerText(value: HeaderValue): string {
   if (typeof value === 'string') return value
   if (value instanceof Date) return value.toISOString()
   if (Array.isArray(value)) return value.map((v) => headerText(v)).join(', ')
-  if ('text' in value) return value.text
-  if ('value' in value) {
-    const params = Object.entries(value.params).map(([k, v]) => `; ${k}=${v}`)
-    return value.value + params.join('')
+  const fields = value as { text?: unknown; value?: unknown; params?: unknown }
+  if (typeof fields.text === 'string') return fields.text
+  if (typeof fields.value === 'string' && fields.params && typeof fields.params === 'object') {
+    const params = Object.entries(fields.params as Record<string, string>).map(([k, v]) => `; ${k}=${v}`)
+    return fields.value + params.join('')
   }
+  // List-* headers, combined by the parser into one object.
   return JSON.stringify(value)
 }
 

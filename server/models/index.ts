@@ -11,12 +11,13 @@ import { TestKitEntry, TestKitEntryRevision } from './test-kit-entry'
 import { FakeMailboxMessage, OutboxMessage } from './outbox-message'
 import { WallCredential } from './wall-credential'
 import { DutyShift, DutyOverride } from './duty'
+import { WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink } from './alerts'
 
-export { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride }
+export { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink }
 
 /** Binds every model to this Sequelize instance and declares the associations, in one place. */
 export function initModels(sequelize: Sequelize) {
-  for (const model of [Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride]) model.initModel(sequelize)
+  for (const model of [Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink]) model.initModel(sequelize)
   User.belongsToMany(Site, { through: UserSite, as: 'sites', foreignKey: 'userId', otherKey: 'siteId' })
   Tank.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
   Site.hasMany(Tank, { as: 'tanks', foreignKey: 'siteId' })
@@ -24,6 +25,8 @@ export function initModels(sequelize: Sequelize) {
   Tank.hasMany(Device, { as: 'devices', foreignKey: 'tankId' })
   TestKitEntry.belongsTo(User, { as: 'author', foreignKey: 'enteredBy' })
   TestKitEntry.hasMany(TestKitEntryRevision, { as: 'revisions', foreignKey: 'entryId' })
-  return { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride }
+  Incident.belongsTo(Tank, { as: 'tank', foreignKey: 'tankId' })
+  Incident.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
+  return { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink }
 }
 export type Models = ReturnType<typeof initModels>

@@ -7,6 +7,9 @@ import { devicesRouter } from './devices'
 import { readingsRouter } from './readings'
 import { seriesRoutes } from './series'
 import { tankTestKitRoutes, testKitEntriesRouter } from './test-kit'
+import { rulesRouter, siteRulesRoutes, snoozesRouter, tankRulesRoutes } from './rules'
+import { ackLinksRouter, incidentsRouter } from './incidents'
+import { rosterRoutes } from './roster'
 import { invitationsRouter } from './invitations'
 import { sitesRouter } from './sites'
 import { tanksRouter } from './tanks'
@@ -27,9 +30,13 @@ export function apiRouter(ctx: AppContext) {
   router.use('/auth', authRouter(ctx, requireUser))
   router.use('/invitations', invitationsRouter(ctx))
   router.use('/users', requireUser, usersRouter(ctx))
-  router.use('/sites', requireUser, sitesRouter(ctx))
-  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx))
+  router.use('/sites', requireUser, sitesRouter(ctx), siteRulesRoutes(ctx), rosterRoutes(ctx))
+  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx), tankRulesRoutes(ctx))
   router.use('/test-kit-entries', requireUser, testKitEntriesRouter(ctx))
+  router.use('/rules', requireUser, rulesRouter(ctx))
+  router.use('/snoozes', requireUser, snoozesRouter(ctx))
+  router.use('/incidents', requireUser, incidentsRouter(ctx))
+  router.use('/ack-links', ackLinksRouter(ctx))
   router.use('/devices', requireUser, devicesRouter(ctx))
   router.use('/readings', authenticateDevice(passport), readingsRouter(ctx))
   return router

@@ -1,5 +1,6 @@
 import type { Role } from '@shared/schemas/auth'
-import { METRICS, type MetricKey } from '@shared/metrics/registry'
+import { METRICS, displayPrecision, type MetricKey } from '@shared/metrics/registry'
+import { displayUnitOf, toDisplayValue, unitLabel } from './useUnits'
 
 export const ROLE_LABELS: Record<Role, string> = {
   owner: 'Owner',
@@ -42,10 +43,12 @@ export function metricUnit(key: MetricKey): string {
 
 export function formatBand(key: MetricKey, band: { min: number; max: number } | undefined): string {
   if (!band) return '—'
-  const precision = METRICS[key].precision
-  const unit = METRICS[key].unitLabel
+  // Shown in the person's unit (°F for some); stored and edited canonically.
+  const unitCode = displayUnitOf(key)
+  const precision = displayPrecision(key, unitCode)
+  const unit = unitLabel(key, unitCode)
   const suffix = unit === 'pH' ? '' : ` ${unit}`
-  return `${formatNumber(band.min, precision)} – ${formatNumber(band.max, precision)}${suffix}`
+  return `${formatNumber(toDisplayValue(key, band.min), precision)} – ${formatNumber(toDisplayValue(key, band.max), precision)}${suffix}`
 }
 
 export function formatDate(iso: string | null | undefined): string {

@@ -122,8 +122,8 @@ function connect() {
     pingTimer = null
     if (event.code === LIVE_CLOSE.unauthenticated) {
       status.value = 'offline'
+      // A person is signed out (which clears every subscription); a display keeps trying.
       notifyUnauthorized()
-      return
     }
     scheduleReconnect()
   }

@@ -14,9 +14,14 @@ export function registerPlugins(app: App) {
 
   // An expired or revoked session ends here, whichever request noticed it first.
   onUnauthorized(() => {
-    useAuthStore(pinia).clearSession()
-    resetSessionStores(pinia)
+    const auth = useAuthStore(pinia)
+    const personWasSignedIn = auth.token != null
     const current = router.currentRoute.value
+    // A display's key that stops working leaves the wall up, saying so, and retrying: signing in
+    // is not something a TV can do, and the owner may fix the credential.
+    if (!personWasSignedIn && current.meta.wall) return
+    auth.clearSession()
+    resetSessionStores(pinia)
     if (current.meta.public) return
     void router.replace({ name: 'sign-in', query: { redirect: current.fullPath } })
   })

@@ -1,4 +1,5 @@
 import { createRouter, createWebHistory, type Router } from 'vue-router'
+import { storeWallSession, storedWallSession } from '@/api/session'
 import { useAuthStore } from '@/stores/auth'
 import { safeRedirect } from './redirect'
 import { routes } from './routes'
@@ -11,8 +12,24 @@ export const router = createRouter({
 
 export function installGuards(target: Router) {
   target.beforeEach(async (to) => {
+    // A wall link carries its display key once: keep it, and take it out of the address bar.
+    const linkKey = to.name === 'wall' ? to.query.key : undefined
+    if (typeof linkKey === 'string' && linkKey) {
+      storeWallSession({ key: linkKey, siteId: Number(to.params.siteId) })
+      const query = { ...to.query }
+      delete query.key
+      return { name: 'wall', params: to.params, query, hash: to.hash, replace: true }
+    }
+
     const auth = useAuthStore()
     await auth.restore()
+
+    // A display without a person signed in sees its own wall and nothing else.
+    const wall = storedWallSession()
+    if (!auth.isSignedIn && wall) {
+      if (to.name === 'wall' && Number(to.params.siteId) === wall.siteId) return true
+      return { name: 'wall', params: { siteId: String(wall.siteId) }, replace: true }
+    }
 
     if (to.meta.public) {
       // A signed-in person opening the sign-in page goes straight on.

@@ -8,6 +8,8 @@ declare module 'vue-router' {
     /** Only these roles may open the route; absent means every signed-in role. */
     roles?: Role[]
     title?: string
+    /** A full-screen page without the app's chrome. */
+    wall?: boolean
   }
 }
 
@@ -27,6 +29,13 @@ export const routes: RouteRecordRaw[] = [
     meta: { public: true, title: 'Join your team' },
   },
   {
+    path: '/wall/:siteId(\\d+)',
+    name: 'wall',
+    component: () => import('@/views/WallView.vue'),
+    props: (route) => ({ siteId: Number(route.params.siteId) }),
+    meta: { wall: true, title: 'Wall' },
+  },
+  {
     path: '/',
     component: () => import('@/components/layout/AppShell.vue'),
     children: [
@@ -44,6 +53,13 @@ export const routes: RouteRecordRaw[] = [
         component: () => import('@/views/TankView.vue'),
         props: (route) => ({ id: Number(route.params.id) }),
         meta: { title: 'Tank' },
+      },
+      {
+        path: 'tanks/:id(\\d+)/test-kit',
+        name: 'tank-test-kit',
+        component: () => import('@/views/TestKitView.vue'),
+        props: (route) => ({ id: Number(route.params.id) }),
+        meta: { title: 'Log test', roles: EDITORS },
       },
       {
         path: 'tanks/:id(\\d+)/edit',

@@ -1,4 +1,6 @@
 import type { Pinia } from 'pinia'
+import { resetLiveSocket } from '@/composables/useLiveSocket'
+import { useLiveStore } from './live'
 import { useSitesStore } from './sites'
 import { useTanksStore } from './tanks'
 import { useUsersStore } from './users'
@@ -8,4 +10,6 @@ export function resetSessionStores(pinia?: Pinia) {
   useSitesStore(pinia).$reset()
   useTanksStore(pinia).$reset()
   useUsersStore(pinia).$reset()
+  useLiveStore(pinia).$reset()
+  resetLiveSocket()
 }

@@ -1,0 +1,155 @@
+import type { OutboxAttachment, RenderedMail } from '../types'
+import { button, cautionBox, escapeHtml, factsTable, layout, oneLine, safeUrl } from './html'
+import { READINGS_ARE_AIDS } from './safety'
+import { formatDuration, formatInZone } from './time'
+
+export type IncidentMailInput = {
+  organizationName: string
+  siteName: string
+  tankName: string
+  ruleName: string
+  severity: 'warning' | 'alarm'
+  metricLabel: string
+  /** A number is shown with at most two decimals; pass a string to control the precision. */
+  value: number | string
+  unitLabel: string
+  /** ISO time the incident opened (for device-back: since when the tank was quiet). */
+  since: string
+  siteTimeZone: string
+  whatToCheck: string[]
+  incidentUrl: string
+  acknowledgeUrl?: string
+  trendPng?: Buffer
+  safetyCaution?: string
+  /** ISO time of this mail's event (escalated, repeated, resolved, back); shown with how long it lasted. */
+  at?: string
+}
+
+export const TREND_CID = 'trend@tankwarden'
+
+type Variant = {
+  heading: (i: IncidentMailInput) => string
+  subject: (i: IncidentMailInput) => string
+  lead: (i: IncidentMailInput) => string
+  sinceLabel: string
+  accent: (i: IncidentMailInput) => string
+  /** Still something to do: what to check, the caution and the acknowledge link. */
+  actionable: boolean
+}
+
+const SEVERITY = { warning: 'Warning', alarm: 'Alarm' } as const
+const ACCENT = { warning: '#b7791f', alarm: '#b42318' } as const
+const CALM = '#2f855a'
+
+const reading = (i: IncidentMailInput) => {
+  const value = typeof i.value === 'number' ? new Intl.NumberFormat('en-GB', { maximumFractionDigits: 2 }).format(i.value) : i.value
+  return oneLine(`${value} ${i.unitLabel}`)
+}
+const where = (i: IncidentMailInput) => `${i.tankName} · ${i.siteName}`
+const lasted = (i: IncidentMailInput) => (i.at ? ` (${formatDuration(Date.parse(i.at) - Date.parse(i.since))})` : '')
+
+const VARIANTS = {
+  opened: {
+    heading: (i) => `${SEVERITY[i.severity]}: ${i.metricLabel} on ${i.tankName}`,
+    subject: (i) => `${SEVERITY[i.severity]}: ${i.metricLabel} ${reading(i)} on ${where(i)}`,
+    lead: (i) => `The watch rule "${i.ruleName}" opened an incident: ${i.metricLabel} is ${reading(i)}.`,
+    sinceLabel: 'Opened',
+    accent: (i) => ACCENT[i.severity],
+    actionable: true,
+  },
+  escalated: {
+    heading: (i) => `Escalated ${SEVERITY[i.severity].toLowerCase()}: ${i.metricLabel} on ${i.tankName}`,
+    subject: (i) => `Escalated ${SEVERITY[i.severity].toLowerCase()}: nobody has acknowledged ${i.metricLabel} on ${where(i)}`,
+    lead: (i) => `Nobody has acknowledged this incident yet${lasted(i)}, so it now comes to you. ${i.metricLabel} is ${reading(i)}.`,
+    sinceLabel: 'Opened',
+    accent: (i) => ACCENT[i.severity],
+    actionable: true,
+  },
+  repeat: {
+    heading: (i) => `Still open: ${i.metricLabel} on ${i.tankName}`,
+    subject: (i) => `Still open — ${SEVERITY[i.severity].toLowerCase()}: ${i.metricLabel} ${reading(i)} on ${where(i)}`,
+    lead: (i) => `This incident is still open${lasted(i)}. ${i.metricLabel} is ${reading(i)}.`,
+    sinceLabel: 'Opened',
+    accent: (i) => ACCENT[i.severity],
+    actionable: true,
+  },
+  resolved: {
+    heading: (i) => `Resolved: ${i.metricLabel} on ${i.tankName}`,
+    subject: (i) => `Resolved: ${i.metricLabel} on ${where(i)} is back in range`,
+    lead: (i) => `The incident of "${i.ruleName}" is resolved${lasted(i)}: ${i.metricLabel} is ${reading(i)}.`,
+    sinceLabel: 'Opened',
+    accent: () => CALM,
+    actionable: false,
+  },
+  deviceBack: {
+    heading: (i) => `Reporting again: ${i.tankName}`,
+    subject: (i) => `Reporting again: ${where(i)}`,
+    lead: (i) => `Readings arrive again after a quiet spell${lasted(i)}. Latest ${i.metricLabel}: ${reading(i)}.`,
+    sinceLabel: 'Quiet since',
+    accent: () => CALM,
+    actionable: false,
+  },
+} satisfies Record<string, Variant>
+
+function render(variant: Variant, i: IncidentMailInput): RenderedMail {
+  const sinceText = formatInZone(i.since, i.siteTimeZone)
+  const facts: Array<[string, string]> = [
+    ['Organization', i.organizationName],
+    ['Site', i.siteName],
+    ['Tank', i.tankName],
+    ['Watch rule', i.ruleName],
+    ['Severity', SEVERITY[i.severity]],
+    [i.metricLabel, reading(i)],
+    [variant.sinceLabel, sinceText],
+    ...(i.at ? ([['This update', formatInZone(i.at, i.siteTimeZone)]] as Array<[string, string]>) : []),
+  ]
+  const checks = variant.actionable ? i.whatToCheck : []
+  const caution = variant.actionable ? i.safetyCaution : undefined
+  const ack = variant.actionable ? i.acknowledgeUrl : undefined
+  const attachments: OutboxAttachment[] = i.trendPng
+    ? [{ filename: 'trend.png', cid: TREND_CID, contentType: 'image/png', base64: i.trendPng.toString('base64') }]
+    : []
+  const footer = `Sent by Tankwarden for ${i.organizationName}. ${READINGS_ARE_AIDS}`
+
+  const html = layout({
+    heading: variant.heading(i),
+    accent: variant.accent(i),
+    footer,
+    body: [
+      `<p style="margin:0 0 8px">${escapeHtml(variant.lead(i))}</p>`,
+      factsTable(facts),
+      i.trendPng
+        ? `<img src="cid:${TREND_CID}" width="600" height="240" alt="${escapeHtml(`Recent ${i.metricLabel} on ${i.tankName}`)}" style="max-width:100%;height:auto;border:1px solid #e4e7eb">`
+        : '',
+      checks.length
+        ? `<p style="margin:16px 0 4px;font-weight:bold">What to check</p><ul style="margin:0;padding-left:20px">${checks.map((c) => `<li>${escapeHtml(c)}</li>`).join('')}</ul>`
+        : '',
+      caution ? cautionBox(caution) : '',
+      `<p style="margin:16px 0 0">${ack ? button('Acknowledge', ack, ACCENT[i.severity]) : ''}${button('Open the incident', i.incidentUrl)}</p>`,
+    ].join(''),
+  })
+
+  const text = [
+    variant.heading(i),
+    '',
+    variant.lead(i),
+    '',
+    ...facts.map(([label, value]) => `${label}: ${value}`),
+    ...(checks.length ? ['', 'What to check:', ...checks.map((c) => `- ${c}`)] : []),
+    ...(caution ? ['', `SAFETY: ${caution}`] : []),
+    '',
+    ...(ack ? [`Acknowledge: ${safeUrl(ack)}`] : []),
+    `Open the incident: ${safeUrl(i.incidentUrl)}`,
+    '',
+    '-- ',
+    footer,
+  ].join('\n')
+
+  return { subject: oneLine(variant.subject(i)), text, html, ...(attachments.length ? { attachments } : {}) }
+}
+
+export const incidentOpened = (input: IncidentMailInput) => render(VARIANTS.opened, input)
+export const incidentEscalated = (input: IncidentMailInput) => render(VARIANTS.escalated, input)
+export const incidentRepeat = (input: IncidentMailInput) => render(VARIANTS.repeat, input)
+export const incidentResolved = (input: IncidentMailInput) => render(VARIANTS.resolved, input)
+export const deviceBack = (input: IncidentMailInput) => render(VARIANTS.deviceBack, input)

@@ -1,0 +1,88 @@
+import * as echarts from 'echarts'
+import sharp from 'sharp'
+
+export type TrendChartInput = {
+  points: Array<[number, number]>
+  band?: { min: number; max: number }
+  title: string
+  unitLabel: string
+  timeZone: string
+  width?: number
+  height?: number
+}
+
+export const TREND_CHART_SIZE = { width: 600, height: 240 }
+
+/** Axis labels in the site's zone: the chart library itself only knows the process's zone. */
+function clockLabel(timeZone: string, spanMs: number) {
+  const format = new Intl.DateTimeFormat('en-GB', {
+    timeZone,
+    hour: '2-digit',
+    minute: '2-digit',
+    hourCycle: 'h23',
+    ...(spanMs > 36 * 3_600_000 ? { day: 'numeric', month: 'short' } : {}),
+  })
+  return (ms: number) => format.format(new Date(ms))
+}
+
+/** 1, 2 or 5 times a power of ten: axis limits on such multiples read as round numbers. */
+function niceStep(rough: number): number {
+  const power = 10 ** Math.floor(Math.log10(rough))
+  return [1, 2, 5, 10].map((f) => f * power).find((step) => step >= rough) ?? 10 * power
+}
+
+/** Axis limits that hold every value and the band, with a little room, on round numbers. */
+function valueRange(all: number[]): { min?: number; max?: number } {
+  if (!all.length) return {}
+  const lo = Math.min(...all)
+  const hi = Math.max(...all)
+  const step = niceStep(Math.max(hi - lo, Math.abs(hi) * 0.01, 1e-6) / 5)
+  return { min: Math.floor((lo - step / 2) / step) * step, max: Math.ceil((hi + step / 2) / step) * step }
+}
+
+/** Renders the chart as SVG on the server (no canvas, no browser). */
+export function renderTrendSvg(input: TrendChartInput): string {
+  const width = input.width ?? TREND_CHART_SIZE.width
+  const height = input.height ?? TREND_CHART_SIZE.height
+  const times = input.points.map(([t]) => t)
+  const spanMs = times.length ? Math.max(...times) - Math.min(...times) : 0
+  const values = input.points.map(([, v]) => v)
+  const limits = input.band ? [input.band.min, input.band.max] : []
+  const range = valueRange([...values, ...limits])
+  const chart = echarts.init(null, null, { renderer: 'svg', ssr: true, width, height })
+  try {
+    chart.setOption({
+      animation: false,
+      backgroundColor: '#ffffff',
+      textStyle: { fontFamily: 'DejaVu Sans, Arial, sans-serif' },
+      title: { text: `${input.title} (${input.unitLabel})`, left: 8, top: 6, textStyle: { fontSize: 13, fontWeight: 'bold', color: '#1f2933' } },
+      grid: { left: 52, right: 16, top: 36, bottom: 28 },
+      xAxis: { type: 'time', axisLabel: { formatter: clockLabel(input.timeZone, spanMs), color: '#52606d', fontSize: 10 } },
+      yAxis: {
+        type: 'value',
+        ...range,
+        axisLabel: { color: '#52606d', fontSize: 10 },
+        splitLine: { lineStyle: { color: '#e4e7eb' } },
+      },
+      series: [
+        {
+          type: 'line',
+          data: input.points,
+          showSymbol: false,
+          lineStyle: { width: 2, color: '#0b6e99' },
+          markArea: input.band
+            ? { silent: true, itemStyle: { color: 'rgba(56, 161, 105, 0.15)' }, data: [[{ yAxis: input.band.min }, { yAxis: input.band.max }]] }
+            : undefined,
+        },
+      ],
+    })
+    return chart.renderToSVGString()
+  } finally {
+    chart.dispose()
+  }
+}
+
+/** A PNG of the recent trend for an alert mail (mail clients do not show SVG reliably). */
+export async function renderTrendPng(input: TrendChartInput): Promise<Buffer> {
+  return sharp(Buffer.from(renderTrendSvg(input))).png().toBuffer()
+}

@@ -1,0 +1,195 @@
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
+import type { RuleSeverity, WatchRuleSpec } from '../../shared/rules/schema'
+
+export class WatchRule extends Model<InferAttributes<WatchRule>, InferCreationAttributes<WatchRule>> {
+  declare id: CreationOptional<number>
+  declare organizationId: number
+  declare siteId: number
+  declare tankId: number | null
+  declare overridesRuleId: CreationOptional<number | null>
+  declare name: string
+  declare severity: RuleSeverity
+  declare spec: WatchRuleSpec
+  declare enabled: CreationOptional<boolean>
+  declare createdBy: CreationOptional<number | null>
+  declare createdAt: CreationOptional<Date>
+  declare updatedAt: CreationOptional<Date>
+
+  static initModel(sequelize: Sequelize) {
+    WatchRule.init(
+      {
+        id: { type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true },
+        organizationId: { type: DataTypes.INTEGER, allowNull: false },
+        siteId: { type: DataTypes.INTEGER, allowNull: false },
+        tankId: { type: DataTypes.INTEGER, allowNull: true },
+        overridesRuleId: { type: DataTypes.INTEGER, allowNull: true },
+        name: { type: DataTypes.TEXT, allowNull: false },
+        severity: { type: DataTypes.TEXT, allowNull: false },
+        spec: { type: DataTypes.JSONB, allowNull: false },
+        enabled: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+        createdBy: { type: DataTypes.INTEGER, allowNull: true },
+        createdAt: DataTypes.DATE,
+        updatedAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'watch_rules' },
+    )
+  }
+}
+
+export type IncidentState = 'open' | 'acknowledged' | 'resolved'
+
+export class Incident extends Model<InferAttributes<Incident>, InferCreationAttributes<Incident>> {
+  declare id: CreationOptional<number>
+  declare organizationId: number
+  declare siteId: number
+  declare tankId: number
+  declare ruleId: number | null
+  declare ruleKind: string
+  declare metric: string
+  declare severity: RuleSeverity
+  declare title: string
+  declare state: IncidentState
+  declare conditionSince: Date
+  declare openedAt: Date
+  declare firstValue: number | null
+  declare peakValue: number | null
+  declare latestValue: number | null
+  declare latestAt: Date | null
+  declare snoozed: CreationOptional<boolean>
+  declare acknowledgedAt: CreationOptional<Date | null>
+  declare acknowledgedBy: CreationOptional<number | null>
+  declare acknowledgeNote: CreationOptional<string | null>
+  declare resolvedAt: CreationOptional<Date | null>
+  declare resolvedBy: CreationOptional<number | null>
+  declare resolveNote: CreationOptional<string | null>
+  declare escalationLevel: CreationOptional<number>
+  declare nextEscalationAt: CreationOptional<Date | null>
+  declare nextRepeatAt: CreationOptional<Date | null>
+  declare createdAt: CreationOptional<Date>
+  declare updatedAt: CreationOptional<Date>
+
+  static initModel(sequelize: Sequelize) {
+    const nullableDate = { type: DataTypes.DATE, allowNull: true }
+    const nullableNumber = { type: DataTypes.DOUBLE, allowNull: true }
+    Incident.init(
+      {
+        id: { type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true },
+        organizationId: { type: DataTypes.INTEGER, allowNull: false },
+        siteId: { type: DataTypes.INTEGER, allowNull: false },
+        tankId: { type: DataTypes.INTEGER, allowNull: false },
+        ruleId: { type: DataTypes.INTEGER, allowNull: true },
+        ruleKind: { type: DataTypes.TEXT, allowNull: false },
+        metric: { type: DataTypes.TEXT, allowNull: false },
+        severity: { type: DataTypes.TEXT, allowNull: false },
+        title: { type: DataTypes.TEXT, allowNull: false },
+        state: { type: DataTypes.TEXT, allowNull: false },
+        conditionSince: { type: DataTypes.DATE, allowNull: false },
+        openedAt: { type: DataTypes.DATE, allowNull: false },
+        firstValue: nullableNumber,
+        peakValue: nullableNumber,
+        latestValue: nullableNumber,
+        latestAt: nullableDate,
+        snoozed: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        acknowledgedAt: nullableDate,
+        acknowledgedBy: { type: DataTypes.INTEGER, allowNull: true },
+        acknowledgeNote: { type: DataTypes.TEXT, allowNull: true },
+        resolvedAt: nullableDate,
+        resolvedBy: { type: DataTypes.INTEGER, allowNull: true },
+        resolveNote: { type: DataTypes.TEXT, allowNull: true },
+        escalationLevel: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+        nextEscalationAt: nullableDate,
+        nextRepeatAt: nullableDate,
+        createdAt: DataTypes.DATE,
+        updatedAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'incidents' },
+    )
+  }
+}
+
+export class IncidentEvent extends Model<InferAttributes<IncidentEvent>, InferCreationAttributes<IncidentEvent>> {
+  declare id: CreationOptional<number>
+  declare incidentId: number
+  declare at: CreationOptional<Date>
+  declare kind: string
+  declare userId: CreationOptional<number | null>
+  declare detail: CreationOptional<Record<string, unknown>>
+
+  static initModel(sequelize: Sequelize) {
+    IncidentEvent.init(
+      {
+        id: { type: DataTypes.BIGINT, autoIncrement: true, primaryKey: true },
+        incidentId: { type: DataTypes.INTEGER, allowNull: false },
+        at: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
+        kind: { type: DataTypes.TEXT, allowNull: false },
+        userId: { type: DataTypes.INTEGER, allowNull: true },
+        detail: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
+      },
+      { sequelize, tableName: 'incident_events', timestamps: false },
+    )
+  }
+}
+
+export class Snooze extends Model<InferAttributes<Snooze>, InferCreationAttributes<Snooze>> {
+  declare id: CreationOptional<number>
+  declare organizationId: number
+  declare tankId: number
+  declare reason: string
+  declare startsAt: Date
+  declare endsAt: Date
+  declare weekly: CreationOptional<boolean>
+  declare repeatUntil: CreationOptional<Date | null>
+  declare includeHeaterLine: CreationOptional<boolean>
+  declare createdBy: number | null
+  declare remindedAt: CreationOptional<Date | null>
+  declare cancelledAt: CreationOptional<Date | null>
+  declare createdAt: CreationOptional<Date>
+  declare updatedAt: CreationOptional<Date>
+
+  static initModel(sequelize: Sequelize) {
+    Snooze.init(
+      {
+        id: { type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true },
+        organizationId: { type: DataTypes.INTEGER, allowNull: false },
+        tankId: { type: DataTypes.INTEGER, allowNull: false },
+        reason: { type: DataTypes.TEXT, allowNull: false },
+        startsAt: { type: DataTypes.DATE, allowNull: false },
+        endsAt: { type: DataTypes.DATE, allowNull: false },
+        weekly: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        repeatUntil: { type: DataTypes.DATE, allowNull: true },
+        includeHeaterLine: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        createdBy: { type: DataTypes.INTEGER, allowNull: true },
+        remindedAt: { type: DataTypes.DATE, allowNull: true },
+        cancelledAt: { type: DataTypes.DATE, allowNull: true },
+        createdAt: DataTypes.DATE,
+        updatedAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'snoozes' },
+    )
+  }
+}
+
+export class IncidentAckLink extends Model<InferAttributes<IncidentAckLink>, InferCreationAttributes<IncidentAckLink>> {
+  declare id: CreationOptional<number>
+  declare incidentId: number
+  declare userId: number
+  declare tokenHash: string
+  declare expiresAt: Date
+  declare usedAt: CreationOptional<Date | null>
+  declare createdAt: CreationOptional<Date>
+
+  static initModel(sequelize: Sequelize) {
+    IncidentAckLink.init(
+      {
+        id: { type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true },
+        incidentId: { type: DataTypes.INTEGER, allowNull: false },
+        userId: { type: DataTypes.INTEGER, allowNull: false },
+        tokenHash: { type: DataTypes.TEXT, allowNull: false },
+        expiresAt: { type: DataTypes.DATE, allowNull: false },
+        usedAt: { type: DataTypes.DATE, allowNull: true },
+        createdAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'incident_ack_links', updatedAt: false },
+    )
+  }
+}

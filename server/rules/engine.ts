@@ -1,0 +1,231 @@
+import { Op, QueryTypes } from 'sequelize'
+import { evaluate, replay } from '../../shared/rules/evaluate'
+import { metricOfSpec } from '../../shared/rules/schema'
+import type { RuleContext, RuleEvent, RuleState } from '../../shared/rules/types'
+import { initialRuleState } from '../../shared/rules/types'
+import type { AppContext } from '../context'
+import type { StoredReading } from '../events'
+import type { IncidentsService } from '../services/incidents'
+import { rulesService } from '../services/rules'
+import { ruleContextFor, snoozeCovers } from './tank-context'
+
+type EngineRule = {
+  id: number
+  name: string
+  severity: 'warning' | 'alarm'
+  spec: import('../../shared/rules/schema').WatchRuleSpec
+  metric: string
+  tank: { id: number; siteId: number; organizationId: number }
+  ctx: RuleContext
+}
+
+type Slot = { rule: EngineRule; state: RuleState; incidentId: number | null; lastWrite: number }
+
+const LOOKBACK_PAD_MS = 10 * 60_000
+const TOUCH_EVERY_MS = 60_000
+
+/** How far back a rule needs stored readings to rebuild its state. */
+function lookbackMs(rule: EngineRule): number {
+  const s = rule.spec
+  const minutes = s.kind === 'rate' ? s.windowMinutes : s.kind === 'quiet' ? s.quietMinutes : 'holdMinutes' in s ? s.holdMinutes : 0
+  return minutes * 60_000 + LOOKBACK_PAD_MS
+}
+
+/**
+ * The watch-rule engine: the pure evaluator from shared/rules driven by stored readings (pushed
+ * by the ingest path, never queried per reading) and by a timer for holds, quiet rules and
+ * escalations. Its state is rebuilt from stored readings and open incidents at every start.
+ */
+export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, options: { now?: () => number } = {}) {
+  const now = options.now ?? Date.now
+  const slots = new Map<string, Slot>() // `${ruleId}:${tankId}`
+  const byTankMetric = new Map<string, Slot[]>() // `${tankId}:${metric}`
+  let snoozes: Array<{ tankId: number; window: Parameters<typeof snoozeCovers>[0] }> = []
+  let queue: StoredReading[] = []
+  let chain: Promise<void> = Promise.resolve()
+  let running = false
+
+  /** Work runs one piece at a time, in order, so the evaluator sees readings as they came. */
+  const serial = (work: () => Promise<void>) => {
+    chain = chain.then(work).catch((error) => ctx.logger.error({ err: error }, 'watch-rule engine step failed'))
+    return chain
+  }
+
+  async function loadRules() {
+    const effective = await rulesService(ctx).effectiveRules()
+    const tankIds = [...new Set(effective.map((e) => e.tankId))]
+    const tanks = await ctx.models.Tank.findAll({ where: { id: tankIds }, include: [{ association: 'site', attributes: ['timeZone'] }] })
+    const devices = await ctx.models.Device.findAll({ where: { tankId: tankIds, revokedAt: null }, attributes: ['tankId', 'metrics'] })
+    const reported = new Set(devices.flatMap((d) => d.metrics.map((m) => `${d.tankId}:${m}`)))
+    const tankById = new Map(tanks.map((t) => [t.id, t]))
+    const rules: EngineRule[] = []
+    for (const { rule, tankId } of effective) {
+      const tank = tankById.get(tankId)
+      if (!tank) continue
+      const metric = metricOfSpec(rule.spec)
+      // A quiet rule watches only what a device is meant to report.
+      if (rule.spec.kind === 'quiet' && !reported.has(`${tankId}:${metric}`)) continue
+      rules.push({
+        id: rule.id, name: rule.name, severity: rule.severity, spec: rule.spec, metric,
+        tank: { id: tank.id, siteId: tank.siteId, organizationId: tank.organizationId },
+        ctx: ruleContextFor({ heater: tank.heater, lightSchedule: tank.lightSchedule, timeZone: tank.site?.timeZone ?? 'UTC' }),
+      })
+    }
+    return rules
+  }
+
+  async function loadSnoozes() {
+    const rows = await ctx.models.Snooze.findAll({ where: { cancelledAt: null, [Op.or]: [{ endsAt: { [Op.gt]: new Date(now()) } }, { repeatUntil: { [Op.gt]: new Date(now()) } }] } })
+    snoozes = rows.map((s) => ({ tankId: s.tankId, window: s }))
+  }
+
+  function isSnoozed(rule: EngineRule, at: number) {
+    const heaterAlarm = rule.spec.kind === 'heater_line' && rule.severity === 'alarm'
+    return snoozes.some((s) => s.tankId === rule.tank.id && snoozeCovers(s.window, at) && (!heaterAlarm || s.window.includeHeaterLine))
+  }
+
+  /** Rebuilds every rule's state from stored readings, then squares it with the open incidents. */
+  async function rebuild() {
+    const rules = await loadRules()
+    await loadSnoozes()
+    const open = await ctx.models.Incident.findAll({ where: { state: { [Op.ne]: 'resolved' } } })
+    const openBySlot = new Map(open.map((i) => [`${i.ruleId}:${i.tankId}`, i]))
+    slots.clear()
+    byTankMetric.clear()
+    const t = now()
+    const history = await loadHistory(rules, t)
+    for (const rule of rules) {
+      const key = `${rule.id}:${rule.tank.id}`
+      const readings = history.get(`${rule.tank.id}:${rule.metric}`) ?? []
+      const since = t - lookbackMs(rule)
+      const { state, events } = replay(rule.spec, readings.filter((r) => r.at >= since), t, rule.ctx)
+      const incident = openBySlot.get(key)
+      const slot: Slot = { rule, state, incidentId: incident?.id ?? null, lastWrite: 0 }
+      if (incident) {
+        openBySlot.delete(key)
+        if (state.status === 'clear') {
+          await incidents.resolveAutomatically(incident.id, t, state.lastValue, 'Cleared while the engine was stopped')
+          slot.incidentId = null
+        } else {
+          slot.state = { ...state, status: 'tripped', since: incident.openedAt.getTime(), peakValue: incident.peakValue ?? state.lastValue }
+        }
+      } else if (state.status === 'tripped') {
+        // It tripped while the engine was stopped: open it now, at the time it tripped.
+        const trip = [...events].reverse().find((e) => e.type === 'trip')
+        if (trip && trip.type === 'trip') await handle(slot, trip)
+      }
+      addSlot(key, slot)
+    }
+    // Incidents whose rule is gone or disabled are left for people to resolve.
+  }
+
+  function addSlot(key: string, slot: Slot) {
+    slots.set(key, slot)
+    const k = `${slot.rule.tank.id}:${slot.rule.metric}`
+    const list = byTankMetric.get(k) ?? []
+    list.push(slot)
+    byTankMetric.set(k, list)
+  }
+
+  async function loadHistory(rules: EngineRule[], t: number) {
+    const need = new Map<string, number>()
+    for (const r of rules) {
+      const k = `${r.tank.id}:${r.metric}`
+      need.set(k, Math.max(need.get(k) ?? 0, lookbackMs(r)))
+    }
+    const history = new Map<string, Array<{ at: number; value: number }>>()
+    const byMetric = new Map<string, { tankIds: number[]; ms: number }>()
+    for (const [k, ms] of need) {
+      const [tankId, metric] = k.split(':')
+      const entry = byMetric.get(metric) ?? { tankIds: [], ms: 0 }
+      entry.tankIds.push(Number(tankId))
+      entry.ms = Math.max(entry.ms, ms)
+      byMetric.set(metric, entry)
+    }
+    for (const [metric, { tankIds, ms }] of byMetric) {
+      const rows = await ctx.sequelize.query<{ tank_id: number; time: Date; value: number }>(
+        `SELECT tank_id, time, value FROM readings WHERE metric = $1 AND tank_id = ANY($2) AND time >= $3 ORDER BY tank_id, time`,
+        { bind: [metric, tankIds, new Date(t - ms)], type: QueryTypes.SELECT },
+      )
+      for (const r of rows) {
+        const k = `${r.tank_id}:${metric}`
+        const list = history.get(k) ?? []
+        list.push({ at: r.time.getTime(), value: r.value })
+        history.set(k, list)
+      }
+    }
+    return history
+  }
+
+  async function handle(slot: Slot, event: RuleEvent) {
+    if (event.type === 'trip') {
+      const opened = await incidents.open({ rule: slot.rule, tank: slot.rule.tank, at: event.at, since: event.since, value: event.value, snoozed: isSnoozed(slot.rule, event.at) })
+      if (opened) slot.incidentId = opened.id
+      else {
+        const existing = await ctx.models.Incident.findOne({ where: { ruleId: slot.rule.id, tankId: slot.rule.tank.id, state: { [Op.ne]: 'resolved' } } })
+        slot.incidentId = existing?.id ?? null
+      }
+    } else if (event.type === 'update' && slot.incidentId) {
+      if (event.at - slot.lastWrite >= TOUCH_EVERY_MS) {
+        slot.lastWrite = event.at
+        await incidents.touch(slot.incidentId, event.value, event.peak, event.at)
+      }
+    } else if (event.type === 'clear' && slot.incidentId) {
+      await incidents.resolveAutomatically(slot.incidentId, event.at, event.value)
+      slot.incidentId = null
+    }
+  }
+
+  async function step(slot: Slot, input: Parameters<typeof evaluate>[2]) {
+    const result = evaluate(slot.rule.spec, slot.state, input, slot.rule.ctx)
+    slot.state = result.state
+    if (result.event) await handle(slot, result.event)
+  }
+
+  const onStored = (rows: StoredReading[]) => {
+    if (!running) return
+    queue.push(...rows)
+    void serial(async () => {
+      const batch = queue.sort((a, b) => a.time.getTime() - b.time.getTime())
+      queue = []
+      for (const r of batch) {
+        for (const slot of byTankMetric.get(`${r.tankId}:${r.metric}`) ?? []) {
+          await step(slot, { type: 'reading', at: r.time.getTime(), value: r.value })
+        }
+      }
+    })
+  }
+  const onRulesChanged = () => {
+    if (running) void serial(rebuild)
+  }
+
+  return {
+    /** Starts evaluating (called when this instance holds the engine lock). */
+    async start() {
+      running = true
+      ctx.events.on('readings.stored', onStored)
+      ctx.events.on('rules.changed', onRulesChanged)
+      await serial(rebuild)
+    },
+    async stop() {
+      running = false
+      ctx.events.off('readings.stored', onStored)
+      ctx.events.off('rules.changed', onRulesChanged)
+      await chain
+    },
+    /** Hold times, quiet rules and escalations: called on a timer, or by tests with their clock. */
+    tick(at = now()) {
+      return serial(async () => {
+        for (const slot of slots.values()) await step(slot, { type: 'tick', at })
+        await incidents.processDue(at)
+      })
+    },
+    reloadSnoozes: () => serial(loadSnoozes),
+    /** Waits until everything queued so far has been evaluated. */
+    settle: () => serial(async () => {}),
+    stateOf(ruleId: number, tankId: number) {
+      return slots.get(`${ruleId}:${tankId}`)?.state ?? initialRuleState()
+    },
+  }
+}
+export type RuleEngine = ReturnType<typeof createRuleEngine>

@@ -1,0 +1,53 @@
+import { z } from 'zod'
+import { pageQuerySchema } from './common'
+
+export const INCIDENT_STATES = ['open', 'acknowledged', 'resolved'] as const
+export type IncidentState = (typeof INCIDENT_STATES)[number]
+
+export const incidentListQuerySchema = pageQuerySchema.extend({
+  siteId: z.coerce.number().int().positive().optional(),
+  tankId: z.coerce.number().int().positive().optional(),
+  state: z.enum([...INCIDENT_STATES, 'unresolved']).optional(),
+  severity: z.enum(['warning', 'alarm']).optional(),
+  from: z.iso.datetime({ offset: true }).optional(),
+  to: z.iso.datetime({ offset: true }).optional(),
+})
+export type IncidentListQuery = z.infer<typeof incidentListQuerySchema>
+
+export const incidentNoteSchema = z.object({ note: z.string().trim().max(2000).default('') })
+export const resolveNoteSchema = z.object({ note: z.string().trim().min(1, 'say what was done').max(2000) })
+export const ackLinkSchema = z.object({ token: z.string().min(20).max(200), note: z.string().trim().max(2000).default('') })
+
+export interface PublicIncident {
+  id: number
+  siteId: number
+  tankId: number
+  tankName: string
+  siteName: string
+  ruleId: number | null
+  ruleKind: string
+  metric: string
+  severity: 'warning' | 'alarm'
+  title: string
+  state: IncidentState
+  conditionSince: string
+  openedAt: string
+  firstValue: number | null
+  peakValue: number | null
+  latestValue: number | null
+  latestAt: string | null
+  snoozed: boolean
+  acknowledgedAt: string | null
+  acknowledgedBy: number | null
+  acknowledgeNote: string | null
+  resolvedAt: string | null
+  resolvedBy: number | null
+  resolveNote: string | null
+  escalationLevel: number
+  nextEscalationAt: string | null
+  nextRepeatAt: string | null
+}
+
+export interface IncidentDetail extends PublicIncident {
+  timeline: Array<{ at: string; kind: string; userId: number | null; detail: Record<string, unknown> }>
+}
