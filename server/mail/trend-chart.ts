@@ -55,7 +55,7 @@ export function renderTrendSvg(input: TrendChartInput): string {
       animation: false,
       backgroundColor: '#ffffff',
       textStyle: { fontFamily: 'DejaVu Sans, Arial, sans-serif' },
-      title: { text: `${input.title} (${input.unitLabel})`, left: 8, top: 6, textStyle: { fontSize: 13, fontWeight: 'bold', color: '#1f2933' } },
+      title: { text: input.unitLabel && !input.title.includes(input.unitLabel) ? `${input.title} (${input.unitLabel})` : input.title, left: 8, top: 6, textStyle: { fontSize: 13, fontWeight: 'bold', color: '#1f2933' } },
       grid: { left: 52, right: 16, top: 36, bottom: 28 },
       xAxis: { type: 'time', axisLabel: { formatter: clockLabel(input.timeZone, spanMs), color: '#52606d', fontSize: 10 } },
       yAxis: {

@@ -69,8 +69,9 @@ export class Incident extends Model<InferAttributes<Incident>, InferCreationAttr
   declare updatedAt: CreationOptional<Date>
 
   static initModel(sequelize: Sequelize) {
-    const nullableDate = { type: DataTypes.DATE, allowNull: true }
-    const nullableNumber = { type: DataTypes.DOUBLE, allowNull: true }
+    // Fresh objects each time: Sequelize writes the column name into an attribute's definition.
+    const nullableDate = () => ({ type: DataTypes.DATE, allowNull: true })
+    const nullableNumber = () => ({ type: DataTypes.DOUBLE, allowNull: true })
     Incident.init(
       {
         id: { type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true },
@@ -85,20 +86,20 @@ export class Incident extends Model<InferAttributes<Incident>, InferCreationAttr
         state: { type: DataTypes.TEXT, allowNull: false },
         conditionSince: { type: DataTypes.DATE, allowNull: false },
         openedAt: { type: DataTypes.DATE, allowNull: false },
-        firstValue: nullableNumber,
-        peakValue: nullableNumber,
-        latestValue: nullableNumber,
-        latestAt: nullableDate,
+        firstValue: nullableNumber(),
+        peakValue: nullableNumber(),
+        latestValue: nullableNumber(),
+        latestAt: nullableDate(),
         snoozed: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
-        acknowledgedAt: nullableDate,
+        acknowledgedAt: nullableDate(),
         acknowledgedBy: { type: DataTypes.INTEGER, allowNull: true },
         acknowledgeNote: { type: DataTypes.TEXT, allowNull: true },
-        resolvedAt: nullableDate,
+        resolvedAt: nullableDate(),
         resolvedBy: { type: DataTypes.INTEGER, allowNull: true },
         resolveNote: { type: DataTypes.TEXT, allowNull: true },
         escalationLevel: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
-        nextEscalationAt: nullableDate,
-        nextRepeatAt: nullableDate,
+        nextEscalationAt: nullableDate(),
+        nextRepeatAt: nullableDate(),
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -144,8 +144,8 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
     }
     for (const [metric, { tankIds, ms }] of byMetric) {
       const rows = await ctx.sequelize.query<{ tank_id: number; time: Date; value: number }>(
-        `SELECT tank_id, time, value FROM readings WHERE metric = $1 AND tank_id = ANY($2) AND time >= $3 ORDER BY tank_id, time`,
-        { bind: [metric, tankIds, new Date(t - ms)], type: QueryTypes.SELECT },
+        `SELECT tank_id, time, value FROM readings WHERE metric = $1 AND tank_id = ANY($2) AND time >= $3 AND time <= $4 ORDER BY tank_id, time`,
+        { bind: [metric, tankIds, new Date(t - ms), new Date(t)], type: QueryTypes.SELECT },
       )
       for (const r of rows) {
         const k = `${r.tank_id}:${metric}`

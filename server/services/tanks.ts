@@ -8,6 +8,7 @@ import type { Actor } from '../auth/actor'
 import type { AppContext } from '../context'
 import { badRequest, fromZod, notFound } from '../errors'
 import { canSeeSite, siteScope } from './scope'
+import { rulesService } from './rules'
 import { publicTank } from './serializers'
 
 const SORT_COLUMNS: Record<TankListQuery['sortBy'], Order> = {
@@ -106,6 +107,7 @@ export function tanksService(ctx: AppContext) {
         targets: input.targets ?? defaultTargetsFor(input.kind),
         organizationId: actor.organizationId,
       })
+      await rulesService(ctx).createDefaults(tank)
       return publicTank(await find(actor, tank.id))
     },
 

@@ -57,6 +57,7 @@ describe('outbox sender over real SMTP', () => {
     expect(received!.text_body?.trim()).toBe('Temperature is 31.4 °C')
     expect(received!.attachments).toEqual([{ filename: 'trend.png', contentType: 'image/png', size: Buffer.from(PIXEL_PNG, 'base64').length, cid: 'trend@tankwarden' }])
     expect(received!.headers['auto-submitted']).toBe('auto-generated')
+    expect(received!.headers.from).toBe('Tankwarden <alerts@tankwarden.invalid>')
     expect(received!.headers['x-tankwarden-kind']).toBe('incident_opened')
 
     const [row] = await bed.outbox()
