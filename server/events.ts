@@ -12,6 +12,7 @@ export type StoredReading = {
 export type EventMap = {
   'readings.stored': [StoredReading[]]
   'device.revoked': [{ deviceId: number }]
+  'wall.revoked': [{ credentialId: number }]
   'rules.changed': [{ tankIds: number[] | 'all' }]
   'incident.changed': [{ incidentId: number; tankId: number; siteId: number; state: string }]
   'mail.attempted': [{ outboxId: number; incidentId: number | null; kind: string; to: string; ok: boolean; error?: string }]

@@ -9,12 +9,14 @@ import { startEmbeddedBroker, type EmbeddedBroker } from './mqtt/broker'
 import { startExternalConsumer } from './mqtt/external'
 import { seedDemoIfEmpty } from './seeders/demo'
 import { startRetentionJob } from './services/retention'
+import { startRuleEngine } from './rules/runtime'
 
 export type RunningServer = {
   ctx: AppContext
   port: number
   mqttPort: number | null
   broker: EmbeddedBroker | null
+  rules: ReturnType<typeof startRuleEngine>
   stop: () => Promise<void>
 }
 
@@ -41,6 +43,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
   if (config.mqtt.url) external = await startExternalConsumer(ctx, config.mqtt.url)
   else broker = await startEmbeddedBroker(ctx, { host: config.mqtt.host, port: config.mqtt.port })
 
+  const rules = startRuleEngine(ctx, ctx.alerts.notifier, config.alertTiming, config.rulesTickMs)
   const stopRetention = startRetentionJob(ctx, { rawRetentionDays: config.rawRetentionDays, everyMs: 3600_000 })
 
   logger.info({ port, mqttPort: broker?.port ?? null }, 'Tankwarden is listening')
@@ -51,10 +54,12 @@ export async function startServer(config: Config): Promise<RunningServer> {
     port,
     mqttPort: broker?.port ?? null,
     broker,
+    rules,
     async stop() {
       if (stopped) return
       stopped = true
       stopRetention()
+      await rules.stop()
       hub.close()
       await broker?.close()
       await external?.close()

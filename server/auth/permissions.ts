@@ -13,6 +13,7 @@ export const PERMISSIONS = {
   'devices.manage': ['owner'],
   'kit.write': ['owner', 'keeper'],
   'rules.manage': ['owner'],
+  'walls.manage': ['owner'],
   'snoozes.write': ['owner', 'keeper'],
   'incidents.handle': ['owner', 'keeper'],
   'roster.manage': ['owner'],

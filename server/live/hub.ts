@@ -5,6 +5,7 @@ import { WebSocketServer, type WebSocket } from 'ws'
 import { LIVE_CLOSE, liveClientMessageSchema, type LiveReading, type LiveServerMessage } from '../../shared/schemas/live'
 import type { Actor } from '../auth/actor'
 import { userActorFromToken } from '../auth/passport'
+import { wallFromToken } from '../auth/wall-tokens'
 import type { AppContext } from '../context'
 import type { StoredReading } from '../events'
 import { siteScope } from '../services/scope'
@@ -12,7 +13,7 @@ import { siteScope } from '../services/scope'
 const AUTH_TIMEOUT_MS = 5000
 const CATCH_UP_LIMIT = 5000
 
-type Peer = { socket: WebSocket; actor?: Actor; tanks: Set<number>; buffer: LiveReading[] }
+type Peer = { socket: WebSocket; actor?: Actor; tanks: Set<number>; buffer: LiveReading[]; work: Promise<void> }
 
 export type LiveHubOptions = { coalesceMs?: number }
 
@@ -33,7 +34,8 @@ export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubO
   async function visibleTanks(actor: Actor, tankIds?: number[], siteId?: number) {
     const where: Record<string | symbol, unknown> = { ...(siteScope(actor, 'siteId') as object), archivedAt: null }
     if (tankIds) where.id = { [Op.in]: tankIds }
-    if (siteId) where.siteId = siteId
+    // Keep the actor's own site limit: a site filter must narrow it, never replace it.
+    if (siteId) where.siteId = actor.siteIds && !actor.siteIds.includes(siteId) ? -1 : siteId
     const rows = await ctx.models.Tank.findAll({ where, attributes: ['id'] })
     return rows.map((t) => t.id)
   }
@@ -64,7 +66,8 @@ export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubO
     }
     const message = parsed.data
     if (message.type === 'auth') {
-      const actor = await userActorFromToken(ctx.models, ctx.config.jwtSecret, message.token)
+      const actor: Actor | null =
+        (await userActorFromToken(ctx.models, ctx.config.jwtSecret, message.token)) ?? (await wallFromToken(ctx.models, message.token))
       if (!actor) return peer.socket.close(LIVE_CLOSE.unauthenticated, 'token missing, expired or revoked')
       peer.actor = actor
       return send(peer, { type: 'ready', role: actor.role })
@@ -102,6 +105,18 @@ export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubO
   }
   ctx.events.on('readings.stored', onStored)
 
+  // Incident changes go out at once (they are rare); a revoked wall display is cut off.
+  const onIncident = (change: { incidentId: number; tankId: number; siteId: number; state: string }) => {
+    for (const peer of peers) if (peer.tanks.has(change.tankId)) send(peer, { type: 'incident', ...change })
+  }
+  const onWallRevoked = ({ credentialId }: { credentialId: number }) => {
+    for (const peer of peers) {
+      if (peer.actor?.kind === 'wall' && peer.actor.credentialId === credentialId) peer.socket.close(LIVE_CLOSE.unauthenticated, 'revoked')
+    }
+  }
+  ctx.events.on('incident.changed', onIncident)
+  ctx.events.on('wall.revoked', onWallRevoked)
+
   const flushTimer = setInterval(() => {
     for (const peer of peers) {
       if (!peer.buffer.length) continue
@@ -113,16 +128,20 @@ export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubO
   flushTimer.unref()
 
   wss.on('connection', (socket: WebSocket) => {
-    const peer: Peer = { socket, tanks: new Set(), buffer: [] }
+    const peer: Peer = { socket, tanks: new Set(), buffer: [], work: Promise.resolve() }
     peers.add(peer)
     const authTimer = setTimeout(() => {
       if (!peer.actor) socket.close(LIVE_CLOSE.unauthenticated, 'authenticate first')
     }, AUTH_TIMEOUT_MS)
+    // Frames are handled one after another: a subscribe sent right behind its auth waits for it.
     socket.on('message', (data) => {
-      onMessage(peer, data.toString()).catch((error) => {
-        ctx.logger.error({ err: error }, 'live message failed')
-        send(peer, { type: 'error', code: 'internal', message: 'That did not work; try again' })
-      })
+      const text = data.toString()
+      peer.work = peer.work.then(() =>
+        onMessage(peer, text).catch((error) => {
+          ctx.logger.error({ err: error }, 'live message failed')
+          send(peer, { type: 'error', code: 'internal', message: 'That did not work; try again' })
+        }),
+      )
     })
     socket.on('close', () => {
       clearTimeout(authTimer)
@@ -143,6 +162,8 @@ export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubO
     close() {
       clearInterval(flushTimer)
       ctx.events.off('readings.stored', onStored)
+      ctx.events.off('incident.changed', onIncident)
+      ctx.events.off('wall.revoked', onWallRevoked)
       server.off('upgrade', onUpgrade)
       for (const peer of peers) peer.socket.close(1001, 'server stopping')
       wss.close()

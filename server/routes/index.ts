@@ -10,6 +10,7 @@ import { tankTestKitRoutes, testKitEntriesRouter } from './test-kit'
 import { rulesRouter, siteRulesRoutes, snoozesRouter, tankRulesRoutes } from './rules'
 import { ackLinksRouter, incidentsRouter } from './incidents'
 import { rosterRoutes } from './roster'
+import { siteWallCredentialRoutes, wallCredentialsRouter, wallRoute } from './wall'
 import { invitationsRouter } from './invitations'
 import { sitesRouter } from './sites'
 import { tanksRouter } from './tanks'
@@ -30,7 +31,10 @@ export function apiRouter(ctx: AppContext) {
   router.use('/auth', authRouter(ctx, requireUser))
   router.use('/invitations', invitationsRouter(ctx))
   router.use('/users', requireUser, usersRouter(ctx))
-  router.use('/sites', requireUser, sitesRouter(ctx), siteRulesRoutes(ctx), rosterRoutes(ctx))
+  // The wall answers wall displays too, so it is mounted ahead of the people-only /sites chain.
+  router.use('/sites', wallRoute(ctx, authenticate(passport, ['user-jwt', 'wall-token'])))
+  router.use('/sites', requireUser, sitesRouter(ctx), siteRulesRoutes(ctx), rosterRoutes(ctx), siteWallCredentialRoutes(ctx))
+  router.use('/wall-credentials', requireUser, wallCredentialsRouter(ctx))
   router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx), tankRulesRoutes(ctx))
   router.use('/test-kit-entries', requireUser, testKitEntriesRouter(ctx))
   router.use('/rules', requireUser, rulesRouter(ctx))

@@ -87,6 +87,14 @@ export async function dutyRecipients(ctx: AppContext, siteId: number, at: Date =
   return (onDutyNow.length ? onDutyNow : backup ? [backup] : []).map(contact)
 }
 
+/** Who is on duty at `at`, and the backup contact, for the wall. */
+export async function whoIsOnDuty(ctx: AppContext, siteId: number, at: Date = new Date()) {
+  const roster = await loadRoster(ctx, siteId, at.getTime(), at.getTime() + 1)
+  if (!roster) throw notFound('Site not found')
+  const { onDutyNow, backup } = await onDuty(ctx, roster, at)
+  return { onDuty: onDutyNow.map(contact), backup: backup ? contact(backup) : null }
+}
+
 /** Stretches of `span` that none of `covers` (same person) covers. */
 function uncoveredParts(span: DutySpan, covers: readonly DutySpan[]): DutySpan[] {
   let parts = [span]

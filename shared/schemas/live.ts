@@ -22,6 +22,7 @@ export type LiveServerMessage =
   | { type: 'subscribed'; tankIds: number[] }
   | { type: 'readings'; readings: LiveReading[]; catchUp?: boolean }
   | { type: 'pong' }
+  | { type: 'incident'; incidentId: number; tankId: number; siteId: number; state: string }
   | { type: 'error'; code: string; message: string }
 
 /** Close codes the client acts on: 4401 sign in again, 4403 not allowed. */

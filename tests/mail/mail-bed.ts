@@ -23,7 +23,7 @@ export async function startMailBed() {
       bed.fake = await startFakeSmtp(ctx, { host: '127.0.0.1', port: bed.fake.port })
     },
     mailbox: () =>
-      ctx.sequelize.query<{ id: number; subject: string; envelope_to: string[]; attachments: Array<{ filename: string; contentType: string; size: number; cid: string | null }>; html_body: string | null; text_body: string | null; headers: Record<string, string>; organization_id: number | null }>(
+      ctx.sequelize.query<{ id: number; subject: string; envelope_from: string | null; envelope_to: string[]; attachments: Array<{ filename: string; contentType: string; size: number; cid: string | null }>; html_body: string | null; text_body: string | null; headers: Record<string, string>; organization_id: number | null }>(
         'SELECT * FROM fake_mailbox ORDER BY id',
         { type: QueryTypes.SELECT },
       ),

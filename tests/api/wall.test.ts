@@ -1,0 +1,89 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import WebSocket from 'ws'
+import { bearer, sampleTank } from '../helpers/app'
+import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
+import { startTestServer } from '../helpers/server'
+
+let s: Awaited<ReturnType<typeof startTestServer>>
+let org: TestOrg
+let other: TestOrg
+
+beforeAll(async () => {
+  s = await startTestServer()
+  org = await s.createOrg('Wall Org')
+  other = await s.createOrg('Other Wall Org')
+})
+afterAll(() => s.close())
+
+const api = (path: string, token: string, init: RequestInit = {}) =>
+  fetch(`${s.baseUrl}/api/v1${path}`, { ...init, headers: { 'content-type': 'application/json', ...bearer(token), ...(init.headers ?? {}) } })
+
+describe('the wall and wall displays', () => {
+  it('lists the site tanks with their state, alarm first', async () => {
+    const site = org.siteIds[0]
+    const calm = await createTankWithDevice(s.ctx, org, 'Calm tank')
+    const hot = await createTankWithDevice(s.ctx, org, 'Hot tank')
+    await s.ctx.models.Tank.update({ sortOrder: 1 }, { where: { id: calm.tankId } })
+    await s.ctx.models.Tank.update({ sortOrder: 2 }, { where: { id: hot.tankId } })
+    const now = new Date().toISOString()
+    for (const [token, value] of [[calm.token, 26], [hot.token, 26.1]] as const) {
+      await api('/readings', token, { method: 'POST', body: JSON.stringify({ v: 1, readings: [{ metric: 'temperature', value, time: now }, { metric: 'light', value: 8000, time: now }] }) })
+    }
+    await s.ctx.models.Incident.create({
+      organizationId: org.organizationId, siteId: site, tankId: hot.tankId, ruleId: null, ruleKind: 'above', metric: 'temperature', severity: 'alarm',
+      title: 'Temperature above 28 °C for 10 min', state: 'open', conditionSince: new Date(), openedAt: new Date(), firstValue: 28.4, peakValue: 28.4, latestValue: 28.4, latestAt: new Date(),
+    })
+    const res = await api(`/sites/${site}/wall`, org.users.viewer.token)
+    expect(res.status).toBe(200)
+    const wall = await res.json()
+    expect(wall.tanks.map((t: { name: string }) => t.name)).toEqual(['Hot tank', 'Calm tank'])
+    expect(wall.tanks[0]).toMatchObject({ state: 'alarm', openIncident: { title: 'Temperature above 28 °C for 10 min', severity: 'alarm' } })
+    expect(wall.tanks[1]).toMatchObject({ state: 'steady', lightOn: true, latest: { temperature: { value: 26 } } })
+    expect(wall.openIncidents).toBe(1)
+    expect(wall.onDuty).toEqual([])
+    expect(wall.backupContact).toMatchObject({ userId: org.users.owner.id })
+  })
+
+  it('lets an owner create a wall key that can read only its own wall and write nothing', async () => {
+    const site = org.siteIds[0]
+    const keeperTry = await api(`/sites/${site}/wall-credentials`, org.users.keeper.token, { method: 'POST', body: JSON.stringify({ name: 'Fish room TV' }) })
+    expect(keeperTry.status).toBe(403)
+    const created = await api(`/sites/${site}/wall-credentials`, org.users.owner.token, { method: 'POST', body: JSON.stringify({ name: 'Fish room TV' }) })
+    expect(created.status).toBe(201)
+    const { credential, link } = await created.json()
+    const key = new URL(link, 'http://x').searchParams.get('key')!
+    expect(key).toMatch(/^tww_\d+_/)
+
+    expect((await api(`/sites/${site}/wall`, key)).status).toBe(200)
+    expect((await api(`/sites/${org.siteIds[1]}/wall`, key)).status).toBe(404)
+    expect((await api(`/sites/${other.siteIds[0]}/wall`, key)).status).toBe(404)
+    // Nothing else, and no writes.
+    for (const [method, path, body] of [
+      ['GET', '/tanks', undefined], ['GET', `/sites/${site}`, undefined], ['GET', '/auth/me', undefined], ['GET', '/incidents', undefined],
+      ['POST', '/tanks', JSON.stringify(sampleTank(site))], ['POST', `/sites/${site}/wall-credentials`, JSON.stringify({ name: 'x' })],
+      ['PATCH', `/sites/${site}`, JSON.stringify({ name: 'x' })], ['POST', '/readings', JSON.stringify({ v: 1, readings: [] })],
+    ] as const) {
+      const res = await api(path, key, { method, body })
+      expect(res.status, `${method} ${path}`).toBe(401)
+    }
+
+    // The live socket accepts the key for its own site only.
+    const ws = new WebSocket(`${s.baseUrl.replace('http', 'ws')}/ws`)
+    const frames: Array<{ type: string; code?: string; role?: string }> = []
+    ws.on('message', (d) => frames.push(JSON.parse(d.toString())))
+    await new Promise((r) => ws.once('open', r))
+    ws.send(JSON.stringify({ type: 'auth', token: key }))
+    ws.send(JSON.stringify({ type: 'subscribe', siteId: org.siteIds[1] }))
+    ws.send(JSON.stringify({ type: 'subscribe', siteId: site }))
+    await new Promise((r) => setTimeout(r, 500))
+    expect(frames[0]).toMatchObject({ type: 'ready', role: 'wall' })
+    expect(frames[1]).toMatchObject({ type: 'error', code: 'forbidden' })
+    expect(frames[2]).toMatchObject({ type: 'subscribed' })
+
+    const closed = new Promise<number>((r) => ws.once('close', (code) => r(code)))
+    const revoked = await api(`/wall-credentials/${credential.id}/revoke`, org.users.owner.token, { method: 'POST' })
+    expect(revoked.status).toBe(200)
+    expect(await closed).toBe(4401)
+    expect((await api(`/sites/${site}/wall`, key)).status).toBe(401)
+  })
+})
