@@ -8,7 +8,7 @@ import { userActorFromToken } from '../auth/passport'
 import { wallFromToken } from '../auth/wall-tokens'
 import type { AppContext } from '../context'
 import type { StoredReading } from '../events'
-import { siteScope } from '../services/scope'
+import { canSeeSite, siteScope } from '../services/scope'
 
 const AUTH_TIMEOUT_MS = 5000
 const CATCH_UP_LIMIT = 5000
@@ -89,8 +89,7 @@ export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubO
   }
 
   async function siteVisible(actor: Actor, siteId: number) {
-    const site = await ctx.models.Site.findOne({ where: { id: siteId, ...(siteScope(actor, 'id') as object) } })
-    return !!site
+    return canSeeSite(actor, await ctx.models.Site.findByPk(siteId))
   }
 
   const onStored = (rows: StoredReading[]) => {

@@ -2,9 +2,10 @@ import sharp from 'sharp'
 import { describe, expect, it } from 'vitest'
 import { renderTrendPng, renderTrendSvg } from '../../server/mail/trend-chart'
 
-// PNG signature and IHDR layout: W3C "Portable Network Graphics (PNG) Specification (Second
-// Edition)", 2003, sections 5.2 (signature 137 80 78 71 13 10 26 10) and 11.2.2 (IHDR: width and
-// height as 4-byte big-endian integers right after the chunk length and type).
+// PNG signature and IHDR layout: W3C, "Portable Network Graphics (PNG) Specification (Second
+// Edition)", 2003, section 5.2 "PNG signature" (bytes 137 80 78 71 13 10 26 10) and 11.2.2 "IHDR"
+// (the first chunk; width and height are its first two 4-byte big-endian fields, so file offsets
+// 16 and 20). Section numbers from memory; the byte values match the specification's signature.
 const PNG_SIGNATURE = [137, 80, 78, 71, 13, 10, 26, 10]
 
 const HOUR = 3_600_000
