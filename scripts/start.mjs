@@ -55,7 +55,7 @@ process.on('SIGTERM', () => void shutdown(0))
 
 try {
   ensureDependencies(root)
-  const env = { ...process.env, DATA_DIR: dataDir, SEED_DEMO: process.env.SEED_DEMO ?? '1', NODE_ENV: process.env.NODE_ENV ?? 'production' }
+  const env = { ...process.env, DATA_DIR: dataDir, SEED_DEMO: process.env.SEED_DEMO ?? '1', NODE_ENV: process.env.NODE_ENV ?? 'development' }
   if (!process.env.DATABASE_URL) {
     cluster = await startCluster(join(dataDir, 'postgres'))
     env.DATABASE_URL = cluster.createDatabase('tankwarden')

@@ -10,6 +10,8 @@ import { startExternalConsumer } from './mqtt/external'
 import { seedDemoIfEmpty } from './seeders/demo'
 import { startRetentionJob } from './services/retention'
 import { startRuleEngine } from './rules/runtime'
+import { createMailNotifier } from './rules/mail-notifier'
+import { startMail, type RunningMail } from './mail'
 
 export type RunningServer = {
   ctx: AppContext
@@ -17,6 +19,7 @@ export type RunningServer = {
   mqttPort: number | null
   broker: EmbeddedBroker | null
   rules: ReturnType<typeof startRuleEngine>
+  mail: RunningMail
   stop: () => Promise<void>
 }
 
@@ -43,6 +46,8 @@ export async function startServer(config: Config): Promise<RunningServer> {
   if (config.mqtt.url) external = await startExternalConsumer(ctx, config.mqtt.url)
   else broker = await startEmbeddedBroker(ctx, { host: config.mqtt.host, port: config.mqtt.port })
 
+  const mail: RunningMail = await startMail(ctx)
+  ctx.alerts.notifier = createMailNotifier(ctx)
   const rules = startRuleEngine(ctx, ctx.alerts.notifier, config.alertTiming, config.rulesTickMs)
   const stopRetention = startRetentionJob(ctx, { rawRetentionDays: config.rawRetentionDays, everyMs: 3600_000 })
 
@@ -55,11 +60,13 @@ export async function startServer(config: Config): Promise<RunningServer> {
     mqttPort: broker?.port ?? null,
     broker,
     rules,
+    mail,
     async stop() {
       if (stopped) return
       stopped = true
       stopRetention()
       await rules.stop()
+      await mail.stop()
       hub.close()
       await broker?.close()
       await external?.close()

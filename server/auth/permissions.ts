@@ -14,6 +14,7 @@ export const PERMISSIONS = {
   'kit.write': ['owner', 'keeper'],
   'rules.manage': ['owner'],
   'walls.manage': ['owner'],
+  'mail.dev': ['owner'],
   'snoozes.write': ['owner', 'keeper'],
   'incidents.handle': ['owner', 'keeper'],
   'roster.manage': ['owner'],

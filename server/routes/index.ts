@@ -1,6 +1,6 @@
 import { Router } from 'express'
 import { createPassport } from '../auth/passport'
-import { authenticate, authenticateDevice } from '../auth/middleware'
+import { allow, authenticate, authenticateDevice } from '../auth/middleware'
 import type { AppContext } from '../context'
 import { authRouter } from './auth'
 import { devicesRouter } from './devices'
@@ -10,6 +10,7 @@ import { tankTestKitRoutes, testKitEntriesRouter } from './test-kit'
 import { rulesRouter, siteRulesRoutes, snoozesRouter, tankRulesRoutes } from './rules'
 import { ackLinksRouter, incidentsRouter } from './incidents'
 import { rosterRoutes } from './roster'
+import { devMailRouter } from './dev-mail'
 import { siteWallCredentialRoutes, wallCredentialsRouter, wallRoute } from './wall'
 import { invitationsRouter } from './invitations'
 import { sitesRouter } from './sites'
@@ -43,5 +44,7 @@ export function apiRouter(ctx: AppContext) {
   router.use('/ack-links', ackLinksRouter(ctx))
   router.use('/devices', requireUser, devicesRouter(ctx))
   router.use('/readings', authenticateDevice(passport), readingsRouter(ctx))
+  // The local fake mailbox, only where no real SMTP server is configured and never in production.
+  if (!ctx.config.mail.smtpUrl && ctx.config.env !== 'production') router.use('/dev/mail', requireUser, allow('mail.dev'), devMailRouter(ctx))
   return router
 }

@@ -154,7 +154,8 @@ export function incidentsService(ctx: AppContext, notifier: IncidentNotifier, ti
 
     async get(actor: UserActor, id: number) {
       const incident = await findVisible(actor, id)
-      const timeline = await models.IncidentEvent.findAll({ where: { incidentId: id }, order: [['at', 'ASC'], ['id', 'ASC']] })
+      // In the order things happened here; `at` is the time each one refers to.
+      const timeline = await models.IncidentEvent.findAll({ where: { incidentId: id }, order: [['id', 'ASC']] })
       return {
         ...presentIncident(incident),
         timeline: timeline.map((e) => ({ at: e.at.toISOString(), kind: e.kind, userId: e.userId ?? null, detail: e.detail })),

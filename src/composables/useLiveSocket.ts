@@ -26,8 +26,10 @@ let retryDelay = RETRY_MIN_MS
 let retryTimer: ReturnType<typeof setTimeout> | null = null
 let pingTimer: ReturnType<typeof setInterval> | null = null
 let lastFrameAt = 0
-/** Newest reading time seen (or when the socket last went live): where a reconnect catches up from. */
-let catchUpFrom: string | null = null
+/** Newest reading time seen: where a reconnect catches up from. */
+let newestReadingAt: string | null = null
+/** When the socket first went live, for a reconnect before any reading arrived (browser clock). */
+let liveSince: string | null = null
 
 export function liveSocketUrl(loc: Pick<Location, 'protocol' | 'host'> = window.location): string {
   return `${loc.protocol === 'https:' ? 'wss:' : 'ws:'}//${loc.host}/ws`
@@ -54,7 +56,7 @@ function matches(target: LiveTarget, reading: LiveReading): boolean {
 
 function noteNewest(readings: LiveReading[]) {
   for (const reading of readings) {
-    if (!catchUpFrom || reading.time > catchUpFrom) catchUpFrom = reading.time
+    if (!newestReadingAt || reading.time > newestReadingAt) newestReadingAt = reading.time
   }
 }
 
@@ -67,12 +69,12 @@ function onFrame(data: unknown) {
     return
   }
   if (message.type === 'ready') {
-    const resubscribing = catchUpFrom
+    const since = newestReadingAt ?? liveSince
     ready = true
     retryDelay = RETRY_MIN_MS
     status.value = 'live'
-    for (const sub of subscriptions) send(subscribeFrame(sub.target, resubscribing))
-    catchUpFrom ??= new Date().toISOString()
+    for (const sub of subscriptions) send(subscribeFrame(sub.target, since))
+    liveSince ??= new Date().toISOString()
   } else if (message.type === 'readings' && message.readings.length) {
     noteNewest(message.readings)
     for (const sub of [...subscriptions]) {
@@ -141,7 +143,8 @@ function teardown() {
   closing?.close(1000, 'no subscribers')
   status.value = 'offline'
   retryDelay = RETRY_MIN_MS
-  catchUpFrom = null
+  newestReadingAt = null
+  liveSince = null
 }
 
 /** Listen for readings of some tanks or a whole site; call the result to stop listening. */

@@ -6,11 +6,15 @@ import { authService } from '../../server/services/auth'
 import { tanksService } from '../../server/services/tanks'
 import { testKitService } from '../../server/services/test-kit'
 import { usersService } from '../../server/services/users'
+import { ackLinksService } from '../../server/services/ack-links'
+import { rosterService } from '../../server/services/roster'
+import { wallService } from '../../server/services/wall'
 import { tankInputSchema } from '../../shared/schemas/tanks'
 import { bearer, sampleTank, startTestApp, TEST_PASSWORD, type TestOrg } from '../helpers/app'
 
 const JWT_SECRET = 'test-secret-that-is-long-enough-for-hs256-signing'
-const CALLERS = ['owner', 'keeper', 'viewer', 'noToken', 'expired', 'tampered', 'algNone', 'otherOrg'] as const
+// `wall` holds a valid wall display key for the organization's first site.
+const CALLERS = ['owner', 'keeper', 'viewer', 'noToken', 'expired', 'tampered', 'algNone', 'otherOrg', 'wall'] as const
 type Caller = (typeof CALLERS)[number]
 type Expected = Record<Caller, number>
 type Method = 'get' | 'post' | 'put' | 'patch' | 'delete'
@@ -24,21 +28,40 @@ type World = {
   freshInvitation(): Promise<{ id: number; token: string }>
   freshUser(): Promise<number>
   freshDevice(): Promise<number>
+  freshSiteRule(): Promise<number>
+  freshTankRule(): Promise<number>
+  freshSnooze(): Promise<number>
+  freshIncident(): Promise<number>
+  freshAckToken(): Promise<string>
+  freshShift(siteId: number): Promise<number>
+  freshOverride(siteId: number): Promise<number>
+  freshWallKey(): Promise<{ id: number; key: string }>
+  freshMail(): Promise<number>
 }
 
-/** What one case sends: the value for the route's `:param` and the body, both made fresh per case. */
-type Prepared = { param?: number | string; query?: string; body?: unknown }
+/** What one case sends: the values for the route's `:params` (in order) and the body, all made fresh per case. */
+type Prepared = { param?: number | string | Array<number | string>; query?: string; body?: unknown }
 type RouteCase = { method: Method; route: string; expected: Expected; prepare: (w: World) => Promise<Prepared> | Prepared }
 
+/** Open routes: the secret is in the path or body, so any token (a wall key too) changes nothing. */
 const everyone = (status: number) => Object.fromEntries(CALLERS.map((c) => [c, status])) as Expected
 /** `otherOrg` is the owner of another organization: the strongest role, so only tenancy can stop it. */
 const signedIn = (owner: number, keeper: number, viewer: number, otherOrg: number): Expected => ({
-  owner, keeper, viewer, otherOrg, noToken: 401, expired: 401, tampered: 401, algNone: 401,
+  owner, keeper, viewer, otherOrg, noToken: 401, expired: 401, tampered: 401, algNone: 401, wall: 401,
 })
 const row = (method: Method, route: string, expected: Expected, prepare: RouteCase['prepare'] = () => ({})): RouteCase => ({
   method, route, expected, prepare,
 })
 const ownerOnly = signedIn(200, 403, 403, 404)
+const ownerCreates = signedIn(201, 403, 403, 404)
+const ownerDeletes = signedIn(204, 403, 403, 404)
+const readable = signedIn(200, 200, 200, 404)
+const handlers = signedIn(200, 200, 403, 404)
+const HOUR = 3600_000
+const inHours = (h: number) => new Date(Date.now() + h * HOUR).toISOString()
+const ruleBody = { name: 'pH below 6.5', severity: 'warning', spec: { kind: 'below', metric: 'ph', limit: 6.5 } }
+const storedRule = { name: 'pH below 6.5', severity: 'warning', spec: { kind: 'below', metric: 'ph', limit: 6.5, holdMinutes: 0, clearMargin: 0 } } as const
+const snoozeBody = () => ({ reason: 'Water change', startsAt: inHours(0), endsAt: inHours(2) })
 const probe = async (w: World) => ({ tankId: await w.freshTank(), name: 'Probe', metrics: ['temperature'], intervalSeconds: 60 })
 
 const kitBody = { values: [{ metric: 'ph', value: 7.1, unit: 'pH' }], notes: 'weekly check' }
@@ -100,6 +123,57 @@ const ROUTES: RouteCase[] = [
   row('get', '/test-kit-entries/:id/history', signedIn(200, 200, 200, 404), async (w) => ({ param: await keepersEntry(w) })),
   // A person's token, however valid, is never a device token.
   row('post', '/readings', everyone(401), () => ({ body: { readings: [] } })),
+
+  row('get', '/tanks/:id/rules', readable, async (w) => ({ param: await w.freshTank() })),
+  row('post', '/tanks/:id/rules', ownerCreates, async (w) => ({ param: await w.freshTank(), body: ruleBody })),
+  row('put', '/tanks/:id/rules/:ruleId/override', ownerOnly, async (w) => ({
+    param: [await w.freshTank(), await w.freshSiteRule()], body: { enabled: false },
+  })),
+  row('get', '/sites/:id/rules', readable, async (w) => ({ param: await w.freshSite() })),
+  row('post', '/sites/:id/rules', ownerCreates, async (w) => ({ param: await w.freshSite(), body: ruleBody })),
+  row('patch', '/rules/:id', ownerOnly, async (w) => ({ param: await w.freshTankRule(), body: { enabled: false } })),
+  row('delete', '/rules/:id', ownerDeletes, async (w) => ({ param: await w.freshTankRule() })),
+  row('get', '/tanks/:id/snoozes', readable, async (w) => ({ param: await w.freshTank() })),
+  row('post', '/tanks/:id/snoozes', signedIn(201, 201, 403, 404), async (w) => ({ param: await w.freshTank(), body: snoozeBody() })),
+  row('post', '/snoozes/:id/cancel', handlers, async (w) => ({ param: await w.freshSnooze() })),
+  row('get', '/incidents', signedIn(200, 200, 200, 200)),
+  row('get', '/incidents/:id', readable, async (w) => ({ param: await w.freshIncident() })),
+  row('post', '/incidents/:id/acknowledge', handlers, async (w) => ({ param: await w.freshIncident(), body: { note: 'On it' } })),
+  row('post', '/incidents/:id/resolve', handlers, async (w) => ({ param: await w.freshIncident(), body: { note: 'Heater replaced' } })),
+  row('get', '/ack-links/:token', everyone(200), async (w) => ({ param: await w.freshAckToken() })),
+  row('post', '/ack-links/use', everyone(200), async (w) => ({ body: { token: await w.freshAckToken() } })),
+  row('get', '/sites/:id/roster/shifts', readable, async (w) => ({ param: await w.freshSite() })),
+  row('post', '/sites/:id/roster/shifts', ownerCreates, async (w) => ({
+    param: await w.freshSite(), body: { userId: w.org.users.keeper.id, weekday: 0, start: '08:00', end: '16:00' },
+  })),
+  row('patch', '/sites/:id/roster/shifts/:shiftId', ownerOnly, async (w) => {
+    const site = await w.freshSite()
+    return { param: [site, await w.freshShift(site)], body: { end: '17:00' } }
+  }),
+  row('delete', '/sites/:id/roster/shifts/:shiftId', ownerDeletes, async (w) => {
+    const site = await w.freshSite()
+    return { param: [site, await w.freshShift(site)] }
+  }),
+  row('get', '/sites/:id/roster/overrides', readable, async (w) => ({ param: await w.freshSite() })),
+  row('post', '/sites/:id/roster/overrides', ownerCreates, async (w) => ({
+    param: await w.freshSite(), body: { userId: w.org.users.keeper.id, kind: 'add', startsAt: inHours(1), endsAt: inHours(5) },
+  })),
+  row('delete', '/sites/:id/roster/overrides/:overrideId', ownerDeletes, async (w) => {
+    const site = await w.freshSite()
+    return { param: [site, await w.freshOverride(site)] }
+  }),
+  row('get', '/sites/:id/roster/on-duty', readable, async (w) => ({ param: await w.freshSite() })),
+  row('get', '/sites/:id/roster/week', readable, async (w) => ({ param: await w.freshSite(), query: 'start=2026-03-02' })),
+  row('put', '/sites/:id/roster/backup', ownerOnly, async (w) => ({ param: await w.freshSite(), body: { userId: w.org.users.keeper.id } })),
+  // The one route a wall key opens: the wall of its own site.
+  row('get', '/sites/:id/wall', { ...readable, wall: 200 }, (w) => ({ param: w.org.siteIds[0] })),
+  row('get', '/sites/:id/wall-credentials', ownerOnly, async (w) => ({ param: await w.freshSite() })),
+  row('post', '/sites/:id/wall-credentials', ownerCreates, async (w) => ({ param: await w.freshSite(), body: { name: 'Shop TV' } })),
+  row('post', '/wall-credentials/:id/revoke', ownerOnly, async (w) => ({ param: (await w.freshWallKey()).id })),
+  // The box is shared by every organization: the other owner sees and clears only their own mail.
+  row('get', '/dev/mail', signedIn(200, 403, 403, 200)),
+  row('get', '/dev/mail/:id', ownerOnly, async (w) => ({ param: await w.freshMail() })),
+  row('delete', '/dev/mail', signedIn(204, 403, 403, 204)),
 ]
 
 const ERROR_CODES: Record<number, string> = { 400: 'invalid_input', 401: 'unauthenticated', 403: 'forbidden', 404: 'not_found' }
@@ -145,6 +219,8 @@ async function tokenFor(caller: Caller): Promise<string | null> {
       return freshToken(org.users[caller].id)
     case 'otherOrg':
       return freshToken(other.users.owner.id)
+    case 'wall':
+      return (await world.freshWallKey()).key
     case 'tampered': {
       const [header, payload, signature] = (await freshToken(org.users.owner.id)).split('.')
       // The first character carries the top six bits of the first byte, so the signature really changes.
@@ -203,6 +279,55 @@ beforeAll(async () => {
       expect(res.status, JSON.stringify(res.body)).toBe(201)
       return res.body.device.id as number
     },
+    async freshSiteRule() {
+      const rule = await models.WatchRule.create({ organizationId: org.organizationId, siteId: org.siteIds[0], tankId: null, ...storedRule })
+      return rule.id
+    },
+    async freshTankRule() {
+      const tankId = await world.freshTank()
+      const rule = await models.WatchRule.create({ organizationId: org.organizationId, siteId: org.siteIds[0], tankId, ...storedRule })
+      return rule.id
+    },
+    async freshSnooze() {
+      const tankId = await world.freshTank()
+      const s = snoozeBody()
+      const snooze = await models.Snooze.create({
+        organizationId: org.organizationId, tankId, reason: s.reason, startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt), createdBy: org.users.keeper.id,
+      })
+      return snooze.id
+    },
+    async freshIncident() {
+      const tankId = await world.freshTank()
+      const at = new Date()
+      const incident = await models.Incident.create({
+        organizationId: org.organizationId, siteId: org.siteIds[0], tankId, ruleId: null, ruleKind: 'above', metric: 'temperature', severity: 'alarm',
+        title: 'Temperature above 28 °C for 10 min', state: 'open', conditionSince: at, openedAt: at, firstValue: 28.6, peakValue: 28.6, latestValue: 28.6, latestAt: at,
+      })
+      return incident.id
+    },
+    async freshAckToken() {
+      const link = await ackLinksService(t.ctx).create(await world.freshIncident(), org.users.keeper.id)
+      return new URL(link).searchParams.get('token')!
+    },
+    async freshShift(siteId) {
+      const input = { userId: org.users.keeper.id, weekday: 2, start: '09:00', end: '13:00' }
+      return (await rosterService(t.ctx).createShift(ownerActor(org), siteId, input)).id
+    },
+    async freshOverride(siteId) {
+      const input = { userId: org.users.keeper.id, kind: 'remove' as const, startsAt: inHours(1), endsAt: inHours(3), note: '' }
+      return (await rosterService(t.ctx).createOverride(ownerActor(org), siteId, input)).id
+    },
+    async freshWallKey() {
+      const { credential, link } = await wallService(t.ctx).createCredential(ownerActor(org), org.siteIds[0], 'Roles wall')
+      return { id: credential.id, key: new URL(link, 'http://localhost').searchParams.get('key')! }
+    },
+    async freshMail() {
+      const mail = await models.FakeMailboxMessage.create({
+        organizationId: org.organizationId, envelopeFrom: 'alerts@tankwarden.invalid', envelopeTo: [org.users.owner.email],
+        subject: 'Alarm: Temperature above 28 °C', textBody: 'Check the heater', htmlBody: null, headers: {}, attachments: [], rawSize: 120,
+      })
+      return mail.id
+    },
   }
 })
 afterAll(async () => {
@@ -213,7 +338,8 @@ afterAll(async () => {
 describe('every route × every caller answers the exact status', () => {
   it.each(CASES.map((c) => [`${c.name} → ${c.status}`, c] as const))('%s', async (_name, c) => {
     const { param, query, body } = await c.prepare(world)
-    const path = `${c.route.replace(/:\w+/, String(param))}${query ? `?${query}` : ''}`
+    const values = Array.isArray(param) ? [...param] : [param]
+    const path = `${c.route.replace(/:\w+/g, () => String(values.shift()))}${query ? `?${query}` : ''}`
     const res = await send(c.method, path, await tokenFor(c.caller), body)
     expect(res.status, JSON.stringify(res.body)).toBe(c.status)
     if (ERROR_CODES[c.status]) expect(res.body.error.code).toBe(ERROR_CODES[c.status])
@@ -240,6 +366,17 @@ describe('the table itself', () => {
     const notServed = listed.filter((r) => !served.includes(r))
     expect({ notInTable, notServed }).toEqual({ notInTable: [], notServed: [] })
     expect(listed).toEqual(served)
+  })
+
+  it('no wall key can write anything: it opens its own site\'s wall, and elsewhere gets what no token gets', async () => {
+    const name = (r: RouteCase) => `${r.method.toUpperCase()} ${r.route}`
+    expect(ROUTES.filter((r) => r.expected.wall !== r.expected.noToken).map(name)).toEqual(['GET /sites/:id/wall'])
+    expect(ROUTES.filter((r) => r.expected.wall !== 401).map(name)).toEqual([
+      'GET /health', 'POST /auth/sign-in', 'GET /invitations/:token', 'POST /invitations/accept',
+      'GET /ack-links/:token', 'POST /ack-links/use', 'GET /sites/:id/wall',
+    ])
+    const { key } = await world.freshWallKey()
+    for (const siteId of [org.siteIds[1], other.siteIds[0]]) expect((await send('get', `/sites/${siteId}/wall`, key)).status).toBe(404)
   })
 
   it('the forged tokens fail only on what was forged: the same claims signed properly are accepted', async () => {

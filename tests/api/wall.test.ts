@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import WebSocket from 'ws'
+import type { WallResponse } from '../../shared/schemas/wall'
 import { bearer, sampleTank } from '../helpers/app'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
@@ -35,8 +36,8 @@ describe('the wall and wall displays', () => {
     })
     const res = await api(`/sites/${site}/wall`, org.users.viewer.token)
     expect(res.status).toBe(200)
-    const wall = await res.json()
-    expect(wall.tanks.map((t: { name: string }) => t.name)).toEqual(['Hot tank', 'Calm tank'])
+    const wall = (await res.json()) as WallResponse
+    expect(wall.tanks.map((t) => t.name)).toEqual(['Hot tank', 'Calm tank'])
     expect(wall.tanks[0]).toMatchObject({ state: 'alarm', openIncident: { title: 'Temperature above 28 °C for 10 min', severity: 'alarm' } })
     expect(wall.tanks[1]).toMatchObject({ state: 'steady', lightOn: true, latest: { temperature: { value: 26 } } })
     expect(wall.openIncidents).toBe(1)
@@ -50,7 +51,7 @@ describe('the wall and wall displays', () => {
     expect(keeperTry.status).toBe(403)
     const created = await api(`/sites/${site}/wall-credentials`, org.users.owner.token, { method: 'POST', body: JSON.stringify({ name: 'Fish room TV' }) })
     expect(created.status).toBe(201)
-    const { credential, link } = await created.json()
+    const { credential, link } = (await created.json()) as { credential: { id: number }; link: string }
     const key = new URL(link, 'http://x').searchParams.get('key')!
     expect(key).toMatch(/^tww_\d+_/)
 

@@ -11,13 +11,15 @@ const Blank = defineComponent({ render: () => h('div') })
 
 /** Same route names as the app, with blank pages, so links resolve and pushes can be checked. */
 export function testRouter(): Router {
-  const names = ['sign-in', 'tanks', 'tank-new', 'tank', 'tank-edit', 'sites', 'users', 'account']
+  const names = ['sign-in', 'tanks', 'tank-new', 'tank', 'tank-edit', 'tank-test-kit', 'sites', 'users', 'account', 'wall']
   const paths: Record<string, string> = {
     'sign-in': '/sign-in',
     tanks: '/tanks',
     'tank-new': '/tanks/new',
     tank: '/tanks/:id',
     'tank-edit': '/tanks/:id/edit',
+    'tank-test-kit': '/tanks/:id/test-kit',
+    wall: '/wall/:siteId',
     sites: '/sites',
     users: '/users',
     account: '/account',

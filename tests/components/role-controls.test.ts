@@ -19,6 +19,18 @@ vi.mock('@/api/sites', () => ({
   unarchiveSite: vi.fn(),
 }))
 
+vi.mock('@/api/series', () => ({ getSeries: vi.fn(), getLatest: vi.fn(async () => ({})) }))
+vi.mock('@/api/devices', () => ({ listDevices: vi.fn(async () => []), createDevice: vi.fn(), rotateDeviceToken: vi.fn(), revokeDevice: vi.fn() }))
+vi.mock('@/api/test-kit', () => ({ listTestKitEntries: vi.fn(async () => []), createTestKitEntry: vi.fn(), updateTestKitEntry: vi.fn(), deleteTestKitEntry: vi.fn() }))
+vi.mock('@/api/wall', () => ({
+  getWall: vi.fn(async () => {
+    throw new Error('no wall in this test')
+  }),
+  listWallCredentials: vi.fn(async () => []),
+  createWallCredential: vi.fn(),
+  revokeWallCredential: vi.fn(),
+}))
+
 import { getTank } from '@/api/tanks'
 import { listSites } from '@/api/sites'
 import SitesView from '@/views/SitesView.vue'
@@ -74,27 +86,33 @@ describe('tank page', () => {
     expect(text).toContain('10:00–18:00')
     expect(text).toMatch(/Temperature\s24\.0 – 27\.0 °C/)
     expect(text).toMatch(/pH\s8\.00 – 8\.40/)
-    for (const empty of ['No readings yet.', 'No watch rules yet.', 'No care tasks yet.', 'No history yet.']) {
+    for (const empty of ['No readings yet.', 'No devices on this tank yet.', 'No watch rules yet.', 'No care tasks yet.', 'No history yet.']) {
       expect(text).toContain(empty)
     }
   })
 
-  it('gives a viewer no edit or archive controls', async () => {
+  it('gives a viewer no edit, archive, test-kit or device controls', async () => {
     const texts = buttonTexts(await tankPageAs('viewer'))
     expect(texts).not.toContain('Edit tank')
     expect(texts).not.toContain('Archive')
+    expect(texts).not.toContain('Log test')
+    expect(texts).not.toContain('Register device')
   })
 
-  it('lets a keeper edit but not archive', async () => {
-    const texts = buttonTexts(await tankPageAs('keeper'))
+  it('lets a keeper edit and log a test but not archive or register devices', async () => {
+    const wrapper = await tankPageAs('keeper')
+    const texts = buttonTexts(wrapper)
     expect(texts).toContain('Edit tank')
     expect(texts).not.toContain('Archive')
+    expect(texts).not.toContain('Register device')
+    expect(wrapper.find('[data-test="log-test"]').attributes('href')).toBe('/tanks/12/test-kit')
   })
 
-  it('lets an owner edit and archive', async () => {
+  it('lets an owner edit, archive and register devices', async () => {
     const texts = buttonTexts(await tankPageAs('owner'))
     expect(texts).toContain('Edit tank')
     expect(texts).toContain('Archive')
+    expect(texts).toContain('Register device')
   })
 })
 
@@ -113,10 +131,17 @@ describe('sites page', () => {
     expect(wrapper.find('[aria-label="Archive Back fish room"]').exists()).toBe(false)
   })
 
-  it('gives the owner create, edit and archive controls', async () => {
+  it('gives the owner create, edit and archive controls, and the wall displays panel', async () => {
     const wrapper = await sitesPageAs('owner')
     expect(wrapper.find('[data-test="new-site"]').exists()).toBe(true)
     expect(wrapper.find('[aria-label="Edit Back fish room"]').exists()).toBe(true)
     expect(wrapper.find('[aria-label="Archive Back fish room"]').exists()).toBe(true)
+    expect(wrapper.find('[data-test="wall-displays"]').exists()).toBe(true)
+  })
+
+  it('lets everyone open a wall but shows the wall displays panel only to the owner', async () => {
+    const wrapper = await sitesPageAs('viewer')
+    expect(wrapper.find('[aria-label="Open the wall for Back fish room"]').exists()).toBe(true)
+    expect(wrapper.find('[data-test="wall-displays"]').exists()).toBe(false)
   })
 })
