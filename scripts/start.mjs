@@ -1,6 +1,6 @@
 // `npm start`: dependencies, a private PostgreSQL on 127.0.0.1, the client build, then the app
 // (which migrates and seeds the demo). Ctrl-C stops everything cleanly. Node built-ins only.
-import { existsSync, readdirSync, statSync } from 'node:fs'
+import { existsSync, mkdirSync, openSync, readdirSync, statSync } from 'node:fs'
 import { fork } from 'node:child_process'
 import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
@@ -28,6 +28,21 @@ function ensureClientBuild() {
 }
 
 const children = []
+const simulatorSpeed = process.env.SIMULATOR_SPEED ?? '10'
+
+/** The demo shop's sensor nodes: a separate program speaking MQTT to the app's broker. */
+function startSimulator(url, mqttPort) {
+  mkdirSync(dataDir, { recursive: true })
+  const sim = fork(join(root, 'simulator', 'index.ts'), ['--url', url, '--mqtt-url', `mqtt://127.0.0.1:${mqttPort}`, '--demo-scenarios', '--speed', simulatorSpeed], {
+    execArgv: ['--import', 'tsx'],
+    // Its tick-by-tick log would drown the app's: it goes to a file in the data folder.
+    stdio: ['ignore', openSync(join(dataDir, 'simulator.log'), 'a'), 'inherit', 'ipc'],
+  })
+  children.push(sim)
+  sim.on('exit', (code) => {
+    if (!stopping && code) log(`The simulator stopped (exit ${code}); the app keeps running.`)
+  })
+}
 let cluster = null
 let stopping = false
 
@@ -78,6 +93,7 @@ try {
   app.on('message', (message) => {
     if (message?.type !== 'ready') return
     const url = `http://127.0.0.1:${message.port}`
+    if (process.env.SIMULATOR !== '0' && message.demo?.length) startSimulator(url, message.mqttPort)
     const lines = [
       '',
       `  Tankwarden is running:  ${url}`,
@@ -86,7 +102,10 @@ try {
         ? ['  Demo sign-ins (password for all: ' + message.demo[0].password + '):', ...message.demo.map((d) => `    ${d.role.padEnd(7)} ${d.email}`)]
         : []),
       '',
-      '  Ctrl-C stops the app and the database.',
+      `  Wall of the shop floor: ${url}/wall/1   Incidents: ${url}/incidents   Test mailbox: ${url}/dev/mail`,
+      `  MQTT broker: mqtt://127.0.0.1:${message.mqttPort}   Simulator: ${process.env.SIMULATOR === '0' ? 'off (SIMULATOR=0)' : `on, ${simulatorSpeed}× speed, demo faults`}`,
+      '',
+      '  Ctrl-C stops the app, the simulator and the database.',
       '',
     ]
     console.log(lines.join('\n'))
