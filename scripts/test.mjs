@@ -6,7 +6,7 @@ import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { ensureDependencies } from './lib/deps.mjs'
 import { startThrowawayCluster } from './lib/postgres.mjs'
-import { ensureChromium } from './lib/chromium.mjs'
+import { ensureChromium, ensureMosquittoClients } from './lib/chromium.mjs'
 import { log, runAsync } from './lib/run.mjs'
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..')
@@ -15,6 +15,7 @@ const vitestArgs = process.argv.slice(2)
 
 ensureDependencies(root)
 const chromium = ensureChromium()
+ensureMosquittoClients()
 
 const tally = { passed: 0, failed: 0, skipped: 0 }
 let cluster

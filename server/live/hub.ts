@@ -25,7 +25,7 @@ export type LiveHubOptions = { coalesceMs?: number }
 export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubOptions = {}) {
   const wss = new WebSocketServer({ noServer: true, maxPayload: 64 * 1024 })
   const peers = new Set<Peer>()
-  const coalesceMs = options.coalesceMs ?? 250
+  const coalesceMs = options.coalesceMs ?? 100
 
   const send = (peer: Peer, message: LiveServerMessage) => {
     if (peer.socket.readyState === peer.socket.OPEN) peer.socket.send(JSON.stringify(message))

@@ -56,6 +56,13 @@ export function incidentsService(ctx: AppContext, notifier: IncidentNotifier, ti
     return incident
   }
 
+  /** The row locked for this transaction, read afresh: two people acting at once must not both pass the state check. */
+  async function lockedRow(id: number, transaction: Transaction) {
+    const row = await models.Incident.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE })
+    if (!row) throw notFound('Incident not found')
+    return row
+  }
+
   async function acknowledgeIncident(incident: Incident, userId: number, note: string, via: 'app' | 'link', transaction: Transaction) {
     if (incident.state !== 'open') throw conflict('not_open', `This incident is already ${incident.state}`)
     // Acknowledging stops every pending escalation and repeat at once: the timers live in these columns.
@@ -118,22 +125,27 @@ export function incidentsService(ctx: AppContext, notifier: IncidentNotifier, ti
 
     async acknowledge(actor: UserActor, id: number, note: string) {
       const incident = await findVisible(actor, id)
-      await sequelize.transaction((transaction) => acknowledgeIncident(incident, actor.userId, note, 'app', transaction))
+      await sequelize.transaction(async (transaction) =>
+        acknowledgeIncident(await lockedRow(incident.id, transaction), actor.userId, note, 'app', transaction),
+      )
+      await incident.reload()
       changed(incident)
       return presentIncident(incident)
     },
 
     async resolveByHand(actor: UserActor, id: number, note: string) {
       const incident = await findVisible(actor, id)
-      if (incident.state === 'resolved') throw conflict('not_open', 'This incident is already resolved')
       await sequelize.transaction(async (transaction) => {
-        await incident.update(
+        const row = await lockedRow(incident.id, transaction)
+        if (row.state === 'resolved') throw conflict('not_open', 'This incident is already resolved')
+        await row.update(
           { state: 'resolved', resolvedAt: new Date(), resolvedBy: actor.userId, resolveNote: note, nextEscalationAt: null, nextRepeatAt: null },
           { transaction },
         )
-        await record(incident.id, 'resolved', { automatic: false, note }, transaction, actor.userId)
-        await tell('resolved', incident, transaction)
+        await record(row.id, 'resolved', { automatic: false, note }, transaction, actor.userId)
+        await tell('resolved', row, transaction)
       })
+      await incident.reload()
       changed(incident)
       return presentIncident(incident)
     },

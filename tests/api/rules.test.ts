@@ -139,7 +139,7 @@ describe('site-wide rules and tank overrides', () => {
     expect((await tankRules(b)).find((r) => r.id === siteRule.id)?.overriddenHere).toBe(false)
 
     const watched = await rulesService(t.ctx).effectiveRules({ tankIds: [a, b] })
-    const phRulesOf = (tankId: number) => watched.filter((e) => e.tankId === tankId && e.rule.spec.kind === 'below' && e.rule.spec.metric === 'ph')
+    const phRulesOf = (tankId: number) => watched.filter((e) => e.tankId === tankId && [own, siteRule.id].includes(e.rule.id))
     expect(phRulesOf(a).map((e) => [e.rule.id, e.rule.spec])).toEqual([[own, res.body.spec]])
     expect(phRulesOf(b).map((e) => e.rule.id)).toEqual([siteRule.id])
 
