@@ -6,6 +6,7 @@ import createMailOutbox from './202612020330-create-mail-outbox'
 import createDutyRoster from './202612020340-create-duty-roster'
 import createWatchRulesIncidents from './202612020350-create-watch-rules-incidents'
 import createWallCredentials from './202612020400-create-wall-credentials'
+import createCare from './202612020410-create-care'
 
 /** Every migration in order. Add new files here; never edit one that has shipped. */
 export const migrations: Migration[] = [
@@ -16,4 +17,5 @@ export const migrations: Migration[] = [
   createDutyRoster,
   createWatchRulesIncidents,
   createWallCredentials,
+  createCare,
 ]

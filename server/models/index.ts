@@ -11,13 +11,14 @@ import { TestKitEntry, TestKitEntryRevision } from './test-kit-entry'
 import { FakeMailboxMessage, OutboxMessage } from './outbox-message'
 import { WallCredential } from './wall-credential'
 import { DutyShift, DutyOverride } from './duty'
-import { WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink } from './alerts'
+import { WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange } from './alerts'
+import { CareTask, CareLogEntry, LivestockEntry, WaterChange } from './care'
 
-export { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink }
+export { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange }
 
 /** Binds every model to this Sequelize instance and declares the associations, in one place. */
 export function initModels(sequelize: Sequelize) {
-  for (const model of [Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink]) model.initModel(sequelize)
+  for (const model of [Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange]) model.initModel(sequelize)
   User.belongsToMany(Site, { through: UserSite, as: 'sites', foreignKey: 'userId', otherKey: 'siteId' })
   Tank.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
   Site.hasMany(Tank, { as: 'tanks', foreignKey: 'siteId' })
@@ -27,6 +28,6 @@ export function initModels(sequelize: Sequelize) {
   TestKitEntry.hasMany(TestKitEntryRevision, { as: 'revisions', foreignKey: 'entryId' })
   Incident.belongsTo(Tank, { as: 'tank', foreignKey: 'tankId' })
   Incident.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
-  return { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink }
+  return { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange }
 }
 export type Models = ReturnType<typeof initModels>

@@ -47,8 +47,11 @@ export function snoozesService(ctx: AppContext) {
       const snooze = await models.Snooze.findOne({ where: { id, organizationId: actor.organizationId } })
       if (!snooze) throw notFound('Snooze not found')
       await tanksService(ctx).find(actor, snooze.tankId)
-      await snooze.update({ cancelledAt: new Date() })
-      changed(snooze.tankId)
+      // Cancelling again keeps the first time: a later one would re-snooze the minutes in between.
+      if (!snooze.cancelledAt) {
+        await snooze.update({ cancelledAt: new Date() })
+        changed(snooze.tankId)
+      }
       return present(snooze)
     },
   }

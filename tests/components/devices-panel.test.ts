@@ -1,4 +1,4 @@
-import { flushPromises } from '@vue/test-utils'
+import { DOMWrapper, flushPromises } from '@vue/test-utils'
 import { beforeEach, describe, expect, it, vi } from 'vitest'
 import type { PublicDevice } from '@shared/schemas/devices'
 
@@ -50,11 +50,14 @@ describe('DevicesPanel', () => {
     await flushPromises()
     await wrapper.find('[data-test="register-device"]').trigger('click')
     await flushPromises()
-    await wrapper.find('input[name="deviceName"]').setValue('Level node')
-    await wrapper.find('.v-dialog form').trigger('submit')
+    // Dialogs render in an overlay outside the component, so they are looked up in the document.
+    const inDocument = (selector: string) => new DOMWrapper(document.querySelector(selector)!)
+    await inDocument('input[name="deviceName"]').setValue('Level node')
+    await inDocument('.v-dialog form').trigger('submit')
     await flushPromises()
     expect(createDevice).toHaveBeenCalledWith({ tankId: 12, name: 'Level node', metrics: ['temperature'], intervalSeconds: 60 })
-    expect((wrapper.find('[data-test="device-token"] input').element as HTMLInputElement).value).toBe('twd_42_abcdefghijklmnopqrstuv')
-    expect(wrapper.find('[data-test="device-topic"]').text()).toBe('tankwarden/v1/devices/42/readings')
+    expect((document.querySelector('[data-test="device-token"] input') as HTMLInputElement).value).toBe('twd_42_abcdefghijklmnopqrstuv')
+    expect(document.querySelector('[data-test="device-topic"]')?.textContent).toBe('tankwarden/v1/devices/42/readings')
+    expect(document.querySelector('[data-test="device-example"]')?.textContent).toContain("-u 42 -P 'twd_42_abcdefghijklmnopqrstuv'")
   })
 })
