@@ -11,7 +11,7 @@ import { TestKitEntry, TestKitEntryRevision } from './test-kit-entry'
 import { FakeMailboxMessage, OutboxMessage } from './outbox-message'
 import { WallCredential } from './wall-credential'
 import { DutyShift, DutyOverride } from './duty'
-import { WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange } from './alerts'
+import { WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink } from './alerts'
 import { CareTask, CareLogEntry, LivestockEntry, WaterChange } from './care'
 
 export { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange }
