@@ -39,3 +39,10 @@ export const DEMO_TANKS: DemoTank[] = [
   { ...base, site: 'fishroom', name: 'Breeding cylinder C1', kind: 'tropical_freshwater', stage: 'established', dimensions: { shape: 'cylinder', diameterCm: 50, heightCm: 60 }, heater: { watts: 150, setPointC: 27, topCm: 30 }, lightSchedule: { on: '08:00', off: '18:00' }, filter: 'Sponge (air-driven)', sortOrder: 3 },
   { ...base, site: 'fishroom', name: 'Spare tub S1', kind: 'coldwater', stage: 'empty', dimensions: null, volumeLitres: 200, heater: null, lightSchedule: null, notes: 'Dry; kept for overflow stock.', sortOrder: 4 },
 ]
+
+/** Who is on duty: Ravi days on weekdays, Maren nights and weekends, at both sites (invented). */
+export const DEMO_ROSTER = [
+  ...[0, 1, 2, 3, 4].map((weekday) => ({ email: 'keeper@marrowfen.example', weekday, start: '07:00', end: '19:00' })),
+  ...[0, 1, 2, 3, 4].map((weekday) => ({ email: 'keeper2@marrowfen.example', weekday, start: '19:00', end: '07:00' })),
+  ...[5, 6].map((weekday) => ({ email: 'keeper2@marrowfen.example', weekday, start: '07:00', end: '07:00' })),
+]

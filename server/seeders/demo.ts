@@ -1,7 +1,7 @@
 import bcrypt from 'bcryptjs'
 import type { AppContext } from '../context'
 import { tanksService } from '../services/tanks'
-import { DEMO_ORGANIZATION, DEMO_PASSWORD, DEMO_SITES, DEMO_TANKS, DEMO_USERS } from './demo-scenario'
+import { DEMO_ORGANIZATION, DEMO_PASSWORD, DEMO_ROSTER, DEMO_SITES, DEMO_TANKS, DEMO_USERS } from './demo-scenario'
 
 /** Seeds the demo scenario into an empty database; does nothing when any organization exists. */
 export async function seedDemoIfEmpty(ctx: AppContext): Promise<boolean> {
@@ -24,6 +24,14 @@ export async function seedDemoIfEmpty(ctx: AppContext): Promise<boolean> {
         { transaction },
       )
       for (const key of u.sites) await models.UserSite.create({ userId: user.id, siteId: sites.get(key)! }, { transaction })
+      for (const shift of DEMO_ROSTER.filter((r) => r.email === u.email)) {
+        for (const siteId of sites.values()) {
+          await models.DutyShift.create(
+            { organizationId: org.id, siteId, userId: user.id, weekday: shift.weekday, startTime: shift.start, endTime: shift.end },
+            { transaction },
+          )
+        }
+      }
     }
   })
   // Tanks go through the service so volumes and default targets are computed as for any user.

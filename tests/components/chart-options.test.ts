@@ -122,3 +122,15 @@ describe('withGaps', () => {
     expect(out).toEqual([[0, 1], [minute, 2], [minute + 1, null], [10 * minute, 3]])
   })
 })
+
+describe('y axis', () => {
+  type MinFn = (extent: { min: number }) => number
+  it('keeps the band in view and never goes below the floor', () => {
+    const withBand = build({})
+    expect(((withBand.yAxis as { min: MinFn }).min)({ min: 24.5 })).toBe(24)
+    const light = build({ band: null, floor: 0 })
+    expect(((light.yAxis as { min: MinFn }).min)({ min: -0.5 })).toBe(0)
+    expect(((light.yAxis as { min: MinFn }).min)({ min: 12 })).toBe(12)
+    expect((build({ band: null }).yAxis as { min?: MinFn }).min).toBeUndefined()
+  })
+})

@@ -18,7 +18,8 @@ async function mountForm(userId = 7) {
   }
   const messagesFor = (name: string) =>
     wrapper.find(`input[name="${name}"]`).element.closest('.v-input')?.querySelector('.v-messages')?.textContent?.trim()
-  return { wrapper, form, fill, submit, messagesFor }
+  const noteFor = (metric: string) => wrapper.find(`[data-test="kit-note-${metric}"]`).text()
+  return { wrapper, form, fill, submit, messagesFor, noteFor }
 }
 
 describe('parseDecimal', () => {
@@ -49,18 +50,18 @@ describe('TestKitForm', () => {
   })
 
   it('warns before saving a value no kit could read, and does not save it', async () => {
-    const { wrapper, form, fill, submit, messagesFor } = await mountForm()
+    const { wrapper, form, fill, submit, noteFor } = await mountForm()
     await fill('ph', '15')
-    expect(messagesFor('ph')).toBe('No kit reads this: pH runs 0–14. Check the value and the unit.')
+    expect(noteFor('ph')).toBe('No kit reads this: pH runs 0–14. Check the value and the unit.')
     await submit()
     expect(wrapper.find('[data-test="kit-form-warning"]').exists()).toBe(true)
     expect(form.emitted('save')).toBeUndefined()
   })
 
   it('notes a value outside the target band without blocking the save', async () => {
-    const { form, fill, submit, messagesFor } = await mountForm()
+    const { form, fill, submit, noteFor } = await mountForm()
     await fill('ph', '8.1')
-    expect(messagesFor('ph')).toBe("Outside this tank's target band (6.50 – 7.50).")
+    expect(noteFor('ph')).toBe("Outside this tank's target band (6.50 – 7.50).")
     await submit()
     expect(form.emitted('save')).toHaveLength(1)
   })

@@ -52,6 +52,8 @@ export interface MetricChartInput {
   /** Readings from the live socket (canonical); only those after the series' last point are drawn. */
   livePoints?: TimedValue[]
   band?: { min: number; max: number } | null
+  /** Lowest value the metric can take, in display units (0 lux): the axis never goes below it. */
+  floor?: number | null
   /** Canonical → display unit (°F for someone who prefers it). */
   convert?: (canonical: number) => number
   unitLabel: string
@@ -130,10 +132,19 @@ function envelopeSeries(buckets: SeriesBucket[], step: number, convert: (v: numb
       ...common,
       name: SERIES_NAMES.envelope,
       lineStyle: { opacity: 0 },
+      itemStyle: { color: colors.envelope },
       areaStyle: { color: colors.envelope, opacity: 0.3 },
       data: spread,
     },
   ]
+}
+
+function yAxisMin(band: { min: number } | null, floor: number | null) {
+  if (!band && floor == null) return undefined
+  return (extent: { min: number }) => {
+    const low = band ? Math.min(extent.min, band.min) : extent.min
+    return floor != null ? Math.max(floor, low) : low
+  }
 }
 
 interface TooltipItem {
@@ -240,7 +251,7 @@ export function buildMetricOption(input: MetricChartInput): MetricChartOption {
       nameTextStyle: { color: colors.text },
       axisLabel: { color: colors.text },
       // The band stays in view even when every reading sits far from it.
-      min: band ? (extent: { min: number }) => Math.min(extent.min, band.min) : undefined,
+      min: yAxisMin(band, input.floor ?? null),
       max: band ? (extent: { max: number }) => Math.max(extent.max, band.max) : undefined,
     },
     dataZoom: [
