@@ -45,6 +45,7 @@ export default defineConfig({
           name: 'e2e',
           include: ['tests/e2e/**/*.test.ts'],
           environment: 'node',
+          globalSetup: ['tests/helpers/global-setup.ts'],
           testTimeout: 60000,
           hookTimeout: 120000,
           fileParallelism: false,

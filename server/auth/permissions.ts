@@ -18,6 +18,8 @@ export const PERMISSIONS = {
   'snoozes.write': ['owner', 'keeper'],
   'incidents.handle': ['owner', 'keeper'],
   'roster.manage': ['owner'],
+  'care.write': ['owner', 'keeper'],
+  'care.manage': ['owner'],
 } as const satisfies Record<string, readonly Caller[]>
 
 export type Permission = keyof typeof PERMISSIONS

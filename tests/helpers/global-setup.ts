@@ -8,6 +8,8 @@ export default async function setup() {
   if (!process.env.DATABASE_URL) {
     throw new Error('DATABASE_URL is not set: run the suites through `npm test`, which starts a throwaway PostgreSQL')
   }
+  // Several vitest projects name this setup; the template is made once per run.
+  if (process.env.TW_TEMPLATE_READY === TEMPLATE_DB) return
   const admin = new pg.Client({ connectionString: adminUrl() })
   await admin.connect()
   await admin.query(`DROP DATABASE IF EXISTS ${TEMPLATE_DB}`)
@@ -16,4 +18,5 @@ export default async function setup() {
   const sequelize = createSequelize(databaseUrl(TEMPLATE_DB))
   await migrate(sequelize)
   await sequelize.close()
+  process.env.TW_TEMPLATE_READY = TEMPLATE_DB
 }
