@@ -129,7 +129,7 @@ export function livestockService(ctx: AppContext) {
       const { tank, entry } = await findEntry(actor, tankId, entryId)
       const lost = changes.losses !== undefined ? changes.losses - entry.losses : 0
       if (lost < 0) throw badRequest('losses: cannot go down; losses are a running total', { losses: 'cannot go down' })
-      const removedAt = changes.removedAt ? instantNotAhead(changes.removedAt, 'removedAt') : changes.removedAt
+      const removedAt = typeof changes.removedAt === 'string' ? instantNotAhead(changes.removedAt, 'removedAt') : changes.removedAt
       const wasRemoved = entry.removedAt !== null
       await sequelize.transaction(async (transaction) => {
         const { removedAt: _text, ...rest } = changes
