@@ -45,6 +45,8 @@ export function ackLinksService(ctx: AppContext) {
         await link.reload({ lock: transaction.LOCK.UPDATE, transaction })
         if (link.usedAt) throw new AppError(409, 'link_used', `This link was already used on ${link.usedAt.toISOString()}`)
         if (link.expiresAt.getTime() <= Date.now()) throw new AppError(410, 'link_expired', 'This link has expired; acknowledge in the app')
+        const person = await models.User.findByPk(link.userId, { transaction })
+        if (!person?.active) throw new AppError(410, 'link_expired', 'This link belongs to an account that is no longer active')
         const incident = await models.Incident.findByPk(link.incidentId, { transaction, lock: transaction.LOCK.UPDATE })
         if (!incident) throw notFound('The incident no longer exists')
         await link.update({ usedAt: new Date() }, { transaction })

@@ -6,6 +6,11 @@ import type { LatestValue } from '@shared/schemas/series'
 
 /** Enough for several hours of one-minute readings per metric without growing without bound. */
 export const LIVE_POINTS_PER_SERIES = 2000
+/**
+ * Live points only bridge the time since the last fetch (the wall refetches every minute, charts
+ * every few); a TV left on for weeks must not hoard more than this per series.
+ */
+export const LIVE_MAX_AGE_MS = 6 * 3_600_000
 
 export interface LivePoint {
   t: string
@@ -27,6 +32,10 @@ function insertPoint(points: LivePoint[], point: LivePoint): boolean {
   if (before && before.ms === point.ms && before.value === point.value) return false
   points.splice(index, 0, point)
   if (points.length > LIVE_POINTS_PER_SERIES) points.splice(0, points.length - LIVE_POINTS_PER_SERIES)
+  const oldestKept = points[points.length - 1]!.ms - LIVE_MAX_AGE_MS
+  let stale = 0
+  while (stale < points.length && points[stale]!.ms < oldestKept) stale++
+  if (stale) points.splice(0, stale)
   return true
 }
 

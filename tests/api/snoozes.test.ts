@@ -50,12 +50,16 @@ const listed = async (tankId: number, auth = as('viewer')) => {
   return (res.body as PublicSnooze[]).map((s) => s.id)
 }
 const cancel = (id: number, auth = as('keeper')) => t.api().post(`/api/v1/snoozes/${id}/cancel`).set(auth)
-const window = (fromNowMs: number, lengthMs: number) => ({ startsAt: iso(Date.now() + fromNowMs), endsAt: iso(Date.now() + fromNowMs + lengthMs) })
+/** One reading of the clock for both ends, so "exactly seven days" stays exact. */
+function timeSpan(fromNowMs: number, lengthMs: number) {
+  const start = Date.now() + fromNowMs
+  return { startsAt: iso(start), endsAt: iso(start + lengthMs) }
+}
 
 describe('creating snoozes', () => {
   it('records a snooze and says in words that heater-line alarms are still sent', async () => {
     const tankId = await newTank()
-    const span = window(0, 2 * HOUR)
+    const span = timeSpan(0, 2 * HOUR)
     const res = await snooze(tankId, { reason: 'Glass cleaning', ...span })
     expect(res.status).toBe(201)
     expect(res.body).toEqual({
@@ -69,18 +73,18 @@ describe('creating snoozes', () => {
   it('repeats weekly up to an end date, and allows exactly seven days', async () => {
     const tankId = await newTank()
     const repeatUntil = iso(Date.now() + 28 * DAY)
-    const weekly = await snooze(tankId, { reason: 'Sunday maintenance', ...window(HOUR, 3 * HOUR), weekly: true, repeatUntil })
+    const weekly = await snooze(tankId, { reason: 'Sunday maintenance', ...timeSpan(HOUR, 3 * HOUR), weekly: true, repeatUntil })
     expect([weekly.status, weekly.body.weekly, weekly.body.repeatUntil]).toEqual([201, true, repeatUntil])
-    expect((await snooze(tankId, { reason: 'Holiday cover', ...window(0, 7 * DAY) })).status).toBe(201)
+    expect((await snooze(tankId, { reason: 'Holiday cover', ...timeSpan(0, 7 * DAY) })).status).toBe(201)
   })
 
   it.each([
-    ['no reason', { ...window(0, HOUR) }, { reason: 'Invalid input: expected string, received undefined' }],
-    ['a reason too short to explain', { reason: 'ok', ...window(0, HOUR) }, { reason: 'say why' }],
-    ['an end before the start', { reason: 'Water change', ...window(HOUR, -30 * MIN) }, { endsAt: 'must end after it starts' }],
-    ['an end equal to the start', { reason: 'Water change', ...window(HOUR, 0) }, { endsAt: 'must end after it starts' }],
-    ['more than seven days', { reason: 'Long holiday', ...window(0, 7 * DAY + MIN) }, { endsAt: 'at most 7 days at a time' }],
-    ['weekly without an end date', { reason: 'Sunday maintenance', ...window(0, HOUR), weekly: true }, { repeatUntil: 'a weekly snooze needs an end date' }],
+    ['no reason', { ...timeSpan(0, HOUR) }, { reason: 'Invalid input: expected string, received undefined' }],
+    ['a reason too short to explain', { reason: 'ok', ...timeSpan(0, HOUR) }, { reason: 'say why' }],
+    ['an end before the start', { reason: 'Water change', ...timeSpan(HOUR, -30 * MIN) }, { endsAt: 'must end after it starts' }],
+    ['an end equal to the start', { reason: 'Water change', ...timeSpan(HOUR, 0) }, { endsAt: 'must end after it starts' }],
+    ['more than seven days', { reason: 'Long holiday', ...timeSpan(0, 7 * DAY + MIN) }, { endsAt: 'at most 7 days at a time' }],
+    ['weekly without an end date', { reason: 'Sunday maintenance', ...timeSpan(0, HOUR), weekly: true }, { repeatUntil: 'a weekly snooze needs an end date' }],
     ['a time without an offset', { reason: 'Water change', startsAt: '2026-03-02T10:00:00', endsAt: '2026-03-02T11:00:00' }, {
       startsAt: 'Invalid ISO datetime', endsAt: 'Invalid ISO datetime',
     }],
@@ -95,9 +99,9 @@ describe('creating snoozes', () => {
 describe('listing and cancelling', () => {
   it('lists snoozes not yet over, in start order, and drops a cancelled one', async () => {
     const tankId = await newTank()
-    const later = (await snooze(tankId, { reason: 'Evening feed trial', ...window(5 * HOUR, HOUR) })).body.id
-    const now = (await snooze(tankId, { reason: 'Water change', ...window(-MIN, HOUR) })).body.id
-    const weekly = (await snooze(tankId, { reason: 'Weekly maintenance', ...window(-2 * DAY, HOUR), weekly: true, repeatUntil: iso(Date.now() + 20 * DAY) })).body.id
+    const later = (await snooze(tankId, { reason: 'Evening feed trial', ...timeSpan(5 * HOUR, HOUR) })).body.id
+    const now = (await snooze(tankId, { reason: 'Water change', ...timeSpan(-MIN, HOUR) })).body.id
+    const weekly = (await snooze(tankId, { reason: 'Weekly maintenance', ...timeSpan(-2 * DAY, HOUR), weekly: true, repeatUntil: iso(Date.now() + 20 * DAY) })).body.id
     await t.ctx.models.Snooze.create({
       organizationId: org.organizationId, tankId, reason: 'Yesterday', startsAt: new Date(Date.now() - DAY), endsAt: new Date(Date.now() - DAY + HOUR), createdBy: null,
     })
@@ -116,13 +120,13 @@ describe('listing and cancelling', () => {
 describe('who may snooze', () => {
   it('lets owners and keepers snooze and cancel, viewers only look, other organizations nothing', async () => {
     const tankId = await newTank()
-    const id = (await snooze(tankId, { reason: 'Water change', ...window(0, HOUR) }, as('owner'))).body.id as number
-    const viewerTries = [await snooze(tankId, { reason: 'Water change', ...window(0, HOUR) }, as('viewer')), await cancel(id, as('viewer'))]
+    const id = (await snooze(tankId, { reason: 'Water change', ...timeSpan(0, HOUR) }, as('owner'))).body.id as number
+    const viewerTries = [await snooze(tankId, { reason: 'Water change', ...timeSpan(0, HOUR) }, as('viewer')), await cancel(id, as('viewer'))]
     expect(viewerTries.map((r) => [r.status, r.body.error.code])).toEqual([[403, 'forbidden'], [403, 'forbidden']])
     const stranger = as('owner', other)
     const strangerTries = [
       await t.api().get(`/api/v1/tanks/${tankId}/snoozes`).set(stranger),
-      await snooze(tankId, { reason: 'Water change', ...window(0, HOUR) }, stranger),
+      await snooze(tankId, { reason: 'Water change', ...timeSpan(0, HOUR) }, stranger),
       await cancel(id, stranger),
     ]
     expect(strangerTries.map((r) => [r.status, r.body.error.code])).toEqual(Array(3).fill([404, 'not_found']))

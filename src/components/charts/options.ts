@@ -182,7 +182,8 @@ export function buildMetricOption(input: MetricChartInput): MetricChartOption {
   const { series, colors } = input
   const bucketed = series.bucketSeconds > 0
   const fromMs = ms(series.from)
-  const toMs = ms(series.to)
+  // Live readings arriving after the fetch stretch the axis rather than fall off its end.
+  const toMs = Math.max(ms(series.to), ...(input.livePoints ?? []).map((p) => ms(p.t)))
   const seriesList: Array<LineSeriesOption | ScatterSeriesOption> = []
   let kit: Array<[number, number]>
   let main: LineSeriesOption
