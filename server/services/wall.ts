@@ -80,7 +80,7 @@ export function wallService(ctx: AppContext) {
         const times = Object.values(metrics).map((m) => m?.time).filter(Boolean) as string[]
         const light = metrics.light
         return {
-          id: tank.id, name: tank.name, kind: tank.kind, stage: tank.stage, sortOrder: tank.sortOrder, volumeLitres: tank.volumeLitres,
+          id: tank.id, name: tank.name, kind: tank.kind, stage: tank.stage, sortOrder: tank.sortOrder, volumeLitres: tank.volumeLitres, heightCm: tank.dimensions?.heightCm ?? null,
           heater: tank.heater, lightSchedule: tank.lightSchedule, targets: tank.targets, latest: metrics,
           trend: trend.get(tank.id) ?? [], state, stateReasons: reasons,
           openIncident: worst ? { id: worst.id, title: worst.title, severity: worst.severity, openedAt: worst.openedAt.toISOString() } : null,

@@ -7,7 +7,7 @@ export type CareRecurrence = { kind: 'interval'; everyDays: number } | { kind: '
 export type CareDueStatus = 'overdue' | 'due_today' | 'due_soon' | 'later'
 
 /** A task due within this many days after today is "due soon". */
-export const DUE_SOON_DAYS = 3
+export const DUE_SOON_DAYS = 2
 
 export interface CareTaskTiming {
   recurrence: CareRecurrence

@@ -12,6 +12,8 @@ export interface WallTank {
   stage: TankStage
   sortOrder: number
   volumeLitres: number
+  /** Inside height of the tank, cm, when its dimensions are known (for the water-level gauge). */
+  heightCm: number | null
   heater: { watts: number; setPointC: number; topCm: number } | null
   lightSchedule: { on: string; off: string } | null
   targets: Targets

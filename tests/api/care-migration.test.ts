@@ -1,0 +1,25 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import createCare from '../../server/migrations/202612020410-create-care'
+import { startTestApp } from '../helpers/app'
+
+let t: Awaited<ReturnType<typeof startTestApp>>
+beforeAll(async () => {
+  t = await startTestApp()
+})
+afterAll(() => t.close())
+
+const careTables = async () =>
+  ((await t.ctx.sequelize.query(
+    `SELECT table_name FROM information_schema.tables WHERE table_name IN ('care_tasks', 'care_log', 'livestock', 'water_changes') ORDER BY table_name`,
+  )) as [Array<{ table_name: string }>, unknown])[0].map((r) => r.table_name)
+
+describe('the care migration', () => {
+  it('rolls back cleanly and applies again', async () => {
+    const qi = t.ctx.sequelize.getQueryInterface()
+    expect(await careTables()).toEqual(['care_log', 'care_tasks', 'livestock', 'water_changes'])
+    await createCare.down(qi)
+    expect(await careTables()).toEqual([])
+    await createCare.up(qi)
+    expect(await careTables()).toEqual(['care_log', 'care_tasks', 'livestock', 'water_changes'])
+  })
+})
