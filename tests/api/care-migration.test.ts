@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { QueryTypes } from 'sequelize'
 import createCare from '../../server/migrations/202612020410-create-care'
 import { startTestApp } from '../helpers/app'
 
@@ -9,9 +10,12 @@ beforeAll(async () => {
 afterAll(() => t.close())
 
 const careTables = async () =>
-  ((await t.ctx.sequelize.query(
-    `SELECT table_name FROM information_schema.tables WHERE table_name IN ('care_tasks', 'care_log', 'livestock', 'water_changes') ORDER BY table_name`,
-  )) as [Array<{ table_name: string }>, unknown])[0].map((r) => r.table_name)
+  (
+    await t.ctx.sequelize.query<{ name: string }>(
+      `SELECT c.relname::text AS name FROM pg_class c WHERE c.relkind = 'r' AND c.relname IN ('care_tasks', 'care_log', 'livestock', 'water_changes') ORDER BY 1`,
+      { type: QueryTypes.SELECT },
+    )
+  ).map((r) => r.name)
 
 describe('the care migration', () => {
   it('rolls back cleanly and applies again', async () => {
