@@ -11,6 +11,7 @@ import { rulesRouter, siteRulesRoutes, snoozesRouter, tankRulesRoutes } from './
 import { ackLinksRouter, incidentsRouter } from './incidents'
 import { rosterRoutes } from './roster'
 import { devMailRouter } from './dev-mail'
+import { careRouter, careRoutes, siteCareRoutes } from './care'
 import { siteWallCredentialRoutes, wallCredentialsRouter, wallRoute } from './wall'
 import { invitationsRouter } from './invitations'
 import { sitesRouter } from './sites'
@@ -34,13 +35,16 @@ export function apiRouter(ctx: AppContext) {
   router.use('/users', requireUser, usersRouter(ctx))
   // The wall answers wall displays too, so it is mounted ahead of the people-only /sites chain.
   router.use('/sites', wallRoute(ctx, authenticate(passport, ['user-jwt', 'wall-token'])))
-  router.use('/sites', requireUser, sitesRouter(ctx), siteRulesRoutes(ctx), rosterRoutes(ctx), siteWallCredentialRoutes(ctx))
+  router.use('/sites', requireUser, sitesRouter(ctx), siteRulesRoutes(ctx), rosterRoutes(ctx), siteWallCredentialRoutes(ctx), siteCareRoutes(ctx))
   router.use('/wall-credentials', requireUser, wallCredentialsRouter(ctx))
-  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx), tankRulesRoutes(ctx))
+  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx), tankRulesRoutes(ctx), careRoutes(ctx))
   router.use('/test-kit-entries', requireUser, testKitEntriesRouter(ctx))
   router.use('/rules', requireUser, rulesRouter(ctx))
   router.use('/snoozes', requireUser, snoozesRouter(ctx))
   router.use('/incidents', requireUser, incidentsRouter(ctx))
+  // careRouter carries its full paths (/care-tasks, /water-changes, /care), so it is mounted without a prefix.
+  router.use(['/care-tasks', '/water-changes', '/care'], requireUser)
+  router.use(careRouter(ctx))
   router.use('/ack-links', ackLinksRouter(ctx))
   router.use('/devices', requireUser, devicesRouter(ctx))
   router.use('/readings', authenticateDevice(passport), readingsRouter(ctx))

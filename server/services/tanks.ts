@@ -8,6 +8,7 @@ import type { Actor } from '../auth/actor'
 import type { AppContext } from '../context'
 import { badRequest, fromZod, notFound } from '../errors'
 import { canSeeSite, siteScope } from './scope'
+import { createDefaultCareTasks } from './care-tasks'
 import { rulesService } from './rules'
 import { publicTank } from './serializers'
 
@@ -108,6 +109,7 @@ export function tanksService(ctx: AppContext) {
         organizationId: actor.organizationId,
       })
       await rulesService(ctx).createDefaults(tank)
+      await createDefaultCareTasks(ctx, tank)
       return publicTank(await find(actor, tank.id))
     },
 

@@ -8,6 +8,7 @@ import type { AppContext } from '../context'
 import { notFound } from '../errors'
 import type { WallCredential } from '../models'
 import { scheduleFn, snoozeCovers } from '../rules/tank-context'
+import { careDueCounts } from './care-tasks'
 import { incidentsOf } from './incidents'
 import { whoIsOnDuty } from './roster'
 import { canSeeSite } from './scope'
@@ -55,13 +56,14 @@ export function wallService(ctx: AppContext) {
       const now = Date.now()
       const tanks = await models.Tank.findAll({ where: { siteId, archivedAt: null }, order: [['sortOrder', 'ASC'], ['name', 'ASC']] })
       const ids = tanks.map((t) => t.id)
-      const [latest, trend, devices, open, snoozes, duty] = await Promise.all([
+      const [latest, trend, devices, open, snoozes, duty, care] = await Promise.all([
         seriesService(ctx).siteLatest(ids),
         trends(ids, now),
         models.Device.findAll({ where: { tankId: ids, revokedAt: null } }),
         incidentsOf(ctx).openForTanks(ids),
         models.Snooze.findAll({ where: { tankId: ids, cancelledAt: null, [Op.or]: [{ endsAt: { [Op.gt]: new Date(now) } }, { repeatUntil: { [Op.gt]: new Date(now) } }] } }),
         whoIsOnDuty(ctx, siteId, new Date(now)),
+        careDueCounts(ctx, { siteIds: [siteId] }, new Date(now)),
       ])
       const latestByTank = new Map(latest.map((l) => [l.tankId, l.metrics]))
       const wallTanks: WallTank[] = tanks.map((tank) => {
@@ -98,7 +100,7 @@ export function wallService(ctx: AppContext) {
         onDuty: duty.onDuty.map((d) => ({ userId: d.userId, name: d.name })),
         backupContact: duty.backup ? { userId: duty.backup.userId, name: duty.backup.name } : null,
         openIncidents: open.length,
-        overdueCareTasks: null,
+        overdueCareTasks: care.bySite.get(siteId)?.overdue ?? 0,
       }
     },
 
