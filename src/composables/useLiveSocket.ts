@@ -5,10 +5,13 @@ import { liveCredential, notifyUnauthorized } from '@/api/session'
 export type LiveStatus = 'connecting' | 'live' | 'offline'
 export type LiveTarget = { tankIds: number[] } | { siteId: number }
 export type ReadingsHandler = (readings: LiveReading[], info: { catchUp: boolean }) => void
+export type LiveIncidentChange = Extract<LiveServerMessage, { type: 'incident' }>
+export type IncidentHandler = (change: LiveIncidentChange) => void
 
 interface Subscription {
   target: LiveTarget
   onReadings: ReadingsHandler
+  onIncident?: IncidentHandler
 }
 
 export const RETRY_MIN_MS = 1000
@@ -54,6 +57,10 @@ function matches(target: LiveTarget, reading: LiveReading): boolean {
   return 'siteId' in target || target.tankIds.includes(reading.tankId)
 }
 
+function concerns(target: LiveTarget, change: LiveIncidentChange): boolean {
+  return 'siteId' in target ? target.siteId === change.siteId : target.tankIds.includes(change.tankId)
+}
+
 function noteNewest(readings: LiveReading[]) {
   for (const reading of readings) {
     if (!newestReadingAt || reading.time > newestReadingAt) newestReadingAt = reading.time
@@ -81,6 +88,8 @@ function onFrame(data: unknown) {
       const mine = message.readings.filter((r) => matches(sub.target, r))
       if (mine.length) sub.onReadings(mine, { catchUp: message.catchUp === true })
     }
+  } else if (message.type === 'incident') {
+    for (const sub of [...subscriptions]) if (sub.onIncident && concerns(sub.target, message)) sub.onIncident(message)
   }
 }
 
@@ -147,9 +156,9 @@ function teardown() {
   liveSince = null
 }
 
-/** Listen for readings of some tanks or a whole site; call the result to stop listening. */
-export function subscribeLive(target: LiveTarget, onReadings: ReadingsHandler): () => void {
-  const subscription: Subscription = { target, onReadings }
+/** Listen for readings (and, if asked, incident changes) of some tanks or a whole site; call the result to stop listening. */
+export function subscribeLive(target: LiveTarget, onReadings: ReadingsHandler, onIncident?: IncidentHandler): () => void {
+  const subscription: Subscription = { target, onReadings, onIncident }
   subscriptions.add(subscription)
   if (ready) send(subscribeFrame(target))
   else connect()

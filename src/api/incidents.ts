@@ -1,0 +1,67 @@
+import type { Page } from '@shared/schemas/common'
+import type { IncidentDetail, IncidentState, PublicIncident } from '@shared/schemas/incidents'
+import { http } from './client'
+
+export type IncidentStateFilter = IncidentState | 'unresolved'
+
+export interface IncidentListParams {
+  page?: number
+  pageSize?: number
+  siteId?: number | null
+  tankId?: number | null
+  state?: IncidentStateFilter | null
+  severity?: 'warning' | 'alarm' | null
+  from?: Date | null
+  to?: Date | null
+}
+
+/** What an acknowledge link from an alert mail points at; readable without a session. */
+export interface AckLinkInfo {
+  incident: { id: number; title: string; severity: 'warning' | 'alarm'; state: IncidentState; tankName: string; openedAt: string }
+  usedAt: string | null
+  expiresAt: string
+  expired: boolean
+}
+
+export interface AckLinkResult {
+  state: string
+  /** Someone had already acknowledged or resolved it; the link is spent all the same. */
+  alreadyHandled: boolean
+}
+
+function toQuery(params: IncidentListParams): Record<string, string> {
+  const query: Record<string, string> = {}
+  if (params.page) query.page = String(params.page)
+  if (params.pageSize) query.pageSize = String(params.pageSize)
+  if (params.siteId) query.siteId = String(params.siteId)
+  if (params.tankId) query.tankId = String(params.tankId)
+  if (params.state) query.state = params.state
+  if (params.severity) query.severity = params.severity
+  if (params.from) query.from = params.from.toISOString()
+  if (params.to) query.to = params.to.toISOString()
+  return query
+}
+
+export async function listIncidents(params: IncidentListParams = {}): Promise<Page<PublicIncident>> {
+  return (await http.get<Page<PublicIncident>>('/incidents', { params: toQuery(params) })).data
+}
+
+export async function getIncident(id: number): Promise<IncidentDetail> {
+  return (await http.get<IncidentDetail>(`/incidents/${id}`)).data
+}
+
+export async function acknowledgeIncident(id: number, note: string): Promise<PublicIncident> {
+  return (await http.post<PublicIncident>(`/incidents/${id}/acknowledge`, { note })).data
+}
+
+export async function resolveIncident(id: number, note: string): Promise<PublicIncident> {
+  return (await http.post<PublicIncident>(`/incidents/${id}/resolve`, { note })).data
+}
+
+export async function describeAckLink(token: string): Promise<AckLinkInfo> {
+  return (await http.get<AckLinkInfo>(`/ack-links/${encodeURIComponent(token)}`)).data
+}
+
+export async function useAckLink(token: string, note: string): Promise<AckLinkResult> {
+  return (await http.post<AckLinkResult>('/ack-links/use', { token, note })).data
+}

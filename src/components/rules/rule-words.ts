@@ -1,0 +1,81 @@
+import { METRICS, displayPrecision, isMetricKey, type MetricKey } from '@shared/metrics/registry'
+import type { RuleSeverity, WatchRuleKind, WatchRuleSpec } from '@shared/rules/schema'
+import { displayUnitOf, toDisplayValue, unitLabel } from '@/composables/useUnits'
+
+export const RULE_KIND_LABELS: Record<WatchRuleKind, string> = {
+  above: 'Above a limit',
+  below: 'Below a limit',
+  outside: 'Outside a band',
+  rate: 'Changes too fast',
+  quiet: 'No readings',
+  heater_line: 'Water near the heater top',
+  light_schedule: 'Light off its schedule',
+}
+
+export const SEVERITY_LABELS: Record<RuleSeverity, string> = { warning: 'Warning', alarm: 'Alarm' }
+
+/** "Temperature" reads "temperature" inside a sentence; "pH", "KH" and "GH" keep their capitals. */
+export function metricInSentence(metric: string): string {
+  const label = isMetricKey(metric) ? METRICS[metric].label : metric
+  return /^[A-Z][a-z]/.test(label) ? label[0]!.toLowerCase() + label.slice(1) : label
+}
+
+/** "10 min", "1 h", "1 h 30 min", "24 h", "2 days". */
+export function formatMinutes(minutes: number): string {
+  const rounded = Math.round(minutes * 10) / 10
+  if (rounded < 60) return `${rounded} min`
+  if (rounded >= 2 * 1440 && rounded % 1440 === 0) return `${rounded / 1440} days`
+  const hours = Math.floor(rounded / 60)
+  const rest = Math.round((rounded - hours * 60) * 10) / 10
+  return rest ? `${hours} h ${rest} min` : `${hours} h`
+}
+
+const unitSuffix = (metric: MetricKey) => {
+  const unit = unitLabel(metric)
+  // pH is its own unit: "pH is above 7.50" needs no second "pH".
+  return metric === 'ph' ? '' : ` ${unit}`
+}
+
+/** A canonical value in the person's unit, with the unit: "28.0 °C", "7.50". */
+export function ruleValue(metric: MetricKey, canonical: number): string {
+  return `${toDisplayValue(metric, canonical).toFixed(displayPrecision(metric, displayUnitOf(metric)))}${unitSuffix(metric)}`
+}
+
+/** A difference (not a level) in the person's unit: 1 °C of change is 1.8 °F, not 33.8 °F. */
+export function ruleChange(metric: MetricKey, canonicalDelta: number): string {
+  const delta = toDisplayValue(metric, canonicalDelta) - toDisplayValue(metric, 0)
+  return `${delta.toFixed(displayPrecision(metric, displayUnitOf(metric)))}${unitSuffix(metric)}`
+}
+
+const cm = (value: number) => `${Number(value.toFixed(1))} cm`
+const forHold = (minutes: number) => (minutes > 0 ? ` for ${formatMinutes(minutes)}` : '')
+
+/** The condition alone, without the severity: "temperature is above 28.0 °C for 10 min; clears below 27.5 °C". */
+export function describeCondition(spec: WatchRuleSpec): string {
+  switch (spec.kind) {
+    case 'above':
+      return `${metricInSentence(spec.metric)} is above ${ruleValue(spec.metric, spec.limit)}${forHold(spec.holdMinutes)}; clears below ${ruleValue(spec.metric, spec.limit - spec.clearMargin)}`
+    case 'below':
+      return `${metricInSentence(spec.metric)} is below ${ruleValue(spec.metric, spec.limit)}${forHold(spec.holdMinutes)}; clears above ${ruleValue(spec.metric, spec.limit + spec.clearMargin)}`
+    case 'outside': {
+      const band = `${ruleValue(spec.metric, spec.min)} – ${ruleValue(spec.metric, spec.max)}`
+      const inner = `${ruleValue(spec.metric, spec.min + spec.clearMargin)} – ${ruleValue(spec.metric, spec.max - spec.clearMargin)}`
+      return `${metricInSentence(spec.metric)} is outside ${band}${forHold(spec.holdMinutes)}; clears back inside ${inner}`
+    }
+    case 'rate':
+      return `${metricInSentence(spec.metric)} changes by more than ${ruleChange(spec.metric, spec.maxChange)} within ${formatMinutes(spec.windowMinutes)}`
+    case 'quiet':
+      return `no ${metricInSentence(spec.metric)} reading arrives for ${formatMinutes(spec.quietMinutes)}`
+    case 'heater_line': {
+      const where = spec.marginCm > 0 ? `is within ${cm(spec.marginCm)} of the heater top or lower` : 'is at or below the heater top'
+      return `the water level ${where}${forHold(spec.holdMinutes)}; clears once it is more than ${cm(spec.marginCm + spec.clearMargin)} above the heater top`
+    }
+    case 'light_schedule':
+      return `the light is on when the schedule says off, or off when it says on, for ${formatMinutes(spec.holdMinutes)} (on means at least ${Number(spec.onLux.toFixed(1))} lux)`
+  }
+}
+
+/** The whole rule in plain words: "Alarm when temperature is above 28.0 °C for 10 min; clears below 27.5 °C". */
+export function describeRule(rule: { severity: RuleSeverity; spec: WatchRuleSpec }): string {
+  return `${SEVERITY_LABELS[rule.severity]} when ${describeCondition(rule.spec)}`
+}
