@@ -7,6 +7,7 @@ import createDutyRoster from './202612020340-create-duty-roster'
 import createWatchRulesIncidents from './202612020350-create-watch-rules-incidents'
 import createWallCredentials from './202612020400-create-wall-credentials'
 import createCare from './202612020410-create-care'
+import createPasswordResets from './202612020420-create-password-resets'
 
 /** Every migration in order. Add new files here; never edit one that has shipped. */
 export const migrations: Migration[] = [
@@ -18,4 +19,5 @@ export const migrations: Migration[] = [
   createWatchRulesIncidents,
   createWallCredentials,
   createCare,
+  createPasswordResets,
 ]

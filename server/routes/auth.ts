@@ -1,11 +1,12 @@
 import { Router } from 'express'
 import { rateLimit, ipKeyGenerator } from 'express-rate-limit'
-import { changePasswordSchema, signInSchema } from '../../shared/schemas/auth'
+import { changePasswordSchema, passwordResetConfirmSchema, passwordResetRequestSchema, signInSchema } from '../../shared/schemas/auth'
 import { actorOf, type authenticate } from '../auth/middleware'
 import type { AppContext } from '../context'
 import { AppError } from '../errors'
 import { parse } from '../http/validate'
 import { authService } from '../services/auth'
+import { passwordResetService } from '../services/password-reset'
 
 export function authRouter(ctx: AppContext, requireUser: ReturnType<typeof authenticate>) {
   const router = Router()
@@ -43,6 +44,17 @@ export function authRouter(ctx: AppContext, requireUser: ReturnType<typeof authe
   router.post('/password', requireUser, async (req, res) => {
     const { currentPassword, newPassword } = parse(changePasswordSchema, req, 'body')
     await auth.changePassword(actorOf(req), currentPassword, newPassword)
+    res.status(204).end()
+  })
+
+  // Same answer whether or not the address is known; rate-limited like sign-in.
+  router.post('/password-reset', signInLimiter, async (req, res) => {
+    await passwordResetService(ctx).request(parse(passwordResetRequestSchema, req, 'body').email)
+    res.status(202).json({ message: 'If that address belongs to an active account, a reset link is on its way' })
+  })
+  router.post('/password-reset/confirm', async (req, res) => {
+    const { token, password } = parse(passwordResetConfirmSchema, req, 'body')
+    await passwordResetService(ctx).confirm(token, password)
     res.status(204).end()
   })
 

@@ -5,6 +5,8 @@ import { hashSecret, newSecretToken } from '../auth/tokens'
 import type { AppContext } from '../context'
 import { badRequest, conflict, notFound } from '../errors'
 import { authService } from './auth'
+import { enqueueMail } from '../mail/outbox'
+import { invitation as invitationMail } from '../mail/templates'
 import { publicUser } from './serializers'
 
 const INVITATION_DAYS = 7
@@ -99,17 +101,40 @@ export function usersService(ctx: AppContext) {
       const siteIds = input.role === 'viewer' ? (input.siteIds ?? []) : []
       await assertSitesInOrganization(actor.organizationId, siteIds)
       const { token, hash } = newSecretToken()
-      const invitation = await models.Invitation.create({
-        organizationId: actor.organizationId,
-        email: input.email,
-        name: input.name,
-        role: input.role,
-        siteIds,
-        tokenHash: hash,
-        invitedBy: actor.userId,
-        expiresAt: new Date(Date.now() + INVITATION_DAYS * 86400_000),
+      const link = `/accept-invite?token=${token}`
+      // The invitation and its mail commit together; the link is also answered for the owner to pass on.
+      const invitation = await sequelize.transaction(async (transaction) => {
+        const created = await models.Invitation.create(
+          {
+            organizationId: actor.organizationId,
+            email: input.email,
+            name: input.name,
+            role: input.role,
+            siteIds,
+            tokenHash: hash,
+            invitedBy: actor.userId,
+            expiresAt: new Date(Date.now() + INVITATION_DAYS * 86400_000),
+          },
+          { transaction },
+        )
+        const [organization, inviter] = await Promise.all([
+          models.Organization.findByPk(actor.organizationId, { transaction }),
+          models.User.findByPk(actor.userId, { transaction }),
+        ])
+        const mail = invitationMail({
+          organizationName: organization?.name ?? '',
+          inviterName: inviter?.name ?? 'An owner',
+          link: `${ctx.config.publicUrl}${link}`,
+          validHours: INVITATION_DAYS * 24,
+        })
+        await enqueueMail(
+          ctx,
+          { kind: 'invitation', to: input.email, ...mail, organizationId: actor.organizationId, dedupeKey: `invitation:${created.id}` },
+          { transaction },
+        )
+        return created
       })
-      return { invitation: publicInvitation(invitation), link: `/accept-invite?token=${token}` }
+      return { invitation: publicInvitation(invitation), link }
     },
 
     async revokeInvitation(actor: UserActor, id: number) {

@@ -59,3 +59,6 @@ export interface SessionInfo {
   user: PublicUser
   organization: { id: number; name: string }
 }
+
+export const passwordResetRequestSchema = z.object({ email: emailSchema })
+export const passwordResetConfirmSchema = z.object({ token: z.string().min(20).max(200), password: passwordSchema })

@@ -62,6 +62,6 @@ export async function describeAckLink(token: string): Promise<AckLinkInfo> {
   return (await http.get<AckLinkInfo>(`/ack-links/${encodeURIComponent(token)}`)).data
 }
 
-export async function useAckLink(token: string, note: string): Promise<AckLinkResult> {
+export async function redeemAckLink(token: string, note: string): Promise<AckLinkResult> {
   return (await http.post<AckLinkResult>('/ack-links/use', { token, note })).data
 }

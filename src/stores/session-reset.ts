@@ -1,5 +1,6 @@
 import type { Pinia } from 'pinia'
 import { resetLiveSocket } from '@/composables/useLiveSocket'
+import { useDevMailStore } from './dev-mail'
 import { useLiveStore } from './live'
 import { useSitesStore } from './sites'
 import { useTanksStore } from './tanks'
@@ -11,5 +12,6 @@ export function resetSessionStores(pinia?: Pinia) {
   useTanksStore(pinia).$reset()
   useUsersStore(pinia).$reset()
   useLiveStore(pinia).$reset()
+  useDevMailStore(pinia).$reset()
   resetLiveSocket()
 }

@@ -87,6 +87,9 @@ const ROUTES: RouteCase[] = [
   row('get', '/health', everyone(200)),
   row('post', '/auth/sign-in', everyone(200), (w) => ({ body: { email: w.org.users.keeper.email, password: TEST_PASSWORD } })),
   row('post', '/auth/sign-out', signedIn(204, 204, 204, 204)),
+  // Same answer for every caller; the address need not exist.
+  row('post', '/auth/password-reset', everyone(202), () => ({ body: { email: 'someone@nowhere.example' } })),
+  row('post', '/auth/password-reset/confirm', everyone(400), () => ({ body: { token: 'x'.repeat(43), password: 'a-long-enough-password' } })),
   row('get', '/auth/me', signedIn(200, 200, 200, 200)),
   row('post', '/auth/password', signedIn(204, 204, 204, 204), () => ({
     body: { currentPassword: TEST_PASSWORD, newPassword: TEST_PASSWORD },
@@ -381,8 +384,8 @@ describe('the table itself', () => {
     const name = (r: RouteCase) => `${r.method.toUpperCase()} ${r.route}`
     expect(ROUTES.filter((r) => r.expected.wall !== r.expected.noToken).map(name)).toEqual(['GET /sites/:id/wall'])
     expect(ROUTES.filter((r) => r.expected.wall !== 401).map(name)).toEqual([
-      'GET /health', 'POST /auth/sign-in', 'GET /invitations/:token', 'POST /invitations/accept',
-      'GET /ack-links/:token', 'POST /ack-links/use', 'GET /sites/:id/wall',
+      'GET /health', 'POST /auth/sign-in', 'POST /auth/password-reset', 'POST /auth/password-reset/confirm',
+      'GET /invitations/:token', 'POST /invitations/accept', 'GET /ack-links/:token', 'POST /ack-links/use', 'GET /sites/:id/wall',
     ])
     const { key } = await world.freshWallKey()
     for (const siteId of [org.siteIds[1], other.siteIds[0]]) expect((await send('get', `/sites/${siteId}/wall`, key)).status).toBe(404)

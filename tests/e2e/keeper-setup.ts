@@ -1,4 +1,4 @@
-import type { Page, WebSocket } from 'playwright-core'
+import type { Locator, Page, WebSocket } from 'playwright-core'
 import { bearer, sampleTank } from '../helpers/app'
 import type { startAppForBrowser } from './browser'
 
@@ -54,4 +54,25 @@ export function liveSubscribed(page: Page): Promise<void> {
       })
     })
   })
+}
+
+// The server tsconfig has no DOM types; these callbacks run in the page and reach its globals.
+type PageGlobals = {
+  localStorage: { getItem(key: string): string | null; setItem(key: string, value: string): void }
+  getComputedStyle(el: unknown): { backgroundColor: string }
+}
+
+export function readStorage(page: Page, keys: string[]): Promise<Record<string, string | null>> {
+  return page.evaluate((names) => {
+    const storage = (globalThis as unknown as PageGlobals).localStorage
+    return Object.fromEntries(names.map((k) => [k, storage.getItem(k)]))
+  }, keys)
+}
+
+export function writeStorage(page: Page, key: string, value: string): Promise<void> {
+  return page.evaluate(([k, v]) => (globalThis as unknown as PageGlobals).localStorage.setItem(k!, v!), [key, value])
+}
+
+export function backgroundOf(target: Locator): Promise<string> {
+  return target.evaluate((el) => (globalThis as unknown as PageGlobals).getComputedStyle(el).backgroundColor)
 }

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { sampleTank } from '../helpers/app'
 import type { TestOrg } from '../helpers/fixtures'
 import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'
-import { api, FIRST_LOAD_MS, type App } from './keeper-setup'
+import { api, FIRST_LOAD_MS, readStorage, type App } from './keeper-setup'
 
 let s: App
 let b: Awaited<ReturnType<typeof launchBrowser>>
@@ -75,8 +75,8 @@ describe('a wall display signed in with its own key', () => {
     // Only the linked site: the other site's tank is not on it, and a display has no way out.
     expect(await page.getByRole('article', { name: /^Fish room tub:/ }).count()).toBe(0)
     expect(await page.getByRole('link', { name: /Leave wall/ }).count()).toBe(0)
-    const stored = await page.evaluate(() => ({ wallKey: localStorage.getItem('tw.wallKey'), site: localStorage.getItem('tw.wallSiteId'), token: localStorage.getItem('tw.token') }))
-    expect(stored).toEqual({ wallKey: key, site: String(shopId), token: null })
+    const stored = await readStorage(page, ['tw.wallKey', 'tw.wallSiteId', 'tw.token'])
+    expect(stored).toEqual({ 'tw.wallKey': key, 'tw.wallSiteId': String(shopId), 'tw.token': null })
 
     await page.reload()
     await expectWall(page)

@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { readingsTopic } from '../../shared/ingest/contract'
 import type { TestOrg } from '../helpers/fixtures'
 import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'
-import { api, FIRST_LOAD_MS, liveSubscribed, MINUTE_MS, postTemperatures, tankWithProbe, waitForRuleLeader, type App } from './keeper-setup'
+import { api, backgroundOf, FIRST_LOAD_MS, liveSubscribed, MINUTE_MS, postTemperatures, tankWithProbe, waitForRuleLeader, writeStorage, type App } from './keeper-setup'
 
 let s: App
 let b: Awaited<ReturnType<typeof launchBrowser>>
@@ -58,7 +58,7 @@ const tileTemperature = (page: Page, name: string) => tile(page, name).locator('
 
 async function openWall(page: Page, theme?: 'tankwardenLight' | 'tankwardenDark') {
   await signIn(page, s.baseUrl, org.users.keeper.email)
-  if (theme) await page.evaluate((name) => localStorage.setItem('tw.theme', name), theme)
+  if (theme) await writeStorage(page, 'tw.theme', theme)
   await page.goto(`${s.baseUrl}/wall/${siteId}`)
   await page.locator('[data-test=wall-grid] article').nth(5).waitFor({ timeout: FIRST_LOAD_MS })
 }
@@ -84,7 +84,7 @@ describe('the wall of a site, for a keeper at a 1920×1080 screen', () => {
     for (const tank of STEADY) expect((await tileTemperature(page, tank.name))?.replace(/\s/g, '')).toBe(`${tank.celsius.toFixed(1)}°C`)
 
     expect((await page.locator('[data-test=wall-incidents]').textContent())?.replace(/\s+/g, ' ').trim()).toBe('Open incidents: 1')
-    expect(await page.locator('.tw-wall').evaluate((el) => getComputedStyle(el).backgroundColor)).toBe('rgb(243, 246, 246)')
+    expect(await backgroundOf(page.locator('.tw-wall'))).toBe('rgb(243, 246, 246)')
     await shot(page, 'wall-light-1920')
     await page.close()
   })
@@ -118,7 +118,7 @@ describe('the wall of a site, for a keeper at a 1920×1080 screen', () => {
   it('draws the same wall in the dark theme', async () => {
     const page = await browser.newPage({ viewport: { width: 1920, height: 1080 } })
     await openWall(page, 'tankwardenDark')
-    expect(await page.locator('.tw-wall').evaluate((el) => getComputedStyle(el).backgroundColor)).toBe('rgb(14, 21, 23)')
+    expect(await backgroundOf(page.locator('.tw-wall'))).toBe('rgb(14, 21, 23)')
     expect(await page.locator('[data-test=wall-grid] article').first().getAttribute('aria-label')).toBe(`${HOT.name}: Alarm`)
     await shot(page, 'wall-dark-1920')
     await page.close()

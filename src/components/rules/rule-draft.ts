@@ -1,0 +1,102 @@
+import type { MetricKey } from '@shared/metrics/registry'
+import type { RuleSeverity, WatchRuleKind } from '@shared/rules/schema'
+import { ruleInputSchema, type PublicRule, type RuleInput } from '@shared/schemas/rules'
+import { fieldErrors, friendlyIssues, type FieldErrors } from '@/composables/useFieldErrors'
+
+/** Every field a rule form can show, as typed text; which ones count depends on the kind. */
+export interface RuleDraft {
+  name: string
+  severity: RuleSeverity
+  enabled: boolean
+  kind: WatchRuleKind
+  metric: MetricKey
+  limit: string
+  min: string
+  max: string
+  holdMinutes: string
+  clearMargin: string
+  maxChange: string
+  windowMinutes: string
+  quietMinutes: string
+  marginCm: string
+  onLux: string
+}
+
+/** Which fields each kind asks for, in form order. */
+export const KIND_FIELDS: Record<WatchRuleKind, Array<keyof RuleDraft>> = {
+  above: ['metric', 'limit', 'holdMinutes', 'clearMargin'],
+  below: ['metric', 'limit', 'holdMinutes', 'clearMargin'],
+  outside: ['metric', 'min', 'max', 'holdMinutes', 'clearMargin'],
+  rate: ['metric', 'maxChange', 'windowMinutes'],
+  quiet: ['metric', 'quietMinutes'],
+  heater_line: ['marginCm', 'holdMinutes', 'clearMargin'],
+  light_schedule: ['holdMinutes', 'onLux'],
+}
+
+export function emptyRuleDraft(): RuleDraft {
+  return {
+    name: '', severity: 'warning', enabled: true, kind: 'above', metric: 'temperature',
+    limit: '', min: '', max: '', holdMinutes: '10', clearMargin: '0.5', maxChange: '', windowMinutes: '60',
+    quietMinutes: '15', marginCm: '2', onLux: '50',
+  }
+}
+
+const text = (value: number | undefined) => (value == null ? '' : String(value))
+
+export function draftFromRule(rule: Pick<PublicRule, 'name' | 'severity' | 'enabled' | 'spec'>): RuleDraft {
+  const draft: RuleDraft = { ...emptyRuleDraft(), name: rule.name, severity: rule.severity, enabled: rule.enabled, kind: rule.spec.kind }
+  const spec = rule.spec
+  if ('metric' in spec) draft.metric = spec.metric
+  if ('holdMinutes' in spec) draft.holdMinutes = text(spec.holdMinutes)
+  if ('clearMargin' in spec) draft.clearMargin = text(spec.clearMargin)
+  if (spec.kind === 'above' || spec.kind === 'below') draft.limit = text(spec.limit)
+  if (spec.kind === 'outside') Object.assign(draft, { min: text(spec.min), max: text(spec.max) })
+  if (spec.kind === 'rate') Object.assign(draft, { maxChange: text(spec.maxChange), windowMinutes: text(spec.windowMinutes) })
+  if (spec.kind === 'quiet') draft.quietMinutes = text(spec.quietMinutes)
+  if (spec.kind === 'heater_line') draft.marginCm = text(spec.marginCm)
+  if (spec.kind === 'light_schedule') draft.onLux = text(spec.onLux)
+  return draft
+}
+
+/** An empty box is "not given" (a default may apply); anything else must be a number. */
+const numberOrUndefined = (value: string) => (value.trim() === '' ? undefined : Number(value.replace(',', '.')))
+
+/** The spec as sent: only the fields of the chosen kind. */
+export function specFromDraft(draft: RuleDraft): Record<string, unknown> {
+  const spec: Record<string, unknown> = { kind: draft.kind }
+  for (const field of KIND_FIELDS[draft.kind]) {
+    spec[field] = field === 'metric' ? draft.metric : numberOrUndefined(draft[field] as string)
+  }
+  return spec
+}
+
+/** zod's limits in the form's words: "at least 0", "at most 10080". */
+function ruleIssues(issue: Parameters<typeof friendlyIssues>[0] & { minimum?: unknown; maximum?: unknown; inclusive?: boolean }) {
+  const friendly = friendlyIssues(issue)
+  if (friendly) return friendly
+  if (issue.code === 'too_small') return issue.inclusive === false ? `must be more than ${String(issue.minimum)}` : `must be at least ${String(issue.minimum)}`
+  if (issue.code === 'too_big') {
+    const limit = Number(issue.maximum)
+    return limit === 7 * 24 * 60 ? `at most ${limit} minutes (7 days)` : `must be at most ${String(issue.maximum)}`
+  }
+  return undefined
+}
+
+export type DraftResult = { ok: true; input: RuleInput } | { ok: false; errors: FieldErrors }
+
+/** Checked with the same schema the server uses; errors are keyed by form field (`holdMinutes`, `name`). */
+export function parseRuleDraft(draft: RuleDraft): DraftResult {
+  const parsed = ruleInputSchema.safeParse(
+    { name: draft.name, severity: draft.severity, enabled: draft.enabled, spec: specFromDraft(draft) },
+    { error: ruleIssues },
+  )
+  if (parsed.success) return { ok: true, input: parsed.data }
+  const errors: FieldErrors = {}
+  for (const [path, message] of Object.entries(fieldErrors(parsed.error))) errors[path.replace(/^spec\./, '')] ??= message
+  return { ok: false, errors }
+}
+
+/** Server field errors (`spec.holdMinutes`) in the form's keys. */
+export function draftErrors(fields: Record<string, string>): FieldErrors {
+  return Object.fromEntries(Object.entries(fields).map(([key, message]) => [key.replace(/^spec\./, ''), message]))
+}

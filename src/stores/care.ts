@@ -1,0 +1,67 @@
+import { acceptHMRUpdate, defineStore } from 'pinia'
+import { computed, ref } from 'vue'
+import type { Species } from '@shared/care/species'
+import * as careApi from '@/api/care'
+import type { CareTodayTask } from '@/api/care'
+import { urgentFirst } from '@/components/care/care-words'
+
+export type CareTodayScope = { siteId: number } | { mine: true }
+
+export const useCareStore = defineStore('care', () => {
+  const species = ref<Species[]>([])
+  let speciesLoading: Promise<void> | null = null
+
+  const todayTasks = ref<CareTodayTask[]>([])
+  const todaySiteIds = ref<number[]>([])
+  const todayLoading = ref(false)
+  // Only the newest today request may write: switching site twice quickly must not show the first.
+  let todayRequest = 0
+
+  const speciesByKey = computed(() => new Map(species.value.map((s) => [s.key, s])))
+
+  /** The species table rarely changes; one fetch per session. */
+  function ensureSpecies(): Promise<void> {
+    if (species.value.length) return Promise.resolve()
+    speciesLoading ??= careApi
+      .listSpecies()
+      .then((list) => {
+        species.value = list
+      })
+      .finally(() => {
+        speciesLoading = null
+      })
+    return speciesLoading
+  }
+
+  async function loadToday(scope: CareTodayScope) {
+    const ticket = ++todayRequest
+    todayLoading.value = true
+    try {
+      const today = await careApi.getCareToday(scope)
+      if (ticket !== todayRequest) return
+      todayTasks.value = urgentFirst(today.tasks)
+      todaySiteIds.value = today.siteIds
+    } finally {
+      if (ticket === todayRequest) todayLoading.value = false
+    }
+  }
+
+  /** Done from the today list: the task leaves it, since it is no longer due. */
+  async function markTodayDone(taskId: number, notes = '') {
+    const result = await careApi.markCareTaskDone(taskId, notes ? { notes } : {})
+    todayTasks.value = todayTasks.value.filter((t) => t.id !== taskId)
+    return result
+  }
+
+  function $reset() {
+    todayRequest++
+    species.value = []
+    todayTasks.value = []
+    todaySiteIds.value = []
+    todayLoading.value = false
+  }
+
+  return { species, speciesByKey, ensureSpecies, todayTasks, todaySiteIds, todayLoading, loadToday, markTodayDone, $reset }
+})
+
+if (import.meta.hot) import.meta.hot.accept(acceptHMRUpdate(useCareStore, import.meta.hot))
