@@ -28,7 +28,7 @@ function ensureClientBuild() {
 }
 
 const children = []
-const simulatorSpeed = process.env.SIMULATOR_SPEED ?? '10'
+const simulatorSpeed = process.env.SIMULATOR_SPEED ?? '20'
 
 /** The demo shop's sensor nodes: a separate program speaking MQTT to the app's broker. */
 function startSimulator(url, mqttPort) {

@@ -24,9 +24,10 @@ export function installGuards(target: Router) {
     const auth = useAuthStore()
     await auth.restore()
 
-    // A display without a person signed in sees its own wall and nothing else.
+    // A display without a person signed in sees its own wall and nothing else (an alert mail's
+    // acknowledge link aside: it carries its own secret and shows only that one incident).
     const wall = storedWallSession()
-    if (!auth.isSignedIn && wall) {
+    if (!auth.isSignedIn && wall && to.name !== 'ack') {
       if (to.name === 'wall' && Number(to.params.siteId) === wall.siteId) return true
       return { name: 'wall', params: { siteId: String(wall.siteId) }, replace: true }
     }

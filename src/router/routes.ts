@@ -29,6 +29,13 @@ export const routes: RouteRecordRaw[] = [
     meta: { public: true, title: 'Join your team' },
   },
   {
+    // Opened from an alert e-mail, often on a phone without a session: it works without one.
+    path: '/ack',
+    name: 'ack',
+    component: () => import('@/views/AckLinkView.vue'),
+    meta: { public: true, title: 'Acknowledge' },
+  },
+  {
     path: '/wall/:siteId(\\d+)',
     name: 'wall',
     component: () => import('@/views/WallView.vue'),
@@ -69,6 +76,27 @@ export const routes: RouteRecordRaw[] = [
         meta: { title: 'Edit tank', roles: EDITORS },
       },
       { path: 'sites', name: 'sites', component: () => import('@/views/SitesView.vue'), meta: { title: 'Sites' } },
+      {
+        path: 'sites/:id(\\d+)/roster',
+        name: 'roster',
+        component: () => import('@/views/RosterView.vue'),
+        props: (route) => ({ id: Number(route.params.id) }),
+        meta: { title: 'Duty roster' },
+      },
+      { path: 'incidents', name: 'incidents', component: () => import('@/views/IncidentsView.vue'), meta: { title: 'Incidents' } },
+      {
+        path: 'incidents/:id(\\d+)',
+        name: 'incident',
+        component: () => import('@/views/IncidentView.vue'),
+        props: (route) => ({ id: Number(route.params.id) }),
+        meta: { title: 'Incident' },
+      },
+      {
+        path: 'dev/mail',
+        name: 'dev-mail',
+        component: () => import('@/views/DevMailView.vue'),
+        meta: { title: 'Test mailbox', roles: ['owner'] },
+      },
       {
         path: 'users',
         name: 'users',
