@@ -27,7 +27,6 @@ async function mountPanel(canWrite = true) {
 
 async function planPercent(wrapper: Awaited<ReturnType<typeof mountPanel>>, percent: string) {
   await wrapper.find('input[name="amount"]').setValue(percent)
-  await wrapper.find('[data-test="water-change-plan-button"]').trigger('submit')
   await wrapper.find('form').trigger('submit')
   await flushPromises()
 }
@@ -105,7 +104,7 @@ describe('WaterChangePanel', () => {
     await flushPromises()
     await inDocument('input[name="litresReplaced"]').setValue('70')
     await inDocument('input[name="dechlorinatorMl"]').setValue('14')
-    await inDocument('input[name="newWaterTemp"]').setValue('25.5')
+    await inDocument('input[name="finishNewWaterTemp"]').setValue('25.5')
     await inDocument('.v-dialog form').trigger('submit')
     await flushPromises()
     expect(finishWaterChange).toHaveBeenCalledWith(55, { litresReplaced: 70, dechlorinatorMl: 14, newWaterTempC: 25.5, notes: '' })
