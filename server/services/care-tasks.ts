@@ -41,6 +41,9 @@ const zoneOf = (tank: TankWithSite) => tank.site?.timeZone ?? 'UTC'
 
 /** The starter routine for a new tank (see shared/care/defaults); call it where tanks are created. */
 export async function createDefaultCareTasks(ctx: AppContext, tank: Tank, transaction?: Transaction) {
+  // Once per tank: a tank that already has tasks keeps them.
+  const existing = await ctx.models.CareTask.findAll({ where: { tankId: tank.id }, order: [['id', 'ASC']], transaction })
+  if (existing.length) return existing
   const drafts = defaultCareTasksFor({ kind: tank.kind, stage: tank.stage })
   return ctx.models.CareTask.bulkCreate(
     drafts.map((d) => ({ ...d, organizationId: tank.organizationId, tankId: tank.id })),

@@ -84,6 +84,7 @@ export const routes: RouteRecordRaw[] = [
         meta: { title: 'Duty roster' },
       },
       { path: 'incidents', name: 'incidents', component: () => import('@/views/IncidentsView.vue'), meta: { title: 'Incidents' } },
+      { path: 'care/today', name: 'care-today', component: () => import('@/views/CareTodayView.vue'), meta: { title: 'Care today' } },
       {
         path: 'incidents/:id(\\d+)',
         name: 'incident',

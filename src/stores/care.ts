@@ -53,6 +53,13 @@ export const useCareStore = defineStore('care', () => {
     return result
   }
 
+  /** Snoozed tasks are not due today, so the task leaves the list too. */
+  async function snoozeToday(taskId: number, input: careApi.CareTaskSnoozeInput) {
+    const task = await careApi.snoozeCareTask(taskId, input)
+    todayTasks.value = todayTasks.value.filter((t) => t.id !== taskId)
+    return task
+  }
+
   function $reset() {
     todayRequest++
     species.value = []
@@ -61,7 +68,7 @@ export const useCareStore = defineStore('care', () => {
     todayLoading.value = false
   }
 
-  return { species, speciesByKey, ensureSpecies, todayTasks, todaySiteIds, todayLoading, loadToday, markTodayDone, $reset }
+  return { species, speciesByKey, ensureSpecies, todayTasks, todaySiteIds, todayLoading, loadToday, markTodayDone, snoozeToday, $reset }
 })
 
 if (import.meta.hot) import.meta.hot.accept(acceptHMRUpdate(useCareStore, import.meta.hot))

@@ -1,5 +1,6 @@
 import type { Pinia } from 'pinia'
 import { resetLiveSocket } from '@/composables/useLiveSocket'
+import { useCareStore } from './care'
 import { useDevMailStore } from './dev-mail'
 import { useLiveStore } from './live'
 import { useSitesStore } from './sites'
@@ -13,5 +14,6 @@ export function resetSessionStores(pinia?: Pinia) {
   useUsersStore(pinia).$reset()
   useLiveStore(pinia).$reset()
   useDevMailStore(pinia).$reset()
+  useCareStore(pinia).$reset()
   resetLiveSocket()
 }

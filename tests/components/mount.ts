@@ -11,7 +11,7 @@ const Blank = defineComponent({ render: () => h('div') })
 
 /** Same route names as the app, with blank pages, so links resolve and pushes can be checked. */
 export function testRouter(): Router {
-  const names = ['sign-in', 'tanks', 'tank-new', 'tank', 'tank-edit', 'tank-test-kit', 'sites', 'users', 'account', 'wall']
+  const names = ['sign-in', 'tanks', 'tank-new', 'tank', 'tank-edit', 'tank-test-kit', 'sites', 'users', 'account', 'wall', 'incidents', 'incident', 'roster', 'ack', 'dev-mail', 'care-today']
   const paths: Record<string, string> = {
     'sign-in': '/sign-in',
     tanks: '/tanks',
@@ -23,6 +23,12 @@ export function testRouter(): Router {
     sites: '/sites',
     users: '/users',
     account: '/account',
+    incidents: '/incidents',
+    'care-today': '/care/today',
+    incident: '/incidents/:id',
+    roster: '/sites/:id/roster',
+    ack: '/ack',
+    'dev-mail': '/dev/mail',
   }
   return createRouter({
     history: createMemoryHistory(),
@@ -47,6 +53,8 @@ interface MountOptions<P> {
   props?: P
   role?: Role | null
   router?: Router
+  /** Where the router starts; `/tanks` unless a page reads its query. */
+  path?: string
 }
 
 /** Mounts inside a v-app with Vuetify, a fresh Pinia and a memory router. */
@@ -60,7 +68,7 @@ export async function mountView<P extends Record<string, unknown>>(component: Co
     auth.organization = { id: 1, name: 'Harbour Fish Room' }
   }
   const router = options.router ?? testRouter()
-  await router.push('/tanks')
+  await router.push(options.path ?? '/tanks')
   await router.isReady()
   const Host = defineComponent({ render: () => h(VApp, () => h(component, options.props ?? {})) })
   const mountOptions: ComponentMountingOptions<typeof Host> = {

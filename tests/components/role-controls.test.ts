@@ -22,6 +22,30 @@ vi.mock('@/api/sites', () => ({
 vi.mock('@/api/series', () => ({ getSeries: vi.fn(), getLatest: vi.fn(async () => ({})) }))
 vi.mock('@/api/devices', () => ({ listDevices: vi.fn(async () => []), createDevice: vi.fn(), rotateDeviceToken: vi.fn(), revokeDevice: vi.fn() }))
 vi.mock('@/api/test-kit', () => ({ listTestKitEntries: vi.fn(async () => []), createTestKitEntry: vi.fn(), updateTestKitEntry: vi.fn(), deleteTestKitEntry: vi.fn() }))
+vi.mock('@/api/rules', () => ({
+  listTankRules: vi.fn(async () => []),
+  createTankRule: vi.fn(),
+  overrideSiteRule: vi.fn(),
+  listSiteRules: vi.fn(async () => []),
+  createSiteRule: vi.fn(),
+  updateRule: vi.fn(),
+  deleteRule: vi.fn(),
+  listSnoozes: vi.fn(async () => []),
+  createSnooze: vi.fn(),
+  cancelSnooze: vi.fn(),
+}))
+vi.mock('@/api/incidents', () => ({ listIncidents: vi.fn(async () => ({ items: [], total: 0, page: 1, pageSize: 10 })) }))
+vi.mock('@/api/care', () => ({
+  listCareTasks: vi.fn(async () => []),
+  listCareLog: vi.fn(async () => []),
+  listWaterChanges: vi.fn(async () => []),
+  listLivestock: vi.fn(async () => ({ entries: [], watchUntil: null, quarantine: null })),
+  listSpecies: vi.fn(async () => []),
+  getCycling: vi.fn(async () => ({
+    tankId: 1, stage: 'established', phase: 'no_data', cycled: false, ammoniaPeak: null, nitritePeak: null, nitrateRising: false,
+    zeroSince: null, zeroDays: 0, daysToGo: null, rule: 'Cycled when ammonia and nitrite stay at zero for 7 days', newPlants: null, suggestion: null,
+  })),
+}))
 vi.mock('@/api/wall', () => ({
   getWall: vi.fn(async () => {
     throw new Error('no wall in this test')
@@ -86,7 +110,10 @@ describe('tank page', () => {
     expect(text).toContain('10:00–18:00')
     expect(text).toMatch(/Temperature\s24\.0 – 27\.0 °C/)
     expect(text).toMatch(/pH\s8\.00 – 8\.40/)
-    for (const empty of ['No readings yet.', 'No devices on this tank yet.', 'No watch rules yet.', 'No care tasks yet.', 'No history yet.']) {
+    for (const empty of [
+      'No readings yet.', 'No devices on this tank yet.', 'No watch rules yet.', 'No snoozes: every alert is sent.', 'No incidents on this tank yet.',
+      'No care tasks on this tank.', 'No livestock or plants recorded.',
+    ]) {
       expect(text).toContain(empty)
     }
   })
@@ -97,6 +124,8 @@ describe('tank page', () => {
     expect(texts).not.toContain('Archive')
     expect(texts).not.toContain('Log test')
     expect(texts).not.toContain('Register device')
+    expect(texts).not.toContain('Add rule')
+    expect(texts).not.toContain('Snooze alerts')
   })
 
   it('lets a keeper edit and log a test but not archive or register devices', async () => {
@@ -106,6 +135,8 @@ describe('tank page', () => {
     expect(texts).not.toContain('Archive')
     expect(texts).not.toContain('Register device')
     expect(wrapper.find('[data-test="log-test"]').attributes('href')).toBe('/tanks/12/test-kit')
+    expect(texts).toContain('Snooze alerts')
+    expect(texts).not.toContain('Add rule')
   })
 
   it('lets an owner edit, archive and register devices', async () => {
@@ -113,6 +144,7 @@ describe('tank page', () => {
     expect(texts).toContain('Edit tank')
     expect(texts).toContain('Archive')
     expect(texts).toContain('Register device')
+    expect(texts).toContain('Add rule')
   })
 })
 
@@ -137,11 +169,14 @@ describe('sites page', () => {
     expect(wrapper.find('[aria-label="Edit Back fish room"]').exists()).toBe(true)
     expect(wrapper.find('[aria-label="Archive Back fish room"]').exists()).toBe(true)
     expect(wrapper.find('[data-test="wall-displays"]').exists()).toBe(true)
+    expect(wrapper.find('[data-test="site-rules"]').exists()).toBe(true)
   })
 
   it('lets everyone open a wall but shows the wall displays panel only to the owner', async () => {
     const wrapper = await sitesPageAs('viewer')
     expect(wrapper.find('[aria-label="Open the wall for Back fish room"]').exists()).toBe(true)
     expect(wrapper.find('[data-test="wall-displays"]').exists()).toBe(false)
+    expect(wrapper.find('[data-test="site-rules"]').exists()).toBe(false)
+    expect(wrapper.find('[aria-label="Duty roster for Back fish room"]').exists()).toBe(true)
   })
 })

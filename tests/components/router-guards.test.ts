@@ -71,6 +71,10 @@ describe('route guards', () => {
     ['keeper', '/users', 'tanks'],
     ['keeper', '/tanks/3/edit', 'tank-edit'],
     ['owner', '/users', 'users'],
+    ['keeper', '/dev/mail', 'tanks'],
+    ['owner', '/dev/mail', 'dev-mail'],
+    ['viewer', '/incidents/4', 'incident'],
+    ['viewer', '/sites/3/roster', 'roster'],
   ] as const)('a %s opening %s lands on %s', async (role, path, expected) => {
     const auth = useAuthStore()
     auth.token = 'token'
@@ -78,6 +82,18 @@ describe('route guards', () => {
     const router = appRouter()
     await router.push(path)
     expect(router.currentRoute.value.name).toBe(expected)
+  })
+
+  it('opens an acknowledge link without a session, even on a wall display', async () => {
+    const router = appRouter()
+    await router.push('/ack?token=abcdefghijklmnopqrstuvwxyz')
+    expect(router.currentRoute.value.name).toBe('ack')
+    localStorage.setItem('tw.wallKey', 'tww_display_key_123')
+    localStorage.setItem('tw.wallSiteId', '3')
+    await router.push('/ack?token=zyxwvutsrqponmlkjihgfedcba')
+    expect(router.currentRoute.value.name).toBe('ack')
+    await router.push('/incidents')
+    expect(router.currentRoute.value.name).toBe('wall')
   })
 
   it('redirects / to the tanks', async () => {

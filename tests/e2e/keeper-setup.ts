@@ -20,13 +20,16 @@ export async function api(app: App, path: string, token: string, init: RequestIn
   return { status: res.status, body: text ? JSON.parse(text) : null }
 }
 
-/** A tank made through the API (so it gets the starter watch rules) with one temperature device. */
+/**
+ * A tank made through the API (so it gets the starter watch rules) with one temperature device.
+ * The device reports every 10 minutes, so a slow run does not see it fall quiet mid-test.
+ */
 export async function tankWithProbe(app: App, ownerToken: string, siteId: number, name: string, sortOrder = 0) {
   const tank = await api(app, '/tanks', ownerToken, { method: 'POST', body: JSON.stringify(sampleTank(siteId, { name, sortOrder })) })
   if (tank.status !== 201) throw new Error(`tank ${name}: ${tank.status} ${JSON.stringify(tank.body)}`)
   const device = await api(app, '/devices', ownerToken, {
     method: 'POST',
-    body: JSON.stringify({ tankId: tank.body.id, name: `${name} probe`, metrics: ['temperature'], intervalSeconds: 60 }),
+    body: JSON.stringify({ tankId: tank.body.id, name: `${name} probe`, metrics: ['temperature'], intervalSeconds: 600 }),
   })
   if (device.status !== 201) throw new Error(`device ${name}: ${device.status} ${JSON.stringify(device.body)}`)
   return { tankId: tank.body.id as number, deviceId: device.body.device.id as number, token: device.body.token as string }

@@ -82,25 +82,29 @@ export const CARE_LOG_KIND_ICONS: Record<CareLogKind, string> = {
 }
 
 /** Value keys the server writes, in words; anything else is shown under its own key. */
-const VALUE_LABELS: Record<string, string> = {
-  litres: 'litres',
+const VALUE_UNITS: Record<string, string> = {
+  litres: 'L',
   percent: '%',
   dechlorinatorMl: 'mL dechlorinator',
   newWaterTempC: '°C new water',
-  count: 'count',
+  count: 'animals or plants',
   losses: 'lost',
-  amount: 'amount',
 }
-const HIDDEN_VALUE_KEYS = new Set(['taskKind', 'livestockId', 'speciesKey', 'category'])
+const HIDDEN_VALUE_KEYS = new Set(['taskKind', 'livestockId', 'speciesKey', 'category', 'unit'])
 
+const shownValue = (value: number | string | boolean) =>
+  typeof value === 'number' ? String(Number(value.toFixed(2))) : typeof value === 'boolean' ? (value ? 'yes' : 'no') : value
+
+/** "20 L · 10 %", "Conditioner · 5 mL"; bookkeeping keys are left out. */
 export function valuesText(values: Record<string, number | string | boolean>): string {
   return Object.entries(values)
     .filter(([key]) => !HIDDEN_VALUE_KEYS.has(key))
     .map(([key, value]) => {
-      const shown = typeof value === 'number' ? String(Number(value.toFixed(2))) : typeof value === 'boolean' ? (value ? 'yes' : 'no') : value
-      if (key === 'percent') return `${shown} %`
-      const label = VALUE_LABELS[key]
-      return label ? `${shown} ${label}` : `${key}: ${shown}`
+      const shown = shownValue(value)
+      if (key === 'product') return shown
+      if (key === 'amount') return typeof values.unit === 'string' ? `${shown} ${values.unit}` : shown
+      const unit = VALUE_UNITS[key]
+      return unit ? `${shown} ${unit}` : `${key}: ${shown}`
     })
     .join(' · ')
 }

@@ -6,6 +6,7 @@ vi.mock('@/api/care')
 
 import { finishWaterChange, listWaterChanges, planWaterChange, startWaterChange, type PublicWaterChange } from '@/api/care'
 import WaterChangePanel from '@/components/care/WaterChangePanel.vue'
+import { heaterConfirmReason, needsHeaterConfirmation } from '@/components/care/water-change-draft'
 import { mountView } from '../mount'
 import { careTank, gentlePlan, heaterExposingPlan } from './fixtures'
 
@@ -81,6 +82,14 @@ describe('WaterChangePanel', () => {
     expect(wrapper.find('[data-test="water-change-in-progress"]').text()).toContain('Water change in progress')
   })
 
+  it('asks for the heater to be off for a change over 25 % even when the heater stays covered', () => {
+    // 30 % of 180 L = 54 L = 13.5 cm: level 31.5 cm, still above the 30 cm heater top (hand-worked as in fixtures).
+    const bigCovered = { ...gentlePlan, litresOut: 54, percent: 30, levelAfterCm: 31.5, requiresHeaterOffConfirmation: false }
+    expect(needsHeaterConfirmation(bigCovered)).toBe(true)
+    expect(heaterConfirmReason(bigCovered)).toBe('This change is over 25 % of the water.')
+    expect(needsHeaterConfirmation(gentlePlan)).toBe(false)
+  })
+
   it('starts a small change that keeps the heater covered without the dialog', async () => {
     vi.mocked(planWaterChange).mockResolvedValue(gentlePlan)
     vi.mocked(startWaterChange).mockResolvedValue(startedChange(gentlePlan, false))
@@ -96,10 +105,12 @@ describe('WaterChangePanel', () => {
     const { cautions: _c, ...open } = startedChange()
     vi.mocked(listWaterChanges).mockResolvedValue([open])
     vi.mocked(finishWaterChange).mockResolvedValue({
-      ...open, status: 'finished', finishedAt: '2026-03-03T11:00:00.000Z', finishedBy: 7, litresReplaced: 70, cautions: [],
+      ...open, status: 'finished', finishedAt: '2026-03-03T11:00:00.000Z', finishedBy: 7, litresReplaced: 70, cautions: [HEATER_OFF_CAUTION, UNPLUG_CAUTION],
       logEntry: { id: 1, tankId: 12, kind: 'water_change', at: '2026-03-03T11:00:00.000Z', by: { id: 7, name: 'Pat' }, text: 'Water change', values: { litres: 70 }, careTaskId: null, waterChangeId: 55 },
     })
     const wrapper = await mountPanel()
+    // Reopened later, the change in progress still shows the plan's cautions.
+    expect(wrapper.findAll('[data-test="water-change-started-cautions"] li').map((li) => li.text())).toEqual(heaterExposingPlan.cautions)
     await wrapper.find('[data-test="water-change-finish"]').trigger('click')
     await flushPromises()
     await inDocument('input[name="litresReplaced"]').setValue('70')
@@ -109,6 +120,7 @@ describe('WaterChangePanel', () => {
     await flushPromises()
     expect(finishWaterChange).toHaveBeenCalledWith(55, { litresReplaced: 70, dechlorinatorMl: 14, newWaterTempC: 25.5, notes: '' })
     expect(wrapper.find('[data-test="water-change-notice"]').text()).toContain('70 L replaced')
+    expect(wrapper.findAll('[data-test="water-change-finished-cautions"] li').map((li) => li.text())).toEqual([HEATER_OFF_CAUTION, UNPLUG_CAUTION])
     expect(wrapper.findComponent(WaterChangePanel).emitted('logged')).toHaveLength(1)
   })
 })

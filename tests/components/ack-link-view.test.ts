@@ -1,0 +1,86 @@
+import { flushPromises } from '@vue/test-utils'
+import { beforeEach, describe, expect, it, vi } from 'vitest'
+import type { AckLinkInfo } from '@/api/incidents'
+
+vi.mock('@/api/incidents', () => ({ describeAckLink: vi.fn(), redeemAckLink: vi.fn() }))
+
+import { ApiError } from '@/api/errors'
+import { describeAckLink, redeemAckLink } from '@/api/incidents'
+import AckLinkView from '@/views/AckLinkView.vue'
+import { mountView } from './mount'
+
+const TOKEN = 'ack_abcdefghijklmnopqrstuvwxyz0123'
+const fresh: AckLinkInfo = {
+  incident: { id: 55, title: 'Temperature above 28 °C for 10 min', severity: 'alarm', state: 'open', tankName: 'Reef display', openedAt: '2026-03-03T02:10:00.000Z' },
+  usedAt: null,
+  expiresAt: '2026-03-05T02:10:00.000Z',
+  expired: false,
+}
+
+beforeEach(() => {
+  vi.mocked(describeAckLink).mockReset()
+  vi.mocked(redeemAckLink).mockReset()
+})
+
+async function openLink(info: AckLinkInfo = fresh) {
+  vi.mocked(describeAckLink).mockResolvedValue(info)
+  // No role: whoever opens the mail may have no session on this device.
+  const { wrapper } = await mountView(AckLinkView, { path: `/ack?token=${TOKEN}` })
+  await flushPromises()
+  return wrapper
+}
+
+describe('acknowledge link page', () => {
+  it('describes the incident on opening but does not acknowledge it', async () => {
+    const wrapper = await openLink()
+    expect(describeAckLink).toHaveBeenCalledWith(TOKEN)
+    expect(redeemAckLink).not.toHaveBeenCalled()
+    const about = wrapper.find('[data-test="ack-incident"]').text()
+    expect(about).toContain('Temperature above 28 °C for 10 min')
+    expect(about).toContain('Reef display')
+    expect(about).toContain('Alarm')
+    expect(wrapper.find('[data-test="ack-button"]').exists()).toBe(true)
+  })
+
+  it('acknowledges on the button, with the note', async () => {
+    vi.mocked(redeemAckLink).mockResolvedValue({ state: 'acknowledged', alreadyHandled: false })
+    const wrapper = await openLink()
+    await wrapper.find('textarea[name="ackNote"]').setValue('  Driving in now ')
+    await wrapper.find('form').trigger('submit')
+    await flushPromises()
+    expect(redeemAckLink).toHaveBeenCalledTimes(1)
+    expect(redeemAckLink).toHaveBeenCalledWith(TOKEN, 'Driving in now')
+    expect(wrapper.find('[data-test="ack-outcome"]').text()).toContain('Acknowledged — escalation stopped')
+    expect(wrapper.find('[data-test="ack-button"]').exists()).toBe(false)
+  })
+
+  it('says the link was already used when the server answers 409', async () => {
+    vi.mocked(redeemAckLink).mockRejectedValue(new ApiError({ status: 409, code: 'link_used', message: 'This link was already used on 2026-03-03T02:20:00.000Z' }))
+    const wrapper = await openLink()
+    await wrapper.find('form').trigger('submit')
+    await flushPromises()
+    expect(redeemAckLink).toHaveBeenCalledTimes(1)
+    expect(wrapper.find('[data-test="ack-outcome"]').text()).toContain('This link has already been used')
+  })
+
+  it('says so at once on a second visit, offering no button', async () => {
+    const wrapper = await openLink({ ...fresh, usedAt: '2026-03-03T02:20:00.000Z' })
+    expect(wrapper.find('[data-test="ack-outcome"]').text()).toContain('This link was already used on')
+    expect(wrapper.find('[data-test="ack-button"]').exists()).toBe(false)
+    expect(redeemAckLink).not.toHaveBeenCalled()
+  })
+
+  it('says an expired link has expired', async () => {
+    const wrapper = await openLink({ ...fresh, expired: true })
+    expect(wrapper.find('[data-test="ack-outcome"]').text()).toContain('This link has expired')
+    expect(wrapper.find('[data-test="ack-button"]').exists()).toBe(false)
+  })
+
+  it('reports a 410 from the button in the server’s words', async () => {
+    vi.mocked(redeemAckLink).mockRejectedValue(new ApiError({ status: 410, code: 'link_expired', message: 'This link has expired; acknowledge in the app' }))
+    const wrapper = await openLink()
+    await wrapper.find('form').trigger('submit')
+    await flushPromises()
+    expect(wrapper.find('[data-test="ack-outcome"]').text()).toBe('This link has expired; acknowledge in the app')
+  })
+})

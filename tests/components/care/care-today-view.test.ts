@@ -1,0 +1,70 @@
+import { flushPromises } from '@vue/test-utils'
+import { beforeEach, describe, expect, it, vi } from 'vitest'
+
+vi.mock('@/api/care')
+vi.mock('@/api/sites', () => ({ listSites: vi.fn(), createSite: vi.fn(), updateSite: vi.fn(), archiveSite: vi.fn(), unarchiveSite: vi.fn() }))
+
+import { getCareToday, markCareTaskDone } from '@/api/care'
+import { listSites } from '@/api/sites'
+import CareTodayView from '@/views/CareTodayView.vue'
+import { mountView } from '../mount'
+import { careTask, todayTask } from './fixtures'
+
+const today = '2026-03-03'
+// Deliberately not in urgency order, as a list merged from several sites could arrive.
+const tasks = [
+  todayTask(1, 'Show tank 1', { dueOn: today, status: 'due_today', daysUntilDue: 0, snoozed: false, today }),
+  todayTask(2, 'Show tank 2', { dueOn: '2026-03-02', status: 'overdue', daysUntilDue: -1, snoozed: false, today }),
+  todayTask(3, 'Breeding rack B', { dueOn: '2026-02-28', status: 'overdue', daysUntilDue: -3, snoozed: false, today }),
+]
+
+beforeEach(() => {
+  vi.mocked(getCareToday).mockReset()
+  vi.mocked(getCareToday).mockResolvedValue({ siteIds: [3], tasks })
+  vi.mocked(markCareTaskDone).mockReset()
+  vi.mocked(listSites).mockResolvedValue([{ id: 3, name: 'Front shop', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 4 }])
+})
+
+async function mountToday() {
+  const { wrapper } = await mountView(CareTodayView, { role: 'keeper' })
+  await flushPromises()
+  return wrapper
+}
+
+describe('CareTodayView', () => {
+  it('lists my tasks overdue first, longest overdue at the top', async () => {
+    const wrapper = await mountToday()
+    expect(getCareToday).toHaveBeenCalledWith({ mine: true })
+    const places = wrapper.findAll('[data-test="care-task-place"]').map((p) => p.text())
+    expect(places).toEqual(['Front shop · Breeding rack B', 'Front shop · Show tank 2', 'Front shop · Show tank 1'])
+    expect(wrapper.findAll('[data-test="care-status"]').map((c) => c.text())).toEqual(['Overdue', 'Overdue', 'Due today'])
+    expect(wrapper.text()).toContain('3 tasks, 2 overdue')
+    expect(wrapper.text()).toContain('On duty at Front shop.')
+  })
+
+  it('marks a task done with one tap and takes it off the list', async () => {
+    vi.mocked(markCareTaskDone).mockResolvedValue({
+      task: careTask(2),
+      logEntry: { id: 5, tankId: 102, kind: 'task_done', at: '2026-03-03T09:00:00.000Z', by: { id: 7, name: 'Pat' }, text: 'Task 2', values: {}, careTaskId: 2, waterChangeId: null },
+    })
+    const wrapper = await mountToday()
+    await wrapper.find('[data-test="care-task-2"] [data-test="care-task-done"]').trigger('click')
+    await flushPromises()
+    expect(markCareTaskDone).toHaveBeenCalledWith(2, {})
+    expect(wrapper.find('[data-test="care-task-2"]').exists()).toBe(false)
+    expect(wrapper.findAll('[data-test="care-task-place"]')).toHaveLength(2)
+    expect(wrapper.find('[data-test="care-today-notice"]').text()).toBe('Task 2 on Show tank 2: done.')
+  })
+
+  it('shows one site when that was the last choice, and says so when I am on duty nowhere', async () => {
+    localStorage.setItem('tw.careTodayScope', '3')
+    await mountToday()
+    expect(getCareToday).toHaveBeenCalledWith({ siteId: 3 })
+
+    localStorage.clear()
+    vi.mocked(getCareToday).mockResolvedValue({ siteIds: [], tasks: [] })
+    const wrapper = await mountToday()
+    expect(wrapper.find('[data-test="care-today-off-duty"]').exists()).toBe(true)
+    expect(wrapper.find('[data-test="care-today-empty"]').text()).toBe('Nothing due. Well done.')
+  })
+})
