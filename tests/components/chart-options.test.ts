@@ -134,3 +134,33 @@ describe('y axis', () => {
     expect((build({ band: null }).yAxis as { min?: MinFn }).min).toBeUndefined()
   })
 })
+
+describe('care events and incidents on the chart', () => {
+  it('draws care events as marker lines and incidents as shaded spans inside the range', async () => {
+    const { eventsSeries } = await import('@/components/charts/options')
+    const from = Date.parse('2026-03-01T00:00:00Z')
+    const to = Date.parse('2026-03-02T00:00:00Z')
+    const series = eventsSeries(
+      {
+        events: [
+          { t: '2026-03-01T10:00:00Z', label: 'Water change' },
+          { t: '2026-02-20T10:00:00Z', label: 'Too early' },
+        ],
+        incidents: [
+          { from: '2026-03-01T12:00:00Z', to: '2026-03-01T13:30:00Z', label: 'Water level at or below the heater top', severity: 'alarm' },
+          { from: '2026-02-28T22:00:00Z', to: null, label: 'Still open', severity: 'warning' },
+        ],
+      },
+      from,
+      to,
+      '#222',
+    )!
+    expect(series.markLine!.data).toEqual([{ xAxis: Date.parse('2026-03-01T10:00:00Z'), name: 'Water change' }])
+    const areas = series.markArea!.data as Array<[{ xAxis: number; name: string }, { xAxis: number }]>
+    expect(areas.map(([a, b]) => [a.name, a.xAxis, b.xAxis])).toEqual([
+      ['Water level at or below the heater top', Date.parse('2026-03-01T12:00:00Z'), Date.parse('2026-03-01T13:30:00Z')],
+      ['Still open', from, to],
+    ])
+    expect(eventsSeries({}, from, to, '#222')).toBeNull()
+  })
+})

@@ -7,8 +7,9 @@ import {
   GridComponent,
   LegendComponent,
   MarkAreaComponent,
+  MarkLineComponent,
   TooltipComponent,
 } from 'echarts/components'
 import { SVGRenderer } from 'echarts/renderers'
 
-use([LineChart, ScatterChart, GridComponent, TooltipComponent, DataZoomComponent, MarkAreaComponent, LegendComponent, SVGRenderer])
+use([LineChart, ScatterChart, GridComponent, TooltipComponent, DataZoomComponent, MarkAreaComponent, MarkLineComponent, LegendComponent, SVGRenderer])

@@ -4,6 +4,7 @@ import type {
   GridComponentOption,
   LegendComponentOption,
   MarkAreaComponentOption,
+  MarkLineComponentOption,
   TooltipComponentOption,
 } from 'echarts/components'
 import type { ComposeOption } from 'echarts/core'
@@ -17,6 +18,7 @@ export type MetricChartOption = ComposeOption<
   | TooltipComponentOption
   | DataZoomComponentOption
   | MarkAreaComponentOption
+  | MarkLineComponentOption
   | LegendComponentOption
 >
 
@@ -27,6 +29,7 @@ export const SERIES_NAMES = {
   envelope: 'Min–max range',
   sensor: 'Sensor',
   kit: 'Test kit',
+  events: 'Care and incidents',
 } as const
 
 export const STACK_ENVELOPE = 'envelope'
@@ -45,8 +48,24 @@ export interface ChartColors {
   text: string
 }
 
+/** A care-log event drawn as a marker line (water change, livestock in, media changed…). */
+export interface ChartEvent {
+  t: string
+  label: string
+}
+
+/** An incident drawn as a shaded span from when it opened until it was resolved (or now). */
+export interface ChartIncident {
+  from: string
+  to: string | null
+  label: string
+  severity: 'warning' | 'alarm'
+}
+
 export interface MetricChartInput {
   series: SeriesResponse
+  events?: ChartEvent[]
+  incidents?: ChartIncident[]
   /** Test-kit readings (canonical) to draw over bucketed series; raw series carry their own. */
   kitPoints?: TimedValue[]
   /** Readings from the live socket (canonical); only those after the series' last point are drawn. */
@@ -223,6 +242,8 @@ export function buildMetricOption(input: MetricChartInput): MetricChartOption {
   main.markArea = bandArea(input.band, convert, colors.band)
   seriesList.push(main)
   if (kit.length) seriesList.push(kitScatter(kit, colors.kit))
+  const marks = eventsSeries(input, fromMs, toMs, colors.text)
+  if (marks) seriesList.push(marks)
 
   const legend: string[] = bucketed ? [SERIES_NAMES.mean, SERIES_NAMES.envelope] : [SERIES_NAMES.sensor]
   if (kit.length) legend.push(SERIES_NAMES.kit)
@@ -260,6 +281,34 @@ export function buildMetricOption(input: MetricChartInput): MetricChartOption {
       { type: 'slider', xAxisIndex: 0, filterMode: 'none', height: 22, bottom: 8 },
     ],
     series: seriesList,
+  }
+}
+
+const SPAN_COLORS = { warning: 'rgba(183, 121, 31, 0.16)', alarm: 'rgba(179, 38, 30, 0.16)' } as const
+
+/** Care events as dashed marker lines and incidents as shaded spans, on a series of their own. */
+export function eventsSeries(input: Pick<MetricChartInput, 'events' | 'incidents'>, fromMs: number, toMs: number, textColor: string): LineSeriesOption | null {
+  const events = (input.events ?? []).filter((e) => ms(e.t) >= fromMs && ms(e.t) <= toMs)
+  const spans = (input.incidents ?? []).filter((i) => ms(i.from) <= toMs && (i.to === null || ms(i.to) >= fromMs))
+  if (!events.length && !spans.length) return null
+  return {
+    name: SERIES_NAMES.events,
+    type: 'line',
+    data: [],
+    silent: true,
+    markLine: {
+      symbol: ['none', 'none'],
+      label: { formatter: '{b}', position: 'insideEndTop', color: textColor, fontSize: 11 },
+      lineStyle: { type: 'dashed', color: textColor, opacity: 0.6 },
+      data: events.map((e) => ({ xAxis: ms(e.t), name: e.label })),
+    },
+    markArea: {
+      label: { color: textColor, fontSize: 11, position: 'insideTopLeft' },
+      data: spans.map((i) => [
+        { xAxis: Math.max(ms(i.from), fromMs), name: i.label, itemStyle: { color: SPAN_COLORS[i.severity] } },
+        { xAxis: i.to ? Math.min(ms(i.to), toMs) : toMs },
+      ]),
+    },
   }
 }
 
