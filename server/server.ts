@@ -11,6 +11,7 @@ import { seedDemoIfEmpty } from './seeders/demo'
 import { startRetentionJob } from './services/retention'
 import { startRuleEngine } from './rules/runtime'
 import { createMailNotifier } from './rules/mail-notifier'
+import { recordMailAttempts } from './rules/mail-timeline'
 import { startMail, type RunningMail } from './mail'
 
 export type RunningServer = {
@@ -46,6 +47,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
   if (config.mqtt.url) external = await startExternalConsumer(ctx, config.mqtt.url)
   else broker = await startEmbeddedBroker(ctx, { host: config.mqtt.host, port: config.mqtt.port })
 
+  const stopMailTimeline = recordMailAttempts(ctx)
   const mail: RunningMail = await startMail(ctx)
   ctx.alerts.notifier = createMailNotifier(ctx)
   const rules = startRuleEngine(ctx, ctx.alerts.notifier, config.alertTiming, config.rulesTickMs)
@@ -67,6 +69,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
       stopRetention()
       await rules.stop()
       await mail.stop()
+      stopMailTimeline()
       hub.close()
       await broker?.close()
       await external?.close()

@@ -101,6 +101,13 @@ describe('a heater stuck on, from reading to mail', () => {
     const detail = await api(`/incidents/${incident.id}`, org.users.viewer.token)
     expect(detail.body.state).toBe('resolved')
     expect(detail.body.acknowledgedBy).toBe(org.users.keeper.id)
-    expect(detail.body.timeline.map((e: { kind: string }) => e.kind)).toEqual(['opened', 'mail_queued', 'escalated', 'mail_queued', 'acknowledged', 'resolved', 'mail_queued'])
+    const timeline = detail.body.timeline as Array<{ kind: string; detail: { to?: string } }>
+    expect(timeline.filter((e) => e.kind !== 'mail_sent').map((e) => e.kind)).toEqual(['opened', 'mail_queued', 'escalated', 'mail_queued', 'acknowledged', 'resolved', 'mail_queued'])
+    // Every delivery is on the timeline with its result: five mails, each sent.
+    await new Promise((r) => setTimeout(r, 300))
+    const later = (await api(`/incidents/${incident.id}`, org.users.viewer.token)).body.timeline as typeof timeline
+    expect(later.filter((e) => e.kind === 'mail_sent').map((e) => e.detail.to).sort()).toEqual(
+      [org.users.keeper.email, org.users.keeper.email, org.users.owner.email, org.users.keeper.email, org.users.owner.email].sort(),
+    )
   })
 })
