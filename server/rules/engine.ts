@@ -21,7 +21,9 @@ type EngineRule = {
 
 type Slot = { rule: EngineRule; state: RuleState; incidentId: number | null; lastWrite: number }
 
-const LOOKBACK_PAD_MS = 10 * 60_000
+// How far past a rule's own window the rebuild reads, so a trip during up to two hours without an
+// engine still opens at the moment it happened (longer outages open it when the engine returns).
+const LOOKBACK_PAD_MS = 2 * 3600_000
 const TOUCH_EVERY_MS = 60_000
 
 /** How far back a rule needs stored readings to rebuild its state. */
