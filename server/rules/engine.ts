@@ -7,6 +7,7 @@ import type { AppContext } from '../context'
 import type { StoredReading } from '../events'
 import type { IncidentsService } from '../services/incidents'
 import { rulesService } from '../services/rules'
+import { remindEndingSnoozes } from '../services/snooze-reminders'
 import { ruleContextFor, snoozeCovers } from './tank-context'
 
 type EngineRule = {
@@ -220,6 +221,7 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
       return serial(async () => {
         for (const slot of slots.values()) await step(slot, { type: 'tick', at })
         await incidents.processDue(at)
+        await remindEndingSnoozes(ctx, at)
       })
     },
     reloadSnoozes: () => serial(loadSnoozes),
