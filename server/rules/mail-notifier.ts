@@ -3,7 +3,7 @@ import { METRICS, isMetricKey } from '../../shared/metrics/registry'
 import type { AppContext } from '../context'
 import { enqueueMail } from '../mail/outbox'
 import {
-  ELECTRICAL_SAFETY_CAUTION, TREND_CID, incidentEscalated, incidentOpened, incidentRepeat, incidentResolved, type IncidentMailInput,
+  ELECTRICAL_SAFETY_CAUTION, TREND_CID, deviceBack, incidentEscalated, incidentOpened, incidentRepeat, incidentResolved, type IncidentMailInput,
 } from '../mail/templates'
 import { renderTrendPng } from '../mail/trend-chart'
 import type { Incident } from '../models'
@@ -94,11 +94,13 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
           safetyCaution: rule && needsElectricalCaution(rule.spec, incident.metric) ? ELECTRICAL_SAFETY_CAUTION : undefined,
           at: kind === 'opened' ? undefined : new Date().toISOString(),
         }
-        const mail = TEMPLATES[kind](input)
+        // A quiet sensor that reports again is news of its own: "back", not just "resolved".
+        const backOnline = kind === 'resolved' && incident.ruleKind === 'quiet'
+        const mail = backOnline ? deviceBack(input) : TEMPLATES[kind](input)
         await enqueueMail(
           ctx,
           {
-            kind: MAIL_KIND[kind], to: person.email, subject: mail.subject, text: mail.text, html: mail.html, attachments: mail.attachments,
+            kind: backOnline ? 'device_back' : MAIL_KIND[kind], to: person.email, subject: mail.subject, text: mail.text, html: mail.html, attachments: mail.attachments,
             organizationId: incident.organizationId, incidentId: incident.id, dedupeKey: `incident:${incident.id}:${kind}:${serial}:${person.email}`,
           },
           { transaction },
