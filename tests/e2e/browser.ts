@@ -27,7 +27,8 @@ export async function launchBrowser(): Promise<{ browser: Browser; close: () => 
 
 /** The whole app (built client included) on free ports over a private database. */
 export async function startAppForBrowser() {
-  const server = await startTestServer({ serveClient: true, mail: { fakeSmtpPort: 0, from: 'e2e@tankwarden.invalid' } })
+  // Many sign-ins from one address in a few minutes: the sign-in limit is not what these tests are about.
+  const server = await startTestServer({ serveClient: true, signInLimit: 10_000, mail: { fakeSmtpPort: 0, from: 'e2e@tankwarden.invalid' } })
   mkdirSync(SCREENSHOTS, { recursive: true })
   return server
 }
@@ -37,7 +38,11 @@ export async function signIn(page: Page, baseUrl: string, email: string, passwor
   await page.getByLabel('E-mail').fill(email)
   await page.getByLabel('Password', { exact: true }).fill(password)
   await page.getByRole('button', { name: 'Sign in' }).click()
-  await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'))
+  // A slow first load on a busy two-core machine; if it stays on the form, say what the form says.
+  await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'), { timeout: 60_000, waitUntil: 'commit' }).catch(async (error) => {
+    const alert = await page.locator('[data-test="sign-in-error"]').textContent().catch(() => null)
+    throw new Error(`still on the sign-in page${alert ? `: ${alert.trim()}` : ''} (${(error as Error).message})`)
+  })
 }
 
 export const shot = (page: Page, name: string) => page.screenshot({ path: join(SCREENSHOTS, `${name}.png`), fullPage: false })
