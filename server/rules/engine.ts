@@ -106,7 +106,8 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
       const slot: Slot = { rule, state, incidentId: incident?.id ?? null, lastWrite: 0 }
       if (incident) {
         openBySlot.delete(key)
-        if (state.status === 'clear') {
+        // Resolve only on evidence: readings that show it cleared. No readings in the window says nothing.
+        if (state.status === 'clear' && state.lastReadingAt !== undefined) {
           await incidents.resolveAutomatically(incident.id, t, state.lastValue, 'Cleared while the engine was stopped')
           slot.incidentId = null
         } else {

@@ -150,6 +150,14 @@ describe('the watch-rule engine over real PostgreSQL', () => {
     expect(mine()).toEqual(['opened', 'escalated', 'repeated'])
     const after = (await incidentsOf(tank.tankId))[0]
     expect(after).toMatchObject({ state: 'acknowledged', acknowledgedBy: org.users.keeper.id, acknowledgeNote: 'Heater unplugged, fan on', nextEscalationAt: null, nextRepeatAt: null })
+    // Across a restart too: the stopped timers are columns, so a new engine sends nothing more.
+    await engine.stop()
+    const restarted = engineAt(t0 + 210 * MIN)
+    await restarted.start()
+    await restarted.tick(t0 + 400 * MIN)
+    expect(mine()).toEqual(['opened', 'escalated', 'repeated'])
+    await restarted.stop()
+    await engine.start()
     const kinds = (await t.ctx.models.IncidentEvent.findAll({ where: { incidentId: incident.id }, order: [['id', 'ASC']] })).map((e) => e.kind)
     expect(kinds).toEqual(['opened', 'mail_queued', 'escalated', 'mail_queued', 'repeated', 'mail_queued', 'acknowledged'])
     await engine.stop()
