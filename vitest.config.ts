@@ -8,8 +8,9 @@ const alias = {
   '@shared': fileURLToPath(new URL('./shared', import.meta.url)),
 }
 
-// Three projects: pure unit tests, API/integration tests over a real PostgreSQL
-// (DATABASE_URL from scripts/test.mjs), and component tests in jsdom.
+// Projects: pure unit tests, API/integration tests over a real PostgreSQL (DATABASE_URL from
+// scripts/test.mjs), component tests in jsdom, browser tests, and stress suites (several processes,
+// external broker, faults, fuzzing) that run one file at a time.
 export default defineConfig({
   test: {
     projects: [
@@ -47,6 +48,18 @@ export default defineConfig({
           environment: 'node',
           globalSetup: ['tests/helpers/global-setup.ts'],
           testTimeout: 60000,
+          hookTimeout: 120000,
+          fileParallelism: false,
+        },
+      },
+      {
+        resolve: { alias },
+        test: {
+          name: 'stress',
+          include: ['tests/stress/**/*.test.ts'],
+          environment: 'node',
+          globalSetup: ['tests/helpers/global-setup.ts'],
+          testTimeout: 120000,
           hookTimeout: 120000,
           fileParallelism: false,
         },
