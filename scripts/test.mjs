@@ -6,7 +6,7 @@ import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { ensureDependencies } from './lib/deps.mjs'
 import { startThrowawayCluster } from './lib/postgres.mjs'
-import { ensureChromium, ensureMosquittoClients } from './lib/chromium.mjs'
+import { ensureChromium, ensureMosquittoBroker, ensureMosquittoClients } from './lib/chromium.mjs'
 import { log, runAsync } from './lib/run.mjs'
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..')
@@ -16,6 +16,7 @@ const vitestArgs = process.argv.slice(2)
 ensureDependencies(root)
 const chromium = ensureChromium()
 ensureMosquittoClients()
+const mosquitto = ensureMosquittoBroker()
 
 const tally = { passed: 0, failed: 0, skipped: 0 }
 let cluster
@@ -50,6 +51,7 @@ try {
     DATABASE_URL: cluster.adminUrl,
     NODE_ENV: 'test',
     ...(chromium ? { CHROMIUM_PATH: chromium } : {}),
+    ...(mosquitto ? { MOSQUITTO_PATH: mosquitto } : {}),
   }
   const bin = (name) => join(root, 'node_modules', '.bin', name)
 
@@ -61,7 +63,7 @@ try {
 
   const resultsDir = mkdtempSync(join(tmpdir(), 'tw-vitest-'))
   const resultsFile = join(resultsDir, 'results.json')
-  log('— vitest: unit, api, components, e2e')
+  log('— vitest: unit, api, components, e2e, stress')
   const code = await runAsync(
     bin('vitest'),
     ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${resultsFile}`, ...vitestArgs],

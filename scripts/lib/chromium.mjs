@@ -1,5 +1,6 @@
 // Debian tools the suites drive for real: chromium for the browser tests, mosquitto_pub as an
-// MQTT client that is not ours. Installed when absent.
+// MQTT client that is not ours, the mosquitto broker for the several-instances and fault suites.
+// Installed when absent.
 import { existsSync } from 'node:fs'
 import { aptInstall, commandExists, log } from './run.mjs'
 
@@ -16,4 +17,13 @@ export function ensureMosquittoClients() {
   const ok = aptInstall(['mosquitto-clients']) && commandExists('mosquitto_pub')
   if (!ok) log('mosquitto_pub is not available: the outside-client MQTT test will fail.')
   return ok
+}
+
+/** The mosquitto broker binary (Debian installs it in /usr/sbin), or null. */
+export function ensureMosquittoBroker() {
+  const path = process.env.MOSQUITTO_PATH || '/usr/sbin/mosquitto'
+  if (existsSync(path)) return path
+  if (aptInstall(['mosquitto']) && existsSync('/usr/sbin/mosquitto')) return '/usr/sbin/mosquitto'
+  log('The mosquitto broker is not available: the external-broker suites will fail.')
+  return null
 }
