@@ -30,6 +30,8 @@ export type BatchWriterOptions = {
   maxBatchRows?: number
   /** Most rows held in memory while the database is away; past it new held writes are refused. */
   maxBufferedRows?: number
+  /** Batches written at once; two keep PostgreSQL busy while the next batch is being gathered. */
+  maxConcurrentFlushes?: number
   onStored?: (rows: ReadingRow[]) => void
 }
 
@@ -44,13 +46,14 @@ export class BatchWriter {
   private queue: Pending[] = []
   private queuedRows = 0
   private timer: NodeJS.Timeout | null = null
-  private flushing = false
+  private inFlight = 0
   private retryDelayMs = 0
   healthy = true
   refusedRows = 0
   private readonly flushMs: number
   private readonly maxBatchRows: number
   private readonly maxBufferedRows: number
+  private readonly maxConcurrentFlushes: number
 
   constructor(
     private readonly sequelize: Sequelize,
@@ -60,7 +63,8 @@ export class BatchWriter {
     // 50 ms keeps publish-to-screen latency low; under load each flush still carries thousands of rows.
     this.flushMs = options.flushMs ?? 50
     this.maxBatchRows = options.maxBatchRows ?? 5000
-    this.maxBufferedRows = options.maxBufferedRows ?? 200_000
+    this.maxBufferedRows = options.maxBufferedRows ?? 100_000
+    this.maxConcurrentFlushes = options.maxConcurrentFlushes ?? 2
   }
 
   get bufferedRows() {
@@ -84,19 +88,25 @@ export class BatchWriter {
   }
 
   private schedule(delay: number) {
-    if (this.flushing) return
+    if (this.inFlight >= this.maxConcurrentFlushes) return
+    // While the database is away only one batch probes it at a time.
+    if (!this.healthy && this.inFlight > 0) return
     if (this.timer && delay > 0) return
     if (this.timer) clearTimeout(this.timer)
     this.timer = setTimeout(() => void this.flush(), Math.max(delay, this.retryDelayMs))
   }
 
-  /** Writes everything queued now (used by shutdown and tests). */
+  /** Writes everything queued now and waits for batches in flight (used by shutdown and tests). */
   async drain() {
-    while (this.queue.length) {
+    for (;;) {
       if (this.timer) clearTimeout(this.timer)
       this.timer = null
-      await this.flush()
-      if (!this.healthy && this.queue.length) break
+      if (this.queue.length && this.inFlight < this.maxConcurrentFlushes) {
+        await this.flush()
+        if (!this.healthy && this.queue.length) break
+      } else if (this.inFlight > 0) {
+        await new Promise((r) => setTimeout(r, 5))
+      } else if (!this.queue.length) break
     }
   }
 
@@ -114,9 +124,11 @@ export class BatchWriter {
 
   private async flush() {
     this.timer = null
-    if (this.flushing || !this.queue.length) return
-    this.flushing = true
+    if (this.inFlight >= this.maxConcurrentFlushes || !this.queue.length) return
+    this.inFlight++
     const batch = this.takeBatch()
+    // More waiting: start the next batch now rather than after this one commits.
+    if (this.queue.length && this.healthy) this.schedule(this.queuedRows >= this.maxBatchRows ? 0 : this.flushMs)
     try {
       const inserted = await this.insert(batch.flatMap((p) => p.rows))
       this.healthy = true
@@ -135,7 +147,7 @@ export class BatchWriter {
       this.queue = this.queue.filter((q) => q.hold)
       this.queuedRows = this.queue.reduce((n, p) => n + p.rows.length, 0)
     } finally {
-      this.flushing = false
+      this.inFlight--
     }
     if (this.queue.length) this.schedule(this.healthy && this.queuedRows >= this.maxBatchRows ? 0 : this.flushMs)
   }
@@ -160,7 +172,7 @@ export async function insertReadings(sequelize: Sequelize, rows: ReadingRow[], t
     `INSERT INTO readings (source_key, metric, time, tank_id, value, source)
      SELECT * FROM unnest($1::text[], $2::text[], $3::timestamptz[], $4::int[], $5::float8[], $6::text[])
      ON CONFLICT DO NOTHING
-     RETURNING source_key, metric, time, tank_id, value, source`,
+     RETURNING source_key, metric, (extract(epoch FROM time) * 1000)::float8 AS ms, tank_id, value, source`,
     {
       bind: [
         list.map((r) => r.sourceKey),
@@ -172,6 +184,7 @@ export async function insertReadings(sequelize: Sequelize, rows: ReadingRow[], t
       ],
       transaction,
     },
-  )) as [Array<{ source_key: string; metric: string; time: Date; tank_id: number; value: number; source: ReadingRow['source'] }>, unknown]
-  return result.map((r) => ({ sourceKey: r.source_key, metric: r.metric, time: r.time, tankId: r.tank_id, value: r.value, source: r.source }))
+  )) as [Array<{ source_key: string; metric: string; ms: number; tank_id: number; value: number; source: ReadingRow['source'] }>, unknown]
+  // Epoch milliseconds come back as a plain number, which is much cheaper than parsing timestamps.
+  return result.map((r) => ({ sourceKey: r.source_key, metric: r.metric, time: new Date(r.ms), tankId: r.tank_id, value: r.value, source: r.source }))
 }
