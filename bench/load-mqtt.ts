@@ -1,7 +1,10 @@
 // A load generator in its own process, so the app's memory and CPU figures are the app's alone.
-// Receives { url, devices, ratePerSecond, seconds, startMs } over IPC; reports { sent, acked, errors }.
+// Receives { url, devices, ratePerSecond, seconds, timeBaseMs } over IPC; reports { sent, acked, errors }.
+// Each connection publishes once a second, at its own offset within the second so the load is even,
+// one message per second of up to MAX_READINGS_PER_MESSAGE readings (more messages when a connection's
+// share is larger).
 import mqtt, { type MqttClient } from 'mqtt'
-import { readingsTopic } from '../shared/ingest/contract'
+import { MAX_READINGS_PER_MESSAGE, readingsTopic } from '../shared/ingest/contract'
 
 type Job = { url: string; devices: Array<{ deviceId: number; token: string }>; ratePerSecond: number; seconds: number; timeBaseMs: number }
 
@@ -16,36 +19,37 @@ process.on('message', async (job: Job) => {
     )
   }
   process.send!({ type: 'connected', clients: clients.length })
-  const perClientPerSecond = job.ratePerSecond / clients.length
-  const batch = Math.max(1, Math.round(perClientPerSecond))
+  const perClientPerSecond = Math.max(1, Math.round(job.ratePerSecond / clients.length))
   let sent = 0
   let acked = 0
   let errors = 0
   const started = Date.now()
-  let second = 0
   const pending: Promise<unknown>[] = []
-  while (second < job.seconds) {
-    const tickAt = started + second * 1000
-    clients.forEach((client, c) => {
-      const readings = Array.from({ length: batch }, (_, k) => ({
-        metric: 'temperature',
-        value: 25 + ((c + k) % 20) / 10,
-        // Distinct times per device: second × 1000 + k ms after the time base.
-        time: new Date(job.timeBaseMs + second * 1000 + k).toISOString(),
-      }))
-      sent += readings.length
-      pending.push(
-        client.publishAsync(readingsTopic(job.devices[c].deviceId), JSON.stringify({ v: 1, readings }), { qos: 1 }).then(
-          () => void (acked += readings.length),
-          () => void errors++,
-        ),
-      )
-    })
-    second++
-    const wait = started + second * 1000 - Date.now()
-    if (wait > 0) await new Promise((r) => setTimeout(r, wait))
-    void tickAt
-  }
+  await Promise.all(
+    clients.map(async (client, c) => {
+      const offsetMs = Math.floor((c / clients.length) * 1000)
+      for (let second = 0; second < job.seconds; second++) {
+        const wait = started + second * 1000 + offsetMs - Date.now()
+        if (wait > 0) await new Promise((r) => setTimeout(r, wait))
+        for (let from = 0; from < perClientPerSecond; from += MAX_READINGS_PER_MESSAGE) {
+          const count = Math.min(MAX_READINGS_PER_MESSAGE, perClientPerSecond - from)
+          const readings = Array.from({ length: count }, (_, k) => ({
+            metric: 'temperature',
+            value: 25 + ((c + k) % 20) / 10,
+            // Distinct times per device: a millisecond apart, a second's worth per second.
+            time: new Date(job.timeBaseMs + second * 1000 + ((from + k) % 1000) + Math.floor((from + k) / 1000) * job.seconds * 1000).toISOString(),
+          }))
+          sent += readings.length
+          pending.push(
+            client.publishAsync(readingsTopic(job.devices[c].deviceId), JSON.stringify({ v: 1, readings }), { qos: 1 }).then(
+              () => void (acked += readings.length),
+              () => void errors++,
+            ),
+          )
+        }
+      }
+    }),
+  )
   await Promise.allSettled(pending)
   process.send!({ type: 'done', sent, acked, errors, elapsedMs: Date.now() - started })
   await Promise.all(clients.map((c) => c.endAsync()))

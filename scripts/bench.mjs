@@ -2,6 +2,7 @@
 import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { ensureDependencies } from './lib/deps.mjs'
+import { ensureChromium } from './lib/chromium.mjs'
 import { startThrowawayCluster } from './lib/postgres.mjs'
 import { log, runAsync } from './lib/run.mjs'
 
@@ -9,6 +10,8 @@ const root = join(dirname(fileURLToPath(import.meta.url)), '..')
 process.chdir(root)
 const names = process.argv.slice(2)
 ensureDependencies(root)
+// The suite measures the wall and live latency in Debian's Chromium.
+const chromium = names.includes('suite') ? ensureChromium() : null
 const cluster = await startThrowawayCluster()
 const stop = () => cluster.destroy()
 process.on('SIGINT', () => {
@@ -23,7 +26,7 @@ try {
     // BENCH_PROFILE=<folder> writes a V8 CPU profile of the app process (open it in a Chromium devtools).
     const profile = process.env.BENCH_PROFILE ? ['--cpu-prof', `--cpu-prof-dir=${process.env.BENCH_PROFILE}`] : []
     const code = await runAsync(process.execPath, [...profile, '--import', 'tsx', join(root, 'bench', `${name}.ts`)], {
-      env: { ...process.env, DATABASE_URL: db, NODE_ENV: 'test' },
+      env: { ...process.env, DATABASE_URL: db, NODE_ENV: 'test', ...(chromium ? { CHROMIUM_PATH: chromium } : {}) },
     })
     if (code !== 0) failed++
   }

@@ -1,0 +1,25 @@
+// The app in a process of its own, so the suite measures the app's memory and CPU and nothing else.
+// Reports { type: 'ready', port, mqttPort } over IPC, answers { type: 'stats' } with the rows it
+// has stored, and stops on { type: 'stop' }.
+import { testConfig } from '../server/config'
+import { startServer } from '../server/server'
+
+const running = await startServer(
+  testConfig({
+    databaseUrl: process.env.DATABASE_URL!,
+    serveClient: true,
+    signInLimit: 100_000,
+    mqtt: { host: '127.0.0.1', port: 0 },
+    logLevel: 'silent',
+    mail: { fakeSmtpPort: 0, from: 'bench@tankwarden.invalid' },
+  }),
+)
+let stored = 0
+running.ctx.events.on('readings.stored', (rows) => void (stored += rows.length))
+process.send!({ type: 'ready', port: running.port, mqttPort: running.mqttPort })
+process.on('message', async (m: { type: string }) => {
+  if (m.type === 'stats') process.send!({ type: 'stats', stored })
+  if (m.type !== 'stop') return
+  await running.stop()
+  process.exit(0)
+})

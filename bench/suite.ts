@@ -1,0 +1,96 @@
+// npm run bench — every figure at 10, 100, 200 and 1,000 tanks, side by side, with the targets and
+// how each grows. The app runs in a process of its own (its memory is the app's alone); load comes
+// from other processes; the browser figures from Debian's Chromium.
+import { cpus, totalmem } from 'node:os'
+import { existsSync } from 'node:fs'
+import { execFileSync } from 'node:child_process'
+import { chromium } from 'playwright-core'
+import { testConfig } from '../server/config'
+import { closeContext, createContext } from '../server/bootstrap'
+import { migrate } from '../server/db/migrate'
+import { authService } from '../server/services/auth'
+import { wallService } from '../server/services/wall'
+import { benchShop } from './fixtures'
+import { startAppProcess, sampleRss } from './suite/processes'
+import { engineCost, ingestHttp, ingestMqtt, latencyInBrowser, rawCopy, SERIES_RANGES, seriesTimes, tenRulesPerTank, wallRender } from './suite/measures'
+
+const SIZES = (process.env.BENCH_SIZES ?? '10,100,200,1000').split(',').map(Number)
+const RATE = Number(process.env.BENCH_RATE ?? 20_000)
+const SECONDS = Number(process.env.BENCH_SECONDS ?? 20)
+const databaseUrl = process.env.DATABASE_URL!
+
+if (!existsSync('dist/index.html')) execFileSync('node_modules/.bin/vite', ['build', '--logLevel', 'warn'], { stdio: 'inherit' })
+const browser = await chromium.launch({
+  executablePath: process.env.CHROMIUM_PATH || '/usr/bin/chromium',
+  headless: true,
+  args: ['--no-sandbox', '--disable-gpu', '--disable-dev-shm-usage', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
+})
+
+type Figures = Record<string, number>
+const results: Figures[] = []
+for (const tanks of SIZES) {
+  const ctx = createContext(testConfig({ databaseUrl, logLevel: 'silent' }))
+  await ctx.sequelize.query('DROP SCHEMA public CASCADE; CREATE SCHEMA public')
+  await migrate(ctx.sequelize)
+  const shop = await benchShop(ctx, tanks)
+  await tenRulesPerTank(ctx, shop)
+  const owner = await ctx.models.User.create({ organizationId: shop.organizationId, email: 'bench@bench.example', name: 'Bench', role: 'owner', passwordHash: 'x' })
+  const { token } = await authService(ctx).openSession(owner)
+  const actor = { kind: 'user' as const, userId: owner.id, organizationId: shop.organizationId, role: 'owner' as const, siteIds: null, jti: 'bench' }
+  const { link } = await wallService(ctx).createCredential(actor as never, shop.siteId, 'Bench display')
+
+  console.log(`— ${tanks} tanks`)
+  const app = await startAppProcess(databaseUrl)
+  const rss = sampleRss(app.pid)
+  const f: Figures = { tanks }
+  const mqtt = await ingestMqtt(app, shop, RATE, SECONDS, Date.now() - 6 * 3600_000)
+  f.mqtt = mqtt.rate
+  f.mqttLost = mqtt.acked - mqtt.stored
+  const http = await ingestHttp(app, shop, Math.min(SECONDS, 15), Date.now() - 5 * 3600_000)
+  f.http = http.rate
+  f.copy = await rawCopy(ctx, shop, mqtt.stored)
+  f.rss = rss.peakMb()
+  const latency = await latencyInBrowser(browser, app, shop, token, 1000, 10)
+  f.p50 = latency.p50
+  f.p99 = latency.p99
+  f.wall = await wallRender(browser, app, link)
+  const series = await seriesTimes(ctx, app, shop.devices[0].tankId, token)
+  for (const [label] of SERIES_RANGES) f[`series ${label}`] = series[label]
+  f.engine = await engineCost(ctx, shop, 50_000)
+  f.rssAll = rss.peakMb()
+  rss.stop()
+  await app.stop()
+  await closeContext(ctx)
+  results.push(f)
+  console.log(`  ${JSON.stringify(Object.fromEntries(Object.entries(f).map(([k, v]) => [k, Math.round(v * 10) / 10])))}`)
+}
+await browser.close()
+
+const n = (v: number, digits = 0) => (Number.isFinite(v) ? v.toLocaleString('en-GB', { maximumFractionDigits: digits, minimumFractionDigits: digits }) : '—')
+/** How a figure grows from the smallest to the largest size, as the exponent k in cost ∝ tanks^k. */
+function growth(key: string) {
+  const a = results[0]
+  const b = results[results.length - 1]
+  if (results.length < 2 || !(a[key] > 0) || !(b[key] > 0)) return ''
+  const k = Math.log(b[key] / a[key]) / Math.log(b.tanks / a.tanks)
+  return `${k >= 0 ? '+' : ''}${k.toFixed(2)}${k > 1.1 ? ' (faster than linear)' : ''}`
+}
+const rows: Array<[string, string, (f: Figures) => string, string]> = [
+  ['MQTT ingest, QoS 1, one connection per tank (readings/s stored)', 'mqtt', (f) => `${n(f.mqtt)}${f.mqttLost ? ` (${n(f.mqttLost)} acked but not stored!)` : ''}`, `≥ 20,000 (offered ${n(RATE)})`],
+  ['HTTP ingest, 8 × 500-reading requests in flight (readings/s)', 'http', (f) => n(f.http), '—'],
+  ['raw COPY of the same rows (rows/s)', 'copy', (f) => n(f.copy), '—'],
+  ['MQTT ingest as a share of raw COPY', 'ratio', (f) => `${n((100 * f.mqtt) / f.copy)} %`, '≥ 50 %'],
+  ['publish → browser at 1,000 readings/s, p50 (ms)', 'p50', (f) => n(f.p50), '—'],
+  ['publish → browser at 1,000 readings/s, p99 (ms)', 'p99', (f) => n(f.p99), '< 100'],
+  ...SERIES_RANGES.map(([label]) => [`series of a year of 1-minute rows, ${label} as ≤ 1,000 points (ms, median)`, `series ${label}`, (f: Figures) => n(f[`series ${label}`], 1), '< 50'] as [string, string, (f: Figures) => string, string]),
+  ['wall display link → first page of tiles drawn (ms, median of 3)', 'wall', (f) => n(f.wall), '< 2,000 at 200 tanks'],
+  ['rule engine, 10 rules per tank (µs per reading)', 'engine', (f) => n(f.engine, 1), '—'],
+  ['app memory while ingesting, peak RSS (MB)', 'rss', (f) => n(f.rss), '< 300'],
+  ['app memory over the whole run, peak RSS (MB)', 'rssAll', (f) => n(f.rssAll), '—'],
+]
+console.log(`\nMachine: ${cpus().length} × ${cpus()[0]?.model ?? 'cpu'}, ${Math.round(totalmem() / 2 ** 30)} GiB, Node ${process.version}, PostgreSQL on the same machine; ${SECONDS} s of MQTT load per size\n`)
+console.log(`| figure | ${results.map((f) => `${n(f.tanks)} tanks`).join(' | ')} | target | growth k (∝ tanks^k) |`)
+console.log(`|---|${results.map(() => '---').join('|')}|---|---|`)
+for (const f of results) f.ratio = (100 * f.mqtt) / f.copy
+for (const [label, key, show, target] of rows) console.log(`| ${label} | ${results.map(show).join(' | ')} | ${target} | ${growth(key)} |`)
+process.exit(0)

@@ -1,0 +1,184 @@
+// One function per figure of `npm run bench`. Each answers plain numbers; suite.ts prints them.
+import { Readable } from 'node:stream'
+import { pipeline } from 'node:stream/promises'
+import pgCopy from 'pg-copy-streams'
+import { QueryTypes } from 'sequelize'
+import type { Browser } from 'playwright-core'
+import type { AppContext } from '../../server/context'
+import { createRuleEngine } from '../../server/rules/engine'
+import { silentNotifier } from '../../server/rules/notifier'
+import { incidentsService } from '../../server/services/incidents'
+import type { StoredReading } from '../../server/events'
+import { runLoad, type AppProcess } from './processes'
+
+export type Shop = { organizationId: number; siteId: number; devices: Array<{ deviceId: number; tankId: number; token: string }> }
+type LoadDone = { sent: number; acked?: number; accepted?: number; errors: number; elapsedMs: number }
+
+export const median = (xs: number[]) => percentile(xs, 50)
+export function percentile(xs: number[], p: number) {
+  const sorted = [...xs].sort((a, b) => a - b)
+  return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))] ?? NaN
+}
+
+/** MQTT at QoS 1, one connection per device: rows stored per second, publish to the last ack. */
+export async function ingestMqtt(app: AppProcess, shop: Shop, rate: number, seconds: number, timeBaseMs: number) {
+  const before = await app.stored()
+  const t0 = Date.now()
+  const done = await runLoad<LoadDone>('load-mqtt.ts', { url: `mqtt://127.0.0.1:${app.mqttPort}`, devices: shop.devices, ratePerSecond: rate, seconds, timeBaseMs })
+  const stored = (await app.stored()) - before
+  return { rate: stored / ((Date.now() - t0) / 1000), stored, sent: done.sent, acked: done.acked ?? 0, errors: done.errors }
+}
+
+/** HTTP, a closed loop of 8 requests of 500 readings in flight: rows stored per second. */
+export async function ingestHttp(app: AppProcess, shop: Shop, seconds: number, timeBaseMs: number) {
+  const before = await app.stored()
+  const done = await runLoad<LoadDone>('load-http.ts', { baseUrl: `http://127.0.0.1:${app.port}`, devices: shop.devices, seconds, timeBaseMs, concurrency: 8, batch: 500 })
+  const stored = (await app.stored()) - before
+  return { rate: stored / (done.elapsedMs / 1000), stored, sent: done.sent, accepted: done.accepted ?? 0, errors: done.errors }
+}
+
+/** The same number of rows with a raw COPY into a table with the same key, index and foreign key. */
+export async function rawCopy(ctx: AppContext, shop: Shop, rows: number) {
+  await ctx.sequelize.query('DROP TABLE IF EXISTS readings_copy')
+  await ctx.sequelize.query('CREATE TABLE readings_copy (LIKE readings INCLUDING ALL)')
+  await ctx.sequelize.query('ALTER TABLE readings_copy ADD FOREIGN KEY (tank_id) REFERENCES tanks(id) ON DELETE CASCADE')
+  const pool = ctx.sequelize.connectionManager as unknown as { getConnection: () => Promise<import('pg').PoolClient>; releaseConnection: (c: unknown) => Promise<void> }
+  const conn = await pool.getConnection()
+  const base = Date.now() - 86400_000
+  const n = shop.devices.length
+  const t0 = Date.now()
+  await pipeline(
+    Readable.from((function* () {
+      for (let i = 0; i < rows; i++) yield `d:${shop.devices[i % n].deviceId}\ttemperature\t${new Date(base + i).toISOString()}\t${shop.devices[i % n].tankId}\t25.5\tdevice\n`
+    })()),
+    conn.query(pgCopy.from('COPY readings_copy (source_key, metric, time, tank_id, value, source) FROM STDIN')),
+  )
+  const rate = rows / ((Date.now() - t0) / 1000)
+  await pool.releaseConnection(conn)
+  await ctx.sequelize.query('DROP TABLE readings_copy')
+  return rate
+}
+
+/**
+ * Publish → browser: a Chromium page holds the live socket a keeper's screen holds, subscribed to the
+ * site; readings are stamped with the moment they are published, so receipt − time is the whole path.
+ */
+export async function latencyInBrowser(browser: Browser, app: AppProcess, shop: Shop, token: string, ratePerSecond: number, seconds: number) {
+  const page = await browser.newPage()
+  await page.goto(`http://127.0.0.1:${app.port}/sign-in`)
+  await page.evaluate(
+    ({ token, siteId }) =>
+      new Promise<void>((resolve) => {
+        // Runs in the page; the server's type settings know no DOM, hence the casts.
+        const w = globalThis as unknown as { __latencies: number[]; location: { host: string }; WebSocket: typeof import('ws').WebSocket }
+        w.__latencies = []
+        const ws = new w.WebSocket(`ws://${w.location.host}/ws`)
+        ws.onopen = () => {
+          ws.send(JSON.stringify({ type: 'auth', token }))
+          ws.send(JSON.stringify({ type: 'subscribe', siteId }))
+          setTimeout(resolve, 500)
+        }
+        ws.onmessage = (e) => {
+          const m = JSON.parse(String(e.data))
+          if (m.type === 'readings') for (const r of m.readings) w.__latencies.push(Date.now() - Date.parse(r.time))
+        }
+      }),
+    { token, siteId: shop.siteId },
+  )
+  await runLoad('load-latency.ts', { url: `mqtt://127.0.0.1:${app.mqttPort}`, devices: shop.devices.slice(0, 100), ratePerSecond, seconds })
+  await new Promise((r) => setTimeout(r, 1000))
+  const latencies = await page.evaluate(() => (globalThis as unknown as { __latencies: number[] }).__latencies)
+  await page.close()
+  return { p50: percentile(latencies, 50), p99: percentile(latencies, 99), count: latencies.length }
+}
+
+export const SERIES_RANGES = [
+  ['1 h', 3600_000],
+  ['1 day', 86400_000],
+  ['7 days', 7 * 86400_000],
+  ['30 days', 30 * 86400_000],
+  ['1 year', 365 * 86400_000],
+] as const
+
+/** A year of 1-minute pH readings on one tank, then each range asked for as ≤ 1,000 points over HTTP. */
+export async function seriesTimes(ctx: AppContext, app: AppProcess, tankId: number, token: string) {
+  await ctx.sequelize.query(
+    `INSERT INTO readings (source_key, metric, time, tank_id, value, source)
+     SELECT 'bench-series', 'ph', now() - interval '365 days' + g * interval '1 minute', $1, 7 + sin(g / 100.0) / 5, 'device'
+       FROM generate_series(0, 525599) g`,
+    { bind: [tankId] },
+  )
+  await ctx.sequelize.query('ANALYZE readings')
+  const out: Record<string, number> = {}
+  for (const [label, ms] of SERIES_RANGES) {
+    const times: number[] = []
+    for (let i = 0; i < 9; i++) {
+      const to = new Date()
+      const from = new Date(to.getTime() - ms)
+      const t = performance.now()
+      const res = await fetch(`http://127.0.0.1:${app.port}/api/v1/tanks/${tankId}/series?metric=ph&from=${from.toISOString()}&to=${to.toISOString()}&points=1000`, {
+        headers: { authorization: `Bearer ${token}` },
+      })
+      await res.arrayBuffer()
+      if (!res.ok) throw new Error(`series ${label}: HTTP ${res.status}`)
+      times.push(performance.now() - t)
+    }
+    out[label] = median(times)
+  }
+  return out
+}
+
+/** Navigation to a display link → the first page of tiles drawn with their data, in a 1920×1080 Chromium. */
+export async function wallRender(browser: Browser, app: AppProcess, link: string) {
+  const times: number[] = []
+  for (let i = 0; i < 3; i++) {
+    const context = await browser.newContext({ viewport: { width: 1920, height: 1080 } })
+    const page = await context.newPage()
+    const t = performance.now()
+    await page.goto(`http://127.0.0.1:${app.port}${link}`)
+    await page.locator('article').first().waitFor({ timeout: 30_000 })
+    await page.waitForLoadState('load')
+    times.push(performance.now() - t)
+    await context.close()
+  }
+  return median(times)
+}
+
+/** The engine's work per reading with every tank's rules loaded: readings fed as the bus would. */
+export async function engineCost(ctx: AppContext, shop: Shop, readings: number) {
+  const engine = createRuleEngine(ctx, incidentsService(ctx, silentNotifier, { escalateAlarmAfterMinutes: 15, escalateWarningAfterMinutes: 60, repeatEveryMinutes: 30 }))
+  await engine.start()
+  // Later than anything the ingest figures stored, so no reading counts as late.
+  const start = Date.now() - 30 * 60_000
+  const rows: StoredReading[] = Array.from({ length: readings }, (_, i) => {
+    const d = shop.devices[i % shop.devices.length]
+    return { sourceKey: `d:${d.deviceId}`, metric: 'temperature', time: new Date(start + Math.floor(i / shop.devices.length) * 1000), tankId: d.tankId, value: 25 + (i % 10) / 10, source: 'device' }
+  })
+  const t = performance.now()
+  for (let i = 0; i < rows.length; i += 5000) ctx.events.emit('readings.stored', rows.slice(i, i + 5000))
+  await engine.settle()
+  const ms = performance.now() - t
+  await engine.stop()
+  return (ms * 1000) / readings // µs per reading
+}
+
+/** Ten site-wide temperature rules that hold quietly for steady readings: every reading meets ten. */
+export async function tenRulesPerTank(ctx: AppContext, shop: Shop) {
+  const specs = [
+    { kind: 'above', metric: 'temperature', limit: 60, holdMinutes: 10, clearMargin: 0.5 },
+    { kind: 'above', metric: 'temperature', limit: 70, holdMinutes: 0, clearMargin: 0 },
+    { kind: 'below', metric: 'temperature', limit: 5, holdMinutes: 10, clearMargin: 0.5 },
+    { kind: 'below', metric: 'temperature', limit: 1, holdMinutes: 0, clearMargin: 0 },
+    { kind: 'outside', metric: 'temperature', min: 2, max: 60, holdMinutes: 15, clearMargin: 0.5 },
+    { kind: 'outside', metric: 'temperature', min: 1, max: 65, holdMinutes: 30, clearMargin: 0.5 },
+    { kind: 'rate', metric: 'temperature', maxChange: 20, windowMinutes: 60 },
+    { kind: 'rate', metric: 'temperature', maxChange: 30, windowMinutes: 180 },
+    { kind: 'quiet', metric: 'temperature', quietMinutes: 10_000 },
+    { kind: 'quiet', metric: 'temperature', quietMinutes: 9_000 },
+  ]
+  await ctx.sequelize.query(
+    `INSERT INTO watch_rules (organization_id, site_id, name, severity, spec)
+     SELECT $1, $2, 'Bench rule ' || ordinality, 'warning', spec FROM unnest($3::jsonb[]) WITH ORDINALITY AS u(spec, ordinality)`,
+    { bind: [shop.organizationId, shop.siteId, specs.map((s) => JSON.stringify(s))], type: QueryTypes.INSERT },
+  )
+}
