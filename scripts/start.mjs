@@ -7,6 +7,7 @@ import { fileURLToPath } from 'node:url'
 import { ensureDependencies } from './lib/deps.mjs'
 import { startCluster } from './lib/postgres.mjs'
 import { log, run } from './lib/run.mjs'
+import { buildServer } from './lib/build-server.mjs'
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..')
 process.chdir(root)
@@ -78,9 +79,10 @@ try {
   }
   ensureClientBuild()
 
-  const app = fork(join(root, 'server', 'index.ts'), [], {
+  const serverModule = await buildServer(root)
+  const app = fork(serverModule, [], {
     env,
-    execArgv: ['--import', 'tsx'],
+    execArgv: [],
     stdio: ['inherit', 'inherit', 'inherit', 'ipc'],
   })
   children.push(app)

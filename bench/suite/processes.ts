@@ -7,8 +7,13 @@ const script = (name: string) => fileURLToPath(new URL(`../${name}`, import.meta
 
 export type AppProcess = { port: number; mqttPort: number; pid: number; stored: () => Promise<number>; stop: () => Promise<void> }
 
-export function startAppProcess(databaseUrl: string): Promise<AppProcess> {
-  const child = fork(script('server-process.ts'), [], { execArgv: ['--import', 'tsx'], env: { ...process.env, DATABASE_URL: databaseUrl } })
+/** The app as `npm start` runs it: compiled to one module, run with plain node. */
+export async function startAppProcess(databaseUrl: string): Promise<AppProcess> {
+  // @ts-expect-error a plain ES module of the project's scripts, without type declarations
+  const { buildServer } = await import('../../scripts/lib/build-server.mjs')
+  const root = fileURLToPath(new URL('../..', import.meta.url))
+  const module: string = await buildServer(root, 'bench/server-process.ts', '.build/bench-server.mjs')
+  const child = fork(module, [], { execArgv: [], env: { ...process.env, DATABASE_URL: databaseUrl } })
   return new Promise((resolve, reject) => {
     child.once('error', reject)
     child.once('exit', (code) => reject(new Error(`the app exited (${code}) before it was ready`)))

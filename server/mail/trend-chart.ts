@@ -1,5 +1,6 @@
-import * as echarts from 'echarts'
-import sharp from 'sharp'
+// The chart library and the image library are loaded on the first chart, not at start-up: together
+// they are about 60 MB of memory an instance that never mails a chart never needs.
+const libraries = () => Promise.all([import('echarts'), import('sharp')])
 
 export type TrendChartInput = {
   points: Array<[number, number]>
@@ -41,7 +42,8 @@ function valueRange(all: number[]): { min?: number; max?: number } {
 }
 
 /** Renders the chart as SVG on the server (no canvas, no browser). */
-export function renderTrendSvg(input: TrendChartInput): string {
+export async function renderTrendSvg(input: TrendChartInput): Promise<string> {
+  const [echarts] = await libraries()
   const width = input.width ?? TREND_CHART_SIZE.width
   const height = input.height ?? TREND_CHART_SIZE.height
   const times = input.points.map(([t]) => t)
@@ -84,5 +86,6 @@ export function renderTrendSvg(input: TrendChartInput): string {
 
 /** A PNG of the recent trend for an alert mail (mail clients do not show SVG reliably). */
 export async function renderTrendPng(input: TrendChartInput): Promise<Buffer> {
-  return sharp(Buffer.from(renderTrendSvg(input))).png().toBuffer()
+  const [, { default: sharp }] = await libraries()
+  return sharp(Buffer.from(await renderTrendSvg(input))).png().toBuffer()
 }

@@ -193,8 +193,14 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
       const batch = queue.sort((a, b) => a.time.getTime() - b.time.getTime())
       queue = []
       for (const r of batch) {
-        for (const slot of byTankMetric.get(`${r.tankId}:${r.metric}`) ?? []) {
-          await step(slot, { type: 'reading', at: r.time.getTime(), value: r.value })
+        const slotsOfReading = byTankMetric.get(`${r.tankId}:${r.metric}`)
+        if (!slotsOfReading) continue
+        const input = { type: 'reading' as const, at: r.time.getTime(), value: r.value }
+        for (const slot of slotsOfReading) {
+          // Evaluated in line; only a trip, update or clear waits for the database.
+          const result = evaluate(slot.rule.spec, slot.state, input, slot.rule.ctx)
+          slot.state = result.state
+          if (result.event) await handle(slot, result.event)
         }
       }
     })

@@ -5,6 +5,16 @@ import type { WatchRuleSpec } from './schema'
 import { initialRuleState } from './types'
 import type { EvaluationResult, RuleContext, RuleEvent, RuleInput, RuleState } from './types'
 
+// A judge depends only on its spec and context, which the engine keeps for a rule's life: made once
+// per pair rather than once per reading (the hot path meets every rule of a tank on every reading).
+const judges = new WeakMap<object, WeakMap<object, ReturnType<typeof levelJudge>>>()
+function cachedJudge(spec: Parameters<typeof levelJudge>[0], ctx: RuleContext) {
+  let byCtx = judges.get(spec)
+  if (!byCtx) judges.set(spec, (byCtx = new WeakMap()))
+  if (!byCtx.has(ctx)) byCtx.set(ctx, levelJudge(spec, ctx))
+  return byCtx.get(ctx) ?? null
+}
+
 /**
  * Feeds one input to one rule. Pure: the same spec, state, input and context always give the
  * same answer, and the input state is never mutated.
@@ -32,7 +42,7 @@ export function evaluate(
     case 'quiet':
       return evaluateQuiet(spec, state, input)
     default: {
-      const judge = levelJudge(spec, ctx)
+      const judge = cachedJudge(spec, ctx)
       return judge ? evaluateLevel(judge, state, input) : { state }
     }
   }

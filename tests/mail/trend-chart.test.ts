@@ -22,9 +22,9 @@ describe('trend chart', () => {
     expect([meta.format, meta.width, meta.height]).toEqual(['png', 600, 240])
   })
 
-  it('labels the time axis in the site zone (06:00–10:00 UTC is 08:00–12:00 in Berlin in July)', () => {
+  it('labels the time axis in the site zone (06:00–10:00 UTC is 08:00–12:00 in Berlin in July)', async () => {
     // IANA tz database, file `europe`: Europe/Berlin observes UTC+2 in July.
-    const svg = renderTrendSvg({ points: [[start, 25], [start + 4 * HOUR, 26]], title: 'T', unitLabel: '°C', timeZone: 'Europe/Berlin' })
+    const svg = await renderTrendSvg({ points: [[start, 25], [start + 4 * HOUR, 26]], title: 'T', unitLabel: '°C', timeZone: 'Europe/Berlin' })
     const labels = [...svg.matchAll(/>(\d\d:\d\d)</g)].map((m) => m[1])
     expect(labels).toContain('08:00')
     expect(labels).toContain('12:00')
@@ -32,7 +32,7 @@ describe('trend chart', () => {
   })
 
   it('escapes the title in the SVG and still renders with no points', async () => {
-    const svg = renderTrendSvg({ points: [], title: 'Tank <b>&', unitLabel: 'pH', timeZone: 'UTC' })
+    const svg = await renderTrendSvg({ points: [], title: 'Tank <b>&', unitLabel: 'pH', timeZone: 'UTC' })
     expect(svg).not.toContain('<b>')
     const png = await renderTrendPng({ points: [], title: 'Empty', unitLabel: 'pH', timeZone: 'UTC' })
     expect([png.readUInt32BE(16), png.readUInt32BE(20)]).toEqual([600, 240])
