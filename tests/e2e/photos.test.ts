@@ -76,7 +76,7 @@ afterAll(async () => {
 })
 
 describe('the photo timeline on the tank page', () => {
-  it('shows a keeper the thumbnails by day, opens one large, and takes uploads from the page, the care log and a task done', async () => {
+  it('shows a keeper the thumbnails by day, opens one large, and takes uploads from the page, the care log and a task done', { timeout: 240_000 }, async () => {
     const page = await openPage('keeper')
     const [seeded] = await rows()
     const tile = `[data-test=photo-${seeded!.id}]`
@@ -139,7 +139,7 @@ describe('the photo timeline on the tank page', () => {
     await page.close()
   })
 
-  it('shows a viewer the photos without the upload and delete controls', async () => {
+  it('shows a viewer the photos without the upload and delete controls', { timeout: 120_000 }, async () => {
     const page = await openPage('viewer')
     const [seeded] = await rows()
     await decodedImage(page, `[data-test=photo-${seeded!.id}]`)
