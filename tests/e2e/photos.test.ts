@@ -17,6 +17,8 @@ let org: TestOrg
 let tankId: number
 let dataDir: string
 const outside: string[] = []
+/** The few fields of an <img> read in the page; the server's type check has no DOM library. */
+type ImageFields = { complete: boolean; naturalWidth: number; src: string }
 // Uploads are re-encoded on a busy two-core machine: waits are generous, the asserted values exact.
 const WAIT = { timeout: 30_000 }
 
@@ -50,8 +52,8 @@ async function openPage(role: 'keeper' | 'viewer'): Promise<Page> {
 async function decodedImage(page: Page, selector: string) {
   const img = page.locator(`${selector} [data-test=photo-img]`).first()
   await img.waitFor()
-  await expect.poll(() => img.evaluate((el) => (el as HTMLImageElement).complete && (el as HTMLImageElement).naturalWidth), WAIT).toBeGreaterThan(0)
-  return img.evaluate((el) => ({ src: (el as HTMLImageElement).src, width: (el as HTMLImageElement).naturalWidth }))
+  await expect.poll(() => img.evaluate((el) => (el as unknown as ImageFields).complete && (el as unknown as ImageFields).naturalWidth), WAIT).toBeGreaterThan(0)
+  return img.evaluate((el) => ({ src: (el as unknown as ImageFields).src, width: (el as unknown as ImageFields).naturalWidth }))
 }
 
 beforeAll(async () => {
