@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { listTankPhotos, photosInPeriod, readPhotoBytes } from '../../server/services/photos'
+import { wallService } from '../../server/services/wall'
 import type { UserActor } from '../../server/auth/actor'
 import { bearer, type TestOrg } from '../helpers/app'
 import { as, filesUnder, makeImage, newTank, startPhotoTestApp, type PhotoTestApp } from './photos-helpers'
@@ -53,6 +54,21 @@ describe('photo route roles', () => {
     if (attach) req = req.attach('photo', image, 'probe.jpg')
     const res = await req
     expect(res.status, JSON.stringify(res.body)).toBe(status)
+  })
+})
+
+describe('a wall display key', () => {
+  it('opens no photo route, not even of its own site\'s tank', async () => {
+    const owner: UserActor = { kind: 'user', userId: org.users.owner.id, organizationId: org.organizationId, role: 'owner', siteIds: null, sessionId: 'probe' }
+    const { link } = await wallService(t.ctx).createCredential(owner, org.siteIds[0] as number, 'Photo probe wall')
+    const key = new URL(link, 'http://localhost').searchParams.get('key')!
+    const { tankId, photoId } = await freshPhoto(org.siteIds[0])
+    for (const path of [`/tanks/${tankId}/photos`, `/photos/${photoId}`, `/photos/${photoId}/image`, `/photos/${photoId}/thumbnail`]) {
+      expect((await t.api().get(`/api/v1${path}`).set(bearer(key))).status).toBe(401)
+    }
+    expect((await t.api().post(`/api/v1/tanks/${tankId}/photos`).set(bearer(key)).attach('photo', image, 'x.jpg')).status).toBe(401)
+    expect((await t.api().delete(`/api/v1/photos/${photoId}`).set(bearer(key))).status).toBe(401)
+    expect(await t.ctx.models.Photo.findByPk(photoId)).not.toBeNull()
   })
 })
 
