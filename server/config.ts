@@ -36,7 +36,15 @@ const envSchema = z.object({
   SMTP_URL: z.string().url('SMTP_URL must be an smtp:// or smtps:// URL').optional(),
   FAKE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
   MAIL_FROM: z.string().min(3).default('Tankwarden <alerts@tankwarden.invalid>'),
-})
+  PHOTO_MAX_MB: z.coerce.number().positive().max(200).default(15),
+  PHOTO_STORE: z.enum(['local', 's3']).default('local'),
+  S3_ENDPOINT: z.string().url('S3_ENDPOINT must be an http(s):// URL').optional(),
+  S3_BUCKET: z.string().min(3).max(63).optional(),
+  S3_REGION: z.string().min(1).default('us-east-1'),
+  S3_ACCESS_KEY_ID: z.string().min(1).optional(),
+  S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
+  S3_FORCE_PATH_STYLE: boolish.default(false),
+}).refine((e) => e.PHOTO_STORE !== 's3' || e.S3_BUCKET, { message: 'S3_BUCKET is required when PHOTO_STORE=s3', path: ['S3_BUCKET'] })
 
 export type Config = Readonly<{
   env: 'development' | 'production' | 'test'
@@ -59,7 +67,12 @@ export type Config = Readonly<{
   rulesTickMs: number
   alertTiming: { escalateAlarmAfterMinutes: number; escalateWarningAfterMinutes: number; repeatEveryMinutes: number }
   mail: { smtpUrl?: string; fakeSmtpPort: number; from: string }
+  photos: { maxBytes: number; store: PhotoStoreSettings }
 }>
+
+export type PhotoStoreSettings =
+  | { kind: 'local' }
+  | { kind: 's3'; endpoint?: string; bucket: string; region: string; accessKeyId?: string; secretAccessKey?: string; forcePathStyle: boolean }
 
 /** The JWT secret is generated once and kept in the data folder when not configured. */
 function persistentSecret(dataDir: string): string {
@@ -100,6 +113,12 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     rulesTickMs: e.RULES_TICK_SECONDS * 1000,
     alertTiming: { escalateAlarmAfterMinutes: e.ESCALATE_ALARM_MINUTES, escalateWarningAfterMinutes: e.ESCALATE_WARNING_MINUTES, repeatEveryMinutes: e.REPEAT_MINUTES },
     mail: { smtpUrl: e.SMTP_URL, fakeSmtpPort: e.FAKE_SMTP_PORT, from: e.MAIL_FROM },
+    photos: {
+      maxBytes: Math.round(e.PHOTO_MAX_MB * 1024 * 1024),
+      store: e.PHOTO_STORE === 's3'
+        ? { kind: 's3' as const, endpoint: e.S3_ENDPOINT, bucket: e.S3_BUCKET as string, region: e.S3_REGION, accessKeyId: e.S3_ACCESS_KEY_ID, secretAccessKey: e.S3_SECRET_ACCESS_KEY, forcePathStyle: e.S3_FORCE_PATH_STYLE }
+        : { kind: 'local' as const },
+    },
   })
 }
 
@@ -125,6 +144,7 @@ export function testConfig(overrides: Partial<Config> & { databaseUrl: string })
     rulesTickMs: 10_000,
     alertTiming: { escalateAlarmAfterMinutes: 15, escalateWarningAfterMinutes: 60, repeatEveryMinutes: 30 },
     mail: { fakeSmtpPort: 0, from: 'Tankwarden <alerts@tankwarden.invalid>' },
+    photos: { maxBytes: 15 * 1024 * 1024, store: { kind: 'local' as const } },
     ...overrides,
   })
 }

@@ -82,6 +82,11 @@ const CHECKED_IN_CARE_ROLES = [
   'GET /care/today', 'GET /care/species', 'GET /sites/:id/care-summary',
 ]
 
+/** The photo routes have their role matrix in photos-access.test.ts (owner, keeper, viewer, other org, no token). */
+const CHECKED_IN_PHOTO_ROLES = [
+  'GET /tanks/:id/photos', 'POST /tanks/:id/photos', 'GET /photos/:id', 'GET /photos/:id/image', 'GET /photos/:id/thumbnail', 'DELETE /photos/:id',
+]
+
 /** One row per route the API serves. A new route adds a row here; the coverage test below insists. */
 const ROUTES: RouteCase[] = [
   row('get', '/health', everyone(200)),
@@ -373,7 +378,7 @@ describe('the table itself', () => {
     const served = walk((t.app as unknown as { router: { stack: Layer[] } }).router.stack, '')
       .map((r) => r.replace(' /api/v1', ' '))
       .sort()
-    const listed = [...ROUTES.map((r) => `${r.method.toUpperCase()} ${r.route}`), ...CHECKED_IN_CARE_ROLES].sort()
+    const listed = [...ROUTES.map((r) => `${r.method.toUpperCase()} ${r.route}`), ...CHECKED_IN_CARE_ROLES, ...CHECKED_IN_PHOTO_ROLES].sort()
     const notInTable = served.filter((r) => !listed.includes(r))
     const notServed = listed.filter((r) => !served.includes(r))
     expect({ notInTable, notServed }).toEqual({ notInTable: [], notServed: [] })

@@ -1,0 +1,87 @@
+import { pipeline } from 'node:stream/promises'
+import { Router, type Request, type RequestHandler } from 'express'
+import multer from 'multer'
+import { idParamsSchema } from '../../shared/schemas/common'
+import { photoListQuerySchema, photoUploadFieldsSchema, type PhotoVariant } from '../../shared/schemas/photos'
+import { actorOf, allow } from '../auth/middleware'
+import type { AppContext } from '../context'
+import { AppError, badRequest } from '../errors'
+import { parse } from '../http/validate'
+import { photosService } from '../services/photos'
+
+const id = (req: Request) => parse(idParamsSchema, req, 'params').id
+export const PHOTO_FIELD = 'photo'
+
+/** One image in memory, size-capped; multer's own errors become our 400/413 answers. */
+function photoUpload(maxBytes: number): RequestHandler {
+  const upload = multer({
+    storage: multer.memoryStorage(),
+    limits: { fileSize: maxBytes, files: 1, fields: 10, fieldSize: 4096, parts: 12 },
+  }).single(PHOTO_FIELD)
+  const megabytes = Math.round((maxBytes / (1024 * 1024)) * 10) / 10
+  return (req, res, next) => {
+    upload(req, res, (error: unknown) => {
+      if (!error) return next()
+      if (error instanceof multer.MulterError) {
+        if (error.code === 'LIMIT_FILE_SIZE') {
+          return next(new AppError(413, 'too_large', `photo: the image is larger than the ${megabytes} MB limit`, { photo: `larger than ${megabytes} MB` }))
+        }
+        if (error.code === 'LIMIT_UNEXPECTED_FILE' || error.code === 'LIMIT_FILE_COUNT') {
+          return next(badRequest(`photo: send one image, in the form field named "${PHOTO_FIELD}"`, { photo: `send one image in the field "${PHOTO_FIELD}"` }))
+        }
+        const field = error.field || 'body'
+        return next(badRequest(`${field}: ${error.message}`, { [field]: error.message }))
+      }
+      // A malformed multipart body (busboy) is the client's fault, not ours.
+      next(badRequest(`body: ${error instanceof Error ? error.message : 'unreadable multipart form'}`, { body: 'unreadable multipart form' }))
+    })
+  }
+}
+
+/** Mounted under /tanks: a tank's photo timeline and uploads. */
+export function tankPhotoRoutes(ctx: AppContext) {
+  const router = Router()
+  const photos = photosService(ctx)
+  router.get('/:id/photos', allow('org.read'), async (req, res) => {
+    res.json(await photos.list(actorOf(req), id(req), parse(photoListQuerySchema, req, 'query')))
+  })
+  // The role is checked before the body is read: a viewer's upload is refused without buffering it.
+  router.post('/:id/photos', allow('photos.write'), photoUpload(ctx.config.photos.maxBytes), async (req, res) => {
+    const tankId = id(req)
+    const fields = parse(photoUploadFieldsSchema, req, 'body')
+    res.status(201).json(await photos.upload(actorOf(req), tankId, req.file?.buffer, fields))
+  })
+  return router
+}
+
+/** Mounted under /photos: one photo's details, its two images, and delete. */
+export function photosRouter(ctx: AppContext) {
+  const router = Router()
+  const photos = photosService(ctx)
+
+  router.get('/:id', allow('org.read'), async (req, res) => {
+    res.json(await photos.get(actorOf(req), id(req)))
+  })
+  const serve = (variant: PhotoVariant): RequestHandler => async (req, res) => {
+    const { photo, stream } = await photos.open(actorOf(req), id(req), variant)
+    // Each photo's bytes never change (a new upload is a new id), so a private cache may keep them.
+    const etag = `"photo-${photo.id}-${variant}"`
+    res.setHeader('Cache-Control', 'private, max-age=86400, immutable')
+    res.setHeader('ETag', etag)
+    if (req.headers['if-none-match'] === etag) {
+      stream.destroy()
+      return void res.status(304).end()
+    }
+    res.setHeader('Content-Type', photo.contentType)
+    res.setHeader('Content-Disposition', `inline; filename="photo-${photo.id}${variant === 'thumbnail' ? '-thumb' : ''}.jpg"`)
+    if (variant === 'display') res.setHeader('Content-Length', String(photo.displayBytes))
+    await pipeline(stream, res)
+  }
+  router.get('/:id/image', allow('org.read'), serve('display'))
+  router.get('/:id/thumbnail', allow('org.read'), serve('thumbnail'))
+  router.delete('/:id', allow('photos.write'), async (req, res) => {
+    await photos.remove(actorOf(req), id(req))
+    res.status(204).end()
+  })
+  return router
+}

@@ -1,0 +1,55 @@
+import sharp from 'sharp'
+import { PHOTO_FORMATS } from '../../shared/schemas/photos'
+import { AppError, badRequest } from '../errors'
+import type { PhotoFormat } from '../models/photo'
+
+export const DISPLAY_MAX_PX = 1600
+export const THUMBNAIL_MAX_PX = 320
+/** Far above any camera in use; refuses decompression bombs before a pixel is decoded. */
+export const MAX_INPUT_PIXELS = 80_000_000
+
+export type ProcessedImage = { data: Buffer; width: number; height: number }
+export type ProcessedPhoto = { originalFormat: PhotoFormat; display: ProcessedImage; thumbnail: ProcessedImage }
+
+const ACCEPTED = 'attach a JPEG, PNG or WebP image'
+
+/**
+ * Decides the type from the bytes alone, then re-encodes: sharp's output carries no EXIF, GPS or
+ * other metadata unless asked to, and `.rotate()` first applies the camera's orientation tag so the
+ * stripped image still stands the right way up. JPEG output on a white ground, so PDF writers and
+ * every browser can show it.
+ */
+export async function processPhoto(bytes: Buffer): Promise<ProcessedPhoto> {
+  let format: string | undefined
+  let pixels = 0
+  try {
+    const meta = await sharp(bytes, { limitInputPixels: false }).metadata()
+    format = meta.format
+    pixels = (meta.width ?? 0) * (meta.height ?? 0)
+  } catch {
+    throw badRequest(`photo: not a readable image; ${ACCEPTED}`, { photo: `not a readable image; ${ACCEPTED}` })
+  }
+  if (!format || !(PHOTO_FORMATS as readonly string[]).includes(format)) {
+    throw badRequest(`photo: ${format ?? 'unknown'} images are not accepted; ${ACCEPTED}`, { photo: `${format ?? 'unknown'} is not accepted; ${ACCEPTED}` })
+  }
+  if (pixels > MAX_INPUT_PIXELS) {
+    throw new AppError(413, 'too_large', `photo: ${Math.round(pixels / 1e6)} megapixels is more than the ${MAX_INPUT_PIXELS / 1e6} accepted`, { photo: 'too many pixels' })
+  }
+  try {
+    const [display, thumbnail] = await Promise.all([variant(bytes, DISPLAY_MAX_PX, 82), variant(bytes, THUMBNAIL_MAX_PX, 76)])
+    return { originalFormat: format as PhotoFormat, display, thumbnail }
+  } catch {
+    // The header parsed but the pixels did not (a truncated or damaged file).
+    throw badRequest(`photo: the image data is damaged or incomplete; ${ACCEPTED}`, { photo: 'damaged or incomplete image' })
+  }
+}
+
+async function variant(bytes: Buffer, maxPx: number, quality: number): Promise<ProcessedImage> {
+  const { data, info } = await sharp(bytes, { limitInputPixels: MAX_INPUT_PIXELS, failOn: 'error' })
+    .rotate()
+    .resize({ width: maxPx, height: maxPx, fit: 'inside', withoutEnlargement: true })
+    .flatten({ background: '#ffffff' })
+    .jpeg({ quality, mozjpeg: true })
+    .toBuffer({ resolveWithObject: true })
+  return { data, width: info.width, height: info.height }
+}
