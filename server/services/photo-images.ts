@@ -1,4 +1,5 @@
-import sharp from 'sharp'
+// Loaded on the first photo, not at start-up: an instance that never takes a photo keeps ~25 MB.
+const loadSharp = () => import('sharp').then((m) => m.default)
 import { PHOTO_FORMATS } from '../../shared/schemas/photos'
 import { AppError, badRequest } from '../errors'
 import type { PhotoFormat } from '../models/photo'
@@ -20,6 +21,7 @@ const ACCEPTED = 'attach a JPEG, PNG or WebP image'
  * every browser can show it.
  */
 export async function processPhoto(bytes: Buffer): Promise<ProcessedPhoto> {
+  const sharp = await loadSharp()
   let format: string | undefined
   let pixels = 0
   try {
@@ -45,6 +47,7 @@ export async function processPhoto(bytes: Buffer): Promise<ProcessedPhoto> {
 }
 
 async function variant(bytes: Buffer, maxPx: number, quality: number): Promise<ProcessedImage> {
+  const sharp = await loadSharp()
   const { data, info } = await sharp(bytes, { limitInputPixels: MAX_INPUT_PIXELS, failOn: 'error' })
     .rotate()
     .resize({ width: maxPx, height: maxPx, fit: 'inside', withoutEnlargement: true })
