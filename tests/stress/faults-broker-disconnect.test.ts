@@ -32,7 +32,7 @@ describe('device connection dropped mid-batch (embedded broker)', () => {
   it('resends what was not acknowledged after each drop, and dedupe keeps one row per reading', async () => {
     const org = await s.createOrg('Marrowfen Aquatics flaky wifi')
     const node = await createTankWithDevice(s.ctx, org, 'Shrimp rack')
-    const load = mqttPublisher(s.mqttUrl, node, { metric: 'temperature', firstAt: Date.now() - 3600_000, everyMs: 5 })
+    const load = mqttPublisher(s.mqttUrl, node, { metric: 'temperature', firstAt: Date.now() - 3600_000, everyMs: 20 })
     const clientId = `fault-device-${node.deviceId}-${process.pid}`
     let drops = 0
     for (let round = 0; round < 6; round++) {
@@ -53,7 +53,7 @@ describe('device connection dropped mid-batch (embedded broker)', () => {
     }
     const before = load.acked.size
     expect(await until(() => load.acked.size > before + 40, 15_000)).toBe(true)
-    const { unacked } = await load.stop()
+    const { unacked } = await load.stop(60_000)
     await load.close()
     expect(unacked).toBe(0)
 
@@ -61,8 +61,8 @@ describe('device connection dropped mid-batch (embedded broker)', () => {
     expect(load.reconnects).toBeGreaterThanOrEqual(drops)
     // Messages the broker took in: more than were stored means some arrived twice and were deduplicated.
     const received = s.broker!.stats().messages
-    console.log(`[faults] connection drops: ${drops} drops, ${load.reconnects} reconnects, ${load.published.size} published, ${load.acked.size} acknowledged, ${received} messages received, ${stored.size} stored`)
-    expect(received).toBeGreaterThanOrEqual(stored.size)
+    console.log(`[faults] connection drops: ${drops} drops, ${load.reconnects} reconnects, ${load.published.size} published, ${load.acked.size} acknowledged, ${received} messages received, ${stored.size} stored, ${load.failures.length} given up by the client (${[...new Set(load.failures)].join('; ')})`)
+    expect(received).toBeGreaterThan(stored.size)
   })
 })
 
@@ -75,7 +75,7 @@ describe('app process with its embedded broker killed and restarted', () => {
     ctx = createContext(testConfig({ databaseUrl: db.url }))
     app = await appProcess(db.url)
     await app.start()
-  })
+  }, 180_000)
   afterAll(async () => {
     await app?.stop()
     app?.cleanup()
@@ -83,10 +83,10 @@ describe('app process with its embedded broker killed and restarted', () => {
     await db.drop()
   })
 
-  it('loses no acknowledged reading and stores none twice across a SIGKILL and an orderly restart', { timeout: 240_000 }, async () => {
+  it('loses no acknowledged reading and stores none twice across a SIGKILL and an orderly restart', { timeout: 480_000 }, async () => {
     const org = await createOrgIn(ctx, 'Marrowfen Aquatics power cut')
     const nodes = [await createTankWithDevice(ctx, org, 'Pond 1'), await createTankWithDevice(ctx, org, 'Pond 2')]
-    const loads = nodes.map((node, k) => mqttPublisher(app.mqttUrl, node, { metric: 'temperature', firstAt: Date.now() - (3 + k) * 3600_000, everyMs: 10 }))
+    const loads = nodes.map((node, k) => mqttPublisher(app.mqttUrl, node, { metric: 'temperature', firstAt: Date.now() - (3 + k) * 3600_000, everyMs: 50 }))
     const progress = async () => {
       const before = loads.map((l) => l.acked.size)
       return until(() => loads.every((l, k) => l.client.connected && l.acked.size > before[k] + 30), 60_000)
@@ -100,13 +100,13 @@ describe('app process with its embedded broker killed and restarted', () => {
     await app.start()
     expect(await progress()).toBe(true)
     for (const load of loads) {
-      expect((await load.stop()).unacked).toBe(0)
+      expect((await load.stop(60_000)).unacked).toBe(0)
       await load.close()
     }
     for (const [k, node] of nodes.entries()) {
       const stored = await expectStoredOnce(ctx, node.deviceId, loads[k])
       expect(loads[k].reconnects).toBeGreaterThanOrEqual(2)
-      console.log(`[faults] app restarts, device ${k + 1}: ${loads[k].published.size} published, ${loads[k].acked.size} acknowledged, ${stored.size} stored, ${loads[k].reconnects} reconnects`)
+      console.log(`[faults] app restarts, device ${k + 1}: ${loads[k].published.size} published, ${loads[k].acked.size} acknowledged, ${stored.size} stored, ${loads[k].reconnects} reconnects, ${loads[k].failures.length} given up by the client (${[...new Set(loads[k].failures)].join('; ')})`)
     }
     expect(app.starts).toBe(3)
   })

@@ -39,7 +39,7 @@ beforeAll(async () => {
   // A one-second engine tick, so holds that end between readings are noticed promptly.
   app = await appProcess(db.url, { RULES_TICK_SECONDS: '1' })
   await app.start()
-})
+}, 180_000)
 afterAll(async () => {
   await app?.stop()
   app?.cleanup()
@@ -61,7 +61,7 @@ const publish = (client: MqttClient, node: Node, at: number, value: number) =>
 const incidentsOf = (tankId: number) => ctx.models.Incident.findAll({ where: { tankId }, order: [['id', 'ASC']] })
 
 describe('app killed mid-hold of a rule', () => {
-  it('opens the incident at hold start + hold, once, whether the hold ends on a reading delivered after the restart or with the device gone quiet', { timeout: 240_000 }, async () => {
+  it('opens the incident at hold start + hold, once, whether the hold ends on a reading delivered after the restart or with the device gone quiet', { timeout: 480_000 }, async () => {
     // Both holds started 9 min 5 s ago, with readings every minute (28.6 and 28.7 °C) up to now.
     const holdStart = Date.now() - 9 * MIN - 5000
     const resentStart = holdStart

@@ -57,7 +57,8 @@ export async function appProcess(databaseUrl: string, env: Record<string, string
     let stderr = ''
     proc.stderr?.on('data', (d) => (stderr += d))
     await new Promise<void>((resolve, reject) => {
-      const timer = setTimeout(() => reject(new Error(`app did not start within 60 s:\n${stderr}`)), 60_000)
+      // Generous: tsx compiles the whole server on each start, on a machine shared with other jobs.
+      const timer = setTimeout(() => reject(new Error(`app did not start within 150 s:\n${stderr}`)), 150_000)
       proc.on('message', (m: { type?: string }) => {
         if (m?.type === 'ready') {
           clearTimeout(timer)

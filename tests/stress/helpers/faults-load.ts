@@ -32,6 +32,7 @@ export function mqttPublisher(url: string | (() => string), device: Device, opti
   const acked = new Set<number>()
   const published = new Set<number>()
   const pending = new Set<Promise<unknown>>()
+  const failures: string[] = []
   let reconnects = 0
   let stopped = false
   let seq = 0
@@ -56,7 +57,7 @@ export function mqttPublisher(url: string | (() => string), device: Device, opti
       const payload = JSON.stringify({ v: 1, readings: [{ metric: options.metric, value: options.value ?? 25 + (i % 10) / 10, time: new Date(at).toISOString() }] })
       const p = client.publishAsync(readingsTopic(device.deviceId), payload, { qos: 1 }).then(
         () => acked.add(at),
-        () => undefined,
+        (error: Error) => void failures.push(error.message),
       )
       pending.add(p)
       void p.finally(() => pending.delete(p))
@@ -67,6 +68,8 @@ export function mqttPublisher(url: string | (() => string), device: Device, opti
     client,
     acked,
     published,
+    /** Publishes the client itself gave up on (never acknowledged), with its reason. */
+    failures,
     get reconnects() {
       return reconnects
     },
