@@ -53,7 +53,7 @@ describe('device connection dropped mid-batch (embedded broker)', () => {
     }
     const before = load.acked.size
     expect(await until(() => load.acked.size > before + 40, 15_000)).toBe(true)
-    const { unacked } = await load.stop(60_000)
+    const { unacked } = await load.stop(30_000)
     await load.close()
     expect(unacked).toBe(0)
 
@@ -86,7 +86,7 @@ describe('app process with its embedded broker killed and restarted', () => {
   it('loses no acknowledged reading and stores none twice across a SIGKILL and an orderly restart', { timeout: 480_000 }, async () => {
     const org = await createOrgIn(ctx, 'Marrowfen Aquatics power cut')
     const nodes = [await createTankWithDevice(ctx, org, 'Pond 1'), await createTankWithDevice(ctx, org, 'Pond 2')]
-    const loads = nodes.map((node, k) => mqttPublisher(app.mqttUrl, node, { metric: 'temperature', firstAt: Date.now() - (3 + k) * 3600_000, everyMs: 50 }))
+    const loads = nodes.map((node, k) => mqttPublisher(app.mqttUrl, node, { metric: 'temperature', firstAt: Date.now() - (3 + k) * 3600_000, everyMs: 100 }))
     const progress = async () => {
       const before = loads.map((l) => l.acked.size)
       return until(() => loads.every((l, k) => l.client.connected && l.acked.size > before[k] + 30), 60_000)
@@ -100,7 +100,7 @@ describe('app process with its embedded broker killed and restarted', () => {
     await app.start()
     expect(await progress()).toBe(true)
     for (const load of loads) {
-      expect((await load.stop(60_000)).unacked).toBe(0)
+      expect((await load.stop(30_000)).unacked).toBe(0)
       await load.close()
     }
     for (const [k, node] of nodes.entries()) {

@@ -73,11 +73,22 @@ export function mqttPublisher(url: string | (() => string), device: Device, opti
     get reconnects() {
       return reconnects
     },
-    /** Stops publishing and waits (up to `waitMs`) for the acknowledgements still due. */
-    async stop(waitMs = 20_000) {
+    /**
+     * Stops publishing and waits for the acknowledgements still due, for as long as they keep
+     * coming (a busy machine drains a backlog slowly); gives up after `stallMs` without one.
+     */
+    async stop(stallMs = 20_000) {
       stopped = true
       await loop
-      await Promise.race([Promise.all([...pending]), sleep(waitMs)])
+      let left = pending.size
+      let lastProgress = Date.now()
+      while (pending.size && Date.now() - lastProgress < stallMs) {
+        await sleep(100)
+        if (pending.size < left) {
+          left = pending.size
+          lastProgress = Date.now()
+        }
+      }
       return { unacked: pending.size }
     },
     async close() {
