@@ -48,6 +48,8 @@ export class BatchWriter {
   private timer: NodeJS.Timeout | null = null
   private inFlight = 0
   private retryDelayMs = 0
+  /** While unhealthy, when the next unheld write may go through as a probe of the database. */
+  private probeAt = 0
   healthy = true
   refusedRows = 0
   private readonly flushMs: number
@@ -73,7 +75,12 @@ export class BatchWriter {
 
   write(rows: ReadingRow[], { hold = false } = {}): Promise<boolean[]> {
     if (!rows.length) return Promise.resolve([])
-    if (!hold && !this.healthy) return Promise.reject(new DatabaseUnavailableError())
+    // Unheld writes fail fast while the database is away, but one gets through every retry delay:
+    // without held writes in the queue nothing else would notice that the database is back.
+    if (!hold && !this.healthy) {
+      if (Date.now() < this.probeAt) return Promise.reject(new DatabaseUnavailableError())
+      this.probeAt = Date.now() + this.retryDelayMs
+    }
     if (this.queuedRows + rows.length > this.maxBufferedRows) {
       this.refusedRows += rows.length
       this.logger.warn({ refused: rows.length, buffered: this.queuedRows }, 'reading buffer full; readings refused')
@@ -137,6 +144,7 @@ export class BatchWriter {
     } catch (error) {
       this.healthy = false
       this.retryDelayMs = Math.min(5000, Math.max(250, this.retryDelayMs * 2))
+      this.probeAt = Date.now() + this.retryDelayMs
       this.logger.error({ err: error, rows: batch.reduce((n, p) => n + p.rows.length, 0) }, 'writing readings failed')
       // Held writes go back to the front of the queue and wait for the database; the rest fail now.
       const held = batch.filter((p) => p.hold)

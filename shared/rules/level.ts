@@ -121,13 +121,13 @@ function observe(
     case 'clear': {
       if (!judge.breached(value, at)) return { state }
       const onset = fresh || state.lastReadingAt === undefined ? at : onsetAfter(judge, value, state.lastReadingAt, at)
-      if (at >= onset + judge.holdMs) return trip(state, at, value, onset)
+      if (at >= onset + judge.holdMs) return trip(state, fresh ? at : onset + judge.holdMs, value, onset)
       return { state: { ...state, status: 'holding', since: onset } }
     }
     case 'holding': {
       const holdStart = state.since ?? at
       if (!judge.breached(value, at)) return { state: toClear(state) }
-      if (at >= holdStart + judge.holdMs) return trip(state, at, value, holdStart)
+      if (at >= holdStart + judge.holdMs) return trip(state, fresh ? at : holdStart + judge.holdMs, value, holdStart)
       return { state }
     }
     case 'tripped': {
@@ -147,9 +147,11 @@ export function evaluateLevel(judge: LevelJudge, state: RuleState, input: RuleIn
   }
   if (state.lastValue === undefined) return { state }
   if (judge.judgesOnTicks) return observe(judge, state, input.at, state.lastValue, false)
-  // The last reading is taken to stand until the next one, so a tick can only end a hold.
+  // The last reading is taken to stand until the next one, so a tick can only end a hold. The
+  // trip is dated when the hold ended, not when a tick noticed: a tick from an engine rebuilt
+  // after a restart may come long after, and it must open the incident where a running one would.
   if (state.status === 'holding' && state.since !== undefined && input.at >= state.since + judge.holdMs) {
-    return trip(state, input.at, state.lastValue, state.since)
+    return trip(state, state.since + judge.holdMs, state.lastValue, state.since)
   }
   return { state }
 }

@@ -74,12 +74,12 @@ group('restart while tripped', () => {
 
   it('replay lists the events a stored history produced, the final tick included', () => {
     const history = [{ at: at(0), value: 28.5 }, { at: at(2), value: 28.6 }]
-    expect(replay(above, history, at(12)).events.map(describeEvent)).toEqual(['trip@12 28.6 since@0'])
+    expect(replay(above, history, at(12)).events.map(describeEvent)).toEqual(['trip@10 28.6 since@0'])
   })
 
-  it('trips on the restart tick when the hold ended during the downtime', () => {
+  it('trips on the restart tick, dated when the hold ended during the downtime', () => {
     const state = rebuildState(above, [{ at: at(0), value: 28.5 }], at(30))
-    expect(state).toMatchObject({ status: 'tripped', since: at(30) })
+    expect(state).toMatchObject({ status: 'tripped', since: at(10) })
   })
 })
 
