@@ -20,6 +20,8 @@ export const PERMISSIONS = {
   'roster.manage': ['owner'],
   'care.write': ['owner', 'keeper'],
   'care.manage': ['owner'],
+  'reports.read': ['owner', 'keeper', 'viewer'],
+  'reports.manage': ['owner'],
 } as const satisfies Record<string, readonly Caller[]>
 
 export type Permission = keyof typeof PERMISSIONS

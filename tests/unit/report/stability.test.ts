@@ -116,3 +116,16 @@ describe('stability of one metric over a period', () => {
     expect(() => stability({ readings: [], from: T0, to: T0, band })).toThrow(RangeError)
   })
 })
+
+describe('chart series', () => {
+  it('bucket means, carried values where a reading still holds, null inside a gap', async () => {
+    const { chartSeries } = await import('../../../shared/report/series')
+    // 6 buckets of 10 min over an hour. Readings at 0, 5 (bucket 0), 20 (bucket 2), 50 (bucket 5);
+    // the 20→50 step is a gap, so buckets 3 and 4 (middles 35, 45) are null; bucket 1 carries 26.
+    const readings = [r(0, 25), r(5, 27), r(20, 28), r(50, 24)]
+    const gaps = [{ from: T0 + 20 * MIN, to: T0 + 50 * MIN, durationMs: 30 * MIN }]
+    const points = chartSeries(readings, T0, T0 + HOUR, gaps, 6)
+    expect(points.map(([, v]) => v)).toEqual([26, 26, 28, null, null, 24])
+    expect(points[0]![0]).toBe(T0 + 5 * MIN)
+  })
+})
