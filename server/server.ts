@@ -52,7 +52,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
   const mail: RunningMail = await startMail(ctx)
   ctx.alerts.notifier = createMailNotifier(ctx)
   const rules = startRuleEngine(ctx, ctx.alerts.notifier, config.alertTiming, config.rulesTickMs)
-  const stopReports = startReportJob(ctx)
+  const stopReports = startReportJob(ctx, { everyMs: config.reportScheduleTickMs })
   const stopRetention = startRetentionJob(ctx, { rawRetentionDays: config.rawRetentionDays, everyMs: 3600_000 })
 
   logger.info({ port, mqttPort: broker?.port ?? null }, 'Tankwarden is listening')
