@@ -3,6 +3,7 @@ import { resetLiveSocket } from '@/composables/useLiveSocket'
 import { useCareStore } from './care'
 import { useDevMailStore } from './dev-mail'
 import { useLiveStore } from './live'
+import { useReportsStore } from './reports'
 import { useSitesStore } from './sites'
 import { useTanksStore } from './tanks'
 import { useUsersStore } from './users'
@@ -15,5 +16,6 @@ export function resetSessionStores(pinia?: Pinia) {
   useLiveStore(pinia).$reset()
   useDevMailStore(pinia).$reset()
   useCareStore(pinia).$reset()
+  useReportsStore(pinia).$reset()
   resetLiveSocket()
 }
