@@ -56,7 +56,7 @@ describe('the report screen', () => {
       expect(pdfPageCount(pdf)).toBeGreaterThanOrEqual(1)
 
       await page.locator('[data-test="report-previous"]').click()
-      await page.waitForFunction(() => document.querySelector('[data-test="report-period-label"]')?.textContent?.includes('Week 44 of 2026'))
+      await page.locator('[data-test="report-period-label"]', { hasText: 'Week 44 of 2026' }).waitFor()
       expect(new URL(page.url()).searchParams.get('date')).toBe('2026-11-01')
     } finally {
       await context.close()

@@ -75,7 +75,7 @@ describe('scheduled client reports by mail', () => {
     const before = (await mailbox()).length
     const res = await fetch(`${s.baseUrl}/api/v1/report-schedules/${row.id}/send-now`, { method: 'POST', headers: bearer(org.users.owner.token) })
     expect(res.status).toBe(200)
-    const body = await res.json()
+    const body = (await res.json()) as { queued: number; period: { label: string } }
     expect(body.queued).toBe(1)
     const mails = (await deliver()).slice(before)
     expect(mails.map((m) => m.envelope_to[0])).toEqual(['now@marrowfen.example'])
