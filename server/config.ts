@@ -29,6 +29,7 @@ const envSchema = z.object({
   MAX_READING_AGE_DAYS: z.coerce.number().int().min(1).max(3650).default(400),
   RAW_RETENTION_DAYS: z.coerce.number().int().min(1).max(3650).default(90),
   RULES_TICK_SECONDS: z.coerce.number().positive().max(300).default(10),
+  REPORT_SCHEDULE_SECONDS: z.coerce.number().positive().max(3600).default(60),
   ESCALATE_ALARM_MINUTES: z.coerce.number().positive().max(1440).default(15),
   ESCALATE_WARNING_MINUTES: z.coerce.number().positive().max(1440).default(60),
   REPEAT_MINUTES: z.coerce.number().positive().max(1440).default(30),
@@ -65,6 +66,8 @@ export type Config = Readonly<{
   readingLimits: { maxFutureSeconds: number; maxAgeDays: number }
   rawRetentionDays: number
   rulesTickMs: number
+  /** How often the scheduled-report job looks for reports due. */
+  reportScheduleTickMs: number
   alertTiming: { escalateAlarmAfterMinutes: number; escalateWarningAfterMinutes: number; repeatEveryMinutes: number }
   mail: { smtpUrl?: string; fakeSmtpPort: number; from: string }
   photos: { maxBytes: number; store: PhotoStoreSettings }
@@ -111,6 +114,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     readingLimits: { maxFutureSeconds: e.MAX_FUTURE_SECONDS, maxAgeDays: e.MAX_READING_AGE_DAYS },
     rawRetentionDays: e.RAW_RETENTION_DAYS,
     rulesTickMs: e.RULES_TICK_SECONDS * 1000,
+    reportScheduleTickMs: e.REPORT_SCHEDULE_SECONDS * 1000,
     alertTiming: { escalateAlarmAfterMinutes: e.ESCALATE_ALARM_MINUTES, escalateWarningAfterMinutes: e.ESCALATE_WARNING_MINUTES, repeatEveryMinutes: e.REPEAT_MINUTES },
     mail: { smtpUrl: e.SMTP_URL, fakeSmtpPort: e.FAKE_SMTP_PORT, from: e.MAIL_FROM },
     photos: {
@@ -142,6 +146,7 @@ export function testConfig(overrides: Partial<Config> & { databaseUrl: string })
     readingLimits: { maxFutureSeconds: 300, maxAgeDays: 400 },
     rawRetentionDays: 90,
     rulesTickMs: 10_000,
+    reportScheduleTickMs: 60_000,
     alertTiming: { escalateAlarmAfterMinutes: 15, escalateWarningAfterMinutes: 60, repeatEveryMinutes: 30 },
     mail: { fakeSmtpPort: 0, from: 'Tankwarden <alerts@tankwarden.invalid>' },
     photos: { maxBytes: 15 * 1024 * 1024, store: { kind: 'local' as const } },

@@ -21,6 +21,8 @@ export const PERMISSIONS = {
   'care.write': ['owner', 'keeper'],
   'care.manage': ['owner'],
   'photos.write': ['owner', 'keeper'],
+  'reports.read': ['owner', 'keeper', 'viewer'],
+  'reports.manage': ['owner'],
 } as const satisfies Record<string, readonly Caller[]>
 
 export type Permission = keyof typeof PERMISSIONS

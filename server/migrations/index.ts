@@ -9,6 +9,7 @@ import createWallCredentials from './202612020400-create-wall-credentials'
 import createCare from './202612020410-create-care'
 import createPasswordResets from './202612020420-create-password-resets'
 import createPhotos from './202612021300-create-photos'
+import createReportSchedules from './202612021400-create-report-schedules'
 
 /** Every migration in order. Add new files here; never edit one that has shipped. */
 export const migrations: Migration[] = [
@@ -22,4 +23,5 @@ export const migrations: Migration[] = [
   createCare,
   createPasswordResets,
   createPhotos,
+  createReportSchedules,
 ]

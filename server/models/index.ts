@@ -14,12 +14,13 @@ import { DutyShift, DutyOverride } from './duty'
 import { WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink } from './alerts'
 import { CareTask, CareLogEntry, LivestockEntry, WaterChange } from './care'
 import { Photo } from './photo'
+import { ReportSchedule } from './report-schedule'
 
-export { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange, Photo }
+export { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange, Photo, ReportSchedule }
 
 /** Binds every model to this Sequelize instance and declares the associations, in one place. */
 export function initModels(sequelize: Sequelize) {
-  for (const model of [Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange, Photo]) model.initModel(sequelize)
+  for (const model of [Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange, Photo, ReportSchedule]) model.initModel(sequelize)
   User.belongsToMany(Site, { through: UserSite, as: 'sites', foreignKey: 'userId', otherKey: 'siteId' })
   Tank.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
   Site.hasMany(Tank, { as: 'tanks', foreignKey: 'siteId' })
@@ -29,6 +30,6 @@ export function initModels(sequelize: Sequelize) {
   TestKitEntry.hasMany(TestKitEntryRevision, { as: 'revisions', foreignKey: 'entryId' })
   Incident.belongsTo(Tank, { as: 'tank', foreignKey: 'tankId' })
   Incident.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
-  return { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange, Photo }
+  return { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange, Photo, ReportSchedule }
 }
 export type Models = ReturnType<typeof initModels>

@@ -18,6 +18,7 @@ import { sitesRouter } from './sites'
 import { tanksRouter } from './tanks'
 import { usersRouter } from './users'
 import { photosRouter, tankPhotoRoutes } from './photos'
+import { reportRoutes, reportSchedulesRouter } from './reports'
 
 export const API_VERSION = '0.1.0'
 
@@ -47,6 +48,9 @@ export function apiRouter(ctx: AppContext) {
   router.use(['/care-tasks', '/water-changes', '/care'], requireUser)
   router.use(careRouter(ctx))
   router.use('/ack-links', ackLinksRouter(ctx))
+  router.use('/tanks', requireUser, reportRoutes(ctx, 'tank'))
+  router.use('/sites', requireUser, reportRoutes(ctx, 'site'))
+  router.use('/report-schedules', requireUser, reportSchedulesRouter(ctx))
   router.use('/devices', requireUser, devicesRouter(ctx))
   router.use('/photos', requireUser, photosRouter(ctx))
   router.use('/readings', authenticateDevice(passport), readingsRouter(ctx))

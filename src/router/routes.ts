@@ -75,6 +75,7 @@ export const routes: RouteRecordRaw[] = [
         props: (route) => ({ id: Number(route.params.id) }),
         meta: { title: 'Edit tank', roles: EDITORS },
       },
+      { path: 'reports', name: 'report', component: () => import('@/views/ReportView.vue'), meta: { title: 'Report' } },
       { path: 'sites', name: 'sites', component: () => import('@/views/SitesView.vue'), meta: { title: 'Sites' } },
       {
         path: 'sites/:id(\\d+)/roster',

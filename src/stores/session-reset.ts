@@ -4,6 +4,7 @@ import { useCareStore } from './care'
 import { useDevMailStore } from './dev-mail'
 import { useLiveStore } from './live'
 import { usePhotosStore } from './photos'
+import { useReportsStore } from './reports'
 import { useSitesStore } from './sites'
 import { useTanksStore } from './tanks'
 import { useUsersStore } from './users'
@@ -17,5 +18,6 @@ export function resetSessionStores(pinia?: Pinia) {
   useDevMailStore(pinia).$reset()
   useCareStore(pinia).$reset()
   usePhotosStore(pinia).$reset()
+  useReportsStore(pinia).$reset()
   resetLiveSocket()
 }

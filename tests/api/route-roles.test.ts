@@ -86,6 +86,12 @@ const CHECKED_IN_CARE_ROLES = [
 const CHECKED_IN_PHOTO_ROLES = [
   'GET /tanks/:id/photos', 'POST /tanks/:id/photos', 'GET /photos/:id', 'GET /photos/:id/image', 'GET /photos/:id/thumbnail', 'DELETE /photos/:id',
 ]
+/** The report routes have their role matrix in report-roles.test.ts (owner, keeper, viewer, other org, no token). */
+const CHECKED_IN_REPORT_ROLES = [
+  'GET /tanks/:id/report', 'GET /tanks/:id/report/pdf', 'GET /sites/:id/report', 'GET /sites/:id/report/pdf',
+  'GET /report-schedules', 'POST /report-schedules', 'PATCH /report-schedules/:id', 'DELETE /report-schedules/:id',
+  'POST /report-schedules/:id/send-now',
+]
 
 /** One row per route the API serves. A new route adds a row here; the coverage test below insists. */
 const ROUTES: RouteCase[] = [
@@ -378,7 +384,7 @@ describe('the table itself', () => {
     const served = walk((t.app as unknown as { router: { stack: Layer[] } }).router.stack, '')
       .map((r) => r.replace(' /api/v1', ' '))
       .sort()
-    const listed = [...ROUTES.map((r) => `${r.method.toUpperCase()} ${r.route}`), ...CHECKED_IN_CARE_ROLES, ...CHECKED_IN_PHOTO_ROLES].sort()
+    const listed = [...ROUTES.map((r) => `${r.method.toUpperCase()} ${r.route}`), ...CHECKED_IN_CARE_ROLES, ...CHECKED_IN_PHOTO_ROLES, ...CHECKED_IN_REPORT_ROLES].sort()
     const notInTable = served.filter((r) => !listed.includes(r))
     const notServed = listed.filter((r) => !served.includes(r))
     expect({ notInTable, notServed }).toEqual({ notInTable: [], notServed: [] })

@@ -1,0 +1,78 @@
+// Report periods on the site's own calendar: an ISO week (Monday to Sunday) or a calendar month.
+import { addDays, formatLocalDate, localDateAt, localToInstant, parseLocalDate, weekdayOf, type LocalDate } from '../roster/zoned-time'
+
+export const REPORT_PERIOD_KINDS = ['week', 'month'] as const
+export type ReportPeriodKind = (typeof REPORT_PERIOD_KINDS)[number]
+
+export type ReportPeriod = {
+  kind: ReportPeriodKind
+  timeZone: string
+  /** First local day, `YYYY-MM-DD`. */
+  startDate: string
+  /** The local day after the last one, `YYYY-MM-DD` (exclusive). */
+  endDate: string
+  /** Local midnight at the start and at the end, as instants (ms). */
+  from: number
+  to: number
+  /** Any day of the period before and of the one after, for navigation. */
+  previousDate: string
+  nextDate: string
+  label: string
+}
+
+function firstOfMonth(date: LocalDate, monthsAhead = 0): LocalDate {
+  const index = date.year * 12 + (date.month - 1) + monthsAhead
+  return { year: Math.floor(index / 12), month: (index % 12) + 1, day: 1 }
+}
+
+const MONTH_NAMES = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December']
+
+/** The ISO week number and its year (the year of the week's Thursday). */
+export function isoWeek(date: LocalDate): { year: number; week: number } {
+  const thursday = addDays(date, 3 - weekdayOf(date))
+  const jan1 = Date.UTC(thursday.year, 0, 1)
+  const day = Math.round((Date.UTC(thursday.year, thursday.month - 1, thursday.day) - jan1) / 86_400_000)
+  return { year: thursday.year, week: Math.floor(day / 7) + 1 }
+}
+
+/** The period of `kind` holding the local day `date` (`YYYY-MM-DD`) in `timeZone`. */
+export function reportPeriod(kind: ReportPeriodKind, date: string, timeZone: string): ReportPeriod {
+  const day = parseLocalDate(date)
+  let start: LocalDate
+  let end: LocalDate
+  let label: string
+  if (kind === 'week') {
+    start = addDays(day, -weekdayOf(day))
+    end = addDays(start, 7)
+    const { year, week } = isoWeek(start)
+    label = `Week ${week} of ${year} (${formatLocalDate(start)} to ${formatLocalDate(addDays(end, -1))})`
+  } else {
+    start = firstOfMonth(day)
+    end = firstOfMonth(day, 1)
+    label = `${MONTH_NAMES[start.month - 1]} ${start.year}`
+  }
+  return {
+    kind,
+    timeZone,
+    startDate: formatLocalDate(start),
+    endDate: formatLocalDate(end),
+    from: localToInstant(timeZone, start, 0),
+    to: localToInstant(timeZone, end, 0),
+    previousDate: formatLocalDate(addDays(start, -1)),
+    nextDate: formatLocalDate(end),
+    label,
+  }
+}
+
+/** The last whole period that ended at or before `now`. */
+export function lastEndedPeriod(kind: ReportPeriodKind, now: number, timeZone: string): ReportPeriod {
+  const current = reportPeriod(kind, formatLocalDate(localDateAt(timeZone, now)), timeZone)
+  return reportPeriod(kind, current.previousDate, timeZone)
+}
+
+/** Local days of [startDate, endDate) as `LocalDate`s. */
+export function daysOf(period: Pick<ReportPeriod, 'startDate' | 'endDate'>): LocalDate[] {
+  const days: LocalDate[] = []
+  for (let d = parseLocalDate(period.startDate); formatLocalDate(d) < period.endDate; d = addDays(d, 1)) days.push(d)
+  return days
+}
