@@ -2,6 +2,7 @@ import type { Pinia } from 'pinia'
 import { resetLiveSocket } from '@/composables/useLiveSocket'
 import { useCareStore } from './care'
 import { useDevMailStore } from './dev-mail'
+import { useExportsStore } from './exports'
 import { useLiveStore } from './live'
 import { useSitesStore } from './sites'
 import { useTanksStore } from './tanks'
@@ -15,5 +16,6 @@ export function resetSessionStores(pinia?: Pinia) {
   useLiveStore(pinia).$reset()
   useDevMailStore(pinia).$reset()
   useCareStore(pinia).$reset()
+  useExportsStore(pinia).$reset()
   resetLiveSocket()
 }
