@@ -1,5 +1,6 @@
-import { MAX_EXPORT_DAYS } from '@shared/schemas/exports'
-import { addDays, formatLocalDate, localDateAt, localToInstant, parseLocalDate } from '@shared/roster/zoned-time'
+// Relative imports: the unit tests (server tsconfig, no @shared alias) import this file too.
+import { MAX_EXPORT_DAYS } from '../../../shared/schemas/exports'
+import { addDays, formatLocalDate, localDateAt, localToInstant, parseLocalDate } from '../../../shared/roster/zoned-time'
 
 export type RangeCheck = { from: Date; to: Date } | { error: string }
 
