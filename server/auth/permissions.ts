@@ -23,6 +23,7 @@ export const PERMISSIONS = {
   'photos.write': ['owner', 'keeper'],
   'reports.read': ['owner', 'keeper', 'viewer'],
   'reports.manage': ['owner'],
+  'org.backup': ['owner'],
 } as const satisfies Record<string, readonly Caller[]>
 
 export type Permission = keyof typeof PERMISSIONS

@@ -19,6 +19,8 @@ import { tanksRouter } from './tanks'
 import { usersRouter } from './users'
 import { photosRouter, tankPhotoRoutes } from './photos'
 import { reportRoutes, reportSchedulesRouter } from './reports'
+import { exportRoutes } from './exports'
+import { backupRouter } from './backup'
 
 export const API_VERSION = '0.1.0'
 
@@ -37,9 +39,9 @@ export function apiRouter(ctx: AppContext) {
   router.use('/users', requireUser, usersRouter(ctx))
   // The wall answers wall displays too, so it is mounted ahead of the people-only /sites chain.
   router.use('/sites', wallRoute(ctx, authenticate(passport, ['user-jwt', 'wall-token'])))
-  router.use('/sites', requireUser, sitesRouter(ctx), siteRulesRoutes(ctx), rosterRoutes(ctx), siteWallCredentialRoutes(ctx), siteCareRoutes(ctx))
+  router.use('/sites', requireUser, sitesRouter(ctx), siteRulesRoutes(ctx), rosterRoutes(ctx), siteWallCredentialRoutes(ctx), siteCareRoutes(ctx), exportRoutes(ctx, 'site'))
   router.use('/wall-credentials', requireUser, wallCredentialsRouter(ctx))
-  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx), tankRulesRoutes(ctx), careRoutes(ctx), tankPhotoRoutes(ctx))
+  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx), tankRulesRoutes(ctx), careRoutes(ctx), tankPhotoRoutes(ctx), exportRoutes(ctx, 'tank'))
   router.use('/test-kit-entries', requireUser, testKitEntriesRouter(ctx))
   router.use('/rules', requireUser, rulesRouter(ctx))
   router.use('/snoozes', requireUser, snoozesRouter(ctx))
@@ -53,6 +55,7 @@ export function apiRouter(ctx: AppContext) {
   router.use('/report-schedules', requireUser, reportSchedulesRouter(ctx))
   router.use('/devices', requireUser, devicesRouter(ctx))
   router.use('/photos', requireUser, photosRouter(ctx))
+  router.use('/backup', requireUser, backupRouter(ctx))
   router.use('/readings', authenticateDevice(passport), readingsRouter(ctx))
   // The local fake mailbox, only where no real SMTP server is configured and never in production.
   if (!ctx.config.mail.smtpUrl && ctx.config.env !== 'production') router.use('/dev/mail', requireUser, allow('mail.dev'), devMailRouter(ctx))

@@ -105,6 +105,12 @@ export const routes: RouteRecordRaw[] = [
         component: () => import('@/views/UsersView.vue'),
         meta: { title: 'People', roles: ['owner'] },
       },
+      {
+        path: 'backup',
+        name: 'backup',
+        component: () => import('@/views/BackupView.vue'),
+        meta: { title: 'Backup', roles: ['owner'] },
+      },
       { path: 'account', name: 'account', component: () => import('@/views/AccountView.vue'), meta: { title: 'Account' } },
       {
         path: ':pathMatch(.*)*',

@@ -2,6 +2,7 @@ import type { Pinia } from 'pinia'
 import { resetLiveSocket } from '@/composables/useLiveSocket'
 import { useCareStore } from './care'
 import { useDevMailStore } from './dev-mail'
+import { useExportsStore } from './exports'
 import { useLiveStore } from './live'
 import { usePhotosStore } from './photos'
 import { useReportsStore } from './reports'
@@ -19,5 +20,6 @@ export function resetSessionStores(pinia?: Pinia) {
   useCareStore(pinia).$reset()
   usePhotosStore(pinia).$reset()
   useReportsStore(pinia).$reset()
+  useExportsStore(pinia).$reset()
   resetLiveSocket()
 }

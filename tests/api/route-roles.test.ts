@@ -58,6 +58,7 @@ const ownerDeletes = signedIn(204, 403, 403, 404)
 const readable = signedIn(200, 200, 200, 404)
 const handlers = signedIn(200, 200, 403, 404)
 const HOUR = 3600_000
+const EXPORT_RANGE = 'from=2026-03-01T00:00:00Z&to=2026-04-01T00:00:00Z'
 const inHours = (h: number) => new Date(Date.now() + h * HOUR).toISOString()
 const ruleBody = { name: 'pH below 6.5', severity: 'warning', spec: { kind: 'below', metric: 'ph', limit: 6.5 } }
 const storedRule = { name: 'pH below 6.5', severity: 'warning', spec: { kind: 'below', metric: 'ph', limit: 6.5, holdMinutes: 0, clearMargin: 0 } } as const
@@ -197,6 +198,14 @@ const ROUTES: RouteCase[] = [
   row('get', '/dev/mail', signedIn(200, 403, 403, 200)),
   row('get', '/dev/mail/:id', ownerOnly, async (w) => ({ param: await w.freshMail() })),
   row('delete', '/dev/mail', signedIn(204, 403, 403, 204)),
+  // Exports: every role reads what it can see; the backup belongs to each owner's own organization.
+  ...(['readings', 'incidents', 'care-log'] as const).flatMap((kind) => [
+    row('get', `/tanks/:id/exports/${kind}.csv`, readable, async (w) => ({ param: await w.freshTank(), query: EXPORT_RANGE })),
+    row('get', `/sites/:id/exports/${kind}.csv`, readable, async (w) => ({ param: await w.freshSite(), query: EXPORT_RANGE })),
+  ]),
+  row('get', '/backup', signedIn(200, 403, 403, 200)),
+  // No file sent: an owner reaches the upload check (400), others stop at the role.
+  row('post', '/backup/restore', signedIn(400, 403, 403, 400)),
 ]
 
 const ERROR_CODES: Record<number, string> = { 400: 'invalid_input', 401: 'unauthenticated', 403: 'forbidden', 404: 'not_found' }

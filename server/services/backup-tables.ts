@@ -1,0 +1,181 @@
+import { z } from 'zod'
+
+/**
+ * What an organization backup holds, table by table, in the order a restore inserts them.
+ * Columns are named as in PostgreSQL. A column typed `->table` is an id of that table's rows and
+ * is remapped on restore; a trailing `?` allows null. Secrets never leave: no password or token
+ * hashes, no sessions, invitations, wall keys, reset or acknowledge links, no mail.
+ */
+type Kind = 'text' | 'int' | 'float' | 'bool' | 'time' | 'date' | 'json' | 'text[]'
+export type BackupTableName = (typeof BACKUP_TABLES)[number]['table']
+type Column = Kind | `${Kind}?` | `->${string}` | `->${string}?`
+
+export interface BackupTable {
+  table: string
+  columns: Record<string, Column>
+  /** Rows have a serial `id` the backup carries, so other tables can point at them. */
+  hasId: boolean
+  /** Which rows belong to the organization `:organizationId`, for tables without that column. */
+  scope?: string
+  /** References written after every table is in (a cycle, or a table pointing at itself). */
+  deferred?: string[]
+  order: string
+}
+
+export const BACKUP_TABLES = [
+  {
+    table: 'users', hasId: true, order: 'id',
+    columns: { email: 'text', name: 'text', role: 'text', active: 'bool', unit_preferences: 'json' },
+  },
+  {
+    table: 'sites', hasId: true, order: 'id',
+    columns: { name: 'text', time_zone: 'text', address: 'text', notes: 'text', archived_at: 'time?', backup_user_id: '->users?' },
+  },
+  {
+    table: 'user_sites', hasId: false, order: 'user_id, site_id',
+    scope: 'user_id IN (SELECT id FROM users WHERE organization_id = :organizationId)',
+    columns: { user_id: '->users', site_id: '->sites' },
+  },
+  {
+    table: 'tanks', hasId: true, order: 'id',
+    columns: {
+      site_id: '->sites', name: 'text', kind: 'text', stage: 'text', dimensions: 'json?', volume_litres: 'float',
+      volume_source: 'text', substrate_depth_cm: 'float', heater: 'json?', filter: 'text', media: 'text',
+      light_schedule: 'json?', targets: 'json', notes: 'text', sort_order: 'int', archived_at: 'time?',
+    },
+  },
+  {
+    table: 'devices', hasId: true, order: 'id',
+    columns: { tank_id: '->tanks', name: 'text', metrics: 'text[]', interval_seconds: 'int', revoked_at: 'time?' },
+  },
+  {
+    table: 'watch_rules', hasId: true, order: 'id', deferred: ['overrides_rule_id'],
+    columns: {
+      site_id: '->sites', tank_id: '->tanks?', overrides_rule_id: '->watch_rules?', name: 'text', severity: 'text',
+      spec: 'json', enabled: 'bool', created_by: '->users?',
+    },
+  },
+  {
+    table: 'incidents', hasId: true, order: 'id',
+    columns: {
+      site_id: '->sites', tank_id: '->tanks', rule_id: '->watch_rules?', rule_kind: 'text', metric: 'text', severity: 'text',
+      title: 'text', state: 'text', condition_since: 'time', opened_at: 'time', first_value: 'float?', peak_value: 'float?',
+      latest_value: 'float?', latest_at: 'time?', snoozed: 'bool', acknowledged_at: 'time?', acknowledged_by: '->users?',
+      acknowledge_note: 'text?', resolved_at: 'time?', resolved_by: '->users?', resolve_note: 'text?',
+      escalation_level: 'int', next_escalation_at: 'time?', next_repeat_at: 'time?',
+    },
+  },
+  {
+    table: 'incident_events', hasId: true, order: 'id',
+    scope: 'incident_id IN (SELECT id FROM incidents WHERE organization_id = :organizationId)',
+    columns: { incident_id: '->incidents', at: 'time', kind: 'text', user_id: '->users?', detail: 'json' },
+  },
+  {
+    table: 'snoozes', hasId: true, order: 'id',
+    columns: {
+      tank_id: '->tanks', reason: 'text', starts_at: 'time', ends_at: 'time', weekly: 'bool', repeat_until: 'time?',
+      include_heater_line: 'bool', created_by: '->users?', reminded_at: 'time?', cancelled_at: 'time?',
+    },
+  },
+  {
+    table: 'duty_shifts', hasId: true, order: 'id',
+    columns: { site_id: '->sites', user_id: '->users', weekday: 'int', start_time: 'text', end_time: 'text' },
+  },
+  {
+    table: 'duty_overrides', hasId: true, order: 'id',
+    columns: { site_id: '->sites', user_id: '->users', kind: 'text', starts_at: 'time', ends_at: 'time', note: 'text', created_by: '->users?' },
+  },
+  {
+    table: 'care_tasks', hasId: true, order: 'id',
+    columns: {
+      tank_id: '->tanks', kind: 'text', title: 'text', recurrence: 'json', default_values: 'json', starts_on: 'date?',
+      last_done_at: 'time?', last_done_by: '->users?', snoozed_until: 'time?', snooze_reason: 'text?', active: 'bool',
+      created_by: '->users?',
+    },
+  },
+  {
+    table: 'water_changes', hasId: true, order: 'id', deferred: ['care_log_entry_id'],
+    columns: {
+      tank_id: '->tanks', status: 'text', plan: 'json', heater_off_confirmed: 'bool', temporary_rule_id: '->watch_rules?',
+      started_at: 'time', started_by: '->users?', finished_at: 'time?', finished_by: '->users?', litres_replaced: 'float?',
+      dechlorinator_ml: 'float?', new_water_temp_c: 'float?', care_log_entry_id: '->care_log?',
+    },
+  },
+  {
+    table: 'care_log', hasId: true, order: 'id',
+    columns: {
+      tank_id: '->tanks', kind: 'text', at: 'time', user_id: '->users?', text: 'text', values: 'json',
+      care_task_id: '->care_tasks?', water_change_id: '->water_changes?',
+    },
+  },
+  {
+    table: 'livestock', hasId: true, order: 'id',
+    columns: {
+      tank_id: '->tanks', species_key: 'text?', name: 'text', category: 'text', count: 'int', losses: 'int', added_at: 'time',
+      source: 'text', notes: 'text', removed_at: 'time?', watch_until: 'time?', created_by: '->users?',
+    },
+  },
+  {
+    table: 'test_kit_entries', hasId: true, order: 'id',
+    columns: { tank_id: '->tanks', entered_by: '->users?', taken_at: 'time', values: 'json', notes: 'text', deleted_at: 'time?' },
+  },
+  {
+    table: 'test_kit_entry_revisions', hasId: true, order: 'id',
+    scope: 'entry_id IN (SELECT id FROM test_kit_entries WHERE organization_id = :organizationId)',
+    columns: { entry_id: '->test_kit_entries', action: 'text', changed_by: '->users?', snapshot: 'json' },
+  },
+  {
+    table: 'readings_hourly', hasId: false, order: 'tank_id, metric, hour',
+    scope: 'tank_id IN (SELECT id FROM tanks WHERE organization_id = :organizationId)',
+    columns: { tank_id: '->tanks', metric: 'text', hour: 'time', min: 'float', max: 'float', sum: 'float', count: 'int' },
+  },
+] as const satisfies readonly BackupTable[]
+
+/** Readings are many: one array per row, in this column order. */
+export const READING_COLUMNS = ['tank_id', 'metric', 'time', 'value', 'source', 'source_key'] as const
+
+export function isOrganizationScoped(spec: BackupTable): boolean {
+  return !spec.scope
+}
+
+/** The table a reference column points at, or null for a plain value. */
+export function referenceOf(column: Column): { table: string; nullable: boolean } | null {
+  if (!column.startsWith('->')) return null
+  return { table: column.replace(/^->|\?$/g, ''), nullable: column.endsWith('?') }
+}
+
+const MAX_TEXT = 100_000
+const instant = z.iso.datetime({ offset: true })
+const KIND_SCHEMAS: Record<Kind, z.ZodType> = {
+  text: z.string().max(MAX_TEXT),
+  int: z.number().int(),
+  float: z.number().finite(),
+  bool: z.boolean(),
+  time: instant,
+  date: z.iso.date(),
+  json: z.json(),
+  'text[]': z.array(z.string().max(MAX_TEXT)),
+}
+const idValue = z.number().int().positive()
+
+function columnSchema(column: Column): z.ZodType {
+  const nullable = column.endsWith('?')
+  const base = referenceOf(column) ? idValue : KIND_SCHEMAS[column.replace(/\?$/, '') as Kind]
+  return nullable ? base.nullable() : base
+}
+
+/** The zod schema of one table's rows in a backup file; unknown columns are refused. */
+export function rowSchema(spec: BackupTable) {
+  const shape: Record<string, z.ZodType> = Object.fromEntries(Object.entries(spec.columns).map(([name, column]) => [name, columnSchema(column)]))
+  if (spec.hasId) shape.id = idValue
+  return z.strictObject(shape)
+}
+
+export const readingTupleSchema = z.tuple([
+  idValue,
+  z.string().min(1).max(64),
+  instant,
+  z.number().finite(),
+  z.enum(['device', 'test_kit', 'import']),
+  z.string().min(1).max(200),
+])
