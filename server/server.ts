@@ -13,6 +13,7 @@ import { startRuleEngine } from './rules/runtime'
 import { createMailNotifier } from './rules/mail-notifier'
 import { recordMailAttempts } from './rules/mail-timeline'
 import { startMail, type RunningMail } from './mail'
+import { startCareDigestJob } from './care/digest'
 
 export type RunningServer = {
   ctx: AppContext
@@ -52,6 +53,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
   ctx.alerts.notifier = createMailNotifier(ctx)
   const rules = startRuleEngine(ctx, ctx.alerts.notifier, config.alertTiming, config.rulesTickMs)
   const stopRetention = startRetentionJob(ctx, { rawRetentionDays: config.rawRetentionDays, everyMs: 3600_000 })
+  const stopCareDigest = startCareDigestJob(ctx)
 
   logger.info({ port, mqttPort: broker?.port ?? null }, 'Tankwarden is listening')
 
@@ -67,6 +69,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
       if (stopped) return
       stopped = true
       stopRetention()
+      stopCareDigest()
       await rules.stop()
       await mail.stop()
       stopMailTimeline()

@@ -82,7 +82,8 @@ export async function careDueCounts(ctx: AppContext, where: { siteIds?: number[]
   return { bySite, byTank }
 }
 
-async function dueItems(ctx: AppContext, where: { siteIds?: number[]; tankIds?: number[] }, now: Date) {
+/** Every active task on the live tanks named, with its due state at `now`; no actor, the caller scopes the ids. */
+export async function dueItems(ctx: AppContext, where: { siteIds?: number[]; tankIds?: number[] }, now: Date) {
   if ((where.siteIds && !where.siteIds.length) || (where.tankIds && !where.tankIds.length)) return []
   const tanks = (await ctx.models.Tank.findAll({
     where: {
