@@ -45,6 +45,7 @@ const envSchema = z.object({
   S3_ACCESS_KEY_ID: z.string().min(1).optional(),
   S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
   S3_FORCE_PATH_STYLE: boolish.default(false),
+  CARE_DIGEST_HOUR: z.coerce.number().int().min(0).max(23).default(7),
 }).refine((e) => e.PHOTO_STORE !== 's3' || e.S3_BUCKET, { message: 'S3_BUCKET is required when PHOTO_STORE=s3', path: ['S3_BUCKET'] })
 
 export type Config = Readonly<{
@@ -71,6 +72,8 @@ export type Config = Readonly<{
   alertTiming: { escalateAlarmAfterMinutes: number; escalateWarningAfterMinutes: number; repeatEveryMinutes: number }
   mail: { smtpUrl?: string; fakeSmtpPort: number; from: string }
   photos: { maxBytes: number; store: PhotoStoreSettings }
+  /** Local hour (site's zone) from which the morning care digest goes out. */
+  careDigestHour: number
 }>
 
 export type PhotoStoreSettings =
@@ -123,6 +126,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
         ? { kind: 's3' as const, endpoint: e.S3_ENDPOINT, bucket: e.S3_BUCKET as string, region: e.S3_REGION, accessKeyId: e.S3_ACCESS_KEY_ID, secretAccessKey: e.S3_SECRET_ACCESS_KEY, forcePathStyle: e.S3_FORCE_PATH_STYLE }
         : { kind: 'local' as const },
     },
+    careDigestHour: e.CARE_DIGEST_HOUR,
   })
 }
 
@@ -150,6 +154,7 @@ export function testConfig(overrides: Partial<Config> & { databaseUrl: string })
     alertTiming: { escalateAlarmAfterMinutes: 15, escalateWarningAfterMinutes: 60, repeatEveryMinutes: 30 },
     mail: { fakeSmtpPort: 0, from: 'Tankwarden <alerts@tankwarden.invalid>' },
     photos: { maxBytes: 15 * 1024 * 1024, store: { kind: 'local' as const } },
+    careDigestHour: 7,
     ...overrides,
   })
 }

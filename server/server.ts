@@ -14,6 +14,7 @@ import { createMailNotifier } from './rules/mail-notifier'
 import { recordMailAttempts } from './rules/mail-timeline'
 import { startMail, type RunningMail } from './mail'
 import { startReportJob } from './report/job'
+import { startCareDigestJob } from './care/digest'
 
 export type RunningServer = {
   ctx: AppContext
@@ -54,6 +55,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
   const rules = startRuleEngine(ctx, ctx.alerts.notifier, config.alertTiming, config.rulesTickMs)
   const stopReports = startReportJob(ctx, { everyMs: config.reportScheduleTickMs })
   const stopRetention = startRetentionJob(ctx, { rawRetentionDays: config.rawRetentionDays, everyMs: 3600_000 })
+  const stopCareDigest = startCareDigestJob(ctx)
 
   logger.info({ port, mqttPort: broker?.port ?? null }, 'Tankwarden is listening')
 
@@ -70,6 +72,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
       stopped = true
       stopRetention()
       stopReports()
+      stopCareDigest()
       await rules.stop()
       await mail.stop()
       stopMailTimeline()

@@ -8,6 +8,8 @@ import createWatchRulesIncidents from './202612020350-create-watch-rules-inciden
 import createWallCredentials from './202612020400-create-wall-credentials'
 import createCare from './202612020410-create-care'
 import createPasswordResets from './202612020420-create-password-resets'
+import addTankStageChangedAt from './202612021000-add-tank-stage-changed-at'
+import allowCancelledWaterChanges from './202612021010-allow-cancelled-water-changes'
 import createPhotos from './202612021300-create-photos'
 import createReportSchedules from './202612021400-create-report-schedules'
 
@@ -22,6 +24,8 @@ export const migrations: Migration[] = [
   createWallCredentials,
   createCare,
   createPasswordResets,
+  addTankStageChangedAt,
+  allowCancelledWaterChanges,
   createPhotos,
   createReportSchedules,
 ]

@@ -131,7 +131,7 @@ export class LivestockEntry extends Model<InferAttributes<LivestockEntry>, Infer
   }
 }
 
-export type WaterChangeStatus = 'in_progress' | 'finished'
+export type WaterChangeStatus = 'in_progress' | 'finished' | 'cancelled'
 
 export class WaterChange extends Model<InferAttributes<WaterChange>, InferCreationAttributes<WaterChange>> {
   declare id: CreationOptional<number>
@@ -149,6 +149,9 @@ export class WaterChange extends Model<InferAttributes<WaterChange>, InferCreati
   declare dechlorinatorMl: CreationOptional<number | null>
   declare newWaterTempC: CreationOptional<number | null>
   declare careLogEntryId: CreationOptional<number | null>
+  declare cancelledAt: CreationOptional<Date | null>
+  declare cancelledBy: CreationOptional<number | null>
+  declare cancelReason: CreationOptional<string | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
 
@@ -170,6 +173,9 @@ export class WaterChange extends Model<InferAttributes<WaterChange>, InferCreati
         dechlorinatorMl: optionalNumber(),
         newWaterTempC: optionalNumber(),
         careLogEntryId: optionalInt(),
+        cancelledAt: optionalDate(),
+        cancelledBy: optionalInt(),
+        cancelReason: { type: DataTypes.TEXT, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

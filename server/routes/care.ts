@@ -3,7 +3,7 @@ import { z } from 'zod'
 import { idParamsSchema, idSchema } from '../../shared/schemas/common'
 import {
   careLogInputSchema, careLogQuerySchema, careTaskDoneSchema, careTaskInputSchema, careTaskSnoozeSchema, careTaskUpdateSchema, careTodayQuerySchema,
-  livestockInputSchema, livestockUpdateSchema, waterChangeFinishSchema, waterChangePlanSchema, waterChangeStartSchema,
+  livestockInputSchema, livestockUpdateSchema, waterChangeCancelSchema, waterChangeFinishSchema, waterChangePlanSchema, waterChangeStartSchema,
 } from '../../shared/schemas/care'
 import { SPECIES } from '../../shared/care/species'
 import { actorOf, allow } from '../auth/middleware'
@@ -63,7 +63,7 @@ export function careRoutes(ctx: AppContext) {
   return router
 }
 
-/** Mounted at the API root: /care-tasks/:id…, /water-changes/:id/finish, /care/today, /care/species. */
+/** Mounted at the API root: /care-tasks/:id…, /water-changes/:id/finish|cancel, /care/today, /care/species. */
 export function careRouter(ctx: AppContext) {
   const router = Router()
   const tasks = careTasksService(ctx)
@@ -80,6 +80,9 @@ export function careRouter(ctx: AppContext) {
   })
   router.post('/water-changes/:id/finish', allow('care.write'), async (req, res) => {
     res.json(await changes.finish(actorOf(req), id(req), parse(waterChangeFinishSchema, req, 'body')))
+  })
+  router.post('/water-changes/:id/cancel', allow('care.write'), async (req, res) => {
+    res.json(await changes.cancel(actorOf(req), id(req), parse(waterChangeCancelSchema, req, 'body')))
   })
   router.get('/care/today', allow('org.read'), async (req, res) => {
     res.json(await tasks.today(actorOf(req), parse(careTodayQuerySchema, req, 'query')))

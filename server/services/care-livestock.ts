@@ -10,7 +10,7 @@ import { badRequest, notFound } from '../errors'
 import type { LivestockEntry, Tank } from '../models'
 import { instantNotAhead, writeCareLog } from './care-log'
 import { nitrogenReadings, tankPh, tankTemperature } from './care-readings'
-import { tanksService } from './tanks'
+import { stageChangedAt, tanksService } from './tanks'
 
 const DAY_MS = 86_400_000
 /** Cycling a new tank takes weeks; a longer look back only adds old, settled tests. */
@@ -62,12 +62,9 @@ export function livestockService(ctx: AppContext) {
   const { models, sequelize } = ctx
   const tanks = tanksService(ctx)
 
-  async function quarantineOf(tank: Tank, entries: LivestockEntry[], now: Date) {
+  async function quarantineOf(tank: Tank, now: Date) {
     if (tank.stage !== 'quarantine') return null
-    // Tanks keep no record of when their stage changed, so the clock starts with the first animals in.
-    const animals = entries.filter((e) => e.category !== 'plant' && !e.removedAt)
-    const first = animals.reduce<Date | null>((min, e) => (!min || e.addedAt < min ? e.addedAt : min), null)
-    return quarantineStatus(first, now)
+    return quarantineStatus(await stageChangedAt(ctx, tank.id), now)
   }
 
   async function findEntry(actor: UserActor, tankId: number, entryId: number) {
@@ -82,7 +79,7 @@ export function livestockService(ctx: AppContext) {
       const tank = await tanks.find(actor, tankId)
       const entries = await models.LivestockEntry.findAll({ where: { tankId: tank.id }, order: [['addedAt', 'ASC'], ['id', 'ASC']] })
       const watch = (await tankWatchUntil(ctx, [tank.id], now)).get(tank.id)
-      return { entries: entries.map(present), watchUntil: watch?.toISOString() ?? null, quarantine: await quarantineOf(tank, entries, now) }
+      return { entries: entries.map(present), watchUntil: watch?.toISOString() ?? null, quarantine: await quarantineOf(tank, now) }
     },
 
     async add(actor: UserActor, tankId: number, input: LivestockInput) {

@@ -3,6 +3,7 @@ import { CARE_TASK_KIND_TITLES, defaultCareTasksFor, type CareTaskKind } from '.
 import { byUrgency, careDue, type CareDue } from '../../shared/care/due'
 import type { CareTaskDone, CareTaskInput, CareTaskUpdate } from '../../shared/schemas/care'
 import type { UserActor } from '../auth/actor'
+import { tanksToWatch } from '../care/tanks-to-watch'
 import type { AppContext } from '../context'
 import { badRequest, notFound } from '../errors'
 import type { CareTask, Tank } from '../models'
@@ -81,7 +82,8 @@ export async function careDueCounts(ctx: AppContext, where: { siteIds?: number[]
   return { bySite, byTank }
 }
 
-async function dueItems(ctx: AppContext, where: { siteIds?: number[]; tankIds?: number[] }, now: Date) {
+/** Every active task on the live tanks named, with its due state at `now`; no actor, the caller scopes the ids. */
+export async function dueItems(ctx: AppContext, where: { siteIds?: number[]; tankIds?: number[] }, now: Date) {
   if ((where.siteIds && !where.siteIds.length) || (where.tankIds && !where.tankIds.length)) return []
   const tanks = (await ctx.models.Tank.findAll({
     where: {
@@ -185,7 +187,7 @@ export function careTasksService(ctx: AppContext) {
     async today(actor: UserActor, query: { siteId?: number; mine: boolean }, now = new Date()) {
       if (query.siteId !== undefined) {
         await sitesService(ctx).find(actor, query.siteId)
-        return { siteIds: [query.siteId], tasks: await todayAt([query.siteId], now) }
+        return { siteIds: [query.siteId], tasks: await todayAt([query.siteId], now), watch: await tanksToWatch(ctx, [query.siteId], now) }
       }
       const sites = await models.Site.findAll({ attributes: ['id'], where: { ...siteScope(actor, 'id'), archivedAt: null }, order: [['id', 'ASC']] })
       const mine: number[] = []
@@ -193,7 +195,7 @@ export function careTasksService(ctx: AppContext) {
         const { onDuty } = await whoIsOnDuty(ctx, site.id, now)
         if (onDuty.some((p) => p.userId === actor.userId)) mine.push(site.id)
       }
-      return { siteIds: mine, tasks: await todayAt(mine, now) }
+      return { siteIds: mine, tasks: await todayAt(mine, now), watch: await tanksToWatch(ctx, mine, now) }
     },
 
     async siteSummary(actor: UserActor, siteId: number, now = new Date()): Promise<CareDueCounts> {

@@ -1,6 +1,6 @@
 import { waterVolumeLitres, type TankShape } from '../../shared/chemistry/volume'
 import { doseForVolume, HEATER_OFF_CAUTION, planWaterChange, temperatureMismatchAdvice, UNPLUG_CAUTION } from '../../shared/chemistry/water-change'
-import type { WaterChangeFinishInput, WaterChangePlanInput, WaterChangeStartInput } from '../../shared/schemas/care'
+import type { WaterChangeCancelInput, WaterChangeFinishInput, WaterChangePlanInput, WaterChangeStartInput } from '../../shared/schemas/care'
 import type { UserActor } from '../auth/actor'
 import type { AppContext } from '../context'
 import { badRequest, conflict, notFound } from '../errors'
@@ -59,8 +59,14 @@ function present(change: WaterChange) {
     dechlorinatorMl: change.dechlorinatorMl ?? null,
     newWaterTempC: change.newWaterTempC ?? null,
     careLogEntryId: change.careLogEntryId ?? null,
+    cancelledAt: change.cancelledAt?.toISOString() ?? null,
+    cancelledBy: change.cancelledBy ?? null,
+    cancelReason: change.cancelReason ?? null,
   }
 }
+
+/** Said on the tank page and in the log when a change is called off with the heater possibly still off. */
+export const CANCEL_CAUTION = 'Top the tank back up to its usual level before switching the heater on again'
 
 export function waterChangesService(ctx: AppContext) {
   const { models, sequelize, events } = ctx
@@ -151,7 +157,7 @@ export function waterChangesService(ctx: AppContext) {
 
     async finish(actor: UserActor, id: number, input: WaterChangeFinishInput) {
       const { change, tank } = await findChange(actor, id)
-      if (change.status !== 'in_progress') throw conflict('water_change_finished', 'This water change is already finished')
+      if (change.status !== 'in_progress') throw conflict('water_change_finished', `This water change is already ${change.status === 'cancelled' ? 'cancelled' : 'finished'}`)
       if (input.litresReplaced > tank.volumeLitres) {
         const message = `at most the tank’s ${tank.volumeLitres} L`
         throw badRequest(`litresReplaced: ${message}`, { litresReplaced: message })
@@ -183,6 +189,37 @@ export function waterChangesService(ctx: AppContext) {
         ...present(change),
         logEntry: (await presentCareLog(ctx, [entry]))[0],
         cautions: [HEATER_OFF_CAUTION, UNPLUG_CAUTION],
+      }
+    },
+
+    /**
+     * Calls off a started change: the temporary heater-line rule goes, a care-log note says so,
+     * and the water-change task is not marked done (nothing was replaced).
+     */
+    async cancel(actor: UserActor, id: number, input: WaterChangeCancelInput) {
+      const { change, tank } = await findChange(actor, id)
+      if (change.status !== 'in_progress') throw conflict('water_change_finished', `This water change is already ${change.status === 'cancelled' ? 'cancelled' : 'finished'}`)
+      const now = new Date()
+      const temporaryRuleId = change.temporaryRuleId ?? null
+      const entry = await sequelize.transaction(async (transaction) => {
+        const entry = await writeCareLog(ctx, {
+          organizationId: actor.organizationId, tankId: tank.id, kind: 'note', at: now, userId: actor.userId,
+          text: input.reason ? `Water change cancelled (not done): ${input.reason}` : 'Water change cancelled (not done)',
+          values: { waterChangeCancelled: true, plannedLitres: Number(change.plan.litresOut) || 0 },
+          waterChangeId: change.id,
+        }, transaction)
+        await change.update(
+          { status: 'cancelled', cancelledAt: now, cancelledBy: actor.userId, cancelReason: input.reason || null, careLogEntryId: entry.id, temporaryRuleId: null },
+          { transaction },
+        )
+        if (temporaryRuleId) await models.WatchRule.destroy({ where: { id: temporaryRuleId }, transaction })
+        return entry
+      })
+      if (temporaryRuleId) events.emit('rules.changed', { tankIds: [tank.id] })
+      return {
+        ...present(change),
+        logEntry: (await presentCareLog(ctx, [entry]))[0],
+        cautions: [CANCEL_CAUTION, UNPLUG_CAUTION],
       }
     },
   }

@@ -1,4 +1,4 @@
-import { Op, type Order, type WhereOptions } from 'sequelize'
+import { Op, QueryTypes, type Order, type WhereOptions } from 'sequelize'
 import { grossVolumeLitres } from '../../shared/chemistry/volume'
 import { defaultTargetsFor } from '../../shared/schemas/tank-defaults'
 import { tankInputSchema, type TankInput, type TankListQuery, type TankUpdate } from '../../shared/schemas/tanks'
@@ -51,6 +51,13 @@ function volumeOf(input: Pick<TankInput, 'dimensions' | 'volumeLitres'>) {
     return { volumeLitres: volumeFromDimensions(input.dimensions), volumeSource: 'dimensions' as const }
   }
   return { volumeLitres: input.volumeLitres as number, volumeSource: 'entered' as const }
+}
+
+/** When the tank's stage last changed (its creation time for a tank whose stage never changed). */
+export async function stageChangedAt(ctx: AppContext, tankId: number): Promise<Date> {
+  const [row] = await ctx.sequelize.query<{ at: Date }>('SELECT stage_changed_at AS at FROM tanks WHERE id = $1', { bind: [tankId], type: QueryTypes.SELECT })
+  if (!row) throw notFound('Tank not found')
+  return new Date(row.at)
 }
 
 export function tanksService(ctx: AppContext) {
@@ -121,7 +128,12 @@ export function tanksService(ctx: AppContext) {
       if (!merged.success) throw fromZod(merged.error, 'body')
       if (changes.siteId && changes.siteId !== tank.siteId) await assertSiteUsable(actor, changes.siteId)
       const next = merged.data
-      await tank.update({ ...next, ...volumeOf(next), targets: next.targets ?? tank.targets })
+      const stageChanges = next.stage !== tank.stage
+      await ctx.sequelize.transaction(async (transaction) => {
+        await tank.update({ ...next, ...volumeOf(next), targets: next.targets ?? tank.targets }, { transaction })
+        // The quarantine clock starts here; the column belongs to care, the Tank model does not declare it.
+        if (stageChanges) await ctx.sequelize.query('UPDATE tanks SET stage_changed_at = now() WHERE id = $1', { bind: [tank.id], transaction })
+      })
       return publicTank(await find(actor, id))
     },
 

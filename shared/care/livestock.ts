@@ -76,15 +76,18 @@ export function watchUntil(addedAt: Date, days = WATCH_PERIOD_DAYS): Date {
 export interface QuarantineStatus {
   startedAt: string | null
   endsAt: string | null
-  /** Whole days left, rounded up; 0 once over; null before anything is in the tank. */
+  /** Whole days since it started, rounded down (day 0 is the first day); null when not started. */
+  daysIn: number | null
+  /** Whole days left, rounded up; 0 once over; null when not started. */
   daysRemaining: number | null
   days: number
 }
 
-/** Quarantine runs `days` from when it started (the first livestock in, or when the tank was set to quarantine). */
+/** Quarantine runs `days` from when it started: when the tank was set to the quarantine stage. */
 export function quarantineStatus(startedAt: Date | null, now: Date, days = QUARANTINE_DAYS): QuarantineStatus {
-  if (!startedAt) return { startedAt: null, endsAt: null, daysRemaining: null, days }
+  if (!startedAt) return { startedAt: null, endsAt: null, daysIn: null, daysRemaining: null, days }
   const ends = startedAt.getTime() + days * DAY_MS
+  const daysIn = Math.max(0, Math.floor((now.getTime() - startedAt.getTime()) / DAY_MS))
   const daysRemaining = Math.max(0, Math.ceil((ends - now.getTime()) / DAY_MS))
-  return { startedAt: startedAt.toISOString(), endsAt: new Date(ends).toISOString(), daysRemaining, days }
+  return { startedAt: startedAt.toISOString(), endsAt: new Date(ends).toISOString(), daysIn, daysRemaining, days }
 }

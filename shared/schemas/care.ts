@@ -106,6 +106,10 @@ export const waterChangeFinishSchema = z.object({
   notes: z.string().trim().max(2000).default(''),
 })
 export type WaterChangeFinishInput = z.infer<typeof waterChangeFinishSchema>
+export const waterChangeCancelSchema = z.object({
+  reason: z.string().trim().max(300, 'at most 300 characters').default(''),
+})
+export type WaterChangeCancelInput = z.infer<typeof waterChangeCancelSchema>
 
 export const LIVESTOCK_CATEGORIES = ['fish', 'invertebrate', 'plant'] as const
 export const livestockInputSchema = z

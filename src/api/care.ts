@@ -47,9 +47,18 @@ export interface CareTodayTask extends PublicCareTask {
   site: { id: number; name: string; timeZone: string }
 }
 
+/** A tank worth a look beyond its tasks: in quarantine, or with new arrivals under watch. */
+export interface CareTankToWatch {
+  tank: { id: number; name: string }
+  site: { id: number; name: string; timeZone: string }
+  quarantine: QuarantineStatus | null
+  watchUntil: string | null
+}
+
 export interface CareToday {
   siteIds: number[]
   tasks: CareTodayTask[]
+  watch: CareTankToWatch[]
 }
 
 export interface PublicCareLogEntry {
@@ -85,7 +94,7 @@ export interface WaterChangePlanResult extends WaterChangePlan {
 export interface PublicWaterChange {
   id: number
   tankId: number
-  status: 'in_progress' | 'finished'
+  status: 'in_progress' | 'finished' | 'cancelled'
   plan: WaterChangePlanResult
   heaterOffConfirmed: boolean
   temporaryRuleId: number | null
@@ -97,6 +106,9 @@ export interface PublicWaterChange {
   dechlorinatorMl: number | null
   newWaterTempC: number | null
   careLogEntryId: number | null
+  cancelledAt: string | null
+  cancelledBy: number | null
+  cancelReason: string | null
 }
 
 export interface PublicLivestockEntry {
@@ -216,4 +228,8 @@ export async function updateLivestock(tankId: number, entryId: number, changes: 
 
 export async function getCycling(tankId: number): Promise<CyclingResult> {
   return (await http.get<CyclingResult>(`/tanks/${tankId}/cycling`)).data
+}
+
+export async function cancelWaterChange(id: number, reason = ''): Promise<PublicWaterChange & { logEntry: PublicCareLogEntry; cautions: string[] }> {
+  return (await http.post<PublicWaterChange & { logEntry: PublicCareLogEntry; cautions: string[] }>(`/water-changes/${id}/cancel`, { reason })).data
 }

@@ -2,7 +2,7 @@ import { acceptHMRUpdate, defineStore } from 'pinia'
 import { computed, ref } from 'vue'
 import type { Species } from '@shared/care/species'
 import * as careApi from '@/api/care'
-import type { CareTodayTask } from '@/api/care'
+import type { CareTankToWatch, CareTodayTask } from '@/api/care'
 import { urgentFirst } from '@/components/care/care-words'
 
 export type CareTodayScope = { siteId: number } | { mine: true }
@@ -13,6 +13,7 @@ export const useCareStore = defineStore('care', () => {
 
   const todayTasks = ref<CareTodayTask[]>([])
   const todaySiteIds = ref<number[]>([])
+  const todayWatch = ref<CareTankToWatch[]>([])
   const todayLoading = ref(false)
   // Only the newest today request may write: switching site twice quickly must not show the first.
   let todayRequest = 0
@@ -41,6 +42,7 @@ export const useCareStore = defineStore('care', () => {
       if (ticket !== todayRequest) return
       todayTasks.value = urgentFirst(today.tasks)
       todaySiteIds.value = today.siteIds
+      todayWatch.value = today.watch ?? []
     } finally {
       if (ticket === todayRequest) todayLoading.value = false
     }
@@ -65,10 +67,11 @@ export const useCareStore = defineStore('care', () => {
     species.value = []
     todayTasks.value = []
     todaySiteIds.value = []
+    todayWatch.value = []
     todayLoading.value = false
   }
 
-  return { species, speciesByKey, ensureSpecies, todayTasks, todaySiteIds, todayLoading, loadToday, markTodayDone, snoozeToday, $reset }
+  return { species, speciesByKey, ensureSpecies, todayTasks, todaySiteIds, todayWatch, todayLoading, loadToday, markTodayDone, snoozeToday, $reset }
 })
 
 if (import.meta.hot) import.meta.hot.accept(acceptHMRUpdate(useCareStore, import.meta.hot))

@@ -58,6 +58,7 @@ const ROWS: Array<[string, string, number[], () => Promise<Prepared>]> = [
   ['post', '/care-tasks/:id/done', writers(200), async () => ({ path: `/care-tasks/${await freshTask()}/done`, body: {} })],
   ['post', '/care-tasks/:id/snooze', writers(200), async () => ({ path: `/care-tasks/${await freshTask()}/snooze`, body: { until: new Date(Date.now() + 86_400_000).toISOString(), reason: 'Parts on order' } })],
   ['post', '/water-changes/:id/finish', writers(200), async () => ({ path: `/water-changes/${await freshChange()}/finish`, body: { litresReplaced: 18 } })],
+  ['post', '/water-changes/:id/cancel', writers(200), async () => ({ path: `/water-changes/${await freshChange()}/cancel`, body: { reason: 'Called away' } })],
   ['get', '/care/today', readable, async () => ({ path: `/care/today?siteId=${org.siteIds[0]}` })],
   ['get', '/care/species', [200, 200, 200, 200], async () => ({ path: '/care/species' })],
   ['get', '/sites/:id/care-summary', readable, async () => ({ path: `/sites/${org.siteIds[0]}/care-summary` })],

@@ -25,7 +25,7 @@ async function mountTimer() {
       plan: planFor(),
       arrival: '12 × Neon tetra',
       watchUntil: '2026-03-06T10:00:00.000Z',
-      quarantine: { startedAt: '2026-03-01T10:00:00.000Z', endsAt: '2026-03-29T10:00:00.000Z', daysRemaining: 26, days: 28 },
+      quarantine: { startedAt: '2026-03-01T10:00:00.000Z', endsAt: '2026-03-29T10:00:00.000Z', daysIn: 2, daysRemaining: 26, days: 28 },
       timeZone: 'UTC',
     },
   })

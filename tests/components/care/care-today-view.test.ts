@@ -20,7 +20,7 @@ const tasks = [
 
 beforeEach(() => {
   vi.mocked(getCareToday).mockReset()
-  vi.mocked(getCareToday).mockResolvedValue({ siteIds: [3], tasks })
+  vi.mocked(getCareToday).mockResolvedValue({ siteIds: [3], tasks, watch: [] })
   vi.mocked(markCareTaskDone).mockReset()
   vi.mocked(listSites).mockResolvedValue([{ id: 3, name: 'Front shop', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 4 }])
 })
@@ -62,9 +62,24 @@ describe('CareTodayView', () => {
     expect(getCareToday).toHaveBeenCalledWith({ siteId: 3 })
 
     localStorage.clear()
-    vi.mocked(getCareToday).mockResolvedValue({ siteIds: [], tasks: [] })
+    vi.mocked(getCareToday).mockResolvedValue({ siteIds: [], tasks: [], watch: [] })
     const wrapper = await mountToday()
     expect(wrapper.find('[data-test="care-today-off-duty"]').exists()).toBe(true)
     expect(wrapper.find('[data-test="care-today-empty"]').text()).toBe('Nothing due. Well done.')
+  })
+
+  it('lists tanks in quarantine and under an arrival watch, with the quarantine day and days remaining', async () => {
+    vi.mocked(getCareToday).mockResolvedValue({
+      siteIds: [3], tasks: [],
+      watch: [
+        { tank: { id: 21, name: 'Quarantine Q1' }, site: { id: 3, name: 'Front shop', timeZone: 'Europe/Berlin' }, watchUntil: null,
+          quarantine: { startedAt: '2026-02-24T09:00:00.000Z', endsAt: '2026-03-24T09:00:00.000Z', daysIn: 7, daysRemaining: 21, days: 28 } },
+        { tank: { id: 22, name: 'Show tank 1' }, site: { id: 3, name: 'Front shop', timeZone: 'Europe/Berlin' }, quarantine: null, watchUntil: '2026-03-05T09:00:00.000Z' },
+      ],
+    })
+    const wrapper = await mountToday()
+    expect(wrapper.find('[data-test="care-watch-21"]').text()).toContain('Quarantine day 8 of 28: 21 days remaining')
+    // 09:00 UTC is 10:00 in Berlin in March.
+    expect(wrapper.find('[data-test="care-watch-22"]').text()).toContain('New arrivals: watch closely until 5 Mar, 10:00')
   })
 })

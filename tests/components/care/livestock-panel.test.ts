@@ -73,12 +73,12 @@ describe('LivestockPanel', () => {
   it('records a loss as a new running total', async () => {
     vi.mocked(listLivestock).mockResolvedValue({
       entries: [neon], watchUntil: null,
-      quarantine: { startedAt: '2026-03-03T09:00:00.000Z', endsAt: '2026-03-31T09:00:00.000Z', daysRemaining: 28, days: 28 },
+      quarantine: { startedAt: '2026-03-03T09:00:00.000Z', endsAt: '2026-03-31T09:00:00.000Z', daysIn: 0, daysRemaining: 28, days: 28 },
     })
     vi.mocked(updateLivestock).mockResolvedValue({ ...neon, losses: 3 })
     const wrapper = await mountPanel()
     expect(wrapper.find('[data-test="livestock-31"]').text()).toContain('11 in the tank · 1 lost of 12')
-    expect(wrapper.find('[data-test="livestock-periods"]').text()).toContain('Quarantine: 28 of 28 days remaining')
+    expect(wrapper.find('[data-test="livestock-periods"]').text()).toContain('Quarantine day 1 of 28: 28 days remaining')
     await wrapper.findAll('[data-test="livestock-31"] button').find((b) => b.text() === 'Record loss')!.trigger('click')
     await flushPromises()
     await inDocument('input[name="lost"]').setValue('2')

@@ -4,7 +4,7 @@ import { HEATER_OFF_CAUTION, UNPLUG_CAUTION } from '@shared/chemistry/water-chan
 
 vi.mock('@/api/care')
 
-import { finishWaterChange, listWaterChanges, planWaterChange, startWaterChange, type PublicWaterChange } from '@/api/care'
+import { cancelWaterChange, finishWaterChange, listWaterChanges, planWaterChange, startWaterChange, type PublicWaterChange } from '@/api/care'
 import WaterChangePanel from '@/components/care/WaterChangePanel.vue'
 import { heaterConfirmReason, needsHeaterConfirmation } from '@/components/care/water-change-draft'
 import { mountView } from '../mount'
@@ -16,7 +16,7 @@ function startedChange(plan = heaterExposingPlan, heaterOffConfirmed = true): Pu
   return {
     id: 55, tankId: 12, status: 'in_progress', plan, heaterOffConfirmed, temporaryRuleId: 9,
     startedAt: '2026-03-03T10:00:00.000Z', startedBy: 7, finishedAt: null, finishedBy: null,
-    litresReplaced: null, dechlorinatorMl: null, newWaterTempC: null, careLogEntryId: null, cautions: plan.cautions,
+    litresReplaced: null, dechlorinatorMl: null, newWaterTempC: null, careLogEntryId: null, cancelledAt: null, cancelledBy: null, cancelReason: null, cautions: plan.cautions,
   }
 }
 
@@ -38,6 +38,7 @@ beforeEach(() => {
   vi.mocked(planWaterChange).mockReset()
   vi.mocked(startWaterChange).mockReset()
   vi.mocked(finishWaterChange).mockReset()
+  vi.mocked(cancelWaterChange).mockReset()
 })
 
 describe('WaterChangePanel', () => {
@@ -122,5 +123,46 @@ describe('WaterChangePanel', () => {
     expect(wrapper.find('[data-test="water-change-notice"]').text()).toContain('70 L replaced')
     expect(wrapper.findAll('[data-test="water-change-finished-cautions"] li').map((li) => li.text())).toEqual([HEATER_OFF_CAUTION, UNPLUG_CAUTION])
     expect(wrapper.findComponent(WaterChangePanel).emitted('logged')).toHaveLength(1)
+  })
+
+  it('cancels a change in progress only after the confirmation, with the reason, and says it was not done', async () => {
+    const { cautions: _c, ...open } = startedChange()
+    vi.mocked(listWaterChanges).mockResolvedValue([open])
+    vi.mocked(cancelWaterChange).mockResolvedValue({
+      ...open, status: 'cancelled', cancelledAt: '2026-03-03T10:20:00.000Z', cancelledBy: 7, cancelReason: 'Bucket cracked', temporaryRuleId: null,
+      cautions: ['Top the tank back up to its usual level before switching the heater on again', UNPLUG_CAUTION],
+      logEntry: { id: 2, tankId: 12, kind: 'note', at: '2026-03-03T10:20:00.000Z', by: { id: 7, name: 'Pat' }, text: 'Water change cancelled (not done): Bucket cracked', values: {}, careTaskId: null, waterChangeId: 55 },
+    })
+    const wrapper = await mountPanel()
+    await wrapper.find('[data-test="water-change-cancel"]').trigger('click')
+    await flushPromises()
+    // Backing out of the dialog cancels nothing.
+    ;(document.querySelector('[data-test="water-change-cancel-keep"]') as HTMLElement).click()
+    await flushPromises()
+    expect(cancelWaterChange).not.toHaveBeenCalled()
+
+    await wrapper.find('[data-test="water-change-cancel"]').trigger('click')
+    await flushPromises()
+    await inDocument('input[name="cancelReason"]').setValue('x'.repeat(301))
+    await inDocument('.v-dialog form').trigger('submit')
+    await flushPromises()
+    expect(cancelWaterChange).not.toHaveBeenCalled()
+    expect(document.querySelector('.v-dialog')!.textContent).toContain('at most 300 characters')
+
+    await inDocument('input[name="cancelReason"]').setValue('Bucket cracked')
+    await inDocument('.v-dialog form').trigger('submit')
+    await flushPromises()
+    expect(cancelWaterChange).toHaveBeenCalledWith(55, 'Bucket cracked')
+    expect(wrapper.find('[data-test="water-change-in-progress"]').exists()).toBe(false)
+    expect(wrapper.find('[data-test="water-change-notice"]').text()).toContain('logged as not done')
+    expect(wrapper.findComponent(WaterChangePanel).emitted('logged')).toHaveLength(1)
+  })
+
+  it('offers no cancel button to a viewer', async () => {
+    const { cautions: _c, ...open } = startedChange()
+    vi.mocked(listWaterChanges).mockResolvedValue([open])
+    const wrapper = await mountPanel(false)
+    expect(wrapper.find('[data-test="water-change-in-progress"]').exists()).toBe(true)
+    expect(wrapper.find('[data-test="water-change-cancel"]').exists()).toBe(false)
   })
 })
