@@ -22,11 +22,12 @@ export function parseChanges<S extends z.ZodType>(schema: S, req: Request): Part
 }
 
 /** PostgreSQL text cannot hold NUL; the path of the first string containing one, else null. */
-function findNul(value: unknown, path = ''): string | null {
-  if (typeof value === 'string') return value.includes('\u0000') ? path : null
+function findNul(value: unknown, path: string[] = []): string | null {
+  if (typeof value === 'string') return value.includes('\u0000') ? path.join('.') : null
   if (value && typeof value === 'object') {
     for (const [key, inner] of Object.entries(value)) {
-      const found = findNul(inner, path ? `${path}.${key}` : key)
+      // The path is kept as steps, so an empty key is not swallowed into its parent's name.
+      const found = findNul(inner, [...path, key])
       if (found !== null) return found
     }
   }
