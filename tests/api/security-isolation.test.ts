@@ -60,7 +60,7 @@ describe('list routes never show another organization’s rows, whatever the fil
     const list = await get('/incidents?pageSize=200', alpha.users.owner.token)
     expect(list.status).toBe(200)
     expect(list.body.items.map((i: { id: number }) => i.id)).toEqual([rows.alphaIncident])
-    for (const query of [`tankId=${rows.betaTank}`, `siteId=${beta.siteIds[0]}`, `siteId=${beta.siteIds[0]}&tankId=${rows.betaTank}`, 'search=Beta']) {
+    for (const query of [`tankId=${rows.betaTank}`, `siteId=${beta.siteIds[0]}`, `siteId=${beta.siteIds[0]}&tankId=${rows.betaTank}`]) {
       const res = await get(`/incidents?${query}`, alpha.users.owner.token)
       expect(res.status, query).toBe(200)
       expect(res.body.items, query).toEqual([])
