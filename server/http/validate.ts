@@ -7,8 +7,8 @@ export function parse<S extends z.ZodType>(schema: S, req: Request, where: 'body
   const result = schema.safeParse(req[where] ?? {})
   if (!result.success) throw fromZod(result.error, where)
   // Checked on what the schema kept, so the error names a real field (not an index of a stray array).
-  const nul = findNul(result.data)
-  if (nul !== null) throw badRequest(`${nul || where}: control character NUL is not allowed`, { [nul || where]: 'contains a NUL character' })
+  const bad = findUnstorable(result.data)
+  if (bad) throw badRequest(`${bad.path || where}: ${bad.problem}`, { [bad.path || where]: bad.problem })
   return result.data
 }
 
@@ -22,15 +22,28 @@ export function parseChanges<S extends z.ZodType>(schema: S, req: Request): Part
   return Object.fromEntries(Object.entries(data).filter(([key]) => Object.hasOwn(sent, key))) as Partial<z.infer<S>>
 }
 
-/** PostgreSQL text and jsonb cannot hold NUL; the path of the first string or key containing one, else null. */
-function findNul(value: unknown, path: string[] = []): string | null {
-  if (typeof value === 'string') return value.includes('\u0000') ? path.join('.') : null
+const LONE_SURROGATE = /[\ud800-\udbff](?![\udc00-\udfff])|(?<![\ud800-\udbff])[\udc00-\udfff]/
+
+/** Why PostgreSQL cannot store a string as sent (jsonb refuses both; text would drop or alter them), or null. */
+function unstorable(text: string): string | null {
+  if (text.includes('\u0000')) return 'control character NUL is not allowed'
+  if (LONE_SURROGATE.test(text)) return 'contains an unpaired UTF-16 surrogate (not valid Unicode text)'
+  return null
+}
+
+/** The first string or key PostgreSQL cannot store, with its path; null when everything can be stored. */
+function findUnstorable(value: unknown, path: string[] = []): { path: string; problem: string } | null {
+  if (typeof value === 'string') {
+    const problem = unstorable(value)
+    return problem ? { path: path.join('.'), problem } : null
+  }
   if (value && typeof value === 'object') {
     for (const [key, inner] of Object.entries(value)) {
-      if (key.includes('\u0000')) return [...path, key.replaceAll('\u0000', '\\0')].join('.')
+      const keyProblem = unstorable(key)
+      if (keyProblem) return { path: [...path, key.replace(/[\u0000\ud800-\udfff]/g, '?')].join('.'), problem: `key ${keyProblem}` }
       // The path is kept as steps, so an empty key is not swallowed into its parent's name.
-      const found = findNul(inner, [...path, key])
-      if (found !== null) return found
+      const found = findUnstorable(inner, [...path, key])
+      if (found) return found
     }
   }
   return null
