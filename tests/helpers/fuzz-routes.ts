@@ -107,7 +107,7 @@ export function fuzzSuite(name: string, routesOf: (w: FuzzWorld) => FuzzRoute[])
     await w?.t.close()
   })
   describe(`hostile JSON bodies: ${name}`, () => {
-    it('answers each with a documented status and a clear error, and writes nothing when it refuses', { timeout: 300_000 }, async () => {
+    it('answers each with a documented status and a clear error, and writes nothing when it refuses', { timeout: 600_000 }, async () => {
       const failures: string[] = []
       let cases = 0
       const routes = routesOf(w)
