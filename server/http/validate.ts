@@ -4,10 +4,11 @@ import { badRequest, fromZod } from '../errors'
 
 /** Parses one part of a request with a shared zod schema; a failure is a 400 naming the fields. */
 export function parse<S extends z.ZodType>(schema: S, req: Request, where: 'body' | 'query' | 'params'): z.infer<S> {
-  const nul = findNul(req[where])
-  if (nul !== null) throw badRequest(`${nul || where}: control character NUL is not allowed`, { [nul || where]: 'contains a NUL character' })
   const result = schema.safeParse(req[where] ?? {})
   if (!result.success) throw fromZod(result.error, where)
+  // Checked on what the schema kept, so the error names a real field (not an index of a stray array).
+  const bad = findUnstorable(result.data)
+  if (bad) throw badRequest(`${bad.path || where}: ${bad.problem}`, { [bad.path || where]: bad.problem })
   return result.data
 }
 
@@ -21,13 +22,28 @@ export function parseChanges<S extends z.ZodType>(schema: S, req: Request): Part
   return Object.fromEntries(Object.entries(data).filter(([key]) => Object.hasOwn(sent, key))) as Partial<z.infer<S>>
 }
 
-/** PostgreSQL text cannot hold NUL; the path of the first string containing one, else null. */
-function findNul(value: unknown, path = ''): string | null {
-  if (typeof value === 'string') return value.includes('\u0000') ? path : null
+const LONE_SURROGATE = /[\ud800-\udbff](?![\udc00-\udfff])|(?<![\ud800-\udbff])[\udc00-\udfff]/
+
+/** Why PostgreSQL cannot store a string as sent (jsonb refuses both; text would drop or alter them), or null. */
+function unstorable(text: string): string | null {
+  if (text.includes('\u0000')) return 'control character NUL is not allowed'
+  if (LONE_SURROGATE.test(text)) return 'contains an unpaired UTF-16 surrogate (not valid Unicode text)'
+  return null
+}
+
+/** The first string or key PostgreSQL cannot store, with its path; null when everything can be stored. */
+function findUnstorable(value: unknown, path: string[] = []): { path: string; problem: string } | null {
+  if (typeof value === 'string') {
+    const problem = unstorable(value)
+    return problem ? { path: path.join('.'), problem } : null
+  }
   if (value && typeof value === 'object') {
     for (const [key, inner] of Object.entries(value)) {
-      const found = findNul(inner, path ? `${path}.${key}` : key)
-      if (found !== null) return found
+      const keyProblem = unstorable(key)
+      if (keyProblem) return { path: [...path, key.replace(/[\u0000\ud800-\udfff]/g, '?')].join('.'), problem: `key ${keyProblem}` }
+      // The path is kept as steps, so an empty key is not swallowed into its parent's name.
+      const found = findUnstorable(inner, [...path, key])
+      if (found) return found
     }
   }
   return null

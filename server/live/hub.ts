@@ -15,7 +15,7 @@ const CATCH_UP_LIMIT = 5000
 
 type Peer = { socket: WebSocket; actor?: Actor; tanks: Set<number>; buffer: LiveReading[]; work: Promise<void> }
 
-export type LiveHubOptions = { coalesceMs?: number }
+export type LiveHubOptions = { coalesceMs?: number; revocationCheckMs?: number }
 
 /**
  * The live hub: a `ws` server on the HTTP server's `/ws` upgrade. Each socket authenticates
@@ -116,6 +116,28 @@ export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubO
   ctx.events.on('incident.changed', onIncident)
   ctx.events.on('wall.revoked', onWallRevoked)
 
+  // Sign-out, a password change or reset, a deactivated user and another instance's wall revocation
+  // raise no event here: every few seconds, sockets whose session or wall key is no longer valid are closed.
+  async function closeRevoked() {
+    const sessionIds = [...peers].flatMap((p) => (p.actor?.kind === 'user' ? [p.actor.sessionId] : []))
+    const wallIds = [...peers].flatMap((p) => (p.actor?.kind === 'wall' ? [p.actor.credentialId] : []))
+    if (!sessionIds.length && !wallIds.length) return
+    const dead = await ctx.sequelize.query<{ key: string }>(
+      `SELECT 's' || id::text AS key FROM sessions WHERE id = ANY($sessions::uuid[]) AND (revoked_at IS NOT NULL OR expires_at <= now())
+       UNION ALL SELECT 'w' || id::text FROM wall_credentials WHERE id = ANY($walls::int[]) AND revoked_at IS NOT NULL`,
+      { bind: { sessions: sessionIds, walls: wallIds }, type: QueryTypes.SELECT },
+    )
+    const keys = new Set(dead.map((r) => r.key))
+    for (const peer of peers) {
+      const key = peer.actor?.kind === 'user' ? `s${peer.actor.sessionId}` : peer.actor?.kind === 'wall' ? `w${peer.actor.credentialId}` : ''
+      if (keys.has(key)) peer.socket.close(LIVE_CLOSE.unauthenticated, 'revoked')
+    }
+  }
+  const revocationTimer = setInterval(() => {
+    closeRevoked().catch((error) => ctx.logger.warn({ err: error }, 'live revocation check failed'))
+  }, options.revocationCheckMs ?? 3000)
+  revocationTimer.unref()
+
   const flushTimer = setInterval(() => {
     for (const peer of peers) {
       if (!peer.buffer.length) continue
@@ -160,6 +182,7 @@ export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubO
     peerCount: () => peers.size,
     close() {
       clearInterval(flushTimer)
+      clearInterval(revocationTimer)
       ctx.events.off('readings.stored', onStored)
       ctx.events.off('incident.changed', onIncident)
       ctx.events.off('wall.revoked', onWallRevoked)

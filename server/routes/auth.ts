@@ -19,7 +19,9 @@ export function authRouter(ctx: AppContext, requireUser: ReturnType<typeof authe
     limit: ctx.config.signInLimit,
     standardHeaders: 'draft-7',
     legacyHeaders: false,
-    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.email ?? '').toLowerCase()}`,
+    // Runs before validation: normalised like the e-mail schema (trim, lower case) so padding opens no fresh
+    // allowance, and a non-string e-mail (an object whose toString is not a function) must not throw.
+    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${typeof req.body?.email === 'string' ? req.body.email.trim().toLowerCase() : ''}`,
     handler: (req, _res, next) => {
       const resetTime = (req as { rateLimit?: { resetTime?: Date } }).rateLimit?.resetTime
       const retry = Math.max(1, Math.ceil(((resetTime?.getTime() ?? Date.now() + windowMs) - Date.now()) / 1000))

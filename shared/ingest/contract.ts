@@ -17,7 +17,8 @@ export const MAX_PAYLOAD_BYTES = 256 * 1024
 export const readingsTopic = (deviceId: number | string) => `${TOPIC_PREFIX}/${deviceId}/readings`
 export const commandsTopic = (deviceId: number | string) => `${TOPIC_PREFIX}/${deviceId}/commands`
 
-const TOPIC_RE = /^tankwarden\/v1\/devices\/(\d{1,10})\/(readings|commands)$/
+// One spelling per device: `01` is not device 1, so topic ACLs elsewhere (e.g. a broker's `%u`) agree with ours.
+const TOPIC_RE = /^tankwarden\/v1\/devices\/([1-9]\d{0,9})\/(readings|commands)$/
 
 export function parseDeviceTopic(topic: string): { deviceId: number; channel: 'readings' | 'commands' } | null {
   const match = TOPIC_RE.exec(topic)
