@@ -6,7 +6,7 @@ import type { AppContext } from './context'
 import { migrate } from './db/migrate'
 import { attachLiveHub } from './live/hub'
 import { startEmbeddedBroker, type EmbeddedBroker } from './mqtt/broker'
-import { startExternalConsumer } from './mqtt/external'
+import { startExternalConsumer, type ExternalConsumer } from './mqtt/external'
 import { seedDemoIfEmpty } from './seeders/demo'
 import { startRetentionJob } from './services/retention'
 import { startRuleEngine } from './rules/runtime'
@@ -19,6 +19,8 @@ export type RunningServer = {
   port: number
   mqttPort: number | null
   broker: EmbeddedBroker | null
+  /** The consumer of an external broker (MQTT_URL mode), else null. */
+  external: ExternalConsumer | null
   rules: ReturnType<typeof startRuleEngine>
   mail: RunningMail
   stop: () => Promise<void>
@@ -43,7 +45,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
   const port = typeof address === 'object' && address ? address.port : config.port
 
   let broker: EmbeddedBroker | null = null
-  let external: { close: () => Promise<void> } | null = null
+  let external: ExternalConsumer | null = null
   if (config.mqtt.url) external = await startExternalConsumer(ctx, config.mqtt.url)
   else broker = await startEmbeddedBroker(ctx, { host: config.mqtt.host, port: config.mqtt.port })
 
@@ -61,6 +63,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
     port,
     mqttPort: broker?.port ?? null,
     broker,
+    external,
     rules,
     mail,
     async stop() {
