@@ -2,6 +2,7 @@ import { createServer } from 'node:http'
 import type { Config } from './config'
 import { createApp } from './app'
 import { closeContext, createContext } from './bootstrap'
+import { startClusterFanout } from './cluster/fanout'
 import type { AppContext } from './context'
 import { migrate } from './db/migrate'
 import { attachLiveHub } from './live/hub'
@@ -35,6 +36,8 @@ export async function startServer(config: Config): Promise<RunningServer> {
   if (applied.length) logger.info({ applied }, 'migrations applied')
   if (config.seedDemo && (await seedDemoIfEmpty(ctx))) logger.info('demo scenario seeded')
 
+  // Before anything can emit: events of this instance reach the others, theirs reach this one.
+  const fanout = await startClusterFanout(ctx)
   const http = createServer(createApp(ctx))
   const hub = attachLiveHub(ctx, http)
   await new Promise<void>((resolve, reject) => {
@@ -52,8 +55,10 @@ export async function startServer(config: Config): Promise<RunningServer> {
   const stopMailTimeline = recordMailAttempts(ctx)
   const mail: RunningMail = await startMail(ctx)
   ctx.alerts.notifier = createMailNotifier(ctx)
-  const rules = startRuleEngine(ctx, ctx.alerts.notifier, config.alertTiming, config.rulesTickMs)
-  const stopRetention = startRetentionJob(ctx, { rawRetentionDays: config.rawRetentionDays, everyMs: 3600_000 })
+  // Retention runs beside the engine, in the one instance holding the lock.
+  const rules = startRuleEngine(ctx, ctx.alerts.notifier, config.alertTiming, config.rulesTickMs, {
+    whileLeading: [() => startRetentionJob(ctx, { rawRetentionDays: config.rawRetentionDays, everyMs: 3600_000 })],
+  })
 
   logger.info({ port, mqttPort: broker?.port ?? null }, 'Tankwarden is listening')
 
@@ -69,13 +74,13 @@ export async function startServer(config: Config): Promise<RunningServer> {
     async stop() {
       if (stopped) return
       stopped = true
-      stopRetention()
       await rules.stop()
       await mail.stop()
       stopMailTimeline()
       hub.close()
       await broker?.close()
       await external?.close()
+      await fanout.stop()
       http.closeAllConnections()
       await new Promise((resolve) => http.close(resolve))
       await closeContext(ctx)
