@@ -2,7 +2,7 @@ import { createServer } from 'node:http'
 import type { Config } from './config'
 import { createApp } from './app'
 import { closeContext, createContext } from './bootstrap'
-import { startClusterFanout } from './cluster/fanout'
+import { startClusterFanout, type ClusterFanout } from './cluster/fanout'
 import type { AppContext } from './context'
 import { migrate } from './db/migrate'
 import { attachLiveHub } from './live/hub'
@@ -22,6 +22,7 @@ export type RunningServer = {
   broker: EmbeddedBroker | null
   /** The consumer of an external broker (MQTT_URL mode), else null. */
   external: ExternalConsumer | null
+  fanout: ClusterFanout
   rules: ReturnType<typeof startRuleEngine>
   mail: RunningMail
   stop: () => Promise<void>
@@ -69,6 +70,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
     mqttPort: broker?.port ?? null,
     broker,
     external,
+    fanout,
     rules,
     mail,
     async stop() {

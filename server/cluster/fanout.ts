@@ -10,6 +10,8 @@ export type ClusterFanout = {
   origin: string
   /** Notifications from other instances re-emitted here so far (tests, diagnostics). */
   received: () => number
+  /** True while an event from another instance is being emitted here, so a listener can tell it from a local one. */
+  isRelaying: () => boolean
   stop: () => Promise<void>
 }
 
@@ -95,6 +97,7 @@ export async function startClusterFanout(ctx: AppContext, options: { reconnectMs
   return {
     origin,
     received: () => received,
+    isRelaying: () => relaying,
     async stop() {
       stopped = true
       clearTimeout(retry)
