@@ -199,6 +199,8 @@ describe('three instances on one PostgreSQL and one mosquitto, one killed mid-st
     const seenSet = new Set(seen)
     expect(storedElsewhere.filter((t) => !seenSet.has(t))).toEqual([])
     for (const t of watched.stored) expect(seenSet.has(t)).toBe(true)
+    const shares = [...survivors, restarted].map((i) => `${i.id}${i === restarted ? ' (restarted)' : ''} ${i.stored.size}`).join(', ')
+    mark(`stored by instance: ${shares}; ${N - [...survivors, restarted].reduce((n, i) => n + i.stored.size, 0)} before the kill by ${victim.id}; ws client on ${watched.id} saw ${seen.length}`)
     await client.close()
 
     mark('ws checked')
