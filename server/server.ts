@@ -2,11 +2,12 @@ import { createServer } from 'node:http'
 import type { Config } from './config'
 import { createApp } from './app'
 import { closeContext, createContext } from './bootstrap'
+import { startClusterFanout, type ClusterFanout } from './cluster/fanout'
 import type { AppContext } from './context'
 import { migrate } from './db/migrate'
 import { attachLiveHub } from './live/hub'
 import { startEmbeddedBroker, type EmbeddedBroker } from './mqtt/broker'
-import { startExternalConsumer } from './mqtt/external'
+import { startExternalConsumer, type ExternalConsumer } from './mqtt/external'
 import { seedDemoIfEmpty } from './seeders/demo'
 import { startRetentionJob } from './services/retention'
 import { startRuleEngine } from './rules/runtime'
@@ -21,6 +22,9 @@ export type RunningServer = {
   port: number
   mqttPort: number | null
   broker: EmbeddedBroker | null
+  /** The consumer of an external broker (MQTT_URL mode), else null. */
+  external: ExternalConsumer | null
+  fanout: ClusterFanout
   rules: ReturnType<typeof startRuleEngine>
   mail: RunningMail
   stop: () => Promise<void>
@@ -35,6 +39,8 @@ export async function startServer(config: Config): Promise<RunningServer> {
   if (applied.length) logger.info({ applied }, 'migrations applied')
   if (config.seedDemo && (await seedDemoIfEmpty(ctx))) logger.info('demo scenario seeded')
 
+  // Before anything can emit: events of this instance reach the others, theirs reach this one.
+  const fanout = await startClusterFanout(ctx)
   const http = createServer(createApp(ctx))
   const hub = attachLiveHub(ctx, http)
   await new Promise<void>((resolve, reject) => {
@@ -45,17 +51,22 @@ export async function startServer(config: Config): Promise<RunningServer> {
   const port = typeof address === 'object' && address ? address.port : config.port
 
   let broker: EmbeddedBroker | null = null
-  let external: { close: () => Promise<void> } | null = null
+  let external: ExternalConsumer | null = null
   if (config.mqtt.url) external = await startExternalConsumer(ctx, config.mqtt.url)
   else broker = await startEmbeddedBroker(ctx, { host: config.mqtt.host, port: config.mqtt.port })
 
   const stopMailTimeline = recordMailAttempts(ctx)
   const mail: RunningMail = await startMail(ctx)
   ctx.alerts.notifier = createMailNotifier(ctx)
-  const rules = startRuleEngine(ctx, ctx.alerts.notifier, config.alertTiming, config.rulesTickMs)
-  const stopReports = startReportJob(ctx, { everyMs: config.reportScheduleTickMs })
-  const stopRetention = startRetentionJob(ctx, { rawRetentionDays: config.rawRetentionDays, everyMs: 3600_000 })
-  const stopCareDigest = startCareDigestJob(ctx)
+  // Jobs that must not run twice go beside the engine, in the one instance holding the lock (the
+  // report and digest jobs are also safe twice over, by their outbox dedupe keys).
+  const rules = startRuleEngine(ctx, ctx.alerts.notifier, config.alertTiming, config.rulesTickMs, {
+    whileLeading: [
+      () => startRetentionJob(ctx, { rawRetentionDays: config.rawRetentionDays, everyMs: 3600_000 }),
+      () => startReportJob(ctx, { everyMs: config.reportScheduleTickMs }),
+      () => startCareDigestJob(ctx),
+    ],
+  })
 
   logger.info({ port, mqttPort: broker?.port ?? null }, 'Tankwarden is listening')
 
@@ -65,20 +76,20 @@ export async function startServer(config: Config): Promise<RunningServer> {
     port,
     mqttPort: broker?.port ?? null,
     broker,
+    external,
+    fanout,
     rules,
     mail,
     async stop() {
       if (stopped) return
       stopped = true
-      stopRetention()
-      stopReports()
-      stopCareDigest()
       await rules.stop()
       await mail.stop()
       stopMailTimeline()
       hub.close()
       await broker?.close()
       await external?.close()
+      await fanout.stop()
       http.closeAllConnections()
       await new Promise((resolve) => http.close(resolve))
       await closeContext(ctx)
