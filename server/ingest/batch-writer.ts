@@ -62,8 +62,8 @@ export class BatchWriter {
     private readonly logger: Logger,
     private readonly options: BatchWriterOptions = {},
   ) {
-    // 50 ms keeps publish-to-screen latency low; under load each flush still carries thousands of rows.
-    this.flushMs = options.flushMs ?? 50
+    // 20 ms keeps publish-to-screen latency low; under load the two batches in flight still carry thousands of rows each.
+    this.flushMs = options.flushMs ?? 20
     this.maxBatchRows = options.maxBatchRows ?? 5000
     this.maxBufferedRows = options.maxBufferedRows ?? 100_000
     this.maxConcurrentFlushes = options.maxConcurrentFlushes ?? 2

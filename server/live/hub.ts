@@ -20,12 +20,13 @@ export type LiveHubOptions = { coalesceMs?: number; revocationCheckMs?: number }
 /**
  * The live hub: a `ws` server on the HTTP server's `/ws` upgrade. Each socket authenticates
  * with its first frame, subscribes to tanks or a site it may see, and receives new readings
- * coalesced to a few frames a second.
+ * coalesced to at most twenty frames a second.
  */
 export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubOptions = {}) {
   const wss = new WebSocketServer({ noServer: true, maxPayload: 64 * 1024 })
   const peers = new Set<Peer>()
-  const coalesceMs = options.coalesceMs ?? 100
+  // 50 ms: at most twenty frames a second per screen, and a reading reaches it within ~100 ms of arrival.
+  const coalesceMs = options.coalesceMs ?? 50
 
   const send = (peer: Peer, message: LiveServerMessage) => {
     if (peer.socket.readyState === peer.socket.OPEN) peer.socket.send(JSON.stringify(message))
