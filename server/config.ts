@@ -36,6 +36,7 @@ const envSchema = z.object({
   SMTP_URL: z.string().url('SMTP_URL must be an smtp:// or smtps:// URL').optional(),
   FAKE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
   MAIL_FROM: z.string().min(3).default('Tankwarden <alerts@tankwarden.invalid>'),
+  IMPORT_MAX_MB: z.coerce.number().positive().max(10_000).default(100),
 })
 
 export type Config = Readonly<{
@@ -59,6 +60,7 @@ export type Config = Readonly<{
   rulesTickMs: number
   alertTiming: { escalateAlarmAfterMinutes: number; escalateWarningAfterMinutes: number; repeatEveryMinutes: number }
   mail: { smtpUrl?: string; fakeSmtpPort: number; from: string }
+  imports: { maxMb: number }
 }>
 
 /** The JWT secret is generated once and kept in the data folder when not configured. */
@@ -100,6 +102,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     rulesTickMs: e.RULES_TICK_SECONDS * 1000,
     alertTiming: { escalateAlarmAfterMinutes: e.ESCALATE_ALARM_MINUTES, escalateWarningAfterMinutes: e.ESCALATE_WARNING_MINUTES, repeatEveryMinutes: e.REPEAT_MINUTES },
     mail: { smtpUrl: e.SMTP_URL, fakeSmtpPort: e.FAKE_SMTP_PORT, from: e.MAIL_FROM },
+    imports: { maxMb: e.IMPORT_MAX_MB },
   })
 }
 
@@ -125,6 +128,7 @@ export function testConfig(overrides: Partial<Config> & { databaseUrl: string })
     rulesTickMs: 10_000,
     alertTiming: { escalateAlarmAfterMinutes: 15, escalateWarningAfterMinutes: 60, repeatEveryMinutes: 30 },
     mail: { fakeSmtpPort: 0, from: 'Tankwarden <alerts@tankwarden.invalid>' },
+    imports: { maxMb: 100 },
     ...overrides,
   })
 }

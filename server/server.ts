@@ -13,6 +13,7 @@ import { startRuleEngine } from './rules/runtime'
 import { createMailNotifier } from './rules/mail-notifier'
 import { recordMailAttempts } from './rules/mail-timeline'
 import { startMail, type RunningMail } from './mail'
+import { startImportRunner } from './imports/runner'
 
 export type RunningServer = {
   ctx: AppContext
@@ -51,6 +52,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
   const mail: RunningMail = await startMail(ctx)
   ctx.alerts.notifier = createMailNotifier(ctx)
   const rules = startRuleEngine(ctx, ctx.alerts.notifier, config.alertTiming, config.rulesTickMs)
+  const stopImports = startImportRunner(ctx)
   const stopRetention = startRetentionJob(ctx, { rawRetentionDays: config.rawRetentionDays, everyMs: 3600_000 })
 
   logger.info({ port, mqttPort: broker?.port ?? null }, 'Tankwarden is listening')
@@ -67,6 +69,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
       if (stopped) return
       stopped = true
       stopRetention()
+      await stopImports()
       await rules.stop()
       await mail.stop()
       stopMailTimeline()

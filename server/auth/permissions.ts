@@ -20,6 +20,7 @@ export const PERMISSIONS = {
   'roster.manage': ['owner'],
   'care.write': ['owner', 'keeper'],
   'care.manage': ['owner'],
+  'imports.write': ['owner', 'keeper'],
 } as const satisfies Record<string, readonly Caller[]>
 
 export type Permission = keyof typeof PERMISSIONS

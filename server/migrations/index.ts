@@ -8,6 +8,7 @@ import createWatchRulesIncidents from './202612020350-create-watch-rules-inciden
 import createWallCredentials from './202612020400-create-wall-credentials'
 import createCare from './202612020410-create-care'
 import createPasswordResets from './202612020420-create-password-resets'
+import createImports from './202612021100-create-imports'
 
 /** Every migration in order. Add new files here; never edit one that has shipped. */
 export const migrations: Migration[] = [
@@ -20,4 +21,5 @@ export const migrations: Migration[] = [
   createWallCredentials,
   createCare,
   createPasswordResets,
+  createImports,
 ]

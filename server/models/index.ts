@@ -13,12 +13,13 @@ import { WallCredential } from './wall-credential'
 import { DutyShift, DutyOverride } from './duty'
 import { WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink } from './alerts'
 import { CareTask, CareLogEntry, LivestockEntry, WaterChange } from './care'
+import { ImportJob, ImportSource } from './import-job'
 
-export { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange }
+export { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange, ImportJob, ImportSource }
 
 /** Binds every model to this Sequelize instance and declares the associations, in one place. */
 export function initModels(sequelize: Sequelize) {
-  for (const model of [Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange]) model.initModel(sequelize)
+  for (const model of [Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange, ImportJob, ImportSource]) model.initModel(sequelize)
   User.belongsToMany(Site, { through: UserSite, as: 'sites', foreignKey: 'userId', otherKey: 'siteId' })
   Tank.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
   Site.hasMany(Tank, { as: 'tanks', foreignKey: 'siteId' })
@@ -28,6 +29,7 @@ export function initModels(sequelize: Sequelize) {
   TestKitEntry.hasMany(TestKitEntryRevision, { as: 'revisions', foreignKey: 'entryId' })
   Incident.belongsTo(Tank, { as: 'tank', foreignKey: 'tankId' })
   Incident.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
-  return { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange }
+  ImportJob.belongsTo(ImportSource, { as: 'source', foreignKey: 'sourceId' })
+  return { Organization, User, UserSite, Session, Invitation, Site, Tank, Device, TestKitEntry, TestKitEntryRevision, OutboxMessage, FakeMailboxMessage, WallCredential, DutyShift, DutyOverride, WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink, CareTask, CareLogEntry, LivestockEntry, WaterChange, ImportJob, ImportSource }
 }
 export type Models = ReturnType<typeof initModels>

@@ -17,6 +17,7 @@ import { invitationsRouter } from './invitations'
 import { sitesRouter } from './sites'
 import { tanksRouter } from './tanks'
 import { usersRouter } from './users'
+import { importSourcesRouter, importsRouter, siteImportRoutes, tankImportRoutes } from './imports'
 
 export const API_VERSION = '0.1.0'
 
@@ -35,9 +36,9 @@ export function apiRouter(ctx: AppContext) {
   router.use('/users', requireUser, usersRouter(ctx))
   // The wall answers wall displays too, so it is mounted ahead of the people-only /sites chain.
   router.use('/sites', wallRoute(ctx, authenticate(passport, ['user-jwt', 'wall-token'])))
-  router.use('/sites', requireUser, sitesRouter(ctx), siteRulesRoutes(ctx), rosterRoutes(ctx), siteWallCredentialRoutes(ctx), siteCareRoutes(ctx))
+  router.use('/sites', requireUser, sitesRouter(ctx), siteRulesRoutes(ctx), rosterRoutes(ctx), siteWallCredentialRoutes(ctx), siteCareRoutes(ctx), siteImportRoutes(ctx))
   router.use('/wall-credentials', requireUser, wallCredentialsRouter(ctx))
-  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx), tankRulesRoutes(ctx), careRoutes(ctx))
+  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx), tankRulesRoutes(ctx), careRoutes(ctx), tankImportRoutes(ctx))
   router.use('/test-kit-entries', requireUser, testKitEntriesRouter(ctx))
   router.use('/rules', requireUser, rulesRouter(ctx))
   router.use('/snoozes', requireUser, snoozesRouter(ctx))
@@ -47,6 +48,8 @@ export function apiRouter(ctx: AppContext) {
   router.use(careRouter(ctx))
   router.use('/ack-links', ackLinksRouter(ctx))
   router.use('/devices', requireUser, devicesRouter(ctx))
+  router.use('/imports', requireUser, importsRouter(ctx))
+  router.use('/import-sources', requireUser, importSourcesRouter(ctx))
   router.use('/readings', authenticateDevice(passport), readingsRouter(ctx))
   // The local fake mailbox, only where no real SMTP server is configured and never in production.
   if (!ctx.config.mail.smtpUrl && ctx.config.env !== 'production') router.use('/dev/mail', requireUser, allow('mail.dev'), devMailRouter(ctx))
