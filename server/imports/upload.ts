@@ -14,7 +14,7 @@ export function csvUpload(dataDir: string, maxMb: number): RequestHandler {
       destination: (_req, _file, done) => done(null, files.ensureDir()),
       filename: (_req, _file, done) => done(null, `${files.newKey()}.csv`),
     }),
-    limits: { fileSize: maxMb * 1024 * 1024, files: 1, fields: 5, fieldSize: 1024 },
+    limits: { fileSize: Math.floor(maxMb * 1024 * 1024), files: 1, fields: 5, fieldSize: 1024 },
   }).single('file')
   return (req, res, next) => {
     upload(req, res, (error: unknown) => {
