@@ -14,7 +14,8 @@ export const IMPORT_BATCH_READINGS = 5000
 const HEARTBEAT_MS = 10_000
 export const STALE_AFTER_MS = 60_000
 
-type Pending = { line: number; raw: string[]; readings: FileReading[]; columns: string[] }
+/** A row waiting for its batch; rows that could not be read wait too, so the report keeps the file's order. */
+type Pending = { line: number; raw: string[]; readings: FileReading[]; columns: string[]; problems?: RowProblem[] }
 
 /**
  * Runs import jobs in the background, one at a time per process: the file is streamed through
@@ -44,11 +45,19 @@ export function createImportRunner(ctx: AppContext) {
     const counts = { rowsRead: 0, rowsAccepted: 0, rowsDuplicate: 0, rowsRejected: 0, bytesRead: 0 }
     let lastTouch = Date.now()
 
+    async function unreadable() {
+      for (const s of skipped.splice(0)) {
+        counts.rowsRead++
+        batch.push({ line: s.line, raw: [], readings: [], columns: [], problems: [{ reason: 'invalid', detail: `unreadable CSV: ${s.message}`, column: '', value: '' }] })
+      }
+    }
+
     async function reject(line: number, raw: string[], problems: RowProblem[]) {
       counts.rowsRejected++
       for (const p of problems) await report.add({ line, raw, delimiter: preview.delimiter, ...p })
     }
 
+    const skipped: Array<{ line: number; message: string }> = []
     let batch: Pending[] = []
     let batchReadings = 0
     async function flush() {
@@ -59,6 +68,10 @@ export function createImportRunner(ctx: AppContext) {
       const outcomes = await ctx.readings.ingest.fromFile(rows.flatMap((r) => r.readings))
       let i = 0
       for (const row of rows) {
+        if (row.problems) {
+          await reject(row.line, row.raw, row.problems)
+          continue
+        }
         const mine = outcomes.slice(i, i + row.readings.length)
         i += row.readings.length
         const problems: RowProblem[] = []
@@ -87,7 +100,6 @@ export function createImportRunner(ctx: AppContext) {
     const parser = createReadStream(files.upload(job.fileKey)).pipe(
       parse({ delimiter: preview.delimiter, bom: true, relax_column_count: true, skip_empty_lines: true, trim: true, info: true, skip_records_with_error: true }),
     )
-    const skipped: Array<{ line: number; message: string }> = []
     parser.on('skip', (error: Error & { lines?: number }) => skipped.push({ line: error.lines ?? 0, message: error.message }))
 
     let seenHeader = false
@@ -96,20 +108,20 @@ export function createImportRunner(ctx: AppContext) {
         seenHeader = true
         continue
       }
-      for (const s of skipped.splice(0)) await reject(s.line, [], [{ reason: 'invalid', detail: `unreadable CSV: ${s.message}`, column: '', value: '' }])
+      await unreadable()
       counts.rowsRead++
       counts.bytesRead = info.bytes
       const row = readRow(record)
-      if (!row.ok) await reject(info.lines, record, row.problems)
+      if (!row.ok) batch.push({ line: info.lines, raw: record, readings: [], columns: [], problems: row.problems })
       else {
         batch.push({ line: info.lines, raw: record, readings: row.readings, columns: row.columns })
         batchReadings += row.readings.length
       }
-      if (batchReadings >= IMPORT_BATCH_READINGS) await flush()
+      if (batchReadings >= IMPORT_BATCH_READINGS || batch.length >= IMPORT_BATCH_READINGS) await flush()
       else if (Date.now() - lastTouch > HEARTBEAT_MS) await touch()
       if (cancelled.has(job.id) || stopping) break
     }
-    for (const s of skipped.splice(0)) await reject(s.line, [], [{ reason: 'invalid', detail: `unreadable CSV: ${s.message}`, column: '', value: '' }])
+    await unreadable()
     parser.destroy()
     const wasCancelled = cancelled.has(job.id)
     const wasStopped = stopping && !wasCancelled

@@ -130,7 +130,7 @@ export function buildPreview(
   const column = (i: number) => data.map((r) => r[i] ?? '').filter(Boolean)
 
   let timeIndex = header.findIndex((h) => TIME_HEADER.test(normalise(h)))
-  if (timeIndex < 0) timeIndex = header.findIndex((_, i) => column(i).length > 0 && column(i).slice(0, 20).every(looksLikeTime))
+  if (timeIndex < 0) timeIndex = header.findIndex((_, i) => column(i).length > 0 && column(i).slice(0, 20).filter(looksLikeTime).length > column(i).slice(0, 20).length / 2)
   const timeColumn = timeIndex >= 0 ? header[timeIndex]! : null
   const time = timeIndex >= 0 ? detectTimeFormat(column(timeIndex).slice(0, 50), options.timeZone) : null
 

@@ -66,23 +66,29 @@ export function createTimeReader(format: TimeFormat, timeZone = 'UTC') {
 
 const ALL: TimeFormat[] = ['iso_offset', 'epoch_ms', 'epoch_s', 'local_ymd', 'local_dmy', 'local_mdy']
 
-/** Which formats fit every sampled cell; day-first against month-first is left open when no cell decides it. */
+/**
+ * The formats that read the most sampled cells (at least half of them: a stray bad row must not
+ * hide the format); day-first against month-first is left open when no cell decides it.
+ */
 export function detectTimeFormat(samples: string[], timeZone = 'UTC'): TimeDetection | null {
   const cells = samples.map((s) => s.trim()).filter(Boolean)
   if (!cells.length) return null
-  const candidates = ALL.filter((format) => {
+  const fits = ALL.map((format) => {
     const read = createTimeReader(format, timeZone)
-    return cells.every((cell) => read(cell) !== null)
+    return { format, count: cells.filter((cell) => read(cell) !== null).length }
   })
-  if (!candidates.length) return null
+  const best = Math.max(...fits.map((f) => f.count))
+  if (best === 0 || best < cells.length / 2) return null
+  const candidates = fits.filter((f) => f.count === best).map((f) => f.format)
   const ambiguousDayOrder = candidates.includes('local_dmy') && candidates.includes('local_mdy')
   const first = candidates[0]!
-  const parsed = createTimeReader(first, timeZone)(cells[0]!)
+  const read = createTimeReader(first, timeZone)
+  const example = cells.find((cell) => read(cell) !== null)!
   return {
     candidates,
     ambiguousDayOrder,
     needsZone: LOCAL_TIME_FORMATS.includes(first),
-    example: { raw: cells[0]!, parsed: parsed === null ? null : new Date(parsed).toISOString() },
+    example: { raw: example, parsed: new Date(read(example)!).toISOString() },
   }
 }
 
