@@ -75,6 +75,12 @@ export const routes: RouteRecordRaw[] = [
         props: (route) => ({ id: Number(route.params.id) }),
         meta: { title: 'Edit tank', roles: EDITORS },
       },
+      {
+        path: 'import',
+        name: 'import',
+        component: () => import('@/views/ImportView.vue'),
+        meta: { title: 'Import readings', roles: EDITORS },
+      },
       { path: 'sites', name: 'sites', component: () => import('@/views/SitesView.vue'), meta: { title: 'Sites' } },
       {
         path: 'sites/:id(\\d+)/roster',
