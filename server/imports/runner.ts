@@ -60,12 +60,21 @@ export function createImportRunner(ctx: AppContext) {
     const skipped: Array<{ line: number; message: string }> = []
     let batch: Pending[] = []
     let batchReadings = 0
+    // One batch is written while the next is parsed; results are handled in file order.
+    let inFlight: Promise<void> = Promise.resolve()
     async function flush() {
       if (!batch.length) return
       const rows = batch
       batch = []
       batchReadings = 0
-      const outcomes = await ctx.readings.ingest.fromFile(rows.flatMap((r) => r.readings))
+      const writing = ctx.readings.ingest.fromFile(rows.flatMap((r) => r.readings))
+      writing.catch(() => undefined) // awaited below, in order; this only keeps it from counting as unhandled
+      const previous = inFlight
+      inFlight = previous.then(async () => settle(rows, await writing))
+      await previous
+    }
+
+    async function settle(rows: Pending[], outcomes: Awaited<ReturnType<typeof ctx.readings.ingest.fromFile>>) {
       let i = 0
       for (const row of rows) {
         if (row.problems) {
@@ -126,6 +135,7 @@ export function createImportRunner(ctx: AppContext) {
     const wasCancelled = cancelled.has(job.id)
     const wasStopped = stopping && !wasCancelled
     if (!wasCancelled && !wasStopped) await flush()
+    await inFlight
     const hasReport = await report.close()
     if (!wasCancelled && !wasStopped) counts.bytesRead = job.sizeBytes
     return { counts, hasReport, outcome: wasCancelled ? ('cancelled' as const) : wasStopped ? ('stopped' as const) : ('done' as const) }

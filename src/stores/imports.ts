@@ -70,7 +70,9 @@ export const useImportsStore = defineStore('imports', () => {
     const a = document.createElement('a')
     a.href = url
     a.download = `import-${job.value.id}-rejected.csv`
+    document.body.appendChild(a)
     a.click()
+    a.remove()
     setTimeout(() => URL.revokeObjectURL(url), 10_000)
   }
 

@@ -79,5 +79,5 @@ describe('importing a CSV file in the browser', () => {
     const [{ n }] = (await s.ctx.sequelize.query('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1 AND source = $2', { bind: [tankId, 'import'] }))[0] as Array<{ n: number }>
     expect(n).toBe(ROWS - 1)
     await page.close()
-  })
+  }, 180_000)
 })
