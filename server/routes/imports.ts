@@ -52,7 +52,8 @@ export function importsRouter(ctx: AppContext) {
   })
   router.get('/:id/rejections', allow('imports.write'), async (req, res) => {
     const { path, name } = await imports.reportPath(actorOf(req), parse(idParamsSchema, req, 'params').id)
-    res.download(path, name, { headers: { 'Content-Type': 'text/csv; charset=utf-8' } })
+    // The data folder is often a dot folder (.data); send refuses those unless told.
+    res.download(path, name, { dotfiles: 'allow', headers: { 'Content-Type': 'text/csv; charset=utf-8' } })
   })
   return router
 }

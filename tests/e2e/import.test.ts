@@ -69,12 +69,14 @@ describe('importing a CSV file in the browser', () => {
     expect(await page.locator('[data-test=count-rejected]').textContent()).toBe('1')
     await shot(page, 'import-finished')
 
-    const download = page.waitForEvent('download')
+    // The button fetches the report with the session's token and hands it to the browser as a file.
+    const fetched = page.waitForResponse((r) => r.url().endsWith(`/rejections`))
     await page.locator('[data-test=import-report]').click()
-    const file = await download
-    const { readFile } = await import('node:fs/promises')
-    const text = await readFile((await file.path())!, 'utf8')
+    const res = await fetched
+    expect(res.status()).toBe(200)
+    const text = await res.text()
     expect(text.split('\n')[1]).toMatch(/^12,bad_number,"""n\/a"" is not a number",Water temp \(°F\),n\/a,/)
+    expect(await page.locator('[data-test=import-error]').count()).toBe(0)
 
     const [{ n }] = (await s.ctx.sequelize.query('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1 AND source = $2', { bind: [tankId, 'import'] }))[0] as Array<{ n: number }>
     expect(n).toBe(ROWS - 1)
