@@ -1,4 +1,4 @@
-import { mkdtempSync, readdirSync } from 'node:fs'
+import { mkdtempSync, readdirSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { expect } from 'vitest'
@@ -11,9 +11,20 @@ export type ImportTestApp = Awaited<ReturnType<typeof startImportTestApp>>
 
 /** A test app with its own data folder, so a test can see exactly which files an upload left behind. */
 export async function startImportTestApp(maxMb = 100) {
-  const dataDir = mkdtempSync(join(tmpdir(), 'tw-import-'))
+  // A dot folder, like the default .data: file serving must not refuse it.
+  const parent = mkdtempSync(join(tmpdir(), 'tw-import-'))
+  const dataDir = join(parent, '.data')
   const t = await startTestApp({ dataDir, imports: { maxMb } })
-  return { ...t, dataDir, importFilesLeft: () => listImportFiles(dataDir) }
+  return {
+    ...t,
+    dataDir,
+    importFilesLeft: () => listImportFiles(dataDir),
+    async close() {
+      await importRunnerFor(t.ctx).idle()
+      await t.close()
+      rmSync(parent, { recursive: true, force: true })
+    },
+  }
 }
 
 export function listImportFiles(dataDir: string): string[] {
