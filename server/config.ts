@@ -48,6 +48,7 @@ const envSchema = z.object({
   S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
   S3_FORCE_PATH_STYLE: boolish.default(false),
   CARE_DIGEST_HOUR: z.coerce.number().int().min(0).max(23).default(7),
+  IMPORT_MAX_MB: z.coerce.number().positive().max(10_000).default(100),
 }).refine((e) => e.PHOTO_STORE !== 's3' || e.S3_BUCKET, { message: 'S3_BUCKET is required when PHOTO_STORE=s3', path: ['S3_BUCKET'] })
 
 export type Config = Readonly<{
@@ -78,6 +79,7 @@ export type Config = Readonly<{
   photos: { maxBytes: number; store: PhotoStoreSettings }
   /** Local hour (site's zone) from which the morning care digest goes out. */
   careDigestHour: number
+  imports: { maxMb: number }
 }>
 
 export type PhotoStoreSettings =
@@ -132,6 +134,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
         : { kind: 'local' as const },
     },
     careDigestHour: e.CARE_DIGEST_HOUR,
+    imports: { maxMb: e.IMPORT_MAX_MB },
   })
 }
 
@@ -161,6 +164,7 @@ export function testConfig(overrides: Partial<Config> & { databaseUrl: string })
     mail: { fakeSmtpPort: 0, from: 'Tankwarden <alerts@tankwarden.invalid>' },
     photos: { maxBytes: 15 * 1024 * 1024, store: { kind: 'local' as const } },
     careDigestHour: 7,
+    imports: { maxMb: 100 },
     ...overrides,
   })
 }

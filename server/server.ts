@@ -16,6 +16,7 @@ import { recordMailAttempts } from './rules/mail-timeline'
 import { startMail, type RunningMail } from './mail'
 import { startReportJob } from './report/job'
 import { startCareDigestJob } from './care/digest'
+import { startImportRunner } from './imports/runner'
 
 export type RunningServer = {
   ctx: AppContext
@@ -67,6 +68,8 @@ export async function startServer(config: Config): Promise<RunningServer> {
       () => startCareDigestJob(ctx),
     ],
   })
+  // Each instance runs the imports uploaded to it: the uploaded file is on its own disk.
+  const stopImports = startImportRunner(ctx)
 
   logger.info({ port, mqttPort: broker?.port ?? null }, 'Tankwarden is listening')
 
@@ -83,6 +86,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
     async stop() {
       if (stopped) return
       stopped = true
+      await stopImports()
       await rules.stop()
       await mail.stop()
       stopMailTimeline()

@@ -24,6 +24,7 @@ export const PERMISSIONS = {
   'reports.read': ['owner', 'keeper', 'viewer'],
   'reports.manage': ['owner'],
   'org.backup': ['owner'],
+  'imports.write': ['owner', 'keeper'],
 } as const satisfies Record<string, readonly Caller[]>
 
 export type Permission = keyof typeof PERMISSIONS

@@ -71,8 +71,36 @@ export function createIngest(deps: IngestDeps) {
     return summary
   }
 
-  return { fromDevice }
+  /**
+   * Readings read from an uploaded file: the same checks, conversion and writer as a device's,
+   * one outcome per reading in order, without the device bookkeeping.
+   */
+  async function fromFile(readings: FileReading[]): Promise<ReadingOutcome[]> {
+    const now = Date.now()
+    const results: ReadingOutcome[] = new Array(readings.length)
+    const rows: ReadingRow[] = []
+    const rowIndex: number[] = []
+    readings.forEach((r, index) => {
+      const checked = checkReading({ metric: r.metric, value: r.value, unit: r.unit, time: r.time.toISOString() }, limits, now)
+      if (!checked.ok) {
+        results[index] = { index, outcome: 'rejected', reason: checked.reason }
+        return
+      }
+      rows.push({ sourceKey: r.sourceKey, metric: checked.metric, time: checked.time, tankId: r.tankId, value: checked.value, source: 'import' })
+      rowIndex.push(index)
+    })
+    const inserted = await writer.write(rows)
+    inserted.forEach((isNew, i) => {
+      const index = rowIndex[i]!
+      results[index] = { index, outcome: isNew ? 'accepted' : 'duplicate' }
+    })
+    return results
+  }
+
+  return { fromDevice, fromFile }
 }
+
+export type FileReading = { sourceKey: string; tankId: number; metric: string; value: number; unit: string; time: Date }
 
 function tally(results: ReadingOutcome[]): IngestSummary {
   let accepted = 0

@@ -10,6 +10,7 @@ import createCare from './202612020410-create-care'
 import createPasswordResets from './202612020420-create-password-resets'
 import addTankStageChangedAt from './202612021000-add-tank-stage-changed-at'
 import allowCancelledWaterChanges from './202612021010-allow-cancelled-water-changes'
+import createImports from './202612021100-create-imports'
 import createPhotos from './202612021300-create-photos'
 import createReportSchedules from './202612021400-create-report-schedules'
 
@@ -26,6 +27,7 @@ export const migrations: Migration[] = [
   createPasswordResets,
   addTankStageChangedAt,
   allowCancelledWaterChanges,
+  createImports,
   createPhotos,
   createReportSchedules,
 ]

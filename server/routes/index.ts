@@ -21,6 +21,7 @@ import { photosRouter, tankPhotoRoutes } from './photos'
 import { reportRoutes, reportSchedulesRouter } from './reports'
 import { exportRoutes } from './exports'
 import { backupRouter } from './backup'
+import { importSourcesRouter, importsRouter, siteImportRoutes, tankImportRoutes } from './imports'
 
 export const API_VERSION = '0.1.0'
 
@@ -39,9 +40,9 @@ export function apiRouter(ctx: AppContext) {
   router.use('/users', requireUser, usersRouter(ctx))
   // The wall answers wall displays too, so it is mounted ahead of the people-only /sites chain.
   router.use('/sites', wallRoute(ctx, authenticate(passport, ['user-jwt', 'wall-token'])))
-  router.use('/sites', requireUser, sitesRouter(ctx), siteRulesRoutes(ctx), rosterRoutes(ctx), siteWallCredentialRoutes(ctx), siteCareRoutes(ctx), exportRoutes(ctx, 'site'))
+  router.use('/sites', requireUser, sitesRouter(ctx), siteRulesRoutes(ctx), rosterRoutes(ctx), siteWallCredentialRoutes(ctx), siteCareRoutes(ctx), exportRoutes(ctx, 'site'), siteImportRoutes(ctx))
   router.use('/wall-credentials', requireUser, wallCredentialsRouter(ctx))
-  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx), tankRulesRoutes(ctx), careRoutes(ctx), tankPhotoRoutes(ctx), exportRoutes(ctx, 'tank'))
+  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx), tankRulesRoutes(ctx), careRoutes(ctx), tankPhotoRoutes(ctx), exportRoutes(ctx, 'tank'), tankImportRoutes(ctx))
   router.use('/test-kit-entries', requireUser, testKitEntriesRouter(ctx))
   router.use('/rules', requireUser, rulesRouter(ctx))
   router.use('/snoozes', requireUser, snoozesRouter(ctx))
@@ -56,6 +57,8 @@ export function apiRouter(ctx: AppContext) {
   router.use('/devices', requireUser, devicesRouter(ctx))
   router.use('/photos', requireUser, photosRouter(ctx))
   router.use('/backup', requireUser, backupRouter(ctx))
+  router.use('/imports', requireUser, importsRouter(ctx))
+  router.use('/import-sources', requireUser, importSourcesRouter(ctx))
   router.use('/readings', authenticateDevice(passport), readingsRouter(ctx))
   // The local fake mailbox, only where no real SMTP server is configured and never in production.
   if (!ctx.config.mail.smtpUrl && ctx.config.env !== 'production') router.use('/dev/mail', requireUser, allow('mail.dev'), devMailRouter(ctx))

@@ -76,6 +76,12 @@ export const routes: RouteRecordRaw[] = [
         meta: { title: 'Edit tank', roles: EDITORS },
       },
       { path: 'reports', name: 'report', component: () => import('@/views/ReportView.vue'), meta: { title: 'Report' } },
+      {
+        path: 'import',
+        name: 'import',
+        component: () => import('@/views/ImportView.vue'),
+        meta: { title: 'Import readings', roles: EDITORS },
+      },
       { path: 'sites', name: 'sites', component: () => import('@/views/SitesView.vue'), meta: { title: 'Sites' } },
       {
         path: 'sites/:id(\\d+)/roster',
