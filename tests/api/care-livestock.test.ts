@@ -91,13 +91,13 @@ describe('adding livestock', () => {
     ])
   })
 
-  it('counts quarantine days from the first animals in', async () => {
+  it('counts quarantine days from the stage change, not from the first animals in', async () => {
     const tankId = await newTank(t, org, { stage: 'quarantine' })
     const empty = await t.api().get(`/api/v1/tanks/${tankId}/livestock`).set(as(org, 'viewer'))
-    expect(empty.body.quarantine).toMatchObject({ daysRemaining: null, days: 28 })
+    expect(empty.body.quarantine).toMatchObject({ daysIn: 0, daysRemaining: 28, days: 28 })
     await add(tankId, { speciesKey: 'angelfish', count: 2, addedAt: isoDaysAgo(10) })
     const res = await t.api().get(`/api/v1/tanks/${tankId}/livestock`).set(as(org, 'viewer'))
-    expect(res.body.quarantine).toMatchObject({ daysRemaining: 18, days: 28 })
+    expect(res.body.quarantine).toMatchObject({ daysIn: 0, daysRemaining: 28, days: 28 })
   })
 })
 

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { QueryTypes } from 'sequelize'
 import createCare from '../../server/migrations/202612020410-create-care'
+import { migrations } from '../../server/migrations'
 import { startTestApp } from '../helpers/app'
 
 let t: Awaited<ReturnType<typeof startTestApp>>
@@ -18,12 +19,14 @@ const careTables = async () =>
   ).map((r) => r.name)
 
 describe('the care migration', () => {
-  it('rolls back cleanly and applies again', async () => {
+  it('rolls back cleanly, with every migration after it, and applies again', async () => {
     const qi = t.ctx.sequelize.getQueryInterface()
+    // Later migrations build on the care tables (photos point at care-log entries), so they go first.
+    const fromCare = migrations.slice(migrations.indexOf(createCare))
     expect(await careTables()).toEqual(['care_log', 'care_tasks', 'livestock', 'water_changes'])
-    await createCare.down(qi)
+    for (const m of [...fromCare].reverse()) await m.down(qi)
     expect(await careTables()).toEqual([])
-    await createCare.up(qi)
+    for (const m of fromCare) await m.up(qi)
     expect(await careTables()).toEqual(['care_log', 'care_tasks', 'livestock', 'water_changes'])
   })
 })
