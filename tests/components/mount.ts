@@ -11,7 +11,7 @@ const Blank = defineComponent({ render: () => h('div') })
 
 /** Same route names as the app, with blank pages, so links resolve and pushes can be checked. */
 export function testRouter(): Router {
-  const names = ['sign-in', 'tanks', 'tank-new', 'tank', 'tank-edit', 'tank-test-kit', 'sites', 'users', 'account', 'wall', 'incidents', 'incident', 'roster', 'ack', 'dev-mail', 'care-today']
+  const names = ['sign-in', 'tanks', 'tank-new', 'tank', 'tank-edit', 'tank-test-kit', 'sites', 'users', 'account', 'wall', 'incidents', 'incident', 'roster', 'ack', 'dev-mail', 'care-today', 'report', 'import', 'backup']
   const paths: Record<string, string> = {
     'sign-in': '/sign-in',
     tanks: '/tanks',
@@ -29,6 +29,9 @@ export function testRouter(): Router {
     roster: '/sites/:id/roster',
     ack: '/ack',
     'dev-mail': '/dev/mail',
+    report: '/reports',
+    import: '/import',
+    backup: '/backup',
   }
   return createRouter({
     history: createMemoryHistory(),

@@ -124,7 +124,8 @@ describe('MQTT_URL mode against mosquitto', () => {
     await stop(app) // flushes the coalesced device status
     const after = await deviceStatus(other.deviceId)
     expect(Number(after.rejected_count) - Number(before.rejected_count)).toBe(2)
-    expect(after.last_error).toMatch(/expected \{"v":1/)
+    // Four connections take messages side by side, so either refusal may be the last one recorded.
+    expect(after.last_error).toMatch(/expected \{"v":1|payload is not valid JSON/)
   })
 
   it('splits the shared subscription between two instances: every message stored once', async () => {
