@@ -4,7 +4,7 @@ import { fuzzRoute, reportLine, type FuzzRoute } from './fuzz-http'
 import { buildFuzzWorld, inHours, type FuzzWorld } from './fuzz-world'
 
 /** numRuns per route; FUZZ_RUNS changes it, FUZZ_SEED fixes the seed to replay a failure. */
-const NUM_RUNS = Number(process.env.FUZZ_RUNS ?? 100)
+const NUM_RUNS = Number(process.env.FUZZ_RUNS ?? 60)
 const SEED = process.env.FUZZ_SEED ? Number(process.env.FUZZ_SEED) : undefined
 const ago = (minutes: number) => new Date(Date.now() - minutes * 60_000).toISOString()
 

@@ -10,7 +10,7 @@ import { startTestServer } from '../helpers/server'
 
 // Hostile readings payloads over a real MQTT connection to the embedded broker: the broker keeps the
 // connection and the process, an unreadable envelope stores nothing, and nothing implausible is stored.
-const NUM_RUNS = Number(process.env.FUZZ_RUNS ?? 150)
+const NUM_RUNS = Number(process.env.FUZZ_RUNS ?? 100)
 const SEED = process.env.FUZZ_SEED ? Number(process.env.FUZZ_SEED) : undefined
 
 let s: Awaited<ReturnType<typeof startTestServer>>

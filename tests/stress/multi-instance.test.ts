@@ -1,4 +1,5 @@
 import { fork, type ChildProcess } from 'node:child_process'
+import { compiledEntry } from '../helpers/compiled-server'
 import { mkdtempSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
@@ -65,7 +66,7 @@ async function startInstance(id: string, port?: number): Promise<Instance> {
     RULES_TICK_SECONDS: '1',
     BCRYPT_ROUNDS: '4',
   }
-  const child = fork(ENTRY, [], { execArgv: ['--import', 'tsx'], env, stdio: ['ignore', 'pipe', 'pipe', 'ipc'] })
+  const child = fork(await compiledEntry(ENTRY), [], { execArgv: [], env, stdio: ['ignore', 'pipe', 'pipe', 'ipc'] })
   const instance: Instance = { id, port: httpPort, child, stored: new Set(), leading: false, output: [] }
   child.stdout?.on('data', (d) => instance.output.push(String(d)))
   child.stderr?.on('data', (d) => instance.output.push(String(d)))

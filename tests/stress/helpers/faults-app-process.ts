@@ -1,4 +1,5 @@
 import { fork, type ChildProcess } from 'node:child_process'
+import { compiledEntry } from '../../helpers/compiled-server'
 import { mkdtempSync, rmSync } from 'node:fs'
 import { createServer } from 'node:net'
 import { tmpdir } from 'node:os'
@@ -32,9 +33,9 @@ export async function appProcess(databaseUrl: string, env: Record<string, string
 
   async function start() {
     starts++
-    const proc = fork(join(ROOT, 'server', 'index.ts'), [], {
+    const proc = fork(await compiledEntry(join(ROOT, 'server', 'index.ts')), [], {
       cwd: ROOT,
-      execArgv: ['--import', 'tsx'],
+      execArgv: [],
       stdio: ['ignore', 'ignore', 'pipe', 'ipc'],
       env: {
         ...process.env,
@@ -57,7 +58,7 @@ export async function appProcess(databaseUrl: string, env: Record<string, string
     let stderr = ''
     proc.stderr?.on('data', (d) => (stderr += d))
     await new Promise<void>((resolve, reject) => {
-      // Generous: tsx compiles the whole server on each start, on a machine shared with other jobs.
+      // Generous: a machine shared with other jobs can be slow to start a process.
       const timer = setTimeout(() => reject(new Error(`app did not start within 150 s:\n${stderr}`)), 150_000)
       proc.on('message', (m: { type?: string }) => {
         if (m?.type === 'ready') {
