@@ -38,8 +38,10 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
 /** Connection failures and server shutdowns are outages to wait out (503), not bugs (500). */
 export function isDatabaseUnavailable(error: unknown): boolean {
   if (!error || typeof error !== 'object') return false
-  const e = error as { name?: string; original?: { code?: string }; parent?: { code?: string }; code?: string }
-  if (e.name?.startsWith('SequelizeConnection') || e.name === 'ConnectionAcquireTimeoutError') return true
+  const e = error as { name?: string; message?: string; original?: { code?: string; message?: string }; parent?: { code?: string }; code?: string }
+  if (e.name?.startsWith('SequelizeConnection') || e.name === 'SequelizeHostNotReachableError' || e.name === 'ConnectionAcquireTimeoutError') return true
   const code = e.original?.code ?? e.parent?.code ?? e.code ?? ''
-  return /^(08|57P0)/.test(code) || ['ECONNREFUSED', 'ECONNRESET', 'EPIPE', 'ETIMEDOUT'].includes(code)
+  if (/^(08|57P0)/.test(code) || ['ECONNREFUSED', 'ECONNRESET', 'EPIPE', 'ETIMEDOUT'].includes(code)) return true
+  // A connection the server dropped mid-query (a restart) carries no SQLSTATE, only pg's own message.
+  return /Connection terminated|connection is closed|Client has encountered a connection error|Connection ended unexpectedly/i.test(e.original?.message ?? e.message ?? '')
 }
