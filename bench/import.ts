@@ -10,7 +10,7 @@ import bcrypt from 'bcryptjs'
 import { testConfig } from '../server/config'
 import { startServer } from '../server/server'
 import { authService } from '../server/services/auth'
-import type { PublicImportJob } from '../shared/schemas/imports'
+import type { PublicImportJob } from '@shared/schemas/imports'
 import { benchShop } from './fixtures'
 
 const ROWS = Number(process.env.BENCH_IMPORT_ROWS ?? 525_600)

@@ -1,6 +1,6 @@
 // Steady readings stamped with the moment they are published, for the publish → screen latency.
 import mqtt from 'mqtt'
-import { readingsTopic } from '../shared/ingest/contract'
+import { readingsTopic } from '@shared/ingest/contract'
 
 type Job = { url: string; devices: Array<{ deviceId: number; token: string }>; ratePerSecond: number; seconds: number }
 

@@ -4,7 +4,7 @@
 // one message per second of up to MAX_READINGS_PER_MESSAGE readings (more messages when a connection's
 // share is larger).
 import mqtt, { type MqttClient } from 'mqtt'
-import { MAX_READINGS_PER_MESSAGE, readingsTopic } from '../shared/ingest/contract'
+import { MAX_READINGS_PER_MESSAGE, readingsTopic } from '@shared/ingest/contract'
 
 type Job = { url: string; devices: Array<{ deviceId: number; token: string }>; ratePerSecond: number; seconds: number; timeBaseMs: number }
 

@@ -5,7 +5,7 @@ import helmet from 'helmet'
 import { pinoHttp } from 'pino-http'
 import type { AppContext } from './context'
 import { errorHandler, notFoundHandler } from './http/errors'
-import { MAX_PAYLOAD_BYTES } from '../shared/ingest/contract'
+import { MAX_PAYLOAD_BYTES } from '@shared/ingest/contract'
 import { apiRouter } from './routes'
 
 export const JSON_BODY_LIMIT = '1mb'

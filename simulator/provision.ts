@@ -1,8 +1,8 @@
 // Signs in as an owner and makes sure every non-empty tank has a "Simulated node" with a fresh token.
-import type { MetricKey } from '../shared/metrics'
-import type { Page } from '../shared/schemas/common'
-import type { PublicSite } from '../shared/schemas/sites'
-import type { PublicTank } from '../shared/schemas/tanks'
+import type { MetricKey } from '@shared/metrics'
+import type { Page } from '@shared/schemas/common'
+import type { PublicSite } from '@shared/schemas/sites'
+import type { PublicTank } from '@shared/schemas/tanks'
 import { withRetry, type ApiClient } from './api-client'
 import type { SimTankSpec } from './model/spec'
 

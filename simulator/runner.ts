@@ -1,5 +1,5 @@
 // The tick loop: advance every tank's physics, then send one batch per node.
-import type { DeviceReading } from '../shared/ingest/contract'
+import type { DeviceReading } from '@shared/ingest/contract'
 import { FaultyOutbox, type OutgoingMessage } from './model/faults'
 import type { TankSimulation } from './model/tank'
 import type { SendOutcome, Transport } from './transport/types'

@@ -1,4 +1,4 @@
-import type { Role } from '../../shared/schemas/auth'
+import type { Role } from '@shared/schemas/auth'
 import type { DeviceActor } from './device-tokens'
 
 /** A signed-in person. */

@@ -1,5 +1,5 @@
 import { randomBytes, timingSafeEqual } from 'node:crypto'
-import { parseDeviceToken } from '../../shared/ingest/contract'
+import { parseDeviceToken } from '@shared/ingest/contract'
 import type { Models } from '../models'
 import { hashSecret } from './tokens'
 

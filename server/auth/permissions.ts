@@ -1,4 +1,4 @@
-import type { Role } from '../../shared/schemas/auth'
+import type { Role } from '@shared/schemas/auth'
 
 type Caller = Role | 'wall'
 

@@ -1,5 +1,5 @@
 import { QueryTypes } from 'sequelize'
-import { quarantineStatus, type QuarantineStatus } from '../../shared/care/livestock'
+import { quarantineStatus, type QuarantineStatus } from '@shared/care/livestock'
 import type { AppContext } from '../context'
 
 /** A live tank worth a look beyond its tasks: in quarantine, or with new arrivals under watch. */

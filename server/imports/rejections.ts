@@ -1,8 +1,8 @@
 import { once } from 'node:events'
 import { createWriteStream } from 'node:fs'
 import { stringify, type Stringifier } from 'csv-stringify'
-import { guardRow } from '../../shared/csv/formula-guard'
-import type { RejectionReason } from '../../shared/schemas/imports'
+import { guardRow } from '@shared/csv/formula-guard'
+import type { RejectionReason } from '@shared/schemas/imports'
 
 export const REPORT_HEADER = ['line', 'reason', 'detail', 'column', 'value', 'row']
 

@@ -1,4 +1,4 @@
-import type { ImportMapping, RejectionReason } from '../../shared/schemas/imports'
+import type { ImportMapping, RejectionReason } from '@shared/schemas/imports'
 import type { FileReading } from '../ingest/ingest-service'
 import { createTimeReader } from './time-formats'
 

@@ -1,7 +1,7 @@
 import { open } from 'node:fs/promises'
 import { parse } from 'csv-parse/sync'
-import { METRICS, METRIC_KEYS, type MetricKey } from '../../shared/metrics/registry'
-import type { ImportMapping, ImportPreview } from '../../shared/schemas/imports'
+import { METRICS, METRIC_KEYS, type MetricKey } from '@shared/metrics/registry'
+import type { ImportMapping, ImportPreview } from '@shared/schemas/imports'
 import { detectTimeFormat, looksLikeTime } from './time-formats'
 
 export const SNIFF_BYTES = 64 * 1024

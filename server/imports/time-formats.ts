@@ -1,5 +1,5 @@
-import { localToInstant } from '../../shared/roster/zoned-time'
-import { LOCAL_TIME_FORMATS, type TimeDetection, type TimeFormat } from '../../shared/schemas/imports'
+import { localToInstant } from '@shared/roster/zoned-time'
+import { LOCAL_TIME_FORMATS, type TimeDetection, type TimeFormat } from '@shared/schemas/imports'
 
 const ISO_OFFSET = /^\d{4}-\d{2}-\d{2}[T ]\d{2}:\d{2}(:\d{2}(\.\d{1,9})?)?(Z|[+-]\d{2}:?\d{2})$/i
 const LOCAL_YMD = /^(\d{4})-(\d{1,2})-(\d{1,2})(?:[T ](\d{1,2}):(\d{2})(?::(\d{2})(?:\.\d+)?)?)?$/

@@ -1,4 +1,4 @@
-import { readingsMessageSchema, MAX_READINGS_PER_MESSAGE, type IngestSummary, type ReadingOutcome } from '../../shared/ingest/contract'
+import { readingsMessageSchema, MAX_READINGS_PER_MESSAGE, type IngestSummary, type ReadingOutcome } from '@shared/ingest/contract'
 import type { DeviceActor } from '../auth/device-tokens'
 import type { BatchWriter, ReadingRow } from './batch-writer'
 import type { DeviceStatusTracker } from './device-status'

@@ -1,6 +1,6 @@
-import { deviceReadingSchema } from '../../shared/ingest/contract'
-import { METRICS, isMetricKey } from '../../shared/metrics/registry'
-import { toCanonical } from '../../shared/metrics/units'
+import { deviceReadingSchema } from '@shared/ingest/contract'
+import { METRICS, isMetricKey } from '@shared/metrics/registry'
+import { toCanonical } from '@shared/metrics/units'
 
 export type CheckedReading =
   | { ok: true; metric: string; value: number; time: Date }

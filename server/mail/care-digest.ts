@@ -1,5 +1,5 @@
-import type { CareDueStatus } from '../../shared/care/due'
-import type { QuarantineStatus } from '../../shared/care/livestock'
+import type { CareDueStatus } from '@shared/care/due'
+import type { QuarantineStatus } from '@shared/care/livestock'
 import { button, escapeHtml, layout, oneLine, safeUrl } from './templates/html'
 import type { RenderedMail } from './types'
 

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
-import type { RuleSeverity, WatchRuleSpec } from '../../shared/rules/schema'
+import type { RuleSeverity, WatchRuleSpec } from '@shared/rules/schema'
 
 export class WatchRule extends Model<InferAttributes<WatchRule>, InferCreationAttributes<WatchRule>> {
   declare id: CreationOptional<number>

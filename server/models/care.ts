@@ -1,7 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
-import type { CareRecurrence } from '../../shared/care/due'
-import type { CareTaskKind, CareValues } from '../../shared/care/defaults'
-import type { CareLogKind } from '../../shared/schemas/care'
+import type { CareRecurrence } from '@shared/care/due'
+import type { CareTaskKind, CareValues } from '@shared/care/defaults'
+import type { CareLogKind } from '@shared/schemas/care'
 
 // Fresh objects each time: Sequelize writes the column name into an attribute's definition.
 const id = () => ({ type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true })

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize'
-import type { ImportMapping, ImportPreview, ImportStatus } from '../../shared/schemas/imports'
+import type { ImportMapping, ImportPreview, ImportStatus } from '@shared/schemas/imports'
 
 /** A named upload source of one organization and the mapping last confirmed for it. */
 export class ImportSource extends Model<InferAttributes<ImportSource>, InferCreationAttributes<ImportSource>> {

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
-import type { Role } from '../../shared/schemas/auth'
+import type { Role } from '@shared/schemas/auth'
 
 export class Invitation extends Model<InferAttributes<Invitation>, InferCreationAttributes<Invitation>> {
   declare id: CreationOptional<number>

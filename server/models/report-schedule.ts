@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
-import type { ReportPeriodKind } from '../../shared/report/period'
+import type { ReportPeriodKind } from '@shared/report/period'
 
 /** A periodic client report (table report_schedules). */
 export class ReportSchedule extends Model<InferAttributes<ReportSchedule>, InferCreationAttributes<ReportSchedule>> {

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize'
-import type { TankKind, TankStage, TankShapeInput, Targets } from '../../shared/schemas/tanks'
+import type { TankKind, TankStage, TankShapeInput, Targets } from '@shared/schemas/tanks'
 import type { Site } from './site'
 
 export type HeaterSpec = { watts: number; setPointC: number; topCm: number }

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize'
-import type { KitValue } from '../../shared/schemas/test-kit'
+import type { KitValue } from '@shared/schemas/test-kit'
 import type { User } from './user'
 
 export class TestKitEntry extends Model<InferAttributes<TestKitEntry>, InferCreationAttributes<TestKitEntry>> {

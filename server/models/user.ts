@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize'
-import type { Role } from '../../shared/schemas/auth'
+import type { Role } from '@shared/schemas/auth'
 import type { Site } from './site'
 
 export class User extends Model<InferAttributes<User>, InferCreationAttributes<User>> {

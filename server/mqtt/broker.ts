@@ -1,6 +1,6 @@
 import { createServer, type Server } from 'node:net'
 import { Aedes, type Client } from 'aedes'
-import { commandsTopic, parseDeviceTopic, readingsTopic } from '../../shared/ingest/contract'
+import { commandsTopic, parseDeviceTopic, readingsTopic } from '@shared/ingest/contract'
 import { deviceFromToken, type DeviceActor } from '../auth/device-tokens'
 import type { AppContext } from '../context'
 import { MalformedMessageError } from '../ingest/ingest-service'

@@ -1,5 +1,5 @@
 import mqtt, { type MqttClient } from 'mqtt'
-import { TOPIC_PREFIX, parseDeviceTopic } from '../../shared/ingest/contract'
+import { TOPIC_PREFIX, parseDeviceTopic } from '@shared/ingest/contract'
 import type { DeviceActor } from '../auth/device-tokens'
 import type { AppContext } from '../context'
 import { MalformedMessageError } from '../ingest/ingest-service'

@@ -1,5 +1,5 @@
-import { formatPercent, formatSpan } from '../../shared/report/format'
-import type { Report } from '../../shared/schemas/reports'
+import { formatPercent, formatSpan } from '@shared/report/format'
+import type { Report } from '@shared/schemas/reports'
 import { button, escapeHtml, factsTable, layout, oneLine } from '../mail/templates/html'
 import { READINGS_ARE_AIDS } from '../mail/templates/safety'
 import type { RenderedMail } from '../mail/types'

@@ -1,8 +1,8 @@
 // The client report as a PDF: pdfkit (pure JS), an embedded font, vector charts with the band shaded.
 import { createRequire } from 'node:module'
 import PDFDocument from 'pdfkit'
-import { formatBand, formatPercent, formatSpan, formatValue, metricSummary } from '../../shared/report/format'
-import type { Report, ReportMetric, TankReport } from '../../shared/schemas/reports'
+import { formatBand, formatPercent, formatSpan, formatValue, metricSummary } from '@shared/report/format'
+import type { Report, ReportMetric, TankReport } from '@shared/schemas/reports'
 import { READINGS_ARE_AIDS } from '../mail/templates/safety'
 import { REPORT_MAX_GAP_MS } from '../services/report-data'
 

@@ -1,6 +1,6 @@
 import { Router } from 'express'
 import { rateLimit, ipKeyGenerator } from 'express-rate-limit'
-import { changePasswordSchema, passwordResetConfirmSchema, passwordResetRequestSchema, signInSchema } from '../../shared/schemas/auth'
+import { changePasswordSchema, passwordResetConfirmSchema, passwordResetRequestSchema, signInSchema } from '@shared/schemas/auth'
 import { actorOf, type authenticate } from '../auth/middleware'
 import type { AppContext } from '../context'
 import { AppError } from '../errors'

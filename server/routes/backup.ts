@@ -1,6 +1,6 @@
 import { Router, type NextFunction, type Request, type Response } from 'express'
 import multer from 'multer'
-import { MAX_BACKUP_BYTES } from '../../shared/schemas/exports'
+import { MAX_BACKUP_BYTES } from '@shared/schemas/exports'
 import { actorOf, allow } from '../auth/middleware'
 import type { AppContext } from '../context'
 import { AppError, badRequest } from '../errors'

@@ -1,11 +1,11 @@
 import { Router, type Request } from 'express'
 import { z } from 'zod'
-import { idParamsSchema, idSchema } from '../../shared/schemas/common'
+import { idParamsSchema, idSchema } from '@shared/schemas/common'
 import {
   careLogInputSchema, careLogQuerySchema, careTaskDoneSchema, careTaskInputSchema, careTaskSnoozeSchema, careTaskUpdateSchema, careTodayQuerySchema,
   livestockInputSchema, livestockUpdateSchema, waterChangeCancelSchema, waterChangeFinishSchema, waterChangePlanSchema, waterChangeStartSchema,
-} from '../../shared/schemas/care'
-import { SPECIES } from '../../shared/care/species'
+} from '@shared/schemas/care'
+import { SPECIES } from '@shared/care/species'
 import { actorOf, allow } from '../auth/middleware'
 import type { AppContext } from '../context'
 import { parse, parseChanges } from '../http/validate'

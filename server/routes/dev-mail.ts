@@ -1,6 +1,6 @@
 import { Router } from 'express'
 import { QueryTypes } from 'sequelize'
-import { idParamsSchema } from '../../shared/schemas/common'
+import { idParamsSchema } from '@shared/schemas/common'
 import { actorOf } from '../auth/middleware'
 import type { AppContext } from '../context'
 import { notFound } from '../errors'

@@ -1,6 +1,6 @@
 import { Router } from 'express'
-import { idParamsSchema } from '../../shared/schemas/common'
-import { startImportSchema, uploadFieldsSchema } from '../../shared/schemas/imports'
+import { idParamsSchema } from '@shared/schemas/common'
+import { startImportSchema, uploadFieldsSchema } from '@shared/schemas/imports'
 import { actorOf, allow } from '../auth/middleware'
 import type { AppContext } from '../context'
 import { parse } from '../http/validate'

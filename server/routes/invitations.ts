@@ -1,6 +1,6 @@
 import { Router } from 'express'
 import { z } from 'zod'
-import { acceptInviteSchema } from '../../shared/schemas/auth'
+import { acceptInviteSchema } from '@shared/schemas/auth'
 import type { AppContext } from '../context'
 import { parse } from '../http/validate'
 import { usersService } from '../services/users'

@@ -1,6 +1,6 @@
 import { Router, type Request, type Response } from 'express'
-import { idParamsSchema } from '../../shared/schemas/common'
-import { reportQuerySchema, reportScheduleInputSchema, reportScheduleUpdateSchema } from '../../shared/schemas/reports'
+import { idParamsSchema } from '@shared/schemas/common'
+import { reportQuerySchema, reportScheduleInputSchema, reportScheduleUpdateSchema } from '@shared/schemas/reports'
 import { actorOf, allow } from '../auth/middleware'
 import type { AppContext } from '../context'
 import { parse, parseChanges } from '../http/validate'

@@ -1,9 +1,9 @@
 import { Router, type Request } from 'express'
-import { idParamsSchema } from '../../shared/schemas/common'
+import { idParamsSchema } from '@shared/schemas/common'
 import {
   backupInputSchema, onDutyQuerySchema, overrideInputSchema, overrideListQuerySchema, overrideParamsSchema, rosterWeekQuerySchema,
   shiftInputSchema, shiftParamsSchema, shiftUpdateSchema,
-} from '../../shared/schemas/roster'
+} from '@shared/schemas/roster'
 import { actorOf, allow } from '../auth/middleware'
 import type { AppContext } from '../context'
 import { parse, parseChanges } from '../http/validate'

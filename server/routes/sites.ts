@@ -1,6 +1,6 @@
 import { Router } from 'express'
-import { idParamsSchema } from '../../shared/schemas/common'
-import { siteInputSchema, siteListQuerySchema, siteUpdateSchema } from '../../shared/schemas/sites'
+import { idParamsSchema } from '@shared/schemas/common'
+import { siteInputSchema, siteListQuerySchema, siteUpdateSchema } from '@shared/schemas/sites'
 import { actorOf, allow } from '../auth/middleware'
 import type { AppContext } from '../context'
 import { parse, parseChanges } from '../http/validate'

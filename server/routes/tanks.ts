@@ -1,6 +1,6 @@
 import { Router } from 'express'
-import { idParamsSchema } from '../../shared/schemas/common'
-import { tankInputSchema, tankListQuerySchema, tankUpdateSchema } from '../../shared/schemas/tanks'
+import { idParamsSchema } from '@shared/schemas/common'
+import { tankInputSchema, tankListQuerySchema, tankUpdateSchema } from '@shared/schemas/tanks'
 import { actorOf, allow } from '../auth/middleware'
 import type { AppContext } from '../context'
 import { parse, parseChanges } from '../http/validate'

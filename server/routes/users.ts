@@ -1,6 +1,6 @@
 import { Router } from 'express'
-import { inviteSchema, updateUserSchema } from '../../shared/schemas/auth'
-import { idParamsSchema } from '../../shared/schemas/common'
+import { inviteSchema, updateUserSchema } from '@shared/schemas/auth'
+import { idParamsSchema } from '@shared/schemas/common'
 import { actorOf, allow } from '../auth/middleware'
 import type { AppContext } from '../context'
 import { parse } from '../http/validate'

@@ -1,6 +1,6 @@
 import { Router, type RequestHandler } from 'express'
-import { idParamsSchema } from '../../shared/schemas/common'
-import { wallCredentialInputSchema } from '../../shared/schemas/wall'
+import { idParamsSchema } from '@shared/schemas/common'
+import { wallCredentialInputSchema } from '@shared/schemas/wall'
 import { actorOf, allow, viewerOf } from '../auth/middleware'
 import type { AppContext } from '../context'
 import { parse } from '../http/validate'

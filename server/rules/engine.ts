@@ -1,8 +1,8 @@
 import { Op, QueryTypes } from 'sequelize'
-import { evaluate, replay } from '../../shared/rules/evaluate'
-import { metricOfSpec } from '../../shared/rules/schema'
-import type { RuleContext, RuleEvent, RuleState } from '../../shared/rules/types'
-import { initialRuleState } from '../../shared/rules/types'
+import { evaluate, replay } from '@shared/rules/evaluate'
+import { metricOfSpec } from '@shared/rules/schema'
+import type { RuleContext, RuleEvent, RuleState } from '@shared/rules/types'
+import { initialRuleState } from '@shared/rules/types'
 import type { AppContext } from '../context'
 import type { StoredReading } from '../events'
 import type { IncidentsService } from '../services/incidents'
@@ -14,7 +14,7 @@ type EngineRule = {
   id: number
   name: string
   severity: 'warning' | 'alarm'
-  spec: import('../../shared/rules/schema').WatchRuleSpec
+  spec: import('@shared/rules/schema').WatchRuleSpec
   metric: string
   tank: { id: number; siteId: number; organizationId: number }
   ctx: RuleContext

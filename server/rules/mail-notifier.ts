@@ -1,5 +1,5 @@
 import { Op, QueryTypes, type Transaction } from 'sequelize'
-import { METRICS, isMetricKey } from '../../shared/metrics/registry'
+import { METRICS, isMetricKey } from '@shared/metrics/registry'
 import type { AppContext } from '../context'
 import { enqueueMail } from '../mail/outbox'
 import {

@@ -1,4 +1,4 @@
-import type { RuleContext } from '../../shared/rules/types'
+import type { RuleContext } from '@shared/rules/types'
 
 const formatters = new Map<string, Intl.DateTimeFormat>()
 

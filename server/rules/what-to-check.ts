@@ -1,4 +1,4 @@
-import type { WatchRuleSpec } from '../../shared/rules/schema'
+import type { WatchRuleSpec } from '@shared/rules/schema'
 
 /** First things a keeper should look at, by kind of rule (the trade's usual checks, `common practice`). */
 export function whatToCheck(spec: WatchRuleSpec, metric: string): string[] {

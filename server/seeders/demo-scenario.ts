@@ -1,4 +1,4 @@
-import type { TankInput } from '../../shared/schemas/tanks'
+import type { TankInput } from '@shared/schemas/tanks'
 
 /**
  * An invented business for the demo: Marrowfen Aquatics, a shop with a fish room across town.

@@ -1,6 +1,6 @@
 import bcrypt from 'bcryptjs'
 import { Op } from 'sequelize'
-import type { SessionInfo } from '../../shared/schemas/auth'
+import type { SessionInfo } from '@shared/schemas/auth'
 import type { UserActor } from '../auth/actor'
 import { signAccessToken } from '../auth/tokens'
 import type { AppContext } from '../context'

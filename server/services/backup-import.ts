@@ -5,7 +5,7 @@ import { z } from 'zod'
 import type { UserActor } from '../auth/actor'
 import type { AppContext } from '../context'
 import { AppError, badRequest, conflict, fromZod } from '../errors'
-import { BACKUP_FORMAT, BACKUP_FORMAT_VERSION } from '../../shared/schemas/exports'
+import { BACKUP_FORMAT, BACKUP_FORMAT_VERSION } from '@shared/schemas/exports'
 import { BACKUP_TABLES, readingTupleSchema, referenceOf, rowSchema, type BackupTable } from './backup-tables'
 
 const READING_CHUNK = 5000

@@ -1,6 +1,6 @@
 import { Op, type Transaction } from 'sequelize'
-import type { CareValues } from '../../shared/care/defaults'
-import type { CareLogInput, CareLogKind } from '../../shared/schemas/care'
+import type { CareValues } from '@shared/care/defaults'
+import type { CareLogInput, CareLogKind } from '@shared/schemas/care'
 import type { UserActor } from '../auth/actor'
 import type { AppContext } from '../context'
 import { badRequest } from '../errors'

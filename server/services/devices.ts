@@ -1,6 +1,6 @@
 import { Op, QueryTypes } from 'sequelize'
-import { isDeviceQuiet, type DeviceInput, type PublicDevice } from '../../shared/schemas/devices'
-import type { MetricKey } from '../../shared/metrics/registry'
+import { isDeviceQuiet, type DeviceInput, type PublicDevice } from '@shared/schemas/devices'
+import type { MetricKey } from '@shared/metrics/registry'
 import type { Actor } from '../auth/actor'
 import { hashSecret } from '../auth/tokens'
 import type { AppContext } from '../context'

@@ -1,6 +1,6 @@
 import { stat } from 'node:fs/promises'
-import type { PublicImportJob, StartImportInput, ImportSourceSummary, ImportMapping } from '../../shared/schemas/imports'
-import { METRICS } from '../../shared/metrics/registry'
+import type { PublicImportJob, StartImportInput, ImportSourceSummary, ImportMapping } from '@shared/schemas/imports'
+import { METRICS } from '@shared/metrics/registry'
 import type { UserActor } from '../auth/actor'
 import type { AppContext } from '../context'
 import { AppError, badRequest, conflict, notFound } from '../errors'

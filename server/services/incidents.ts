@@ -1,6 +1,6 @@
 import { Op, QueryTypes, type Transaction, type WhereOptions } from 'sequelize'
-import type { RuleSeverity, WatchRuleSpec } from '../../shared/rules/schema'
-import type { IncidentListQuery, PublicIncident } from '../../shared/schemas/incidents'
+import type { RuleSeverity, WatchRuleSpec } from '@shared/rules/schema'
+import type { IncidentListQuery, PublicIncident } from '@shared/schemas/incidents'
 import type { UserActor } from '../auth/actor'
 import type { AppContext } from '../context'
 import { conflict, notFound } from '../errors'

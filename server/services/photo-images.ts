@@ -1,6 +1,6 @@
 // Loaded on the first photo, not at start-up: an instance that never takes a photo keeps ~25 MB.
 const loadSharp = () => import('sharp').then((m) => m.default)
-import { PHOTO_FORMATS } from '../../shared/schemas/photos'
+import { PHOTO_FORMATS } from '@shared/schemas/photos'
 import { AppError, badRequest } from '../errors'
 import type { PhotoFormat } from '../models/photo'
 

@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto'
 import type { Readable } from 'node:stream'
 import { Op } from 'sequelize'
-import type { PhotoSummary, PhotoUploadFields, PhotoVariant, PublicPhoto } from '../../shared/schemas/photos'
+import type { PhotoSummary, PhotoUploadFields, PhotoVariant, PublicPhoto } from '@shared/schemas/photos'
 import type { UserActor } from '../auth/actor'
 import type { AppContext } from '../context'
 import { badRequest, notFound } from '../errors'

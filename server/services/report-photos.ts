@@ -1,4 +1,4 @@
-import type { ReportPhoto } from '../../shared/schemas/reports'
+import type { ReportPhoto } from '@shared/schemas/reports'
 import type { AppContext } from '../context'
 import { photosInPeriod as storedPhotos } from './photos'
 

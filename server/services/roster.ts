@@ -1,9 +1,9 @@
 import { Op, QueryTypes } from 'sequelize'
-import { localToInstant, onDutyAt, parseLocalDate, shiftsInWeek } from '../../shared/roster'
-import type { DutySpan, RosterOverride, WeeklyShift } from '../../shared/roster'
+import { localToInstant, onDutyAt, parseLocalDate, shiftsInWeek } from '@shared/roster'
+import type { DutySpan, RosterOverride, WeeklyShift } from '@shared/roster'
 import type {
   DutyContact, OnDutyResponse, OverrideInput, PublicOverride, PublicShift, RosterBackupResponse, RosterWeekResponse, RosterWeekSpan, ShiftInput,
-} from '../../shared/schemas/roster'
+} from '@shared/schemas/roster'
 import type { Actor, UserActor } from '../auth/actor'
 import type { AppContext } from '../context'
 import { badRequest, notFound } from '../errors'

@@ -1,6 +1,6 @@
 import { Op, type Transaction } from 'sequelize'
-import { defaultRulesForTank } from '../../shared/rules/defaults'
-import type { PublicRule, RuleInput } from '../../shared/schemas/rules'
+import { defaultRulesForTank } from '@shared/rules/defaults'
+import type { PublicRule, RuleInput } from '@shared/schemas/rules'
 import type { UserActor } from '../auth/actor'
 import type { AppContext } from '../context'
 import { badRequest, notFound } from '../errors'

@@ -1,6 +1,6 @@
-import type { PublicUser } from '../../shared/schemas/auth'
-import type { PublicSite } from '../../shared/schemas/sites'
-import type { PublicTank } from '../../shared/schemas/tanks'
+import type { PublicUser } from '@shared/schemas/auth'
+import type { PublicSite } from '@shared/schemas/sites'
+import type { PublicTank } from '@shared/schemas/tanks'
 import type { Site, Tank, User } from '../models'
 
 const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null)

@@ -1,5 +1,5 @@
 import { QueryTypes } from 'sequelize'
-import { METRIC_KEYS, METRICS, type MetricKey } from '../../shared/metrics/registry'
+import { METRIC_KEYS, METRICS, type MetricKey } from '@shared/metrics/registry'
 import type {
   LatestResponse,
   ReadingSource,
@@ -7,7 +7,7 @@ import type {
   SeriesQuery,
   SeriesResponse,
   SiteLatestResponse,
-} from '../../shared/schemas/series'
+} from '@shared/schemas/series'
 import type { AppContext } from '../context'
 
 /**

@@ -1,5 +1,5 @@
 import { fn, col } from 'sequelize'
-import type { SiteInput } from '../../shared/schemas/sites'
+import type { SiteInput } from '@shared/schemas/sites'
 import type { Actor } from '../auth/actor'
 import type { AppContext } from '../context'
 import { notFound } from '../errors'

@@ -1,5 +1,5 @@
 import { Op } from 'sequelize'
-import type { PublicSnooze, SnoozeInput } from '../../shared/schemas/rules'
+import type { PublicSnooze, SnoozeInput } from '@shared/schemas/rules'
 import type { UserActor } from '../auth/actor'
 import type { AppContext } from '../context'
 import { notFound } from '../errors'

@@ -1,5 +1,5 @@
 import { Op } from 'sequelize'
-import { TEST_KIT_EDIT_WINDOW_HOURS, type PublicTestKitEntry, type TestKitEntryInput } from '../../shared/schemas/test-kit'
+import { TEST_KIT_EDIT_WINDOW_HOURS, type PublicTestKitEntry, type TestKitEntryInput } from '@shared/schemas/test-kit'
 import type { UserActor } from '../auth/actor'
 import type { AppContext } from '../context'
 import { badRequest, forbidden, notFound } from '../errors'

@@ -1,5 +1,5 @@
 import { Op } from 'sequelize'
-import type { InviteInput, Role } from '../../shared/schemas/auth'
+import type { InviteInput, Role } from '@shared/schemas/auth'
 import type { UserActor } from '../auth/actor'
 import { hashSecret, newSecretToken } from '../auth/tokens'
 import type { AppContext } from '../context'

@@ -1,5 +1,5 @@
 // Misbehaving nodes: re-sent and shuffled batches, and malformed messages. Pure given the random source.
-import type { DeviceReading } from '../../shared/ingest/contract'
+import type { DeviceReading } from '@shared/ingest/contract'
 import { pick, shuffled, type Random } from './random'
 
 /** One message a node puts on the wire: a readings batch, or raw text that may not even be JSON. */

@@ -1,5 +1,5 @@
 // The few shape facts the physics needs: water surface area, wall area, height.
-import { footprintCm2 } from '../../shared/chemistry/volume'
+import { footprintCm2 } from '@shared/chemistry/volume'
 import type { SimTankSpec } from './spec'
 
 /** Assumption: a tank without dimensions is 40 cm tall with a square footprint. */

@@ -1,5 +1,5 @@
 // Light at the sensor, following the tank's photoperiod in its site's wall-clock time.
-import type { TankKind } from '../../shared/schemas/tanks'
+import type { TankKind } from '@shared/schemas/tanks'
 import { minutesAfter, parseClockTime } from './clock'
 
 /** Lights dim up after "on" and down before "off" over this many minutes (common practice). */

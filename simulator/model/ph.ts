@@ -1,5 +1,5 @@
 // pH: a per-kind baseline, a slow random drift, a photoperiod swing, and a crash scenario.
-import type { TankKind } from '../../shared/schemas/tanks'
+import type { TankKind } from '@shared/schemas/tanks'
 import { gaussian, type Random } from './random'
 
 /** Typical running pH per kind (common practice). */

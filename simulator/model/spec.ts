@@ -1,4 +1,4 @@
-import type { TankKind, TankShapeInput } from '../../shared/schemas/tanks'
+import type { TankKind, TankShapeInput } from '@shared/schemas/tanks'
 
 /** What the simulator needs to know about one tank: a subset of the API's PublicTank. */
 export interface SimTankSpec {

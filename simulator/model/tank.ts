@@ -1,5 +1,5 @@
 // One simulated tank: couples the level, heat, light and pH models on a simulated clock.
-import type { DeviceReading } from '../../shared/ingest/contract'
+import type { DeviceReading } from '@shared/ingest/contract'
 import { localMinutesOfDay } from './clock'
 import { litresAtLevel, START_FILL_FRACTION, tankGeometry, type TankGeometry } from './geometry'
 import { initialLevelState, stepLevel, WATER_CHANGE_TOTAL_S, waterChangeLevelCm, type LevelState } from './level'

@@ -1,5 +1,5 @@
 // Water temperature from a lumped heat balance:  m·c·dT/dt = P_heater − U·A·(T − T_room).
-import { WATER_SPECIFIC_HEAT_KJ_PER_KG_K, waterDensityKgPerL } from '../../shared/chemistry/water-properties'
+import { WATER_SPECIFIC_HEAT_KJ_PER_KG_K, waterDensityKgPerL } from '@shared/chemistry/water-properties'
 
 /** Specific heat of water, J/(kg·K): 4181 (shared/chemistry, CRC Handbook / NIST value). */
 export const WATER_SPECIFIC_HEAT_J_PER_KG_K = WATER_SPECIFIC_HEAT_KJ_PER_KG_K * 1000

@@ -1,5 +1,5 @@
 // Device side of POST /api/v1/readings: one request per batch, Bearer device token.
-import type { IngestSummary } from '../../shared/ingest/contract'
+import type { IngestSummary } from '@shared/ingest/contract'
 import { readingsBody, type SendOutcome, type Transport, type TransportOptions } from './types'
 
 export interface HttpTransportOptions extends TransportOptions {

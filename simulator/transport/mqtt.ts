@@ -1,6 +1,6 @@
 // Device side of the MQTT contract: username = device id, password = token, QoS 1 to its readings topic.
 import mqtt, { type MqttClient } from 'mqtt'
-import { readingsTopic } from '../../shared/ingest/contract'
+import { readingsTopic } from '@shared/ingest/contract'
 import { readingsBody, type SendOutcome, type Transport, type TransportOptions } from './types'
 
 export interface MqttTransportOptions extends TransportOptions {

@@ -1,4 +1,4 @@
-import type { IngestSummary } from '../../shared/ingest/contract'
+import type { IngestSummary } from '@shared/ingest/contract'
 
 export interface TransportOptions {
   /** mqtt://host:port for MQTT, the app's base URL (http://host:port) for HTTP. */

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { HEATER_OFF_CAUTION, UNPLUG_CAUTION } from '../../shared/chemistry/water-change'
+import { HEATER_OFF_CAUTION, UNPLUG_CAUTION } from '@shared/chemistry/water-change'
 import { createDefaultCareTasks } from '../../server/services/care-tasks'
 import { LABEL_CAUTION, TEMPORARY_RULE_NAME } from '../../server/services/care-water-changes'
 import type { TestOrg } from '../helpers/app'

@@ -4,7 +4,7 @@ import { join } from 'node:path'
 import { expect } from 'vitest'
 import type { AppContext } from '../../server/context'
 import { importRunnerFor } from '../../server/imports/runner'
-import type { PublicImportJob } from '../../shared/schemas/imports'
+import type { PublicImportJob } from '@shared/schemas/imports'
 import { bearer, startTestApp, type TestOrg } from '../helpers/app'
 
 export type ImportTestApp = Awaited<ReturnType<typeof startImportTestApp>>

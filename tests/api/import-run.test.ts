@@ -1,7 +1,7 @@
 import { parse } from 'csv-parse/sync'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { importRunnerFor } from '../../server/imports/runner'
-import type { PublicImportJob } from '../../shared/schemas/imports'
+import type { PublicImportJob } from '@shared/schemas/imports'
 import { bearer, type TestOrg } from '../helpers/app'
 import { minuteTimes, newTank, readingsOf, runImport, startImportTestApp, upload, type ImportTestApp } from './import-helpers'
 

@@ -3,8 +3,8 @@ import type { UserActor } from '../../server/auth/actor'
 import type { IncidentNotifier } from '../../server/rules/notifier'
 import { ACK_LINK_HOURS, ackLinksService } from '../../server/services/ack-links'
 import { incidentsService } from '../../server/services/incidents'
-import { metricOfSpec } from '../../shared/rules/schema'
-import type { IncidentDetail, PublicIncident } from '../../shared/schemas/incidents'
+import { metricOfSpec } from '@shared/rules/schema'
+import type { IncidentDetail, PublicIncident } from '@shared/schemas/incidents'
 import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
 
 const MIN = 60_000

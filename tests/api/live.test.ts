@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import WebSocket from 'ws'
-import type { LiveServerMessage } from '../../shared/schemas/live'
+import type { LiveServerMessage } from '@shared/schemas/live'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
 

@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { MAX_READINGS_PER_MESSAGE } from '../../shared/ingest/contract'
+import { MAX_READINGS_PER_MESSAGE } from '@shared/ingest/contract'
 import { bearer, startTestApp } from '../helpers/app'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 

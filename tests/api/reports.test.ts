@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { authService } from '../../server/services/auth'
-import type { Report } from '../../shared/schemas/reports'
+import type { Report } from '@shared/schemas/reports'
 import { bearer, startTestApp, type TestOrg } from '../helpers/app'
 import { pdfPageCount, pdfText } from '../helpers/pdf-text'
 import { EXPECTED, seedReportWeek, WEEK } from '../helpers/report-week'

@@ -9,7 +9,7 @@ import { usersService } from '../../server/services/users'
 import { ackLinksService } from '../../server/services/ack-links'
 import { rosterService } from '../../server/services/roster'
 import { wallService } from '../../server/services/wall'
-import { tankInputSchema } from '../../shared/schemas/tanks'
+import { tankInputSchema } from '@shared/schemas/tanks'
 import { bearer, sampleTank, startTestApp, TEST_PASSWORD, type TestOrg } from '../helpers/app'
 
 const JWT_SECRET = 'test-secret-that-is-long-enough-for-hs256-signing'

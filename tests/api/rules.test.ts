@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { rulesService } from '../../server/services/rules'
-import type { PublicRule } from '../../shared/schemas/rules'
+import type { PublicRule } from '@shared/schemas/rules'
 import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
 
 let t: Awaited<ReturnType<typeof startTestApp>>

@@ -1,8 +1,8 @@
 import mqtt from 'mqtt'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import WebSocket from 'ws'
-import { commandsTopic, readingsTopic } from '../../shared/ingest/contract'
-import type { LiveServerMessage } from '../../shared/schemas/live'
+import { commandsTopic, readingsTopic } from '@shared/ingest/contract'
+import type { LiveServerMessage } from '@shared/schemas/live'
 import { createTankWithDevice, TEST_PASSWORD, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
 

@@ -7,7 +7,7 @@ import { authenticate } from '../../server/auth/middleware'
 import { errorHandler } from '../../server/http/errors'
 import { seriesRoutes } from '../../server/routes/series'
 import { seriesService } from '../../server/services/series'
-import type { SeriesResponse } from '../../shared/schemas/series'
+import type { SeriesResponse } from '@shared/schemas/series'
 import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
 
 // The contract: buckets start at whole multiples of the step counted from Monday 2000-01-03 00:00 UTC.

@@ -3,7 +3,7 @@ import type { ReadingRow } from '../../server/ingest/batch-writer'
 import { createRuleEngine } from '../../server/rules/engine'
 import type { IncidentNotifier, NotifyKind } from '../../server/rules/notifier'
 import { incidentsService } from '../../server/services/incidents'
-import type { PublicSnooze } from '../../shared/schemas/rules'
+import type { PublicSnooze } from '@shared/schemas/rules'
 import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
 import { createTankWithDevice } from '../helpers/fixtures'
 

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { DEFAULT_TARGETS } from '../../shared/schemas/tank-defaults'
-import { TANK_KINDS } from '../../shared/schemas/tanks'
+import { DEFAULT_TARGETS } from '@shared/schemas/tank-defaults'
+import { TANK_KINDS } from '@shared/schemas/tanks'
 import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
 
 // Volume checks: 1 L = 1 dm³ = 10³ cm³ (BIPM, The International System of Units (SI Brochure), 8th ed.,

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import WebSocket from 'ws'
-import type { WallResponse } from '../../shared/schemas/wall'
+import type { WallResponse } from '@shared/schemas/wall'
 import { bearer, sampleTank } from '../helpers/app'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'

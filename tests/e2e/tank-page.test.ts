@@ -1,7 +1,7 @@
 import type { Browser, Locator, Page, Response } from 'playwright-core'
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { SeriesResponse } from '../../shared/schemas/series'
+import type { SeriesResponse } from '@shared/schemas/series'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'
 import { FIRST_LOAD_MS, type App } from './keeper-setup'

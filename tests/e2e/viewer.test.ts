@@ -1,6 +1,6 @@
 import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Role } from '../../shared/schemas/auth'
+import type { Role } from '@shared/schemas/auth'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'
 import { FIRST_LOAD_MS, type App } from './keeper-setup'

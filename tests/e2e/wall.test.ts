@@ -1,7 +1,7 @@
 import mqtt from 'mqtt'
 import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { readingsTopic } from '../../shared/ingest/contract'
+import { readingsTopic } from '@shared/ingest/contract'
 import type { TestOrg } from '../helpers/fixtures'
 import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'
 import { api, backgroundOf, FIRST_LOAD_MS, liveSubscribed, MINUTE_MS, postTemperatures, tankWithProbe, waitForRuleLeader, writeStorage, type App } from './keeper-setup'

@@ -1,6 +1,6 @@
 import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { HEATER_OFF_CAUTION } from '../../shared/chemistry/water-change'
+import { HEATER_OFF_CAUTION } from '@shared/chemistry/water-change'
 import { TEMPORARY_RULE_NAME } from '../../server/services/care-water-changes'
 import { sampleTank } from '../helpers/app'
 import type { TestOrg } from '../helpers/fixtures'

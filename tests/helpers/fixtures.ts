@@ -2,7 +2,7 @@ import bcrypt from 'bcryptjs'
 import type { AppContext } from '../../server/context'
 import { newDeviceToken } from '../../server/auth/device-tokens'
 import { authService } from '../../server/services/auth'
-import type { Role } from '../../shared/schemas/auth'
+import type { Role } from '@shared/schemas/auth'
 
 export const TEST_PASSWORD = 'correct-horse-battery'
 let passwordHash: string | undefined

@@ -1,5 +1,5 @@
 import WebSocket from 'ws'
-import type { LiveReading, LiveServerMessage } from '../../shared/schemas/live'
+import type { LiveReading, LiveServerMessage } from '@shared/schemas/live'
 
 export type LiveClient = Awaited<ReturnType<typeof openLiveClient>>
 

@@ -1,7 +1,7 @@
 import mqtt from 'mqtt'
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { commandsTopic, readingsTopic } from '../../shared/ingest/contract'
+import { commandsTopic, readingsTopic } from '@shared/ingest/contract'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
 

@@ -1,6 +1,6 @@
 import mqtt from 'mqtt'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { readingsTopic } from '../../shared/ingest/contract'
+import { readingsTopic } from '@shared/ingest/contract'
 import { bearer } from '../helpers/app'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'

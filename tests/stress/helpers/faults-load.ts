@@ -1,6 +1,6 @@
 import mqtt, { type MqttClient } from 'mqtt'
 import { QueryTypes, type Sequelize } from 'sequelize'
-import { readingsTopic } from '../../../shared/ingest/contract'
+import { readingsTopic } from '@shared/ingest/contract'
 
 export const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms))
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { acclimationPlan, mixPh, mixTemperature } from '../../../shared/care/acclimation'
+import { acclimationPlan, mixPh, mixTemperature } from '@shared/care/acclimation'
 
 // Temperature of a mix: the heat balance m₁c(T − T₁) = m₂c(T₂ − T) for two lots of the same
 // water, i.e. the mass-weighted mean (any introductory physics text, e.g. Halliday, Resnick &

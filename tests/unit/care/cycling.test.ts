@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { cyclingStatus, newPlantsNote, type KitTest } from '../../../shared/care/cycling'
+import { cyclingStatus, newPlantsNote, type KitTest } from '@shared/care/cycling'
 
 // The "cycled" rule is `common practice` among keepers, not a published standard: ammonia
 // ≤ 0.02 mg/L and nitrite ≤ 0.05 mg/L (zero at test-kit resolution) on every test for 7

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { defaultCareTasksFor } from '../../../shared/care/defaults'
+import { defaultCareTasksFor } from '@shared/care/defaults'
 
 // Every interval below is `common practice` among keepers (no published standard): a weekly
 // 10–15 % water change, a filter-sponge rinse every two weeks, carbon or chemical media

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { byUrgency, careDue, nextDueDate, type CareTaskTiming } from '../../../shared/care/due'
+import { byUrgency, careDue, nextDueDate, type CareTaskTiming } from '@shared/care/due'
 import { CET, CEST, EDT, euSummerEnds, euSummerStarts, HOUR_MS } from '../roster/sources'
 
 // Offsets and change-over instants come from the law (see tests/unit/roster/sources.ts):

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { quarantineStatus, stockingWarnings, watchUntil } from '../../../shared/care/livestock'
-import { SPECIES, speciesByKey } from '../../../shared/care/species'
+import { quarantineStatus, stockingWarnings, watchUntil } from '@shared/care/livestock'
+import { SPECIES, speciesByKey } from '@shared/care/species'
 
 // The species ranges are `from memory` (see shared/care/species.ts); these tests check the
 // table's shape and how warnings follow from it, not the ranges themselves. The 3-day watch

@@ -3,7 +3,7 @@ import {
   ammoniumPKa,
   unionisedAmmoniaFraction,
   unionisedAmmoniaMgL,
-} from '../../../shared/chemistry/ammonia'
+} from '@shared/chemistry/ammonia'
 import { expectRelative, expectWithin } from './helpers'
 
 describe('unionisedAmmoniaFraction', () => {

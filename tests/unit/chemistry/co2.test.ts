@@ -4,7 +4,7 @@ import {
   carbonicAcidPK1,
   co2FromPhKh,
   co2RuleOfThumb,
-} from '../../../shared/chemistry/co2'
+} from '@shared/chemistry/co2'
 import { expectWithin } from './helpers'
 
 describe('carbonicAcidPK1 (Plummer & Busenberg 1982)', () => {

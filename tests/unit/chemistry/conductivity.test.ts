@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { compensateTo25C, tdsFromConductivity } from '../../../shared/chemistry/conductivity'
+import { compensateTo25C, tdsFromConductivity } from '@shared/chemistry/conductivity'
 import { expectRelative, expectWithin } from './helpers'
 
 describe('compensateTo25C', () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { energyToHeatKJ, heaterWattsRuleOfThumb, hoursToHeat } from '../../../shared/chemistry/heater'
+import { energyToHeatKJ, heaterWattsRuleOfThumb, hoursToHeat } from '@shared/chemistry/heater'
 import { expectRelative, expectWithin } from './helpers'
 
 describe('heaterWattsRuleOfThumb (common practice: ~1 W/L up to 5 K above the room)', () => {

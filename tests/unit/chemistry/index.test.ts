@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import * as chemistry from '../../../shared/chemistry'
+import * as chemistry from '@shared/chemistry'
 
 describe('shared/chemistry index', () => {
   it.each([

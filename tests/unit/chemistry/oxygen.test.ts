@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { oxygenSolubilityMgL, percentSaturation } from '../../../shared/chemistry/oxygen'
+import { oxygenSolubilityMgL, percentSaturation } from '@shared/chemistry/oxygen'
 import { expectWithin } from './helpers'
 
 // ISO 5814:1990 (EN 25814), Water quality — Determination of dissolved oxygen —

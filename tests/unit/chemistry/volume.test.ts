@@ -5,7 +5,7 @@ import {
   grossVolumeLitres,
   waterVolumeLitres,
   type TankShape,
-} from '../../../shared/chemistry/volume'
+} from '@shared/chemistry/volume'
 import { expectWithin } from './helpers'
 
 const rect: TankShape = { shape: 'rectangular', lengthCm: 60, widthCm: 30, heightCm: 36 }

@@ -8,8 +8,8 @@ import {
   planWaterChange,
   temperatureMismatchAdvice,
   type WaterChangeInput,
-} from '../../../shared/chemistry/water-change'
-import type { TankShape } from '../../../shared/chemistry/volume'
+} from '@shared/chemistry/water-change'
+import type { TankShape } from '@shared/chemistry/volume'
 import { expectWithin } from './helpers'
 
 // Hand-worked tank: 100 × 40 cm floor = 4000 cm², i.e. 4 L per cm of level.

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { WATER_SPECIFIC_HEAT_KJ_PER_KG_K, waterDensityKgPerL } from '../../../shared/chemistry/water-properties'
+import { WATER_SPECIFIC_HEAT_KJ_PER_KG_K, waterDensityKgPerL } from '@shared/chemistry/water-properties'
 import { expectWithin } from './helpers'
 
 describe('waterDensityKgPerL (Kell 1975 fit)', () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { guardRow, neutraliseFormula } from '../../../shared/csv/formula-guard'
+import { guardRow, neutraliseFormula } from '@shared/csv/formula-guard'
 
 // The leading characters and the quote prefix follow the OWASP "CSV Injection" page (OWASP
 // Foundation, 2023): cells beginning with =, +, -, @, tab or carriage return are escaped with '.

@@ -8,7 +8,7 @@ import {
   NH3_PER_NH3_N,
   NO2_PER_NO2_N,
   NO3_PER_NO3_N,
-} from '../../../shared/metrics'
+} from '@shared/metrics'
 
 // Source for the atomic weights: Prohaska T. et al., "Standard atomic weights of the elements 2021
 // (IUPAC Technical Report)", Pure Appl. Chem. 94 (2022), abridged values table.

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { formatValue } from '../../../shared/metrics'
+import { formatValue } from '@shared/metrics'
 
 describe('formatValue', () => {
   it('rounds to the metric precision in the canonical unit by default', () => {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { oxygenSolubilityMgL } from '../../../shared/chemistry/oxygen'
-import { formatValue, fromCanonical, toCanonical } from '../../../shared/metrics'
+import { oxygenSolubilityMgL } from '@shared/chemistry/oxygen'
+import { formatValue, fromCanonical, toCanonical } from '@shared/metrics'
 
 // Percent saturation is defined against the solubility model in shared/chemistry/oxygen, whose
 // own tests check it against published tables; here only the consistency with it is checked.

@@ -5,7 +5,7 @@ import {
   METRIC_KEYS,
   METRICS,
   supportedUnits,
-} from '../../../shared/metrics'
+} from '@shared/metrics'
 
 describe('metric registry', () => {
   it('lists the eleven metrics of the product, each defined once', () => {

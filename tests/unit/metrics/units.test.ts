@@ -9,7 +9,7 @@ import {
   type ConversionContext,
   type ConversionResult,
   type MetricKey,
-} from '../../../shared/metrics'
+} from '@shared/metrics'
 
 function valueOf(result: ConversionResult): number {
   if (!result.ok) throw new Error(`expected ok, got: ${result.reason}`)

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { formatBand, formatPercent, formatSpan, formatValue } from '../../../shared/report/format'
+import { formatBand, formatPercent, formatSpan, formatValue } from '@shared/report/format'
 
 const temp = { metric: 'temperature' as const, unitLabel: '°C' }
 const ph = { metric: 'ph' as const, unitLabel: 'pH' }

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { tallyCareTask } from '../../../shared/report/care'
-import { isoWeek, lastEndedPeriod, reportPeriod } from '../../../shared/report/period'
+import { tallyCareTask } from '@shared/report/care'
+import { isoWeek, lastEndedPeriod, reportPeriod } from '@shared/report/period'
 
 // ISO 8601-1:2019 §5.2.4 (ISO week date): weeks start on Monday; week 1 holds the year's first
 // Thursday. Offsets: Directive 2000/84/EC Art. 2–3 (EU summer time ends 01:00 UTC on the last

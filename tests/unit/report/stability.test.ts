@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { gapLimit, stability, type TimedValue } from '../../../shared/report/stability'
+import { gapLimit, stability, type TimedValue } from '@shared/report/stability'
 
 // Worked by hand: each reading holds its value until the next; a step longer than the gap limit
 // (3 × the median step, or a stated maximum) is a gap and counts nowhere.
@@ -119,7 +119,7 @@ describe('stability of one metric over a period', () => {
 
 describe('chart series', () => {
   it('bucket means, carried values where a reading still holds, null inside a gap', async () => {
-    const { chartSeries } = await import('../../../shared/report/series')
+    const { chartSeries } = await import('@shared/report/series')
     // 6 buckets of 10 min over an hour. Readings at 0, 5 (bucket 0), 20 (bucket 2), 50 (bucket 5);
     // the 20→50 step is a gap, so buckets 3 and 4 (middles 35, 45) are null; bucket 1 carries 26.
     const readings = [r(0, 25), r(5, 27), r(20, 28), r(50, 24)]

@@ -1,6 +1,6 @@
 import { describe as group, expect, it } from 'vitest'
-import { onDutyAt } from '../../../shared/roster'
-import type { RosterOverride, WeeklyShift } from '../../../shared/roster'
+import { onDutyAt } from '@shared/roster'
+import type { RosterOverride, WeeklyShift } from '@shared/roster'
 import { CEST, CET, EDT, EST, HOUR_MS, euSummerEnds, euSummerStarts, wallAt } from './sources'
 
 const BERLIN = 'Europe/Berlin'

@@ -1,5 +1,5 @@
 import { expect, it } from 'vitest'
-import { rosterOverrideSchema, weeklyShiftSchema } from '../../../shared/roster'
+import { rosterOverrideSchema, weeklyShiftSchema } from '@shared/roster'
 
 it('accepts a weekly shift and rejects a bad weekday or clock time', () => {
   expect(weeklyShiftSchema.safeParse({ userId: '7', weekday: 6, start: '22:00', end: '06:00' }).success).toBe(true)

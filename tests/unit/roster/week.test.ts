@@ -1,6 +1,6 @@
 import { describe as group, expect, it } from 'vitest'
-import { shiftsInWeek } from '../../../shared/roster'
-import type { DutySpan, RosterOverride, WeeklyShift } from '../../../shared/roster'
+import { shiftsInWeek } from '@shared/roster'
+import type { DutySpan, RosterOverride, WeeklyShift } from '@shared/roster'
 import { CEST, CET, EDT, EST, HOUR_MS, wallAt } from './sources'
 
 const BERLIN = 'Europe/Berlin'

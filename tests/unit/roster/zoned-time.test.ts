@@ -1,5 +1,5 @@
 import { describe as group, expect, it } from 'vitest'
-import { isValidTimeZone, localToInstant, offsetAt, parseLocalDate } from '../../../shared/roster'
+import { isValidTimeZone, localToInstant, offsetAt, parseLocalDate } from '@shared/roster'
 import {
   CEST, CET, EDT, EST, easternDaylightEnds, easternDaylightStarts, euSummerEnds, euSummerStarts, lastSunday, nthSunday, wallAt,
 } from './sources'

@@ -1,5 +1,5 @@
-import { evaluate, initialRuleState, watchRuleSpecSchema } from '../../../shared/rules'
-import type { RuleContext, RuleEvent, RuleInput, RuleState, WatchRuleSpec, WatchRuleSpecInput } from '../../../shared/rules'
+import { evaluate, initialRuleState, watchRuleSpecSchema } from '@shared/rules'
+import type { RuleContext, RuleEvent, RuleInput, RuleState, WatchRuleSpec, WatchRuleSpecInput } from '@shared/rules'
 
 /** Monday 5 January 2026, 07:00 UTC: an arbitrary origin; tests speak in minutes from it. */
 export const T0 = Date.UTC(2026, 0, 5, 7, 0)

@@ -1,5 +1,5 @@
 import { describe as group, expect, it } from 'vitest'
-import { evaluate } from '../../../shared/rules'
+import { evaluate } from '@shared/rules'
 import { at, run, spec, toInput } from './clock'
 import type { Step } from './clock'
 

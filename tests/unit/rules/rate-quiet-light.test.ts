@@ -1,5 +1,5 @@
 import { describe as group, expect, it } from 'vitest'
-import { MAX_WINDOW_POINTS } from '../../../shared/rules/rate'
+import { MAX_WINDOW_POINTS } from '@shared/rules/rate'
 import { T0, at, run, spec } from './clock'
 import type { Step } from './clock'
 

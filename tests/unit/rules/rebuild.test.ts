@@ -1,6 +1,6 @@
 import { describe as group, expect, it } from 'vitest'
-import { evaluate, rebuildState, replay } from '../../../shared/rules'
-import type { RuleContext, RuleState, WatchRuleSpec } from '../../../shared/rules'
+import { evaluate, rebuildState, replay } from '@shared/rules'
+import type { RuleContext, RuleState, WatchRuleSpec } from '@shared/rules'
 import { at, describeEvent, run, spec, ticks, timeline, toInput } from './clock'
 
 // After a restart the engine has only the stored readings and the clock; no old ticks.

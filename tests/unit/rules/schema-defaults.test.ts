@@ -1,5 +1,5 @@
 import { describe as group, expect, it } from 'vitest'
-import { defaultRulesForTank, metricOfSpec, watchRuleDraftSchema, watchRuleSpecSchema } from '../../../shared/rules'
+import { defaultRulesForTank, metricOfSpec, watchRuleDraftSchema, watchRuleSpecSchema } from '@shared/rules'
 
 group('watchRuleSpecSchema', () => {
   it('fills the documented defaults', () => {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { deviceReadingSchema, readingsMessageSchema, type DeviceReading } from '../../../shared/ingest/contract'
-import { isMetricKey, METRICS } from '../../../shared/metrics'
+import { deviceReadingSchema, readingsMessageSchema, type DeviceReading } from '@shared/ingest/contract'
+import { isMetricKey, METRICS } from '@shared/metrics'
 import { FaultyOutbox, MALFORMED_KINDS, malformedMessage, type OutgoingMessage } from '../../../simulator/model/faults'
 import { mulberry32 } from '../../../simulator/model/random'
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { footprintCm2 } from '../../../shared/chemistry/volume'
+import { footprintCm2 } from '@shared/chemistry/volume'
 import { DEFAULT_HEIGHT_CM, litresAtLevel, tankGeometry } from '../../../simulator/model/geometry'
 import {
   EVAPORATION_FRACTION_PER_DAY,

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { deviceReadingSchema } from '../../../shared/ingest/contract'
-import { isMetricKey, METRICS } from '../../../shared/metrics'
+import { deviceReadingSchema } from '@shared/ingest/contract'
+import { isMetricKey, METRICS } from '@shared/metrics'
 import { FaultyOutbox } from '../../../simulator/model/faults'
 import { mulberry32 } from '../../../simulator/model/random'
 import { formatSummary, runTick, type SimulatedNode } from '../../../simulator/runner'

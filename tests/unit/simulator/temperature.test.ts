@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { hoursToHeat } from '../../../shared/chemistry/heater'
+import { hoursToHeat } from '@shared/chemistry/heater'
 import { litresAtLevel, START_FILL_FRACTION } from '../../../simulator/model/geometry'
 import {
   heatCapacityJPerK,
