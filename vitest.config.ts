@@ -47,7 +47,8 @@ export default defineConfig({
           include: ['tests/e2e/**/*.test.ts'],
           environment: 'node',
           globalSetup: ['tests/helpers/global-setup.ts'],
-          testTimeout: 60000,
+          // A sign-in may be retried once on a busy machine (tests/e2e/browser.ts).
+          testTimeout: 120000,
           hookTimeout: 120000,
           fileParallelism: false,
         },

@@ -33,16 +33,37 @@ export async function startAppForBrowser() {
   return server
 }
 
+/**
+ * Signs in through the form. On a busy two-core machine a first load can stall (a request stuck
+ * behind the other suites); then the page is loaded afresh once, and a second failure says what
+ * the page showed, which requests did not finish, and where its screenshot is.
+ */
 export async function signIn(page: Page, baseUrl: string, email: string, password = TEST_PASSWORD) {
-  await page.goto(`${baseUrl}/sign-in`)
-  await page.getByLabel('E-mail').fill(email)
-  await page.getByLabel('Password', { exact: true }).fill(password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  // A slow first load on a busy two-core machine; if it stays on the form, say what the form says.
-  await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'), { timeout: 60_000, waitUntil: 'commit' }).catch(async (error) => {
-    const alert = await page.locator('[data-test="sign-in-error"]').textContent().catch(() => null)
-    throw new Error(`still on the sign-in page${alert ? `: ${alert.trim()}` : ''} (${(error as Error).message})`)
-  })
+  const unfinished = new Set<string>()
+  const console: string[] = []
+  page.on('request', (r) => unfinished.add(`${r.method()} ${r.url()}`))
+  page.on('requestfinished', (r) => unfinished.delete(`${r.method()} ${r.url()}`))
+  page.on('requestfailed', (r) => unfinished.delete(`${r.method()} ${r.url()}`))
+  page.on('console', (m) => m.type() === 'error' && console.push(m.text()))
+  for (let attempt = 1; ; attempt++) {
+    try {
+      await page.goto(`${baseUrl}/sign-in`, { timeout: 25_000 })
+      await page.getByLabel('E-mail').fill(email, { timeout: 20_000 })
+      await page.getByLabel('Password', { exact: true }).fill(password)
+      await page.getByRole('button', { name: 'Sign in' }).click()
+      await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'), { timeout: 25_000, waitUntil: 'commit' })
+      return
+    } catch (error) {
+      if (attempt < 2 && !page.isClosed()) continue
+      const alert = await page.locator('[data-test="sign-in-error"]').textContent({ timeout: 1000 }).catch(() => null)
+      const name = `sign-in-failed-${Date.now()}`
+      await shot(page, name).catch(() => undefined)
+      throw new Error(
+        `sign-in as ${email} failed twice at ${page.url()}${alert ? `: ${alert.trim()}` : ''} (${(error as Error).message}); ` +
+          `unfinished requests: ${[...unfinished].join(', ') || 'none'}; console errors: ${console.join(' | ') || 'none'}; screenshot ${name}.png`,
+      )
+    }
+  }
 }
 
 export const shot = (page: Page, name: string) => page.screenshot({ path: join(SCREENSHOTS, `${name}.png`), fullPage: false })
