@@ -11,6 +11,8 @@ const running = await startServer(
     signInLimit: 100_000,
     mqtt: { host: '127.0.0.1', port: 0 },
     logLevel: 'silent',
+    // CLUSTER_FANOUT=false measures one instance alone, as a single box runs it (README, Configuration).
+    clusterFanout: process.env.CLUSTER_FANOUT !== 'false',
     mail: { fakeSmtpPort: 0, from: 'bench@tankwarden.invalid' },
   }),
 )

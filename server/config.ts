@@ -23,6 +23,7 @@ const envSchema = z.object({
   SIGN_IN_WINDOW_MINUTES: z.coerce.number().positive().default(15),
   SERVE_CLIENT: boolish.default(true),
   MQTT_URL: z.string().url().optional(),
+  CLUSTER_FANOUT: boolish.default(true),
   INSTANCE_ID: z.string().regex(/^[A-Za-z0-9_.-]{1,40}$/, 'INSTANCE_ID: letters, digits, _ . - (at most 40)').optional(),
   MQTT_HOST: z.string().default('127.0.0.1'),
   MQTT_PORT: z.coerce.number().int().min(0).max(65535).default(1883),
@@ -67,6 +68,8 @@ export type Config = Readonly<{
   serveClient: boolean
   bcryptRounds: number
   mqtt: { url?: string; host: string; port: number; wsPort?: number }
+  /** Relay events to other instances over LISTEN/NOTIFY; a lone instance may turn it off. */
+  clusterFanout: boolean
   /** Names this instance to an external broker (its persistent session) and in logs; stable across restarts. */
   instanceId: string
   readingLimits: { maxFutureSeconds: number; maxAgeDays: number }
@@ -120,6 +123,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     serveClient: e.SERVE_CLIENT,
     bcryptRounds: e.BCRYPT_ROUNDS,
     mqtt: { url: e.MQTT_URL, host: e.MQTT_HOST, port: e.MQTT_PORT, wsPort: e.MQTT_WS_PORT },
+    clusterFanout: e.CLUSTER_FANOUT,
     instanceId: e.INSTANCE_ID ?? `${hostname().replace(/[^A-Za-z0-9_.-]/g, '-').slice(0, 30)}-${e.PORT}`,
     readingLimits: { maxFutureSeconds: e.MAX_FUTURE_SECONDS, maxAgeDays: e.MAX_READING_AGE_DAYS },
     rawRetentionDays: e.RAW_RETENTION_DAYS,
@@ -155,6 +159,7 @@ export function testConfig(overrides: Partial<Config> & { databaseUrl: string })
     serveClient: false,
     bcryptRounds: 4,
     mqtt: { host: '127.0.0.1', port: 0 },
+    clusterFanout: true,
     instanceId: `test-${process.pid}-${randomBytes(3).toString('hex')}`,
     readingLimits: { maxFutureSeconds: 300, maxAgeDays: 400 },
     rawRetentionDays: 90,

@@ -27,6 +27,10 @@ export async function startClusterFanout(ctx: AppContext, options: { reconnectMs
   const { events, logger, sequelize } = ctx
   const origin = `${ctx.config.instanceId}:${randomBytes(4).toString('hex')}`
   const reconnectMs = options.reconnectMs ?? 1000
+  // CLUSTER_FANOUT=false, for one instance alone on its database: nothing to tell, nobody to hear.
+  if (!ctx.config.clusterFanout) return { origin, received: () => 0, isRelaying: () => false, stop: async () => undefined }
+  // Every payload starts with its origin, so this instance's own are dropped without parsing them.
+  const ownPrefix = `{"o":${JSON.stringify(origin)},`
   let relaying = false
   let stopped = false
   let received = 0
@@ -51,7 +55,7 @@ export async function startClusterFanout(ctx: AppContext, options: { reconnectMs
   })
 
   function onNotification(message: pg.Notification) {
-    if (message.channel !== FANOUT_CHANNEL || !message.payload) return
+    if (message.channel !== FANOUT_CHANNEL || !message.payload || message.payload.startsWith(ownPrefix)) return
     const decoded = decodeEvent(message.payload)
     if (!decoded || decoded.origin === origin) return
     received++
