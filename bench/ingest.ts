@@ -41,7 +41,7 @@ const rssTimer = setInterval(() => {
   phaseRss.push(now)
 }, 500)
 
-type Done = { sent: number; acked: number; errors: number; elapsedMs: number; setupMs: number }
+type Done = { sent: number; acked: number; errors: number; elapsedMs: number }
 function load(ratePerSecond: number, seconds: number, timeBaseMs: number, devices = shop.devices): Promise<Done> {
   return new Promise((resolve, reject) => {
     const child = fork(fileURLToPath(new URL('./load-mqtt.ts', import.meta.url)), [], { execArgv: ['--import', 'tsx'] })
@@ -51,20 +51,18 @@ function load(ratePerSecond: number, seconds: number, timeBaseMs: number, device
   })
 }
 
-async function phase(name: string, rate0: number, timeBaseMs: number) {
+async function phase(name: string, offered: number, timeBaseMs: number) {
   const before = stored
   phaseRss = []
-  const t0 = Date.now()
-  const done = await load(rate0, SECONDS, timeBaseMs)
+  const done = await load(offered, SECONDS, timeBaseMs)
   await ctx.readings.writer.drain()
-  const seconds = (Date.now() - t0) / 1000
   const inDb = await ctx.sequelize.query<{ n: number }>(`SELECT count(*)::int AS n FROM readings WHERE time >= $1 AND time < $2`, {
     bind: [new Date(timeBaseMs), new Date(timeBaseMs + SECONDS * 1000 + 1000)], type: QueryTypes.SELECT,
   })
   // From the first publish to the last acknowledgement (each sent only once its rows are committed): the
   // load process's start-up and its 1,000 connections are not ingest time.
   const rate = (stored - before) / (done.elapsedMs / 1000)
-  return { name, offered: rate0, sent: done.sent, acked: done.acked, stored: stored - before, inDb: inDb[0].n, errors: done.errors, seconds, rate, rssMb: Math.max(...phaseRss) / 2 ** 20 }
+  return { name, offered, sent: done.sent, acked: done.acked, stored: stored - before, inDb: inDb[0].n, errors: done.errors, rate, rssMb: Math.max(...phaseRss) / 2 ** 20 }
 }
 
 // The sustained rate, then a burst at twice it; nothing lost in either.

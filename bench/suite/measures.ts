@@ -12,7 +12,7 @@ import type { StoredReading } from '../../server/events'
 import { runLoad, type AppProcess } from './processes'
 
 export type Shop = { organizationId: number; siteId: number; devices: Array<{ deviceId: number; tankId: number; token: string }> }
-type LoadDone = { sent: number; acked?: number; accepted?: number; errors: number; elapsedMs: number; setupMs?: number }
+type LoadDone = { sent: number; acked?: number; accepted?: number; errors: number; elapsedMs: number }
 
 export const median = (xs: number[]) => percentile(xs, 50)
 export function percentile(xs: number[], p: number) {

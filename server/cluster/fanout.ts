@@ -57,7 +57,7 @@ export async function startClusterFanout(ctx: AppContext, options: { reconnectMs
   function onNotification(message: pg.Notification) {
     if (message.channel !== FANOUT_CHANNEL || !message.payload || message.payload.startsWith(ownPrefix)) return
     const decoded = decodeEvent(message.payload)
-    if (!decoded || decoded.origin === origin) return
+    if (!decoded) return
     received++
     relaying = true
     try {

@@ -40,11 +40,11 @@ export async function startAppForBrowser() {
  */
 export async function signIn(page: Page, baseUrl: string, email: string, password = TEST_PASSWORD) {
   const unfinished = new Set<string>()
-  const console: string[] = []
+  const consoleErrors: string[] = []
   page.on('request', (r) => unfinished.add(`${r.method()} ${r.url()}`))
   page.on('requestfinished', (r) => unfinished.delete(`${r.method()} ${r.url()}`))
   page.on('requestfailed', (r) => unfinished.delete(`${r.method()} ${r.url()}`))
-  page.on('console', (m) => m.type() === 'error' && console.push(m.text()))
+  page.on('console', (m) => m.type() === 'error' && consoleErrors.push(m.text()))
   for (let attempt = 1; ; attempt++) {
     try {
       await page.goto(`${baseUrl}/sign-in`, { timeout: 25_000 })
@@ -60,7 +60,7 @@ export async function signIn(page: Page, baseUrl: string, email: string, passwor
       await shot(page, name).catch(() => undefined)
       throw new Error(
         `sign-in as ${email} failed twice at ${page.url()}${alert ? `: ${alert.trim()}` : ''} (${(error as Error).message}); ` +
-          `unfinished requests: ${[...unfinished].join(', ') || 'none'}; console errors: ${console.join(' | ') || 'none'}; screenshot ${name}.png`,
+          `unfinished requests: ${[...unfinished].join(', ') || 'none'}; console errors: ${consoleErrors.join(' | ') || 'none'}; screenshot ${name}.png`,
       )
     }
   }
