@@ -4,8 +4,15 @@ import type { BatchWriter, ReadingRow } from './batch-writer'
 import type { DeviceStatusTracker } from './device-status'
 import { checkReading, type ReadingLimits } from './validate-readings'
 
-/** The message cannot be read at all (not JSON, wrong envelope): nothing in it was stored. */
-export class MalformedMessageError extends Error {}
+/** The message cannot be read at all (not JSON, wrong envelope): nothing in it was stored. `field` is where. */
+export class MalformedMessageError extends Error {
+  constructor(
+    message: string,
+    readonly field = 'body',
+  ) {
+    super(message)
+  }
+}
 
 export type IngestDeps = {
   writer: BatchWriter
@@ -19,9 +26,9 @@ function parseEnvelope(body: unknown) {
   const issue = parsed.error.issues[0]
   const where = issue.path.join('.') || 'body'
   if (issue.path[0] === 'readings' && issue.code === 'too_big') {
-    return new MalformedMessageError(`readings: at most ${MAX_READINGS_PER_MESSAGE} readings per message`)
+    return new MalformedMessageError(`readings: at most ${MAX_READINGS_PER_MESSAGE} readings per message`, 'readings')
   }
-  return new MalformedMessageError(`${where}: ${issue.message} (expected {"v":1,"readings":[…]})`)
+  return new MalformedMessageError(`${where}: ${issue.message} (expected {"v":1,"readings":[…]})`, where)
 }
 
 /**
@@ -44,7 +51,7 @@ export function createIngest(deps: IngestDeps) {
     readings.forEach((raw, index) => {
       const checked = checkReading(raw, limits, now)
       if (!checked.ok) {
-        results[index] = { index, outcome: 'rejected', reason: checked.reason }
+        results[index] = { index, outcome: 'rejected', reason: checked.reason, field: `readings.${index}.${checked.field}` }
         return
       }
       rows.push({
