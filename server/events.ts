@@ -13,6 +13,8 @@ export type EventMap = {
   'readings.stored': [StoredReading[]]
   'device.revoked': [{ deviceId: number }]
   'wall.revoked': [{ credentialId: number }]
+  /** Who may see what in an organization changed (a person's sites, role or status; a site or tank archived). */
+  'access.changed': [{ organizationId: number }]
   'rules.changed': [{ tankIds: number[] | 'all' }]
   'incident.changed': [{ incidentId: number; tankId: number; siteId: number; state: string }]
   'mail.attempted': [{ outboxId: number; incidentId: number | null; kind: string; to: string; ok: boolean; error?: string }]

@@ -48,8 +48,8 @@ export async function startExternalConsumer(ctx: AppContext, url: string, option
   async function lookup(deviceId: number): Promise<DeviceActor | null> {
     const cached = deviceCache.get(deviceId)
     if (cached && Date.now() - cached.at < 60_000) return cached.device
-    const row = await models.Device.findByPk(deviceId)
-    const device = row && !row.revokedAt ? { kind: 'device' as const, deviceId: row.id, organizationId: row.organizationId, tankId: row.tankId } : null
+    const row = await models.Device.findByPk(deviceId, { include: [{ association: 'tank', attributes: ['id', 'archivedAt'] }] })
+    const device = row && !row.revokedAt && !row.tank?.archivedAt ? { kind: 'device' as const, deviceId: row.id, organizationId: row.organizationId, tankId: row.tankId } : null
     deviceCache.set(deviceId, { device, at: Date.now() })
     return device
   }

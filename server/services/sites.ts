@@ -55,6 +55,7 @@ export function sitesService(ctx: AppContext) {
     async setArchived(actor: Actor, id: number, archived: boolean) {
       const site = await find(actor, id)
       await site.update({ archivedAt: archived ? new Date() : null })
+      ctx.events.emit('access.changed', { organizationId: site.organizationId })
       return publicSite(site, (await tankCounts([id])).get(id) ?? 0)
     },
   }

@@ -140,6 +140,12 @@ export function tanksService(ctx: AppContext) {
     async setArchived(actor: Actor, id: number, archived: boolean) {
       const tank = await find(actor, id)
       await tank.update({ archivedAt: archived ? new Date() : null })
+      if (archived) {
+        // An archived tank takes no readings: its connected devices are cut as if revoked, and live sockets stop showing it.
+        const devices = await ctx.models.Device.findAll({ where: { tankId: tank.id }, attributes: ['id'] })
+        for (const device of devices) ctx.events.emit('device.revoked', { deviceId: device.id })
+      }
+      ctx.events.emit('access.changed', { organizationId: tank.organizationId })
       return publicTank(tank)
     },
   }

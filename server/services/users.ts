@@ -55,7 +55,7 @@ export function usersService(ctx: AppContext) {
     },
 
     async update(actor: UserActor, id: number, changes: UserChanges) {
-      return sequelize.transaction(async (transaction) => {
+      const updated = await sequelize.transaction(async (transaction) => {
         // Lock the organization's owners so two owners demoting each other cannot both succeed.
         const owners = await models.User.findAll({
           where: { organizationId: actor.organizationId, role: 'owner', active: true },
@@ -84,6 +84,11 @@ export function usersService(ctx: AppContext) {
         await user.reload({ include, transaction })
         return publicUser(user)
       })
+      // Open live sockets are checked against the new scope at once (a changed role or status also ends the sessions).
+      if (changes.siteIds || changes.role !== undefined || changes.active !== undefined) {
+        ctx.events.emit('access.changed', { organizationId: actor.organizationId })
+      }
+      return updated
     },
 
     async listInvitations(actor: UserActor) {

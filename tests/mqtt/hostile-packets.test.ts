@@ -37,7 +37,7 @@ function remainingLength(n: number) {
 type RawSocket = { socket: Socket; closedAt: Promise<number>; written: () => number }
 
 async function rawSocket(): Promise<RawSocket> {
-  const socket = tcpConnect(s.mqttPort, '127.0.0.1')
+  const socket = tcpConnect(s.mqttPort!, '127.0.0.1')
   socket.on('error', () => {})
   await new Promise((resolve) => socket.once('connect', resolve))
   let written = 0

@@ -33,7 +33,8 @@ describe('device connection dropped mid-batch (embedded broker)', () => {
     const org = await s.createOrg('Marrowfen Aquatics flaky wifi')
     const node = await createTankWithDevice(s.ctx, org, 'Shrimp rack')
     const load = mqttPublisher(s.mqttUrl, node, { metric: 'temperature', firstAt: Date.now() - 3600_000, everyMs: 20 })
-    const clientId = `fault-device-${node.deviceId}-${process.pid}`
+    // The broker keeps a device's client id in the device's own namespace.
+    const clientId = `${node.deviceId}/fault-device-${node.deviceId}-${process.pid}`
     let drops = 0
     for (let round = 0; round < 6; round++) {
       const before = load.acked.size
