@@ -1,6 +1,6 @@
 // Device side of the MQTT contract: username = device id, password = token, QoS 1 to its readings topic.
 import mqtt, { type MqttClient } from 'mqtt'
-import { readingsTopic } from '@shared/ingest/contract'
+import { outcomesTopic, readingsTopic, type MessageOutcome } from '@shared/ingest/contract'
 import { readingsBody, type SendOutcome, type Transport, type TransportOptions } from './types'
 
 export interface MqttTransportOptions extends TransportOptions {
@@ -10,7 +10,18 @@ export interface MqttTransportOptions extends TransportOptions {
   connectDeadlineMs?: number
   /** Wait for a PUBACK at most this long before reporting the message as queued, ms. */
   ackTimeoutMs?: number
-  onEvent?: (event: 'reconnect' | 'offline' | 'connect' | 'refused', detail?: string) => void
+  /** `rejected`: the broker's outcome for a message: refused, or some of its readings rejected. */
+  onEvent?: (event: 'reconnect' | 'offline' | 'connect' | 'refused' | 'rejected', detail?: string) => void
+}
+
+/** One line for an outcome worth reporting (something not stored), or null. */
+export function describeOutcome(outcome: MessageOutcome): string | null {
+  const id = outcome.messageId === null ? 'a QoS 0 message' : `message ${outcome.messageId}`
+  if (outcome.reason) return `${id} refused: ${outcome.reason} (${outcome.field})`
+  if (!outcome.rejected) return null
+  const first = outcome.results.find((r) => r.outcome === 'rejected')
+  const detail = first && first.outcome === 'rejected' ? `; first: ${first.field ?? `reading ${first.index}`}: ${first.reason}` : ''
+  return `${id}: ${outcome.rejected} of ${outcome.accepted + outcome.duplicates + outcome.rejected} readings rejected${detail}`
 }
 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms))
@@ -50,6 +61,18 @@ export async function createMqttTransport(options: MqttTransportOptions): Promis
       options.onEvent?.('refused', err.message)
     }
   })
+  // The broker says what became of each message here; MQTT.js subscribes again after a reconnect.
+  client.on('message', (_topic, payload) => {
+    let outcome: MessageOutcome
+    try {
+      outcome = JSON.parse(payload.toString('utf8')) as MessageOutcome
+    } catch {
+      return
+    }
+    const line = describeOutcome(outcome)
+    if (line) options.onEvent?.('rejected', line)
+  })
+  await client.subscribeAsync(outcomesTopic(options.deviceId), { qos: 0 })
   client.on('reconnect', () => options.onEvent?.('reconnect'))
   client.on('offline', () => options.onEvent?.('offline'))
   client.on('connect', () => {

@@ -53,7 +53,7 @@ describe('a device clock running ahead', () => {
     ])
     expect(res.status).toBe(200)
     expect(res.body).toMatchObject({ accepted: 1, duplicates: 0, rejected: 2 })
-    expect(res.body.results[0]).toEqual({ index: 0, outcome: 'rejected', reason: expect.stringMatching(new RegExp(`more than ${MAX_FUTURE_SECONDS} s in the future \\(check the device clock\\)`)) })
+    expect(res.body.results[0]).toEqual({ index: 0, outcome: 'rejected', field: 'readings.0.time', reason: expect.stringMatching(new RegExp(`more than ${MAX_FUTURE_SECONDS} s in the future \\(check the device clock\\)`)) })
     expect(res.body.results[1]).toEqual({ index: 1, outcome: 'accepted' })
     expect(res.body.results[2].outcome).toBe('rejected')
 
