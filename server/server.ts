@@ -28,6 +28,7 @@ export type RunningServer = {
   fanout: ClusterFanout
   rules: ReturnType<typeof startRuleEngine>
   mail: RunningMail
+  hub: ReturnType<typeof attachLiveHub>
   stop: () => Promise<void>
 }
 
@@ -83,6 +84,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
     fanout,
     rules,
     mail,
+    hub,
     async stop() {
       if (stopped) return
       stopped = true

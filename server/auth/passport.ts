@@ -48,10 +48,15 @@ export function createPassport(models: Models, jwtSecret: string) {
 export async function userActorFromToken(models: Models, jwtSecret: string, token: string): Promise<UserActor | null> {
   const claims = verifyAccessToken(jwtSecret, token)
   if (!claims) return null
-  const session = await models.Session.findByPk(claims.jti)
+  return userActorOfSession(models, claims.jti, Number(claims.sub), claims.org)
+}
+
+/** The person behind a session as things stand now (role, sites), or null when it no longer holds. */
+export async function userActorOfSession(models: Models, sessionId: string, userId: number, organizationId: number): Promise<UserActor | null> {
+  const session = await models.Session.findByPk(sessionId)
   if (!session || session.revokedAt || session.expiresAt.getTime() <= Date.now()) return null
   const user = await models.User.findOne({
-    where: { id: Number(claims.sub), organizationId: claims.org },
+    where: { id: userId, organizationId },
     include: [{ association: 'sites', attributes: ['id'] }],
   })
   if (!user || !user.active || session.userId !== user.id) return null

@@ -20,11 +20,21 @@ export async function wallFromToken(models: Models, token: string): Promise<Wall
   const given = Buffer.from(hashSecret(match[2]), 'hex')
   const stored = Buffer.from(credential.tokenHash, 'hex')
   if (given.length !== stored.length || !timingSafeEqual(given, stored)) return null
-  const site = await models.Site.findByPk(credential.siteId)
-  if (!site || site.archivedAt) return null
+  if (!(await siteOpen(models, credential.siteId))) return null
   // Last use is for the owner's list; an hour's precision is plenty and spares a write per request.
   if (!credential.lastUsedAt || Date.now() - credential.lastUsedAt.getTime() > 3600_000) {
     await credential.update({ lastUsedAt: new Date() })
   }
   return { kind: 'wall', credentialId: credential.id, organizationId: credential.organizationId, siteIds: [credential.siteId], role: 'wall' }
+}
+
+/** Whether a signed-in wall display still holds: false once its key is revoked or its site archived. */
+export async function wallStillValid(models: Models, credentialId: number): Promise<boolean> {
+  const credential = await models.WallCredential.findByPk(credentialId)
+  return !!credential && !credential.revokedAt && (await siteOpen(models, credential.siteId))
+}
+
+async function siteOpen(models: Models, siteId: number) {
+  const site = await models.Site.findByPk(siteId)
+  return !!site && !site.archivedAt
 }

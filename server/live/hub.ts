@@ -4,14 +4,18 @@ import { Op, QueryTypes } from 'sequelize'
 import { WebSocketServer, type WebSocket } from 'ws'
 import { LIVE_CLOSE, liveClientMessageSchema, type LiveReading, type LiveServerMessage } from '@shared/schemas/live'
 import type { Actor } from '../auth/actor'
-import { userActorFromToken } from '../auth/passport'
-import { wallFromToken } from '../auth/wall-tokens'
+import { userActorFromToken, userActorOfSession } from '../auth/passport'
+import { wallFromToken, wallStillValid } from '../auth/wall-tokens'
 import type { AppContext } from '../context'
 import type { StoredReading } from '../events'
 import { canSeeSite, siteScope } from '../services/scope'
+import { catchUpPages } from './catch-up'
 
 const AUTH_TIMEOUT_MS = 5000
-const CATCH_UP_LIMIT = 5000
+/** A socket whose unsent frames pass this is dropped: its client is not reading. */
+export const MAX_BACKLOG_BYTES = 1024 * 1024
+/** A catch-up sends its next page only once the backlog is below this. */
+const PAGE_BACKLOG_BYTES = 256 * 1024
 
 type Peer = { socket: WebSocket; actor?: Actor; tanks: Set<number>; buffer: LiveReading[]; work: Promise<void> }
 
@@ -29,7 +33,21 @@ export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubO
   const coalesceMs = options.coalesceMs ?? 50
 
   const send = (peer: Peer, message: LiveServerMessage) => {
-    if (peer.socket.readyState === peer.socket.OPEN) peer.socket.send(JSON.stringify(message))
+    if (peer.socket.readyState !== peer.socket.OPEN) return
+    peer.socket.send(JSON.stringify(message))
+    if (peer.socket.bufferedAmount > MAX_BACKLOG_BYTES) {
+      // Closing politely would queue the close frame behind the backlog; the memory goes now.
+      ctx.logger.warn({ backlog: peer.socket.bufferedAmount }, 'live socket dropped: its client is not reading')
+      peer.socket.terminate()
+    }
+  }
+
+  /** Resolves once the socket has taken most of what was sent (true), or has closed (false). */
+  async function drained(peer: Peer) {
+    while (peer.socket.readyState === peer.socket.OPEN && peer.socket.bufferedAmount > PAGE_BACKLOG_BYTES) {
+      await new Promise((r) => setTimeout(r, 25))
+    }
+    return peer.socket.readyState === peer.socket.OPEN
   }
 
   async function visibleTanks(actor: Actor, tankIds?: number[], siteId?: number) {
@@ -42,16 +60,12 @@ export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubO
   }
 
   async function catchUp(peer: Peer, tankIds: number[], since: string) {
-    const rows = await ctx.sequelize.query<{ tank_id: number; metric: string; time: Date; value: number; source: LiveReading['source'] }>(
-      `SELECT tank_id, metric, time, value, source FROM readings
-        WHERE tank_id = ANY($tanks) AND time > $since ORDER BY time LIMIT ${CATCH_UP_LIMIT}`,
-      { bind: { tanks: tankIds, since }, type: QueryTypes.SELECT },
-    )
-    send(peer, {
-      type: 'readings',
-      catchUp: true,
-      readings: rows.map((r) => ({ tankId: r.tank_id, metric: r.metric, time: r.time.toISOString(), value: r.value, source: r.source })),
-    })
+    const pages = await catchUpPages(ctx.sequelize, tankIds, since)
+    if (!pages.length) return send(peer, { type: 'readings', catchUp: true, readings: [] })
+    for (const readings of pages) {
+      if (!(await drained(peer))) return
+      send(peer, { type: 'readings', catchUp: true, readings })
+    }
   }
 
   async function onMessage(peer: Peer, data: string) {
@@ -84,9 +98,11 @@ export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubO
     if (asked.some((id) => !allowed.includes(id)) || (message.siteId && !allowed.length && !(await siteVisible(peer.actor, message.siteId)))) {
       return send(peer, { type: 'error', code: 'forbidden', message: 'You may not watch one or more of these tanks' })
     }
-    for (const id of allowed) peer.tanks.add(id)
+    // Tanks already watched are not caught up again: a repeated subscribe costs one query and no readings.
+    const added = allowed.filter((id) => !peer.tanks.has(id))
+    for (const id of added) peer.tanks.add(id)
     send(peer, { type: 'subscribed', tankIds: [...peer.tanks].sort((a, b) => a - b) })
-    if (message.since && allowed.length) await catchUp(peer, allowed, message.since)
+    if (message.since && added.length) await catchUp(peer, added, message.since)
   }
 
   async function siteVisible(actor: Actor, siteId: number) {
@@ -116,6 +132,35 @@ export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubO
   }
   ctx.events.on('incident.changed', onIncident)
   ctx.events.on('wall.revoked', onWallRevoked)
+
+  /**
+   * Someone's sites, role or status changed, or a site or tank was archived: each open socket of
+   * that organization is held to its scope as it is now. A person or display that lost everything
+   * is closed; a socket that lost some tanks stops receiving them and is told its new list.
+   */
+  async function recheckScope(peer: Peer) {
+    const actor = peer.actor
+    if (!actor) return
+    const current: Actor | null =
+      actor.kind === 'user'
+        ? await userActorOfSession(ctx.models, actor.sessionId, actor.userId, actor.organizationId)
+        : (await wallStillValid(ctx.models, actor.credentialId)) ? actor : null
+    if (!current) return peer.socket.close(LIVE_CLOSE.unauthenticated, 'access withdrawn')
+    peer.actor = current
+    if (!peer.tanks.size) return
+    const still = new Set(await visibleTanks(current, [...peer.tanks]))
+    if (still.size === peer.tanks.size) return
+    peer.tanks = still
+    send(peer, { type: 'subscribed', tankIds: [...still].sort((a, b) => a - b) })
+  }
+  const onAccessChanged = ({ organizationId }: { organizationId: number }) => {
+    for (const peer of peers) {
+      if (peer.actor?.organizationId !== organizationId) continue
+      // In line with the socket's own frames, so a subscribe being handled cannot add back what this takes away.
+      peer.work = peer.work.then(() => recheckScope(peer)).catch((error) => ctx.logger.warn({ err: error }, 'live scope check failed'))
+    }
+  }
+  ctx.events.on('access.changed', onAccessChanged)
 
   // Sign-out, a password change or reset, a deactivated user and another instance's wall revocation
   // raise no event here: every few seconds, sockets whose session or wall key is no longer valid are closed.
@@ -187,6 +232,7 @@ export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubO
       ctx.events.off('readings.stored', onStored)
       ctx.events.off('incident.changed', onIncident)
       ctx.events.off('wall.revoked', onWallRevoked)
+      ctx.events.off('access.changed', onAccessChanged)
       server.off('upgrade', onUpgrade)
       for (const peer of peers) peer.socket.close(1001, 'server stopping')
       wss.close()
