@@ -1,13 +1,25 @@
-// Loaded on the first photo, not at start-up: an instance that never takes a photo keeps ~25 MB.
-const loadSharp = () => import('sharp').then((m) => m.default)
 import { PHOTO_FORMATS } from '@shared/schemas/photos'
 import { AppError, badRequest } from '../errors'
 import type { PhotoFormat } from '../models/photo'
+import { createLimiter, LimiterFullError } from './limiter'
+
+// Loaded on the first photo, not at start-up: an instance that never takes a photo keeps ~25 MB.
+// Without libvips' operation cache, the memory of a decode is returned when it ends.
+const loadSharp = () =>
+  import('sharp').then((m) => {
+    m.default.cache(false)
+    return m.default
+  })
 
 export const DISPLAY_MAX_PX = 1600
 export const THUMBNAIL_MAX_PX = 320
-/** Far above any camera in use; refuses decompression bombs before a pixel is decoded. */
-export const MAX_INPUT_PIXELS = 80_000_000
+/** Above the 48-megapixel phone cameras; refuses decompression bombs before a pixel is decoded. */
+export const MAX_INPUT_PIXELS = 50_000_000
+/** Decodes at once per instance, and uploads that may wait for one; more answer 503. */
+export const DECODES_AT_ONCE = 2
+export const DECODES_WAITING = 8
+const decodes = createLimiter(DECODES_AT_ONCE, DECODES_WAITING)
+export const decodeStats = () => decodes.stats()
 
 export type ProcessedImage = { data: Buffer; width: number; height: number }
 export type ProcessedPhoto = { originalFormat: PhotoFormat; display: ProcessedImage; thumbnail: ProcessedImage }
@@ -35,12 +47,17 @@ export async function processPhoto(bytes: Buffer): Promise<ProcessedPhoto> {
     throw badRequest(`photo: ${format ?? 'unknown'} images are not accepted; ${ACCEPTED}`, { photo: `${format ?? 'unknown'} is not accepted; ${ACCEPTED}` })
   }
   if (pixels > MAX_INPUT_PIXELS) {
-    throw new AppError(413, 'too_large', `photo: ${Math.round(pixels / 1e6)} megapixels is more than the ${MAX_INPUT_PIXELS / 1e6} accepted`, { photo: 'too many pixels' })
+    throw new AppError(413, 'too_large', `photo: ${Math.round(pixels / 1e6)} megapixels is more than the ${MAX_INPUT_PIXELS / 1e6} accepted`, { photo: `at most ${MAX_INPUT_PIXELS / 1e6} megapixels` })
   }
   try {
-    const [display, thumbnail] = await Promise.all([variant(bytes, DISPLAY_MAX_PX, 82), variant(bytes, THUMBNAIL_MAX_PX, 76)])
+    // One decode of the upload; the thumbnail is made from the display image.
+    const display = await decodes.run(() => variant(bytes, DISPLAY_MAX_PX, 82))
+    const thumbnail = await variant(display.data, THUMBNAIL_MAX_PX, 76)
     return { originalFormat: format as PhotoFormat, display, thumbnail }
-  } catch {
+  } catch (error) {
+    if (error instanceof LimiterFullError) {
+      throw new AppError(503, 'busy', 'Too many photos are being processed right now; send it again in a few seconds', undefined, 5)
+    }
     // The header parsed but the pixels did not (a truncated or damaged file).
     throw badRequest(`photo: the image data is damaged or incomplete; ${ACCEPTED}`, { photo: 'damaged or incomplete image' })
   }
