@@ -4,10 +4,12 @@ import type { PhotoFormat } from '../models/photo'
 import { createLimiter, LimiterFullError } from './limiter'
 
 // Loaded on the first photo, not at start-up: an instance that never takes a photo keeps ~25 MB.
-// Without libvips' operation cache, the memory of a decode is returned when it ends.
+// Without libvips' operation cache the memory of a decode is returned when it ends, and one thread
+// per decode keeps a decode off the other cores (and the allocator's per-thread arenas few).
 const loadSharp = () =>
   import('sharp').then((m) => {
     m.default.cache(false)
+    m.default.concurrency(1)
     return m.default
   })
 

@@ -1,10 +1,10 @@
-import { connect as tcpConnect, type Socket } from 'node:net'
 import mqtt from 'mqtt'
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { MAX_PAYLOAD_BYTES, outcomesTopic, readingsTopic, type MessageOutcome } from '@shared/ingest/contract'
 import { CONNECT_TIMEOUT_MS } from '../../server/mqtt/broker'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
+import { connectPacket, publishHeader, rawSocket as openRaw, remainingLength, streamZeros as stream } from '../helpers/mqtt-raw'
 import { startTestServer } from '../helpers/server'
 
 // Packet and message sizes on the embedded broker, over raw TCP where a real client would refuse to
@@ -22,41 +22,7 @@ beforeAll(async () => {
 })
 afterAll(() => s.close())
 
-/** A variable byte integer as MQTT writes a packet's remaining length. */
-function remainingLength(n: number) {
-  const bytes: number[] = []
-  do {
-    let byte = n % 128
-    n = Math.floor(n / 128)
-    if (n > 0) byte |= 0x80
-    bytes.push(byte)
-  } while (n > 0)
-  return Buffer.from(bytes)
-}
-
-type RawSocket = { socket: Socket; closedAt: Promise<number>; written: () => number }
-
-async function rawSocket(): Promise<RawSocket> {
-  const socket = tcpConnect(s.mqttPort!, '127.0.0.1')
-  socket.on('error', () => {})
-  await new Promise((resolve) => socket.once('connect', resolve))
-  let written = 0
-  const write = socket.write.bind(socket)
-  socket.write = ((chunk: Buffer, ...rest: never[]) => {
-    written += chunk.length
-    return write(chunk, ...rest)
-  }) as typeof socket.write
-  return { socket, closedAt: new Promise((resolve) => socket.once('close', () => resolve(Date.now()))), written: () => written }
-}
-
-/** Streams zero bytes until the server closes the socket or `total` bytes are sent. */
-async function stream(raw: RawSocket, total: number) {
-  const chunk = Buffer.alloc(64 * 1024)
-  while (raw.written() < total && !raw.socket.destroyed) {
-    if (!raw.socket.write(chunk)) await Promise.race([new Promise((r) => raw.socket.once('drain', r)), raw.closedAt])
-  }
-}
-
+const rawSocket = () => openRaw(s.mqttPort!)
 const within = <T>(p: Promise<T>, ms: number) => Promise.race([p, new Promise<'timeout'>((r) => setTimeout(() => r('timeout'), ms))])
 
 async function lastError(deviceId: number) {
@@ -146,17 +112,10 @@ describe(`messages over ${MAX_PAYLOAD_BYTES} bytes`, () => {
 
   it('closes a signed-in device sending a 20 MB message before the message is read', async () => {
     const raw = await rawSocket()
-    const id = Buffer.from(String(node.deviceId))
-    const token = Buffer.from(node.token)
-    const clientId = Buffer.from('raw-device')
-    const field = (b: Buffer) => Buffer.concat([Buffer.from([b.length >> 8, b.length & 0xff]), b])
-    // CONNECT, MQTT 3.1.1, user name and password flags, keepalive 60 s.
-    const variable = Buffer.concat([field(Buffer.from('MQTT')), Buffer.from([4, 0xc2, 0, 60]), field(clientId), field(id), field(token)])
-    raw.socket.write(Buffer.concat([Buffer.from([0x10]), remainingLength(variable.length), variable]))
+    raw.socket.write(connectPacket(String(node.deviceId), node.token, 'raw-device'))
     const connack = await new Promise<Buffer>((resolve) => raw.socket.once('data', resolve))
     expect([...connack.subarray(0, 4)]).toEqual([0x20, 2, 0, 0])
-    const topic = field(Buffer.from(readingsTopic(node.deviceId)))
-    raw.socket.write(Buffer.concat([Buffer.from([0x30]), remainingLength(topic.length + 20_000_000), topic]))
+    raw.socket.write(publishHeader(readingsTopic(node.deviceId), 20_000_000))
     await within(stream(raw, 8 * 1024 * 1024), 10_000)
     expect(await within(raw.closedAt, 3000)).not.toBe('timeout')
     expect(raw.written()).toBeLessThan(20_000_000)

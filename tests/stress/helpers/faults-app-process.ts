@@ -86,6 +86,10 @@ export async function appProcess(databaseUrl: string, env: Record<string, string
     get starts() {
       return starts
     },
+    /** The running process's id (for its memory in /proc), or null while stopped. */
+    get pid() {
+      return child?.pid ?? null
+    },
     /** SIGKILL: the process ends at once, mid-whatever it was doing. */
     async kill() {
       const proc = child
