@@ -72,6 +72,11 @@ process.on('SIGTERM', () => void shutdown(0))
 try {
   ensureDependencies(root)
   const env = { ...process.env, DATA_DIR: dataDir, SEED_DEMO: process.env.SEED_DEMO ?? '1', NODE_ENV: process.env.NODE_ENV ?? 'development' }
+  // glibc gives each libvips (photo decoding) thread its own malloc arena, and after a large free
+  // raises the size it maps separately, so freed photo buffers stay with the process. Two arenas and
+  // a fixed 128 KiB threshold give memory back once an upload is done (see README, Configuration).
+  env.MALLOC_ARENA_MAX ??= '2'
+  env.MALLOC_MMAP_THRESHOLD_ ??= '131072'
   if (!process.env.DATABASE_URL) {
     cluster = await startCluster(join(dataDir, 'postgres'))
     env.DATABASE_URL = cluster.createDatabase('tankwarden')

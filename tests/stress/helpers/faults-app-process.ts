@@ -51,6 +51,9 @@ export async function appProcess(databaseUrl: string, env: Record<string, string
         SERVE_CLIENT: '0',
         LOG_LEVEL: 'silent',
         BCRYPT_ROUNDS: '4',
+        // As scripts/start.mjs runs the app.
+        MALLOC_ARENA_MAX: '2',
+        MALLOC_MMAP_THRESHOLD_: '131072',
         ...env,
       },
     })
