@@ -151,6 +151,7 @@ export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubO
     const still = new Set(await visibleTanks(current, [...peer.tanks]))
     if (still.size === peer.tanks.size) return
     peer.tanks = still
+    peer.buffer = peer.buffer.filter((r) => still.has(r.tankId))
     send(peer, { type: 'subscribed', tankIds: [...still].sort((a, b) => a - b) })
   }
   const onAccessChanged = ({ organizationId }: { organizationId: number }) => {
