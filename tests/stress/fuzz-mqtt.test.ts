@@ -2,7 +2,7 @@ import fc from 'fast-check'
 import mqtt from 'mqtt'
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { MAX_READINGS_PER_MESSAGE, readingsTopic } from '@shared/ingest/contract'
+import { MAX_PAYLOAD_BYTES, MAX_READINGS_PER_MESSAGE, readingsTopic } from '@shared/ingest/contract'
 import { METRIC_KEYS } from '@shared/metrics'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { hostileBody } from '../helpers/fuzz-values'
@@ -10,6 +10,7 @@ import { startTestServer } from '../helpers/server'
 
 // Hostile readings payloads over a real MQTT connection to the embedded broker: the broker keeps the
 // connection and the process, an unreadable envelope stores nothing, and nothing implausible is stored.
+// A payload over MAX_PAYLOAD_BYTES is refused by closing its connection (tests/mqtt/hostile-packets).
 const NUM_RUNS = Number(process.env.FUZZ_RUNS ?? 100)
 const SEED = process.env.FUZZ_SEED ? Number(process.env.FUZZ_SEED) : undefined
 
@@ -74,6 +75,15 @@ describe('hostile readings payloads over MQTT', () => {
       fc.asyncProperty(payloads, async ({ bytes, how }) => {
         cases++
         const before = (await rowsOf(node.tankId)).length
+        if (bytes.length > MAX_PAYLOAD_BYTES) {
+          const oversize = await connect(String(node.deviceId), node.token)
+          const cut = new Promise<'closed'>((resolve) => oversize.once('close', () => resolve('closed')))
+          oversize.publish(readingsTopic(node.deviceId), bytes, { qos: 1 }, () => {})
+          if ((await Promise.race([cut, new Promise<'open'>((r) => setTimeout(() => r('open'), 5000))])) === 'open') failures.push(`[${how}] ${bytes.length} bytes: connection kept`)
+          oversize.end(true)
+          if ((await rowsOf(node.tankId)).length !== before) failures.push(`[${how}] ${bytes.length} bytes: rows stored`)
+          return
+        }
         try {
           await client.publishAsync(readingsTopic(node.deviceId), bytes, { qos: 1 })
         } catch (error) {
