@@ -1,9 +1,9 @@
-import { existsSync } from 'node:fs'
-import { join, resolve } from 'node:path'
+import { resolve } from 'node:path'
 import express from 'express'
 import helmet from 'helmet'
 import { pinoHttp } from 'pino-http'
 import type { AppContext } from './context'
+import { serveClientPages } from './http/client-pages'
 import { errorHandler, notFoundHandler } from './http/errors'
 import { MAX_PAYLOAD_BYTES } from '@shared/ingest/contract'
 import { apiRouter } from './routes'
@@ -11,7 +11,7 @@ import { apiRouter } from './routes'
 export const JSON_BODY_LIMIT = '1mb'
 
 /** Builds the Express app without listening, so tests can drive it with supertest. */
-export function createApp(ctx: AppContext) {
+export function createApp(ctx: AppContext, options: { clientDir?: string } = {}) {
   const app = express()
   app.disable('x-powered-by')
   app.set('trust proxy', 'loopback')
@@ -36,12 +36,7 @@ export function createApp(ctx: AppContext) {
   app.use('/api/v1', express.json({ limit: JSON_BODY_LIMIT }), apiRouter(ctx))
   app.use('/api', notFoundHandler)
 
-  const dist = resolve('dist')
-  if (ctx.config.serveClient && existsSync(join(dist, 'index.html'))) {
-    app.use(express.static(dist, { index: false, maxAge: '1h' }))
-    // Client-side routes all load the same page.
-    app.get('/*splat', (_req, res) => res.sendFile(join(dist, 'index.html')))
-  }
+  if (ctx.config.serveClient) serveClientPages(app, options.clientDir ?? resolve('dist'))
   app.use(notFoundHandler)
   app.use(errorHandler(ctx.logger))
   return app

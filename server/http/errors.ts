@@ -3,7 +3,7 @@ import type { Logger } from '../logger'
 import { AppError } from '../errors'
 
 export const notFoundHandler: RequestHandler = (req, _res, next) =>
-  next(new AppError(404, 'not_found', `No such endpoint: ${req.method} ${req.path}`))
+  next(new AppError(404, 'not_found', `No such endpoint: ${req.method} ${req.originalUrl.split('?')[0]}`))
 
 /** Maps every error to the one error shape; anything unexpected is logged and answered 500 without detail. */
 export function errorHandler(logger: Logger): ErrorRequestHandler {
