@@ -191,4 +191,27 @@ describe('the tanks list, for a keeper', () => {
     expect(await page.title()).toBe(`Wall · ${siteName} · Tankwarden`)
     await page.close()
   })
+
+  it('says on the tank page which volume is the tank and which is the water (390×844)', async () => {
+    const page = await browser.newPage({ viewport: { width: 390, height: 844 } })
+    await signIn(page, s.baseUrl, org.users.keeper.email)
+    await page.goto(`${s.baseUrl}/tanks/${probes['Steady tank']!.tankId}`)
+    const panel = page.locator('[data-test=water-change-panel]')
+    await panel.locator('input[name=amount]').waitFor({ timeout: FIRST_LOAD_MS })
+    // 100 × 40 × 50 cm inside holds 200 L to the rim; with no water-level reading the planner assumes
+    // 90 % of the height, 45 cm, so 100 × 40 × 45 cm = 180 L of water over a bare floor.
+    const fact = page.locator('div', { has: page.getByText('Tank volume', { exact: true }) }).filter({ hasText: 'to the rim' }).last()
+    expect((await fact.innerText()).replace(/\s+/g, ' ').trim()).toBe('Tank volume 200 L to the rim, from inside dimensions')
+    await panel.locator('input[name=amount]').fill('12')
+    await panel.locator('[data-test=water-change-plan-button]').click()
+    await panel.locator('[data-test=water-change-plan]').waitFor()
+    expect(await panel.locator('[data-test=plan-litres]').innerText()).toBe('21.6 L (12 % of 180 L)')
+    expect((await panel.locator('[data-test=plan-water-volume]').innerText()).replace(/\s+/g, ' ')).toBe(
+      '180 L is the water in the tank: filled to 45 cm, above the substrate (rock and decoration not taken off). The tank volume, to the rim, is 200 L.',
+    )
+    await panel.locator('[data-test=water-change-plan]').scrollIntoViewIfNeeded()
+    await shot(page, 'water-change-volumes-390')
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390)
+    await page.close()
+  })
 })
