@@ -84,6 +84,10 @@ const row = (page: Page, name: string) => page.locator('tbody tr', { has: page.l
 const text = async (page: Page, name: string, test: string) => ((await row(page, name).locator(`[data-test=${test}]`).first().textContent()) ?? '').replace(/\s+/g, ' ').trim()
 const iconOf = (page: Page, name: string) => row(page, name).locator('[data-test=tank-state-icon]').getAttribute('class')
 
+/** How wide the page's content is: wider than the window means scrolling sideways. */
+const pageWidth = (page: Page) =>
+  page.evaluate(() => (globalThis as unknown as { document: { documentElement: { scrollWidth: number } } }).document.documentElement.scrollWidth)
+
 async function openList(page: Page) {
   await signIn(page, s.baseUrl, org.users.keeper.email)
   await page.goto(`${s.baseUrl}/tanks`)
@@ -119,7 +123,7 @@ describe('the tanks list, for a keeper', () => {
     expect(await page.locator('thead').innerText()).toContain('Tank volume')
     expect(await page.locator('[data-test=volume-note]').innerText()).toContain('Tank volume is what the tank holds to the rim')
     // Nothing wider than the window.
-    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(1280)
+    expect(await pageWidth(page)).toBeLessThanOrEqual(1280)
     await shot(page, 'tanks-list-1280')
     await page.close()
   })
@@ -129,7 +133,7 @@ describe('the tanks list, for a keeper', () => {
     await openList(page)
     for (const tank of EXPECTED) expect(await text(page, tank.name, 'tank-state'), tank.name).toBe(tank.word)
     expect(await text(page, 'Steady tank', 'latest-temperature')).toMatch(/^25\.5 °C · [34] min ago$/)
-    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390)
+    expect(await pageWidth(page)).toBeLessThanOrEqual(390)
     // The bar carries the open-incident count where the menu is folded away.
     expect(await page.locator('[data-test=bar-open-incidents]').getAttribute('aria-label')).toBe('Incidents: 1 open')
     await shot(page, 'tanks-list-390')
@@ -211,7 +215,7 @@ describe('the tanks list, for a keeper', () => {
     )
     await panel.locator('[data-test=water-change-plan]').scrollIntoViewIfNeeded()
     await shot(page, 'water-change-volumes-390')
-    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390)
+    expect(await pageWidth(page)).toBeLessThanOrEqual(390)
     await page.close()
   })
 })
