@@ -5,6 +5,18 @@ import type { Targets, TankKind, TankStage } from './tanks'
 export const TANK_STATES = ['alarm', 'watch', 'quiet', 'steady'] as const
 export type TankState = (typeof TANK_STATES)[number]
 
+/** What the wall and the tanks list say about a tank now. */
+export interface TankStatus {
+  state: TankState
+  stateReasons: string[]
+  latest: LatestResponse
+  /** Unresolved incidents, newest first. */
+  openIncidents: Array<{ id: number; title: string; severity: 'warning' | 'alarm'; openedAt: string }>
+  /** Names of the tank's devices that have stopped reporting (none for an empty or archived tank). */
+  quietDevices: string[]
+  hasDevices: boolean
+}
+
 export interface WallTank {
   id: number
   name: string
