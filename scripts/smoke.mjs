@@ -90,12 +90,12 @@ async function checkInBrowser(url, owner, password, shotsDir) {
     await page.getByLabel('Password', { exact: true }).fill(password)
     await page.getByRole('button', { name: 'Sign in' }).click()
     await page.waitForURL((u) => u.pathname === '/tanks', { timeout: 30_000 })
-    // Every tank row shows its state word; the simulator's readings make them more than "quiet".
+    // Every tank row shows its state word; the simulator's readings make some more than "quiet".
     const rows = page.locator('[data-test="tank-row"]')
     await rows.first().waitFor({ timeout: 30_000 })
-    const states = page.locator('[data-test="tank-row"] [data-test="tank-state"]')
+    const states = page.locator('[data-test="tanks-table"] [data-test="tank-state"]')
     await page.waitForFunction(
-      () => [...document.querySelectorAll('[data-test="tank-row"] [data-test="tank-state"]')].some((el) => /Steady|Watch|Alarm/.test(el.textContent ?? '')),
+      () => [...document.querySelectorAll('[data-test="tanks-table"] [data-test="tank-state"]')].some((el) => /Steady|Watch|Alarm/.test(el.textContent ?? '')),
       undefined,
       { timeout: 60_000 },
     )
