@@ -92,6 +92,7 @@ export function tankHistory(spec: SimTankSpec & { substrateDepthCm: number }, op
   let level = initialLevelState(geometry.heightCm * START_FILL_FRACTION)
   let thermal = { waterC: heater?.setPointC ?? roomTemperatureC(minutesOfDay(options.fromMs)), heaterOn: false }
   let ph = initialPhState()
+  let wasChanging = false
   const history: TankHistory = { times: [], values: { temperature: [], ph: [], light: [], water_level: [] } }
   const reportEvery = Math.max(1, Math.round(options.reportEveryMs / STEP_MS))
   // The room and the lights depend only on the local minute: one table each for the whole month.
@@ -113,11 +114,15 @@ export function tankHistory(spec: SimTankSpec & { substrateDepthCm: number }, op
 
     const before = level.levelCm
     const changing = waterChangeLevel(options.episodes, at + STEP_MS, level.targetCm, spec.substrateDepthCm)
-    level = changing === null ? stepLevel(level, STEP_MS / 1000) : { ...level, levelCm: changing, toppingUp: false }
+    const inChange = changing !== null || wasChanging
+    if (changing !== null) level = { ...level, levelCm: changing, toppingUp: false }
+    // The refill ends at the usual level, whatever step it ends in.
+    else level = wasChanging ? { ...level, levelCm: level.targetCm } : stepLevel(level, STEP_MS / 1000)
+    wasChanging = changing !== null
     const added = litresAtLevel(geometry, level.levelCm) - litresAtLevel(geometry, before)
     if (added > 0) {
       // Water-change water is tempered to the tank; top-up water comes at room temperature.
-      const addedC = changing !== null && heater ? heater.setPointC - REFILL_BELOW_SET_POINT_K : roomC
+      const addedC = inChange && heater ? heater.setPointC - REFILL_BELOW_SET_POINT_K : roomC
       thermal = { ...thermal, waterC: mixedTemperatureC(litresAtLevel(geometry, before), thermal.waterC, added, addedC) }
     }
     thermal = stepTemperature(
