@@ -71,7 +71,7 @@ export function parseScenarioList(text: string): Map<string, ScenarioPlan> {
 
 /**
  * The demo shop's faults, placed in real time so they keep a humane pace at any `--speed`: each
- * tank's fault once an hour, each one clearing by itself, never two opening at once. A newcomer's
+ * tank's fault once an hour, each one clearing by itself, spread over the hour. A newcomer's
  * first half hour sees a sensor go quiet and come back, and a stuck heater's alarm open; the
  * heater's escalation and all-clear, a water change and a pH dip follow in the second half.
  * Real seconds after the simulator starts; the heater and pH physics run at the simulated speed.
