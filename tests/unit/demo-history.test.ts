@@ -15,12 +15,13 @@ const DAY_MS = 24 * HOUR_MS
 const NOW = Date.UTC(2026, 11, 2, 13, 20)
 const FROM = localToInstant(ZONE, { year: 2026, month: 11, day: 2 }, 0)
 
-const community = {
-  name: 'Community', kind: 'tropical_freshwater' as const, dimensions: { shape: 'rectangular' as const, lengthCm: 60, widthCm: 40, heightCm: 40 },
+type Spec = Parameters<typeof tankHistory>[0]
+const community: Spec = {
+  name: 'Community', kind: 'tropical_freshwater', dimensions: { shape: 'rectangular', lengthCm: 60, widthCm: 40, heightCm: 40 },
   volumeLitres: 96, heater: { watts: 100, setPointC: 25.5, topCm: 22 }, lightSchedule: { on: '09:00', off: '19:00' }, timeZone: ZONE, substrateDepthCm: 5,
 }
-const planted = { ...community, name: 'Planted', kind: 'planted' as const, lightSchedule: { on: '10:00', off: '18:00' } }
-const week = (spec: typeof community, episodes: Episode[] = [], seed = 1) =>
+const planted: Spec = { ...community, name: 'Planted', kind: 'planted', lightSchedule: { on: '10:00', off: '18:00' } }
+const week = (spec: Spec, episodes: Episode[] = [], seed = 1) =>
   tankHistory(spec, { fromMs: NOW - 7 * DAY_MS, toMs: NOW, reportEveryMs: 5 * 60_000, seed, episodes })
 
 const mean = (xs: number[]) => xs.reduce((a, b) => a + b, 0) / xs.length
