@@ -66,7 +66,8 @@ export async function seedDemoHistory(ctx: AppContext, now = Date.now()): Promis
 
   const devices = devicesService(ctx)
   const histories = new Map<number, TankHistory>()
-  let readings = 0
+  // PostgreSQL stores one tank's month while the next one is computed here.
+  const inserts: Array<Promise<number>> = []
   for (const tank of live) {
     const { device } = await devices.create(actorFor(owner.email), {
       tankId: tank.id, name: DEMO_NODE_NAME, metrics: [...HISTORY_METRICS], intervalSeconds: DEMO_NODE_INTERVAL_SECONDS,
@@ -76,9 +77,10 @@ export async function seedDemoHistory(ctx: AppContext, now = Date.now()): Promis
       { fromMs: story.fromMs, toMs: now, reportEveryMs: HISTORY_REPORT_EVERY_MS, seed: seedFrom(1, tank.name), episodes: story.episodes.get(tank.name) ?? [] },
     )
     histories.set(tank.id, history)
-    readings += await insertHistory(ctx, tank.id, device.id, history)
+    inserts.push(insertHistory(ctx, tank.id, device.id, history))
     await sequelize.query('UPDATE devices SET created_at = $1, last_seen_at = $2 WHERE id = $3', { bind: [from, new Date(history.times.at(-1) ?? now), device.id] })
   }
+  const readings = (await Promise.all(inserts)).reduce((a, b) => a + b, 0)
 
   const byName = new Map<string, Tank>(live.map((t) => [t.name, t]))
   await seedCare(ctx, story, byName, actorFor)
