@@ -53,9 +53,11 @@ export function tankSceneSvg(kind: TankKind, seedText: string): string {
   return `<svg xmlns="http://www.w3.org/2000/svg" width="${WIDTH}" height="${HEIGHT}" viewBox="0 0 ${WIDTH} ${HEIGHT}">
 <defs>
   <linearGradient id="water" x1="0" y1="0" x2="0" y2="1"><stop offset="0" stop-color="${top}"/><stop offset="1" stop-color="${bottom}"/></linearGradient>
+  <clipPath id="glass"><rect x="20" y="40" width="${WIDTH - 40}" height="${HEIGHT - 60}"/></clipPath>
   <linearGradient id="beam" x1="0" y1="0" x2="0" y2="1"><stop offset="0" stop-color="#fff" stop-opacity="0.35"/><stop offset="1" stop-color="#fff" stop-opacity="0"/></linearGradient>
 </defs>
 <rect width="${WIDTH}" height="${HEIGHT}" fill="#20262b"/>
+<g clip-path="url(#glass)">
 <rect x="20" y="40" width="${WIDTH - 40}" height="${HEIGHT - 60}" fill="url(#water)"/>
 <polygon points="200,40 420,40 560,${HEIGHT - 100} 120,${HEIGHT - 100}" fill="url(#beam)"/>
 <polygon points="700,40 880,40 1000,${HEIGHT - 100} 640,${HEIGHT - 100}" fill="url(#beam)"/>
@@ -63,6 +65,7 @@ ${plants}${stones}
 <rect x="20" y="${HEIGHT - 110}" width="${WIDTH - 40}" height="90" fill="${marine ? '#e9dcc0' : '#8a7556'}"/>
 ${fishes}
 <rect x="20" y="40" width="${WIDTH - 40}" height="14" fill="#111" opacity="0.6"/>
+</g>
 </svg>`
 }
 
