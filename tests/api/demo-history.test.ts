@@ -155,7 +155,7 @@ describe('the demo seed', () => {
        FROM incidents i JOIN tanks t ON t.id = i.tank_id JOIN incident_events e ON e.incident_id = i.id GROUP BY i.id, t.name`,
     )
     expect(incidents.map((i) => `${i.tank}: ${i.rule_kind}`).sort()).toEqual(
-      expect.arrayContaining(['Breeding cylinder C1: above', 'Brackish B1: quiet', 'Display 1 — community: below']),
+      expect.arrayContaining(['Breeding cylinder C1: above', 'Brackish B1: quiet', 'Display 1 — community: below', 'Reef display: quiet']),
     )
     for (const i of incidents) {
       expect(i.state, `${i.tank} ${i.rule_kind}`).toBe('resolved')

@@ -107,11 +107,12 @@ describe('the month’s story', () => {
     expect(story.testKits.length).toBe(story.care.filter((c) => c.kind === 'test_kit_check').length)
   })
 
-  it('puts two faults in last week and one in the week before', () => {
+  it('puts two faults in last week, one the week before and one in the last seven days', () => {
     const lastWeek = lastEndedPeriod('week', NOW, ZONE)
     const faults = [...story.episodes.values()].flat().filter((e) => e.kind !== 'water_change')
     expect(faults.filter((e) => e.fromMs >= lastWeek.from && e.fromMs < lastWeek.to)).toHaveLength(2)
     expect(faults.filter((e) => e.fromMs < lastWeek.from)).toHaveLength(1)
+    expect(faults.filter((e) => e.fromMs >= NOW - 7 * DAY_MS).length).toBeGreaterThanOrEqual(1)
   })
 
   it('brings one arrival into quarantine, a few days ago', () => {

@@ -146,11 +146,14 @@ export function demoStory(tanks: readonly StoryTank[], now: number, seed = 1): D
   for (const c of care) {
     if (c.kind === 'water_change') episodes.get(c.tank)!.push({ kind: 'water_change', fromMs: c.at, percent: WATER_CHANGE_PERCENT })
   }
-  // The faults of the month: two last week, one the week before.
+  // The faults of the month: two last week, one the week before, and one two days ago (the
+  // incidents list opens on the last seven days).
   const stuckFrom = dayOfLastWeek(2, 30)
   episodes.get('Breeding cylinder C1')?.push({ kind: 'heater_stuck_on', fromMs: stuckFrom, toMs: stuckFrom + 4.5 * HOUR_MS })
   const quietFrom = dayOfLastWeek(4, 14 * 60)
   episodes.get('Brackish B1')?.push({ kind: 'sensor_quiet', fromMs: quietFrom, toMs: quietFrom + 50 * MINUTE_MS })
+  const recentQuietFrom = localToInstant(zone, addDays(localDateAt(zone, now), -2), 16 * 60 + 10)
+  episodes.get('Reef display')?.push({ kind: 'sensor_quiet', fromMs: recentQuietFrom, toMs: recentQuietFrom + 26 * MINUTE_MS })
   const failedFrom = dayOfLastWeek(-4, 22 * 60)
   const replacedAt = failedFrom + 11 * HOUR_MS
   episodes.get('Display 1 — community')?.push({ kind: 'heater_failed', fromMs: failedFrom, toMs: replacedAt })
@@ -163,6 +166,10 @@ export function demoStory(tanks: readonly StoryTank[], now: number, seed = 1): D
     {
       tank: 'Brackish B1', episode: 'sensor_quiet', ackAfterMs: 6 * MINUTE_MS,
       ackNote: 'Node unplugged while the canister was serviced; plugging it back in.',
+    },
+    {
+      tank: 'Reef display', episode: 'sensor_quiet', ackAfterMs: 4 * MINUTE_MS,
+      ackNote: 'Node’s plug knocked out of the power strip during feeding; back in, readings should resume.',
     },
     {
       tank: 'Display 1 — community', episode: 'heater_failed', ackAfterMs: 8 * MINUTE_MS,
