@@ -39,11 +39,17 @@ export function replayTrips(
       feed({ type: 'reading', at: readings.times[next]!, value: readings.values[next]! })
       next++
     }
-    // A rate rule judges readings only; ticks cannot move it.
-    if (spec.kind !== 'rate') feed({ type: 'tick', at: tick })
+    if (ticksMatter(spec.kind, state.status)) feed({ type: 'tick', at: tick })
   }
   return trips
 }
+
+/**
+ * A rate rule judges readings only, and a level rule that is clear waits for a reading (unless it
+ * judges a schedule): the timer cannot move either, so those ticks are skipped.
+ */
+const ticksMatter = (kind: WatchRuleSpec['kind'], status: string) =>
+  kind === 'quiet' || kind === 'light_schedule' || (kind !== 'rate' && status !== 'clear')
 
 function onEvent(event: RuleEvent, open: Trip | null, trips: Trip[]): Trip | null {
   if (event.type === 'trip') {

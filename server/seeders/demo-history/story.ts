@@ -2,7 +2,7 @@
 // Every date is placed on the site's own calendar, so last week always holds a fault or two.
 import { defaultCareTasksFor, type CareTaskKind } from '@shared/care/defaults'
 import { lastEndedPeriod } from '@shared/report/period'
-import { addDays, formatLocalDate, localDateAt, localToInstant, weekdayOf, type LocalDate } from '@shared/roster/zoned-time'
+import { addDays, localDateAt, localToInstant, weekdayOf, type LocalDate } from '@shared/roster/zoned-time'
 import type { KitValue } from '@shared/schemas/test-kit'
 import type { TankKind } from '@shared/schemas/tanks'
 import { mulberry32, seedFrom } from '../../../simulator/model/random'
@@ -206,6 +206,3 @@ export function demoStory(tanks: readonly StoryTank[], now: number, seed = 1): D
 
   return { fromMs, toMs: now, episodes, care, testKits, incidentNotes, arrival, photos }
 }
-
-/** `YYYY-MM-DD` of an instant on the zone's calendar (for tests and logs). */
-export const localDay = (zone: string, at: number) => formatLocalDate(localDateAt(zone, at))
