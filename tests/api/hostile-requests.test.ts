@@ -165,6 +165,8 @@ describe('headers', () => {
     const connect = /connect-src ([^;]*)/.exec(res.headers['content-security-policy'])![1]!.split(' ')
     const host = new URL(s.baseUrl).host
     expect(connect).toEqual(["'self'", `ws://${host}`, `wss://${host}`])
+    // A wall key in the page's address is never sent on to other sites as a Referer.
+    expect(res.headers['referrer-policy']).toBe('no-referrer')
   })
 })
 
