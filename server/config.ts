@@ -8,6 +8,20 @@ const boolish = z
   .enum(['1', '0', 'true', 'false', 'yes', 'no'])
   .transform((v) => v === '1' || v === 'true' || v === 'yes')
 
+/**
+ * Which proxies may name the client's address in X-Forwarded-For: a hop count, or addresses,
+ * subnets and Express's names (`loopback`, `linklocal`, `uniquelocal`), comma-separated. Unset, the
+ * header is ignored: anyone could otherwise pick their own address, and with it a fresh sign-in allowance.
+ */
+const trustProxySchema = z
+  .string()
+  .trim()
+  .refine((v) => !['true', 'yes', '*'].includes(v.toLowerCase()), 'name the proxy (an address, subnet or loopback) or a hop count; trusting every sender lets anyone choose their address')
+  .transform((v): TrustProxy => (['false', 'no', '0', ''].includes(v.toLowerCase()) ? false : /^\d+$/.test(v) ? Number(v) : v.split(',').map((part) => part.trim()).filter(Boolean)))
+
+/** Express's `trust proxy`: false (ignore X-Forwarded-For), a hop count, or trusted addresses and subnets. */
+export type TrustProxy = false | number | string[]
+
 const envSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
   HOST: z.string().default('127.0.0.1'),
@@ -19,6 +33,8 @@ const envSchema = z.object({
   PUBLIC_URL: z.string().url().optional(),
   SEED_DEMO: boolish.default(false),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+  LOG_FORMAT: z.enum(['json', 'pretty']).optional(),
+  TRUST_PROXY: trustProxySchema.optional(),
   SIGN_IN_LIMIT: z.coerce.number().int().positive().default(10),
   SIGN_IN_WINDOW_MINUTES: z.coerce.number().positive().default(15),
   SERVE_CLIENT: boolish.default(true),
@@ -63,6 +79,9 @@ export type Config = Readonly<{
   publicUrl: string
   seedDemo: boolean
   logLevel: string
+  /** `pretty` for a person at a terminal (the default under NODE_ENV=development), `json` lines otherwise. */
+  logFormat: 'json' | 'pretty'
+  trustProxy: TrustProxy
   signInLimit: number
   signInWindowMinutes: number
   serveClient: boolean
@@ -118,6 +137,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     publicUrl: e.PUBLIC_URL ?? `http://${e.HOST === '0.0.0.0' ? '127.0.0.1' : e.HOST}:${e.PORT}`,
     seedDemo: e.SEED_DEMO,
     logLevel: e.LOG_LEVEL,
+    logFormat: e.LOG_FORMAT ?? (e.NODE_ENV === 'development' ? 'pretty' : 'json'),
+    trustProxy: e.TRUST_PROXY ?? false,
     signInLimit: e.SIGN_IN_LIMIT,
     signInWindowMinutes: e.SIGN_IN_WINDOW_MINUTES,
     serveClient: e.SERVE_CLIENT,
@@ -154,6 +175,8 @@ export function testConfig(overrides: Partial<Config> & { databaseUrl: string })
     publicUrl: 'http://127.0.0.1:0',
     seedDemo: false,
     logLevel: 'silent',
+    logFormat: 'json',
+    trustProxy: false,
     signInLimit: 10,
     signInWindowMinutes: 15,
     serveClient: false,

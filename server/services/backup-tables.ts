@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { instantSchema } from '@shared/schemas/time'
 
 /**
  * What an organization backup holds, table by table, in the order a restore inserts them.
@@ -145,7 +146,7 @@ export function referenceOf(column: Column): { table: string; nullable: boolean 
 }
 
 const MAX_TEXT = 100_000
-const instant = z.iso.datetime({ offset: true })
+const instant = instantSchema
 const KIND_SCHEMAS: Record<Kind, z.ZodType> = {
   text: z.string().max(MAX_TEXT),
   int: z.number().int(),

@@ -6,6 +6,7 @@ import { incidentsService } from '../../server/services/incidents'
 import type { PublicSnooze } from '@shared/schemas/rules'
 import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
 import { createTankWithDevice } from '../helpers/fixtures'
+import { INSTANT_FORMAT_MESSAGE } from '@shared/schemas/time'
 
 const MIN = 60_000
 const HOUR = 60 * MIN
@@ -86,7 +87,7 @@ describe('creating snoozes', () => {
     ['more than seven days', { reason: 'Long holiday', ...timeSpan(0, 7 * DAY + MIN) }, { endsAt: 'at most 7 days at a time' }],
     ['weekly without an end date', { reason: 'Sunday maintenance', ...timeSpan(0, HOUR), weekly: true }, { repeatUntil: 'a weekly snooze needs an end date' }],
     ['a time without an offset', { reason: 'Water change', startsAt: '2026-03-02T10:00:00', endsAt: '2026-03-02T11:00:00' }, {
-      startsAt: 'Invalid ISO datetime', endsAt: 'Invalid ISO datetime',
+      startsAt: INSTANT_FORMAT_MESSAGE, endsAt: INSTANT_FORMAT_MESSAGE,
     }],
   ])('answers 400 with the field for %s', async (_what, body, fields) => {
     const tankId = await newTank()
