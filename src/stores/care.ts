@@ -13,6 +13,7 @@ export const useCareStore = defineStore('care', () => {
 
   const todayTasks = ref<CareTodayTask[]>([])
   const todaySiteIds = ref<number[]>([])
+  const todayOnDuty = ref(true)
   const todayWatch = ref<CareTankToWatch[]>([])
   const todayLoading = ref(false)
   // Only the newest today request may write: switching site twice quickly must not show the first.
@@ -42,6 +43,7 @@ export const useCareStore = defineStore('care', () => {
       if (ticket !== todayRequest) return
       todayTasks.value = urgentFirst(today.tasks)
       todaySiteIds.value = today.siteIds
+      todayOnDuty.value = today.onDuty
       todayWatch.value = today.watch ?? []
     } finally {
       if (ticket === todayRequest) todayLoading.value = false
@@ -53,6 +55,15 @@ export const useCareStore = defineStore('care', () => {
     const result = await careApi.markCareTaskDone(taskId, notes ? { notes } : {})
     todayTasks.value = todayTasks.value.filter((t) => t.id !== taskId)
     return result
+  }
+
+  /** Several done at once: done and already-done tasks both leave the list, since neither is due. */
+  async function markManyTodayDone(taskIds: number[]) {
+    const seen = todayTasks.value.filter((t) => taskIds.includes(t.id)).map((t) => ({ id: t.id, seenLastDoneAt: t.lastDoneAt }))
+    const results = await careApi.markCareTasksDone(seen)
+    const gone = new Set(results.map((r) => r.id))
+    todayTasks.value = todayTasks.value.filter((t) => !gone.has(t.id))
+    return results
   }
 
   /** Snoozed tasks are not due today, so the task leaves the list too. */
@@ -67,11 +78,15 @@ export const useCareStore = defineStore('care', () => {
     species.value = []
     todayTasks.value = []
     todaySiteIds.value = []
+    todayOnDuty.value = true
     todayWatch.value = []
     todayLoading.value = false
   }
 
-  return { species, speciesByKey, ensureSpecies, todayTasks, todaySiteIds, todayWatch, todayLoading, loadToday, markTodayDone, snoozeToday, $reset }
+  return {
+    species, speciesByKey, ensureSpecies, todayTasks, todaySiteIds, todayOnDuty, todayWatch, todayLoading,
+    loadToday, markTodayDone, markManyTodayDone, snoozeToday, $reset,
+  }
 })
 
 if (import.meta.hot) import.meta.hot.accept(acceptHMRUpdate(useCareStore, import.meta.hot))
