@@ -2,11 +2,13 @@ import { QueryTypes } from 'sequelize'
 import bcrypt from 'bcryptjs'
 import { hashSecret, newSecretToken } from '../auth/tokens'
 import type { AppContext } from '../context'
-import { badRequest } from '../errors'
+import { AppError } from '../errors'
 import { enqueueMail } from '../mail/outbox'
 import { passwordReset } from '../mail/templates'
 
 export const RESET_MINUTES = 60
+
+const resetRefused = (code: string, message: string, field: string) => new AppError(400, code, message, { token: field })
 
 /** Password resets by mail: a single-use link valid for an hour; the answer never says whether the e-mail exists. */
 export function passwordResetService(ctx: AppContext) {
@@ -32,8 +34,11 @@ export function passwordResetService(ctx: AppContext) {
           `SELECT id, user_id, expires_at, used_at FROM password_resets WHERE token_hash = $1 FOR UPDATE`,
           { bind: [hashSecret(token)], type: QueryTypes.SELECT, transaction },
         )
-        if (!row || row.used_at || row.expires_at.getTime() <= Date.now()) {
-          throw badRequest('This reset link is unknown, used or expired; ask for a new one', { token: 'unknown, used or expired' })
+        // Whoever holds the token already knows it existed, so saying which of the three it is leaks nothing.
+        if (!row) throw resetRefused('reset_link_unknown', 'This reset link is not known; check that the whole link was copied, or ask for a new one', 'unknown')
+        if (row.used_at) throw resetRefused('reset_link_used', 'This reset link has already been used; ask for a new one', 'already used')
+        if (row.expires_at.getTime() <= Date.now()) {
+          throw resetRefused('reset_link_expired', `This reset link has expired (they last ${RESET_MINUTES} minutes); ask for a new one`, 'expired')
         }
         await sequelize.query(`UPDATE password_resets SET used_at = now() WHERE id = $1`, { bind: [row.id], transaction })
         await models.User.update({ passwordHash: await bcrypt.hash(password, config.bcryptRounds) }, { where: { id: row.user_id }, transaction })
