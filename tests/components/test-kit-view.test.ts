@@ -37,7 +37,8 @@ async function page() {
 }
 
 describe('TestKitView', () => {
-  it("saves and explains the numbers, taking the temperature from the tank's latest reading", async () => {
+  // The whole page, form, verdicts and explanations: slow to mount on a busy two-core machine.
+  it("saves and explains the numbers, taking the temperature from the tank's latest reading", { timeout: 20_000 }, async () => {
     vi.mocked(createTestKitEntry).mockImplementation(async () => ({}) as never)
     const wrapper = await page()
     await wrapper.find('input[name="ammonia"]').setValue('2')
