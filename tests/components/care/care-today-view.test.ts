@@ -94,7 +94,7 @@ describe('CareTodayView', () => {
 
   it('lists tanks in quarantine and under an arrival watch, with the quarantine day and days remaining', async () => {
     vi.mocked(getCareToday).mockResolvedValue({
-      siteIds: [3], tasks: [],
+      siteIds: [3], onDuty: true, tasks: [],
       watch: [
         { tank: { id: 21, name: 'Quarantine Q1' }, site: { id: 3, name: 'Front shop', timeZone: 'Europe/Berlin' }, watchUntil: null,
           quarantine: { startedAt: '2026-02-24T09:00:00.000Z', endsAt: '2026-03-24T09:00:00.000Z', daysIn: 7, daysRemaining: 21, days: 28 } },
