@@ -32,12 +32,10 @@ const tasksOf = async (tankId: number) => (await api(s, `/tanks/${tankId}/care-t
 const taskDoneLogs = async (tankId: number) =>
   ((await api(s, `/tanks/${tankId}/care-log`, org.users.owner.token)).body as Array<{ kind: string; careTaskId: number | null }>).filter((e) => e.kind === 'task_done')
 
-/** Where an element sits in the page's viewport, after it has had a moment to scroll there. */
+/** Where an element sits in the page's viewport (boundingBox is relative to it). */
 async function inViewport(page: Page, selector: string) {
-  return page.evaluate((sel) => {
-    const box = document.querySelector(sel)!.getBoundingClientRect()
-    return { top: Math.round(box.top), bottom: Math.round(box.bottom), height: window.innerHeight }
-  }, selector)
+  const box = await page.locator(selector).boundingBox()
+  return { top: Math.round(box?.y ?? -1), height: page.viewportSize()?.height ?? 0 }
 }
 
 describe('Care today for someone on duty nowhere', () => {
@@ -116,7 +114,7 @@ describe('a test-kit entry on a phone', () => {
     }
     expect(box.top).toBeGreaterThanOrEqual(0)
     expect(box.top).toBeLessThan(box.height)
-    expect(await page.evaluate(() => document.activeElement?.getAttribute('data-test'))).toBe('kit-result')
+    expect(await page.evaluate("document.activeElement && document.activeElement.getAttribute('data-test')")).toBe('kit-result')
 
     const ammonia = page.locator('[data-test=verdict-ammonia]')
     expect(await ammonia.getAttribute('data-level')).toBe('act')
