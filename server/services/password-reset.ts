@@ -2,13 +2,14 @@ import { QueryTypes } from 'sequelize'
 import bcrypt from 'bcryptjs'
 import { hashSecret, newSecretToken } from '../auth/tokens'
 import type { AppContext } from '../context'
-import { AppError } from '../errors'
+import { badRequest } from '../errors'
 import { enqueueMail } from '../mail/outbox'
 import { passwordReset } from '../mail/templates'
 
 export const RESET_MINUTES = 60
 
-const resetRefused = (code: string, message: string, field: string) => new AppError(400, code, message, { token: field })
+/** Every refusal is a 400 on `token`; the field says which kind, so the page can offer a new link. */
+const resetRefused = (message: string, field: 'unknown' | 'already used' | 'expired') => badRequest(message, { token: field })
 
 /** Password resets by mail: a single-use link valid for an hour; the answer never says whether the e-mail exists. */
 export function passwordResetService(ctx: AppContext) {
@@ -35,10 +36,10 @@ export function passwordResetService(ctx: AppContext) {
           { bind: [hashSecret(token)], type: QueryTypes.SELECT, transaction },
         )
         // Whoever holds the token already knows it existed, so saying which of the three it is leaks nothing.
-        if (!row) throw resetRefused('reset_link_unknown', 'This reset link is not known; check that the whole link was copied, or ask for a new one', 'unknown')
-        if (row.used_at) throw resetRefused('reset_link_used', 'This reset link has already been used; ask for a new one', 'already used')
+        if (!row) throw resetRefused('This reset link is not known; check that the whole link was copied, or ask for a new one', 'unknown')
+        if (row.used_at) throw resetRefused('This reset link has already been used; ask for a new one', 'already used')
         if (row.expires_at.getTime() <= Date.now()) {
-          throw resetRefused('reset_link_expired', `This reset link has expired (they last ${RESET_MINUTES} minutes); ask for a new one`, 'expired')
+          throw resetRefused(`This reset link has expired (they last ${RESET_MINUTES} minutes); ask for a new one`, 'expired')
         }
         await sequelize.query(`UPDATE password_resets SET used_at = now() WHERE id = $1`, { bind: [row.id], transaction })
         await models.User.update({ passwordHash: await bcrypt.hash(password, config.bcryptRounds) }, { where: { id: row.user_id }, transaction })
