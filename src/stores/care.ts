@@ -50,17 +50,14 @@ export const useCareStore = defineStore('care', () => {
     }
   }
 
-  /** Done from the today list: the task leaves it, since it is no longer due. */
-  async function markTodayDone(taskId: number, notes = '') {
-    const result = await careApi.markCareTaskDone(taskId, notes ? { notes } : {})
-    todayTasks.value = todayTasks.value.filter((t) => t.id !== taskId)
-    return result
-  }
-
-  /** Several done at once: done and already-done tasks both leave the list, since neither is due. */
-  async function markManyTodayDone(taskIds: number[]) {
+  /**
+   * One or several done from the today list, each with the "last done" the list showed, so one a
+   * colleague ticked meanwhile comes back already done instead of logged twice. Done and
+   * already-done tasks both leave the list, since neither is due.
+   */
+  async function markTodayDone(taskIds: number[], notes = '') {
     const seen = todayTasks.value.filter((t) => taskIds.includes(t.id)).map((t) => ({ id: t.id, seenLastDoneAt: t.lastDoneAt }))
-    const results = await careApi.markCareTasksDone(seen)
+    const results = await careApi.markCareTasksDone(seen, notes)
     const gone = new Set(results.map((r) => r.id))
     todayTasks.value = todayTasks.value.filter((t) => !gone.has(t.id))
     return results
@@ -85,7 +82,7 @@ export const useCareStore = defineStore('care', () => {
 
   return {
     species, speciesByKey, ensureSpecies, todayTasks, todaySiteIds, todayOnDuty, todayWatch, todayLoading,
-    loadToday, markTodayDone, markManyTodayDone, snoozeToday, $reset,
+    loadToday, markTodayDone, snoozeToday, $reset,
   }
 })
 

@@ -4,7 +4,7 @@ import { beforeEach, describe, expect, it, vi } from 'vitest'
 vi.mock('@/api/care')
 vi.mock('@/api/sites', () => ({ listSites: vi.fn(), createSite: vi.fn(), updateSite: vi.fn(), archiveSite: vi.fn(), unarchiveSite: vi.fn() }))
 
-import { getCareToday, markCareTaskDone, markCareTasksDone } from '@/api/care'
+import { getCareToday, markCareTasksDone } from '@/api/care'
 import { listSites } from '@/api/sites'
 import CareTodayView from '@/views/CareTodayView.vue'
 import { mountView } from '../mount'
@@ -21,7 +21,6 @@ const tasks = [
 beforeEach(() => {
   vi.mocked(getCareToday).mockReset()
   vi.mocked(getCareToday).mockResolvedValue({ siteIds: [3], onDuty: true, tasks, watch: [] })
-  vi.mocked(markCareTaskDone).mockReset()
   vi.mocked(markCareTasksDone).mockReset()
   vi.mocked(listSites).mockResolvedValue([{ id: 3, name: 'Front shop', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 4 }])
 })
@@ -44,17 +43,24 @@ describe('CareTodayView', () => {
   })
 
   it('marks a task done with one tap and takes it off the list', async () => {
-    vi.mocked(markCareTaskDone).mockResolvedValue({
-      task: careTask(2),
-      logEntry: { id: 5, tankId: 102, kind: 'task_done', at: '2026-03-03T09:00:00.000Z', by: { id: 7, name: 'Pat' }, text: 'Task 2', values: {}, careTaskId: 2, waterChangeId: null },
-    })
+    vi.mocked(markCareTasksDone).mockResolvedValue([{ id: 2, outcome: 'done', doneAt: '2026-03-03T09:00:00.000Z', doneBy: { id: 7, name: 'Pat' }, task: careTask(2) }])
     const wrapper = await mountToday()
     await wrapper.find('[data-test="care-task-2"] [data-test="care-task-done"]').trigger('click')
     await flushPromises()
-    expect(markCareTaskDone).toHaveBeenCalledWith(2, {})
+    expect(markCareTasksDone).toHaveBeenCalledWith([{ id: 2, seenLastDoneAt: '2026-03-01T09:00:00.000Z' }], '')
     expect(wrapper.find('[data-test="care-task-2"]').exists()).toBe(false)
     expect(wrapper.findAll('[data-test="care-task-place"]')).toHaveLength(2)
     expect(wrapper.find('[data-test="care-today-notice"]').text()).toBe('Task 2 on Show tank 2: done.')
+  })
+
+  it('says who had ticked a task meanwhile instead of logging it twice', async () => {
+    // 08:12 UTC is 09:12 in Berlin in March (CET, UTC+1).
+    vi.mocked(markCareTasksDone).mockResolvedValue([{ id: 2, outcome: 'already_done', doneAt: '2026-03-03T08:12:00.000Z', doneBy: { id: 8, name: 'Sam' }, task: careTask(2) }])
+    const wrapper = await mountToday()
+    await wrapper.find('[data-test="care-task-2"] [data-test="care-task-done"]').trigger('click')
+    await flushPromises()
+    expect(wrapper.find('[data-test="care-task-2"]').exists()).toBe(false)
+    expect(wrapper.find('[data-test="care-today-notice"]').text()).toBe('Task 2 on Show tank 2 was already done by Sam at 3 Mar, 09:12 CET.')
   })
 
   it('shows one site when that was the last choice, and every site’s tasks when I am on duty nowhere', async () => {
@@ -87,7 +93,7 @@ describe('CareTodayView', () => {
     await flushPromises()
     // In list order, each with the "last done" the list showed.
     const seen = '2026-03-01T09:00:00.000Z'
-    expect(markCareTasksDone).toHaveBeenCalledWith([{ id: 3, seenLastDoneAt: seen }, { id: 1, seenLastDoneAt: seen }])
+    expect(markCareTasksDone).toHaveBeenCalledWith([{ id: 3, seenLastDoneAt: seen }, { id: 1, seenLastDoneAt: seen }], '')
     expect(wrapper.findAll('[data-test="care-task-place"]').map((p) => p.text())).toEqual(['Front shop · Show tank 2'])
     expect(wrapper.find('[data-test="care-today-notice"]').text()).toBe('1 task done. Task 3 on Breeding rack B was already done by Sam at 3 Mar, 09:12 CET.')
   })
