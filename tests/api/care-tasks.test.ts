@@ -133,6 +133,20 @@ describe('today lists and the site summary', () => {
     expect(badFields(await t.api().get('/api/v1/care/today').set(as(org, 'keeper')))).toEqual(['siteId'])
   })
 
+  it('keeps a viewer on duty nowhere to the sites they may see', async () => {
+    const [own, elsewhere] = [org.siteIds[1] as number, org.siteIds[0] as number]
+    const [ownTank, otherTank] = [await tankWithDefaults(own), await tankWithDefaults(elsewhere)]
+    expect((await t.api().patch(`/api/v1/users/${org.users.viewer.id}`).set(as(org, 'owner')).send({ siteIds: [own] })).status).toBe(200)
+    try {
+      const res = await t.api().get('/api/v1/care/today?mine=true').set(as(org, 'viewer'))
+      expect(res.body).toMatchObject({ siteIds: [own], onDuty: false })
+      const tankIds = new Set(res.body.tasks.map((x: { tankId: number }) => x.tankId))
+      expect([tankIds.has(ownTank), tankIds.has(otherTank)]).toEqual([true, false])
+    } finally {
+      await t.api().patch(`/api/v1/users/${org.users.viewer.id}`).set(as(org, 'owner')).send({ siteIds: [] })
+    }
+  })
+
   it('judges "today" on each site’s own calendar', async () => {
     // 23:30 UTC on 8 March 2026: 00:30 on 9 March in Berlin (CET), 19:30 on 8 March in New York (EDT).
     const now = new Date('2026-03-08T23:30:00Z')
