@@ -51,6 +51,7 @@ describe('a forgotten password, from the sign-in page to signing in with the new
     const page = await browser.newPage({ viewport: { width: 390, height: 844 } })
     await page.goto(`${s.baseUrl}/sign-in`, { timeout: FIRST_LOAD_MS })
     await page.getByLabel('E-mail').fill('nobody@nowhere.example', { timeout: FIRST_LOAD_MS })
+    await shot(page, 'sign-in-forgot-link-phone')
     await page.locator('[data-test=forgot-password]').click()
     await page.waitForURL(/\/forgot-password/)
     // The address typed on the sign-in page comes along.
