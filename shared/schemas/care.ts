@@ -49,6 +49,20 @@ export const careTaskDoneSchema = z.object({
 })
 export type CareTaskDone = z.infer<typeof careTaskDoneSchema>
 
+/**
+ * Several tasks ticked off at once. Each names the "last done" its ticker saw, so a task that
+ * someone else ticked in the meantime is reported as already done instead of logged twice.
+ */
+export const careTasksDoneSchema = z.object({
+  tasks: z
+    .array(z.object({ id: z.number().int().positive(), seenLastDoneAt: isoInstant.nullable() }))
+    .min(1, 'choose at least one task')
+    .max(100, 'at most 100 tasks at once')
+    .refine((tasks) => new Set(tasks.map((t) => t.id)).size === tasks.length, 'each task once'),
+  notes: z.string().trim().max(2000).default(''),
+})
+export type CareTasksDone = z.infer<typeof careTasksDoneSchema>
+
 export const careTaskSnoozeSchema = z.object({
   until: isoInstant,
   reason: z.string().trim().min(1, 'say why').max(300),

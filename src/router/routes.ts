@@ -23,6 +23,19 @@ export const routes: RouteRecordRaw[] = [
     meta: { public: true, title: 'Sign in' },
   },
   {
+    path: '/forgot-password',
+    name: 'forgot-password',
+    component: () => import('@/views/ForgotPasswordView.vue'),
+    meta: { public: true, title: 'Forgot password' },
+  },
+  {
+    // The link in a password reset e-mail.
+    path: '/reset-password',
+    name: 'reset-password',
+    component: () => import('@/views/ResetPasswordView.vue'),
+    meta: { public: true, title: 'Choose a new password' },
+  },
+  {
     path: '/accept-invite',
     name: 'accept-invite',
     component: () => import('@/views/AcceptInviteView.vue'),

@@ -79,7 +79,7 @@ const CHECKED_IN_CARE_ROLES = [
   'GET /tanks/:id/care-tasks', 'POST /tanks/:id/care-tasks', 'GET /tanks/:id/care-log', 'POST /tanks/:id/care-log',
   'GET /tanks/:id/water-changes', 'POST /tanks/:id/water-changes/plan', 'POST /tanks/:id/water-changes',
   'GET /tanks/:id/livestock', 'POST /tanks/:id/livestock', 'PATCH /tanks/:id/livestock/:entryId', 'GET /tanks/:id/cycling',
-  'PATCH /care-tasks/:id', 'POST /care-tasks/:id/done', 'POST /care-tasks/:id/snooze', 'POST /water-changes/:id/finish', 'POST /water-changes/:id/cancel',
+  'PATCH /care-tasks/:id', 'POST /care-tasks/done', 'POST /care-tasks/:id/done', 'POST /care-tasks/:id/snooze', 'POST /water-changes/:id/finish', 'POST /water-changes/:id/cancel',
   'GET /care/today', 'GET /care/species', 'GET /sites/:id/care-summary',
 ]
 

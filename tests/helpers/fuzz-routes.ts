@@ -74,6 +74,7 @@ export const careRoutes = (w: FuzzWorld): FuzzRoute[] => [
     base: { kind: 'water_change', title: 'Weekly change', recurrence: { kind: 'weekdays', weekdays: [0, 3] }, defaultValues: { percent: 25, note: 'siphon', gravel: true }, startsOn: '2026-12-07', active: true },
   },
   { method: 'patch', path: `/care-tasks/${w.careTaskId}`, token: w.owner, base: { title: 'Glass', recurrence: { kind: 'interval', everyDays: 5 }, defaultValues: {}, active: true } },
+  { method: 'post', path: '/care-tasks/done', token: w.keeper, base: { tasks: [{ id: w.careTaskId, seenLastDoneAt: null }], notes: 'done' } },
   { method: 'post', path: `/care-tasks/${w.careTaskId}/done`, token: w.keeper, base: { notes: 'done', values: { sponge: true, minutes: 10 }, at: ago(10) } },
   { method: 'post', path: `/care-tasks/${w.careTaskId}/snooze`, token: w.keeper, base: { until: inHours(24), reason: 'Away at a show' } },
   { method: 'post', path: `/tanks/${w.careTankId}/care-log`, token: w.keeper, base: { kind: 'dosing', at: ago(5), text: 'Fertiliser 5 mL', values: { ml: 5 } } },
