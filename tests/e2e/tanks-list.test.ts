@@ -182,7 +182,11 @@ describe('the tanks list, for a keeper', () => {
     await page.getByRole('link', { name: 'Devices' }).click()
     await page.waitForURL('**#devices')
     expect(await page.title()).toBe('Alarm tank · Tankwarden')
+    await page.locator('[data-test=log-test]').click()
+    await page.waitForURL('**/test-kit')
+    await expect.poll(() => page.title()).toBe('Log test · Alarm tank · Tankwarden')
 
+    await page.goBack()
     await page.goBack()
     await page.goBack()
     await row(page, 'Alarm tank').locator('[data-test=open-incidents] a').click()
