@@ -5,7 +5,7 @@
 // that the app, the simulator and PostgreSQL are gone and their ports free.
 // Node built-ins only at the top: playwright-core is imported once `npm start` has installed it.
 import { spawn } from 'node:child_process'
-import { createWriteStream, existsSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs'
+import { chmodSync, createWriteStream, existsSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs'
 import { createServer } from 'node:net'
 import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
@@ -115,6 +115,8 @@ async function checkInBrowser(url, owner, password, shotsDir) {
 }
 
 const dataDir = mkdtempSync(join(root, '.data-smoke-'))
+// As root, PostgreSQL runs as the `postgres` user, who must reach its folder inside this one.
+chmodSync(dataDir, 0o755)
 const logFile = join(dataDir, 'start.log')
 const sink = createWriteStream(logFile)
 const [port, mqttPort, smtpPort] = [await freePort(), await freePort(), await freePort()]
@@ -152,8 +154,9 @@ try {
 } catch {
   /* already gone */
 }
-const stopped = await Promise.race([exited, new Promise((resolve) => setTimeout(() => resolve(null), STOP_TIMEOUT_MS))])
-const leftovers = processesMentioning([dataDir, join(root, '.build', 'server.mjs'), join(root, 'simulator', 'index.ts')])
+const stopped = await Promise.race([exited, new Promise((resolve) => setTimeout(() => resolve(null), STOP_TIMEOUT_MS).unref())])
+const pgData = out.text().match(/PostgreSQL is up on \S+ \(data in (\S+)\)/)?.[1]
+const leftovers = processesMentioning([dataDir, pgData, join(root, '.build', 'server.mjs'), join(root, 'simulator', 'index.ts')].filter(Boolean))
 const busyPorts = []
 for (const [name, p] of [['HTTP', port], ['MQTT', mqttPort], ['fake SMTP', smtpPort], ['PostgreSQL', pgPort]]) {
   if (p && !(await portIsFree(p))) busyPorts.push(`${name} ${p}`)
