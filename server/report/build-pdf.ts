@@ -37,7 +37,7 @@ export function buildReportLines(report: BuildReport) {
     figures.conditioner ? `Conditioner${plan.water.conditioner ? ` (${plan.water.conditioner})` : ''}: ${n(figures.conditioner.amount)} ${figures.conditioner.unit} for ${n(figures.conditioner.forLitres)} L, from the label rate` : 'Conditioner: no label rate entered',
     `Filled weight about ${n(figures.weight.totalKg, 0)} kg (glass ${n(figures.weight.glassKg)}, water ${n(figures.weight.waterKg)}, substrate ${n(figures.weight.substrateKg)}, hardscape ${n(figures.weight.hardscapeKg)}), ${n(figures.weight.loadKgPerM2, 0)} kg/m² over the tank's footprint`,
   ]
-  const steps = build.steps.map((s) => `Day ${s.day}${s.untilDay ? `–${s.untilDay}` : ''} · ${s.doneAt ? `done ${day(s.doneAt, zone)}` : `due ${s.dueOn}`} · ${s.title}`)
+  const steps = build.steps.map((s) => `Day ${s.day}${s.untilDay && s.untilDay > s.day ? `–${s.untilDay}` : ''} · ${s.doneAt ? `done ${day(s.doneAt, zone)}` : `due ${s.dueOn}`} · ${s.title}`)
   const tests = report.tests.map((t) => `${day(t.at, zone)} · ${Object.entries(t.values).map(([m, v]) => (m === 'temperature' ? `${n(v)} °C` : m === 'ph' ? `pH ${n(v, 2)}` : `${METRIC_WORDS[m] ?? m} ${n(v, 2)} mg/L`)).join(', ')}`)
   const livestock = report.livestock.map((l) => `${day(l.addedAt, zone)} · ${l.count} × ${l.name}${l.removed ? ' (removed since)' : ''}`)
   const photos = report.photos.map((p) => `${day(p.takenAt, zone)} · ${p.caption || 'photo'}`)
