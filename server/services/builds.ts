@@ -187,6 +187,9 @@ export function buildsService(ctx: AppContext) {
         stages: plan.stocking.map((s) => ({ label: s.label || s.groups.map((g) => `${g.count} × ${g.speciesKey.replace(/_/g, ' ')}`).join(', '), settleDays: s.settleDays })),
       }))
       await sequelize.transaction(async (transaction) => {
+        // Two fills at once: the second waits here, then finds the first one's date.
+        const locked = await models.TankBuild.findOne({ where: { id: build.id }, lock: transaction.LOCK.UPDATE, transaction })
+        if (locked?.filledOn) throw conflict('build_started', `This build was filled on ${locked.filledOn}; its timeline is already running`)
         for (const step of timeline.steps) {
           const testing = step.key === 'ph' || step.key === 'cycling'
           const task = await models.CareTask.create({
@@ -226,11 +229,11 @@ export function buildsService(ctx: AppContext) {
           const until = new Date(previous.doneAt.getTime() + settleDays * DAY_MS)
           throw conflict('settling', `Stage ${index - 1} is settling until ${formatLocalDate(localDateAt(zoneOf(tank), until.getTime()))} (${settleDays} days)`)
         }
-        for (const group of build.plan.stocking[index - 1]?.groups ?? []) {
-          added.push(await livestockService(ctx).add(actor, tank.id, { speciesKey: group.speciesKey, count: group.count, addedAt: at.toISOString(), source: 'Build stocking', notes: '', acclimation: input.acclimation }))
-        }
       }
       await sequelize.transaction(async (transaction) => {
+        // Two ticks at once: the second waits here, then finds the step done.
+        const locked = await models.BuildStep.findOne({ where: { id: step.id }, lock: transaction.LOCK.UPDATE, transaction })
+        if (locked?.doneAt) throw conflict('step_done', 'This step is already ticked')
         await step.update({ doneAt: at, doneBy: actor.userId, notes: input.notes }, { transaction })
         if (step.careTaskId) {
           await models.CareTask.update({ lastDoneAt: at, lastDoneBy: actor.userId, active: false }, { where: { id: step.careTaskId }, transaction })
@@ -243,6 +246,12 @@ export function buildsService(ctx: AppContext) {
         if (key === 'cycling') await setStage(tank, 'established', transaction)
         if (steps.every((s) => s.id === step.id || s.doneAt)) await build.update({ finishedAt: at }, { transaction })
       })
+      // After the tick has committed, so two ticks at once can never add the animals twice.
+      if (key.startsWith('stock_')) {
+        for (const group of build.plan.stocking[Number(key.slice(6)) - 1]?.groups ?? []) {
+          added.push(await livestockService(ctx).add(actor, tank.id, { speciesKey: group.speciesKey, count: group.count, addedAt: at.toISOString(), source: 'Build stocking', notes: '', acclimation: input.acclimation }))
+        }
+      }
       return { build: await view(tank, build, now), livestock: added }
     },
 
