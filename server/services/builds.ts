@@ -1,7 +1,7 @@
 import { Op, type Transaction } from 'sequelize'
-import { buildFigures, buildDay, buildTimeline, zeroOnConsecutiveTests, type BuildFigures } from '@shared/build'
+import { buildFigures, buildDay, buildTimeline, redateStocking, zeroOnConsecutiveTests, type BuildFigures, type TimelineEvent } from '@shared/build'
 import type { TankShape } from '@shared/chemistry/volume'
-import { formatLocalDate, localDateAt } from '@shared/roster/zoned-time'
+import { addDays, formatLocalDate, localDateAt, parseLocalDate } from '@shared/roster/zoned-time'
 import type { BuildPlan, BuildStartInput, BuildStepDoneInput, PublicBuild, PublicBuildStep } from '@shared/schemas/build'
 import type { UserActor } from '../auth/actor'
 import type { AppContext } from '../context'
@@ -142,6 +142,20 @@ export function buildsService(ctx: AppContext) {
     }
   }
 
+  /** Moves the open stocking steps (and their care tasks) to the days what happened allows. */
+  async function redate(build: TankBuild, steps: BuildStep[], event: TimelineEvent, transaction: Transaction) {
+    const stock = steps.filter((s) => s.key.startsWith('stock_')).sort((a, b) => Number(a.key.slice(6)) - Number(b.key.slice(6)))
+    const days = redateStocking(stock.map((s) => s.day), build.plan.stocking.map((s) => s.settleDays), event)
+    const filled = parseLocalDate(build.filledOn as string)
+    for (const [i, step] of stock.entries()) {
+      const day = days[i] as number
+      if (step.doneAt || day === step.day) continue
+      const dueOn = formatLocalDate(addDays(filled, day - 1))
+      await step.update({ day, dueOn }, { transaction })
+      if (step.careTaskId) await models.CareTask.update({ startsOn: dueOn }, { where: { id: step.careTaskId }, transaction })
+    }
+  }
+
   async function setStage(tank: Tank, stage: 'cycling' | 'established', transaction: Transaction) {
     if (tank.stage === stage) return
     await tank.update({ stage }, { transaction })
@@ -215,6 +229,7 @@ export function buildsService(ctx: AppContext) {
       if (!step) throw notFound('No such step in this build')
       if (step.doneAt) throw conflict('step_done', 'This step is already ticked')
       const at = instantNotAhead(input.at, 'at', now)
+      const tickDay = buildDay(build.filledOn as string, formatLocalDate(localDateAt(zoneOf(tank), at.getTime())))
       if (key === 'cycling' && !(await cycledSince(tank, build))) {
         throw conflict('not_cycled', 'Ammonia and nitrite have not yet read zero on two tests in a row: keep testing')
       }
@@ -240,10 +255,12 @@ export function buildsService(ctx: AppContext) {
         }
         await writeCareLog(ctx, {
           organizationId: tank.organizationId, tankId: tank.id, kind: 'task_done', at, userId: actor.userId,
-          text: `Build day ${buildDay(build.filledOn as string, formatLocalDate(localDateAt(zoneOf(tank), at.getTime())))}: ${step.title}${input.notes ? ` — ${input.notes}` : ''}`,
+          text: `Build day ${tickDay}: ${step.title}${input.notes ? ` — ${input.notes}` : ''}`,
           values: { buildStep: key }, careTaskId: step.careTaskId ?? null,
         }, transaction)
         if (key === 'cycling') await setStage(tank, 'established', transaction)
+        const event = key === 'cycling' ? { kind: 'cycled' as const, day: tickDay } : key.startsWith('stock_') ? { kind: 'stocked' as const, stage: Number(key.slice(6)), day: tickDay } : null
+        if (event) await redate(build, steps, event, transaction)
         if (steps.every((s) => s.id === step.id || s.doneAt)) await build.update({ finishedAt: at }, { transaction })
       })
       // After the tick has committed, so two ticks at once can never add the animals twice.

@@ -107,3 +107,23 @@ export function zeroOnConsecutiveTests(tests: readonly NitrogenTest[], count = C
   const last = both.slice(-count)
   return last.length === count && last.every((t) => (t.ammonia as number) <= AMMONIA_ZERO_MG_L && (t.nitrite as number) <= NITRITE_ZERO_MG_L)
 }
+
+export type TimelineEvent = { kind: 'cycled'; day: number } | { kind: 'stocked'; stage: number; day: number }
+
+/**
+ * The stocking stages' build days re-dated from what happened. Cycling that ends on `day` puts
+ * the first stage no earlier than the next day, and every later stage moves with it. A stage
+ * stocked on `day` dates each later stage from it, its settle days apart (`settleDays[i]` is
+ * the wait after stage i + 1).
+ */
+export function redateStocking(plannedDays: readonly number[], settleDays: readonly number[], event: TimelineEvent): number[] {
+  const days = [...plannedDays]
+  if (!days.length) return days
+  if (event.kind === 'cycled') {
+    const shift = Math.max(0, event.day + 1 - (days[0] as number))
+    return days.map((d) => d + shift)
+  }
+  days[event.stage - 1] = event.day
+  for (let i = event.stage; i < days.length; i++) days[i] = (days[i - 1] as number) + (settleDays[i - 1] ?? DEFAULT_SETTLE_DAYS)
+  return days
+}

@@ -138,6 +138,8 @@ describe('build timeline', () => {
     expect(res.body.livestock).toHaveLength(1)
     expect(res.body.livestock[0].entry).toMatchObject({ speciesKey: 'harlequin_rasbora', count: 6 })
     expect(res.body.livestock[0].acclimation.steps.length).toBeGreaterThan(1)
+    // Stage 1 went in on build day 9, so stage 2 is re-dated to day 9 + 14 settle days = 23.
+    expect(res.body.build.steps.find((s: { key: string }) => s.key === 'stock_2')).toMatchObject({ day: 23, dueOn: localDaysAgo(ZONE, -14) })
     const second = await tick(tankId, 'stock_2')
     expect(second.status).toBe(409)
     expect(second.body.error.code).toBe('settling')

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { buildDay, buildFigures, buildTimeline, checkStockingPlan, livestockBands, phSteps, zeroOnConsecutiveTests } from '@shared/build'
+import { buildDay, buildFigures, buildTimeline, checkStockingPlan, livestockBands, phSteps, redateStocking, zeroOnConsecutiveTests } from '@shared/build'
 import { expectWithin } from '../chemistry/helpers'
 
 describe('pH brought gradually (common practice: at most 0.2 a day)', () => {
@@ -127,5 +127,20 @@ describe('all figures of one plan', () => {
     expectWithin(figures.conditioner!.amount, 23.7385, 1e-4)
     expect(figures.cautions.weight.join(' ')).toMatch(/structural engineer/)
     expect(figures.cautions.electrical.join(' ')).toMatch(/RCD\/GFCI/)
+  })
+})
+
+describe('stocking re-dated from what happened', () => {
+  it('waits for cycling that ends late, keeps the plan when it ends early', () => {
+    // Planned stages on days 28 and 42; cycled on day 34 → first stage day 35, second 49.
+    expect(redateStocking([28, 42], [14], { kind: 'cycled', day: 34 })).toEqual([35, 49])
+    expect(redateStocking([28, 42], [14], { kind: 'cycled', day: 20 })).toEqual([28, 42])
+  })
+
+  it('dates later stages from the day a stage actually went in', () => {
+    // Stage 1 in on day 30; stage 2 settles 14 days (common practice), stage 3 after 10 more.
+    expect(redateStocking([28, 42, 52], [14, 10], { kind: 'stocked', stage: 1, day: 30 })).toEqual([30, 44, 54])
+    expect(redateStocking([28, 42, 52], [14, 10], { kind: 'stocked', stage: 3, day: 55 })).toEqual([28, 42, 55])
+    expect(redateStocking([], [], { kind: 'cycled', day: 9 })).toEqual([])
   })
 })
