@@ -1,5 +1,6 @@
 import { Op, type Transaction } from 'sequelize'
 import { buildFigures, buildDay, buildTimeline, redateStocking, zeroOnConsecutiveTests, type BuildFigures, type TimelineEvent } from '@shared/build'
+import { defaultCareTasksFor } from '@shared/care/defaults'
 import type { TankShape } from '@shared/chemistry/volume'
 import { addDays, formatLocalDate, localDateAt, parseLocalDate } from '@shared/roster/zoned-time'
 import type { BuildPlan, BuildStartInput, BuildStepDoneInput, PublicBuild, PublicBuildStep } from '@shared/schemas/build'
@@ -204,6 +205,12 @@ export function buildsService(ctx: AppContext) {
         // Two fills at once: the second waits here, then finds the first one's date.
         const locked = await models.TankBuild.findOne({ where: { id: build.id }, lock: transaction.LOCK.UPDATE, transaction })
         if (locked?.filledOn) throw conflict('build_started', `This build was filled on ${locked.filledOn}; its timeline is already running`)
+        // A tank set up empty has no routine yet: it gets the usual one, starting with the first stocking.
+        if (!(await models.CareTask.count({ where: { tankId: tank.id }, transaction }))) {
+          const startsOn = timeline.steps.find((st) => st.day === timeline.aboutDays)?.dueOn ?? input.filledOn
+          const routine = defaultCareTasksFor({ kind: tank.kind, stage: 'established' })
+          await models.CareTask.bulkCreate(routine.map((d) => ({ ...d, organizationId: tank.organizationId, tankId: tank.id, startsOn })), { transaction })
+        }
         for (const step of timeline.steps) {
           const testing = step.key === 'ph' || step.key === 'cycling'
           const task = await models.CareTask.create({

@@ -91,6 +91,10 @@ describe('build timeline', () => {
     expect(build).toHaveLength(7)
     expect(build.find((task) => task.title.includes('Cycling tests'))).toMatchObject({ kind: 'test_kit_check', active: true })
     expect(build[0]!.startsOn).toBe(filledOn)
+    // The tank was set up empty, so the usual routine starts with the first stocking (day 28).
+    const routine = tasks.filter((task) => !task.title.startsWith('Build: '))
+    expect(routine.map((task) => task.kind)).toEqual(['water_change', 'filter_rinse', 'media_replace', 'glass_clean', 'test_kit_check'])
+    expect(new Set(routine.map((task) => task.startsOn))).toEqual(new Set([localDaysAgo(ZONE, 8 - 27)]))
     expect((await t.api().get(`/api/v1/tanks/${tankId}`).set(as(org, 'viewer'))).body.stage).toBe('cycling')
     const again = await t.api().post(`/api/v1/tanks/${tankId}/build/start`).set(as(org, 'keeper')).send({ filledOn })
     expect(again.status).toBe(409)

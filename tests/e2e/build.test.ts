@@ -99,6 +99,16 @@ describe('building a tank', () => {
     const timeline = page.locator('[data-test=build-timeline]')
     await timeline.locator('[data-test=build-day]').waitFor()
     expect(await timeline.locator('[data-test=build-day]').innerText()).toBe('Build day 11 of about 28')
+    // The wall tile says where the build stands.
+    const wall = await browser.newPage({ viewport: { width: 1280, height: 800 } })
+    await signIn(wall, s.baseUrl, org.users.keeper.email)
+    await wall.goto(`${s.baseUrl}/wall/${org.siteIds[0]}`)
+    const buildLine = wall.getByRole('article', { name: /^Lounge 60:/ }).locator('[data-test=tile-build-day]')
+    await buildLine.waitFor({ timeout: FIRST_LOAD_MS })
+    expect((await buildLine.innerText()).trim()).toBe('Build day 11 of about 28')
+    await shot(wall, 'build-wall-tile')
+    await wall.close()
+
     for (const key of ['conditioner', 'heater_check', 'ph', 'plants']) {
       await timeline.locator(`[data-test=tick-${key}]`).click()
       await timeline.locator(`[data-test=step-${key}] .mdi-checkbox-marked-circle`).waitFor()
