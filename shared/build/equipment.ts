@@ -21,7 +21,7 @@ export function suggestHeaterWatts(waterLitres: number, setPointC: number, roomC
   const size = HEATER_SIZES_W.find((w) => w >= ruleWatts)
   // Past the largest single heater, two or more share the load: round to 50 W steps.
   const watts = size ?? Math.ceil(ruleWatts / 50) * 50
-  return { ruleWatts, watts, rule: 'About 1 W per litre for up to 5 °C above the room, more for a larger lift (common practice)' }
+  return { ruleWatts, watts, rule: 'about 1 W per litre for up to 5 °C above the room, more for a larger lift (common practice)' }
 }
 
 /**
