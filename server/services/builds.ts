@@ -1,6 +1,7 @@
 import { Op, type Transaction } from 'sequelize'
 import { buildFigures, buildDay, buildTimeline, redateStocking, zeroOnConsecutiveTests, type BuildFigures, type TimelineEvent } from '@shared/build'
 import { defaultCareTasksFor } from '@shared/care/defaults'
+import { speciesByKey } from '@shared/care/species'
 import type { TankShape } from '@shared/chemistry/volume'
 import { addDays, formatLocalDate, localDateAt, parseLocalDate } from '@shared/roster/zoned-time'
 import type { BuildPlan, BuildStartInput, BuildStepDoneInput, PublicBuild, PublicBuildStep } from '@shared/schemas/build'
@@ -199,7 +200,7 @@ export function buildsService(ctx: AppContext) {
         filledOn: input.filledOn, setPointC: plan.heater.setPointC,
         ph: { start: plan.water.startPh, min: tank.targets.ph?.min ?? 6.5, max: tank.targets.ph?.max ?? 7.5, maxChangePerDay: plan.water.maxPhChangePerDay },
         plants: plan.plants,
-        stages: plan.stocking.map((s) => ({ label: s.label || s.groups.map((g) => `${g.count} × ${g.speciesKey.replace(/_/g, ' ')}`).join(', '), settleDays: s.settleDays })),
+        stages: plan.stocking.map((s) => ({ label: s.label || s.groups.map((g) => `${g.count} × ${speciesByKey(g.speciesKey)?.commonName ?? g.speciesKey}`).join(', '), settleDays: s.settleDays })),
       }))
       await sequelize.transaction(async (transaction) => {
         // Two fills at once: the second waits here, then finds the first one's date.

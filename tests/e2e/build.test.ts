@@ -143,7 +143,7 @@ describe('building a tank', () => {
     await page.setViewportSize({ width: 390, height: 844 })
     await page.locator('[data-test=build-figures]').scrollIntoViewIfNeeded()
     await shot(page, 'build-figures-phone')
-    await page.evaluate(() => window.scrollTo(0, 0))
+    await page.getByRole('heading', { name: 'Build: Lounge 60' }).scrollIntoViewIfNeeded()
     await shot(page, 'build-top-phone')
     await page.setViewportSize({ width: 1280, height: 800 })
     await page.emulateMedia({ media: 'print' })
