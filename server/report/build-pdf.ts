@@ -1,5 +1,7 @@
 // The build report as a PDF, in the client report's fonts and colours (pdf.ts).
 import { substrateMaterial } from '@shared/build/materials'
+import { buildDay } from '@shared/build/timeline'
+import { formatLocalDate, localDateAt } from '@shared/roster/zoned-time'
 import { READINGS_ARE_AIDS } from '../mail/templates/safety'
 import type { BuildReport } from '../services/build-report'
 import { COLOURS, openDocument, section, write, type Doc } from './pdf'
@@ -40,7 +42,9 @@ export function buildReportLines(report: BuildReport) {
   const steps = build.steps.map((s) => `Day ${s.day}${s.untilDay && s.untilDay > s.day ? `–${s.untilDay}` : ''} · ${s.doneAt ? `done ${day(s.doneAt, zone)}` : `due ${s.dueOn}`} · ${s.title}`)
   const tests = report.tests.map((t) => `${day(t.at, zone)} · ${Object.entries(t.values).map(([m, v]) => (m === 'temperature' ? `${n(v)} °C` : m === 'ph' ? `pH ${n(v, 2)}` : `${METRIC_WORDS[m] ?? m} ${n(v, 2)} mg/L`)).join(', ')}`)
   const livestock = report.livestock.map((l) => `${day(l.addedAt, zone)} · ${l.count} × ${l.name}${l.removed ? ' (removed since)' : ''}`)
-  const photos = report.photos.map((p) => `${day(p.takenAt, zone)} · ${p.caption || 'photo'}`)
+  // Each photo under the build day it was taken on, so the pictures read as the steps went.
+  const buildDayOf = (iso: string) => (build.filledOn ? buildDay(build.filledOn, formatLocalDate(localDateAt(zone, Date.parse(iso)))) : null)
+  const photos = report.photos.map((p) => `${buildDayOf(p.takenAt) !== null ? `Day ${buildDayOf(p.takenAt)} · ` : ''}${day(p.takenAt, zone)} · ${p.caption || 'photo'}`)
   const care = report.carePlan.map((c) => `${c.title}: ${c.every}`)
   const cautions = [...figures.cautions.weight, ...figures.cautions.electrical, figures.cautions.label, READINGS_ARE_AIDS]
   // The report font's Latin subset has no →; › reads the same way.

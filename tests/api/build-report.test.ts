@@ -26,6 +26,11 @@ beforeAll(async () => {
     values: [{ metric: 'ammonia', value: 1.5, unit: 'mg/L' }, { metric: 'nitrite', value: 0.5, unit: 'mg/L' }, { metric: 'ph', value: 7.2, unit: 'pH' }],
   })
   await t.api().post(`/api/v1/tanks/${tankId}/build/steps/conditioner/done`).set(as(org, 'keeper')).send({})
+  // A photo row (the report lists photos, it does not embed them, so no image bytes are needed): build day 2.
+  await t.ctx.models.Photo.create({
+    organizationId: org.organizationId, tankId, careLogEntryId: null, caption: 'Hardscape placed', takenAt: new Date(Date.now() - 7 * DAY), uploadedBy: org.users.keeper.id,
+    contentType: 'image/jpeg', displayKey: 'k/d.jpg', displayWidth: 1600, displayHeight: 1200, displayBytes: 1000, thumbnailKey: 'k/t.jpg', thumbnailWidth: 320, thumbnailHeight: 240, originalFormat: 'jpeg',
+  })
 })
 afterAll(() => t.close())
 
@@ -51,6 +56,7 @@ describe('build report', () => {
     expect(text).toContain('ammonia 1.50 mg/L, nitrite 0.50 mg/L, pH 7.20')
     expect(text).toMatch(/Day 1 · done \d+ \w+ \d{4} · Fill the tank and add conditioner/)
     expect(text).toContain('Partial water change: every 7 days')
+    expect(text).toMatch(/Photos Day 2 · \d+ \w+ \d{4} · Hardscape placed/)
     expect(text).toContain('ask a structural engineer when unsure')
     expect(text).toContain('RCD/GFCI')
     expect(text).toContain('follow the product label')
