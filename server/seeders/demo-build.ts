@@ -90,5 +90,9 @@ export async function seedDemoBuild(ctx: AppContext, options: { actor: UserActor
   for (const [key, day, notes] of ticks) {
     await builds.tick(actor, tank.id, key, { at: onDay(day, 1).toISOString(), notes }, now)
   }
+  // The daily cycling test was ticked off in the care list with each reading: due again tomorrow.
+  const cycling = await ctx.models.BuildStep.findOne({ where: { tankId: tank.id, key: 'cycling' } })
+  const lastTest = onDay(READINGS.filter((r) => onDay(r.day).getTime() <= now.getTime()).at(-1)?.day ?? 1)
+  if (cycling?.careTaskId) await ctx.models.CareTask.update({ lastDoneAt: lastTest, lastDoneBy: actor.userId }, { where: { id: cycling.careTaskId } })
   return tank.id
 }

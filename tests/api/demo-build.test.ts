@@ -27,6 +27,8 @@ describe('the demo tank mid-build', () => {
     const cycling = (await t.api().get(`/api/v1/tanks/${tankId}/cycling`).set(as(org, 'viewer'))).body
     expect(cycling.phase).toBe('nitrite')
     expect(cycling.ammoniaPeak).toMatchObject({ value: 1.5, passed: true })
+    const cyclingTask = (await t.api().get(`/api/v1/tanks/${tankId}/care-tasks`).set(as(org, 'viewer'))).body.find((x: { title: string }) => x.title.includes('Cycling tests'))
+    expect(cyclingTask.due.status).not.toBe('overdue')
     const wall = (await t.api().get(`/api/v1/sites/${siteId}/wall`).set(as(org, 'viewer'))).body
     expect(wall.tanks.find((x: { id: number }) => x.id === tankId).buildDay).toEqual({ day: 9, aboutDays: 28 })
   })
