@@ -137,6 +137,17 @@ describe('building a tank', () => {
     await timeline.locator('[data-test=step-stock_1] .mdi-checkbox-marked-circle').waitFor()
     await shot(page, 'build-timeline-desktop')
 
+    // The only stage is in, so the build is finished: the next tank of the same size starts from its plan.
+    const next = await api(s, '/tanks', org.users.owner.token, {
+      method: 'POST', body: JSON.stringify(sampleTank(org.siteIds[0] as number, { name: 'Lounge 60 (second)', kind: 'planted', stage: 'empty', dimensions: TANK_60, heater: null })),
+    })
+    await page.goto(`${s.baseUrl}/tanks/${next.body.id}/build`)
+    await page.locator('[data-test=use-template]').click({ timeout: FIRST_LOAD_MS })
+    await page.locator('[data-test=build-figures] [data-test=figure-water]', { hasText: '47.5 L' }).waitFor()
+    expect(await page.locator('[data-test=layer-row]').count()).toBe(3)
+    await page.goBack()
+    await page.locator('[data-test=build-timeline]').waitFor({ timeout: FIRST_LOAD_MS })
+
     const livestock = (await api(s, `/tanks/${tankId}/livestock`, org.users.keeper.token)).body
     expect(livestock.entries.map((e: { speciesKey: string; count: number }) => [e.speciesKey, e.count])).toEqual([['harlequin_rasbora', 6]])
 

@@ -4,8 +4,9 @@ import type { PublicTank } from '@shared/schemas/tanks'
 
 export type BuildDraft = BuildPlan
 
+/** A fresh copy to edit; a JSON round trip, since the plan may be a reactive proxy (which structuredClone refuses). */
 export function draftFrom(tank: PublicTank, plan: BuildPlan | null): BuildDraft {
-  return structuredClone(plan ?? buildPlanSchema.parse(defaultBuildPlan(tank)))
+  return JSON.parse(JSON.stringify(plan ?? buildPlanSchema.parse(defaultBuildPlan(tank)))) as BuildDraft
 }
 
 /** v-text-field gives '' for an empty number field; the plan wants null there. */
