@@ -12,6 +12,7 @@ import type { BuildStep, Tank, TankBuild } from '../models'
 import { groupTests, livestockService } from './care-livestock'
 import { instantNotAhead, writeCareLog } from './care-log'
 import { nitrogenReadings } from './care-readings'
+import { siteScope } from './scope'
 import { tanksService } from './tanks'
 
 const DAY_MS = 86_400_000
@@ -283,15 +284,14 @@ export function buildsService(ctx: AppContext) {
     /** Finished builds of tanks of the same shape and size, newest first: a start for this tank's plan. */
     async templates(actor: UserActor, tankId: number) {
       const tank = await tanks.find(actor, tankId)
-      const same = JSON.stringify(shapeOf(tank))
+      if (!tank.dimensions) return []
+      const same = JSON.stringify(tank.dimensions)
       const builds = await models.TankBuild.findAll({ where: { organizationId: actor.organizationId, finishedAt: { [Op.ne]: null }, tankId: { [Op.ne]: tank.id } }, order: [['finishedAt', 'DESC']], limit: 50 })
-      const result = []
-      for (const b of builds) {
-        const other = await models.Tank.findOne({ where: { id: b.tankId } })
-        const visible = other && (!actor.siteIds || actor.siteIds.includes(other.siteId))
-        if (visible && JSON.stringify(other.dimensions) === same) result.push({ tankId: other.id, tankName: other.name, finishedAt: b.finishedAt!.toISOString(), plan: b.plan })
-      }
-      return result
+      const others = new Map((await models.Tank.findAll({ where: { id: builds.map((b) => b.tankId), ...siteScope(actor, 'siteId') } })).map((o) => [o.id, o]))
+      return builds.flatMap((b) => {
+        const other = others.get(b.tankId)
+        return other && JSON.stringify(other.dimensions) === same ? [{ tankId: other.id, tankName: other.name, finishedAt: b.finishedAt!.toISOString(), plan: b.plan }] : []
+      })
     },
   }
 }

@@ -177,6 +177,10 @@ describe('bad input and races', () => {
     const noSize = await put(bare, PLAN_60)
     expect(noSize.status).toBe(400)
     expect(Object.keys(noSize.body.error.fields)).toEqual(['dimensions'])
+    // The page still opens for such a tank: no templates to offer, not an error.
+    const none = await t.api().get(`/api/v1/tanks/${bare}/build/templates`).set(as(org, 'viewer'))
+    expect(none.status).toBe(200)
+    expect(none.body).toEqual([])
     const fresh = await newTank(t, org, { dimensions: TANK_60, heater: null })
     const unknown = await put(fresh, { ...PLAN_60, substrate: [{ material: 'moon_dust', depthCm: 2 }] })
     expect(unknown.status).toBe(400)
