@@ -25,6 +25,7 @@ export const PERMISSIONS = {
   'reports.manage': ['owner'],
   'org.backup': ['owner'],
   'imports.write': ['owner', 'keeper'],
+  'builds.write': ['owner', 'keeper'],
 } as const satisfies Record<string, readonly Caller[]>
 
 export type Permission = keyof typeof PERMISSIONS

@@ -21,6 +21,7 @@ import { photosRouter, tankPhotoRoutes } from './photos'
 import { reportRoutes, reportSchedulesRouter } from './reports'
 import { exportRoutes } from './exports'
 import { backupRouter } from './backup'
+import { buildRoutes } from './builds'
 import { importSourcesRouter, importsRouter, siteImportRoutes, tankImportRoutes } from './imports'
 
 export const API_VERSION = '0.1.0'
@@ -42,7 +43,7 @@ export function apiRouter(ctx: AppContext) {
   router.use('/sites', wallRoute(ctx, authenticate(passport, ['user-jwt', 'wall-token'])))
   router.use('/sites', requireUser, sitesRouter(ctx), siteRulesRoutes(ctx), rosterRoutes(ctx), siteWallCredentialRoutes(ctx), siteCareRoutes(ctx), exportRoutes(ctx, 'site'), siteImportRoutes(ctx))
   router.use('/wall-credentials', requireUser, wallCredentialsRouter(ctx))
-  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx), tankRulesRoutes(ctx), careRoutes(ctx), tankPhotoRoutes(ctx), exportRoutes(ctx, 'tank'), tankImportRoutes(ctx))
+  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx), tankRulesRoutes(ctx), careRoutes(ctx), tankPhotoRoutes(ctx), exportRoutes(ctx, 'tank'), tankImportRoutes(ctx), buildRoutes(ctx))
   router.use('/test-kit-entries', requireUser, testKitEntriesRouter(ctx))
   router.use('/rules', requireUser, rulesRouter(ctx))
   router.use('/snoozes', requireUser, snoozesRouter(ctx))

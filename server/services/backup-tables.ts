@@ -95,6 +95,18 @@ export const BACKUP_TABLES = [
     },
   },
   {
+    table: 'tank_builds', hasId: true, order: 'id',
+    columns: { tank_id: '->tanks', plan: 'json', filled_on: 'date?', finished_at: 'time?', created_by: '->users?' },
+  },
+  {
+    table: 'build_steps', hasId: true, order: 'id',
+    scope: 'build_id IN (SELECT id FROM tank_builds WHERE organization_id = :organizationId)',
+    columns: {
+      build_id: '->tank_builds', tank_id: '->tanks', key: 'text', title: 'text', day: 'int', until_day: 'int?', due_on: 'date',
+      care_task_id: '->care_tasks?', done_at: 'time?', done_by: '->users?', notes: 'text',
+    },
+  },
+  {
     table: 'water_changes', hasId: true, order: 'id', deferred: ['care_log_entry_id'],
     columns: {
       tank_id: '->tanks', status: 'text', plan: 'json', heater_off_confirmed: 'bool', temporary_rule_id: '->watch_rules?',

@@ -3,6 +3,7 @@ import type { PublicWallCredential, WallResponse, WallTank } from '@shared/schem
 import { compareForWall } from '@shared/tank-state'
 import type { Actor, UserActor } from '../auth/actor'
 import { newWallToken } from '../auth/wall-tokens'
+import { buildDaysFor } from './builds'
 import type { AppContext } from '../context'
 import { notFound } from '../errors'
 import type { WallCredential } from '../models'
@@ -80,6 +81,8 @@ export function wallService(ctx: AppContext) {
           newestReadingAt: times.length ? times.sort().at(-1)! : null,
         }
       })
+      const buildDays = await buildDaysFor(ctx, ids, site.timeZone, new Date(now))
+      for (const t of wallTanks) t.buildDay = buildDays.get(t.id) ?? null
       wallTanks.sort(compareForWall)
       return {
         site: { id: site.id, name: site.name, timeZone: site.timeZone },

@@ -39,6 +39,8 @@ export interface WallTank {
   lightOn: boolean | null
   lightScheduledOn: boolean | null
   newestReadingAt: string | null
+  /** A tank being built: "build day 9 of about 28" (day 1 is the fill day). */
+  buildDay?: { day: number; aboutDays: number | null } | null
 }
 
 export interface WallResponse {

@@ -82,6 +82,13 @@ export const routes: RouteRecordRaw[] = [
         meta: { title: 'Log test', roles: EDITORS },
       },
       {
+        path: 'tanks/:id(\\d+)/build',
+        name: 'tank-build',
+        component: () => import('@/views/TankBuildView.vue'),
+        props: (route) => ({ id: Number(route.params.id) }),
+        meta: { title: 'Build' },
+      },
+      {
         path: 'tanks/:id(\\d+)/edit',
         name: 'tank-edit',
         component: () => import('@/views/TankEditView.vue'),
