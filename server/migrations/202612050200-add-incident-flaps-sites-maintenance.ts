@@ -25,6 +25,7 @@ CREATE TABLE site_incidents (
   resolved_at timestamptz,
   escalation_level integer NOT NULL DEFAULT 0,
   next_escalation_at timestamptz,
+  notify_at timestamptz,
   created_at timestamptz NOT NULL DEFAULT now(),
   updated_at timestamptz NOT NULL DEFAULT now()
 );

@@ -17,6 +17,8 @@ export class SiteIncident extends Model<InferAttributes<SiteIncident>, InferCrea
   declare resolvedAt: CreationOptional<Date | null>
   declare escalationLevel: CreationOptional<number>
   declare nextEscalationAt: CreationOptional<Date | null>
+  /** Its one mail waits until then, so that it lists the tanks that follow within the grouping wait. */
+  declare notifyAt: CreationOptional<Date | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
 
@@ -36,6 +38,7 @@ export class SiteIncident extends Model<InferAttributes<SiteIncident>, InferCrea
         resolvedAt: { type: DataTypes.DATE, allowNull: true },
         escalationLevel: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
         nextEscalationAt: { type: DataTypes.DATE, allowNull: true },
+        notifyAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -15,6 +15,7 @@ const SITE_LOCK = 7_411_010
 export function siteGrouping(ctx: AppContext, notifier: IncidentNotifier, timing: AlertTiming) {
   const { models, sequelize } = ctx
   const { record } = incidentKit(ctx, notifier)
+  const groupWaitMs = (timing.siteGroupWaitSeconds ?? 0) * 1000
 
   async function link(incident: Incident, site: SiteIncident, transaction: Transaction) {
     // The site incident escalates for all of them; the tank's own keeps its timeline and tile.
@@ -45,10 +46,10 @@ export function siteGrouping(ctx: AppContext, notifier: IncidentNotifier, timing
       const site = await models.SiteIncident.create({
         organizationId: incident.organizationId, siteId: incident.siteId, cause: incident.cause, severity,
         title: CAUSE_TITLES[incident.cause as CauseKey] ?? 'Several tanks at once', state: 'open', openedAt: new Date(at),
-        nextEscalationAt: new Date(at + escalateAfterMs(timing, severity)),
+        nextEscalationAt: new Date(at + escalateAfterMs(timing, severity)), notifyAt: groupWaitMs ? new Date(at + groupWaitMs) : null,
       }, { transaction })
       for (const s of siblings) await link(s, site, transaction)
-      await notifier.notifySite?.('opened', site, transaction)
+      if (!groupWaitMs) await notifier.notifySite?.('opened', site, transaction)
     },
 
     /** A site incident is over when every tank's incident in it is. */
@@ -60,8 +61,18 @@ export function siteGrouping(ctx: AppContext, notifier: IncidentNotifier, timing
       )
     },
 
-    /** One escalation per site incident, to the backup and the owners, if nobody acknowledged it. */
+    /** The site's one mail once the grouping wait is over; one escalation, to the backup and the owners, if nobody acknowledged it. */
     async processDue(now: number) {
+      const waiting = await sequelize.query<{ id: number }>(`SELECT id FROM site_incidents WHERE state <> 'resolved' AND notify_at <= $1 ORDER BY id LIMIT 50`, { bind: [new Date(now)], type: QueryTypes.SELECT })
+      for (const { id } of waiting) {
+        await sequelize.transaction(async (transaction) => {
+          const [row] = await sequelize.query('SELECT id FROM site_incidents WHERE id = $1 AND notify_at IS NOT NULL FOR UPDATE SKIP LOCKED', { bind: [id], type: QueryTypes.SELECT, transaction })
+          if (!row) return
+          const site = (await models.SiteIncident.findByPk(id, { transaction }))!
+          await site.update({ notifyAt: null }, { transaction })
+          await notifier.notifySite?.('opened', site, transaction)
+        })
+      }
       const due = await sequelize.query<{ id: number }>(`SELECT id FROM site_incidents WHERE state = 'open' AND next_escalation_at <= $1 ORDER BY id LIMIT 50`, { bind: [new Date(now)], type: QueryTypes.SELECT })
       for (const { id } of due) {
         await sequelize.transaction(async (transaction) => {
