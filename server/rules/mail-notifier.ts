@@ -87,7 +87,7 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
       const points = await trend(incident, transaction)
       const band = tank?.targets?.[incident.metric as keyof typeof tank.targets]
       const trendPng = points.length > 1
-        ? await renderTrendPng({ points, band: band ?? undefined, title: `${def?.label ?? incident.metric}, last 6 h`, unitLabel: def?.unitLabel ?? '', timeZone: site?.timeZone ?? 'UTC' })
+        ? await renderTrendPng({ points, band: band ?? undefined, title: `${def?.label ?? incident.metric}, last 6 h`, window: { from: Date.now() - 6 * 3600_000, to: Date.now() }, unitLabel: def?.unitLabel ?? '', timeZone: site?.timeZone ?? 'UTC' })
         : undefined
       const serial = kind === 'escalated' ? `level-${incident.escalationLevel}`
         : kind === 'repeated' ? (incident.nextRepeatAt?.toISOString() ?? String(Date.now()))

@@ -131,7 +131,7 @@ function render(variant: Variant, i: IncidentMailInput): RenderedMail {
     ['Tank', i.tankName],
     ['Watch rule', i.ruleName],
     ['Severity', SEVERITY[i.severity]],
-    [i.metricLabel, reading(i)],
+    i.measurement ? ['Measured', oneLine(i.measurement)] : [i.metricLabel, reading(i)],
     [variant.sinceLabel, sinceText],
     ...(i.at ? ([['This update', formatInZone(i.at, i.siteTimeZone)]] as Array<[string, string]>) : []),
   ]
