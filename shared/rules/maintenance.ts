@@ -41,7 +41,8 @@ export function occurrencesBetween(w: MaintenanceSpan, fromMs: number, toMs: num
   if (w.weekday == null || w.startMinute == null || w.durationMinutes == null) return []
   const out: Array<[number, number]> = []
   let day = addDays(localDateAt(timeZone, fromMs), -1)
-  for (let i = 0; i < 9; i++, day = addDays(day, 1)) {
+  // Ranges are at most about two months (the API caps them), so at most ~64 days to walk.
+  for (let i = 0; i < 70 && localToInstant(timeZone, day, 0) < toMs; i++, day = addDays(day, 1)) {
     if (weekdayOf(day) !== w.weekday) continue
     const start = localToInstant(timeZone, day, w.startMinute)
     const end = start + w.durationMinutes * 60_000
