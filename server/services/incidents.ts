@@ -1,4 +1,5 @@
 import { Op, QueryTypes, type Transaction, type WhereOptions } from 'sequelize'
+import { DEFAULT_SETTLE_MINUTES } from '@shared/rules/schema'
 import type { IncidentListQuery, PublicIncident } from '@shared/schemas/incidents'
 import type { UserActor } from '../auth/actor'
 import type { AppContext } from '../context'
@@ -13,8 +14,7 @@ import { siteGrouping } from './site-incidents'
 export type { AlertTiming } from './incident-kit'
 export type { TripInput } from './incident-lifecycle'
 
-/** A rule's settle window: a trip this soon after a clear is a flap of the same incident (`common practice`: 30 min). */
-export const DEFAULT_SETTLE_MINUTES = 30
+export { DEFAULT_SETTLE_MINUTES } from '@shared/rules/schema'
 
 export function presentIncident(i: Incident & { tank?: { name: string }; site?: { name: string } }): PublicIncident {
   const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null)

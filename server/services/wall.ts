@@ -7,6 +7,7 @@ import { newWallToken } from '../auth/wall-tokens'
 import type { AppContext } from '../context'
 import { notFound } from '../errors'
 import type { WallCredential } from '../models'
+import { occurrenceAt } from '@shared/rules/maintenance'
 import { scheduleFn, snoozeCovers } from '../rules/tank-context'
 import { careDueCounts } from './care-tasks'
 import { incidentsOf } from './incidents'
@@ -56,7 +57,7 @@ export function wallService(ctx: AppContext) {
       const now = Date.now()
       const tanks = await models.Tank.findAll({ where: { siteId, archivedAt: null }, order: [['sortOrder', 'ASC'], ['name', 'ASC']] })
       const ids = tanks.map((t) => t.id)
-      const [latest, trend, devices, open, snoozes, duty, care] = await Promise.all([
+      const [latest, trend, devices, open, snoozes, duty, care, settling, windows] = await Promise.all([
         seriesService(ctx).siteLatest(ids),
         trends(ids, now),
         models.Device.findAll({ where: { tankId: ids, revokedAt: null } }),
@@ -64,7 +65,17 @@ export function wallService(ctx: AppContext) {
         models.Snooze.findAll({ where: { tankId: ids, cancelledAt: null, [Op.or]: [{ endsAt: { [Op.gt]: new Date(now) } }, { repeatUntil: { [Op.gt]: new Date(now) } }] } }),
         whoIsOnDuty(ctx, siteId, new Date(now)),
         careDueCounts(ctx, { siteIds: [siteId] }, new Date(now)),
+        models.Incident.findAll({ where: { tankId: ids, state: 'resolved', flapCount: { [Op.gt]: 0 }, settleUntil: { [Op.gt]: new Date(now) } } }),
+        models.MaintenanceWindow.findAll({ where: { siteId, ruleId: null, cancelledAt: null, [Op.or]: [{ endsAt: null }, { endsAt: { [Op.gt]: new Date(now) } }] } }),
       ])
+      const maintenanceOf = (tankId: number) => {
+        for (const w of windows) {
+          if (w.tankId !== null && w.tankId !== tankId) continue
+          const span = occurrenceAt({ startsAt: w.startsAt?.getTime(), endsAt: w.endsAt?.getTime(), weekday: w.weekday, startMinute: w.startMinute, durationMinutes: w.durationMinutes }, now, site.timeZone)
+          if (span) return { until: new Date(span[1]).toISOString(), reason: w.reason }
+        }
+        return null
+      }
       const latestByTank = new Map(latest.map((l) => [l.tankId, l.metrics]))
       const wallTanks: WallTank[] = tanks.map((tank) => {
         const metrics = latestByTank.get(tank.id) ?? {}
@@ -79,13 +90,20 @@ export function wallService(ctx: AppContext) {
         })
         const worst = [...incidents].sort((a, b) => (a.severity === b.severity ? 0 : a.severity === 'alarm' ? -1 : 1))[0]
         const snooze = snoozes.find((s) => s.tankId === tank.id && snoozeCovers(s, now))
+        const flapper = [...incidents, ...settling.filter((i) => i.tankId === tank.id)].find((i) => i.flapCount > 0)
+        const maintenance = maintenanceOf(tank.id)
         const times = Object.values(metrics).map((m) => m?.time).filter(Boolean) as string[]
         const light = metrics.light
         return {
           id: tank.id, name: tank.name, kind: tank.kind, stage: tank.stage, sortOrder: tank.sortOrder, volumeLitres: tank.volumeLitres, heightCm: tank.dimensions?.heightCm ?? null,
           heater: tank.heater, lightSchedule: tank.lightSchedule, targets: tank.targets, latest: metrics,
           trend: trend.get(tank.id) ?? [], state, stateReasons: reasons,
-          openIncident: worst ? { id: worst.id, title: worst.title, severity: worst.severity, openedAt: worst.openedAt.toISOString() } : null,
+          openIncident: worst
+            ? { id: worst.id, title: worst.title, severity: worst.severity, openedAt: worst.openedAt.toISOString(), state: worst.state === 'acknowledged' ? 'acknowledged' : 'open', maintenance: worst.maintenance, siteIncidentId: worst.siteIncidentId ?? null }
+            : null,
+          flapping: flapper ? { count: flapper.flapCount, title: flapper.title } : null,
+          maintenanceUntil: maintenance?.until ?? null,
+          maintenanceReason: maintenance?.reason ?? null,
           snoozedUntil: snooze ? snooze.endsAt.toISOString() : null,
           lightOn: light ? light.value >= LIGHT_ON_LUX : null,
           lightScheduledOn: tank.lightSchedule ? scheduleFn(tank.lightSchedule, site.timeZone)(now) : null,

@@ -13,6 +13,8 @@ const marginSchema = z.number().min(0).max(1000)
 /** What a missing reading means to a rule: keep its last state, count as tripped, or count as clear. */
 export const MISSING_READING_CHOICES = ['keep', 'tripped', 'clear'] as const
 export type MissingReading = (typeof MISSING_READING_CHOICES)[number]
+/** A rule's settle window when it names none: a trip this soon after a clear is a flap (`common practice`). */
+export const DEFAULT_SETTLE_MINUTES = 30
 /** How long without a reading counts as missing (the starter quiet rule's period). */
 export const MISSING_AFTER_MINUTES = 15
 

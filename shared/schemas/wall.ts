@@ -22,7 +22,20 @@ export interface WallTank {
   trend: Array<{ t: string; value: number }>
   state: TankState
   stateReasons: string[]
-  openIncident: { id: number; title: string; severity: 'warning' | 'alarm'; openedAt: string } | null
+  openIncident: {
+    id: number; title: string; severity: 'warning' | 'alarm'; openedAt: string
+    /** Acknowledged incidents stop the wall's chime. */
+    state: 'open' | 'acknowledged'
+    /** Opened inside a maintenance window: recorded, nobody told. */
+    maintenance: boolean
+    /** Part of a site-wide incident. */
+    siteIncidentId: number | null
+  } | null
+  /** It has cleared and tripped again within its settle window: counted, not reopened as new. */
+  flapping: { count: number; title: string } | null
+  /** Inside a maintenance window for the site or this tank, until then. */
+  maintenanceUntil: string | null
+  maintenanceReason: string | null
   snoozedUntil: string | null
   lightOn: boolean | null
   lightScheduledOn: boolean | null

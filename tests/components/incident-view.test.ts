@@ -22,6 +22,7 @@ const incident: IncidentDetail = {
   openedAt: '2026-03-03T02:10:00.000Z', firstValue: 28.3, peakValue: 29.1, latestValue: 28.8, latestAt: '2026-03-03T02:40:00.000Z',
   snoozed: false, acknowledgedAt: null, acknowledgedBy: null, acknowledgeNote: null, resolvedAt: null, resolvedBy: null, resolveNote: null,
   escalationLevel: 1, nextEscalationAt: null, nextRepeatAt: '2026-03-03T03:10:00.000Z',
+  topSeverity: 'alarm', flapCount: 0, lastFlapAt: null, settleUntil: null, maintenance: false, siteIncidentId: null, conditionHolds: true,
   timeline: [
     { at: '2026-03-03T02:10:00.000Z', kind: 'opened', userId: null, detail: { value: 28.3, since: '2026-03-03T02:00:00.000Z', snoozed: false } },
     { at: '2026-03-03T02:10:00.000Z', kind: 'mail_queued', userId: null, detail: { kind: 'opened', recipients: ['sam@example.test'] } },

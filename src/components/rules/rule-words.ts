@@ -79,3 +79,13 @@ export function describeCondition(spec: WatchRuleSpec): string {
 export function describeRule(rule: { severity: RuleSeverity; spec: WatchRuleSpec }): string {
   return `${SEVERITY_LABELS[rule.severity]} when ${describeCondition(rule.spec)}`
 }
+
+/** What a missing reading means to a rule, in plain words for the rule dialog. */
+export function missingReadingItems(metric: string, afterMinutes: number) {
+  const what = `no ${metricInSentence(metric)} reading for ${formatMinutes(afterMinutes)}`
+  return [
+    { value: 'keep' as const, title: `Keep the last state: ${what} changes nothing` },
+    { value: 'tripped' as const, title: `Count as tripped: ${what} opens the incident` },
+    { value: 'clear' as const, title: `Count as clear: ${what} closes the incident` },
+  ]
+}
