@@ -1,0 +1,71 @@
+import type { Browser } from 'playwright-core'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { TestOrg } from '../helpers/fixtures'
+import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'
+import { api, FIRST_LOAD_MS, MINUTE_MS, postTemperatures, tankWithProbe, waitForRuleLeader, type App } from './keeper-setup'
+
+let s: App
+let b: Awaited<ReturnType<typeof launchBrowser>>
+let browser: Browser
+let org: TestOrg
+let siteId: number
+
+beforeAll(async () => {
+  s = await startAppForBrowser()
+  b = await launchBrowser()
+  browser = b.browser
+  org = await s.createOrg('Sound Org')
+  siteId = org.siteIds[0]
+  await waitForRuleLeader(s)
+})
+afterAll(async () => {
+  await b?.close()
+  await s?.close()
+})
+
+describe('the wall can be heard', () => {
+  it('a display enables the sound with one tap, chimes when a tile enters alarm, and stops once it is acknowledged', async () => {
+    const owner = org.users.owner.token
+    const calm = await tankWithProbe(s, owner, siteId, 'Quiet corner', 0)
+    expect(await postTemperatures(s, calm.token, [[Date.now() - 30_000, 25.2]])).toBe(1)
+    const hot = await tankWithProbe(s, owner, siteId, 'Shrimp tank', 1)
+    expect(await postTemperatures(s, hot.token, [[Date.now() - 16 * MINUTE_MS, 25.4]])).toBe(1)
+
+    const page = await browser.newPage({ viewport: { width: 1280, height: 800 } })
+    await signIn(page, s.baseUrl, org.users.keeper.email)
+    await page.goto(`${s.baseUrl}/wall/${siteId}`)
+    await page.locator('[data-test=wall-grid] article').nth(1).waitFor({ timeout: FIRST_LOAD_MS })
+    await page.locator('[data-test=wall-sound-enable]').click()
+    await page.locator('[data-test=wall-sound-on]').waitFor()
+    // Count what the audio element itself reports from here on.
+    await page.locator('[data-test=wall-chime]').evaluate((el) => {
+      const audio = el as HTMLAudioElement & { plays?: number }
+      audio.plays = 0
+      audio.addEventListener('play', () => (audio.plays = (audio.plays ?? 0) + 1))
+    })
+    const plays = () => page.locator('[data-test=wall-chime]').evaluate((el) => (el as HTMLAudioElement & { plays?: number }).plays ?? 0)
+    expect(await plays()).toBe(0)
+
+    // A heater stuck on: above 28 °C for 12 minutes trips the starter alarm rule.
+    const t0 = Date.now() - 14 * MINUTE_MS
+    expect(await postTemperatures(s, hot.token, Array.from({ length: 13 }, (_, i): [number, number] => [t0 + i * MINUTE_MS, 28.6 + i * 0.1]))).toBe(13)
+    await s.rules.engine.settle()
+    await expect.poll(plays, { timeout: 15_000, interval: 200 }).toBe(1)
+    expect(await page.locator('article[data-state=alarm]').count()).toBe(1)
+    await shot(page, 'wall-sound-1280')
+
+    // Acknowledged from the app: the wall redraws and the chime has nothing left to repeat for.
+    const [incident] = (await api(s, `/incidents?tankId=${hot.tankId}`, owner)).body.items
+    expect((await api(s, `/incidents/${incident.id}/acknowledge`, owner, { method: 'POST', body: JSON.stringify({ note: 'Unplugged it' }) })).status).toBe(200)
+    await page.locator('[data-test=tile-acknowledged]').waitFor({ timeout: 15_000 })
+    expect(await plays()).toBe(1)
+
+    // Muting for a chosen time is one menu away.
+    await page.locator('[data-test=wall-sound-on]').click()
+    await page.locator('[data-test=wall-mute-60]').click()
+    expect(await page.locator('[data-test=wall-sound-muted]').textContent()).toMatch(/Muted until \d\d:\d\d/)
+    await page.setViewportSize({ width: 390, height: 844 })
+    await shot(page, 'wall-sound-390')
+    await page.close()
+  })
+})
