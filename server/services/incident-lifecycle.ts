@@ -40,10 +40,17 @@ export function incidentLifecycle(ctx: AppContext, notifier: IncidentNotifier, t
     const escalation = incident.state === 'open'
       ? new Date(Math.min(incident.nextEscalationAt?.getTime() ?? Infinity, trip.at + escalateAfterMs(timing, to)))
       : incident.nextEscalationAt
+    // A snooze may cover the lower level only (a heater-line alarm is snoozed only when asked by name).
+    const unsnoozed = incident.snoozed && !trip.snoozed
     await record(incident.id, 'severity_raised', { from: incident.severity, to, value: trip.value, rule: trip.rule.name }, transaction, null, new Date(trip.at))
-    await incident.update({ severity: to, topSeverity: higherOf(to, incident.topSeverity), title: trip.rule.name, nextEscalationAt: escalation, recheckAt: null, latestValue: trip.value, latestAt: new Date(trip.at) }, { transaction })
-    // Before its first mail has gone, the first mail carries the new severity.
-    if (news && !silent(incident) && !incident.notifyAt && !incident.siteIncidentId) await tell('raised', incident, transaction)
+    await incident.update({
+      severity: to, topSeverity: higherOf(to, incident.topSeverity), title: trip.rule.name, nextEscalationAt: escalation, recheckAt: null,
+      latestValue: trip.value, latestAt: new Date(trip.at), snoozed: incident.snoozed && trip.snoozed,
+    }, { transaction })
+    if (silent(incident) || incident.siteIncidentId) return
+    // Nobody was told of the snoozed lower level: this is its first mail. Before a deferred first mail has gone, that mail carries the new severity.
+    if (unsnoozed) await tell('opened', incident, transaction)
+    else if (news && !incident.notifyAt) await tell('raised', incident, transaction)
   }
 
   async function reopenFlap(incident: Incident, trip: TripInput, transaction: Transaction) {
