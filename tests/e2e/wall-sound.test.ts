@@ -69,3 +69,36 @@ describe('the wall can be heard', () => {
     await page.close()
   })
 })
+
+describe('planned quiet on the roster and the wall', () => {
+  it('a maintenance window shows in the roster week and on the tiles it covers', async () => {
+    const owner = org.users.owner.token
+    const now = Date.now()
+    const created = await api(s, `/sites/${siteId}/maintenance-windows`, owner, {
+      method: 'POST', body: JSON.stringify({ reason: 'Filter service', repeat: 'once', startsAt: new Date(now - 10 * MINUTE_MS).toISOString(), endsAt: new Date(now + 50 * MINUTE_MS).toISOString() }),
+    })
+    expect(created.status).toBe(201)
+    const weekly = await api(s, `/sites/${siteId}/maintenance-windows`, owner, {
+      method: 'POST', body: JSON.stringify({ reason: 'Weekly glass polish', repeat: 'weekly', weekday: 1, start: '09:00', durationMinutes: 90 }),
+    })
+    expect(weekly.status).toBe(201)
+    const page = await browser.newPage({ viewport: { width: 1280, height: 800 } })
+    await signIn(page, s.baseUrl, org.users.keeper.email)
+    await page.goto(`${s.baseUrl}/sites/${siteId}/roster`)
+    await page.locator('[data-test=maintenance-line]').first().waitFor({ timeout: FIRST_LOAD_MS })
+    const lines = await page.locator('[data-test=maintenance-line]').allTextContents()
+    expect(lines.some((l) => l.includes('Filter service'))).toBe(true)
+    expect(lines.some((l) => l.includes('Weekly glass polish') && l.includes('every week'))).toBe(true)
+    await page.locator('[data-test=maintenance-panel]').scrollIntoViewIfNeeded()
+    await shot(page, 'roster-maintenance-1280')
+    await page.goto(`${s.baseUrl}/wall/${siteId}`)
+    await page.locator('[data-test=tile-maintenance]').first().waitFor({ timeout: FIRST_LOAD_MS })
+    expect(await page.locator('[data-test=tile-maintenance]').first().textContent()).toMatch(/Maintenance until \d\d:\d\d: Filter service/)
+    await page.setViewportSize({ width: 390, height: 844 })
+    await page.goto(`${s.baseUrl}/sites/${siteId}/roster`)
+    await page.locator('[data-test=maintenance-line]').first().waitFor({ timeout: FIRST_LOAD_MS })
+    await page.locator('[data-test=maintenance-panel]').scrollIntoViewIfNeeded()
+    await shot(page, 'roster-maintenance-390')
+    await page.close()
+  })
+})
