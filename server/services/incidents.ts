@@ -103,6 +103,7 @@ export function incidentsService(ctx: AppContext, notifier: IncidentNotifier, ti
         await record(row.id, 'resolved', { automatic: false, note }, transaction, actor.userId)
         await tell('resolved', row, transaction)
       })
+      if (incident.siteIncidentId) await sites.resolveIfAllResolved(incident.siteIncidentId, Date.now())
       await incident.reload()
       changed(incident)
       return presentIncident(incident)
