@@ -104,3 +104,26 @@ describe('planned quiet on the roster and the wall', () => {
     await page.close()
   })
 })
+
+describe('the rule dialog', () => {
+  it('sets the settle window and says in plain words what a missing reading means', async () => {
+    const tank = await tankWithProbe(s, org.users.owner.token, siteId, 'Rule dialog tank', 5)
+    for (const viewport of [{ width: 1280, height: 800 }, { width: 390, height: 844 }]) {
+      const page = await browser.newPage({ viewport })
+      await signIn(page, s.baseUrl, org.users.owner.email)
+      await page.goto(`${s.baseUrl}/tanks/${tank.tankId}`)
+      await page.locator('[data-test=add-rule]').click({ timeout: FIRST_LOAD_MS })
+      const dialog = page.locator('[data-test=rule-dialog]')
+      await dialog.waitFor()
+      expect(await dialog.locator('input[name=settleMinutes]').inputValue()).toBe('30')
+      await dialog.locator('[data-test=missing-reading]').click()
+      const options = await page.locator('.v-overlay--active .v-list-item-title').allTextContents()
+      expect(options).toEqual(['Keep the last state', 'Count as tripped: opens the incident', 'Count as clear: closes the incident'])
+      expect(await dialog.textContent()).toContain('When no temperature reading has come for 15 min')
+      await page.keyboard.press('Escape')
+      await page.locator('.v-overlay--active .v-list').waitFor({ state: 'hidden' })
+      await shot(page, `rule-dialog-${viewport.width}`)
+      await page.close()
+    }
+  })
+})

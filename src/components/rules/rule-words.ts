@@ -81,11 +81,13 @@ export function describeRule(rule: { severity: RuleSeverity; spec: WatchRuleSpec
 }
 
 /** What a missing reading means to a rule, in plain words for the rule dialog. */
-export function missingReadingItems(metric: string, afterMinutes: number) {
-  const what = `no ${metricInSentence(metric)} reading for ${formatMinutes(afterMinutes)}`
+export function missingReadingItems() {
   return [
-    { value: 'keep' as const, title: `Keep the last state: ${what} changes nothing` },
-    { value: 'tripped' as const, title: `Count as tripped: ${what} opens the incident` },
-    { value: 'clear' as const, title: `Count as clear: ${what} closes the incident` },
+    { value: 'keep' as const, title: 'Keep the last state' },
+    { value: 'tripped' as const, title: 'Count as tripped: opens the incident' },
+    { value: 'clear' as const, title: 'Count as clear: closes the incident' },
   ]
 }
+
+/** The select's hint: when a reading counts as missing. */
+export const missingReadingHint = (metric: string, afterMinutes: number) => `When no ${metricInSentence(metric)} reading has come for ${formatMinutes(afterMinutes)}`
