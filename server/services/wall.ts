@@ -57,7 +57,7 @@ export function wallService(ctx: AppContext) {
       const now = Date.now()
       const tanks = await models.Tank.findAll({ where: { siteId, archivedAt: null }, order: [['sortOrder', 'ASC'], ['name', 'ASC']] })
       const ids = tanks.map((t) => t.id)
-      const [latest, trend, devices, open, snoozes, duty, care, settling, windows] = await Promise.all([
+      const [latest, trend, devices, open, snoozes, duty, care, settling, windows, siteIncidents] = await Promise.all([
         seriesService(ctx).siteLatest(ids),
         trends(ids, now),
         models.Device.findAll({ where: { tankId: ids, revokedAt: null } }),
@@ -67,6 +67,7 @@ export function wallService(ctx: AppContext) {
         careDueCounts(ctx, { siteIds: [siteId] }, new Date(now)),
         models.Incident.findAll({ where: { tankId: ids, state: 'resolved', flapCount: { [Op.gt]: 0 }, settleUntil: { [Op.gt]: new Date(now) } } }),
         models.MaintenanceWindow.findAll({ where: { siteId, ruleId: null, cancelledAt: null, [Op.or]: [{ endsAt: null }, { endsAt: { [Op.gt]: new Date(now) } }] } }),
+        models.SiteIncident.findAll({ where: { siteId, state: { [Op.ne]: 'resolved' } }, order: [['openedAt', 'DESC']] }),
       ])
       const maintenanceOf = (tankId: number) => {
         for (const w of windows) {
@@ -118,6 +119,10 @@ export function wallService(ctx: AppContext) {
         onDuty: duty.onDuty.map((d) => ({ userId: d.userId, name: d.name })),
         backupContact: duty.backup ? { userId: duty.backup.userId, name: duty.backup.name } : null,
         openIncidents: open.length,
+        siteIncidents: siteIncidents.map((si) => ({
+          id: si.id, title: si.title, severity: si.severity, state: si.state === 'acknowledged' ? 'acknowledged' : 'open',
+          tanks: new Set(open.filter((i) => i.siteIncidentId === si.id).map((i) => i.tankId)).size,
+        })),
         overdueCareTasks: care.bySite.get(siteId)?.overdue ?? 0,
       }
     },

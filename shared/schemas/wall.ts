@@ -49,6 +49,8 @@ export interface WallResponse {
   onDuty: Array<{ userId: number; name: string }>
   backupContact: { userId: number; name: string } | null
   openIncidents: number
+  /** Open site-wide incidents: one fault on several tanks at once. */
+  siteIncidents: Array<{ id: number; title: string; severity: 'warning' | 'alarm'; state: 'open' | 'acknowledged'; tanks: number }>
   overdueCareTasks: number | null
 }
 

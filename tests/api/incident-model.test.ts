@@ -202,6 +202,11 @@ describe('site incidents and maintenance windows, with the real mail notifier', 
     expect(mails[0].text_body.split('\n')[0]).toMatch(/^First: check the site’s power/)
     expect(mails[0].subject).toBe('Warning: 10 tanks at Power Org shop at once')
     for (let i = 1; i <= 10; i++) expect(mails[0].text_body).toMatch(new RegExp(`^- Row B${i}: no temperature reading for 1[56] min$`, 'm'))
+    // The wall shows the one site incident over the ten tiles, each still with its own incident.
+    const wall = await t.api().get(`/api/v1/sites/${org.siteIds[0]}/wall`).set({ Authorization: `Bearer ${org.users.keeper.token}` })
+    expect(wall.status).toBe(200)
+    expect(wall.body.siteIncidents).toEqual([{ id: sites[0].id, title: 'Several tanks cooling or silent at once: a power cut?', severity: 'warning', state: 'open', tanks: 10 }])
+    expect(wall.body.tanks.filter((x: { openIncident: { siteIncidentId: number } | null }) => x.openIncident?.siteIncidentId === sites[0].id)).toHaveLength(10)
     await engine.stop()
   })
 
