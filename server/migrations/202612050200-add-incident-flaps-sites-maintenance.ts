@@ -30,6 +30,7 @@ CREATE TABLE site_incidents (
   updated_at timestamptz NOT NULL DEFAULT now()
 );
 CREATE INDEX site_incidents_site ON site_incidents (site_id, state, opened_at DESC);
+CREATE INDEX site_incidents_due ON site_incidents (next_escalation_at, notify_at) WHERE state <> 'resolved';
 
 ALTER TABLE incidents
   ADD COLUMN top_severity text NOT NULL DEFAULT 'warning' CHECK (top_severity IN ('warning', 'alarm')),
@@ -45,6 +46,11 @@ ALTER TABLE incidents
 UPDATE incidents SET top_severity = severity;
 CREATE INDEX incidents_site_incident ON incidents (site_incident_id) WHERE site_incident_id IS NOT NULL;
 CREATE INDEX incidents_settling ON incidents (tank_id, settle_until) WHERE state = 'resolved' AND settle_until IS NOT NULL;
+-- The engine looks for these on every tick: partial indexes keep that cheap however many incidents pile up.
+CREATE INDEX incidents_notify_due ON incidents (notify_at) WHERE notify_at IS NOT NULL;
+CREATE INDEX incidents_recheck_due ON incidents (recheck_at) WHERE recheck_at IS NOT NULL;
+CREATE INDEX incidents_all_clear_due ON incidents (all_clear_at) WHERE all_clear_at IS NOT NULL;
+CREATE INDEX incidents_in_maintenance ON incidents (id) WHERE maintenance AND state <> 'resolved';
 
 -- One-off (starts_at..ends_at) or weekly (weekday 0 = Monday, as the roster, start_minute after local midnight,
 -- duration_minutes) in the site's own zone, so a window stays at 09:00 across clock changes.
@@ -76,7 +82,7 @@ ${kindCheck([...OLD_MAIL_KINDS, ...NEW_MAIL_KINDS])}
 const down = `
 ${kindCheck(OLD_MAIL_KINDS)}
 DROP TABLE maintenance_windows;
-DROP INDEX incidents_settling;
+DROP INDEX incidents_in_maintenance, incidents_all_clear_due, incidents_recheck_due, incidents_notify_due, incidents_settling;
 DROP INDEX incidents_site_incident;
 ALTER TABLE incidents DROP COLUMN site_incident_id, DROP COLUMN cause, DROP COLUMN maintenance, DROP COLUMN notify_at,
   DROP COLUMN recheck_at, DROP COLUMN all_clear_at, DROP COLUMN settle_until, DROP COLUMN last_flap_at, DROP COLUMN flap_count, DROP COLUMN top_severity;
