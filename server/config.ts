@@ -52,6 +52,8 @@ const envSchema = z.object({
   ESCALATE_ALARM_MINUTES: z.coerce.number().positive().max(1440).default(15),
   ESCALATE_WARNING_MINUTES: z.coerce.number().positive().max(1440).default(60),
   REPEAT_MINUTES: z.coerce.number().positive().max(1440).default(30),
+  // A tank's first alert mail waits this long for other tanks of its site to trip on the same cause.
+  SITE_GROUP_WAIT_SECONDS: z.coerce.number().int().min(0).max(600).default(60),
   BCRYPT_ROUNDS: z.coerce.number().int().min(4).max(15).default(11),
   SMTP_URL: z.string().url('SMTP_URL must be an smtp:// or smtps:// URL').optional(),
   FAKE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
@@ -96,7 +98,7 @@ export type Config = Readonly<{
   rulesTickMs: number
   /** How often the scheduled-report job looks for reports due. */
   reportScheduleTickMs: number
-  alertTiming: { escalateAlarmAfterMinutes: number; escalateWarningAfterMinutes: number; repeatEveryMinutes: number }
+  alertTiming: { escalateAlarmAfterMinutes: number; escalateWarningAfterMinutes: number; repeatEveryMinutes: number; siteGroupWaitSeconds?: number }
   mail: { smtpUrl?: string; fakeSmtpPort: number; from: string }
   photos: { maxBytes: number; store: PhotoStoreSettings }
   /** Local hour (site's zone) from which the morning care digest goes out. */
@@ -150,7 +152,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     rawRetentionDays: e.RAW_RETENTION_DAYS,
     rulesTickMs: e.RULES_TICK_SECONDS * 1000,
     reportScheduleTickMs: e.REPORT_SCHEDULE_SECONDS * 1000,
-    alertTiming: { escalateAlarmAfterMinutes: e.ESCALATE_ALARM_MINUTES, escalateWarningAfterMinutes: e.ESCALATE_WARNING_MINUTES, repeatEveryMinutes: e.REPEAT_MINUTES },
+    alertTiming: { escalateAlarmAfterMinutes: e.ESCALATE_ALARM_MINUTES, escalateWarningAfterMinutes: e.ESCALATE_WARNING_MINUTES, repeatEveryMinutes: e.REPEAT_MINUTES, siteGroupWaitSeconds: e.SITE_GROUP_WAIT_SECONDS },
     mail: { smtpUrl: e.SMTP_URL, fakeSmtpPort: e.FAKE_SMTP_PORT, from: e.MAIL_FROM },
     photos: {
       maxBytes: Math.round(e.PHOTO_MAX_MB * 1024 * 1024),

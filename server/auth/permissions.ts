@@ -16,6 +16,7 @@ export const PERMISSIONS = {
   'walls.manage': ['owner'],
   'mail.dev': ['owner'],
   'snoozes.write': ['owner', 'keeper'],
+  'maintenance.write': ['owner', 'keeper'],
   'incidents.handle': ['owner', 'keeper'],
   'roster.manage': ['owner'],
   'care.write': ['owner', 'keeper'],

@@ -45,7 +45,10 @@ export async function tankStatuses(ctx: AppContext, tanks: StatusTank[], now = D
         state,
         stateReasons: reasons,
         latest: metrics,
-        openIncidents: incidents.map((i) => ({ id: i.id, title: i.title, severity: i.severity, openedAt: i.openedAt.toISOString() })),
+        openIncidents: incidents.map((i) => ({
+          id: i.id, title: i.title, severity: i.severity, openedAt: i.openedAt.toISOString(),
+          state: i.state === 'acknowledged' ? 'acknowledged' : 'open', maintenance: i.maintenance, siteIncidentId: i.siteIncidentId ?? null, flapCount: i.flapCount,
+        })),
         quietDevices,
         hasDevices: mine.length > 0,
       }

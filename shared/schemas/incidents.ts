@@ -47,6 +47,18 @@ export interface PublicIncident {
   escalationLevel: number
   nextEscalationAt: string | null
   nextRepeatAt: string | null
+  /** The highest severity it reached. */
+  topSeverity: 'warning' | 'alarm'
+  /** Times it cleared and tripped again within its rule's settle window. */
+  flapCount: number
+  lastFlapAt: string | null
+  /** Resolved: until then a trip reopens it. */
+  settleUntil: string | null
+  /** Opened during a maintenance window: recorded, nobody told. */
+  maintenance: boolean
+  siteIncidentId: number | null
+  /** Unresolved with its rule still watching: resolving it now would see it reopen. */
+  conditionHolds: boolean
 }
 
 export interface IncidentDetail extends PublicIncident {

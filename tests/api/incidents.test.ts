@@ -40,7 +40,7 @@ async function newTank(of = org, siteId = of.siteIds[0]) {
 async function openIncident(tankId: number, ruleName = ABOVE, at = Date.now()) {
   const tank = (await t.ctx.models.Tank.findByPk(tankId))!
   const rule = (await t.ctx.models.WatchRule.findOne({ where: { tankId, name: ruleName } }))!
-  const incident = await service().open({
+  const incident = await service().trip({
     rule: { id: rule.id, name: rule.name, severity: rule.severity, spec: rule.spec, metric: metricOfSpec(rule.spec) },
     tank: { id: tank.id, siteId: tank.siteId, organizationId: tank.organizationId }, at, since: at - 10 * MIN, value: 28.7, snoozed: false,
   })

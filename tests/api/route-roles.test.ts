@@ -31,6 +31,7 @@ type World = {
   freshSiteRule(): Promise<number>
   freshTankRule(): Promise<number>
   freshSnooze(): Promise<number>
+  freshMaintenanceWindow(): Promise<number>
   freshIncident(): Promise<number>
   freshAckToken(): Promise<string>
   freshShift(siteId: number): Promise<number>
@@ -62,6 +63,7 @@ const EXPORT_RANGE = 'from=2026-03-01T00:00:00Z&to=2026-04-01T00:00:00Z'
 const inHours = (h: number) => new Date(Date.now() + h * HOUR).toISOString()
 const ruleBody = { name: 'pH below 6.5', severity: 'warning', spec: { kind: 'below', metric: 'ph', limit: 6.5 } }
 const storedRule = { name: 'pH below 6.5', severity: 'warning', spec: { kind: 'below', metric: 'ph', limit: 6.5, holdMinutes: 0, clearMargin: 0 } } as const
+const maintenanceBody = { reason: 'Weekly glass polish', repeat: 'weekly', weekday: 1, start: '09:00', durationMinutes: 90 }
 const snoozeBody = () => ({ reason: 'Water change', startsAt: inHours(0), endsAt: inHours(2) })
 const probe = async (w: World) => ({ tankId: await w.freshTank(), name: 'Probe', metrics: ['temperature'], intervalSeconds: 60 })
 
@@ -170,6 +172,9 @@ const ROUTES: RouteCase[] = [
   row('get', '/tanks/:id/snoozes', readable, async (w) => ({ param: await w.freshTank() })),
   row('post', '/tanks/:id/snoozes', signedIn(201, 201, 403, 404), async (w) => ({ param: await w.freshTank(), body: snoozeBody() })),
   row('post', '/snoozes/:id/cancel', handlers, async (w) => ({ param: await w.freshSnooze() })),
+  row('get', '/sites/:id/maintenance-windows', readable, async (w) => ({ param: await w.freshSite() })),
+  row('post', '/sites/:id/maintenance-windows', signedIn(201, 201, 403, 404), async (w) => ({ param: await w.freshSite(), body: maintenanceBody })),
+  row('post', '/maintenance-windows/:id/cancel', handlers, async (w) => ({ param: await w.freshMaintenanceWindow() })),
   row('get', '/incidents', signedIn(200, 200, 200, 200)),
   row('get', '/incidents/:id', readable, async (w) => ({ param: await w.freshIncident() })),
   row('post', '/incidents/:id/acknowledge', handlers, async (w) => ({ param: await w.freshIncident(), body: { note: 'On it' } })),
@@ -337,6 +342,13 @@ beforeAll(async () => {
         organizationId: org.organizationId, tankId, reason: s.reason, startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt), createdBy: org.users.keeper.id,
       })
       return snooze.id
+    },
+    async freshMaintenanceWindow() {
+      const row = await models.MaintenanceWindow.create({
+        organizationId: org.organizationId, siteId: org.siteIds[0], tankId: null, ruleId: null, reason: 'Glass polish', startsAt: null, endsAt: null,
+        weekday: 1, startMinute: 540, durationMinutes: 90, createdBy: org.users.owner.id,
+      })
+      return row.id
     },
     async freshIncident() {
       const tankId = await world.freshTank()

@@ -129,7 +129,7 @@ describe('TanksView', () => {
 
   it('shows each open incident with a link to it, and an alarm incident makes the tank an alarm', async () => {
     vi.mocked(listTanks).mockResolvedValue({
-      items: [{ ...tank, status: { ...tank.status, state: 'alarm', openIncidents: [{ id: 9, title: 'Temperature above 30 °C for 10 min', severity: 'alarm', openedAt: readAt }] } }],
+      items: [{ ...tank, status: { ...tank.status, state: 'alarm', openIncidents: [{ id: 9, title: 'Temperature above 30 °C for 10 min', severity: 'alarm', openedAt: readAt, state: 'open', maintenance: false, siteIncidentId: null, flapCount: 0 }] } }],
       total: 1, page: 1, pageSize: 25,
     })
     const { wrapper } = await mountView(TanksView, { role: 'viewer' })

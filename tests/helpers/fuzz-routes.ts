@@ -44,7 +44,7 @@ export const tanksRoutes = (w: FuzzWorld): FuzzRoute[] => [
   { method: 'put', path: `/test-kit-entries/${w.kitEntryId}`, token: w.keeper, base: kitBody() },
 ]
 
-/** Rules, snoozes, incidents, acknowledgement links. */
+/** Rules, snoozes, maintenance windows, incidents, acknowledgement links. */
 export const alertsRoutes = (w: FuzzWorld): FuzzRoute[] => [
   { method: 'post', path: `/tanks/${w.tankId}/rules`, token: w.owner, base: ruleBody },
   { method: 'post', path: `/sites/${w.siteId}/rules`, token: w.owner, base: { ...ruleBody, spec: { kind: 'outside', metric: 'temperature', min: 23, max: 29 } } },
@@ -53,6 +53,10 @@ export const alertsRoutes = (w: FuzzWorld): FuzzRoute[] => [
   {
     method: 'post', path: `/tanks/${w.tankId}/snoozes`, token: w.keeper,
     base: { reason: 'Water change', startsAt: inHours(1), endsAt: inHours(3), weekly: true, repeatUntil: inHours(24 * 30), includeHeaterLine: false },
+  },
+  {
+    method: 'post', path: `/sites/${w.siteId}/maintenance-windows`, token: w.keeper,
+    base: { reason: 'Weekly glass polish', tankId: w.tankId, repeat: 'weekly', weekday: 1, start: '09:00', durationMinutes: 90 },
   },
   { method: 'post', path: `/incidents/${w.ackIncidentId}/acknowledge`, token: w.keeper, base: { note: 'On it' } },
   { method: 'post', path: `/incidents/${w.resolveIncidentId}/resolve`, token: w.keeper, base: { note: 'Heater replaced' } },
