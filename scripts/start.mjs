@@ -2,7 +2,7 @@
 // (which migrates and seeds the demo). Ctrl-C stops everything cleanly. Node built-ins only.
 import { existsSync, mkdirSync, openSync, readdirSync, statSync } from 'node:fs'
 import { fork } from 'node:child_process'
-import { dirname, join } from 'node:path'
+import { dirname, join, resolve } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { ensureDependencies } from './lib/deps.mjs'
 import { startCluster } from './lib/postgres.mjs'
@@ -11,7 +11,7 @@ import { buildServer } from './lib/build-server.mjs'
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..')
 process.chdir(root)
-const dataDir = join(root, process.env.DATA_DIR ?? '.data')
+const dataDir = resolve(root, process.env.DATA_DIR ?? '.data')
 
 function newestMtime(path) {
   if (!existsSync(path)) return 0

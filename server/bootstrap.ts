@@ -13,7 +13,7 @@ import { silentNotifier } from './rules/notifier'
 export function createContext(config: Config, options: { writer?: BatchWriterOptions } = {}): AppContext {
   const sequelize = createSequelize(config.databaseUrl)
   const models = initModels(sequelize)
-  const logger = createLogger(config.logLevel)
+  const logger = createLogger(config.logLevel, { format: config.logFormat })
   const events = createEventBus()
   const writer = new BatchWriter(sequelize, logger, {
     ...options.writer,

@@ -8,6 +8,20 @@ const boolish = z
   .enum(['1', '0', 'true', 'false', 'yes', 'no'])
   .transform((v) => v === '1' || v === 'true' || v === 'yes')
 
+/**
+ * Which proxies may name the client's address in X-Forwarded-For: a hop count, or addresses,
+ * subnets and Express's names (`loopback`, `linklocal`, `uniquelocal`), comma-separated. Unset, the
+ * header is ignored: anyone could otherwise pick their own address, and with it a fresh sign-in allowance.
+ */
+const trustProxySchema = z
+  .string()
+  .trim()
+  .refine((v) => !['true', 'yes', '*'].includes(v.toLowerCase()), 'name the proxy (an address, subnet or loopback) or a hop count; trusting every sender lets anyone choose their address')
+  .transform((v): TrustProxy => (['false', 'no', '0', ''].includes(v.toLowerCase()) ? false : /^\d+$/.test(v) ? Number(v) : v.split(',').map((part) => part.trim()).filter(Boolean)))
+
+/** Express's `trust proxy`: false (ignore X-Forwarded-For), a hop count, or trusted addresses and subnets. */
+export type TrustProxy = false | number | string[]
+
 const envSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
   HOST: z.string().default('127.0.0.1'),
@@ -19,6 +33,8 @@ const envSchema = z.object({
   PUBLIC_URL: z.string().url().optional(),
   SEED_DEMO: boolish.default(false),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+  LOG_FORMAT: z.enum(['json', 'pretty']).optional(),
+  TRUST_PROXY: trustProxySchema.optional(),
   SIGN_IN_LIMIT: z.coerce.number().int().positive().default(10),
   SIGN_IN_WINDOW_MINUTES: z.coerce.number().positive().default(15),
   SERVE_CLIENT: boolish.default(true),
@@ -36,6 +52,8 @@ const envSchema = z.object({
   ESCALATE_ALARM_MINUTES: z.coerce.number().positive().max(1440).default(15),
   ESCALATE_WARNING_MINUTES: z.coerce.number().positive().max(1440).default(60),
   REPEAT_MINUTES: z.coerce.number().positive().max(1440).default(30),
+  // A tank's first alert mail waits this long for other tanks of its site to trip on the same cause.
+  SITE_GROUP_WAIT_SECONDS: z.coerce.number().int().min(0).max(600).default(60),
   BCRYPT_ROUNDS: z.coerce.number().int().min(4).max(15).default(11),
   SMTP_URL: z.string().url('SMTP_URL must be an smtp:// or smtps:// URL').optional(),
   FAKE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
@@ -63,6 +81,9 @@ export type Config = Readonly<{
   publicUrl: string
   seedDemo: boolean
   logLevel: string
+  /** `pretty` for a person at a terminal (the default under NODE_ENV=development), `json` lines otherwise. */
+  logFormat: 'json' | 'pretty'
+  trustProxy: TrustProxy
   signInLimit: number
   signInWindowMinutes: number
   serveClient: boolean
@@ -77,7 +98,7 @@ export type Config = Readonly<{
   rulesTickMs: number
   /** How often the scheduled-report job looks for reports due. */
   reportScheduleTickMs: number
-  alertTiming: { escalateAlarmAfterMinutes: number; escalateWarningAfterMinutes: number; repeatEveryMinutes: number }
+  alertTiming: { escalateAlarmAfterMinutes: number; escalateWarningAfterMinutes: number; repeatEveryMinutes: number; siteGroupWaitSeconds?: number }
   mail: { smtpUrl?: string; fakeSmtpPort: number; from: string }
   photos: { maxBytes: number; store: PhotoStoreSettings }
   /** Local hour (site's zone) from which the morning care digest goes out. */
@@ -118,6 +139,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     publicUrl: e.PUBLIC_URL ?? `http://${e.HOST === '0.0.0.0' ? '127.0.0.1' : e.HOST}:${e.PORT}`,
     seedDemo: e.SEED_DEMO,
     logLevel: e.LOG_LEVEL,
+    logFormat: e.LOG_FORMAT ?? (e.NODE_ENV === 'development' ? 'pretty' : 'json'),
+    trustProxy: e.TRUST_PROXY ?? false,
     signInLimit: e.SIGN_IN_LIMIT,
     signInWindowMinutes: e.SIGN_IN_WINDOW_MINUTES,
     serveClient: e.SERVE_CLIENT,
@@ -129,7 +152,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     rawRetentionDays: e.RAW_RETENTION_DAYS,
     rulesTickMs: e.RULES_TICK_SECONDS * 1000,
     reportScheduleTickMs: e.REPORT_SCHEDULE_SECONDS * 1000,
-    alertTiming: { escalateAlarmAfterMinutes: e.ESCALATE_ALARM_MINUTES, escalateWarningAfterMinutes: e.ESCALATE_WARNING_MINUTES, repeatEveryMinutes: e.REPEAT_MINUTES },
+    alertTiming: { escalateAlarmAfterMinutes: e.ESCALATE_ALARM_MINUTES, escalateWarningAfterMinutes: e.ESCALATE_WARNING_MINUTES, repeatEveryMinutes: e.REPEAT_MINUTES, siteGroupWaitSeconds: e.SITE_GROUP_WAIT_SECONDS },
     mail: { smtpUrl: e.SMTP_URL, fakeSmtpPort: e.FAKE_SMTP_PORT, from: e.MAIL_FROM },
     photos: {
       maxBytes: Math.round(e.PHOTO_MAX_MB * 1024 * 1024),
@@ -154,6 +177,8 @@ export function testConfig(overrides: Partial<Config> & { databaseUrl: string })
     publicUrl: 'http://127.0.0.1:0',
     seedDemo: false,
     logLevel: 'silent',
+    logFormat: 'json',
+    trustProxy: false,
     signInLimit: 10,
     signInWindowMinutes: 15,
     serveClient: false,

@@ -1,55 +1,11 @@
 // Entry point: `npm run simulate` — a shop full of sensor nodes speaking the public device contract.
 import { createApiClient, waitForApi } from './api-client'
-import { FaultyOutbox } from './model/faults'
-import { mulberry32, seedFrom } from './model/random'
-import { NO_SCENARIO } from './model/scenarios'
-import { TankSimulation } from './model/tank'
-import { parseOptions, USAGE, type SimulatorOptions } from './options'
-import { provisionDevices, type ProvisionedTank } from './provision'
-import { runLoop, type SimulatedNode } from './runner'
-import { createHttpTransport } from './transport/http'
-import { createMqttTransport } from './transport/mqtt'
-import type { Transport } from './transport/types'
+import { buildNodes } from './nodes'
+import { parseOptions, USAGE } from './options'
+import { provisionDevices } from './provision'
+import { runLoop } from './runner'
 
 const log = (line: string) => console.log(`[simulator] ${line}`)
-
-async function transportFor(options: SimulatorOptions, tank: ProvisionedTank): Promise<Transport> {
-  if (options.transport === 'http') {
-    return createHttpTransport({ url: options.url, deviceId: tank.deviceId, token: tank.token })
-  }
-  return createMqttTransport({
-    url: options.mqttUrl,
-    deviceId: tank.deviceId,
-    token: tank.token,
-    onEvent: (event, detail) => {
-      if (event !== 'connect') log(`${tank.spec.name}: mqtt ${event}${detail ? ` (${detail})` : ''}`)
-    },
-  })
-}
-
-async function buildNodes(options: SimulatorOptions, tanks: ProvisionedTank[]): Promise<SimulatedNode[]> {
-  const startMs = Date.now()
-  const built = await Promise.all(
-    tanks.map(async (tank): Promise<SimulatedNode | null> => {
-      const plan = options.scenarios.get(tank.spec.name) ?? NO_SCENARIO
-      const seed = seedFrom(options.seed, tank.tankId)
-      const outbox =
-        plan.scenario === 'malformed' || plan.scenario === 'duplicates_and_out_of_order'
-          ? new FaultyOutbox(plan.scenario, mulberry32(seedFrom(seed, 'outbox')))
-          : null
-      try {
-        const transport = await transportFor(options, tank)
-        const sim = new TankSimulation(tank.spec, { seed, startMs, plan })
-        if (plan.scenario !== 'none') log(`${tank.spec.name}: scenario ${plan.scenario} from ${plan.startAfterS} s`)
-        return { tankName: tank.spec.name, deviceId: tank.deviceId, sim, transport, outbox, retryQueue: [] }
-      } catch (err) {
-        log(`${tank.spec.name}: cannot connect device ${tank.deviceId}: ${(err as Error).message}`)
-        return null
-      }
-    }),
-  )
-  return built.filter((node): node is SimulatedNode => node !== null)
-}
 
 async function main(): Promise<number> {
   const parsed = parseOptions(process.argv.slice(2), process.env)
@@ -85,7 +41,7 @@ async function main(): Promise<number> {
   for (const name of options.scenarios.keys()) {
     if (!tanks.some((t) => t.spec.name === name)) log(`scenario for unknown tank '${name}' ignored`)
   }
-  const nodes = await buildNodes(options, tanks)
+  const nodes = await buildNodes(options, tanks, log)
   log(`${nodes.length} nodes over ${options.transport}, every ${options.intervalS} s, speed ×${options.speed}`)
   if (stop.signal.aborted || nodes.length === 0) return nodes.length === 0 && tanks.length > 0 ? 1 : 0
 

@@ -1,6 +1,6 @@
 // Command-line flags (node:util parseArgs), with environment fallbacks for the sign-in.
 import { parseArgs } from 'node:util'
-import { DEMO_SCENARIOS, parseScenarioList, type ScenarioPlan } from './model/scenarios'
+import { demoScenarios, parseScenarioList, type ScenarioPlan } from './model/scenarios'
 
 export interface SimulatorOptions {
   url: string
@@ -25,8 +25,8 @@ export const USAGE = `Usage: tsx simulator/index.ts [options]
   --tanks N              simulate only the first N non-empty tanks
   --interval S           real seconds between sends (default 10)
   --speed X              simulated time runs X times real time (default 1)
-  --scenario 'Tank=scenario[@startS[/everyS]],…'
-  --demo-scenarios       the demo shop's built-in faults (merged under --scenario)
+  --scenario 'Tank=scenario[@startS[/everyS]][+activeS],…'
+  --demo-scenarios       the demo shop's built-in faults, once an hour of real time each (merged under --scenario)
   --duration S           stop after S real seconds
   --once                 send one batch per tank and exit
   --seed N               random seed (default 1)
@@ -67,7 +67,8 @@ export function parseOptions(argv: string[], env: Record<string, string | undefi
   if (tanks !== null && !Number.isInteger(tanks)) throw new Error('--tanks must be a whole number')
   const seed = Number(values.seed ?? 1)
   if (!Number.isInteger(seed)) throw new Error('--seed must be a whole number')
-  const scenarios = new Map(values['demo-scenarios'] ? DEMO_SCENARIOS : [])
+  const speed = positive('speed', values.speed, 1)
+  const scenarios = new Map(values['demo-scenarios'] ? demoScenarios(speed) : [])
   for (const [name, plan] of parseScenarioList(values.scenario ?? '')) scenarios.set(name, plan)
   return {
     url: values.url ?? env.TANKWARDEN_URL ?? 'http://127.0.0.1:8080',
@@ -77,7 +78,7 @@ export function parseOptions(argv: string[], env: Record<string, string | undefi
     mqttUrl: values['mqtt-url'] ?? env.MQTT_URL ?? 'mqtt://127.0.0.1:1883',
     tanks,
     intervalS: positive('interval', values.interval, 10),
-    speed: positive('speed', values.speed, 1),
+    speed,
     scenarios,
     durationS: values.duration === undefined ? null : positive('duration', values.duration, 0),
     once: values.once ?? false,

@@ -3,7 +3,7 @@ import type { MetricKey } from '@shared/metrics'
 import type { Page } from '@shared/schemas/common'
 import type { PublicSite } from '@shared/schemas/sites'
 import type { PublicTank } from '@shared/schemas/tanks'
-import { withRetry, type ApiClient } from './api-client'
+import { ApiError, withRetry, type ApiClient } from './api-client'
 import type { SimTankSpec } from './model/spec'
 
 export const SIMULATED_NODE_NAME = 'Simulated node'
@@ -69,6 +69,16 @@ async function deviceFor(api: ApiClient, token: string, tank: PublicTank, interv
   })
 }
 
+async function midBuild(api: ApiClient, token: string, tankId: number): Promise<boolean> {
+  try {
+    const build = await api.request<{ filledOn: string | null; finishedAt: string | null }>('GET', `/api/v1/tanks/${tankId}/build`, { token })
+    return Boolean(build.filledOn && !build.finishedAt)
+  } catch (error) {
+    if (error instanceof ApiError && error.status === 404) return false
+    throw error
+  }
+}
+
 export async function provisionDevices(api: ApiClient, options: ProvisionOptions): Promise<ProvisionedTank[]> {
   const token = await signIn(api, options.email, options.password, options.log)
   const sites = await api.request<PublicSite[]>('GET', '/api/v1/sites', { token })
@@ -77,6 +87,8 @@ export async function provisionDevices(api: ApiClient, options: ProvisionOptions
   const tanks = page.items.filter((t) => t.stage !== 'empty').slice(0, options.tankLimit ?? Infinity)
   const provisioned: ProvisionedTank[] = []
   for (const tank of tanks) {
+    // A tank mid-build is followed by its keeper's tests; its sensors go on once it is established.
+    if (await midBuild(api, token, tank.id)) continue
     const { device, token: deviceToken } = await withRetry(`device for '${tank.name}'`, () =>
       deviceFor(api, token, tank, options.intervalSeconds),
       { log: options.log },

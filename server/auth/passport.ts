@@ -1,10 +1,21 @@
 import { Passport } from 'passport'
-import { Strategy as BearerStrategy } from 'passport-http-bearer'
+import type { Request } from 'express'
+import { Strategy as BearerStrategy, type VerifyFunction } from 'passport-http-bearer'
 import type { Models } from '../models'
 import type { UserActor } from './actor'
 import { verifyAccessToken } from './tokens'
 import { deviceFromToken } from './device-tokens'
 import { wallFromToken } from './wall-tokens'
+
+/**
+ * Bearer tokens from the Authorization header only. passport-http-bearer also reads `access_token`
+ * from the query and the body, where a token ends up in logs, browser history and Referer headers.
+ */
+class HeaderBearerStrategy extends BearerStrategy<VerifyFunction> {
+  override authenticate(req: Request) {
+    super.authenticate({ headers: req.headers } as Request)
+  }
+}
 
 /**
  * One Passport instance per app. Each credential kind is its own named strategy:
@@ -14,7 +25,7 @@ export function createPassport(models: Models, jwtSecret: string) {
   const passport = new Passport()
   passport.use(
     'user-jwt',
-    new BearerStrategy(async (token, done) => {
+    new HeaderBearerStrategy(async (token, done) => {
       try {
         done(null, (await userActorFromToken(models, jwtSecret, token)) ?? false)
       } catch (error) {
@@ -24,7 +35,7 @@ export function createPassport(models: Models, jwtSecret: string) {
   )
   passport.use(
     'wall-token',
-    new BearerStrategy(async (token, done) => {
+    new HeaderBearerStrategy(async (token, done) => {
       try {
         done(null, (await wallFromToken(models, token)) ?? false)
       } catch (error) {
@@ -34,7 +45,7 @@ export function createPassport(models: Models, jwtSecret: string) {
   )
   passport.use(
     'device-token',
-    new BearerStrategy(async (token, done) => {
+    new HeaderBearerStrategy(async (token, done) => {
       try {
         done(null, (await deviceFromToken(models, token)) ?? false)
       } catch (error) {

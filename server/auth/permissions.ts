@@ -16,6 +16,7 @@ export const PERMISSIONS = {
   'walls.manage': ['owner'],
   'mail.dev': ['owner'],
   'snoozes.write': ['owner', 'keeper'],
+  'maintenance.write': ['owner', 'keeper'],
   'incidents.handle': ['owner', 'keeper'],
   'roster.manage': ['owner'],
   'care.write': ['owner', 'keeper'],
@@ -25,6 +26,7 @@ export const PERMISSIONS = {
   'reports.manage': ['owner'],
   'org.backup': ['owner'],
   'imports.write': ['owner', 'keeper'],
+  'builds.write': ['owner', 'keeper'],
 } as const satisfies Record<string, readonly Caller[]>
 
 export type Permission = keyof typeof PERMISSIONS

@@ -1,10 +1,12 @@
 import { createReadStream } from 'node:fs'
-import { parse, type Info } from 'csv-parse'
+import { createInterface } from 'node:readline'
 import { Op } from 'sequelize'
+import { UNSTARTED_IMPORT_HOURS } from '@shared/schemas/imports'
 import type { AppContext } from '../context'
 import type { FileReading } from '../ingest/ingest-service'
 import type { ImportJob } from '../models'
 import { importFiles } from './files'
+import { CsvRecordReader, type CsvRecord } from './csv-records'
 import { createRejectionReport } from './rejections'
 import { createRowReader, reasonOf, type RowProblem } from './row-reader'
 
@@ -18,8 +20,8 @@ export const STALE_AFTER_MS = 60_000
 type Pending = { line: number; raw: string[]; readings: FileReading[]; columns: string[]; problems?: RowProblem[] }
 
 /**
- * Runs import jobs in the background, one at a time per process: the file is streamed through
- * csv-parse (for-await gives backpressure, so memory stays flat whatever the size) and sent in
+ * Runs import jobs in the background, one at a time per process: the file is streamed line by line
+ * (for-await gives backpressure, so memory stays flat whatever the size) into CSV records and sent in
  * batches through the same ingest path as sensor readings.
  */
 export function createImportRunner(ctx: AppContext) {
@@ -45,19 +47,11 @@ export function createImportRunner(ctx: AppContext) {
     const counts = { rowsRead: 0, rowsAccepted: 0, rowsDuplicate: 0, rowsRejected: 0, bytesRead: 0 }
     let lastTouch = Date.now()
 
-    async function unreadable() {
-      for (const s of skipped.splice(0)) {
-        counts.rowsRead++
-        batch.push({ line: s.line, raw: [], readings: [], columns: [], problems: [{ reason: 'invalid', detail: `unreadable CSV: ${s.message}`, column: '', value: '' }] })
-      }
-    }
-
     async function reject(line: number, raw: string[], problems: RowProblem[]) {
       counts.rowsRejected++
       for (const p of problems) await report.add({ line, raw, delimiter: preview.delimiter, ...p })
     }
 
-    const skipped: Array<{ line: number; message: string }> = []
     let batch: Pending[] = []
     let batchReadings = 0
     // One batch is written while the next is parsed; results are handled in file order.
@@ -106,32 +100,45 @@ export function createImportRunner(ctx: AppContext) {
       if (!updated) throw new Interrupted('the job was marked failed while it ran')
     }
 
-    const parser = createReadStream(files.upload(job.fileKey)).pipe(
-      parse({ delimiter: preview.delimiter, bom: true, relax_column_count: true, skip_empty_lines: true, trim: true, info: true, skip_records_with_error: true }),
-    )
-    parser.on('skip', (error: Error & { lines?: number }) => skipped.push({ line: error.lines ?? 0, message: error.message }))
-
     let seenHeader = false
-    for await (const { record, info } of parser as AsyncIterable<{ record: string[]; info: Info }>) {
+    async function handle(record: CsvRecord) {
       if (!seenHeader) {
         seenHeader = true
-        continue
+        return
       }
-      await unreadable()
       counts.rowsRead++
-      counts.bytesRead = info.bytes
-      const row = readRow(record)
-      if (!row.ok) batch.push({ line: info.lines, raw: record, readings: [], columns: [], problems: row.problems })
-      else {
-        batch.push({ line: info.lines, raw: record, readings: row.readings, columns: row.columns })
-        batchReadings += row.readings.length
+      if ('error' in record) {
+        // Unreadable quoting refuses this one line, once; the next line is read afresh.
+        batch.push({ line: record.line, raw: [record.text], readings: [], columns: [], problems: [{ reason: 'invalid', detail: `unreadable CSV: ${record.error}`, column: '', value: '' }] })
+      } else {
+        const row = readRow(record.fields)
+        if (!row.ok) batch.push({ line: record.line, raw: record.fields, readings: [], columns: [], problems: row.problems })
+        else {
+          batch.push({ line: record.line, raw: record.fields, readings: row.readings, columns: row.columns })
+          batchReadings += row.readings.length
+        }
       }
       if (batchReadings >= IMPORT_BATCH_READINGS || batch.length >= IMPORT_BATCH_READINGS) await flush()
       else if (Date.now() - lastTouch > HEARTBEAT_MS) await touch()
-      if (cancelled.has(job.id) || stopping) break
     }
-    await unreadable()
-    parser.destroy()
+
+    const input = createReadStream(files.upload(job.fileKey))
+    const lines = createInterface({ input, crlfDelay: Infinity })
+    const records = new CsvRecordReader(preview.delimiter)
+    let lineNumber = 0
+    let ended = true
+    for await (const text of lines) {
+      lineNumber++
+      counts.bytesRead = Math.min(job.sizeBytes, counts.bytesRead + Buffer.byteLength(text) + 1)
+      for (const record of records.push({ number: lineNumber, text: lineNumber === 1 ? text.replace(/^\uFEFF/, '') : text })) await handle(record)
+      if (cancelled.has(job.id) || stopping) {
+        ended = false
+        break
+      }
+    }
+    if (ended) for (const record of records.end()) await handle(record)
+    lines.close()
+    input.destroy()
     const wasCancelled = cancelled.has(job.id)
     const wasStopped = stopping && !wasCancelled
     if (!wasCancelled && !wasStopped) await flush()
@@ -190,6 +197,14 @@ export function createImportRunner(ctx: AppContext) {
       )
       return count
     },
+    /** Uploads never started within UNSTARTED_IMPORT_HOURS: the job row and the file go. Answers how many. */
+    async expireUnstarted(now = new Date()) {
+      const cutoff = new Date(now.getTime() - UNSTARTED_IMPORT_HOURS * 3600_000)
+      // One statement, so a job started at this moment (status no longer 'uploaded') is never deleted.
+      const [rows] = (await ctx.sequelize.query(`DELETE FROM import_jobs WHERE status = 'uploaded' AND created_at < $1 RETURNING file_key`, { bind: [cutoff] })) as [Array<{ file_key: string }>, unknown]
+      for (const row of rows) await files.removeUpload(row.file_key).catch(() => undefined)
+      return rows.length
+    },
     /** Resolves when nothing is queued or running (tests, shutdown). */
     async idle() {
       while (loop) await loop
@@ -213,10 +228,15 @@ export function importRunnerFor(ctx: AppContext): ImportRunner {
   return runner
 }
 
-/** Marks interrupted jobs at start and every minute after; answers the stop function. */
+/** Marks interrupted jobs and deletes expired uploads at start and every minute after; answers the stop function. */
 export function startImportRunner(ctx: AppContext) {
   const runner = importRunnerFor(ctx)
-  const sweep = () => runner.markInterrupted().then((n) => n && ctx.logger.warn({ jobs: n }, 'interrupted import jobs marked failed'))
+  const sweep = async () => {
+    const interrupted = await runner.markInterrupted()
+    if (interrupted) ctx.logger.warn({ jobs: interrupted }, 'interrupted import jobs marked failed')
+    const expired = await runner.expireUnstarted()
+    if (expired) ctx.logger.info({ jobs: expired }, `uploads not started within ${UNSTARTED_IMPORT_HOURS} h deleted`)
+  }
   void sweep().catch((error) => ctx.logger.warn({ err: error }, 'import sweep failed'))
   const timer = setInterval(() => void sweep().catch(() => undefined), STALE_AFTER_MS)
   timer.unref()

@@ -2,6 +2,7 @@ import { open } from 'node:fs/promises'
 import { parse } from 'csv-parse/sync'
 import { METRICS, METRIC_KEYS, type MetricKey } from '@shared/metrics/registry'
 import type { ImportMapping, ImportPreview } from '@shared/schemas/imports'
+import { recordsOf } from './csv-records'
 import { detectTimeFormat, looksLikeTime } from './time-formats'
 
 export const SNIFF_BYTES = 64 * 1024
@@ -19,6 +20,13 @@ const BINARY_KINDS: Array<[string, number[]]> = [
 ]
 
 export class NotCsvError extends Error {}
+
+/** The header line's quoting cannot be read: the file cannot be mapped at all. */
+export class UnreadableHeaderError extends Error {
+  constructor(readonly line: number, readonly problem: string) {
+    super(`line ${line}: ${problem}`)
+  }
+}
 
 export async function readHead(path: string, bytes = SNIFF_BYTES): Promise<Buffer> {
   const handle = await open(path, 'r')
@@ -123,7 +131,11 @@ export function buildPreview(
 ): ImportPreview {
   const body = completeLines(text, complete)
   const delimiter = detectDelimiter(body)
-  const rows = parse(body, { delimiter, relax_column_count: true, skip_empty_lines: true, bom: true, to: 200, relax_quotes: true, trim: true }) as string[][]
+  // Lines whose quoting cannot be read are left out here; the import refuses each on its own line.
+  const records = recordsOf(body, delimiter, 200)
+  const first = records[0]
+  if (first && 'error' in first) throw new UnreadableHeaderError(first.line, first.error)
+  const rows = records.flatMap((r) => ('fields' in r ? [r.fields] : []))
   const header = rows[0] ?? []
   if (header.length < 2) throw new NotCsvError('The file needs a header row and at least two columns (a time and a value)')
   const data = rows.slice(1)

@@ -4,12 +4,10 @@ import type { BatchWriter, ReadingRow } from './batch-writer'
 import type { DeviceStatusTracker } from './device-status'
 import { checkReading, type ReadingLimits } from './validate-readings'
 
-/** The message cannot be read at all (not JSON, wrong envelope): nothing in it was stored. `field` is where. */
+/** The message cannot be read at all (not JSON, wrong envelope): nothing in it was stored. */
 export class MalformedMessageError extends Error {
-  constructor(
-    message: string,
-    readonly field = 'body',
-  ) {
+  /** The part of the message at fault (`body`, `v`, `readings`), for the 400's `fields`. */
+  constructor(message: string, readonly field = 'body', readonly problem = message) {
     super(message)
   }
 }
@@ -26,9 +24,9 @@ function parseEnvelope(body: unknown) {
   const issue = parsed.error.issues[0]
   const where = issue.path.join('.') || 'body'
   if (issue.path[0] === 'readings' && issue.code === 'too_big') {
-    return new MalformedMessageError(`readings: at most ${MAX_READINGS_PER_MESSAGE} readings per message`, 'readings')
+    return new MalformedMessageError(`readings: at most ${MAX_READINGS_PER_MESSAGE} readings per message`, 'readings', `at most ${MAX_READINGS_PER_MESSAGE} readings per message`)
   }
-  return new MalformedMessageError(`${where}: ${issue.message} (expected {"v":1,"readings":[…]})`, where)
+  return new MalformedMessageError(`${where}: ${issue.message} (expected {"v":1,"readings":[…]})`, where, issue.message)
 }
 
 /**

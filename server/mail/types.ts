@@ -10,6 +10,10 @@ export const MAIL_KINDS = [
   'care_digest',
   'report',
   'snooze_ending',
+  'incident_raised',
+  'incident_reopened',
+  'site_incident_opened',
+  'site_incident_escalated',
 ] as const
 export type MailKind = (typeof MAIL_KINDS)[number]
 

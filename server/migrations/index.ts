@@ -13,6 +13,8 @@ import allowCancelledWaterChanges from './202612021010-allow-cancelled-water-cha
 import createImports from './202612021100-create-imports'
 import createPhotos from './202612021300-create-photos'
 import createReportSchedules from './202612021400-create-report-schedules'
+import addIncidentFlapsSitesMaintenance from './202612050200-add-incident-flaps-sites-maintenance'
+import createBuilds from './202612051000-create-builds'
 
 /** Every migration in order. Add new files here; never edit one that has shipped. */
 export const migrations: Migration[] = [
@@ -30,4 +32,6 @@ export const migrations: Migration[] = [
   createImports,
   createPhotos,
   createReportSchedules,
+  addIncidentFlapsSitesMaintenance,
+  createBuilds,
 ]

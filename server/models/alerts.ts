@@ -65,6 +65,22 @@ export class Incident extends Model<InferAttributes<Incident>, InferCreationAttr
   declare escalationLevel: CreationOptional<number>
   declare nextEscalationAt: CreationOptional<Date | null>
   declare nextRepeatAt: CreationOptional<Date | null>
+  /** The highest severity this incident has reached; a rise above it is news, a return to it is not. */
+  declare topSeverity: CreationOptional<RuleSeverity>
+  declare flapCount: CreationOptional<number>
+  declare lastFlapAt: CreationOptional<Date | null>
+  /** Resolved: a trip before this reopens the incident instead of opening another. */
+  declare settleUntil: CreationOptional<Date | null>
+  /** Resolved: when the all-clear mail goes, if nothing reopened it. */
+  declare allClearAt: CreationOptional<Date | null>
+  /** Reopened by a flap: mailed again only if it still holds at this time. */
+  declare recheckAt: CreationOptional<Date | null>
+  /** The first mail waits until then, in case other tanks of the site follow (one site incident). */
+  declare notifyAt: CreationOptional<Date | null>
+  /** Opened inside a maintenance window: recorded, nobody told until the window ends. */
+  declare maintenance: CreationOptional<boolean>
+  declare cause: CreationOptional<string | null>
+  declare siteIncidentId: CreationOptional<number | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
 
@@ -100,6 +116,16 @@ export class Incident extends Model<InferAttributes<Incident>, InferCreationAttr
         escalationLevel: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
         nextEscalationAt: nullableDate(),
         nextRepeatAt: nullableDate(),
+        topSeverity: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'warning' },
+        flapCount: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+        lastFlapAt: nullableDate(),
+        settleUntil: nullableDate(),
+        allClearAt: nullableDate(),
+        recheckAt: nullableDate(),
+        notifyAt: nullableDate(),
+        maintenance: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        cause: { type: DataTypes.TEXT, allowNull: true },
+        siteIncidentId: { type: DataTypes.INTEGER, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -15,14 +15,14 @@ const FONTS = {
 }
 const MATH_CHARS = /([≤≥])/
 
-const COLOURS = { ink: '#1f2933', muted: '#52606d', line: '#0b6e99', band: '#d8f0e3', grid: '#d9e2ec', accent: '#0b6e99' }
+export const COLOURS = { ink: '#1f2933', muted: '#52606d', line: '#0b6e99', band: '#d8f0e3', grid: '#d9e2ec', accent: '#0b6e99' }
 const MARGIN = 48
 const PAGE_BOTTOM = 842 - MARGIN
 
-type Doc = InstanceType<typeof PDFDocument>
+export type Doc = InstanceType<typeof PDFDocument>
 
 /** Writes text, switching to the maths font for ≤ and ≥ within the line. */
-function write(doc: Doc, text: string, font: 'body' | 'bold', size: number, options: PDFKit.Mixins.TextOptions = {}) {
+export function write(doc: Doc, text: string, font: 'body' | 'bold', size: number, options: PDFKit.Mixins.TextOptions = {}) {
   const parts = text.split(MATH_CHARS).filter((p) => p.length)
   doc.fontSize(size)
   parts.forEach((part, i) => {
@@ -30,7 +30,7 @@ function write(doc: Doc, text: string, font: 'body' | 'bold', size: number, opti
   })
 }
 
-function ensureRoom(doc: Doc, height: number) {
+export function ensureRoom(doc: Doc, height: number) {
   if (doc.y + height > PAGE_BOTTOM) doc.addPage()
 }
 
@@ -112,7 +112,7 @@ function metricBlock(doc: Doc, m: ReportMetric, report: Report) {
   doc.moveDown(0.6)
 }
 
-function section(doc: Doc, title: string, lines: string[], empty: string) {
+export function section(doc: Doc, title: string, lines: string[], empty: string) {
   ensureRoom(doc, 30 + Math.min(lines.length, 3) * 11)
   doc.fillColor(COLOURS.ink)
   write(doc, title, 'bold', 11)
@@ -152,14 +152,9 @@ function tankPages(doc: Doc, tank: TankReport, report: Report) {
   section(doc, 'Photos', capped(tank.photos.map((p) => `${moment(p.takenAt, zone)} · ${p.caption}`)), 'No photos in this period.')
 }
 
-/** Renders the report; `compress: false` keeps content streams readable (tests look for text). */
-export async function renderReportPdf(report: Report, options: { compress?: boolean } = {}): Promise<Buffer> {
-  const doc = new PDFDocument({
-    size: 'A4',
-    margin: MARGIN,
-    compress: options.compress ?? true,
-    info: { Title: `Tankwarden report: ${report.subject.name}, ${report.period.label}`, Author: 'Tankwarden', CreationDate: new Date(report.generatedAt) },
-  })
+/** An A4 document with the report fonts; `done` resolves to the bytes once `doc.end()` is called. */
+export function openDocument(title: string, createdAt: Date, options: { compress?: boolean } = {}) {
+  const doc = new PDFDocument({ size: 'A4', margin: MARGIN, compress: options.compress ?? true, info: { Title: title, Author: 'Tankwarden', CreationDate: createdAt } })
   doc.registerFont('body', FONTS.body)
   doc.registerFont('bold', FONTS.bold)
   doc.registerFont('math', FONTS.math)
@@ -169,6 +164,12 @@ export async function renderReportPdf(report: Report, options: { compress?: bool
     doc.on('end', () => resolve(Buffer.concat(chunks)))
     doc.on('error', reject)
   })
+  return { doc, done }
+}
+
+/** Renders the report; `compress: false` keeps content streams readable (tests look for text). */
+export async function renderReportPdf(report: Report, options: { compress?: boolean } = {}): Promise<Buffer> {
+  const { doc, done } = openDocument(`Tankwarden report: ${report.subject.name}, ${report.period.label}`, new Date(report.generatedAt), options)
 
   const zone = report.subject.timeZone
   report.tanks.forEach((tank, i) => {

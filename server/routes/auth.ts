@@ -1,4 +1,4 @@
-import { Router } from 'express'
+import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express'
 import { rateLimit, ipKeyGenerator } from 'express-rate-limit'
 import { changePasswordSchema, passwordResetConfirmSchema, passwordResetRequestSchema, signInSchema } from '@shared/schemas/auth'
 import { actorOf, type authenticate } from '../auth/middleware'
@@ -8,28 +8,37 @@ import { parse } from '../http/validate'
 import { authService } from '../services/auth'
 import { passwordResetService } from '../services/password-reset'
 
+/** How many addresses' worth of attempts one e-mail address gets in a window. */
+export const ACCOUNT_LIMIT_FACTOR = 5
+
 export function authRouter(ctx: AppContext, requireUser: ReturnType<typeof authenticate>) {
   const router = Router()
   const auth = authService(ctx)
   const windowMs = ctx.config.signInWindowMinutes * 60_000
 
-  // Counted per address and e-mail, so one person cannot lock out the whole shop behind one router.
-  const signInLimiter = rateLimit({
+  const rateLimited = (req: Request, _res: Response, next: NextFunction) => {
+    const resetTime = (req as { rateLimit?: { resetTime?: Date } }).rateLimit?.resetTime
+    const retry = Math.max(1, Math.ceil(((resetTime?.getTime() ?? Date.now() + windowMs) - Date.now()) / 1000))
+    next(new AppError(429, 'rate_limited', `Too many sign-in attempts; try again in ${retry} s`, undefined, retry))
+  }
+  // Runs before validation: normalised like the e-mail schema (trim, lower case) so padding opens no fresh
+  // allowance, and a non-string e-mail (an object whose toString is not a function) must not throw.
+  const emailOf = (req: Request) => (typeof req.body?.email === 'string' ? req.body.email.trim().toLowerCase() : '')
+  const limiterOptions = {
     windowMs,
-    limit: ctx.config.signInLimit,
-    standardHeaders: 'draft-7',
+    standardHeaders: 'draft-7' as const,
     legacyHeaders: false,
-    // Runs before validation: normalised like the e-mail schema (trim, lower case) so padding opens no fresh
-    // allowance, and a non-string e-mail (an object whose toString is not a function) must not throw.
-    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${typeof req.body?.email === 'string' ? req.body.email.trim().toLowerCase() : ''}`,
-    handler: (req, _res, next) => {
-      const resetTime = (req as { rateLimit?: { resetTime?: Date } }).rateLimit?.resetTime
-      const retry = Math.max(1, Math.ceil(((resetTime?.getTime() ?? Date.now() + windowMs) - Date.now()) / 1000))
-      next(new AppError(429, 'rate_limited', `Too many sign-in attempts; try again in ${retry} s`, undefined, retry))
-    },
-  })
+    handler: rateLimited,
+    // req.ip honours X-Forwarded-For only from TRUST_PROXY's proxies; a stray header is expected, not a misconfiguration.
+    validate: { xForwardedForHeader: false },
+  }
+  // Counted per address and e-mail, so one person cannot lock out the whole shop behind one router…
+  const perAddress = rateLimit({ ...limiterOptions, limit: ctx.config.signInLimit, keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${emailOf(req)}` })
+  // …and per e-mail from every address together, so new addresses buy a guesser at most a few more allowances.
+  const perAccount = rateLimit({ ...limiterOptions, limit: ctx.config.signInLimit * ACCOUNT_LIMIT_FACTOR, keyGenerator: (req) => `account|${emailOf(req)}` })
+  const signInLimiter: RequestHandler[] = [perAccount, perAddress]
 
-  router.post('/sign-in', signInLimiter, async (req, res) => {
+  router.post('/sign-in', ...signInLimiter, async (req, res) => {
     const { email, password } = parse(signInSchema, req, 'body')
     res.json(await auth.signIn(email, password))
   })
@@ -50,7 +59,7 @@ export function authRouter(ctx: AppContext, requireUser: ReturnType<typeof authe
   })
 
   // Same answer whether or not the address is known; rate-limited like sign-in.
-  router.post('/password-reset', signInLimiter, async (req, res) => {
+  router.post('/password-reset', ...signInLimiter, async (req, res) => {
     await passwordResetService(ctx).request(parse(passwordResetRequestSchema, req, 'body').email)
     res.status(202).json({ message: 'If that address belongs to an active account, a reset link is on its way' })
   })

@@ -2,7 +2,7 @@ import { Router, type Request } from 'express'
 import { z } from 'zod'
 import { idParamsSchema, idSchema } from '@shared/schemas/common'
 import {
-  careLogInputSchema, careLogQuerySchema, careTaskDoneSchema, careTaskInputSchema, careTaskSnoozeSchema, careTaskUpdateSchema, careTodayQuerySchema,
+  careLogInputSchema, careLogQuerySchema, careTaskDoneSchema, careTaskInputSchema, careTasksDoneSchema, careTaskSnoozeSchema, careTaskUpdateSchema, careTodayQuerySchema,
   livestockInputSchema, livestockUpdateSchema, waterChangeCancelSchema, waterChangeFinishSchema, waterChangePlanSchema, waterChangeStartSchema,
 } from '@shared/schemas/care'
 import { SPECIES } from '@shared/care/species'
@@ -63,7 +63,7 @@ export function careRoutes(ctx: AppContext) {
   return router
 }
 
-/** Mounted at the API root: /care-tasks/:id…, /water-changes/:id/finish|cancel, /care/today, /care/species. */
+/** Mounted at the API root: /care-tasks/done, /care-tasks/:id…, /water-changes/:id/finish|cancel, /care/today, /care/species. */
 export function careRouter(ctx: AppContext) {
   const router = Router()
   const tasks = careTasksService(ctx)
@@ -71,6 +71,9 @@ export function careRouter(ctx: AppContext) {
 
   router.patch('/care-tasks/:id', allow('care.manage'), async (req, res) => {
     res.json(await tasks.update(actorOf(req), id(req), parseChanges(careTaskUpdateSchema, req)))
+  })
+  router.post('/care-tasks/done', allow('care.write'), async (req, res) => {
+    res.json(await tasks.markManyDone(actorOf(req), parse(careTasksDoneSchema, req, 'body')))
   })
   router.post('/care-tasks/:id/done', allow('care.write'), async (req, res) => {
     res.json(await tasks.markDone(actorOf(req), id(req), parse(careTaskDoneSchema, req, 'body')))

@@ -21,6 +21,8 @@ import { photosRouter, tankPhotoRoutes } from './photos'
 import { reportRoutes, reportSchedulesRouter } from './reports'
 import { exportRoutes } from './exports'
 import { backupRouter } from './backup'
+import { buildRoutes } from './builds'
+import { maintenanceRouter, siteMaintenanceRoutes } from './maintenance'
 import { importSourcesRouter, importsRouter, siteImportRoutes, tankImportRoutes } from './imports'
 
 export const API_VERSION = '0.1.0'
@@ -40,12 +42,13 @@ export function apiRouter(ctx: AppContext) {
   router.use('/users', requireUser, usersRouter(ctx))
   // The wall answers wall displays too, so it is mounted ahead of the people-only /sites chain.
   router.use('/sites', wallRoute(ctx, authenticate(passport, ['user-jwt', 'wall-token'])))
-  router.use('/sites', requireUser, sitesRouter(ctx), siteRulesRoutes(ctx), rosterRoutes(ctx), siteWallCredentialRoutes(ctx), siteCareRoutes(ctx), exportRoutes(ctx, 'site'), siteImportRoutes(ctx))
+  router.use('/sites', requireUser, sitesRouter(ctx), siteRulesRoutes(ctx), rosterRoutes(ctx), siteWallCredentialRoutes(ctx), siteCareRoutes(ctx), exportRoutes(ctx, 'site'), siteImportRoutes(ctx), siteMaintenanceRoutes(ctx))
   router.use('/wall-credentials', requireUser, wallCredentialsRouter(ctx))
-  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx), tankRulesRoutes(ctx), careRoutes(ctx), tankPhotoRoutes(ctx), exportRoutes(ctx, 'tank'), tankImportRoutes(ctx))
+  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx), tankRulesRoutes(ctx), careRoutes(ctx), tankPhotoRoutes(ctx), exportRoutes(ctx, 'tank'), tankImportRoutes(ctx), buildRoutes(ctx))
   router.use('/test-kit-entries', requireUser, testKitEntriesRouter(ctx))
   router.use('/rules', requireUser, rulesRouter(ctx))
   router.use('/snoozes', requireUser, snoozesRouter(ctx))
+  router.use('/maintenance-windows', requireUser, maintenanceRouter(ctx))
   router.use('/incidents', requireUser, incidentsRouter(ctx))
   // careRouter carries its full paths (/care-tasks, /water-changes, /care), so it is mounted without a prefix.
   router.use(['/care-tasks', '/water-changes', '/care'], requireUser)

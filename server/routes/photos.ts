@@ -5,37 +5,24 @@ import { idParamsSchema } from '@shared/schemas/common'
 import { photoListQuerySchema, photoUploadFieldsSchema, type PhotoVariant } from '@shared/schemas/photos'
 import { actorOf, allow } from '../auth/middleware'
 import type { AppContext } from '../context'
-import { AppError, badRequest } from '../errors'
+import { multipartUpload } from '../http/upload'
 import { parse } from '../http/validate'
 import { photosService } from '../services/photos'
 
 const id = (req: Request) => parse(idParamsSchema, req, 'params').id
 export const PHOTO_FIELD = 'photo'
 
-/** One image in memory, size-capped; multer's own errors become our 400/413 answers. */
+/** One image in memory, size-capped; a missing image is the service's 400 (it names the accepted kinds). */
 function photoUpload(maxBytes: number): RequestHandler {
-  const upload = multer({
-    storage: multer.memoryStorage(),
-    limits: { fileSize: maxBytes, files: 1, fields: 10, fieldSize: 4096, parts: 12 },
-  }).single(PHOTO_FIELD)
   const megabytes = Math.round((maxBytes / (1024 * 1024)) * 10) / 10
-  return (req, res, next) => {
-    upload(req, res, (error: unknown) => {
-      if (!error) return next()
-      if (error instanceof multer.MulterError) {
-        if (error.code === 'LIMIT_FILE_SIZE') {
-          return next(new AppError(413, 'too_large', `photo: the image is larger than the ${megabytes} MB limit`, { photo: `larger than ${megabytes} MB` }))
-        }
-        if (error.code === 'LIMIT_UNEXPECTED_FILE' || error.code === 'LIMIT_FILE_COUNT') {
-          return next(badRequest(`photo: send one image, in the form field named "${PHOTO_FIELD}"`, { photo: `send one image in the field "${PHOTO_FIELD}"` }))
-        }
-        const field = error.field || 'body'
-        return next(badRequest(`${field}: ${error.message}`, { [field]: error.message }))
-      }
-      // A malformed multipart body (busboy) is the client's fault, not ours.
-      next(badRequest(`body: ${error instanceof Error ? error.message : 'unreadable multipart form'}`, { body: 'unreadable multipart form' }))
-    })
-  }
+  return multipartUpload({
+    field: PHOTO_FIELD,
+    maxBytes,
+    storage: multer.memoryStorage(),
+    fields: 10,
+    fieldSize: 4096,
+    tooLargeMessage: `photo: the image is larger than the ${megabytes} MB limit`,
+  })
 }
 
 /** Mounted under /tanks: a tank's photo timeline and uploads. */

@@ -11,7 +11,7 @@ export function readingsRouter(ctx: AppContext) {
     try {
       res.json(await ctx.readings.ingest.fromDevice(req.device!, req.body, { hold: false }))
     } catch (error) {
-      if (error instanceof MalformedMessageError) throw new AppError(400, 'invalid_message', error.message)
+      if (error instanceof MalformedMessageError) throw new AppError(400, 'invalid_message', error.message, { [error.field]: error.problem })
       if (error instanceof DatabaseUnavailableError || error instanceof BufferFullError) {
         throw new AppError(503, 'unavailable', 'Readings cannot be stored right now; send them again later', undefined, 5)
       }

@@ -6,10 +6,11 @@ import { actorOf, allow } from '../auth/middleware'
 import type { AppContext } from '../context'
 import { parse } from '../http/validate'
 import { testKitService } from '../services/test-kit'
+import { instantSchema } from '@shared/schemas/time'
 
 const rangeSchema = z.object({
-  from: z.iso.datetime({ offset: true }).optional(),
-  to: z.iso.datetime({ offset: true }).optional(),
+  from: instantSchema.optional(),
+  to: instantSchema.optional(),
 })
 
 /** Mounted under /tanks: the entries of one tank. */

@@ -1,11 +1,13 @@
 import { Op, QueryTypes } from 'sequelize'
+import { causeOf } from '@shared/rules/cause'
 import { evaluate, replay } from '@shared/rules/evaluate'
+import { windowCovers, type MaintenanceSpan } from '@shared/rules/maintenance'
 import { metricOfSpec } from '@shared/rules/schema'
 import type { RuleContext, RuleEvent, RuleState } from '@shared/rules/types'
 import { initialRuleState } from '@shared/rules/types'
 import type { AppContext } from '../context'
 import type { StoredReading } from '../events'
-import type { IncidentsService } from '../services/incidents'
+import { DEFAULT_SETTLE_MINUTES, type IncidentsService } from '../services/incidents'
 import { rulesService } from '../services/rules'
 import { remindEndingSnoozes } from '../services/snooze-reminders'
 import { ruleContextFor, snoozeCovers } from './tank-context'
@@ -17,15 +19,26 @@ type EngineRule = {
   spec: import('@shared/rules/schema').WatchRuleSpec
   metric: string
   tank: { id: number; siteId: number; organizationId: number }
+  timeZone: string
   ctx: RuleContext
+  /** Rules of the same condition on the same tank (a warning and an alarm level) share one incident. */
+  ladderKey: string
 }
 
 type Slot = { rule: EngineRule; state: RuleState; incidentId: number | null; lastWrite: number }
+type Window = MaintenanceSpan & { siteId: number; tankId: number | null; ruleId: number | null }
+
+const RANK = { warning: 0, alarm: 1 } as const
 
 // How far past a rule's own window the rebuild reads, so a trip during up to two hours without an
 // engine still opens at the moment it happened (longer outages open it when the engine returns).
 const LOOKBACK_PAD_MS = 2 * 3600_000
 const TOUCH_EVERY_MS = 60_000
+// A flap back that lasts this long is no longer a flap: it is mailed again (`common practice`).
+const RECHECK_MIN_MS = 5 * 60_000
+
+const settleMsOf = (rule: EngineRule) => (rule.spec.settleMinutes ?? DEFAULT_SETTLE_MINUTES) * 60_000
+const recheckMsOf = (rule: EngineRule) => Math.max('holdMinutes' in rule.spec ? rule.spec.holdMinutes * 60_000 : 0, RECHECK_MIN_MS)
 
 /** How far back a rule needs stored readings to rebuild its state. */
 function lookbackMs(rule: EngineRule): number {
@@ -43,6 +56,8 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
   const now = options.now ?? Date.now
   const slots = new Map<string, Slot>() // `${ruleId}:${tankId}`
   const byTankMetric = new Map<string, Slot[]>() // `${tankId}:${metric}`
+  const ladders = new Map<string, Slot[]>()
+  let windows: Window[] = []
   let snoozes: Array<{ tankId: number; window: Parameters<typeof snoozeCovers>[0] }> = []
   let queue: StoredReading[] = []
   let chain: Promise<void> = Promise.resolve()
@@ -71,6 +86,8 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
       rules.push({
         id: rule.id, name: rule.name, severity: rule.severity, spec: rule.spec, metric,
         tank: { id: tank.id, siteId: tank.siteId, organizationId: tank.organizationId },
+        timeZone: tank.site?.timeZone ?? 'UTC',
+        ladderKey: `${tank.id}:${rule.spec.kind}:${metric}`,
         ctx: ruleContextFor({ heater: tank.heater, lightSchedule: tank.lightSchedule, timeZone: tank.site?.timeZone ?? 'UTC' }),
       })
     }
@@ -82,6 +99,25 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
     snoozes = rows.map((s) => ({ tankId: s.tankId, window: s }))
   }
 
+  async function loadWindows() {
+    const rows = await ctx.models.MaintenanceWindow.findAll({ where: { cancelledAt: null, [Op.or]: [{ endsAt: null }, { endsAt: { [Op.gt]: new Date(now() - 86400_000) } }] } })
+    const ms = (d: Date | null) => (d ? d.getTime() : null)
+    windows = rows.map((w) => ({ siteId: w.siteId, tankId: w.tankId, ruleId: w.ruleId, startsAt: ms(w.startsAt), endsAt: ms(w.endsAt), weekday: w.weekday, startMinute: w.startMinute, durationMinutes: w.durationMinutes }))
+  }
+
+  /** Inside a maintenance window for its site, its tank or itself. */
+  function inMaintenance(rule: { id: number; tankId: number; siteId: number }, timeZone: string, at: number) {
+    return windows.some((w) => w.siteId === rule.siteId && (w.tankId === null || w.tankId === rule.tankId) && (w.ruleId === null || w.ruleId === rule.id) && windowCovers(w, at, timeZone))
+  }
+
+  /** Incidents opened during maintenance whose window is over while they still hold: tell people now. */
+  async function endMaintenances(at: number) {
+    const held = await ctx.models.Incident.findAll({ where: { maintenance: true, state: { [Op.ne]: 'resolved' } }, include: [{ association: 'site', attributes: ['timeZone'] }] })
+    for (const i of held) {
+      if (!inMaintenance({ id: i.ruleId ?? -1, tankId: i.tankId, siteId: i.siteId }, (i as typeof i & { site?: { timeZone: string } }).site?.timeZone ?? 'UTC', at)) await incidents.endMaintenance(i.id, at)
+    }
+  }
+
   function isSnoozed(rule: EngineRule, at: number) {
     const heaterAlarm = rule.spec.kind === 'heater_line' && rule.severity === 'alarm'
     return snoozes.some((s) => s.tankId === rule.tank.id && snoozeCovers(s.window, at) && (!heaterAlarm || s.window.includeHeaterLine))
@@ -91,34 +127,45 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
   async function rebuild() {
     const rules = await loadRules()
     await loadSnoozes()
+    await loadWindows()
     const open = await ctx.models.Incident.findAll({ where: { state: { [Op.ne]: 'resolved' } } })
-    const openBySlot = new Map(open.map((i) => [`${i.ruleId}:${i.tankId}`, i]))
     slots.clear()
     byTankMetric.clear()
+    ladders.clear()
     const t = now()
     const history = await loadHistory(rules, t)
+    const trips = new Map<Slot, RuleEvent>()
     for (const rule of rules) {
-      const key = `${rule.id}:${rule.tank.id}`
       const readings = history.get(`${rule.tank.id}:${rule.metric}`) ?? []
       const since = t - lookbackMs(rule)
       const { state, events } = replay(rule.spec, readings.filter((r) => r.at >= since), t, rule.ctx)
-      const incident = openBySlot.get(key)
-      const slot: Slot = { rule, state, incidentId: incident?.id ?? null, lastWrite: 0 }
+      const slot: Slot = { rule, state, incidentId: null, lastWrite: 0 }
+      const trip = [...events].reverse().find((e) => e.type === 'trip')
+      if (state.status === 'tripped' && trip) trips.set(slot, trip)
+      addSlot(`${rule.id}:${rule.tank.id}`, slot)
+    }
+    for (const ladder of ladders.values()) {
+      const ids = new Set(ladder.map((s) => s.rule.id))
+      const incident = open.find((i) => i.tankId === ladder[0].rule.tank.id && i.ruleId !== null && ids.has(i.ruleId))
+      const tripped = ladder.filter((s) => s.state.status === 'tripped')
       if (incident) {
-        openBySlot.delete(key)
+        for (const s of tripped) s.incidentId = incident.id
+        if (tripped.length) continue
         // Resolve only on evidence: readings that show it cleared. No readings in the window says nothing.
-        if (state.status === 'clear' && state.lastReadingAt !== undefined) {
-          await incidents.resolveAutomatically(incident.id, t, state.lastValue, 'Cleared while the engine was stopped')
-          slot.incidentId = null
+        const own = ladder.find((s) => s.rule.id === incident.ruleId) ?? ladder[0]
+        if (ladder.some((s) => s.state.lastReadingAt !== undefined)) {
+          await incidents.resolveAutomatically(incident.id, t, own.state.lastValue, 'Cleared while the engine was stopped', settleMsOf(own.rule))
         } else {
-          slot.state = { ...state, status: 'tripped', since: incident.openedAt.getTime(), peakValue: incident.peakValue ?? state.lastValue }
+          own.state = { ...own.state, status: 'tripped', since: incident.openedAt.getTime(), peakValue: incident.peakValue ?? own.state.lastValue }
+          own.incidentId = incident.id
         }
-      } else if (state.status === 'tripped') {
-        // It tripped while the engine was stopped: open it now, at the time it tripped.
-        const trip = [...events].reverse().find((e) => e.type === 'trip')
-        if (trip && trip.type === 'trip') await handle(slot, trip)
+      } else {
+        // It tripped while the engine was stopped: open it now, at the time it tripped (the lower level first).
+        for (const s of tripped.sort((a, b) => RANK[a.rule.severity] - RANK[b.rule.severity])) {
+          const trip = trips.get(s)
+          if (trip) await handle(s, trip)
+        }
       }
-      addSlot(key, slot)
     }
     // Incidents whose rule is gone or disabled are left for people to resolve.
   }
@@ -129,6 +176,9 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
     const list = byTankMetric.get(k) ?? []
     list.push(slot)
     byTankMetric.set(k, list)
+    const ladder = ladders.get(slot.rule.ladderKey) ?? []
+    ladder.push(slot)
+    ladders.set(slot.rule.ladderKey, ladder)
   }
 
   async function loadHistory(rules: EngineRule[], t: number) {
@@ -162,22 +212,41 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
   }
 
   async function handle(slot: Slot, event: RuleEvent) {
+    const { rule } = slot
+    const ladder = ladders.get(rule.ladderKey) ?? [slot]
     if (event.type === 'trip') {
-      const opened = await incidents.open({ rule: slot.rule, tank: slot.rule.tank, at: event.at, since: event.since, value: event.value, snoozed: isSnoozed(slot.rule, event.at) })
-      if (opened) slot.incidentId = opened.id
-      else {
-        const existing = await ctx.models.Incident.findOne({ where: { ruleId: slot.rule.id, tankId: slot.rule.tank.id, state: { [Op.ne]: 'resolved' } } })
-        slot.incidentId = existing?.id ?? null
-      }
+      const incident = await incidents.trip({
+        rule, tank: rule.tank, at: event.at, since: event.since, value: event.value, snoozed: isSnoozed(rule, event.at),
+        ladder: ladder.map((s) => s.rule.id), settleMs: settleMsOf(rule), recheckMs: recheckMsOf(rule),
+        maintenance: inMaintenance({ id: rule.id, tankId: rule.tank.id, siteId: rule.tank.siteId }, rule.timeZone, event.at),
+        cause: causeOf(rule.spec, event.value),
+      })
+      slot.incidentId = incident.id
     } else if (event.type === 'update' && slot.incidentId) {
       if (event.at - slot.lastWrite >= TOUCH_EVERY_MS) {
         slot.lastWrite = event.at
         await incidents.touch(slot.incidentId, event.value, event.peak, event.at)
       }
     } else if (event.type === 'clear' && slot.incidentId) {
-      await incidents.resolveAutomatically(slot.incidentId, event.at, event.value)
+      const incidentId = slot.incidentId
       slot.incidentId = null
+      const still = ladder.filter((s) => s.incidentId === incidentId && s.state.status === 'tripped')
+      if (!still.length) {
+        await incidents.resolveAutomatically(incidentId, event.at, event.value, undefined, settleMsOf(rule))
+        return
+      }
+      const top = still.reduce((a, b) => (RANK[b.rule.severity] > RANK[a.rule.severity] ? b : a))
+      if (RANK[rule.severity] > RANK[top.rule.severity]) await incidents.lower(incidentId, top.rule.severity, top.rule.name, event.at)
     }
+  }
+
+  /** Resolved by hand while the condition still holds: the incident reopens at once. */
+  const onIncidentChanged = ({ incidentId, state }: { incidentId: number; state: string }) => {
+    if (!running || state !== 'resolved') return
+    void serial(async () => {
+      const holding = [...slots.values()].some((s) => s.incidentId === incidentId && s.state.status === 'tripped')
+      if (holding) await incidents.reopenStillHolding(incidentId, now())
+    })
   }
 
   async function step(slot: Slot, input: Parameters<typeof evaluate>[2]) {
@@ -215,23 +284,27 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
       running = true
       ctx.events.on('readings.stored', onStored)
       ctx.events.on('rules.changed', onRulesChanged)
+      ctx.events.on('incident.changed', onIncidentChanged)
       await serial(rebuild)
     },
     async stop() {
       running = false
       ctx.events.off('readings.stored', onStored)
       ctx.events.off('rules.changed', onRulesChanged)
+      ctx.events.off('incident.changed', onIncidentChanged)
       await chain
     },
     /** Hold times, quiet rules and escalations: called on a timer, or by tests with their clock. */
     tick(at = now()) {
       return serial(async () => {
         for (const slot of slots.values()) await step(slot, { type: 'tick', at })
+        await endMaintenances(at)
         await incidents.processDue(at)
         await remindEndingSnoozes(ctx, at)
       })
     },
     reloadSnoozes: () => serial(loadSnoozes),
+    reloadWindows: () => serial(loadWindows),
     /** Waits until everything queued so far has been evaluated. */
     settle: () => serial(async () => {}),
     stateOf(ruleId: number, tankId: number) {

@@ -2,20 +2,29 @@ import { Op, QueryTypes, type Transaction } from 'sequelize'
 import { METRICS, isMetricKey } from '@shared/metrics/registry'
 import type { AppContext } from '../context'
 import { enqueueMail } from '../mail/outbox'
+import { describeMeasurement } from '@shared/rules/measurement'
 import {
-  ELECTRICAL_SAFETY_CAUTION, TREND_CID, deviceBack, incidentEscalated, incidentOpened, incidentRepeat, incidentResolved, type IncidentMailInput,
+  ELECTRICAL_SAFETY_CAUTION, TREND_CID, deviceBack, incidentEscalated, incidentOpened, incidentRaised, incidentReopened, incidentReopenedToResolver,
+  incidentRepeat, incidentResolved, type IncidentMailInput,
 } from '../mail/templates'
+import { SITE_FIRST_STEPS, siteIncidentMail } from '../mail/templates/site-incident'
 import { renderTrendPng } from '../mail/trend-chart'
-import type { Incident } from '../models'
+import type { Incident, SiteIncident } from '../models'
 import { ackLinksService } from '../services/ack-links'
 import { dutyRecipients } from '../services/roster'
-import type { IncidentNotifier, NotifyKind } from './notifier'
-import { needsElectricalCaution, whatToCheck } from './what-to-check'
+import type { IncidentNotifier, NotifyKind, NotifyOptions } from './notifier'
+import { firstStep, needsElectricalCaution, whatToCheck } from './what-to-check'
 
 type Person = { userId: number | null; name: string; email: string }
 
-const TEMPLATES = { opened: incidentOpened, escalated: incidentEscalated, repeated: incidentRepeat, resolved: incidentResolved }
-const MAIL_KIND = { opened: 'incident_opened', escalated: 'incident_escalated', repeated: 'incident_repeat', resolved: 'incident_resolved' } as const
+const TEMPLATES = {
+  opened: incidentOpened, escalated: incidentEscalated, repeated: incidentRepeat, resolved: incidentResolved,
+  raised: incidentRaised, reopened: incidentReopened, resolver: incidentReopenedToResolver,
+}
+const MAIL_KIND = {
+  opened: 'incident_opened', escalated: 'incident_escalated', repeated: 'incident_repeat', resolved: 'incident_resolved',
+  raised: 'incident_raised', reopened: 'incident_reopened', resolver: 'incident_reopened',
+} as const
 
 /**
  * Alert mails: on open, whoever is on duty (or the backup); escalations and repeats add the backup
@@ -42,10 +51,17 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
     })
   }
 
-  async function recipients(kind: NotifyKind, incident: Incident, transaction: Transaction): Promise<Person[]> {
+  async function recipients(kind: NotifyKind, incident: Incident, transaction: Transaction, options: NotifyOptions): Promise<Person[]> {
     if (kind === 'resolved') return alreadyTold(incident.id, transaction)
+    if (kind === 'resolver') {
+      const user = options.userId ? await models.User.findByPk(options.userId, { transaction }) : null
+      return user?.active ? [{ userId: user.id, name: user.name, email: user.email }] : []
+    }
     const duty = (await dutyRecipients(ctx, incident.siteId)).map((d) => ({ userId: d.userId, name: d.name, email: d.email }))
-    const list = kind === 'opened' ? duty : [...duty, ...(await owners(incident.organizationId, transaction))]
+    // A rise in severity or a flap that held goes to whoever is on duty and whoever was told before.
+    const list = kind === 'opened' ? duty
+      : kind === 'raised' || kind === 'reopened' ? [...duty, ...(await alreadyTold(incident.id, transaction))]
+        : [...duty, ...(await owners(incident.organizationId, transaction))]
     return [...new Map(list.map((p) => [p.email, p])).values()]
   }
 
@@ -58,8 +74,8 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
   }
 
   return {
-    async notify(kind, incident, transaction) {
-      const people = await recipients(kind, incident, transaction)
+    async notify(kind, incident, transaction, options = {}) {
+      const people = await recipients(kind, incident, transaction, options)
       if (!people.length) return []
       const [tank, site, organization] = await Promise.all([
         models.Tank.findByPk(incident.tankId, { transaction }),
@@ -71,9 +87,14 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
       const points = await trend(incident, transaction)
       const band = tank?.targets?.[incident.metric as keyof typeof tank.targets]
       const trendPng = points.length > 1
-        ? await renderTrendPng({ points, band: band ?? undefined, title: `${def?.label ?? incident.metric}, last 6 h`, unitLabel: def?.unitLabel ?? '', timeZone: site?.timeZone ?? 'UTC' })
+        ? await renderTrendPng({ points, band: band ?? undefined, title: `${def?.label ?? incident.metric}, last 6 h`, window: { from: Date.now() - 6 * 3600_000, to: Date.now() }, unitLabel: def?.unitLabel ?? '', timeZone: site?.timeZone ?? 'UTC' })
         : undefined
-      const serial = kind === 'escalated' ? `level-${incident.escalationLevel}` : kind === 'repeated' ? (incident.nextRepeatAt?.toISOString() ?? String(Date.now())) : 'once'
+      const serial = kind === 'escalated' ? `level-${incident.escalationLevel}`
+        : kind === 'repeated' ? (incident.nextRepeatAt?.toISOString() ?? String(Date.now()))
+          : kind === 'raised' ? incident.severity
+            : kind === 'reopened' || kind === 'resolver' ? `flap-${incident.flapCount}-${Date.now()}`
+              : options.afterMaintenance ? 'after-maintenance' : 'once'
+      const measurement = describeMeasurement({ spec: rule?.spec ?? null, metric: incident.metric, value: incident.latestValue ?? incident.firstValue, heaterTopCm: tank?.heater?.topCm })
       for (const person of people) {
         const acknowledgeUrl = kind !== 'resolved' && person.userId ? await ackLinksService(ctx).create(incident.id, person.userId, transaction) : undefined
         const input: IncidentMailInput = {
@@ -93,6 +114,10 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
           trendPng,
           safetyCaution: rule && needsElectricalCaution(rule.spec, incident.metric) ? ELECTRICAL_SAFETY_CAUTION : undefined,
           at: kind === 'opened' ? undefined : new Date().toISOString(),
+          measurement,
+          firstStep: rule ? firstStep(rule.spec, incident.metric, incident.latestValue) : undefined,
+          note: options.afterMaintenance ? 'It opened during a maintenance window, which has ended while it still holds.'
+            : incident.flapCount ? `It has cleared and come back ${incident.flapCount} ${incident.flapCount === 1 ? 'time' : 'times'}.` : undefined,
         }
         // A quiet sensor that reports again is news of its own: "back", not just "resolved".
         const backOnline = kind === 'resolved' && incident.ruleKind === 'quiet'
@@ -105,6 +130,36 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
           },
           { transaction },
         )
+      }
+      return people.map((p) => p.email)
+    },
+
+    async notifySite(kind, siteIncident: SiteIncident, transaction) {
+      const duty = (await dutyRecipients(ctx, siteIncident.siteId)).map((d) => ({ userId: d.userId, name: d.name, email: d.email }))
+      const list = kind === 'opened' ? duty : [...duty, ...(await owners(siteIncident.organizationId, transaction))]
+      const people = [...new Map(list.map((p) => [p.email, p])).values()]
+      if (!people.length) return []
+      const [site, organization, linked] = await Promise.all([
+        models.Site.findByPk(siteIncident.siteId, { transaction }),
+        models.Organization.findByPk(siteIncident.organizationId, { transaction }),
+        models.Incident.findAll({ where: { siteIncidentId: siteIncident.id }, include: [{ association: 'tank', attributes: ['name', 'heater'] }], order: [['id', 'ASC']], transaction }),
+      ])
+      const rules = await models.WatchRule.findAll({ where: { id: linked.map((i) => i.ruleId).filter((id): id is number => id !== null) }, transaction })
+      const tanks = linked.map((i) => {
+        const tank = (i as Incident & { tank?: { name: string; heater: { topCm: number } | null } }).tank
+        const spec = rules.find((r) => r.id === i.ruleId)?.spec ?? null
+        return `${tank?.name ?? `Tank ${i.tankId}`}: ${describeMeasurement({ spec, metric: i.metric, value: i.latestValue, heaterTopCm: tank?.heater?.topCm })}`
+      })
+      const mail = siteIncidentMail({
+        organizationName: organization?.name ?? '', siteName: site?.name ?? '', siteTimeZone: site?.timeZone ?? 'UTC',
+        title: siteIncident.title, severity: siteIncident.severity, tanks, firstStep: SITE_FIRST_STEPS[siteIncident.cause] ?? 'First: go and look at the tanks.',
+        openedAt: siteIncident.openedAt.toISOString(), incidentsUrl: `${config.publicUrl}/incidents?siteId=${siteIncident.siteId}`, escalated: kind === 'escalated',
+      })
+      for (const person of people) {
+        await enqueueMail(ctx, {
+          kind: kind === 'opened' ? 'site_incident_opened' : 'site_incident_escalated', to: person.email, subject: mail.subject, text: mail.text, html: mail.html,
+          organizationId: siteIncident.organizationId, incidentId: null, dedupeKey: `site_incident:${siteIncident.id}:${kind}:${siteIncident.escalationLevel}:${person.email}`,
+        }, { transaction })
       }
       return people.map((p) => p.email)
     },

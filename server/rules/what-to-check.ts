@@ -31,3 +31,34 @@ export function whatToCheck(spec: WatchRuleSpec, metric: string): string[] {
 export function needsElectricalCaution(spec: WatchRuleSpec, metric: string) {
   return spec.kind === 'heater_line' || metric === 'temperature' || metric === 'water_level'
 }
+
+/**
+ * The one thing to do first, for the first line of an alert mail: the trade's usual first
+ * response to each kind of rule (`common practice`, not a published protocol). Heater and level
+ * lines go with the electrical caution, which defers to local codes and a licensed electrician.
+ */
+export function firstStep(spec: WatchRuleSpec, metric: string, value: number | null): string {
+  switch (spec.kind) {
+    case 'heater_line':
+      return 'First: switch the heater off at the socket (dry hands), then find what is lowering the water and top it up.'
+    case 'quiet':
+      return 'First: look at the tank yourself (by eye and with a thermometer), then check the sensor node’s power and network.'
+    case 'light_schedule':
+      return 'First: check the light’s timer and its plug.'
+    case 'rate':
+      return metric === 'ph'
+        ? 'First: test pH and KH with a test kit before dosing or changing water.'
+        : `First: confirm the ${metric.replace('_', ' ')} with a second instrument before acting.`
+    default: {
+      if (metric === 'temperature') {
+        const hot = spec.kind === 'above' || (spec.kind === 'outside' && value !== null && value > spec.max)
+        return hot
+          ? 'First: if the heater is stuck on, switch it off at the socket (dry hands) and check it is fully submerged.'
+          : 'First: check the heater has power and its light is on, and whether the room has lost power.'
+      }
+      if (metric === 'water_level') return 'First: stop any draining, and switch heaters off at the socket before the water falls below them.'
+      if (metric === 'ammonia' || metric === 'nitrite') return 'First: stop feeding and confirm with a test kit; a partial water change is the usual next step.'
+      return `First: confirm the ${metric.replace('_', ' ')} with a test kit before acting.`
+    }
+  }
+}

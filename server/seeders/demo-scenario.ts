@@ -20,6 +20,11 @@ export const DEMO_USERS = [
   { email: 'viewer@marrowfen.example', name: 'Tobias Quillfeather', role: 'viewer', sites: ['fishroom'] },
 ] as const
 
+/** The sensor node of each demo tank; the simulator finds it by this name and sends as it. */
+export const DEMO_NODE_NAME = 'Simulated node'
+/** What the simulator reports at by default (its --interval). */
+export const DEMO_NODE_INTERVAL_SECONDS = 10
+
 type DemoTank = Omit<TankInput, 'siteId'> & { site: 'shop' | 'fishroom' }
 
 const rect = (lengthCm: number, widthCm: number, heightCm: number) =>
@@ -31,7 +36,7 @@ export const DEMO_TANKS: DemoTank[] = [
   { ...base, site: 'shop', name: 'Display 1 — community', kind: 'tropical_freshwater', stage: 'established', dimensions: rect(120, 45, 55), heater: { watts: 300, setPointC: 26, topCm: 30 }, lightSchedule: { on: '09:00', off: '20:00' }, filter: 'External canister', media: 'Sponge, ceramic rings, carbon', sortOrder: 1 },
   { ...base, site: 'shop', name: 'Display 2 — planted scape', kind: 'planted', stage: 'established', dimensions: rect(90, 45, 45), heater: { watts: 200, setPointC: 25, topCm: 24 }, lightSchedule: { on: '10:00', off: '18:00' }, filter: 'External canister', media: 'Sponge, sintered glass', sortOrder: 2 },
   { ...base, site: 'shop', name: 'Sales row A1', kind: 'tropical_freshwater', stage: 'established', dimensions: rect(60, 40, 40), heater: { watts: 100, setPointC: 25.5, topCm: 22 }, lightSchedule: { on: '09:00', off: '19:00' }, filter: 'Sponge (air-driven)', sortOrder: 3 },
-  { ...base, site: 'shop', name: 'Sales row A2', kind: 'tropical_freshwater', stage: 'cycling', dimensions: rect(60, 40, 40), heater: { watts: 100, setPointC: 25.5, topCm: 22 }, lightSchedule: { on: '09:00', off: '19:00' }, filter: 'Sponge (air-driven)', notes: 'Set up last week; fishless cycle running.', sortOrder: 4 },
+  { ...base, site: 'shop', name: 'Sales row A2', kind: 'tropical_freshwater', stage: 'cycling', dimensions: rect(60, 40, 40), heater: { watts: 100, setPointC: 25.5, topCm: 22 }, lightSchedule: { on: '09:00', off: '19:00' }, filter: 'Sponge (air-driven)', notes: 'Set up a month ago; fishless cycle running.', sortOrder: 4 },
   { ...base, site: 'shop', name: 'Goldfish bowl front', kind: 'coldwater', stage: 'established', dimensions: { shape: 'bow_front', lengthCm: 100, widthCm: 35, bowCm: 10, heightCm: 50 }, heater: null, lightSchedule: { on: '09:00', off: '19:00' }, filter: 'Hang-on-back', sortOrder: 5 },
   { ...base, site: 'shop', name: 'Reef display', kind: 'marine', stage: 'established', dimensions: rect(150, 60, 60), heater: { watts: 2 * 300, setPointC: 25.5, topCm: 35 }, lightSchedule: { on: '11:00', off: '21:00' }, filter: 'Sump with protein skimmer', media: 'Live rock, filter floss', sortOrder: 6 },
   { ...base, site: 'fishroom', name: 'Quarantine Q1', kind: 'tropical_freshwater', stage: 'quarantine', dimensions: rect(80, 35, 40), heater: { watts: 150, setPointC: 26.5, topCm: 25 }, lightSchedule: { on: '08:00', off: '16:00' }, filter: 'Sponge (air-driven)', notes: 'Arrivals held here before the shop floor.', sortOrder: 1 },

@@ -1,9 +1,14 @@
 import bcrypt from 'bcryptjs'
 import type { AppContext } from '../context'
 import { tanksService } from '../services/tanks'
+import { seedDemoBuild } from './demo-build'
+import { seedDemoHistory } from './demo-history'
 import { DEMO_ORGANIZATION, DEMO_PASSWORD, DEMO_ROSTER, DEMO_SITES, DEMO_TANKS, DEMO_USERS } from './demo-scenario'
 
-/** Seeds the demo scenario into an empty database; does nothing when any organization exists. */
+/**
+ * Seeds the demo scenario into an empty database, with a month of its history (see
+ * demo-history/); does nothing when any organization exists.
+ */
 export async function seedDemoIfEmpty(ctx: AppContext): Promise<boolean> {
   const { models, sequelize } = ctx
   if ((await models.Organization.count()) > 0) return false
@@ -50,6 +55,11 @@ export async function seedDemoIfEmpty(ctx: AppContext): Promise<boolean> {
     const siteName = DEMO_SITES.find((s) => s.key === site)!.name
     await tanks.create(actor, { ...tank, siteId: siteIds.get(siteName)! })
   }
+  const history = await seedDemoHistory(ctx)
+  ctx.logger.info(history, 'demo history seeded')
+  // One tank mid-build, after the history: its own readings are the cycling tests of its timeline.
+  const fishRoom = DEMO_SITES.find((s) => s.key === 'fishroom')!
+  await seedDemoBuild(ctx, { actor, siteId: siteIds.get(fishRoom.name)! })
   return true
 }
 

@@ -16,6 +16,29 @@ export function ackLinksService(ctx: AppContext) {
     return link
   }
 
+  /** The incident as the page shows it; times are shown in the site's zone, so the zone comes along. */
+  async function presentIncident(incidentId: number) {
+    const incident = await models.Incident.findByPk(incidentId, {
+      include: [{ association: 'tank', attributes: ['name'] }, { association: 'site', attributes: ['name', 'timeZone'] }],
+    })
+    if (!incident) throw notFound('The incident no longer exists')
+    const joined = incident as unknown as { tank?: { name: string }; site?: { name: string; timeZone: string } }
+    const names = new Map(
+      (await models.User.findAll({ attributes: ['id', 'name'], where: { id: [incident.acknowledgedBy, incident.resolvedBy].filter((id): id is number => id != null) } }))
+        .map((u) => [u.id, u.name]),
+    )
+    const person = (id: number | null | undefined) => (id == null ? null : { name: names.get(id) ?? 'former user' })
+    return {
+      id: incident.id, title: incident.title, severity: incident.severity, state: incident.state,
+      tankName: joined.tank?.name ?? '', siteName: joined.site?.name ?? '', timeZone: joined.site?.timeZone ?? 'UTC',
+      openedAt: incident.openedAt.toISOString(),
+      acknowledgedAt: incident.acknowledgedAt?.toISOString() ?? null,
+      acknowledgedBy: person(incident.acknowledgedBy),
+      resolvedAt: incident.resolvedAt?.toISOString() ?? null,
+      resolvedBy: person(incident.resolvedBy),
+    }
+  }
+
   return {
     async create(incidentId: number, userId: number, transaction?: Transaction) {
       const { token, hash } = newSecretToken()
@@ -28,10 +51,8 @@ export function ackLinksService(ctx: AppContext) {
 
     async describe(token: string) {
       const link = await find(token)
-      const incident = await models.Incident.findByPk(link.incidentId, { include: [{ association: 'tank', attributes: ['name'] }] })
-      if (!incident) throw notFound('The incident no longer exists')
       return {
-        incident: { id: incident.id, title: incident.title, severity: incident.severity, state: incident.state, tankName: (incident as unknown as { tank?: { name: string } }).tank?.name ?? '', openedAt: incident.openedAt.toISOString() },
+        incident: await presentIncident(link.incidentId),
         usedAt: link.usedAt?.toISOString() ?? null,
         expiresAt: link.expiresAt.toISOString(),
         expired: link.expiresAt.getTime() <= Date.now(),
@@ -40,8 +61,8 @@ export function ackLinksService(ctx: AppContext) {
 
     /** Acknowledges as the person the mail went to; the link works once. */
     async use(token: string, note: string) {
-      return sequelize.transaction(async (transaction) => {
-        const link = await find(token)
+      const link = await find(token)
+      const outcome = await sequelize.transaction(async (transaction) => {
         await link.reload({ lock: transaction.LOCK.UPDATE, transaction })
         if (link.usedAt) throw new AppError(409, 'link_used', `This link was already used on ${link.usedAt.toISOString()}`)
         if (link.expiresAt.getTime() <= Date.now()) throw new AppError(410, 'link_expired', 'This link has expired; acknowledge in the app')
@@ -57,6 +78,8 @@ export function ackLinksService(ctx: AppContext) {
         )
         return { state: 'acknowledged', alreadyHandled: false }
       })
+      // What the page shows afterwards: who acknowledged it and when, whoever that was.
+      return { ...outcome, incident: await presentIncident(link.incidentId) }
     },
   }
 }

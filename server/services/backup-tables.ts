@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { instantSchema } from '@shared/schemas/time'
 
 /**
  * What an organization backup holds, table by table, in the order a restore inserts them.
@@ -94,6 +95,18 @@ export const BACKUP_TABLES = [
     },
   },
   {
+    table: 'tank_builds', hasId: true, order: 'id',
+    columns: { tank_id: '->tanks', plan: 'json', filled_on: 'date?', finished_at: 'time?', created_by: '->users?' },
+  },
+  {
+    table: 'build_steps', hasId: true, order: 'id',
+    scope: 'build_id IN (SELECT id FROM tank_builds WHERE organization_id = :organizationId)',
+    columns: {
+      build_id: '->tank_builds', tank_id: '->tanks', key: 'text', title: 'text', day: 'int', until_day: 'int?', due_on: 'date',
+      care_task_id: '->care_tasks?', done_at: 'time?', done_by: '->users?', notes: 'text',
+    },
+  },
+  {
     table: 'water_changes', hasId: true, order: 'id', deferred: ['care_log_entry_id'],
     columns: {
       tank_id: '->tanks', status: 'text', plan: 'json', heater_off_confirmed: 'bool', temporary_rule_id: '->watch_rules?',
@@ -145,7 +158,7 @@ export function referenceOf(column: Column): { table: string; nullable: boolean 
 }
 
 const MAX_TEXT = 100_000
-const instant = z.iso.datetime({ offset: true })
+const instant = instantSchema
 const KIND_SCHEMAS: Record<Kind, z.ZodType> = {
   text: z.string().max(MAX_TEXT),
   int: z.number().int(),

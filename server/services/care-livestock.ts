@@ -46,7 +46,7 @@ export async function tankWatchUntil(ctx: AppContext, tankIds: number[], now = n
 }
 
 /** Kit readings stored together (one entry, one time) make one test. */
-function groupTests(rows: Awaited<ReturnType<typeof nitrogenReadings>>): KitTest[] {
+export function groupTests(rows: Awaited<ReturnType<typeof nitrogenReadings>>): KitTest[] {
   const tests = new Map<string, KitTest>()
   for (const r of rows) {
     const at = new Date(r.time).getTime()

@@ -1,7 +1,7 @@
 import { Op, type Transaction } from 'sequelize'
 import { CARE_TASK_KIND_TITLES, defaultCareTasksFor, type CareTaskKind } from '@shared/care/defaults'
 import { byUrgency, careDue, type CareDue } from '@shared/care/due'
-import type { CareTaskDone, CareTaskInput, CareTaskUpdate } from '@shared/schemas/care'
+import type { CareTaskDone, CareTaskInput, CareTasksDone, CareTaskUpdate } from '@shared/schemas/care'
 import type { UserActor } from '../auth/actor'
 import { tanksToWatch } from '../care/tanks-to-watch'
 import type { AppContext } from '../context'
@@ -127,6 +127,11 @@ export function careTasksService(ctx: AppContext) {
     }))
   }
 
+  async function isOnDutyAt(actor: UserActor, siteId: number, now: Date) {
+    const { onDuty } = await whoIsOnDuty(ctx, siteId, now)
+    return onDuty.some((p) => p.userId === actor.userId)
+  }
+
   return {
     async listForTank(actor: UserActor, tankId: number, now = new Date()) {
       const tank = (await tanks.find(actor, tankId)) as TankWithSite
@@ -171,6 +176,55 @@ export function careTasksService(ctx: AppContext) {
       return { task: presentTask(task, zoneOf(tank), new Date()), logEntry: (await presentCareLog(ctx, [entry]))[0] }
     },
 
+    /**
+     * Several tasks done now, in one transaction: an unknown or switched-off task refuses the lot.
+     * Rows are locked in id order, so two people ticking overlapping sets wait for each other, and
+     * a task ticked since the caller saw it comes back `already_done` with who and when, unlogged.
+     */
+    async markManyDone(actor: UserActor, input: CareTasksDone) {
+      const at = new Date()
+      const ids = input.tasks.map((t) => t.id)
+      const done = await sequelize.transaction(async (transaction) => {
+        const rows = await models.CareTask.findAll({
+          where: { id: ids, organizationId: actor.organizationId }, order: [['id', 'ASC']], lock: transaction.LOCK.UPDATE, transaction,
+        })
+        const byId = new Map(rows.map((r) => [r.id, r]))
+        const outcomes: Array<{ task: CareTask; tank: TankWithSite; outcome: 'done' | 'already_done' }> = []
+        for (const [index, seen] of input.tasks.entries()) {
+          const task = byId.get(seen.id)
+          if (!task) throw notFound(`Care task ${seen.id} not found`)
+          const tank = (await tanks.find(actor, task.tankId)) as TankWithSite
+          if (!task.active) throw badRequest(`tasks.${index}.id: this task is switched off`, { [`tasks.${index}.id`]: 'this task is switched off' })
+          const seenAt = seen.seenLastDoneAt ? new Date(seen.seenLastDoneAt) : null
+          if (task.lastDoneAt && (!seenAt || task.lastDoneAt > seenAt)) {
+            outcomes.push({ task, tank, outcome: 'already_done' })
+            continue
+          }
+          await task.update({ lastDoneAt: at, lastDoneBy: actor.userId, snoozedUntil: null, snoozeReason: null }, { transaction })
+          await writeCareLog(ctx, {
+            organizationId: actor.organizationId, tankId: tank.id, kind: 'task_done', at, userId: actor.userId,
+            text: input.notes ? `${task.title}: ${input.notes}` : task.title,
+            values: { taskKind: task.kind, ...task.defaultValues },
+            careTaskId: task.id,
+          }, transaction)
+          outcomes.push({ task, tank, outcome: 'done' })
+        }
+        return outcomes
+      })
+      const doerIds = [...new Set(done.map((d) => d.task.lastDoneBy).filter((id): id is number => id != null))]
+      const doers = doerIds.length ? await models.User.findAll({ attributes: ['id', 'name'], where: { id: doerIds } }) : []
+      const names = new Map(doers.map((u) => [u.id, u.name]))
+      return {
+        results: done.map(({ task, tank, outcome }) => ({
+          id: task.id,
+          outcome,
+          doneAt: task.lastDoneAt?.toISOString() ?? null,
+          doneBy: task.lastDoneBy == null ? null : { id: task.lastDoneBy, name: names.get(task.lastDoneBy) ?? 'former user' },
+          task: presentTask(task, zoneOf(tank), new Date()),
+        })),
+      }
+    },
+
     async snooze(actor: UserActor, id: number, input: { until: string; reason: string }) {
       const { task, tank } = await findTask(actor, id)
       const until = new Date(input.until)
@@ -183,19 +237,22 @@ export function careTasksService(ctx: AppContext) {
       return presentTask(task, zoneOf(tank), new Date())
     },
 
-    /** One site's list, or (mine) the sites where the caller is on the duty roster right now. */
+    /**
+     * One site's list, or (mine) the sites where the caller is on the duty roster right now. Someone
+     * on duty nowhere gets every site they may see (`onDuty: false`): an empty "mine" would read as
+     * "nothing due" while tasks are waiting.
+     */
     async today(actor: UserActor, query: { siteId?: number; mine: boolean }, now = new Date()) {
       if (query.siteId !== undefined) {
         await sitesService(ctx).find(actor, query.siteId)
-        return { siteIds: [query.siteId], tasks: await todayAt([query.siteId], now), watch: await tanksToWatch(ctx, [query.siteId], now) }
+        const siteIds = [query.siteId]
+        return { siteIds, onDuty: await isOnDutyAt(actor, query.siteId, now), tasks: await todayAt(siteIds, now), watch: await tanksToWatch(ctx, siteIds, now) }
       }
       const sites = await models.Site.findAll({ attributes: ['id'], where: { ...siteScope(actor, 'id'), archivedAt: null }, order: [['id', 'ASC']] })
       const mine: number[] = []
-      for (const site of sites) {
-        const { onDuty } = await whoIsOnDuty(ctx, site.id, now)
-        if (onDuty.some((p) => p.userId === actor.userId)) mine.push(site.id)
-      }
-      return { siteIds: mine, tasks: await todayAt(mine, now), watch: await tanksToWatch(ctx, mine, now) }
+      for (const site of sites) if (await isOnDutyAt(actor, site.id, now)) mine.push(site.id)
+      const siteIds = mine.length ? mine : sites.map((s) => s.id)
+      return { siteIds, onDuty: mine.length > 0, tasks: await todayAt(siteIds, now), watch: await tanksToWatch(ctx, siteIds, now) }
     },
 
     async siteSummary(actor: UserActor, siteId: number, now = new Date()): Promise<CareDueCounts> {

@@ -6,7 +6,7 @@ import type { AppContext } from '../context'
 import { AppError, badRequest, conflict, notFound } from '../errors'
 import { importFiles } from '../imports/files'
 import { importRunnerFor } from '../imports/runner'
-import { assertCsvText, buildPreview, NotCsvError, readHead, SNIFF_BYTES } from '../imports/sniff'
+import { assertCsvText, buildPreview, NotCsvError, readHead, SNIFF_BYTES, UnreadableHeaderError } from '../imports/sniff'
 import type { ImportJob } from '../models'
 import { canSeeSite } from './scope'
 import { tanksService } from './tanks'
@@ -102,6 +102,7 @@ export function importJobsService(ctx: AppContext) {
       } catch (error) {
         await files.removeUpload(file.key).catch(() => undefined)
         if (error instanceof NotCsvError) throw new AppError(415, 'not_csv', error.message)
+        if (error instanceof UnreadableHeaderError) throw badRequest(`file: ${error.message}`, { file: error.message })
         throw error
       }
     },

@@ -1,23 +1,20 @@
 import { Op, QueryTypes, type Transaction, type WhereOptions } from 'sequelize'
-import type { RuleSeverity, WatchRuleSpec } from '@shared/rules/schema'
+import { DEFAULT_SETTLE_MINUTES } from '@shared/rules/schema'
 import type { IncidentListQuery, PublicIncident } from '@shared/schemas/incidents'
 import type { UserActor } from '../auth/actor'
 import type { AppContext } from '../context'
 import { conflict, notFound } from '../errors'
 import type { Incident } from '../models'
-import type { IncidentNotifier, NotifyKind } from '../rules/notifier'
+import type { IncidentNotifier } from '../rules/notifier'
+import { incidentKit, type AlertTiming } from './incident-kit'
+import { incidentLifecycle } from './incident-lifecycle'
 import { siteScope } from './scope'
+import { siteGrouping } from './site-incidents'
 
-export type AlertTiming = { escalateAlarmAfterMinutes: number; escalateWarningAfterMinutes: number; repeatEveryMinutes: number }
+export type { AlertTiming } from './incident-kit'
+export type { TripInput } from './incident-lifecycle'
 
-export type TripInput = {
-  rule: { id: number; name: string; severity: RuleSeverity; spec: WatchRuleSpec; metric: string }
-  tank: { id: number; siteId: number; organizationId: number }
-  at: number
-  since: number
-  value: number
-  snoozed: boolean
-}
+export { DEFAULT_SETTLE_MINUTES } from '@shared/rules/schema'
 
 export function presentIncident(i: Incident & { tank?: { name: string }; site?: { name: string } }): PublicIncident {
   const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null)
@@ -29,26 +26,23 @@ export function presentIncident(i: Incident & { tank?: { name: string }; site?: 
     snoozed: i.snoozed, acknowledgedAt: iso(i.acknowledgedAt), acknowledgedBy: i.acknowledgedBy ?? null, acknowledgeNote: i.acknowledgeNote ?? null,
     resolvedAt: iso(i.resolvedAt), resolvedBy: i.resolvedBy ?? null, resolveNote: i.resolveNote ?? null,
     escalationLevel: i.escalationLevel, nextEscalationAt: iso(i.nextEscalationAt), nextRepeatAt: iso(i.nextRepeatAt),
+    topSeverity: i.topSeverity, flapCount: i.flapCount, lastFlapAt: iso(i.lastFlapAt), settleUntil: iso(i.settleUntil),
+    maintenance: i.maintenance, siteIncidentId: i.siteIncidentId ?? null,
+    // The engine resolves an incident the moment its condition clears, so an unresolved one still holds.
+    conditionHolds: i.state !== 'resolved' && i.ruleId !== null,
   }
 }
 
 /** Incidents: opened by the engine, acknowledged and resolved by people, escalated on stored timers. */
 export function incidentsService(ctx: AppContext, notifier: IncidentNotifier, timing: AlertTiming) {
-  const { models, sequelize, events } = ctx
+  const { models, sequelize } = ctx
   const include = [
     { association: 'tank', attributes: ['id', 'name'] },
     { association: 'site', attributes: ['id', 'name', 'timeZone'] },
   ]
-  const changed = (i: Incident) => events.emit('incident.changed', { incidentId: i.id, tankId: i.tankId, siteId: i.siteId, state: i.state })
-
-  async function record(incidentId: number, kind: string, detail: Record<string, unknown>, transaction: Transaction, userId: number | null = null, at = new Date()) {
-    await models.IncidentEvent.create({ incidentId, kind, detail, userId, at }, { transaction })
-  }
-
-  async function tell(kind: NotifyKind, incident: Incident, transaction: Transaction) {
-    const recipients = await notifier.notify(kind, incident, transaction)
-    if (recipients.length) await record(incident.id, `mail_queued`, { kind, recipients }, transaction)
-  }
+  const { record, tell, changed } = incidentKit(ctx, notifier)
+  const lifecycle = incidentLifecycle(ctx, notifier, timing)
+  const sites = siteGrouping(ctx, notifier, timing)
 
   async function findVisible(actor: UserActor, id: number) {
     const incident = await models.Incident.findOne({ where: { id, ...(siteScope(actor, 'siteId') as object) }, include })
@@ -71,57 +65,19 @@ export function incidentsService(ctx: AppContext, notifier: IncidentNotifier, ti
       { transaction },
     )
     await record(incident.id, 'acknowledged', { note, via }, transaction, userId)
+    if (incident.siteIncidentId) await sites.acknowledge(incident.siteIncidentId, userId, transaction)
+  }
+
+  async function settleMinutesOf(ruleId: number | null, transaction: Transaction) {
+    const rule = ruleId ? await models.WatchRule.findByPk(ruleId, { transaction }) : null
+    return rule?.spec.settleMinutes ?? DEFAULT_SETTLE_MINUTES
   }
 
   return {
     findVisible,
     acknowledgeIncident,
 
-    /** Opens the incident for a trip, unless one is already unresolved for this rule and tank. */
-    async open(trip: TripInput): Promise<Incident | null> {
-      const escalateMinutes = trip.rule.severity === 'alarm' ? timing.escalateAlarmAfterMinutes : timing.escalateWarningAfterMinutes
-      const incident = await sequelize.transaction(async (transaction) => {
-        const existing = await models.Incident.findOne({
-          where: { ruleId: trip.rule.id, tankId: trip.tank.id, state: { [Op.ne]: 'resolved' } }, transaction,
-        })
-        if (existing) return null
-        const created = await models.Incident.create(
-          {
-            organizationId: trip.tank.organizationId, siteId: trip.tank.siteId, tankId: trip.tank.id, ruleId: trip.rule.id,
-            ruleKind: trip.rule.spec.kind, metric: trip.rule.metric, severity: trip.rule.severity, title: trip.rule.name,
-            state: 'open', conditionSince: new Date(trip.since), openedAt: new Date(trip.at),
-            firstValue: trip.value, peakValue: trip.value, latestValue: trip.value, latestAt: new Date(trip.at), snoozed: trip.snoozed,
-            nextEscalationAt: new Date(trip.at + escalateMinutes * 60_000),
-          },
-          { transaction },
-        )
-        await record(created.id, 'opened', { value: trip.value, since: new Date(trip.since).toISOString(), snoozed: trip.snoozed }, transaction, null, new Date(trip.at))
-        if (!trip.snoozed) await tell('opened', created, transaction)
-        return created
-      })
-      if (incident) changed(incident)
-      return incident
-    },
-
-    async touch(incidentId: number, latest: number, peak: number, at: number) {
-      await models.Incident.update({ latestValue: latest, peakValue: peak, latestAt: new Date(at) }, { where: { id: incidentId } })
-    },
-
-    async resolveAutomatically(incidentId: number, at: number, value: number | undefined, reason = 'The rule cleared') {
-      const incident = await sequelize.transaction(async (transaction) => {
-        const incident = await models.Incident.findByPk(incidentId, { transaction, lock: transaction.LOCK.UPDATE })
-        if (!incident || incident.state === 'resolved') return null
-        await incident.update(
-          { state: 'resolved', resolvedAt: new Date(at), resolveNote: reason, nextEscalationAt: null, nextRepeatAt: null, ...(value !== undefined ? { latestValue: value } : {}) },
-          { transaction },
-        )
-        await record(incident.id, 'resolved', { automatic: true, value, reason }, transaction, null, new Date(at))
-        if (!incident.snoozed) await tell('resolved', incident, transaction)
-        return incident
-      })
-      if (incident) changed(incident)
-      return incident
-    },
+    ...lifecycle,
 
     async acknowledge(actor: UserActor, id: number, note: string) {
       const incident = await findVisible(actor, id)
@@ -138,13 +94,16 @@ export function incidentsService(ctx: AppContext, notifier: IncidentNotifier, ti
       await sequelize.transaction(async (transaction) => {
         const row = await lockedRow(incident.id, transaction)
         if (row.state === 'resolved') throw conflict('not_open', 'This incident is already resolved')
+        // A trip inside the settle window reopens it, and the engine reopens it at once if the condition still holds.
+        const settleUntil = new Date(Date.now() + (await settleMinutesOf(row.ruleId, transaction)) * 60_000)
         await row.update(
-          { state: 'resolved', resolvedAt: new Date(), resolvedBy: actor.userId, resolveNote: note, nextEscalationAt: null, nextRepeatAt: null },
+          { state: 'resolved', resolvedAt: new Date(), resolvedBy: actor.userId, resolveNote: note, nextEscalationAt: null, nextRepeatAt: null, recheckAt: null, settleUntil },
           { transaction },
         )
         await record(row.id, 'resolved', { automatic: false, note }, transaction, actor.userId)
         await tell('resolved', row, transaction)
       })
+      if (incident.siteIncidentId) await sites.resolveIfAllResolved(incident.siteIncidentId, Date.now())
       await incident.reload()
       changed(incident)
       return presentIncident(incident)
@@ -183,7 +142,7 @@ export function incidentsService(ctx: AppContext, notifier: IncidentNotifier, ti
     /** Escalations and repeats whose stored time has come; safe to run from several instances. */
     async processDue(now = Date.now()) {
       const due = await sequelize.query<{ id: number }>(
-        `SELECT id FROM incidents WHERE state = 'open' AND (next_escalation_at <= $1 OR next_repeat_at <= $1) ORDER BY id LIMIT 100`,
+        `SELECT id FROM incidents WHERE state = 'open' AND NOT maintenance AND (next_escalation_at <= $1 OR next_repeat_at <= $1) ORDER BY id LIMIT 100`,
         { bind: [new Date(now)], type: QueryTypes.SELECT },
       )
       let handled = 0
@@ -208,6 +167,7 @@ export function incidentsService(ctx: AppContext, notifier: IncidentNotifier, ti
         })
         if (done) handled++
       }
+      await lifecycle.processDeferred(now)
       return handled
     },
   }

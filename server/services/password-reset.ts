@@ -8,6 +8,9 @@ import { passwordReset } from '../mail/templates'
 
 export const RESET_MINUTES = 60
 
+/** Every refusal is a 400 on `token`; the field says which kind, so the page can offer a new link. */
+const resetRefused = (message: string, field: 'unknown' | 'already used' | 'expired') => badRequest(message, { token: field })
+
 /** Password resets by mail: a single-use link valid for an hour; the answer never says whether the e-mail exists. */
 export function passwordResetService(ctx: AppContext) {
   const { models, sequelize, config } = ctx
@@ -32,8 +35,11 @@ export function passwordResetService(ctx: AppContext) {
           `SELECT id, user_id, expires_at, used_at FROM password_resets WHERE token_hash = $1 FOR UPDATE`,
           { bind: [hashSecret(token)], type: QueryTypes.SELECT, transaction },
         )
-        if (!row || row.used_at || row.expires_at.getTime() <= Date.now()) {
-          throw badRequest('This reset link is unknown, used or expired; ask for a new one', { token: 'unknown, used or expired' })
+        // Whoever holds the token already knows it existed, so saying which of the three it is leaks nothing.
+        if (!row) throw resetRefused('This reset link is not known; check that the whole link was copied, or ask for a new one', 'unknown')
+        if (row.used_at) throw resetRefused('This reset link has already been used; ask for a new one', 'already used')
+        if (row.expires_at.getTime() <= Date.now()) {
+          throw resetRefused(`This reset link has expired (they last ${RESET_MINUTES} minutes); ask for a new one`, 'expired')
         }
         await sequelize.query(`UPDATE password_resets SET used_at = now() WHERE id = $1`, { bind: [row.id], transaction })
         await models.User.update({ passwordHash: await bcrypt.hash(password, config.bcryptRounds) }, { where: { id: row.user_id }, transaction })

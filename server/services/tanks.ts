@@ -3,7 +3,7 @@ import { grossVolumeLitres } from '@shared/chemistry/volume'
 import { defaultTargetsFor } from '@shared/schemas/tank-defaults'
 import { tankInputSchema, type TankInput, type TankListQuery, type TankUpdate } from '@shared/schemas/tanks'
 import type { Page } from '@shared/schemas/common'
-import type { PublicTank } from '@shared/schemas/tanks'
+import type { TankListItem } from '@shared/schemas/tanks'
 import type { Actor } from '../auth/actor'
 import type { AppContext } from '../context'
 import { badRequest, fromZod, notFound } from '../errors'
@@ -11,6 +11,7 @@ import { canSeeSite, siteScope } from './scope'
 import { createDefaultCareTasks } from './care-tasks'
 import { rulesService } from './rules'
 import { publicTank } from './serializers'
+import { tankStatuses } from './tank-status'
 
 const SORT_COLUMNS: Record<TankListQuery['sortBy'], Order> = {
   name: [['name', 'ASC']],
@@ -79,7 +80,8 @@ export function tanksService(ctx: AppContext) {
   return {
     find,
 
-    async list(actor: Actor, q: TankListQuery): Promise<Page<PublicTank>> {
+    /** A page of tanks, each with its state, latest values and open incidents. */
+    async list(actor: Actor, q: TankListQuery): Promise<Page<TankListItem>> {
       const where: Record<string | symbol, unknown> = { ...(siteScope(actor, 'siteId') as object) }
       if (!q.includeArchived) where.archivedAt = null
       if (q.siteId) where.siteId = actor.siteIds && !actor.siteIds.includes(q.siteId) ? -1 : q.siteId
@@ -100,7 +102,9 @@ export function tanksService(ctx: AppContext) {
         limit: q.pageSize,
         offset: (q.page - 1) * q.pageSize,
       })
-      return { items: rows.map(publicTank), total: count, page: q.page, pageSize: q.pageSize }
+      const statuses = await tankStatuses(ctx, rows)
+      const items = rows.map((tank) => ({ ...publicTank(tank), status: statuses.get(tank.id)! }))
+      return { items, total: count, page: q.page, pageSize: q.pageSize }
     },
 
     async get(actor: Actor, id: number) {

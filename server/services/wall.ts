@@ -1,18 +1,18 @@
 import { Op, QueryTypes } from 'sequelize'
-import { isDeviceQuiet } from '@shared/schemas/devices'
 import type { PublicWallCredential, WallResponse, WallTank } from '@shared/schemas/wall'
-import { compareForWall, tankState } from '@shared/tank-state'
+import { compareForWall } from '@shared/tank-state'
+import { occurrenceAt } from '@shared/rules/maintenance'
 import type { Actor, UserActor } from '../auth/actor'
 import { newWallToken } from '../auth/wall-tokens'
+import { buildDaysFor } from './builds'
 import type { AppContext } from '../context'
 import { notFound } from '../errors'
 import type { WallCredential } from '../models'
 import { scheduleFn, snoozeCovers } from '../rules/tank-context'
 import { careDueCounts } from './care-tasks'
-import { incidentsOf } from './incidents'
 import { whoIsOnDuty } from './roster'
 import { canSeeSite } from './scope'
-import { seriesService } from './series'
+import { tankStatuses } from './tank-status'
 
 const TREND_HOURS = 6
 const LIGHT_ON_LUX = 50
@@ -56,42 +56,49 @@ export function wallService(ctx: AppContext) {
       const now = Date.now()
       const tanks = await models.Tank.findAll({ where: { siteId, archivedAt: null }, order: [['sortOrder', 'ASC'], ['name', 'ASC']] })
       const ids = tanks.map((t) => t.id)
-      const [latest, trend, devices, open, snoozes, duty, care] = await Promise.all([
-        seriesService(ctx).siteLatest(ids),
+      const [statuses, trend, snoozes, duty, care, settling, windows, siteIncidents] = await Promise.all([
+        tankStatuses(ctx, tanks, now),
         trends(ids, now),
-        models.Device.findAll({ where: { tankId: ids, revokedAt: null } }),
-        incidentsOf(ctx).openForTanks(ids),
         models.Snooze.findAll({ where: { tankId: ids, cancelledAt: null, [Op.or]: [{ endsAt: { [Op.gt]: new Date(now) } }, { repeatUntil: { [Op.gt]: new Date(now) } }] } }),
         whoIsOnDuty(ctx, siteId, new Date(now)),
         careDueCounts(ctx, { siteIds: [siteId] }, new Date(now)),
+        models.Incident.findAll({ where: { tankId: ids, state: 'resolved', flapCount: { [Op.gt]: 0 }, settleUntil: { [Op.gt]: new Date(now) } } }),
+        models.MaintenanceWindow.findAll({ where: { siteId, ruleId: null, cancelledAt: null, [Op.or]: [{ endsAt: null }, { endsAt: { [Op.gt]: new Date(now) } }] } }),
+        models.SiteIncident.findAll({ where: { siteId, state: { [Op.ne]: 'resolved' } }, order: [['openedAt', 'DESC']] }),
       ])
-      const latestByTank = new Map(latest.map((l) => [l.tankId, l.metrics]))
+      const maintenanceOf = (tankId: number) => {
+        for (const w of windows) {
+          if (w.tankId !== null && w.tankId !== tankId) continue
+          const span = occurrenceAt({ startsAt: w.startsAt?.getTime(), endsAt: w.endsAt?.getTime(), weekday: w.weekday, startMinute: w.startMinute, durationMinutes: w.durationMinutes }, now, site.timeZone)
+          if (span) return { until: new Date(span[1]).toISOString(), reason: w.reason }
+        }
+        return null
+      }
+      const open = [...statuses.entries()].flatMap(([tankId, status]) => status.openIncidents.map((i) => ({ ...i, tankId })))
       const wallTanks: WallTank[] = tanks.map((tank) => {
-        const metrics = latestByTank.get(tank.id) ?? {}
-        const mine = devices.filter((d) => d.tankId === tank.id)
-        const incidents = open.filter((i) => i.tankId === tank.id)
-        const { state, reasons } = tankState({
-          latest: metrics,
-          targets: tank.targets,
-          openIncidents: incidents.map((i) => ({ severity: i.severity, title: i.title })),
-          quietDevices: tank.stage === 'empty' ? [] : mine.filter((d) => isDeviceQuiet(d, now)).map((d) => d.name),
-          hasDevices: mine.length > 0,
-        })
+        const { state, stateReasons, latest: metrics, openIncidents: incidents } = statuses.get(tank.id)!
         const worst = [...incidents].sort((a, b) => (a.severity === b.severity ? 0 : a.severity === 'alarm' ? -1 : 1))[0]
         const snooze = snoozes.find((s) => s.tankId === tank.id && snoozeCovers(s, now))
         const times = Object.values(metrics).map((m) => m?.time).filter(Boolean) as string[]
         const light = metrics.light
+        const flapper = [...incidents, ...settling.filter((i) => i.tankId === tank.id)].find((i) => i.flapCount > 0)
+        const maintenance = maintenanceOf(tank.id)
         return {
           id: tank.id, name: tank.name, kind: tank.kind, stage: tank.stage, sortOrder: tank.sortOrder, volumeLitres: tank.volumeLitres, heightCm: tank.dimensions?.heightCm ?? null,
           heater: tank.heater, lightSchedule: tank.lightSchedule, targets: tank.targets, latest: metrics,
-          trend: trend.get(tank.id) ?? [], state, stateReasons: reasons,
-          openIncident: worst ? { id: worst.id, title: worst.title, severity: worst.severity, openedAt: worst.openedAt.toISOString() } : null,
+          trend: trend.get(tank.id) ?? [], state, stateReasons,
+          openIncident: worst ? { id: worst.id, title: worst.title, severity: worst.severity, openedAt: worst.openedAt, state: worst.state, maintenance: worst.maintenance, siteIncidentId: worst.siteIncidentId } : null,
+          flapping: flapper ? { count: flapper.flapCount, title: flapper.title } : null,
+          maintenanceUntil: maintenance?.until ?? null,
+          maintenanceReason: maintenance?.reason ?? null,
           snoozedUntil: snooze ? snooze.endsAt.toISOString() : null,
           lightOn: light ? light.value >= LIGHT_ON_LUX : null,
           lightScheduledOn: tank.lightSchedule ? scheduleFn(tank.lightSchedule, site.timeZone)(now) : null,
           newestReadingAt: times.length ? times.sort().at(-1)! : null,
         }
       })
+      const buildDays = await buildDaysFor(ctx, ids, site.timeZone, new Date(now))
+      for (const t of wallTanks) t.buildDay = buildDays.get(t.id) ?? null
       wallTanks.sort(compareForWall)
       return {
         site: { id: site.id, name: site.name, timeZone: site.timeZone },
@@ -100,6 +107,10 @@ export function wallService(ctx: AppContext) {
         onDuty: duty.onDuty.map((d) => ({ userId: d.userId, name: d.name })),
         backupContact: duty.backup ? { userId: duty.backup.userId, name: duty.backup.name } : null,
         openIncidents: open.length,
+        siteIncidents: siteIncidents.map((si) => ({
+          id: si.id, title: si.title, severity: si.severity, state: si.state === 'acknowledged' ? 'acknowledged' : 'open',
+          tanks: new Set(open.filter((i) => i.siteIncidentId === si.id).map((i) => i.tankId)).size,
+        })),
         overdueCareTasks: care.bySite.get(siteId)?.overdue ?? 0,
       }
     },

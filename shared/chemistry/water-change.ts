@@ -11,7 +11,7 @@ export const HEATER_ALREADY_EXPOSED_CAUTION =
 export const LARGE_CHANGE_CAUTION =
   'A change this large shifts temperature and water chemistry quickly: match the new water closely'
 /** common practice: above half the volume, changes are treated as large. */
-const LARGE_CHANGE_PERCENT = 50
+export const LARGE_CHANGE_PERCENT = 50
 
 interface WaterChangeBase {
   shape: TankShape

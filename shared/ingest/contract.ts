@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { instantSchema } from '../schemas/time'
 
 /**
  * The device contract, version 1 — the same JSON over MQTT and HTTP.
@@ -35,7 +36,7 @@ export const deviceReadingSchema = z.object({
   metric: z.string().min(1).max(40),
   value: z.number().finite(),
   unit: z.string().min(1).max(20).optional(),
-  time: z.iso.datetime({ offset: true }),
+  time: instantSchema,
 })
 export type DeviceReading = z.infer<typeof deviceReadingSchema>
 

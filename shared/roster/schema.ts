@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { clockTimeSchema } from '../schemas/common'
+import { instantSchema as sharedInstantSchema } from '../schemas/time'
 
 /** One weekly shift; `end` at or before `start` means it runs past midnight. */
 export const weeklyShiftSchema = z.object({
@@ -11,7 +12,7 @@ export const weeklyShiftSchema = z.object({
 export type WeeklyShift = z.infer<typeof weeklyShiftSchema>
 
 // An offset is required: without one, the instant would depend on the server's own zone.
-const instantSchema = z.iso.datetime({ offset: true })
+const instantSchema = sharedInstantSchema
 
 /** A one-off change: `add` puts the person on duty for the span, `remove` takes them off. */
 export const rosterOverrideSchema = z

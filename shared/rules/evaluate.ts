@@ -1,4 +1,5 @@
 import { evaluateLevel, levelJudge } from './level'
+import { missingVerdict } from './missing'
 import { evaluateQuiet } from './quiet'
 import { evaluateRate } from './rate'
 import type { WatchRuleSpec } from './schema'
@@ -35,6 +36,9 @@ export function evaluate(
     if (!Number.isFinite(input.value) || !Number.isFinite(input.at)) return { state }
     const late = state.lastReadingAt !== undefined && input.at < state.lastReadingAt
     if (late && spec.kind !== 'rate') return { state }
+  } else {
+    const missing = missingVerdict(spec, state, input.at)
+    if (missing) return missing
   }
   switch (spec.kind) {
     case 'rate':

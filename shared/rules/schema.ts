@@ -10,11 +10,27 @@ const finite = z.number().finite()
 const holdMinutesSchema = z.number().min(0).max(MAX_MINUTES)
 const marginSchema = z.number().min(0).max(1000)
 
+/** What a missing reading means to a rule: keep its last state, count as tripped, or count as clear. */
+export const MISSING_READING_CHOICES = ['keep', 'tripped', 'clear'] as const
+export type MissingReading = (typeof MISSING_READING_CHOICES)[number]
+/** A rule's settle window when it names none: a trip this soon after a clear is a flap (`common practice`). */
+export const DEFAULT_SETTLE_MINUTES = 30
+/** How long without a reading counts as missing (the starter quiet rule's period). */
+export const MISSING_AFTER_MINUTES = 15
+
+// Shared by every kind. Optional rather than defaulted, so rules stored before they existed read the same.
+const commonFields = {
+  /** A trip this many minutes after a clear reopens the same incident (a flap). */
+  settleMinutes: z.number().int().min(0).max(24 * 60).optional(),
+  missingReading: z.enum(MISSING_READING_CHOICES).optional(),
+}
+
 export const ruleSeveritySchema = z.enum(['warning', 'alarm'])
 export type RuleSeverity = z.infer<typeof ruleSeveritySchema>
 
 export const aboveSpecSchema = z.object({
   kind: z.literal('above'),
+  ...commonFields,
   metric: metricSchema,
   limit: finite,
   holdMinutes: holdMinutesSchema.default(0),
@@ -23,6 +39,7 @@ export const aboveSpecSchema = z.object({
 
 export const belowSpecSchema = z.object({
   kind: z.literal('below'),
+  ...commonFields,
   metric: metricSchema,
   limit: finite,
   holdMinutes: holdMinutesSchema.default(0),
@@ -32,6 +49,7 @@ export const belowSpecSchema = z.object({
 export const outsideSpecSchema = z
   .object({
     kind: z.literal('outside'),
+    ...commonFields,
     metric: metricSchema,
     min: finite,
     max: finite,
@@ -46,6 +64,7 @@ export const outsideSpecSchema = z
 
 export const rateSpecSchema = z.object({
   kind: z.literal('rate'),
+  ...commonFields,
   metric: metricSchema,
   maxChange: z.number().positive().finite(),
   windowMinutes: z.number().positive().max(MAX_MINUTES),
@@ -53,12 +72,14 @@ export const rateSpecSchema = z.object({
 
 export const quietSpecSchema = z.object({
   kind: z.literal('quiet'),
+  ...commonFields,
   metric: metricSchema,
   quietMinutes: z.number().positive().max(MAX_MINUTES),
 })
 
 export const heaterLineSpecSchema = z.object({
   kind: z.literal('heater_line'),
+  ...commonFields,
   marginCm: marginSchema,
   holdMinutes: holdMinutesSchema.default(0),
   clearMargin: marginSchema.default(0.5),
@@ -66,6 +87,7 @@ export const heaterLineSpecSchema = z.object({
 
 export const lightScheduleSpecSchema = z.object({
   kind: z.literal('light_schedule'),
+  ...commonFields,
   holdMinutes: holdMinutesSchema,
   onLux: z.number().positive().finite().default(50),
 })

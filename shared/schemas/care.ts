@@ -1,7 +1,8 @@
 import { z } from 'zod'
 import { CARE_TASK_KINDS } from '../care/defaults'
 import { SPECIES_KEYS } from '../care/species'
-import { parseLocalDate } from '../roster/zoned-time'
+import { instantSchema } from './time'
+import { localDateSchema } from './time'
 
 export { CARE_TASK_KINDS }
 export const CARE_LOG_KINDS = ['water_change', 'dosing', 'livestock_in', 'livestock_out', 'equipment', 'media_change', 'note', 'task_done'] as const
@@ -9,15 +10,8 @@ export type CareLogKind = (typeof CARE_LOG_KINDS)[number]
 /** `task_done` entries are written by marking a task done, never posted by hand. */
 export const MANUAL_CARE_LOG_KINDS = CARE_LOG_KINDS.filter((k) => k !== 'task_done') as [Exclude<CareLogKind, 'task_done'>, ...Exclude<CareLogKind, 'task_done'>[]]
 
-const isoInstant = z.iso.datetime({ offset: true })
-const localDate = z.string().refine((s) => {
-  try {
-    parseLocalDate(s)
-    return true
-  } catch {
-    return false
-  }
-}, 'use a calendar date YYYY-MM-DD')
+const isoInstant = instantSchema
+const localDate = localDateSchema
 
 export const careRecurrenceSchema = z.discriminatedUnion('kind', [
   z.object({ kind: z.literal('interval'), everyDays: z.number().int().min(1, 'at least every day').max(365) }),
@@ -54,6 +48,20 @@ export const careTaskDoneSchema = z.object({
   at: isoInstant.optional(),
 })
 export type CareTaskDone = z.infer<typeof careTaskDoneSchema>
+
+/**
+ * Several tasks ticked off at once. Each names the "last done" its ticker saw, so a task that
+ * someone else ticked in the meantime is reported as already done instead of logged twice.
+ */
+export const careTasksDoneSchema = z.object({
+  tasks: z
+    .array(z.object({ id: z.number().int().positive(), seenLastDoneAt: isoInstant.nullable() }))
+    .min(1, 'choose at least one task')
+    .max(100, 'at most 100 tasks at once')
+    .refine((tasks) => new Set(tasks.map((t) => t.id)).size === tasks.length, 'each task once'),
+  notes: z.string().trim().max(2000).default(''),
+})
+export type CareTasksDone = z.infer<typeof careTasksDoneSchema>
 
 export const careTaskSnoozeSchema = z.object({
   until: isoInstant,

@@ -1,10 +1,11 @@
 import { z } from 'zod'
+import { instantSchema } from './time'
 
 /** The longest range one CSV export may cover; longer spans are exported in pieces. */
 export const MAX_EXPORT_DAYS = 366
 const DAY_MS = 86_400_000
 
-const instant = z.iso.datetime({ offset: true, message: 'use an ISO 8601 date-time with an offset, e.g. 2026-03-29T00:00:00Z' })
+const instant = instantSchema
 
 /** `from` (inclusive) and `to` (exclusive) of a CSV export. */
 export const exportRangeQuerySchema = z

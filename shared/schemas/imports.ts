@@ -10,6 +10,9 @@ export const TIME_FORMATS = ['iso_offset', 'local_ymd', 'local_dmy', 'local_mdy'
 export type TimeFormat = (typeof TIME_FORMATS)[number]
 export const LOCAL_TIME_FORMATS: readonly TimeFormat[] = ['local_ymd', 'local_dmy', 'local_mdy']
 
+/** An uploaded file not started within this many hours is deleted with its job (files may be 100 MB). */
+export const UNSTARTED_IMPORT_HOURS = 24
+
 export const IMPORT_STATUSES = ['uploaded', 'queued', 'running', 'done', 'cancelled', 'failed'] as const
 export type ImportStatus = (typeof IMPORT_STATUSES)[number]
 

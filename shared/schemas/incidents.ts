@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { pageQuerySchema } from './common'
+import { instantSchema } from './time'
 
 export const INCIDENT_STATES = ['open', 'acknowledged', 'resolved'] as const
 export type IncidentState = (typeof INCIDENT_STATES)[number]
@@ -9,8 +10,8 @@ export const incidentListQuerySchema = pageQuerySchema.extend({
   tankId: z.coerce.number().int().positive().optional(),
   state: z.enum([...INCIDENT_STATES, 'unresolved']).optional(),
   severity: z.enum(['warning', 'alarm']).optional(),
-  from: z.iso.datetime({ offset: true }).optional(),
-  to: z.iso.datetime({ offset: true }).optional(),
+  from: instantSchema.optional(),
+  to: instantSchema.optional(),
 })
 export type IncidentListQuery = z.infer<typeof incidentListQuerySchema>
 
@@ -46,6 +47,18 @@ export interface PublicIncident {
   escalationLevel: number
   nextEscalationAt: string | null
   nextRepeatAt: string | null
+  /** The highest severity it reached. */
+  topSeverity: 'warning' | 'alarm'
+  /** Times it cleared and tripped again within its rule's settle window. */
+  flapCount: number
+  lastFlapAt: string | null
+  /** Resolved: until then a trip reopens it. */
+  settleUntil: string | null
+  /** Opened during a maintenance window: recorded, nobody told. */
+  maintenance: boolean
+  siteIncidentId: number | null
+  /** Unresolved with its rule still watching: resolving it now would see it reopen. */
+  conditionHolds: boolean
 }
 
 export interface IncidentDetail extends PublicIncident {

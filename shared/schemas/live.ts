@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { instantSchema } from './time'
 
 /** The live socket at `/ws`: JSON text frames. The first client frame must be `auth`. */
 export const liveClientMessageSchema = z.discriminatedUnion('type', [
@@ -8,7 +9,7 @@ export const liveClientMessageSchema = z.discriminatedUnion('type', [
     tankIds: z.array(z.number().int().positive()).max(1000).optional(),
     siteId: z.number().int().positive().optional(),
     /** Catch up: readings stored after this time are sent first. */
-    since: z.iso.datetime({ offset: true }).optional(),
+    since: instantSchema.optional(),
   }),
   z.object({ type: z.literal('unsubscribe'), tankIds: z.array(z.number().int().positive()).max(1000) }),
   z.object({ type: z.literal('ping') }),

@@ -1,11 +1,12 @@
 import { z } from 'zod'
+import { instantSchema } from './time'
 
 export const PHOTO_CAPTION_MAX = 500
 export const PHOTO_FORMATS = ['jpeg', 'png', 'webp'] as const
 export const PHOTO_VARIANTS = ['display', 'thumbnail'] as const
 export type PhotoVariant = (typeof PHOTO_VARIANTS)[number]
 
-const isoInstant = z.iso.datetime({ offset: true })
+const isoInstant = instantSchema
 
 /** The text fields sent beside the image in a multipart upload (all strings on the wire). */
 export const photoUploadFieldsSchema = z.object({

@@ -1,15 +1,8 @@
 import { z } from 'zod'
 import { REPORT_PERIOD_KINDS, type ReportPeriodKind } from '../report/period'
-import { parseLocalDate } from '../roster/zoned-time'
+import { localDateSchema } from './time'
 
-const localDate = z.string().refine((s) => {
-  try {
-    parseLocalDate(s)
-    return true
-  } catch {
-    return false
-  }
-}, 'use a calendar date, YYYY-MM-DD')
+const localDate = localDateSchema
 
 /** Which report: a week or a month, holding `date` (default today on the site's calendar). */
 export const reportQuerySchema = z.object({

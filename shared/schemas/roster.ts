@@ -1,6 +1,7 @@
 import { z } from 'zod'
-import { parseLocalDate, rosterOverrideSchema, weeklyShiftSchema } from '../roster'
+import { rosterOverrideSchema, weeklyShiftSchema } from '../roster'
 import { idSchema } from './common'
+import { localDateSchema } from './time'
 
 /** A person who may be on duty; the service checks they belong to the organization, are active and are not a viewer. */
 const dutyUserIdSchema = z.number().int().positive()
@@ -35,14 +36,6 @@ export const overrideListQuerySchema = z
 
 export const onDutyQuerySchema = z.object({ at: instantSchema.optional() })
 
-const localDateSchema = z.string().refine((text) => {
-  try {
-    parseLocalDate(text)
-    return true
-  } catch {
-    return false
-  }
-}, 'use YYYY-MM-DD (a calendar date)')
 export const rosterWeekQuerySchema = z.object({ start: localDateSchema })
 
 export const backupInputSchema = z.object({ userId: dutyUserIdSchema.nullable() })

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { ruleSeveritySchema, watchRuleSpecSchema, type RuleSeverity, type WatchRuleSpec } from '../rules/schema'
+import { instantSchema } from './time'
 
 export const ruleInputSchema = z.object({
   name: z.string().trim().min(1, 'required').max(120),
@@ -37,11 +38,11 @@ export interface PublicRule {
 export const snoozeInputSchema = z
   .object({
     reason: z.string().trim().min(3, 'say why').max(300),
-    startsAt: z.iso.datetime({ offset: true }),
-    endsAt: z.iso.datetime({ offset: true }),
+    startsAt: instantSchema,
+    endsAt: instantSchema,
     /** Repeat the same window every week until `repeatUntil`. */
     weekly: z.boolean().default(false),
-    repeatUntil: z.iso.datetime({ offset: true }).optional(),
+    repeatUntil: instantSchema.optional(),
     /** Heater-line alarms are not snoozed unless this is set explicitly. */
     includeHeaterLine: z.boolean().default(false),
   })

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { METRIC_KEYS, type MetricKey } from '../metrics/registry'
+import { instantDateSchema } from './time'
 
 export const READING_SOURCES = ['device', 'test_kit', 'import'] as const
 export type ReadingSource = (typeof READING_SOURCES)[number]
@@ -11,16 +12,12 @@ export const SERIES_POINTS = { min: 10, max: 5000, default: 500 } as const
 const HOUR_MS = 3_600_000
 const DAY_MS = 24 * HOUR_MS
 
-// A bare local time would be read in the server's zone; the offset (or Z) makes the instant unambiguous.
-const instantSchema = z.iso
-  .datetime({ offset: true, message: 'use an ISO 8601 time with an offset, e.g. 2026-03-01T12:00:00Z' })
-  .transform((s) => new Date(s))
 
 export const seriesQuerySchema = z
   .object({
     metric: z.enum(METRIC_KEYS),
-    from: instantSchema.optional(),
-    to: instantSchema.optional(),
+    from: instantDateSchema.optional(),
+    to: instantDateSchema.optional(),
     points: z.coerce
       .number()
       .int('must be a whole number')

@@ -1,6 +1,7 @@
 import { z } from 'zod'
 import { METRIC_KEYS } from '../metrics/registry'
 import { clockTimeSchema, pageQuerySchema } from './common'
+import type { TankStatus } from './wall'
 
 export const TANK_KINDS = ['tropical_freshwater', 'planted', 'coldwater', 'brackish', 'marine'] as const
 export type TankKind = (typeof TANK_KINDS)[number]
@@ -124,4 +125,9 @@ export interface PublicTank {
   archivedAt: string | null
   createdAt: string
   updatedAt: string
+}
+
+/** A row of the tanks list: the tank and its state, latest values and open incidents. */
+export interface TankListItem extends PublicTank {
+  status: TankStatus
 }

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { METRIC_KEYS } from '../metrics/registry'
+import { instantSchema } from './time'
 
 /** A keeper's test-kit entry: any kit metrics, each in the unit the kit reports. */
 export const kitValueSchema = z.object({
@@ -10,7 +11,7 @@ export const kitValueSchema = z.object({
 export type KitValue = z.infer<typeof kitValueSchema>
 
 export const testKitEntryInputSchema = z.object({
-  takenAt: z.iso.datetime({ offset: true }).optional(),
+  takenAt: instantSchema.optional(),
   values: z
     .array(kitValueSchema)
     .min(1, 'enter at least one value')

@@ -5,6 +5,21 @@ import type { Targets, TankKind, TankStage } from './tanks'
 export const TANK_STATES = ['alarm', 'watch', 'quiet', 'steady'] as const
 export type TankState = (typeof TANK_STATES)[number]
 
+/** What the wall and the tanks list say about a tank now. */
+export interface TankStatus {
+  state: TankState
+  stateReasons: string[]
+  latest: LatestResponse
+  /** Unresolved incidents, newest first. */
+  openIncidents: Array<{
+    id: number; title: string; severity: 'warning' | 'alarm'; openedAt: string
+    state: 'open' | 'acknowledged'; maintenance: boolean; siteIncidentId: number | null; flapCount: number
+  }>
+  /** Names of the tank's devices that have stopped reporting (none for an empty or archived tank). */
+  quietDevices: string[]
+  hasDevices: boolean
+}
+
 export interface WallTank {
   id: number
   name: string
@@ -22,11 +37,26 @@ export interface WallTank {
   trend: Array<{ t: string; value: number }>
   state: TankState
   stateReasons: string[]
-  openIncident: { id: number; title: string; severity: 'warning' | 'alarm'; openedAt: string } | null
+  openIncident: {
+    id: number; title: string; severity: 'warning' | 'alarm'; openedAt: string
+    /** Acknowledged incidents stop the wall's chime. */
+    state: 'open' | 'acknowledged'
+    /** Opened inside a maintenance window: recorded, nobody told. */
+    maintenance: boolean
+    /** Part of a site-wide incident. */
+    siteIncidentId: number | null
+  } | null
+  /** It has cleared and tripped again within its settle window: counted, not reopened as new. */
+  flapping: { count: number; title: string } | null
+  /** Inside a maintenance window for the site or this tank, until then. */
+  maintenanceUntil: string | null
+  maintenanceReason: string | null
   snoozedUntil: string | null
   lightOn: boolean | null
   lightScheduledOn: boolean | null
   newestReadingAt: string | null
+  /** A tank being built: "build day 9 of about 28" (day 1 is the fill day). */
+  buildDay?: { day: number; aboutDays: number | null } | null
 }
 
 export interface WallResponse {
@@ -36,6 +66,8 @@ export interface WallResponse {
   onDuty: Array<{ userId: number; name: string }>
   backupContact: { userId: number; name: string } | null
   openIncidents: number
+  /** Open site-wide incidents: one fault on several tanks at once. */
+  siteIncidents: Array<{ id: number; title: string; severity: 'warning' | 'alarm'; state: 'open' | 'acknowledged'; tanks: number }>
   overdueCareTasks: number | null
 }
 

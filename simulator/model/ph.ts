@@ -42,11 +42,17 @@ export interface PhState {
 
 export const initialPhState = (): PhState => ({ drift: 0, swing: 0 })
 
-/** Drop below normal `elapsedS` into a crash: a smooth S-curve to −CRASH_DROP. */
-export function crashOffset(elapsedS: number | null): number {
+const smoothstep = (x: number) => x * x * (3 - 2 * x)
+
+/**
+ * Drop below normal `elapsedS` into a crash: a smooth S-curve toward −CRASH_DROP. A crash that
+ * lasts `lastsS` (the keeper buffers the water) comes back along the same curve over CRASH_DURATION_S.
+ */
+export function crashOffset(elapsedS: number | null, lastsS = Infinity): number {
   if (elapsedS === null || elapsedS <= 0) return 0
-  const x = Math.min(1, elapsedS / CRASH_DURATION_S)
-  return -CRASH_DROP * x * x * (3 - 2 * x)
+  const fall = (s: number) => -CRASH_DROP * smoothstep(Math.min(1, s / CRASH_DURATION_S))
+  if (elapsedS < lastsS) return fall(elapsedS)
+  return fall(lastsS) * (1 - smoothstep(Math.min(1, (elapsedS - lastsS) / CRASH_DURATION_S)))
 }
 
 export function stepPh(state: PhState, kind: TankKind, lightFraction: number, dtS: number, random: Random): PhState {
@@ -58,6 +64,6 @@ export function stepPh(state: PhState, kind: TankKind, lightFraction: number, dt
   return { drift, swing }
 }
 
-export function phValue(kind: TankKind, state: PhState, crashElapsedS: number | null): number {
-  return BASELINE_PH[kind] + state.drift + state.swing + crashOffset(crashElapsedS)
+export function phValue(kind: TankKind, state: PhState, crashElapsedS: number | null, crashLastsS = Infinity): number {
+  return BASELINE_PH[kind] + state.drift + state.swing + crashOffset(crashElapsedS, crashLastsS)
 }

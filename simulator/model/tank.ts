@@ -4,7 +4,7 @@ import { localMinutesOfDay } from './clock'
 import { litresAtLevel, START_FILL_FRACTION, tankGeometry, type TankGeometry } from './geometry'
 import { initialLevelState, stepLevel, WATER_CHANGE_TOTAL_S, waterChangeLevelCm, type LevelState } from './level'
 import { lightLux, scheduleFraction } from './light'
-import { initialPhState, phValue, stepPh, type PhState } from './ph'
+import { CRASH_DURATION_S, initialPhState, phValue, stepPh, type PhState } from './ph'
 import { gaussian, mulberry32, type Random } from './random'
 import { NO_SCENARIO, scenarioElapsedS, type Scenario, type ScenarioPlan } from './scenarios'
 import type { SimTankSpec } from './spec'
@@ -25,6 +25,12 @@ export interface TankSimulationOptions {
   /** Room temperature at an instant; the day–night curve in the site's zone by default. */
   roomC?: (epochMs: number) => number
   initialWaterC?: number
+  /**
+   * How many times faster than real time the simulation runs. The light timer reads the wall
+   * clock, as a real one does: lights (and the pH swing that follows them) keep the tank's own
+   * schedule at any speed, while heat, level and faults run on simulated time.
+   */
+  speed?: number
 }
 
 export interface TankSnapshot {
@@ -47,6 +53,7 @@ export class TankSimulation {
   private readonly random: Random
   private readonly roomAt: (epochMs: number) => number
   private readonly startMs: number
+  private readonly speed: number
   private simMs: number
   private thermal: ThermalState
   private ph: PhState = initialPhState()
@@ -62,6 +69,7 @@ export class TankSimulation {
     this.random = mulberry32(options.seed)
     this.roomAt = options.roomC ?? ((ms) => roomTemperatureC(localMinutesOfDay(ms, spec.timeZone)))
     this.startMs = options.startMs
+    this.speed = options.speed ?? 1
     this.simMs = options.startMs
     const waterC = options.initialWaterC ?? spec.heater?.setPointC ?? this.roomAt(options.startMs)
     this.thermal = { waterC, heaterOn: false }
@@ -72,7 +80,12 @@ export class TankSimulation {
     return (this.simMs - this.startMs) / 1000
   }
 
-  private faultElapsedS(scenario: Scenario, activeForS = Infinity, atElapsedS = this.elapsedS): number | null {
+  /** The wall clock at the current simulated instant. */
+  private get wallClockMs(): number {
+    return this.startMs + (this.simMs - this.startMs) / this.speed
+  }
+
+  private faultElapsedS(scenario: Scenario, activeForS = this.plan.activeForS ?? Infinity, atElapsedS = this.elapsedS): number | null {
     return this.plan.scenario === scenario ? scenarioElapsedS(this.plan, atElapsedS, activeForS) : null
   }
 
@@ -94,7 +107,7 @@ export class TankSimulation {
 
   private lightFraction(): number {
     if (this.faultElapsedS('light_stuck_on') !== null) return 1
-    return scheduleFraction(localMinutesOfDay(this.simMs, this.spec.timeZone), this.spec.lightSchedule)
+    return scheduleFraction(localMinutesOfDay(this.wallClockMs, this.spec.timeZone), this.spec.lightSchedule)
   }
 
   private stepWater(dtS: number, roomC: number): void {
@@ -140,6 +153,12 @@ export class TankSimulation {
     this.simMs += dtS * 1000
   }
 
+  /** A bounded crash keeps counting through its recovery. */
+  private phNow(): number {
+    const lasts = this.plan.activeForS ?? Infinity
+    return phValue(this.spec.kind, this.ph, this.faultElapsedS('ph_crash', lasts + CRASH_DURATION_S), lasts)
+  }
+
   /** True values now, without sensor noise. */
   snapshot(): TankSnapshot {
     const fraction = this.lightFraction()
@@ -148,7 +167,7 @@ export class TankSimulation {
       waterC: this.thermal.waterC,
       roomC: this.roomAt(this.simMs),
       heaterOn: this.thermal.heaterOn,
-      ph: phValue(this.spec.kind, this.ph, this.faultElapsedS('ph_crash')),
+      ph: this.phNow(),
       lux: lightLux(this.spec.kind, fraction, false),
       levelCm: this.level.levelCm,
       faultActive: this.plan.scenario !== 'none' && scenarioElapsedS(this.plan, this.elapsedS) !== null,

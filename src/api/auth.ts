@@ -42,3 +42,12 @@ export async function fetchInvitation(token: string): Promise<InvitationPreview>
 export async function acceptInvitation(input: { token: string; password: string; name?: string }): Promise<SessionInfo> {
   return (await http.post<SessionInfo>('/invitations/accept', input)).data
 }
+
+/** The answer is the same whether or not the address belongs to an account. */
+export async function requestPasswordReset(email: string): Promise<{ message: string }> {
+  return (await http.post<{ message: string }>('/auth/password-reset', { email })).data
+}
+
+export async function confirmPasswordReset(input: { token: string; password: string }): Promise<void> {
+  await http.post('/auth/password-reset/confirm', input)
+}

@@ -57,6 +57,8 @@ export interface CareTankToWatch {
 
 export interface CareToday {
   siteIds: number[]
+  /** False when the caller is on duty nowhere: `mine` then lists every site they may see. */
+  onDuty: boolean
   tasks: CareTodayTask[]
   watch: CareTankToWatch[]
 }
@@ -169,6 +171,20 @@ export async function updateCareTask(id: number, changes: CareTaskUpdate): Promi
 
 export async function markCareTaskDone(id: number, input: CareTaskDoneInput = {}): Promise<{ task: PublicCareTask; logEntry: PublicCareLogEntry }> {
   return (await http.post<{ task: PublicCareTask; logEntry: PublicCareLogEntry }>(`/care-tasks/${id}/done`, input)).data
+}
+
+export interface CareTaskDoneOutcome {
+  id: number
+  /** `already_done`: someone ticked it after the list was loaded; nothing was logged twice. */
+  outcome: 'done' | 'already_done'
+  doneAt: string | null
+  doneBy: { id: number; name: string } | null
+  task: PublicCareTask
+}
+
+/** Several tasks done in one transaction; each names the "last done" the list showed. */
+export async function markCareTasksDone(tasks: Array<{ id: number; seenLastDoneAt: string | null }>, notes = ''): Promise<CareTaskDoneOutcome[]> {
+  return (await http.post<{ results: CareTaskDoneOutcome[] }>('/care-tasks/done', { tasks, notes })).data.results
 }
 
 export async function snoozeCareTask(id: number, input: CareTaskSnoozeInput): Promise<PublicCareTask> {

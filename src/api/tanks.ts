@@ -1,5 +1,5 @@
 import type { Page } from '@shared/schemas/common'
-import type { PublicTank, TankInput, TankKind, TankStage, TankUpdate } from '@shared/schemas/tanks'
+import type { PublicTank, TankInput, TankKind, TankListItem, TankStage, TankUpdate } from '@shared/schemas/tanks'
 import type { TANK_SORT_KEYS } from '@shared/schemas/tanks'
 import { http } from './client'
 
@@ -32,8 +32,8 @@ function toQuery(params: TankListParams): Record<string, string> {
   return query
 }
 
-export async function listTanks(params: TankListParams = {}): Promise<Page<PublicTank>> {
-  return (await http.get<Page<PublicTank>>('/tanks', { params: toQuery(params) })).data
+export async function listTanks(params: TankListParams = {}): Promise<Page<TankListItem>> {
+  return (await http.get<Page<TankListItem>>('/tanks', { params: toQuery(params) })).data
 }
 
 export async function getTank(id: number): Promise<PublicTank> {

@@ -1,6 +1,7 @@
 import type { Role } from '@shared/schemas/auth'
 import { METRICS, displayPrecision, type MetricKey } from '@shared/metrics/registry'
 import { displayUnitOf, toDisplayValue, unitLabel } from './useUnits'
+import { formatZonedDateTime } from './useZonedTime'
 
 export const ROLE_LABELS: Record<Role, string> = {
   owner: 'Owner',
@@ -51,7 +52,7 @@ export function formatBand(key: MetricKey, band: { min: number; max: number } | 
   return `${formatNumber(toDisplayValue(key, band.min), precision)} – ${formatNumber(toDisplayValue(key, band.max), precision)}${suffix}`
 }
 
-export function formatDate(iso: string | null | undefined): string {
-  if (!iso) return '—'
-  return new Date(iso).toLocaleString('en', { dateStyle: 'medium', timeStyle: 'short' })
+/** A date and time naming its zone: the site's when given, else the viewer's own. */
+export function formatDate(iso: string | null | undefined, timeZone?: string): string {
+  return formatZonedDateTime(iso, timeZone)
 }

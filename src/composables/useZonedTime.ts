@@ -29,6 +29,26 @@ export function formatDateTime(value: Date | string | number | null | undefined,
   return formatter(timeZone, { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(toDate(value))
 }
 
+/**
+ * The zone's short name at that instant ("CET", "CEST", "GMT-5"), so a time read by someone in
+ * another zone says whose clock it is on. Without a zone, the viewer's own.
+ */
+export function zoneAbbreviation(value: Date | string | number, timeZone?: string): string {
+  const part = formatter(timeZone, { timeZoneName: 'short' }).formatToParts(toDate(value)).find((p) => p.type === 'timeZoneName')
+  return part?.value ?? timeZone ?? ''
+}
+
+/** "3 Mar, 14:05 CET": a date and time that names its zone. */
+export function formatZonedDateTime(value: Date | string | number | null | undefined, timeZone?: string): string {
+  if (value == null) return '—'
+  return `${formatDateTime(value, timeZone)} ${zoneAbbreviation(value, timeZone)}`
+}
+
+/** "14:05 CET" */
+export function formatZonedClock(value: Date | string | number, timeZone?: string): string {
+  return `${formatClock(value, timeZone)} ${zoneAbbreviation(value, timeZone)}`
+}
+
 /** "Tue 3 Mar" */
 export function formatDay(value: Date | string | number, timeZone?: string): string {
   return formatter(timeZone, { weekday: 'short', day: 'numeric', month: 'short' }).format(toDate(value))

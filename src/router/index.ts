@@ -1,5 +1,6 @@
 import { createRouter, createWebHistory, type Router } from 'vue-router'
 import { storeWallSession, storedWallSession } from '@/api/session'
+import { pageTitle } from '@/composables/usePageTitle'
 import { useAuthStore } from '@/stores/auth'
 import { safeRedirect } from './redirect'
 import { routes } from './routes'
@@ -42,9 +43,10 @@ export function installGuards(target: Router) {
     return true
   })
 
-  target.afterEach((to, _from, failure) => {
+  target.afterEach((to, from, failure) => {
     if (!failure) {
-      document.title = to.meta.title ? `${to.meta.title} · Tankwarden` : 'Tankwarden'
+      // Within one page (a hash, a filter in the query) the title the page gave itself stays.
+      if (to.path !== from.path || to.name !== from.name) document.title = pageTitle(to.meta.title)
       sessionStorage.removeItem(CHUNK_RELOAD_KEY)
     }
   })

@@ -23,6 +23,19 @@ export const routes: RouteRecordRaw[] = [
     meta: { public: true, title: 'Sign in' },
   },
   {
+    path: '/forgot-password',
+    name: 'forgot-password',
+    component: () => import('@/views/ForgotPasswordView.vue'),
+    meta: { public: true, title: 'Forgot password' },
+  },
+  {
+    // The link in a password reset e-mail.
+    path: '/reset-password',
+    name: 'reset-password',
+    component: () => import('@/views/ResetPasswordView.vue'),
+    meta: { public: true, title: 'Choose a new password' },
+  },
+  {
     path: '/accept-invite',
     name: 'accept-invite',
     component: () => import('@/views/AcceptInviteView.vue'),
@@ -67,6 +80,13 @@ export const routes: RouteRecordRaw[] = [
         component: () => import('@/views/TestKitView.vue'),
         props: (route) => ({ id: Number(route.params.id) }),
         meta: { title: 'Log test', roles: EDITORS },
+      },
+      {
+        path: 'tanks/:id(\\d+)/build',
+        name: 'tank-build',
+        component: () => import('@/views/TankBuildView.vue'),
+        props: (route) => ({ id: Number(route.params.id) }),
+        meta: { title: 'Build' },
       },
       {
         path: 'tanks/:id(\\d+)/edit',

@@ -13,6 +13,7 @@ export const useCareStore = defineStore('care', () => {
 
   const todayTasks = ref<CareTodayTask[]>([])
   const todaySiteIds = ref<number[]>([])
+  const todayOnDuty = ref(true)
   const todayWatch = ref<CareTankToWatch[]>([])
   const todayLoading = ref(false)
   // Only the newest today request may write: switching site twice quickly must not show the first.
@@ -42,17 +43,24 @@ export const useCareStore = defineStore('care', () => {
       if (ticket !== todayRequest) return
       todayTasks.value = urgentFirst(today.tasks)
       todaySiteIds.value = today.siteIds
+      todayOnDuty.value = today.onDuty
       todayWatch.value = today.watch ?? []
     } finally {
       if (ticket === todayRequest) todayLoading.value = false
     }
   }
 
-  /** Done from the today list: the task leaves it, since it is no longer due. */
-  async function markTodayDone(taskId: number, notes = '') {
-    const result = await careApi.markCareTaskDone(taskId, notes ? { notes } : {})
-    todayTasks.value = todayTasks.value.filter((t) => t.id !== taskId)
-    return result
+  /**
+   * One or several done from the today list, each with the "last done" the list showed, so one a
+   * colleague ticked meanwhile comes back already done instead of logged twice. Done and
+   * already-done tasks both leave the list, since neither is due.
+   */
+  async function markTodayDone(taskIds: number[], notes = '') {
+    const seen = todayTasks.value.filter((t) => taskIds.includes(t.id)).map((t) => ({ id: t.id, seenLastDoneAt: t.lastDoneAt }))
+    const results = await careApi.markCareTasksDone(seen, notes)
+    const gone = new Set(results.map((r) => r.id))
+    todayTasks.value = todayTasks.value.filter((t) => !gone.has(t.id))
+    return results
   }
 
   /** Snoozed tasks are not due today, so the task leaves the list too. */
@@ -67,11 +75,15 @@ export const useCareStore = defineStore('care', () => {
     species.value = []
     todayTasks.value = []
     todaySiteIds.value = []
+    todayOnDuty.value = true
     todayWatch.value = []
     todayLoading.value = false
   }
 
-  return { species, speciesByKey, ensureSpecies, todayTasks, todaySiteIds, todayWatch, todayLoading, loadToday, markTodayDone, snoozeToday, $reset }
+  return {
+    species, speciesByKey, ensureSpecies, todayTasks, todaySiteIds, todayOnDuty, todayWatch, todayLoading,
+    loadToday, markTodayDone, snoozeToday, $reset,
+  }
 })
 
 if (import.meta.hot) import.meta.hot.accept(acceptHMRUpdate(useCareStore, import.meta.hot))

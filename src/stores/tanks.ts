@@ -1,11 +1,11 @@
 import { acceptHMRUpdate, defineStore } from 'pinia'
 import { ref } from 'vue'
-import type { PublicTank, TankInput, TankUpdate } from '@shared/schemas/tanks'
+import type { PublicTank, TankInput, TankListItem, TankUpdate } from '@shared/schemas/tanks'
 import * as tanksApi from '@/api/tanks'
 import type { TankListParams } from '@/api/tanks'
 
 export const useTanksStore = defineStore('tanks', () => {
-  const items = ref<PublicTank[]>([])
+  const items = ref<TankListItem[]>([])
   const total = ref(0)
   const loading = ref(false)
   const lastQuery = ref<TankListParams>({})
@@ -18,13 +18,23 @@ export const useTanksStore = defineStore('tanks', () => {
     lastQuery.value = { ...query }
     loading.value = true
     try {
-      const page = await tanksApi.listTanks(query)
-      if (ticket !== listRequest) return
-      items.value = page.items
-      total.value = page.total
+      await load(ticket, query)
     } finally {
       if (ticket === listRequest) loading.value = false
     }
+  }
+
+  /** The same page again, without the loading bar: states and incidents change while it is open. */
+  async function refresh() {
+    if (loading.value) return
+    await load(++listRequest, lastQuery.value)
+  }
+
+  async function load(ticket: number, query: TankListParams) {
+    const page = await tanksApi.listTanks(query)
+    if (ticket !== listRequest) return
+    items.value = page.items
+    total.value = page.total
   }
 
   async function fetchTank(id: number) {
@@ -43,7 +53,7 @@ export const useTanksStore = defineStore('tanks', () => {
   function remember(tank: PublicTank) {
     current.value = tank
     const index = items.value.findIndex((t) => t.id === tank.id)
-    if (index !== -1) items.value.splice(index, 1, tank)
+    if (index !== -1) items.value.splice(index, 1, { ...tank, status: items.value[index]!.status })
     return tank
   }
 
@@ -61,7 +71,7 @@ export const useTanksStore = defineStore('tanks', () => {
     current.value = null
   }
 
-  return { items, total, loading, lastQuery, current, fetchPage, fetchTank, create, update, archive, unarchive, $reset }
+  return { items, total, loading, lastQuery, current, fetchPage, refresh, fetchTank, create, update, archive, unarchive, $reset }
 })
 
 if (import.meta.hot) import.meta.hot.accept(acceptHMRUpdate(useTanksStore, import.meta.hot))

@@ -55,6 +55,7 @@ const ROWS: Array<[string, string, number[], () => Promise<Prepared>]> = [
   ['patch', '/tanks/:id/livestock/:entryId', writers(200), async () => ({ path: `/tanks/${await freshEntry()}`, body: { losses: 1 } })],
   ['get', '/tanks/:id/cycling', readable, async () => ({ path: `/tanks/${await freshTank()}/cycling` })],
   ['patch', '/care-tasks/:id', ownerOnly(200), async () => ({ path: `/care-tasks/${await freshTask()}`, body: { title: 'Renamed task' } })],
+  ['post', '/care-tasks/done', writers(200), async () => ({ path: '/care-tasks/done', body: { tasks: [{ id: await freshTask(), seenLastDoneAt: null }] } })],
   ['post', '/care-tasks/:id/done', writers(200), async () => ({ path: `/care-tasks/${await freshTask()}/done`, body: {} })],
   ['post', '/care-tasks/:id/snooze', writers(200), async () => ({ path: `/care-tasks/${await freshTask()}/snooze`, body: { until: new Date(Date.now() + 86_400_000).toISOString(), reason: 'Parts on order' } })],
   ['post', '/water-changes/:id/finish', writers(200), async () => ({ path: `/water-changes/${await freshChange()}/finish`, body: { litresReplaced: 18 } })],

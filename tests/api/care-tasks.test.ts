@@ -116,20 +116,35 @@ describe('today lists and the site summary', () => {
     expect((await t.api().get(`/api/v1/sites/${siteId}/care-summary`).set(as(other, 'owner'))).status).toBe(404)
   })
 
-  it('answers "mine" with the sites where the caller is on duty now', async () => {
+  it('answers "mine" with the sites where the caller is on duty now, and every site they may see when on duty nowhere', async () => {
     const siteId = org.siteIds[0] as number
     const tankId = await tankWithDefaults(siteId)
     const mine = () => t.api().get('/api/v1/care/today?mine=true').set(as(org, 'keeper'))
     const before = await mine()
-    expect(before.body.siteIds).toEqual([])
+    expect(before.body).toMatchObject({ siteIds: [...org.siteIds].sort((a, b) => a - b), onDuty: false })
+    expect(before.body.tasks.filter((x: { tankId: number }) => x.tankId === tankId)).toHaveLength(5)
     await t.ctx.models.DutyOverride.create({
       organizationId: org.organizationId, siteId, userId: org.users.keeper.id, kind: 'add',
       startsAt: new Date(Date.now() - 3600_000), endsAt: new Date(Date.now() + 3600_000), createdBy: org.users.owner.id,
     })
     const after = await mine()
-    expect(after.body.siteIds).toEqual([siteId])
+    expect(after.body).toMatchObject({ siteIds: [siteId], onDuty: true })
     expect(after.body.tasks.filter((x: { tankId: number }) => x.tankId === tankId)).toHaveLength(5)
     expect(badFields(await t.api().get('/api/v1/care/today').set(as(org, 'keeper')))).toEqual(['siteId'])
+  })
+
+  it('keeps a viewer on duty nowhere to the sites they may see', async () => {
+    const [own, elsewhere] = [org.siteIds[1] as number, org.siteIds[0] as number]
+    const [ownTank, otherTank] = [await tankWithDefaults(own), await tankWithDefaults(elsewhere)]
+    expect((await t.api().patch(`/api/v1/users/${org.users.viewer.id}`).set(as(org, 'owner')).send({ siteIds: [own] })).status).toBe(200)
+    try {
+      const res = await t.api().get('/api/v1/care/today?mine=true').set(as(org, 'viewer'))
+      expect(res.body).toMatchObject({ siteIds: [own], onDuty: false })
+      const tankIds = new Set(res.body.tasks.map((x: { tankId: number }) => x.tankId))
+      expect([tankIds.has(ownTank), tankIds.has(otherTank)]).toEqual([true, false])
+    } finally {
+      await t.api().patch(`/api/v1/users/${org.users.viewer.id}`).set(as(org, 'owner')).send({ siteIds: [] })
+    }
   })
 
   it('judges "today" on each site’s own calendar', async () => {

@@ -35,6 +35,8 @@ async function buildOrganization() {
   await insertRow(t.ctx, 'duty_shifts', { organization_id: o, site_id: site, user_id: keeper, weekday: 0, start_time: '08:00', end_time: '16:00' })
   await insertRow(t.ctx, 'duty_overrides', { organization_id: o, site_id: site, user_id: owner.id, kind: 'add', starts_at: '2026-07-03T08:00:00Z', ends_at: '2026-07-03T16:00:00Z', note: 'covering' })
   const task = await insertRow(t.ctx, 'care_tasks', { organization_id: o, tank_id: tank, kind: 'water_change', title: 'Weekly change', recurrence: JSON.stringify({ kind: 'interval', everyDays: 7 }), starts_on: '2026-07-01', last_done_by: keeper })
+  const build = await insertRow(t.ctx, 'tank_builds', { organization_id: o, tank_id: tank, plan: JSON.stringify({ fillHeightCm: 34, substrate: [] }), filled_on: '2026-06-20', created_by: keeper })
+  await insertRow(t.ctx, 'build_steps', { build_id: build, tank_id: tank, key: 'conditioner', title: 'Conditioner', day: 1, due_on: '2026-06-20', care_task_id: task, done_at: '2026-06-20T09:00:00Z', done_by: keeper })
   const change = await insertRow(t.ctx, 'water_changes', { organization_id: o, tank_id: tank, status: 'finished', plan: JSON.stringify({ percent: 25 }), heater_off_confirmed: true, temporary_rule_id: siteRule, started_at: '2026-07-02T09:00:00Z', finished_at: '2026-07-02T09:40:00Z', litres_replaced: 30 })
   const log = await insertRow(t.ctx, 'care_log', { organization_id: o, tank_id: tank, kind: 'water_change', at: '2026-07-02T09:40:00Z', user_id: keeper, text: '25 %', values: JSON.stringify({ litres: 30 }), care_task_id: task, water_change_id: change })
   await t.ctx.sequelize.query('UPDATE water_changes SET care_log_entry_id = $1 WHERE id = $2', { bind: [log, change] })

@@ -40,7 +40,7 @@ async function newTank(of = org, siteId = of.siteIds[0]) {
 async function openIncident(tankId: number, ruleName = ABOVE, at = Date.now()) {
   const tank = (await t.ctx.models.Tank.findByPk(tankId))!
   const rule = (await t.ctx.models.WatchRule.findOne({ where: { tankId, name: ruleName } }))!
-  const incident = await service().open({
+  const incident = await service().trip({
     rule: { id: rule.id, name: rule.name, severity: rule.severity, spec: rule.spec, metric: metricOfSpec(rule.spec) },
     tank: { id: tank.id, siteId: tank.siteId, organizationId: tank.organizationId }, at, since: at - 10 * MIN, value: 28.7, snoozed: false,
   })
@@ -173,12 +173,16 @@ describe('acknowledge links', () => {
     expect(shown.status).toBe(200)
     expect(shown.body).toMatchObject({ incident: { id, title: ABOVE, severity: 'alarm', state: 'open' }, usedAt: null, expired: false })
     expect(shown.body.incident.tankName).toMatch(/^Tank /)
+    // The site's zone comes along, so the page can show every time on the site's clock.
+    expect(shown.body.incident).toMatchObject({ siteName: 'Incident Org shop', timeZone: 'Europe/Berlin', acknowledgedAt: null, acknowledgedBy: null })
     const expiresIn = Date.parse(shown.body.expiresAt) - before
     expect(expiresIn).toBeGreaterThanOrEqual(ACK_LINK_HOURS * 3600_000)
     expect(expiresIn).toBeLessThan(ACK_LINK_HOURS * 3600_000 + 60_000)
 
     const used = await useLink(token, 'Seen on the phone, on my way')
-    expect([used.status, used.body]).toEqual([200, { state: 'acknowledged', alreadyHandled: false }])
+    expect(used.status).toBe(200)
+    expect(used.body).toMatchObject({ state: 'acknowledged', alreadyHandled: false, incident: { id, state: 'acknowledged', acknowledgedBy: { name: 'keeper of Incident Org' } } })
+    expect(Date.parse(used.body.incident.acknowledgedAt)).toBeGreaterThanOrEqual(before)
     expect(await detail(id)).toMatchObject({ state: 'acknowledged', acknowledgedBy: org.users.keeper.id, acknowledgeNote: 'Seen on the phone, on my way', nextEscalationAt: null })
     expect((await detail(id)).timeline.at(-1)).toMatchObject({ kind: 'acknowledged', userId: org.users.keeper.id, detail: { via: 'link' } })
 
@@ -204,7 +208,8 @@ describe('acknowledge links', () => {
     const token = tokenOf(await ackLinksService(t.ctx).create(id, org.users.keeper.id))
     expect((await acknowledge(id, { note: 'in the app' }, as('owner'))).status).toBe(200)
     const res = await useLink(token, 'from the mail')
-    expect([res.status, res.body]).toEqual([200, { state: 'acknowledged', alreadyHandled: true }])
+    expect(res.status).toBe(200)
+    expect(res.body).toMatchObject({ state: 'acknowledged', alreadyHandled: true, incident: { acknowledgedBy: { name: 'owner of Incident Org' } } })
     expect(await detail(id)).toMatchObject({ acknowledgedBy: org.users.owner.id, acknowledgeNote: 'in the app' })
   })
 

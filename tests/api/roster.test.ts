@@ -1,4 +1,5 @@
 import express from 'express'
+import { LOCAL_DATE_FORMAT_MESSAGE } from '@shared/schemas/time'
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { authenticate } from '../../server/auth/middleware'
@@ -321,6 +322,6 @@ describe('week view', () => {
 
   it('refuses a start that is not a calendar date', async () => {
     const res = await api().get(path(await freshSite(), 'week')).query({ start: '2026-02-30' }).set(owner)
-    expect([res.status, res.body.error.fields]).toEqual([400, { start: 'use YYYY-MM-DD (a calendar date)' }])
+    expect([res.status, res.body.error.fields]).toEqual([400, { start: LOCAL_DATE_FORMAT_MESSAGE }])
   })
 })

@@ -80,6 +80,11 @@ describe('the watch-rule engine over real PostgreSQL', () => {
     expect(resolved.state).toBe('resolved')
     expect(resolved.resolvedAt!.getTime()).toBe(t0 + 14 * MIN)
     expect(resolved.resolvedBy).toBeNull()
+    // The all-clear waits out the rule's 30-minute settle window, in case the condition comes back.
+    expect(told.map((x) => x.kind)).toEqual(['opened'])
+    await engine.tick(t0 + 43 * MIN)
+    expect(told.map((x) => x.kind)).toEqual(['opened'])
+    await engine.tick(t0 + 44 * MIN)
     expect(told.map((x) => x.kind)).toEqual(['opened', 'resolved'])
     expect(await incidentsOf(tank.tankId)).toHaveLength(1)
     await engine.stop()

@@ -11,7 +11,10 @@ import { mountView } from './mount'
 
 const TOKEN = 'ack_abcdefghijklmnopqrstuvwxyz0123'
 const fresh: AckLinkInfo = {
-  incident: { id: 55, title: 'Temperature above 28 °C for 10 min', severity: 'alarm', state: 'open', tankName: 'Reef display', openedAt: '2026-03-03T02:10:00.000Z' },
+  incident: {
+    id: 55, title: 'Temperature above 28 °C for 10 min', severity: 'alarm', state: 'open', tankName: 'Reef display', siteName: 'Front shop',
+    timeZone: 'Europe/Berlin', openedAt: '2026-03-03T02:10:00.000Z', acknowledgedAt: null, acknowledgedBy: null, resolvedAt: null, resolvedBy: null,
+  },
   usedAt: null,
   expiresAt: '2026-03-05T02:10:00.000Z',
   expired: false,
@@ -39,11 +42,17 @@ describe('acknowledge link page', () => {
     expect(about).toContain('Temperature above 28 °C for 10 min')
     expect(about).toContain('Reef display')
     expect(about).toContain('Alarm')
+    // 02:10 UTC is 03:10 in Berlin in March (CET, UTC+1), and the page says whose clock it is.
+    expect(wrapper.find('[data-test="ack-opened"]').text()).toBe('Reef display · opened 3 Mar, 03:10 CET')
+    expect(about).toContain("Times are Front shop's local time (Europe/Berlin).")
     expect(wrapper.find('[data-test="ack-button"]').exists()).toBe(true)
   })
 
   it('acknowledges on the button, with the note', async () => {
-    vi.mocked(redeemAckLink).mockResolvedValue({ state: 'acknowledged', alreadyHandled: false })
+    vi.mocked(redeemAckLink).mockResolvedValue({
+      state: 'acknowledged', alreadyHandled: false,
+      incident: { ...fresh.incident, state: 'acknowledged', acknowledgedAt: '2026-03-03T02:12:00.000Z', acknowledgedBy: { name: 'Robin Keeper' } },
+    })
     const wrapper = await openLink()
     await wrapper.find('textarea[name="ackNote"]').setValue('  Driving in now ')
     await wrapper.find('form').trigger('submit')
@@ -51,6 +60,8 @@ describe('acknowledge link page', () => {
     expect(redeemAckLink).toHaveBeenCalledTimes(1)
     expect(redeemAckLink).toHaveBeenCalledWith(TOKEN, 'Driving in now')
     expect(wrapper.find('[data-test="ack-outcome"]').text()).toContain('Acknowledged — escalation stopped')
+    expect(wrapper.find('[data-test="ack-handled"]').text()).toBe('Acknowledged by Robin Keeper on 3 Mar, 03:12 CET')
+    expect(wrapper.find('[data-test="ack-incident"]').text()).toContain('Acknowledged')
     expect(wrapper.find('[data-test="ack-button"]').exists()).toBe(false)
   })
 
@@ -65,7 +76,7 @@ describe('acknowledge link page', () => {
 
   it('says so at once on a second visit, offering no button', async () => {
     const wrapper = await openLink({ ...fresh, usedAt: '2026-03-03T02:20:00.000Z' })
-    expect(wrapper.find('[data-test="ack-outcome"]').text()).toContain('This link was already used on')
+    expect(wrapper.find('[data-test="ack-outcome"]').text()).toBe('This link was already used on 3 Mar, 03:20 CET. Nothing more to do here.')
     expect(wrapper.find('[data-test="ack-button"]').exists()).toBe(false)
     expect(redeemAckLink).not.toHaveBeenCalled()
   })

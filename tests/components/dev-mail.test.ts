@@ -3,7 +3,7 @@ import { beforeEach, describe, expect, it, vi } from 'vitest'
 import type { MailMessage } from '@/api/dev-mail'
 
 vi.mock('@/api/dev-mail', () => ({ listMail: vi.fn(), getMail: vi.fn(), emptyMailbox: vi.fn() }))
-vi.mock('@/api/sites', () => ({ listSites: vi.fn(async () => []) }))
+vi.mock('@/api/sites', () => ({ listSites: vi.fn(async () => [{ id: 3, name: 'Front shop', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 1 }]) }))
 
 import { emptyMailbox, getMail, listMail } from '@/api/dev-mail'
 import AppShell from '@/components/layout/AppShell.vue'
@@ -30,6 +30,9 @@ describe('test mailbox', () => {
     expect(wrapper.find('[data-test="test-mailbox-note"]').text()).toContain('This is the local test mailbox')
     const row = wrapper.find('[data-test="mail-list"] tbody tr').text()
     expect(row).toContain('sam@example.test')
+    // 02:10 UTC is 03:10 in Berlin in March (CET), on the shop's clock and saying so.
+    expect(row).toContain('3 Mar, 03:10 CET')
+    expect(wrapper.find('[data-test="mail-list"] th').text()).toBe('Received (Europe/Berlin)')
     expect(row).toContain('[Alarm] Reef display: temperature above 28 °C')
   })
 

@@ -22,6 +22,7 @@ const incident: IncidentDetail = {
   openedAt: '2026-03-03T02:10:00.000Z', firstValue: 28.3, peakValue: 29.1, latestValue: 28.8, latestAt: '2026-03-03T02:40:00.000Z',
   snoozed: false, acknowledgedAt: null, acknowledgedBy: null, acknowledgeNote: null, resolvedAt: null, resolvedBy: null, resolveNote: null,
   escalationLevel: 1, nextEscalationAt: null, nextRepeatAt: '2026-03-03T03:10:00.000Z',
+  topSeverity: 'alarm', flapCount: 0, lastFlapAt: null, settleUntil: null, maintenance: false, siteIncidentId: null, conditionHolds: true,
   timeline: [
     { at: '2026-03-03T02:10:00.000Z', kind: 'opened', userId: null, detail: { value: 28.3, since: '2026-03-03T02:00:00.000Z', snoozed: false } },
     { at: '2026-03-03T02:10:00.000Z', kind: 'mail_queued', userId: null, detail: { kind: 'opened', recipients: ['sam@example.test'] } },
@@ -106,6 +107,31 @@ describe('incident detail', () => {
     await flushPromises()
     expect(document.querySelector('.v-dialog')!.textContent).toContain('say what was done')
     expect(resolveIncident).not.toHaveBeenCalled()
+  })
+
+  it('warns in the resolve dialog while the condition still holds', async () => {
+    const wrapper = await pageAs('keeper')
+    await wrapper.find('[data-test="resolve"]').trigger('click')
+    await flushPromises()
+    const warning = document.querySelector('[data-test="still-holds"]')!
+    expect(warning.textContent).toContain('The condition still holds (latest 28.8 °C)')
+    expect(warning.textContent).toContain('the incident reopens with a note and you are told by e-mail')
+  })
+
+  it('words flaps, a rise in severity and a reopening on the timeline', async () => {
+    vi.mocked(getIncident).mockResolvedValue({
+      ...incident,
+      timeline: [
+        { at: '2026-03-03T02:20:00.000Z', kind: 'severity_raised', userId: null, detail: { from: 'warning', to: 'alarm', value: 29.4, rule: 'Temperature above 29 °C' } },
+        { at: '2026-03-03T02:30:00.000Z', kind: 'flapped', userId: null, detail: { value: 28.6, count: 2 } },
+        { at: '2026-03-03T02:31:00.000Z', kind: 'reopened', userId: null, detail: { reason: 'still_holding', note: 'Reopened: the condition still held after it was resolved', resolvedBy: 21 } },
+      ],
+    })
+    const entries = (await pageAs('viewer')).findAll('[data-test="timeline-entry"]').map((e) => e.text())
+    expect(entries[0]).toContain('Rose to alarm')
+    expect(entries[0]).toContain('Temperature above 29 °C: 29.4 °C.')
+    expect(entries[1]).toContain('Flap 3: came back within the settle window')
+    expect(entries[2]).toContain('Reopened: the condition still held after it was resolved (resolved by Sam Keeper, who was told).')
   })
 
   it('offers only resolve once acknowledged, and nothing once resolved', async () => {

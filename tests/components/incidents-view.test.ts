@@ -20,6 +20,7 @@ const incident: PublicIncident = {
   openedAt: '2026-03-03T02:10:00.000Z', firstValue: -0.31, peakValue: -0.42, latestValue: -0.35, latestAt: '2026-03-03T02:40:00.000Z',
   snoozed: false, acknowledgedAt: '2026-03-03T02:20:00.000Z', acknowledgedBy: 21, acknowledgeNote: null, resolvedAt: null, resolvedBy: null,
   resolveNote: null, escalationLevel: 0, nextEscalationAt: null, nextRepeatAt: null,
+  topSeverity: 'alarm', flapCount: 0, lastFlapAt: null, settleUntil: null, maintenance: false, siteIncidentId: null, conditionHolds: true,
 }
 
 describe('incidents page', () => {
@@ -40,7 +41,7 @@ describe('incidents page', () => {
     expect(row).toContain('Reef display')
     expect(row).toContain('Warning')
     expect(row).toContain('Acknowledged')
-    expect(row).toContain('−0.42 change')
+    expect(row).toContain('pH fell 0.42')
     const stateChip = wrapper.find('[data-test="incident-state"]')
     expect(stateChip.find('.mdi-account-check').exists()).toBe(true)
 

@@ -11,7 +11,7 @@ const Blank = defineComponent({ render: () => h('div') })
 
 /** Same route names as the app, with blank pages, so links resolve and pushes can be checked. */
 export function testRouter(): Router {
-  const names = ['sign-in', 'tanks', 'tank-new', 'tank', 'tank-edit', 'tank-test-kit', 'sites', 'users', 'account', 'wall', 'incidents', 'incident', 'roster', 'ack', 'dev-mail', 'care-today', 'report', 'import', 'backup']
+  const names = ['sign-in', 'tanks', 'tank-new', 'tank', 'tank-edit', 'tank-test-kit', 'tank-build', 'sites', 'users', 'account', 'wall', 'incidents', 'incident', 'roster', 'ack', 'dev-mail', 'care-today', 'report', 'import', 'backup', 'forgot-password', 'reset-password']
   const paths: Record<string, string> = {
     'sign-in': '/sign-in',
     tanks: '/tanks',
@@ -19,6 +19,7 @@ export function testRouter(): Router {
     tank: '/tanks/:id',
     'tank-edit': '/tanks/:id/edit',
     'tank-test-kit': '/tanks/:id/test-kit',
+    'tank-build': '/tanks/:id/build',
     wall: '/wall/:siteId',
     sites: '/sites',
     users: '/users',
@@ -32,6 +33,8 @@ export function testRouter(): Router {
     report: '/reports',
     import: '/import',
     backup: '/backup',
+    'forgot-password': '/forgot-password',
+    'reset-password': '/reset-password',
   }
   return createRouter({
     history: createMemoryHistory(),

@@ -1,6 +1,6 @@
 import { flushPromises } from '@vue/test-utils'
-import { beforeEach, describe, expect, it, vi } from 'vitest'
-import type { PublicTank } from '@shared/schemas/tanks'
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest'
+import type { TankListItem } from '@shared/schemas/tanks'
 
 vi.mock('@/api/tanks', () => ({
   listTanks: vi.fn(),
@@ -21,10 +21,12 @@ vi.mock('@/api/sites', () => ({
 }))
 
 import { listTanks } from '@/api/tanks'
+import { useLiveStore } from '@/stores/live'
 import TanksView from '@/views/TanksView.vue'
 import { mountView } from './mount'
 
-const tank: PublicTank = {
+const readAt = new Date(Date.now() - 3 * 60_000).toISOString()
+const tank: TankListItem = {
   id: 41,
   name: 'Discus row 2',
   siteId: 3,
@@ -39,15 +41,43 @@ const tank: PublicTank = {
   filter: '',
   media: '',
   lightSchedule: null,
-  targets: {},
+  targets: { temperature: { min: 24, max: 30 }, ph: { min: 6, max: 7 } },
   notes: '',
   sortOrder: 0,
   archivedAt: null,
   createdAt: '2025-01-01T00:00:00.000Z',
   updatedAt: '2025-01-01T00:00:00.000Z',
+  status: {
+    state: 'steady',
+    stateReasons: [],
+    latest: { temperature: { value: 27.1, time: readAt, source: 'device' }, ph: { value: 6.5, time: readAt, source: 'test_kit' } },
+    openIncidents: [],
+    quietDevices: [],
+    hasDevices: true,
+  },
 }
 
+// Vuetify reads the window's width through media queries; jsdom answers none, so answer them for a width.
+const realMatchMedia = window.matchMedia
+function viewportWidth(width: number) {
+  const px = (query: string, name: string) => Number(new RegExp(`${name}:\\s*([\\d.]+)px`).exec(query)?.[1] ?? NaN)
+  Object.defineProperty(window, 'innerWidth', { value: width, configurable: true })
+  Object.defineProperty(window, 'matchMedia', {
+    configurable: true,
+    value: (query: string) => {
+      const min = px(query, 'min-width')
+      const max = px(query, 'max-width')
+      const matches = (Number.isNaN(min) || width >= min) && (Number.isNaN(max) || width <= max)
+      return { matches, media: query, onchange: null, addListener: vi.fn(), removeListener: vi.fn(), addEventListener: vi.fn(), removeEventListener: vi.fn(), dispatchEvent: () => false }
+    },
+  })
+}
+afterEach(() => {
+  Object.defineProperty(window, 'matchMedia', { configurable: true, value: realMatchMedia })
+})
+
 beforeEach(() => {
+  viewportWidth(1280)
   vi.mocked(listTanks).mockReset()
   vi.mocked(listTanks).mockResolvedValue({ items: [tank], total: 1, page: 1, pageSize: 25 })
 })
@@ -62,8 +92,54 @@ describe('TanksView', () => {
     expect(row.text()).toContain('Discus row 2')
     expect(row.text()).toContain('Back fish room')
     expect(row.text()).toContain('Established')
-    expect(row.text()).toContain('300')
-    expect(row.text()).toContain('29.0 °C')
+    expect(row.find('[data-test="tank-state"]').text()).toBe('Steady')
+    expect(row.find('[data-test="tank-state-icon"]').classes()).toContain('mdi-check-circle')
+    expect(row.find('[data-test="latest-temperature"]').text()).toBe('27.1 °C · 3 min ago')
+    expect(row.find('[data-test="latest-ph"]').text()).toBe('pH 6.50 · 3 min ago')
+    expect(row.find('[data-test="no-open-incidents"]').text()).toBe('None open')
+    expect(wrapper.find('thead').text()).toContain('Tank volume')
+    expect(row.text()).toContain('300 L')
+    expect(wrapper.find('[data-test="volume-note"]').text()).toContain('Tank volume is what the tank holds to the rim')
+  })
+
+  it('stacks each tank into one cell on a phone, with the same state, values and volume', async () => {
+    viewportWidth(390)
+    const { wrapper } = await mountView(TanksView, { role: 'viewer' })
+    await flushPromises()
+
+    expect(wrapper.findAll('thead th').map((th) => th.text())).toEqual(['Tank'])
+    const card = wrapper.find('tbody tr [data-test="tank-row"]')
+    expect(card.find('[data-test="tank-state"]').text()).toBe('Steady')
+    expect(card.find('[data-test="latest-temperature"]').text()).toBe('27.1 °C · 3 min ago')
+    expect(card.text()).toContain('Back fish room · Established · 300 L tank volume')
+  })
+
+  it('moves the value and the state when a reading arrives on the live socket', async () => {
+    const { wrapper } = await mountView(TanksView, { role: 'viewer' })
+    await flushPromises()
+
+    // 30.4 °C is above the 24–30 °C band: the same rule as the wall makes the tank one to watch.
+    useLiveStore().ingest([{ tankId: 41, metric: 'temperature', value: 30.4, time: new Date().toISOString(), source: 'device' }])
+    await flushPromises()
+    const row = wrapper.find('tbody tr')
+    expect(row.find('[data-test="latest-temperature"]').text()).toBe('30.4 °C · just now')
+    expect(row.find('[data-test="tank-state"]').text()).toBe('Watch')
+    expect(row.find('[data-test="tank-state-icon"]').classes()).toContain('mdi-eye')
+  })
+
+  it('shows each open incident with a link to it, and an alarm incident makes the tank an alarm', async () => {
+    vi.mocked(listTanks).mockResolvedValue({
+      items: [{ ...tank, status: { ...tank.status, state: 'alarm', openIncidents: [{ id: 9, title: 'Temperature above 30 °C for 10 min', severity: 'alarm', openedAt: readAt, state: 'open', maintenance: false, siteIncidentId: null, flapCount: 0 }] } }],
+      total: 1, page: 1, pageSize: 25,
+    })
+    const { wrapper } = await mountView(TanksView, { role: 'viewer' })
+    await flushPromises()
+
+    const row = wrapper.find('tbody tr')
+    expect(row.find('[data-test="tank-state"]').text()).toBe('Alarm')
+    const link = row.find('[data-test="open-incidents"] a')
+    expect(link.text()).toBe('alarm: Temperature above 30 °C for 10 min')
+    expect(link.attributes('href')).toBe('/incidents/9')
   })
 
   it('shows no "New tank" button to a viewer', async () => {

@@ -17,10 +17,14 @@ import { mountView } from './mount'
 const tank = {
   id: 12, name: 'Quarantine A', siteId: 3, siteName: 'Back fish room', kind: 'tropical_freshwater', stage: 'quarantine', dimensions: null,
   volumeLitres: 80, volumeSource: 'entered', substrateDepthCm: 0, heater: null, filter: '', media: '', lightSchedule: null,
-  targets: {}, notes: '', sortOrder: 0, archivedAt: null, createdAt: '2026-01-01T00:00:00.000Z', updatedAt: '2026-01-01T00:00:00.000Z',
+  targets: { ammonia: { min: 0, max: 0.02 }, ph: { min: 6.5, max: 8.5 } }, notes: '', sortOrder: 0, archivedAt: null, createdAt: '2026-01-01T00:00:00.000Z', updatedAt: '2026-01-01T00:00:00.000Z',
 } as PublicTank
 
+const scrolled = vi.fn()
 beforeEach(() => {
+  // jsdom does no layout: record the call instead.
+  Element.prototype.scrollIntoView = scrolled
+  scrolled.mockClear()
   vi.mocked(getTank).mockResolvedValue(tank)
   vi.mocked(getLatest).mockResolvedValue({ temperature: { value: 20, time: '2026-03-03T11:00:00.000Z', source: 'device' } })
   vi.mocked(createTestKitEntry).mockReset()
@@ -33,7 +37,8 @@ async function page() {
 }
 
 describe('TestKitView', () => {
-  it("saves and explains the numbers, taking the temperature from the tank's latest reading", async () => {
+  // The whole page, form, verdicts and explanations: slow to mount on a busy two-core machine.
+  it("saves and explains the numbers, taking the temperature from the tank's latest reading", { timeout: 20_000 }, async () => {
     vi.mocked(createTestKitEntry).mockImplementation(async () => ({}) as never)
     const wrapper = await page()
     await wrapper.find('input[name="ammonia"]').setValue('2')
@@ -48,6 +53,14 @@ describe('TestKitView', () => {
     expect(ammonia).toContain('20.0 °C (latest reading)')
     expect(wrapper.find('[data-test="kit-caution"]').exists()).toBe(true)
     expect((wrapper.find('input[name="ph"]').element as HTMLInputElement).value).toBe('')
+    // Each value against the tank's band (0–0.02 mg/L ammonia is this fixture's, the trade's usual "zero", common practice).
+    expect(wrapper.find('[data-test="verdict-ammonia"]').attributes('data-level')).toBe('act')
+    expect(wrapper.find('[data-test="verdict-ammonia"] [data-test="verdict-summary"]').text()).toBe('2 mg/L: above the target band 0–0.02 mg/L.')
+    expect(wrapper.find('[data-test="verdict-ph"]').attributes('data-level')).toBe('ok')
+    expect(wrapper.find('[data-test="verdict-caution"]').text()).toContain('aquatic veterinarian')
+    // The result is brought into view and takes the focus, for the phone whose save button sits below it.
+    expect(scrolled).toHaveBeenCalledWith({ block: 'start' })
+    expect(document.activeElement?.getAttribute('data-test')).toBe('kit-result')
   })
 
   it("puts the server's complaint on the right field", async () => {

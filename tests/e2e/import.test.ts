@@ -48,7 +48,14 @@ describe('importing a CSV file in the browser', () => {
     await preview.waitFor({ timeout: FIRST_LOAD_MS })
     expect(await preview.locator('th').allTextContents()).toEqual(['Time', 'Water temp (°F)'])
     expect(await page.locator('[data-test=time-format]').textContent()).toContain('ISO 8601 with offset')
+    expect(await page.locator('[data-test=import-expiry]').textContent()).toContain('not started within 24 hours is deleted')
     await shot(page, 'import-mapping')
+    for (const [name, viewport] of [['import-expiry-desktop', { width: 1280, height: 800 }], ['import-expiry-phone', { width: 390, height: 844 }]] as const) {
+      await page.setViewportSize(viewport)
+      await page.locator('[data-test=import-expiry]').scrollIntoViewIfNeeded()
+      await shot(page, name)
+    }
+    await page.setViewportSize({ width: 1440, height: 1000 })
 
     await page.locator('[data-test=import-start]').click()
     const bar = page.locator('[data-test=import-bar]')

@@ -44,7 +44,7 @@ export const tanksRoutes = (w: FuzzWorld): FuzzRoute[] => [
   { method: 'put', path: `/test-kit-entries/${w.kitEntryId}`, token: w.keeper, base: kitBody() },
 ]
 
-/** Rules, snoozes, incidents, acknowledgement links. */
+/** Rules, snoozes, maintenance windows, incidents, acknowledgement links. */
 export const alertsRoutes = (w: FuzzWorld): FuzzRoute[] => [
   { method: 'post', path: `/tanks/${w.tankId}/rules`, token: w.owner, base: ruleBody },
   { method: 'post', path: `/sites/${w.siteId}/rules`, token: w.owner, base: { ...ruleBody, spec: { kind: 'outside', metric: 'temperature', min: 23, max: 29 } } },
@@ -53,6 +53,10 @@ export const alertsRoutes = (w: FuzzWorld): FuzzRoute[] => [
   {
     method: 'post', path: `/tanks/${w.tankId}/snoozes`, token: w.keeper,
     base: { reason: 'Water change', startsAt: inHours(1), endsAt: inHours(3), weekly: true, repeatUntil: inHours(24 * 30), includeHeaterLine: false },
+  },
+  {
+    method: 'post', path: `/sites/${w.siteId}/maintenance-windows`, token: w.keeper,
+    base: { reason: 'Weekly glass polish', tankId: w.tankId, repeat: 'weekly', weekday: 1, start: '09:00', durationMinutes: 90 },
   },
   { method: 'post', path: `/incidents/${w.ackIncidentId}/acknowledge`, token: w.keeper, base: { note: 'On it' } },
   { method: 'post', path: `/incidents/${w.resolveIncidentId}/resolve`, token: w.keeper, base: { note: 'Heater replaced' } },
@@ -74,6 +78,7 @@ export const careRoutes = (w: FuzzWorld): FuzzRoute[] => [
     base: { kind: 'water_change', title: 'Weekly change', recurrence: { kind: 'weekdays', weekdays: [0, 3] }, defaultValues: { percent: 25, note: 'siphon', gravel: true }, startsOn: '2026-12-07', active: true },
   },
   { method: 'patch', path: `/care-tasks/${w.careTaskId}`, token: w.owner, base: { title: 'Glass', recurrence: { kind: 'interval', everyDays: 5 }, defaultValues: {}, active: true } },
+  { method: 'post', path: '/care-tasks/done', token: w.keeper, base: { tasks: [{ id: w.careTaskId, seenLastDoneAt: null }], notes: 'done' } },
   { method: 'post', path: `/care-tasks/${w.careTaskId}/done`, token: w.keeper, base: { notes: 'done', values: { sponge: true, minutes: 10 }, at: ago(10) } },
   { method: 'post', path: `/care-tasks/${w.careTaskId}/snooze`, token: w.keeper, base: { until: inHours(24), reason: 'Away at a show' } },
   { method: 'post', path: `/tanks/${w.careTankId}/care-log`, token: w.keeper, base: { kind: 'dosing', at: ago(5), text: 'Fertiliser 5 mL', values: { ml: 5 } } },

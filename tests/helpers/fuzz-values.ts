@@ -13,6 +13,19 @@ export const NASTY_STRINGS = [
   'x'.repeat(121), 'x'.repeat(5000), 'y'.repeat(70_000),
 ] as const
 
+/**
+ * Instants and dates at the edges of what parsers, JavaScript and PostgreSQL agree on: year 0 (no
+ * such year in PostgreSQL's calendar), JavaScript's last day (275760), a leap second, the widest
+ * real offsets (+14:00, -12:00) and one beyond them, dates before 1970 and far ahead.
+ */
+export const EDGE_TIMES = [
+  '0000-01-01T00:00:00Z', '0000-12-31T23:59:59+14:00', '-000001-01-01T00:00:00Z', '+275760-09-13T00:00:00Z', '275760-09-13T00:00:00Z',
+  '+275760-09-13T00:00:00.001Z', '2016-12-31T23:59:60Z', '2026-06-30T23:59:60+14:00', '2026-03-01T12:00:00+14:00', '2026-03-01T12:00:00-12:00',
+  '2026-03-01T12:00:00+23:59', '2026-03-01T12:00:00-23:59', '2026-03-01T12:00:00+14:01', '1969-12-31T23:59:59.999Z', '1900-01-01T00:00:00Z',
+  '9999-12-31T23:59:59.999999999Z', '2199-12-31T23:59:59.999Z', '2200-01-01T00:00:00Z', '2024-02-29T00:00:00Z', '2026-02-29T00:00:00Z',
+  '0000-01-01', '0100-02-29', '1970-01-01', '2200-01-01', '9999-12-31', '275760-09-13',
+] as const
+
 export const NASTY_NUMBERS = [
   0, -0, -1, 1, 0.1, 1e308, -1e308, 5e-324, 2 ** 31, 2 ** 31 - 1, -(2 ** 31), 2 ** 53 + 2, 2 ** 63, -(2 ** 63), 1e21, 123456789012,
 ] as const
@@ -26,6 +39,7 @@ const scalar: fc.Arbitrary<unknown> = fc.oneof(
   // JSON has no NaN or Infinity: they become null on the wire, which is itself worth sending.
   { weight: 2, arbitrary: fc.double() },
   { weight: 1, arbitrary: fc.date({ noInvalidDate: true }).map((d) => d.toISOString()) },
+  { weight: 2, arbitrary: fc.constantFrom<unknown>(...EDGE_TIMES) },
 )
 
 const hostileKey = fc.oneof(fc.constantFrom<string>(...PROTOTYPE_KEYS), fc.string({ maxLength: 12 }), fc.constantFrom('', ' ', '\u0000', 'a.b', '0'))

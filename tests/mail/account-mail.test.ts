@@ -48,6 +48,21 @@ describe('invitations and password resets go out through the mail outbox', () =>
     expect((await t.api().post('/api/v1/auth/sign-in').send({ email: org.users.keeper.email, password: 'a-brand-new-password' })).status).toBe(200)
     const again = await t.api().post('/api/v1/auth/password-reset/confirm').send({ token, password: 'another-new-password' })
     expect(again.status).toBe(400)
-    expect(again.body.error.fields).toEqual({ token: 'unknown, used or expired' })
+    expect(again.body.error).toMatchObject({ code: 'invalid_input', fields: { token: 'already used' } })
+    expect((await t.api().post('/api/v1/auth/sign-in').send({ email: org.users.keeper.email, password: 'another-new-password' })).status).toBe(401)
+    const made = await t.api().post('/api/v1/auth/password-reset/confirm').send({ token: 'x'.repeat(43), password: 'another-new-password' })
+    expect(made.body.error).toMatchObject({ code: 'invalid_input', fields: { token: 'unknown' } })
+  })
+
+  it('refuses an expired link by name and leaves the password as it was', async () => {
+    await t.api().post('/api/v1/auth/password-reset').send({ email: org.users.viewer.email })
+    const [mail] = await outbox(org.users.viewer.email)
+    const token = /reset-password\?token=([\w-]+)/.exec(mail.text_body)![1]
+    await t.ctx.sequelize.query(`UPDATE password_resets SET expires_at = now() - interval '1 minute' WHERE user_id = $1`, { bind: [org.users.viewer.id] })
+    const late = await t.api().post('/api/v1/auth/password-reset/confirm').send({ token, password: 'a-brand-new-password' })
+    expect(late.status).toBe(400)
+    expect(late.body.error).toMatchObject({ code: 'invalid_input', fields: { token: 'expired' } })
+    expect(late.body.error.message).toContain('60 minutes')
+    expect((await t.api().post('/api/v1/auth/sign-in').send({ email: org.users.viewer.email, password: TEST_PASSWORD })).status).toBe(200)
   })
 })

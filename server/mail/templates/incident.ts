@@ -23,6 +23,12 @@ export type IncidentMailInput = {
   safetyCaution?: string
   /** ISO time of this mail's event (escalated, repeated, resolved, back); shown with how long it lasted. */
   at?: string
+  /** What was measured, in words: "no temperature reading for 15 min" (shared/rules/measurement). */
+  measurement?: string
+  /** The first line of an actionable mail: what to do first. */
+  firstStep?: string
+  /** A line about why this mail comes now (a flap that held, a severity that rose, a window that ended). */
+  note?: string
 }
 
 export const TREND_CID = 'trend@tankwarden'
@@ -46,13 +52,15 @@ const reading = (i: IncidentMailInput) => {
   return oneLine(`${value} ${i.unitLabel}`)
 }
 const where = (i: IncidentMailInput) => `${i.tankName} · ${i.siteName}`
+/** "no temperature reading for 15 min" when the measurement is known, else "Temperature 31.46 °C". */
+const what = (i: IncidentMailInput) => (i.measurement ? oneLine(i.measurement) : `${i.metricLabel} ${reading(i)}`)
 const lasted = (i: IncidentMailInput) => (i.at ? ` (${formatDuration(Date.parse(i.at) - Date.parse(i.since))})` : '')
 
 const VARIANTS = {
   opened: {
     heading: (i) => `${SEVERITY[i.severity]}: ${i.metricLabel} on ${i.tankName}`,
-    subject: (i) => `${SEVERITY[i.severity]}: ${i.metricLabel} ${reading(i)} on ${where(i)}`,
-    lead: (i) => `The watch rule "${i.ruleName}" opened an incident: ${i.metricLabel} is ${reading(i)}.`,
+    subject: (i) => `${SEVERITY[i.severity]}: ${what(i)} on ${where(i)}`,
+    lead: (i) => (i.measurement ? `The watch rule "${i.ruleName}" opened an incident: ${what(i)}.` : `The watch rule "${i.ruleName}" opened an incident: ${i.metricLabel} is ${reading(i)}.`),
     sinceLabel: 'Opened',
     accent: (i) => ACCENT[i.severity],
     actionable: true,
@@ -67,7 +75,7 @@ const VARIANTS = {
   },
   repeat: {
     heading: (i) => `Still open: ${i.metricLabel} on ${i.tankName}`,
-    subject: (i) => `Still open — ${SEVERITY[i.severity].toLowerCase()}: ${i.metricLabel} ${reading(i)} on ${where(i)}`,
+    subject: (i) => `Still open — ${SEVERITY[i.severity].toLowerCase()}: ${what(i)} on ${where(i)}`,
     lead: (i) => `This incident is still open${lasted(i)}. ${i.metricLabel} is ${reading(i)}.`,
     sinceLabel: 'Opened',
     accent: (i) => ACCENT[i.severity],
@@ -80,6 +88,30 @@ const VARIANTS = {
     sinceLabel: 'Opened',
     accent: () => CALM,
     actionable: false,
+  },
+  raised: {
+    heading: (i) => `Now ${SEVERITY[i.severity].toLowerCase()}: ${i.metricLabel} on ${i.tankName}`,
+    subject: (i) => `Now ${SEVERITY[i.severity].toLowerCase()}: ${what(i)} on ${where(i)}`,
+    lead: (i) => `The same incident got worse: ${what(i)} ("${i.ruleName}").`,
+    sinceLabel: 'Opened',
+    accent: (i) => ACCENT[i.severity],
+    actionable: true,
+  },
+  reopened: {
+    heading: (i) => `Back and holding: ${i.metricLabel} on ${i.tankName}`,
+    subject: (i) => `Back and holding — ${SEVERITY[i.severity].toLowerCase()}: ${what(i)} on ${where(i)}`,
+    lead: (i) => `It cleared, came back within its settle window and still holds: ${what(i)}.`,
+    sinceLabel: 'Opened',
+    accent: (i) => ACCENT[i.severity],
+    actionable: true,
+  },
+  resolver: {
+    heading: (i) => `Reopened: ${i.metricLabel} on ${i.tankName}`,
+    subject: (i) => `Reopened after you resolved it: ${what(i)} on ${where(i)}`,
+    lead: (i) => `You resolved this incident, but its condition still holds, so it is open again: ${what(i)}.`,
+    sinceLabel: 'Opened',
+    accent: (i) => ACCENT[i.severity],
+    actionable: true,
   },
   deviceBack: {
     heading: (i) => `Reporting again: ${i.tankName}`,
@@ -99,11 +131,13 @@ function render(variant: Variant, i: IncidentMailInput): RenderedMail {
     ['Tank', i.tankName],
     ['Watch rule', i.ruleName],
     ['Severity', SEVERITY[i.severity]],
-    [i.metricLabel, reading(i)],
+    i.measurement ? ['Measured', oneLine(i.measurement)] : [i.metricLabel, reading(i)],
     [variant.sinceLabel, sinceText],
     ...(i.at ? ([['This update', formatInZone(i.at, i.siteTimeZone)]] as Array<[string, string]>) : []),
   ]
   const checks = variant.actionable ? i.whatToCheck : []
+  const first = variant.actionable && i.firstStep ? oneLine(i.firstStep) : undefined
+  const lead = [variant.lead(i), i.note].filter(Boolean).join(' ')
   const caution = variant.actionable ? i.safetyCaution : undefined
   const ack = variant.actionable ? i.acknowledgeUrl : undefined
   const attachments: OutboxAttachment[] = i.trendPng
@@ -116,7 +150,8 @@ function render(variant: Variant, i: IncidentMailInput): RenderedMail {
     accent: variant.accent(i),
     footer,
     body: [
-      `<p style="margin:0 0 8px">${escapeHtml(variant.lead(i))}</p>`,
+      first ? `<p style="margin:0 0 8px;font-weight:bold">${escapeHtml(first)}</p>` : '',
+      `<p style="margin:0 0 8px">${escapeHtml(lead)}</p>`,
       factsTable(facts),
       i.trendPng
         ? `<img src="cid:${TREND_CID}" width="600" height="240" alt="${escapeHtml(`Recent ${i.metricLabel} on ${i.tankName}`)}" style="max-width:100%;height:auto;border:1px solid #e4e7eb">`
@@ -130,9 +165,11 @@ function render(variant: Variant, i: IncidentMailInput): RenderedMail {
   })
 
   const text = [
+    // What to do first is the first line a person reads, before any heading.
+    ...(first ? [first, ''] : []),
     variant.heading(i),
     '',
-    variant.lead(i),
+    lead,
     '',
     ...facts.map(([label, value]) => `${label}: ${value}`),
     ...(checks.length ? ['', 'What to check:', ...checks.map((c) => `- ${c}`)] : []),
@@ -152,4 +189,7 @@ export const incidentOpened = (input: IncidentMailInput) => render(VARIANTS.open
 export const incidentEscalated = (input: IncidentMailInput) => render(VARIANTS.escalated, input)
 export const incidentRepeat = (input: IncidentMailInput) => render(VARIANTS.repeat, input)
 export const incidentResolved = (input: IncidentMailInput) => render(VARIANTS.resolved, input)
+export const incidentRaised = (input: IncidentMailInput) => render(VARIANTS.raised, input)
+export const incidentReopened = (input: IncidentMailInput) => render(VARIANTS.reopened, input)
+export const incidentReopenedToResolver = (input: IncidentMailInput) => render(VARIANTS.resolver, input)
 export const deviceBack = (input: IncidentMailInput) => render(VARIANTS.deviceBack, input)

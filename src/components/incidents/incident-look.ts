@@ -1,7 +1,7 @@
 import { isMetricKey } from '@shared/metrics/registry'
 import type { IncidentDetail, IncidentState, PublicIncident } from '@shared/schemas/incidents'
 import { SEVERITY_LOOKS, type Look } from '@/components/rules/rule-look'
-import { formatMinutes, ruleChange } from '@/components/rules/rule-words'
+import { formatMinutes, metricInSentence, ruleChange } from '@/components/rules/rule-words'
 import { formatReading } from '@/composables/useUnits'
 import { formatDateTime } from '@/composables/useZonedTime'
 
@@ -28,9 +28,9 @@ export const STATE_FILTER_ITEMS = [
  */
 export function incidentValue(incident: Pick<PublicIncident, 'metric' | 'ruleKind'>, value: number | null | undefined): string {
   if (value == null || !Number.isFinite(value)) return '—'
-  if (incident.ruleKind === 'quiet') return `${formatMinutes(value)} without a reading`
+  if (incident.ruleKind === 'quiet') return `no ${metricInSentence(incident.metric)} reading for ${formatMinutes(Math.round(value))}`
   if (!isMetricKey(incident.metric)) return String(value)
-  if (incident.ruleKind === 'rate') return `${value >= 0 ? '+' : '−'}${ruleChange(incident.metric, Math.abs(value))} change`
+  if (incident.ruleKind === 'rate') return `${metricInSentence(incident.metric)} ${value >= 0 ? 'rose' : 'fell'} ${ruleChange(incident.metric, Math.abs(value))}`
   return formatReading(incident.metric, value)
 }
 
@@ -49,6 +49,9 @@ const MAIL_WORDS: Record<string, string> = {
   escalated: 'escalation',
   repeated: 'reminder',
   resolved: 'all-clear',
+  raised: 'severity rose',
+  reopened: 'came back and holds',
+  resolver: 'reopened, to the person who resolved it',
 }
 
 type Entry = IncidentDetail['timeline'][number]
@@ -66,7 +69,7 @@ export function describeTimelineEntry(
   switch (entry.kind) {
     case 'opened': {
       const since = text(d.since) ? `; the condition held from ${formatDateTime(text(d.since), timeZone)}` : ''
-      const snoozed = d.snoozed === true ? ' The tank was snoozed, so nobody was e-mailed.' : ''
+      const snoozed = d.snoozed === true ? ' The tank was snoozed, so nobody was e-mailed.' : d.maintenance === true ? ' During maintenance: recorded, nobody e-mailed.' : ''
       return { ...base, icon: 'mdi-bell-ring', color: 'error', title: 'Opened', detail: `${incidentValue(incident, d.value as number)}${since}.${snoozed}` }
     }
     case 'mail_queued': {
@@ -92,6 +95,20 @@ export function describeTimelineEntry(
         return { ...base, icon: 'mdi-check-circle-outline', color: 'success', title: 'Resolved automatically', detail: `${text(d.reason) || 'The rule cleared'}${value}.` }
       }
       return { ...base, icon: 'mdi-check-circle-outline', color: 'success', title: `Resolved by ${nameOf(entry.userId)}`, detail: text(d.note) || undefined }
+    case 'severity_raised':
+      return { ...base, icon: 'mdi-arrow-up-bold', color: 'error', title: `Rose to ${text(d.to) === 'alarm' ? 'alarm' : text(d.to)}`, detail: `${text(d.rule)}: ${incidentValue(incident, d.value as number)}.` }
+    case 'severity_lowered':
+      return { ...base, icon: 'mdi-arrow-down-bold', color: 'warning', title: `Back to ${text(d.to)}`, detail: `${text(d.rule)} still holds.` }
+    case 'flapped':
+      return { ...base, icon: 'mdi-swap-vertical-bold', color: 'warning', title: `Flap ${Number(d.count ?? 0) + 1}: came back within the settle window`, detail: `${incidentValue(incident, d.value as number)}; counted on this incident, nobody e-mailed unless it holds.` }
+    case 'still_holding':
+      return { ...base, icon: 'mdi-timer-alert-outline', color: 'error', title: 'Came back and still holds', detail: 'Past its recheck time: people were told again.' }
+    case 'reopened':
+      return { ...base, icon: 'mdi-restore-alert', color: 'error', title: 'Reopened', detail: `${text(d.note)}${d.resolvedBy ? ` (resolved by ${nameOf(d.resolvedBy as number)}, who was told)` : ''}.` }
+    case 'maintenance_ended':
+      return { ...base, icon: 'mdi-wrench-check', color: 'warning', title: 'Maintenance window ended', detail: 'It still holds, so the people on duty were told.' }
+    case 'joined_site_incident':
+      return { ...base, icon: 'mdi-sitemap', color: 'warning', title: 'Part of a site incident', detail: text(d.title) }
     default:
       return { ...base, icon: 'mdi-circle-small', title: entry.kind.replace(/_/g, ' ') }
   }

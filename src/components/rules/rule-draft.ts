@@ -1,5 +1,5 @@
 import type { MetricKey } from '@shared/metrics/registry'
-import type { RuleSeverity, WatchRuleKind } from '@shared/rules/schema'
+import { DEFAULT_SETTLE_MINUTES, type MissingReading, type RuleSeverity, type WatchRuleKind } from '@shared/rules/schema'
 import { ruleInputSchema, type PublicRule, type RuleInput } from '@shared/schemas/rules'
 import { fieldErrors, friendlyIssues, type FieldErrors } from '@/composables/useFieldErrors'
 
@@ -20,6 +20,9 @@ export interface RuleDraft {
   quietMinutes: string
   marginCm: string
   onLux: string
+  /** Every kind: a trip this soon after a clear counts as a flap of the same incident. */
+  settleMinutes: string
+  missingReading: MissingReading
 }
 
 /** Which fields each kind asks for, in form order. */
@@ -37,7 +40,7 @@ export function emptyRuleDraft(): RuleDraft {
   return {
     name: '', severity: 'warning', enabled: true, kind: 'above', metric: 'temperature',
     limit: '', min: '', max: '', holdMinutes: '10', clearMargin: '0.5', maxChange: '', windowMinutes: '60',
-    quietMinutes: '15', marginCm: '2', onLux: '50',
+    quietMinutes: '15', marginCm: '2', onLux: '50', settleMinutes: '30', missingReading: 'keep',
   }
 }
 
@@ -55,6 +58,8 @@ export function draftFromRule(rule: Pick<PublicRule, 'name' | 'severity' | 'enab
   if (spec.kind === 'quiet') draft.quietMinutes = text(spec.quietMinutes)
   if (spec.kind === 'heater_line') draft.marginCm = text(spec.marginCm)
   if (spec.kind === 'light_schedule') draft.onLux = text(spec.onLux)
+  if (spec.settleMinutes !== undefined) draft.settleMinutes = text(spec.settleMinutes)
+  if (spec.missingReading) draft.missingReading = spec.missingReading
   return draft
 }
 
@@ -67,6 +72,11 @@ export function specFromDraft(draft: RuleDraft): Record<string, unknown> {
   for (const field of KIND_FIELDS[draft.kind]) {
     spec[field] = field === 'metric' ? draft.metric : numberOrUndefined(draft[field] as string)
   }
+  // Sent only when they differ from what an absent value means, so a stored rule reads back unchanged.
+  const settle = numberOrUndefined(draft.settleMinutes)
+  if (settle !== DEFAULT_SETTLE_MINUTES) spec.settleMinutes = settle
+  // A quiet rule is itself about missing readings.
+  if (draft.kind !== 'quiet' && draft.missingReading !== 'keep') spec.missingReading = draft.missingReading
   return spec
 }
 

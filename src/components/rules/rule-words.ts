@@ -79,3 +79,15 @@ export function describeCondition(spec: WatchRuleSpec): string {
 export function describeRule(rule: { severity: RuleSeverity; spec: WatchRuleSpec }): string {
   return `${SEVERITY_LABELS[rule.severity]} when ${describeCondition(rule.spec)}`
 }
+
+/** What a missing reading means to a rule, in plain words for the rule dialog. */
+export function missingReadingItems() {
+  return [
+    { value: 'keep' as const, title: 'Keep the last state' },
+    { value: 'tripped' as const, title: 'Count as tripped: opens the incident' },
+    { value: 'clear' as const, title: 'Count as clear: closes the incident' },
+  ]
+}
+
+/** The select's hint: when a reading counts as missing. */
+export const missingReadingHint = (metric: string, afterMinutes: number) => `When no ${metricInSentence(metric)} reading has come for ${formatMinutes(afterMinutes)}`

@@ -4,7 +4,7 @@ import { beforeEach, describe, expect, it, vi } from 'vitest'
 vi.mock('@/api/care')
 vi.mock('@/api/sites', () => ({ listSites: vi.fn(), createSite: vi.fn(), updateSite: vi.fn(), archiveSite: vi.fn(), unarchiveSite: vi.fn() }))
 
-import { getCareToday, markCareTaskDone } from '@/api/care'
+import { getCareToday, markCareTasksDone } from '@/api/care'
 import { listSites } from '@/api/sites'
 import CareTodayView from '@/views/CareTodayView.vue'
 import { mountView } from '../mount'
@@ -20,8 +20,8 @@ const tasks = [
 
 beforeEach(() => {
   vi.mocked(getCareToday).mockReset()
-  vi.mocked(getCareToday).mockResolvedValue({ siteIds: [3], tasks, watch: [] })
-  vi.mocked(markCareTaskDone).mockReset()
+  vi.mocked(getCareToday).mockResolvedValue({ siteIds: [3], onDuty: true, tasks, watch: [] })
+  vi.mocked(markCareTasksDone).mockReset()
   vi.mocked(listSites).mockResolvedValue([{ id: 3, name: 'Front shop', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 4 }])
 })
 
@@ -43,34 +43,64 @@ describe('CareTodayView', () => {
   })
 
   it('marks a task done with one tap and takes it off the list', async () => {
-    vi.mocked(markCareTaskDone).mockResolvedValue({
-      task: careTask(2),
-      logEntry: { id: 5, tankId: 102, kind: 'task_done', at: '2026-03-03T09:00:00.000Z', by: { id: 7, name: 'Pat' }, text: 'Task 2', values: {}, careTaskId: 2, waterChangeId: null },
-    })
+    vi.mocked(markCareTasksDone).mockResolvedValue([{ id: 2, outcome: 'done', doneAt: '2026-03-03T09:00:00.000Z', doneBy: { id: 7, name: 'Pat' }, task: careTask(2) }])
     const wrapper = await mountToday()
     await wrapper.find('[data-test="care-task-2"] [data-test="care-task-done"]').trigger('click')
     await flushPromises()
-    expect(markCareTaskDone).toHaveBeenCalledWith(2, {})
+    expect(markCareTasksDone).toHaveBeenCalledWith([{ id: 2, seenLastDoneAt: '2026-03-01T09:00:00.000Z' }], '')
     expect(wrapper.find('[data-test="care-task-2"]').exists()).toBe(false)
     expect(wrapper.findAll('[data-test="care-task-place"]')).toHaveLength(2)
     expect(wrapper.find('[data-test="care-today-notice"]').text()).toBe('Task 2 on Show tank 2: done.')
   })
 
-  it('shows one site when that was the last choice, and says so when I am on duty nowhere', async () => {
+  it('says who had ticked a task meanwhile instead of logging it twice', async () => {
+    // 08:12 UTC is 09:12 in Berlin in March (CET, UTC+1).
+    vi.mocked(markCareTasksDone).mockResolvedValue([{ id: 2, outcome: 'already_done', doneAt: '2026-03-03T08:12:00.000Z', doneBy: { id: 8, name: 'Sam' }, task: careTask(2) }])
+    const wrapper = await mountToday()
+    await wrapper.find('[data-test="care-task-2"] [data-test="care-task-done"]').trigger('click')
+    await flushPromises()
+    expect(wrapper.find('[data-test="care-task-2"]').exists()).toBe(false)
+    expect(wrapper.find('[data-test="care-today-notice"]').text()).toBe('Task 2 on Show tank 2 was already done by Sam at 3 Mar, 09:12 CET.')
+  })
+
+  it('shows one site when that was the last choice, and every site’s tasks when I am on duty nowhere', async () => {
     localStorage.setItem('tw.careTodayScope', '3')
     await mountToday()
     expect(getCareToday).toHaveBeenCalledWith({ siteId: 3 })
 
     localStorage.clear()
-    vi.mocked(getCareToday).mockResolvedValue({ siteIds: [], tasks: [], watch: [] })
+    vi.mocked(getCareToday).mockResolvedValue({ siteIds: [3], onDuty: false, tasks, watch: [] })
     const wrapper = await mountToday()
-    expect(wrapper.find('[data-test="care-today-off-duty"]').exists()).toBe(true)
-    expect(wrapper.find('[data-test="care-today-empty"]').text()).toBe('Nothing due. Well done.')
+    expect(wrapper.find('[data-test="care-today-off-duty"]').text()).toContain('every site you can see is listed')
+    expect(wrapper.find('[data-test="care-today-empty"]').exists()).toBe(false)
+    expect(wrapper.findAll('[data-test="care-task-place"]')).toHaveLength(3)
+    expect(wrapper.text()).not.toContain('On duty at')
+  })
+
+  it('marks several selected tasks done in one request and names one someone else had done', async () => {
+    vi.mocked(markCareTasksDone).mockResolvedValue([
+      { id: 1, outcome: 'done', doneAt: '2026-03-03T09:00:00.000Z', doneBy: { id: 7, name: 'Pat' }, task: careTask(1) },
+      // 08:12 UTC is 09:12 in Berlin in March (CET, UTC+1).
+      { id: 3, outcome: 'already_done', doneAt: '2026-03-03T08:12:00.000Z', doneBy: { id: 8, name: 'Sam' }, task: careTask(3) },
+    ])
+    const wrapper = await mountToday()
+    const doneButton = wrapper.find('[data-test="care-today-done-selected"]')
+    expect(doneButton.attributes('disabled')).toBeDefined()
+    await wrapper.find('[data-test="care-task-1"] [data-test="care-task-select"] input').setValue(true)
+    await wrapper.find('[data-test="care-task-3"] [data-test="care-task-select"] input').setValue(true)
+    expect(doneButton.text()).toBe('Mark 2 done')
+    await doneButton.trigger('click')
+    await flushPromises()
+    // In list order, each with the "last done" the list showed.
+    const seen = '2026-03-01T09:00:00.000Z'
+    expect(markCareTasksDone).toHaveBeenCalledWith([{ id: 3, seenLastDoneAt: seen }, { id: 1, seenLastDoneAt: seen }], '')
+    expect(wrapper.findAll('[data-test="care-task-place"]').map((p) => p.text())).toEqual(['Front shop · Show tank 2'])
+    expect(wrapper.find('[data-test="care-today-notice"]').text()).toBe('1 task done. Task 3 on Breeding rack B was already done by Sam at 3 Mar, 09:12 CET.')
   })
 
   it('lists tanks in quarantine and under an arrival watch, with the quarantine day and days remaining', async () => {
     vi.mocked(getCareToday).mockResolvedValue({
-      siteIds: [3], tasks: [],
+      siteIds: [3], onDuty: true, tasks: [],
       watch: [
         { tank: { id: 21, name: 'Quarantine Q1' }, site: { id: 3, name: 'Front shop', timeZone: 'Europe/Berlin' }, watchUntil: null,
           quarantine: { startedAt: '2026-02-24T09:00:00.000Z', endsAt: '2026-03-24T09:00:00.000Z', daysIn: 7, daysRemaining: 21, days: 28 } },

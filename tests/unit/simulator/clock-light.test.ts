@@ -84,4 +84,17 @@ describe('simulated light sensor', () => {
     sim.advance(9 * 3600)
     expect(sim.snapshot().lux).toBe(FULL_SCALE_LUX.tropical_freshwater)
   })
+
+  it('keeps the schedule on the wall clock when the simulation runs faster', () => {
+    // At 20× a simulated day passes in 72 real minutes; the light timer still reads the real clock.
+    const fast = simulate({}, { speed: 20 })
+    fast.advance(12 * 3600 * 20) // twelve real hours: noon in Berlin
+    expect(fast.snapshot().lux).toBe(FULL_SCALE_LUX.tropical_freshwater)
+    fast.advance(12 * 3600 * 20 - 3 * 3600 * 20) // 21:00 real: lights off
+    expect(fast.snapshot().lux).toBe(0)
+    // Three real hours after midnight is still night, however many simulated days have passed.
+    const night = simulate({}, { speed: 20 })
+    night.advance(3 * 3600 * 20)
+    expect(night.snapshot().lux).toBe(0)
+  })
 })

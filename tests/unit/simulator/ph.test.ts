@@ -52,6 +52,14 @@ describe('pH crash', () => {
     expect(crashOffset(10 * CRASH_DURATION_S)).toBeCloseTo(-1, 12)
   })
 
+  it('comes back along the same curve when the crash is bounded', () => {
+    const lasts = CRASH_DURATION_S / 2
+    expect(crashOffset(lasts - 1, lasts)).toBeCloseTo(-0.5, 3)
+    expect(crashOffset(lasts + CRASH_DURATION_S / 2, lasts)).toBeCloseTo(-0.25, 12)
+    expect(crashOffset(lasts + CRASH_DURATION_S, lasts)).toBe(-0)
+    expect(crashOffset(lasts + 5 * CRASH_DURATION_S, lasts)).toBe(-0)
+  })
+
   it('drops the tank about 1 pH below an identical tank without the fault', () => {
     const plan = { scenario: 'ph_crash' as const, startAfterS: 600, repeatEveryS: null }
     const crashing = simulate({}, { plan })

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { DEMO_SCENARIOS, parseScenarioList, parseScenarioPlan, scenarioElapsedS } from '../../../simulator/model/scenarios'
+import { DEMO_FAULT_PERIOD_REAL_S, demoScenarios, parseScenarioList, parseScenarioPlan, scenarioElapsedS } from '../../../simulator/model/scenarios'
 import { parseOptions } from '../../../simulator/options'
 
 describe('scenario lists', () => {
@@ -22,12 +22,49 @@ describe('scenario lists', () => {
     expect(() => parseScenarioPlan('large_water_change@0/0')).toThrow(/above zero/)
   })
 
-  it('holds the demo mapping', () => {
-    expect(DEMO_SCENARIOS.get('Sales row A1')?.scenario).toBe('heater_stuck_on')
-    expect(DEMO_SCENARIOS.get('Display 2 — planted scape')).toEqual({ scenario: 'large_water_change', startAfterS: 120, repeatEveryS: 3600 })
-    expect(DEMO_SCENARIOS.get('Breeding cylinder C1')).toEqual({ scenario: 'sensor_quiet', startAfterS: 300, repeatEveryS: null })
-    expect(DEMO_SCENARIOS.get('Quarantine Q1')?.scenario).toBe('ph_crash')
-    expect(DEMO_SCENARIOS.size).toBe(4)
+  it('reads an active time that bounds each occurrence', () => {
+    expect(parseScenarioPlan('heater_stuck_on@60/3600+600')).toEqual({ scenario: 'heater_stuck_on', startAfterS: 60, repeatEveryS: 3600, activeForS: 600 })
+    expect(() => parseScenarioPlan('heater_stuck_on@60/3600+3600')).toThrow(/shorter than the repeat period/)
+    const plan = parseScenarioPlan('sensor_quiet@100/1000+200')
+    expect(scenarioElapsedS(plan, 150)).toBe(50)
+    expect(scenarioElapsedS(plan, 300)).toBeNull()
+    expect(scenarioElapsedS(plan, 1150)).toBe(50)
+  })
+
+  it('places the demo faults in real time, whatever the speed', () => {
+    for (const speed of [1, 20]) {
+      const plans = demoScenarios(speed)
+      expect([...plans.keys()].sort()).toEqual(['Breeding cylinder C1', 'Display 2 — planted scape', 'Quarantine Q1', 'Sales row A1'])
+      expect(plans.get('Quarantine Q1')).toEqual({ scenario: 'heater_stuck_on', startAfterS: 300 * speed, repeatEveryS: 3600 * speed, activeForS: 2100 * speed })
+      expect(plans.get('Display 2 — planted scape')?.scenario).toBe('large_water_change')
+      expect(plans.get('Breeding cylinder C1')?.scenario).toBe('sensor_quiet')
+      expect(plans.get('Sales row A1')?.scenario).toBe('ph_crash')
+    }
+  })
+
+  it('plays each demo fault at most once an hour of real time, each over by itself before its next', () => {
+    const speed = 20
+    for (const [tank, plan] of demoScenarios(speed)) {
+      expect(plan.repeatEveryS, tank).toBe(DEMO_FAULT_PERIOD_REAL_S * speed)
+      // Starts of an occurrence over three real hours, sampled every real second.
+      const starts: number[] = []
+      let wasActive = false
+      for (let realS = 0; realS < 3 * 3600; realS++) {
+        const elapsed = scenarioElapsedS(plan, realS * speed, plan.scenario === 'large_water_change' ? 35 * 60 : undefined)
+        if (elapsed !== null && !wasActive) starts.push(realS)
+        wasActive = elapsed !== null
+      }
+      expect(starts.length, tank).toBe(3)
+      starts.slice(1).forEach((s, i) => expect(s - starts[i]!, tank).toBe(3600))
+      // Bounded: over well within the hour (a crash then recovers over three simulated hours).
+      expect(plan.activeForS ?? 35 * 60, tank).toBeLessThan(40 * 60 * speed)
+    }
+  })
+
+  it('opens nothing but a quiet sensor and a stuck heater in a newcomer’s first half hour', () => {
+    // Which faults have begun by 30 real minutes (the stuck heater's alarm waits for the water to warm).
+    const begun = [...demoScenarios(20)].filter(([, plan]) => plan.startAfterS < 30 * 60 * 20).map(([tank, plan]) => `${tank}: ${plan.scenario}`)
+    expect(begun.sort()).toEqual(['Breeding cylinder C1: sensor_quiet', 'Quarantine Q1: heater_stuck_on'])
   })
 
   it('times occurrences from the start, repeating when asked', () => {
@@ -62,7 +99,7 @@ describe('command-line options', () => {
 
   it('reads flags, environment fallbacks, and merges --scenario over --demo-scenarios', () => {
     const options = parseOptions(
-      ['--transport', 'http', '--tanks', '3', '--interval', '2', '--speed', '60', '--demo-scenarios', '--scenario', 'Sales row A1=malformed', '--once'],
+      ['--transport', 'http', '--tanks', '3', '--interval', '2', '--speed', '60', '--demo-scenarios', '--scenario', 'Display 2 — planted scape=malformed', '--once'],
       { SIMULATOR_EMAIL: 'boss@example.test', MQTT_URL: 'mqtt://broker:1884' },
     )
     if (options === 'help') throw new Error('unexpected help')
@@ -73,8 +110,9 @@ describe('command-line options', () => {
     expect(options.once).toBe(true)
     expect(options.email).toBe('boss@example.test')
     expect(options.mqttUrl).toBe('mqtt://broker:1884')
-    expect(options.scenarios.get('Sales row A1')?.scenario).toBe('malformed')
-    expect(options.scenarios.get('Quarantine Q1')?.scenario).toBe('ph_crash')
+    expect(options.scenarios.get('Display 2 — planted scape')?.scenario).toBe('malformed')
+    // The demo faults at 60× start as many simulated seconds later as real ones.
+    expect(options.scenarios.get('Quarantine Q1')).toMatchObject({ scenario: 'heater_stuck_on', startAfterS: 300 * 60 })
   })
 
   it('refuses bad values', () => {
