@@ -4,6 +4,7 @@ import type { BuildPlan, BuildPlanInput, buildStepDoneSchema, PublicBuild } from
 import type { LivestockAdded } from './care'
 import { http } from './client'
 import { ApiError } from './errors'
+import { fileNameOf, saveFile } from './save-file'
 
 export type { BuildPlan, BuildPlanInput, PublicBuild }
 export type BuildStepDoneInput = z.input<typeof buildStepDoneSchema>
@@ -42,15 +43,8 @@ export async function getBuildTemplates(tankId: number): Promise<BuildTemplate[]
 
 export async function downloadBuildReport(tankId: number): Promise<string> {
   const res = await http.get<Blob>(`/tanks/${tankId}/build/report/pdf`, { responseType: 'blob' })
-  const filename = /filename="([^"]+)"/.exec(String(res.headers['content-disposition'] ?? ''))?.[1] ?? 'build-report.pdf'
-  const url = URL.createObjectURL(res.data)
-  const link = document.createElement('a')
-  link.href = url
-  link.download = filename
-  document.body.appendChild(link)
-  link.click()
-  link.remove()
-  setTimeout(() => URL.revokeObjectURL(url), 10_000)
+  const filename = fileNameOf(res.headers['content-disposition'], 'build-report.pdf')
+  saveFile(res.data, filename)
   return filename
 }
 

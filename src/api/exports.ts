@@ -2,6 +2,7 @@ import type { ExportKind } from '@shared/schemas/exports'
 import { http } from './client'
 import { notifyUnauthorized } from './session'
 import { ApiError, isApiErrorBody } from './errors'
+import { fileNameOf, saveFile } from './save-file'
 
 export type ExportScope = 'tank' | 'site'
 export interface RestoreSummary {
@@ -22,22 +23,6 @@ async function errorFromBlob(status: number, data: Blob): Promise<ApiError> {
   return new ApiError({ status, code: `http_${status}`, message: `The server answered ${status}` })
 }
 
-function fileNameOf(disposition: unknown, fallback: string): string {
-  const match = /filename="([^"]+)"/.exec(String(disposition ?? ''))
-  return match?.[1] ?? fallback
-}
-
-/** Hands a downloaded file to the browser as a save. */
-function save(blob: Blob, fileName: string) {
-  const url = URL.createObjectURL(blob)
-  const link = document.createElement('a')
-  link.href = url
-  link.download = fileName
-  document.body.append(link)
-  link.click()
-  link.remove()
-  setTimeout(() => URL.revokeObjectURL(url), 10_000)
-}
 
 async function download(path: string, params: Record<string, string>, fallback: string): Promise<string> {
   // Every status is taken as an answer here, so the error body in the Blob can be read.
@@ -48,7 +33,7 @@ async function download(path: string, params: Record<string, string>, fallback: 
     throw error
   }
   const fileName = fileNameOf(res.headers['content-disposition'], fallback)
-  save(res.data, fileName)
+  saveFile(res.data, fileName)
   return fileName
 }
 

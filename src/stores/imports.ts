@@ -2,6 +2,7 @@ import { acceptHMRUpdate, defineStore } from 'pinia'
 import { computed, ref } from 'vue'
 import type { ImportMapping, ImportSourceSummary, PublicImportJob } from '@shared/schemas/imports'
 import * as importsApi from '@/api/imports'
+import { saveFile } from '@/api/save-file'
 
 const FINISHED = ['done', 'cancelled', 'failed']
 const POLL_MS = 500
@@ -66,14 +67,7 @@ export const useImportsStore = defineStore('imports', () => {
   async function downloadReport() {
     if (!job.value) return
     const blob = await importsApi.downloadRejections(job.value.id)
-    const url = URL.createObjectURL(blob)
-    const a = document.createElement('a')
-    a.href = url
-    a.download = `import-${job.value.id}-rejected.csv`
-    document.body.appendChild(a)
-    a.click()
-    a.remove()
-    setTimeout(() => URL.revokeObjectURL(url), 10_000)
+    saveFile(blob, `import-${job.value.id}-rejected.csv`)
   }
 
   function $reset() {

@@ -3,6 +3,7 @@ import { ref } from 'vue'
 import type { Report, ReportSchedule } from '@shared/schemas/reports'
 import * as reportsApi from '@/api/reports'
 import type { ReportRequest, ReportScheduleInput, ReportScheduleUpdate } from '@/api/reports'
+import { saveFile } from '@/api/save-file'
 
 export const useReportsStore = defineStore('reports', () => {
   const report = ref<Report | null>(null)
@@ -25,14 +26,7 @@ export const useReportsStore = defineStore('reports', () => {
   /** Fetches the PDF and hands it to the browser as a download. */
   async function downloadPdf(request: ReportRequest) {
     const { blob, filename } = await reportsApi.getReportPdf(request)
-    const url = URL.createObjectURL(blob)
-    const link = document.createElement('a')
-    link.href = url
-    link.download = filename
-    document.body.appendChild(link)
-    link.click()
-    link.remove()
-    setTimeout(() => URL.revokeObjectURL(url), 10_000)
+    saveFile(blob, filename)
     return filename
   }
 
