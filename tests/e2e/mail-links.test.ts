@@ -128,7 +128,7 @@ describe('the acknowledge link of an alert mail', () => {
     const t0 = Date.now() - 20 * MIN
     expect(await postTemperatures(s, probe.token, Array.from({ length: 13 }, (_, i) => [t0 + i * MIN, 28.4 + i * 0.1]))).toBe(13)
     await s.rules.engine.settle()
-    const mail = await waitForMailTo(org.users.keeper.email, /^Alarm: Temperature/)
+    const mail = await waitForMailTo(org.users.keeper.email, /^Alarm: temperature/)
     const link = atApp(/(http:\/\/\S+\/ack\?token=[\w-]+)/.exec(mail.text_body)![1]!)
 
     const page = await browser.newPage({ viewport: { width: 390, height: 844 } })
