@@ -57,6 +57,20 @@ export const BACKUP_TABLES = [
     },
   },
   {
+    table: 'maintenance_windows', hasId: true, order: 'id',
+    columns: {
+      site_id: '->sites', tank_id: '->tanks?', rule_id: '->watch_rules?', reason: 'text', starts_at: 'time?', ends_at: 'time?',
+      weekday: 'int?', start_minute: 'int?', duration_minutes: 'int?', created_by: '->users?', cancelled_at: 'time?',
+    },
+  },
+  {
+    table: 'site_incidents', hasId: true, order: 'id',
+    columns: {
+      site_id: '->sites', cause: 'text', severity: 'text', title: 'text', state: 'text', opened_at: 'time', acknowledged_at: 'time?',
+      acknowledged_by: '->users?', resolved_at: 'time?', escalation_level: 'int', next_escalation_at: 'time?', notify_at: 'time?',
+    },
+  },
+  {
     table: 'incidents', hasId: true, order: 'id',
     columns: {
       site_id: '->sites', tank_id: '->tanks', rule_id: '->watch_rules?', rule_kind: 'text', metric: 'text', severity: 'text',
@@ -64,6 +78,8 @@ export const BACKUP_TABLES = [
       latest_value: 'float?', latest_at: 'time?', snoozed: 'bool', acknowledged_at: 'time?', acknowledged_by: '->users?',
       acknowledge_note: 'text?', resolved_at: 'time?', resolved_by: '->users?', resolve_note: 'text?',
       escalation_level: 'int', next_escalation_at: 'time?', next_repeat_at: 'time?',
+      top_severity: 'text', flap_count: 'int', last_flap_at: 'time?', settle_until: 'time?', all_clear_at: 'time?',
+      recheck_at: 'time?', notify_at: 'time?', maintenance: 'bool', cause: 'text?', site_incident_id: '->site_incidents?',
     },
   },
   {

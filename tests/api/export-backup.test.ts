@@ -25,11 +25,17 @@ async function buildOrganization() {
   const device = await insertRow(t.ctx, 'devices', { organization_id: o, tank_id: tank, name: 'Display probe', metrics: ['temperature', 'ph'], interval_seconds: 60, token_hash: 'secret-hash' })
   const siteRule = await insertRow(t.ctx, 'watch_rules', { organization_id: o, site_id: site, name: 'Warm', severity: 'alarm', spec: JSON.stringify({ kind: 'above', metric: 'temperature', limit: 28 }), created_by: owner.id })
   const override = await insertRow(t.ctx, 'watch_rules', { organization_id: o, site_id: site, tank_id: tank, overrides_rule_id: siteRule, name: 'Warm (display)', severity: 'warning', spec: JSON.stringify({ kind: 'above', metric: 'temperature', limit: 29 }) })
+  const siteIncident = await insertRow(t.ctx, 'site_incidents', {
+    organization_id: o, site_id: site, cause: 'heat', severity: 'warning', title: 'Warm across the shop', state: 'acknowledged',
+    opened_at: '2026-07-01T12:05:00Z', acknowledged_at: '2026-07-01T12:10:00Z', acknowledged_by: keeper,
+  })
   const incident = await insertRow(t.ctx, 'incidents', {
     organization_id: o, site_id: site, tank_id: tank, rule_id: override, rule_kind: 'above', metric: 'temperature', severity: 'warning',
     title: 'Warm', state: 'acknowledged', condition_since: '2026-07-01T12:00:00Z', opened_at: '2026-07-01T12:05:00Z', first_value: 29.2,
-    acknowledged_at: '2026-07-01T12:10:00Z', acknowledged_by: keeper,
+    acknowledged_at: '2026-07-01T12:10:00Z', acknowledged_by: keeper, flap_count: 2, last_flap_at: '2026-07-01T12:30:00Z',
+    cause: 'heat', site_incident_id: siteIncident,
   })
+  await insertRow(t.ctx, 'maintenance_windows', { organization_id: o, site_id: site, tank_id: tank, reason: 'Tuesday glass day', weekday: 1, start_minute: 540, duration_minutes: 90, created_by: keeper })
   await insertRow(t.ctx, 'incident_events', { incident_id: incident, kind: 'acknowledged', user_id: keeper, at: '2026-07-01T12:10:00Z', detail: JSON.stringify({ note: 'fan on' }) })
   await insertRow(t.ctx, 'snoozes', { organization_id: o, tank_id: tank, reason: 'Water change', starts_at: '2026-07-02T09:00:00Z', ends_at: '2026-07-02T10:00:00Z', created_by: keeper })
   await insertRow(t.ctx, 'duty_shifts', { organization_id: o, site_id: site, user_id: keeper, weekday: 0, start_time: '08:00', end_time: '16:00' })
