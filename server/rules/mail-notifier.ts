@@ -77,11 +77,10 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
     async notify(kind, incident, transaction, options = {}) {
       const people = await recipients(kind, incident, transaction, options)
       if (!people.length) return []
-      const [tank, site, organization] = await Promise.all([
-        models.Tank.findByPk(incident.tankId, { transaction }),
-        models.Site.findByPk(incident.siteId, { transaction }),
-        models.Organization.findByPk(incident.organizationId, { transaction }),
-      ])
+      // One after another: queries on one transaction's connection cannot run at once.
+      const tank = await models.Tank.findByPk(incident.tankId, { transaction })
+      const site = await models.Site.findByPk(incident.siteId, { transaction })
+      const organization = await models.Organization.findByPk(incident.organizationId, { transaction })
       const rule = incident.ruleId ? await models.WatchRule.findByPk(incident.ruleId, { transaction }) : null
       const def = isMetricKey(incident.metric) ? METRICS[incident.metric] : null
       const points = await trend(incident, transaction)
@@ -139,11 +138,9 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
       const list = kind === 'opened' ? duty : [...duty, ...(await owners(siteIncident.organizationId, transaction))]
       const people = [...new Map(list.map((p) => [p.email, p])).values()]
       if (!people.length) return []
-      const [site, organization, linked] = await Promise.all([
-        models.Site.findByPk(siteIncident.siteId, { transaction }),
-        models.Organization.findByPk(siteIncident.organizationId, { transaction }),
-        models.Incident.findAll({ where: { siteIncidentId: siteIncident.id }, include: [{ association: 'tank', attributes: ['name', 'heater'] }], order: [['id', 'ASC']], transaction }),
-      ])
+      const site = await models.Site.findByPk(siteIncident.siteId, { transaction })
+      const organization = await models.Organization.findByPk(siteIncident.organizationId, { transaction })
+      const linked = await models.Incident.findAll({ where: { siteIncidentId: siteIncident.id }, include: [{ association: 'tank', attributes: ['name', 'heater'] }], order: [['id', 'ASC']], transaction })
       const rules = await models.WatchRule.findAll({ where: { id: linked.map((i) => i.ruleId).filter((id): id is number => id !== null) }, transaction })
       const tanks = linked.map((i) => {
         const tank = (i as Incident & { tank?: { name: string; heater: { topCm: number } | null } }).tank

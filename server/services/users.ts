@@ -122,10 +122,9 @@ export function usersService(ctx: AppContext) {
           },
           { transaction },
         )
-        const [organization, inviter] = await Promise.all([
-          models.Organization.findByPk(actor.organizationId, { transaction }),
-          models.User.findByPk(actor.userId, { transaction }),
-        ])
+        // One after another: queries on one transaction's connection cannot run at once.
+        const organization = await models.Organization.findByPk(actor.organizationId, { transaction })
+        const inviter = await models.User.findByPk(actor.userId, { transaction })
         const mail = invitationMail({
           organizationName: organization?.name ?? '',
           inviterName: inviter?.name ?? 'An owner',
