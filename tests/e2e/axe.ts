@@ -1,0 +1,36 @@
+import { createRequire } from 'node:module'
+import type { Page } from 'playwright-core'
+
+const AXE_PATH = createRequire(import.meta.url).resolve('axe-core/axe.min.js')
+/** The success criteria of WCAG 2.1 at levels A and AA, as axe-core tags its rules. */
+const WCAG21_AA = ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa']
+
+export interface AxeViolation {
+  id: string
+  impact: string | null
+  help: string
+  targets: string[]
+}
+
+/** Runs axe-core over the whole page as it is now and answers the WCAG 2.1 A/AA violations. */
+export async function wcagViolations(page: Page): Promise<AxeViolation[]> {
+  if (!(await page.evaluate('typeof window.axe === "object"'))) await page.addScriptTag({ path: AXE_PATH })
+  return page.evaluate(async (tags) => {
+    // eslint-disable-next-line @typescript-eslint/no-explicit-any
+    const axe = (window as any).axe
+    const result = await axe.run(document, { runOnly: { type: 'tag', values: tags }, resultTypes: ['violations'] })
+    // eslint-disable-next-line @typescript-eslint/no-explicit-any
+    return result.violations.map((v: any) => ({
+      id: v.id,
+      impact: v.impact,
+      help: v.help,
+      // eslint-disable-next-line @typescript-eslint/no-explicit-any
+      targets: v.nodes.map((n: any) => n.target.join(' ')),
+    }))
+  }, WCAG21_AA)
+}
+
+/** One line per rule: its id, impact and the elements that break it. */
+export function describeViolations(violations: AxeViolation[]): string {
+  return violations.map((v) => `${v.id} (${v.impact}, ${v.targets.length}): ${v.targets.slice(0, 8).join(' | ')}`).join('\n')
+}
