@@ -14,7 +14,7 @@ describe('temperature unit preference', () => {
   it('switches every temperature to °F from the user menu and remembers it', async () => {
     const { wrapper } = await mountView(UserMenu, { role: 'keeper' })
     expect(formatReading('temperature', 25)).toBe('25.0 °C')
-    await wrapper.find('button[aria-label="Your account"]').trigger('click')
+    await wrapper.find('button[data-test="account-menu"]').trigger('click')
     await flushPromises()
     await new DOMWrapper(document.querySelector('button[aria-label="Degrees Fahrenheit"]')!).trigger('click')
     await flushPromises()

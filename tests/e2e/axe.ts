@@ -10,6 +10,8 @@ export interface AxeViolation {
   impact: string | null
   help: string
   targets: string[]
+  /** What axe found wrong on the first element, e.g. the measured contrast and colours. */
+  detail: string
 }
 
 /** Runs axe-core over the whole page as it is now and answers the WCAG 2.1 A/AA violations. */
@@ -26,11 +28,12 @@ export async function wcagViolations(page: Page): Promise<AxeViolation[]> {
       help: v.help,
       // eslint-disable-next-line @typescript-eslint/no-explicit-any
       targets: v.nodes.map((n: any) => n.target.join(' ')),
+      detail: v.nodes[0]?.failureSummary?.split('\n').slice(1).join(' ').trim() ?? '',
     }))
   }, WCAG21_AA)
 }
 
 /** One line per rule: its id, impact and the elements that break it. */
 export function describeViolations(violations: AxeViolation[]): string {
-  return violations.map((v) => `${v.id} (${v.impact}, ${v.targets.length}): ${v.targets.slice(0, 8).join(' | ')}`).join('\n')
+  return violations.map((v) => `${v.id} (${v.impact}, ${v.targets.length}): ${v.targets.slice(0, 8).join(' | ')} — ${v.detail}`).join('\n')
 }
