@@ -62,10 +62,8 @@ async function open(page: Page, path: string) {
 async function audit(page: Page, label: string, path: string, found: string[]) {
   await open(page, path)
   const violations = await wcagViolations(page)
-  if (violations.length) {
-    found.push(`${label} ${path}:\n${describeViolations(violations)}`)
-    await shot(page, `a11y-${label.replace(/\W+/g, '-')}`)
-  }
+  if (violations.length) found.push(`${label} ${path}:\n${describeViolations(violations)}`)
+  await shot(page, `a11y-${label}${new URL(path, s.baseUrl).pathname.replace(/\W+/g, '-')}`)
 }
 
 async function newContext(size: Size, theme: Theme): Promise<BrowserContext> {
