@@ -1,0 +1,104 @@
+import type { Browser, Page } from 'playwright-core'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { PublicTestKitEntry } from '@shared/schemas/test-kit'
+import { TEST_PASSWORD, type TestOrg } from '../helpers/fixtures'
+import { launchBrowser, shot, startAppForBrowser } from './browser'
+import { api, FIRST_LOAD_MS, tankWithProbe, type App } from './keeper-setup'
+
+// Keyboard only: Tab moves between controls, typing fills them, Enter acts. Every control reached on
+// the way must show where the focus is (WCAG 2.1 success criteria 2.1.1 Keyboard and 2.4.7 Focus
+// Visible, W3C, 2018).
+
+let s: App
+let b: Awaited<ReturnType<typeof launchBrowser>>
+let browser: Browser
+let org: TestOrg
+let tankId: number
+
+beforeAll(async () => {
+  s = await startAppForBrowser()
+  b = await launchBrowser()
+  browser = b.browser
+  org = await s.createOrg('Keyboard Reef Works')
+  tankId = (await tankWithProbe(s, org.users.owner.token, org.siteIds[0], 'Planted nano')).tankId
+})
+afterAll(async () => {
+  await b?.close()
+  await s?.close()
+})
+
+interface Focused {
+  name: string
+  tag: string
+  visible: boolean
+}
+
+/** The focused element's accessible name as a screen reader would mostly get it, and whether its focus shows. */
+const focused = (page: Page): Promise<Focused> =>
+  page.evaluate(() => {
+    const el = document.activeElement as HTMLElement | null
+    if (!el || el === document.body) return { name: '', tag: 'body', visible: false }
+    const byIds = el.getAttribute('aria-labelledby')?.split(' ').map((id) => document.getElementById(id)?.textContent ?? '').join(' ')
+    const labels = (el as HTMLInputElement).labels
+    const name = (el.getAttribute('aria-label') || byIds || labels?.[0]?.textContent || el.textContent || '').trim()
+    // A Vuetify field shows its focus on the field around the input; a button on its overlay or outline.
+    const field = el.closest('.v-field')
+    const overlay = el.querySelector(':scope > .v-btn__overlay')
+    const style = getComputedStyle(el)
+    const visible = field
+      ? field.classList.contains('v-field--focused')
+      : el.matches(':focus-visible') && (style.outlineStyle !== 'none' || (overlay ? Number(getComputedStyle(overlay).opacity) > 0 : false))
+    return { name, tag: el.tagName.toLowerCase(), visible }
+  })
+
+/** Presses Tab until the focus is on a control named `name`; every stop on the way must show its focus. */
+async function tabTo(page: Page, name: string, maxStops = 80) {
+  const stops: Focused[] = []
+  for (let i = 0; i < maxStops; i++) {
+    await page.keyboard.press('Tab')
+    const now = await focused(page)
+    stops.push(now)
+    if (now.name === name) break
+  }
+  const last = stops.at(-1)
+  expect(last?.name, `Tab never reached "${name}"; stops: ${stops.map((f) => f.name).join(' → ')}`).toBe(name)
+  expect(stops.filter((f) => !f.visible).map((f) => `${f.tag} "${f.name}"`), 'controls without a visible focus').toEqual([])
+}
+
+async function signInByKeyboard(page: Page, email: string) {
+  await page.goto(`${s.baseUrl}/sign-in`, { timeout: FIRST_LOAD_MS })
+  await page.locator('form').waitFor({ timeout: FIRST_LOAD_MS })
+  await tabTo(page, 'E-mail')
+  await page.keyboard.type(email)
+  await tabTo(page, 'Password')
+  await page.keyboard.type(TEST_PASSWORD)
+  await page.keyboard.press('Enter')
+  await page.waitForURL((url) => url.pathname === '/tanks', { timeout: FIRST_LOAD_MS })
+}
+
+describe('keyboard only', () => {
+  it('signs in with Tab, typing and Enter', async () => {
+    const page = await browser.newPage({ viewport: { width: 1280, height: 800 } })
+    await signInByKeyboard(page, org.users.keeper.email)
+    await page.locator('h1', { hasText: 'Tanks' }).waitFor({ timeout: FIRST_LOAD_MS })
+    await page.close()
+  })
+
+  it('saves a test-kit entry without a pointer', async () => {
+    const page = await browser.newPage({ viewport: { width: 390, height: 844 } })
+    await signInByKeyboard(page, org.users.keeper.email)
+    await page.goto(`${s.baseUrl}/tanks/${tankId}/test-kit`, { timeout: FIRST_LOAD_MS })
+    await page.locator('form.tw-kit-form').waitFor({ timeout: FIRST_LOAD_MS })
+    await tabTo(page, 'pH')
+    await page.keyboard.type('7.2')
+    await tabTo(page, 'Save test-kit entry')
+    await shot(page, 'keyboard-test-kit-save-focused')
+    const saved = page.waitForResponse((r) => r.url().endsWith(`/api/v1/tanks/${tankId}/test-kit-entries`) && r.request().method() === 'POST')
+    await page.keyboard.press('Enter')
+    expect((await saved).status()).toBe(201)
+    const entries = await api(s, `/tanks/${tankId}/test-kit-entries`, org.users.keeper.token)
+    expect(entries.status).toBe(200)
+    expect((entries.body as PublicTestKitEntry[]).map((e) => e.values.map((v) => [v.metric, v.value]))).toEqual([[['ph', 7.2]]])
+    await page.close()
+  })
+})
