@@ -14,6 +14,7 @@ let b: Awaited<ReturnType<typeof launchBrowser>>
 let browser: Browser
 let org: TestOrg
 let tankId: number
+let incidentId: number
 
 beforeAll(async () => {
   s = await startAppForBrowser()
@@ -21,6 +22,12 @@ beforeAll(async () => {
   browser = b.browser
   org = await s.createOrg('Keyboard Reef Works')
   tankId = (await tankWithProbe(s, org.users.owner.token, org.siteIds[0], 'Planted nano')).tankId
+  const at = new Date()
+  const incident = await s.ctx.models.Incident.create({
+    organizationId: org.organizationId, siteId: org.siteIds[0], tankId, ruleId: null, ruleKind: 'below', metric: 'ph', severity: 'warning',
+    title: 'pH below 6.0', state: 'open', conditionSince: at, openedAt: at, firstValue: 5.9, peakValue: 5.9, latestValue: 5.9, latestAt: at,
+  })
+  incidentId = incident.id
 })
 afterAll(async () => {
   await b?.close()
@@ -99,6 +106,38 @@ describe('keyboard only', () => {
     const entries = await api(s, `/tanks/${tankId}/test-kit-entries`, org.users.keeper.token)
     expect(entries.status).toBe(200)
     expect((entries.body as PublicTestKitEntry[]).map((e) => e.values.map((v) => [v.metric, v.value]))).toEqual([[['ph', 7.2]]])
+    await page.close()
+  })
+
+  it('acknowledges and resolves an incident without a pointer', async () => {
+    const page = await browser.newPage({ viewport: { width: 1280, height: 800 } })
+    await signInByKeyboard(page, org.users.keeper.email)
+    await page.goto(`${s.baseUrl}/incidents/${incidentId}`, { timeout: FIRST_LOAD_MS })
+    await page.locator('[data-test=acknowledge]').waitFor({ timeout: FIRST_LOAD_MS })
+    const stateOf = async () => (await api(s, `/incidents/${incidentId}`, org.users.keeper.token)).body.state
+
+    await tabTo(page, 'Acknowledge')
+    await page.keyboard.press('Enter')
+    const dialog = page.locator('[data-test=handle-dialog]')
+    await dialog.waitFor()
+    // The note field takes the focus as the dialog opens.
+    await expect.poll(async () => (await focused(page)).name).toBe('Note (optional), e.g. On my way')
+    await page.keyboard.type('On my way')
+    await tabTo(page, 'Acknowledge')
+    await page.keyboard.press('Enter')
+    await dialog.waitFor({ state: 'hidden' })
+    await expect.poll(stateOf).toBe('acknowledged')
+
+    await tabTo(page, 'Resolve')
+    await page.keyboard.press('Enter')
+    await dialog.waitFor()
+    await expect.poll(async () => (await focused(page)).name).toBe('What was done')
+    await page.keyboard.type('Buffered the water back to pH 6.8')
+    await tabTo(page, 'Resolve')
+    await shot(page, 'keyboard-incident-resolve-focused')
+    await page.keyboard.press('Enter')
+    await dialog.waitFor({ state: 'hidden' })
+    await expect.poll(stateOf).toBe('resolved')
     await page.close()
   })
 })
