@@ -88,6 +88,14 @@ const signedInScreens = () => [
 ]
 
 describe('every screen meets WCAG 2.1 AA as axe-core checks it', () => {
+  it('the audit itself finds what it should: a picture without a text alternative, pale text', async () => {
+    const page = await browser.newPage()
+    await page.setContent('<html lang="en"><title>t</title><body><main><img src="tank.png"><p style="color:#aaa">pale</p></main></body></html>')
+    const violations = await wcagViolations(page)
+    expect(violations.map((v) => v.id).sort()).toEqual(['color-contrast', 'image-alt'])
+    await page.close()
+  })
+
   const cases: Array<[Size, Theme]> = [['desktop', 'light'], ['phone', 'light'], ['desktop', 'dark'], ['phone', 'dark']]
   it.each(cases)('at %s size in the %s theme', async (size, theme) => {
     const found: string[] = []
