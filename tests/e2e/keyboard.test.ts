@@ -28,6 +28,11 @@ beforeAll(async () => {
     title: 'pH below 6.0', state: 'open', conditionSince: at, openedAt: at, firstValue: 5.9, peakValue: 5.9, latestValue: 5.9, latestAt: at,
   })
   incidentId = incident.id
+  const task = await api(s, `/tanks/${tankId}/care-tasks`, org.users.owner.token, {
+    method: 'POST',
+    body: JSON.stringify({ kind: 'other', title: 'Rinse the filter sponge', recurrence: { kind: 'interval', everyDays: 1 } }),
+  })
+  expect(task.status, JSON.stringify(task.body)).toBe(201)
 })
 afterAll(async () => {
   await b?.close()
@@ -42,21 +47,17 @@ interface Focused {
 
 /** The focused element's accessible name as a screen reader would mostly get it, and whether its focus shows. */
 const focused = (page: Page): Promise<Focused> =>
-  page.evaluate(() => {
-    const el = document.activeElement as HTMLElement | null
+  // Runs in the page (the server tsconfig has no DOM types, so the script is text).
+  page.evaluate(`(() => {
+    const el = document.activeElement
     if (!el || el === document.body) return { name: '', tag: 'body', visible: false }
     const byIds = el.getAttribute('aria-labelledby')?.split(' ').map((id) => document.getElementById(id)?.textContent ?? '').join(' ')
-    const labels = (el as HTMLInputElement).labels
-    const name = (el.getAttribute('aria-label') || byIds || labels?.[0]?.textContent || el.textContent || '').trim()
-    // A Vuetify field shows its focus on the field around the input; a button on its overlay or outline.
+    const name = (el.getAttribute('aria-label') || byIds || el.labels?.[0]?.textContent || el.textContent || '').trim()
+    // A Vuetify field shows its focus on the field around the input; links and buttons on an outline.
     const field = el.closest('.v-field')
-    const overlay = el.querySelector(':scope > .v-btn__overlay')
-    const style = getComputedStyle(el)
-    const visible = field
-      ? field.classList.contains('v-field--focused')
-      : el.matches(':focus-visible') && (style.outlineStyle !== 'none' || (overlay ? Number(getComputedStyle(overlay).opacity) > 0 : false))
+    const visible = field ? field.classList.contains('v-field--focused') : el.matches(':focus-visible') && getComputedStyle(el).outlineStyle !== 'none'
     return { name, tag: el.tagName.toLowerCase(), visible }
-  })
+  })()`) as Promise<Focused>
 
 /** Presses Tab until the focus is on a control named `name`; every stop on the way must show its focus. */
 async function tabTo(page: Page, name: string, maxStops = 80) {
@@ -138,6 +139,22 @@ describe('keyboard only', () => {
     await page.keyboard.press('Enter')
     await dialog.waitFor({ state: 'hidden' })
     await expect.poll(stateOf).toBe('resolved')
+    await page.close()
+  })
+
+  it('ticks a care task done without a pointer', async () => {
+    const page = await browser.newPage({ viewport: { width: 390, height: 844 } })
+    await signInByKeyboard(page, org.users.keeper.email)
+    // Care today remembers its scope in the browser; choose the site with the task.
+    await page.evaluate(`localStorage.setItem('tw.careTodayScope', '${org.siteIds[0]}')`)
+    await page.goto(`${s.baseUrl}/care/today`, { timeout: FIRST_LOAD_MS })
+    // A new tank comes with its starter care tasks besides the one made here: the first is ticked.
+    await page.locator('[data-test=care-task-done]').first().waitFor({ timeout: FIRST_LOAD_MS })
+    await tabTo(page, 'Done')
+    await page.keyboard.press('Enter')
+    const doneCount = async () =>
+      ((await api(s, `/tanks/${tankId}/care-tasks`, org.users.keeper.token)).body as Array<{ lastDoneAt: string | null }>).filter((t) => t.lastDoneAt !== null).length
+    await expect.poll(doneCount).toBe(1)
     await page.close()
   })
 })
