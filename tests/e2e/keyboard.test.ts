@@ -157,4 +157,20 @@ describe('keyboard only', () => {
     await expect.poll(doneCount).toBe(1)
     await page.close()
   })
+
+  it('plans a water change on the tank page without a pointer', async () => {
+    const page = await browser.newPage({ viewport: { width: 1280, height: 800 } })
+    await signInByKeyboard(page, org.users.keeper.email)
+    await page.goto(`${s.baseUrl}/tanks/${tankId}`, { timeout: FIRST_LOAD_MS })
+    const panel = page.locator('[data-test=water-change-panel]')
+    await panel.locator('[data-test=water-change-plan-button]').waitFor({ timeout: FIRST_LOAD_MS })
+    // The planner sits below the readings, the rules and the care panels: a long way by Tab.
+    await tabTo(page, 'Share of the water', 300)
+    await page.keyboard.type('25')
+    await tabTo(page, 'Work out the change')
+    await page.keyboard.press('Enter')
+    await panel.locator('[data-test=water-change-plan]').waitFor({ timeout: FIRST_LOAD_MS })
+    await shot(page, 'keyboard-water-change-planned')
+    await page.close()
+  })
 })
