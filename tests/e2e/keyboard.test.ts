@@ -148,13 +148,15 @@ describe('keyboard only', () => {
     // Care today remembers its scope in the browser; choose the site with the task.
     await page.evaluate(`localStorage.setItem('tw.careTodayScope', '${org.siteIds[0]}')`)
     await page.goto(`${s.baseUrl}/care/today`, { timeout: FIRST_LOAD_MS })
-    // A new tank comes with its starter care tasks besides the one made here: the first is ticked.
+    // A new tank comes with its starter care tasks besides the one made here; each Done says which.
     await page.locator('[data-test=care-task-done]').first().waitFor({ timeout: FIRST_LOAD_MS })
-    await tabTo(page, 'Done')
+    await tabTo(page, 'Done: Clean the glass')
     await page.keyboard.press('Enter')
-    const doneCount = async () =>
-      ((await api(s, `/tanks/${tankId}/care-tasks`, org.users.keeper.token)).body as Array<{ lastDoneAt: string | null }>).filter((t) => t.lastDoneAt !== null).length
-    await expect.poll(doneCount).toBe(1)
+    const doneTitles = async () =>
+      ((await api(s, `/tanks/${tankId}/care-tasks`, org.users.keeper.token)).body as Array<{ title: string; lastDoneAt: string | null }>)
+        .filter((t) => t.lastDoneAt !== null)
+        .map((t) => t.title)
+    await expect.poll(doneTitles).toEqual(['Clean the glass'])
     await page.close()
   })
 
