@@ -7,12 +7,11 @@ import express, { type Express } from 'express'
  * root included. A path that names a file (it has an extension) and is not there stays a 404, so
  * /favicon.ico or a stale chunk never answers with the page.
  */
-export function serveClientPages(app: Express, dist: string): boolean {
-  if (!existsSync(join(dist, 'index.html'))) return false
+export function serveClientPages(app: Express, dist: string): void {
+  if (!existsSync(join(dist, 'index.html'))) return
   app.use(express.static(dist, { index: false, maxAge: '1h' }))
   app.get(['/', '/*splat'], (req, res, next) => {
     if (/\.[^/]*$/.test(req.path)) return next()
     res.sendFile(join(dist, 'index.html'))
   })
-  return true
 }

@@ -14,7 +14,9 @@ export function requestLogger(logger: Logger) {
     logger,
     autoLogging: { ignore: (req) => req.url === '/api/v1/health' },
     customLogLevel: (_req, res, error) => (error || res.statusCode >= 500 ? 'error' : 'debug'),
-    customSuccessMessage: (req, res, ms) => `${req.method} ${urlOf(req)} ${res.statusCode} ${Math.round(ms)} ms`,
+    // pino-http builds the message before the level check: skip the redaction when debug is off,
+    // or every device POST pays for a line nobody writes.
+    customSuccessMessage: (req, res, ms) => (logger.isLevelEnabled('debug') ? `${req.method} ${urlOf(req)} ${res.statusCode} ${Math.round(ms)} ms` : ''),
     customErrorMessage: (req, res) => `${req.method} ${urlOf(req)} ${res.statusCode} failed`,
     serializers: {
       req: (req: { id?: unknown; method?: string; url?: string; remoteAddress?: string }) => ({
