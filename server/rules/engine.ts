@@ -7,6 +7,7 @@ import type { RuleContext, RuleEvent, RuleState } from '@shared/rules/types'
 import { initialRuleState } from '@shared/rules/types'
 import type { AppContext } from '../context'
 import type { StoredReading } from '../events'
+import { RANK } from '../services/incident-kit'
 import { DEFAULT_SETTLE_MINUTES, type IncidentsService } from '../services/incidents'
 import { rulesService } from '../services/rules'
 import { remindEndingSnoozes } from '../services/snooze-reminders'
@@ -28,7 +29,6 @@ type EngineRule = {
 type Slot = { rule: EngineRule; state: RuleState; incidentId: number | null; lastWrite: number }
 type Window = MaintenanceSpan & { siteId: number; tankId: number | null; ruleId: number | null }
 
-const RANK = { warning: 0, alarm: 1 } as const
 
 // How far past a rule's own window the rebuild reads, so a trip during up to two hours without an
 // engine still opens at the moment it happened (longer outages open it when the engine returns).

@@ -12,7 +12,7 @@ export type AlertTiming = {
   siteGroupWaitSeconds?: number
 }
 
-const RANK: Record<RuleSeverity, number> = { warning: 0, alarm: 1 }
+export const RANK: Record<RuleSeverity, number> = { warning: 0, alarm: 1 }
 export const isHigher = (a: RuleSeverity, b: RuleSeverity) => RANK[a] > RANK[b]
 export const higherOf = (a: RuleSeverity, b: RuleSeverity): RuleSeverity => (isHigher(a, b) ? a : b)
 

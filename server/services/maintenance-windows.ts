@@ -1,5 +1,6 @@
 import { Op } from 'sequelize'
 import { occurrencesBetween } from '@shared/rules/maintenance'
+import { minutesOfClock } from '@shared/roster/zoned-time'
 import type { MaintenanceInput, PublicMaintenanceWindow } from '@shared/schemas/maintenance'
 import type { UserActor } from '../auth/actor'
 import type { AppContext } from '../context'
@@ -45,7 +46,7 @@ export function maintenanceService(ctx: AppContext) {
       const row = await models.MaintenanceWindow.create({
         organizationId: actor.organizationId, siteId, tankId: input.tankId, ruleId: input.ruleId, reason: input.reason,
         startsAt: weekly ? null : new Date(input.startsAt!), endsAt: weekly ? null : new Date(input.endsAt!),
-        weekday: weekly ? input.weekday! : null, startMinute: weekly ? Number(input.start!.slice(0, 2)) * 60 + Number(input.start!.slice(3, 5)) : null,
+        weekday: weekly ? input.weekday! : null, startMinute: weekly ? minutesOfClock(input.start!) : null,
         durationMinutes: weekly ? input.durationMinutes! : null, createdBy: actor.userId,
       })
       changed()
