@@ -27,7 +27,7 @@ export function buildReportLines(report: BuildReport) {
   const zone = report.tank.timeZone
   const equipment = [
     `Filter: ${plan.filter.name || 'not named'}; media in the order the water passes them: ${plan.filter.media.join(' → ') || 'none listed'}`,
-    `Heater: ${plan.heater.watts ?? figures.heater.watts} W (suggested ${figures.heater.watts} W: ${figures.heater.rule}); set point ${n(plan.heater.setPointC)} °C; top at most ${n(figures.heater.topMaxCm)} cm above the floor, fully under water`,
+    `Heater: ${plan.heater.watts ?? figures.heater.watts} W (suggested ${figures.heater.watts} W: ${figures.heater.rule}); set point ${n(plan.heater.setPointC)} °C; top at most ${n(figures.heater.topMaxCm)} cm above the tank floor, fully under water`,
     plan.light ? `Light: on ${plan.light.on}, off ${plan.light.off}` : 'Light: no schedule',
   ]
   const substrate = figures.substrate.layers.map((l) =>
