@@ -129,7 +129,12 @@ export class Incident extends Model<InferAttributes<Incident>, InferCreationAttr
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'incidents' },
+      {
+        sequelize,
+        tableName: 'incidents',
+        // The highest severity reached is never below the current one, whoever writes the row.
+        hooks: { beforeValidate: (incident: Incident) => void (incident.severity === 'alarm' && (incident.topSeverity = 'alarm')) },
+      },
     )
   }
 }
