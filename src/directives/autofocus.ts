@@ -2,6 +2,7 @@ import type { Directive } from 'vue'
 
 const FIELD = 'input,textarea,select'
 const observers = new WeakMap<HTMLElement, IntersectionObserver>()
+const timers = new WeakMap<HTMLElement, ReturnType<typeof setTimeout>>()
 
 function focusUnlessTyping(el: HTMLElement) {
   // Someone already typing in another field (a quick hand, a password manager) keeps their place:
@@ -17,7 +18,7 @@ function focusUnlessTyping(el: HTMLElement) {
 export const vAutofocus: Directive<HTMLElement> = {
   mounted(el) {
     if (typeof IntersectionObserver === 'undefined') {
-      setTimeout(() => focusUnlessTyping(el), 50)
+      timers.set(el, setTimeout(() => focusUnlessTyping(el), 50))
       return
     }
     const observer = new IntersectionObserver((entries) => {
@@ -25,12 +26,15 @@ export const vAutofocus: Directive<HTMLElement> = {
       observer.disconnect()
       observers.delete(el)
       // Past the overlay's enter setup, which keeps a dialog's content hidden for a moment.
-      setTimeout(() => focusUnlessTyping(el), 50)
+      timers.set(el, setTimeout(() => focusUnlessTyping(el), 50))
     })
     observer.observe(el)
     observers.set(el, observer)
   },
   unmounted(el) {
+    // A field gone before its focus is due must not be focused afterwards.
+    clearTimeout(timers.get(el))
+    timers.delete(el)
     observers.get(el)?.disconnect()
     observers.delete(el)
   },
