@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import type { AppContext } from '../server/context'
-import { newDeviceToken } from '../server/auth/device-tokens'
+import { newDeviceToken } from '../server/devices/device-tokens'
 
 /** An organization with one site and `tanks` tanks, each with one device; answers the device tokens. */
 export async function benchShop(ctx: AppContext, tanks: number) {

@@ -9,7 +9,7 @@ import { join } from 'node:path'
 import bcrypt from 'bcryptjs'
 import { testConfig } from '../server/config'
 import { startServer } from '../server/server'
-import { authService } from '../server/services/auth'
+import { authService } from '../server/people/auth'
 import type { PublicImportJob } from '@shared/schemas/imports'
 import { benchShop } from './fixtures'
 

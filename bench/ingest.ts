@@ -10,8 +10,8 @@ import { QueryTypes } from 'sequelize'
 import WebSocket from 'ws'
 import { testConfig } from '../server/config'
 import { startServer } from '../server/server'
-import { authService } from '../server/services/auth'
-import { seriesService } from '../server/services/series'
+import { authService } from '../server/people/auth'
+import { seriesService } from '../server/readings/series'
 import { benchShop } from './fixtures'
 
 const TANKS = Number(process.env.BENCH_TANKS ?? 1000)

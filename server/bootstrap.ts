@@ -1,13 +1,13 @@
 import type { Config } from './config'
 import type { AppContext } from './context'
-import { createSequelize } from './db/sequelize'
-import { createEventBus } from './events'
-import { BatchWriter, type BatchWriterOptions } from './ingest/batch-writer'
-import { DeviceStatusTracker } from './ingest/device-status'
-import { createIngest } from './ingest/ingest-service'
-import { createLogger } from './logger'
+import { createSequelize } from './platform/db/sequelize'
+import { createEventBus } from './platform/events'
+import { BatchWriter, type BatchWriterOptions } from './readings/batch-writer'
+import { DeviceStatusTracker } from './readings/device-status'
+import { createIngest } from './readings/ingest'
+import { createLogger } from './platform/logger'
 import { initModels } from './models'
-import { silentNotifier } from './rules/notifier'
+import { silentNotifier } from './incidents/notifier'
 
 /** Builds the shared context (database, models, logger, events, ingest) from a config. */
 export function createContext(config: Config, options: { writer?: BatchWriterOptions } = {}): AppContext {

@@ -1,11 +1,11 @@
 import type { Sequelize } from 'sequelize'
 import type { Config } from './config'
-import type { EventBus } from './events'
-import type { BatchWriter } from './ingest/batch-writer'
-import type { DeviceStatusTracker } from './ingest/device-status'
-import type { Ingest } from './ingest/ingest-service'
-import type { IncidentNotifier } from './rules/notifier'
-import type { Logger } from './logger'
+import type { EventBus } from './platform/events'
+import type { BatchWriter } from './readings/batch-writer'
+import type { DeviceStatusTracker } from './readings/device-status'
+import type { Ingest } from './readings/ingest'
+import type { IncidentNotifier } from './incidents/notifier'
+import type { Logger } from './platform/logger'
 import type { Models } from './models'
 
 /** What services are built from: passed in, never imported as globals, so tests build their own. */

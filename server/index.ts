@@ -1,5 +1,5 @@
 import { loadConfig } from './config'
-import { DEMO_SIGN_INS } from './seeders/demo'
+import { DEMO_SIGN_INS } from './demo/demo'
 import { startServer } from './server'
 
 /** The process entry point: config from the environment, start, report readiness, stop on a signal. */

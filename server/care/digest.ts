@@ -4,8 +4,8 @@ import { formatLocalDate, localDateAt, offsetAt } from '@shared/roster/zoned-tim
 import type { AppContext } from '../context'
 import { careDigest, type DigestTank, type DigestTask } from '../mail/care-digest'
 import { enqueueMail } from '../mail/outbox'
-import { dueItems } from '../services/care-tasks'
-import { dutyRecipients } from '../services/roster'
+import { dueItems } from './care-tasks'
+import { dutyRecipients } from '../roster/roster'
 import { tanksToWatch } from './tanks-to-watch'
 
 /** The digest goes out from the configured hour until this many hours later (a late start still sends it). */

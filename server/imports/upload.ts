@@ -1,6 +1,6 @@
 import type { RequestHandler } from 'express'
 import multer from 'multer'
-import { multipartUpload } from '../http/upload'
+import { multipartUpload } from '../platform/http/upload'
 import { importFiles } from './files'
 
 /**

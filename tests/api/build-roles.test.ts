@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { UserActor } from '../../server/auth/actor'
-import { buildsService } from '../../server/services/builds'
+import type { UserActor } from '../../server/access/actor'
+import { buildsService } from '../../server/builds/builds'
 import { buildPlanSchema } from '@shared/schemas/build'
 import type { TestOrg } from '../helpers/app'
 import { bearer } from '../helpers/app'

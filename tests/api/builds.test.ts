@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { UserActor } from '../../server/auth/actor'
-import { buildsService } from '../../server/services/builds'
+import type { UserActor } from '../../server/access/actor'
+import { buildsService } from '../../server/builds/builds'
 import { as, newTank, startCareTestApp, type CareTestApp } from './care-helpers'
 import type { TestOrg } from '../helpers/app'
 import { localDaysAgo, PLAN_60, TANK_60 } from '../helpers/build-plan'

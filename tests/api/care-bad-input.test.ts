@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { UserActor } from '../../server/auth/actor'
-import { createDefaultCareTasks } from '../../server/services/care-tasks'
-import { waterChangesService } from '../../server/services/care-water-changes'
+import type { UserActor } from '../../server/access/actor'
+import { createDefaultCareTasks } from '../../server/care/care-tasks'
+import { waterChangesService } from '../../server/care/water-changes'
 import type { TestOrg } from '../helpers/app'
 import { as, newTank, startCareTestApp, type CareTestApp } from './care-helpers'
 

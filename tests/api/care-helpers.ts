@@ -1,14 +1,14 @@
 import express, { Router } from 'express'
 import request from 'supertest'
 import { expect } from 'vitest'
-import { createPassport } from '../../server/auth/passport'
-import { authenticate } from '../../server/auth/middleware'
-import { errorHandler } from '../../server/http/errors'
-import { careRouter, careRoutes, siteCareRoutes } from '../../server/routes/care'
+import { createPassport } from '../../server/access/passport'
+import { authenticate } from '../../server/access/middleware'
+import { errorHandler } from '../../server/platform/http/errors'
+import { careRouter, careRoutes, siteCareRoutes } from '../../server/care/routes'
 import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
 
 /**
- * The test app for the care suites. Once server/routes/index.ts mounts the care routes, the
+ * The test app for the care suites. Once server/api-router.ts mounts the care routes, the
  * real app answers them and is used as is; until then the same routers are mounted here, in
  * front of it, exactly as index.ts is meant to mount them.
  */

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { QueryTypes } from 'sequelize'
-import createCare from '../../server/migrations/202612020410-create-care'
-import { migrations } from '../../server/migrations'
+import createCare from '../../server/platform/db/migrations/202612020410-create-care'
+import { migrations } from '../../server/platform/db/migrations'
 import { startTestApp } from '../helpers/app'
 
 let t: Awaited<ReturnType<typeof startTestApp>>

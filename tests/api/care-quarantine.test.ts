@@ -1,7 +1,7 @@
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { QUARANTINE_DAYS } from '@shared/care/livestock'
-import addTankStageChangedAt from '../../server/migrations/202612021000-add-tank-stage-changed-at'
+import addTankStageChangedAt from '../../server/platform/db/migrations/202612021000-add-tank-stage-changed-at'
 import type { TestOrg } from '../helpers/app'
 import { as, newTank, startCareTestApp, type CareTestApp } from './care-helpers'
 

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { createDefaultCareTasks } from '../../server/services/care-tasks'
+import { createDefaultCareTasks } from '../../server/care/care-tasks'
 import type { TestOrg } from '../helpers/app'
 import { as, badFields, newTank, startCareTestApp, type CareTestApp } from './care-helpers'
 

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { UserActor } from '../../server/auth/actor'
-import { careTasksService, createDefaultCareTasks } from '../../server/services/care-tasks'
+import type { UserActor } from '../../server/access/actor'
+import { careTasksService, createDefaultCareTasks } from '../../server/care/care-tasks'
 import type { TestOrg } from '../helpers/app'
 import { as, badFields, isoDaysAgo, newTank, startCareTestApp, type CareTestApp } from './care-helpers'
 

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { HEATER_OFF_CAUTION, UNPLUG_CAUTION } from '@shared/chemistry/water-change'
-import { createDefaultCareTasks } from '../../server/services/care-tasks'
-import { LABEL_CAUTION, TEMPORARY_RULE_NAME } from '../../server/services/care-water-changes'
+import { createDefaultCareTasks } from '../../server/care/care-tasks'
+import { LABEL_CAUTION, TEMPORARY_RULE_NAME } from '../../server/care/water-changes'
 import type { TestOrg } from '../helpers/app'
 import { as, badFields, newTank, startCareTestApp, type CareTestApp } from './care-helpers'
 

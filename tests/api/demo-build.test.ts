@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { UserActor } from '../../server/auth/actor'
-import { DEMO_BUILD_TANK, seedDemoBuild } from '../../server/seeders/demo-build'
+import type { UserActor } from '../../server/access/actor'
+import { DEMO_BUILD_TANK, seedDemoBuild } from '../../server/demo/demo-build'
 import type { TestOrg } from '../helpers/app'
 import { as, startCareTestApp, type CareTestApp } from './care-helpers'
 

@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { BACKUP_TABLES } from '../../server/services/backup-tables'
+import { BACKUP_TABLES } from '../../server/exports/backup-tables'
 import { bearer, startTestApp, TEST_PASSWORD } from '../helpers/app'
 import { insertReading, insertRow, signedInUser, tankValues } from './export-helpers'
 

@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import type { AppContext } from '../../server/context'
-import { authService } from '../../server/services/auth'
+import { authService } from '../../server/people/auth'
 
 /** Inserts one row with plain SQL and answers its id; the tests build whole organizations this way. */
 export async function insertRow(ctx: AppContext, table: string, values: Record<string, unknown>): Promise<number> {

@@ -3,7 +3,7 @@ import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { createApp } from '../../server/app'
 import { loadConfig } from '../../server/config'
-import { createLogger, type LogFormat } from '../../server/logger'
+import { createLogger, type LogFormat } from '../../server/platform/logger'
 import { bearer, startTestApp, type TestOrg } from '../helpers/app'
 
 // What reaches the log from URLs: secrets in query parameters and path segments are redacted, and

@@ -3,12 +3,12 @@ import { randomBytes } from 'node:crypto'
 import { join } from 'node:path'
 import pg from 'pg'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { migrations } from '../../server/migrations'
+import { migrations } from '../../server/platform/db/migrations'
 import { adminUrl, databaseUrl } from '../helpers/db-urls'
 
 const root = join(__dirname, '..', '..')
 const runMigrate = (env: Record<string, string | undefined>) =>
-  spawnSync(process.execPath, ['--import', 'tsx', join(root, 'server/db/migrate-cli.ts')], {
+  spawnSync(process.execPath, ['--import', 'tsx', join(root, 'server/platform/db/migrate-cli.ts')], {
     cwd: root,
     env: { ...process.env, ...env },
     encoding: 'utf8',

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { listTankPhotos, photosInPeriod, readPhotoBytes } from '../../server/services/photos'
-import { wallService } from '../../server/services/wall'
-import type { UserActor } from '../../server/auth/actor'
+import { listTankPhotos, photosInPeriod, readPhotoBytes } from '../../server/photos/photos'
+import { wallService } from '../../server/sites/wall'
+import type { UserActor } from '../../server/access/actor'
 import { bearer, type TestOrg } from '../helpers/app'
 import { as, filesUnder, makeImage, newTank, startPhotoTestApp, type PhotoTestApp } from './photos-helpers'
 

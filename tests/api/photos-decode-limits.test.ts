@@ -1,6 +1,6 @@
 import sharp from 'sharp'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { DECODES_AT_ONCE, decodeStats } from '../../server/services/photo-images'
+import { DECODES_AT_ONCE, decodeStats } from '../../server/photos/photo-images'
 import type { TestOrg } from '../helpers/app'
 import { as, filesUnder, makeImage, newTank, startPhotoTestApp, type PhotoTestApp } from './photos-helpers'
 

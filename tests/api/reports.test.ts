@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { authService } from '../../server/services/auth'
+import { authService } from '../../server/people/auth'
 import type { Report } from '@shared/schemas/reports'
 import { bearer, startTestApp, type TestOrg } from '../helpers/app'
 import { pdfPageCount, pdfText } from '../helpers/pdf-text'
@@ -97,7 +97,7 @@ describe('the weekly report of a tank, from seeded records', () => {
   })
 
   it('the uncompressed PDF holds the expected text', async () => {
-    const { renderReportPdf } = await import('../../server/report/pdf')
+    const { renderReportPdf } = await import('../../server/reports/pdf')
     const pdf = await renderReportPdf(report, { compress: false })
     const text = pdfText(pdf).join('')
     expect(pdfPageCount(pdf)).toBe(1)
@@ -114,7 +114,7 @@ describe('the weekly report of a tank, from seeded records', () => {
   })
 
   it('an open band reads ≥ in the PDF (the maths font is embedded)', async () => {
-    const { renderReportPdf } = await import('../../server/report/pdf')
+    const { renderReportPdf } = await import('../../server/reports/pdf')
     const open = structuredClone(report)
     open.tanks[0]!.metrics[1]!.band = { min: 6.5, max: null }
     expect(pdfText(await renderReportPdf(open, { compress: false })).join('')).toContain('pH — target ≥ pH 6.50')

@@ -1,7 +1,7 @@
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { retentionCutoff, retentionService, startRetentionJob } from '../../server/services/retention'
-import { seriesService } from '../../server/services/series'
+import { retentionCutoff, retentionService, startRetentionJob } from '../../server/readings/retention'
+import { seriesService } from '../../server/readings/series'
 import { seriesQuerySchema } from '@shared/schemas/series'
 import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
 

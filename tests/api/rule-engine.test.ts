@@ -1,9 +1,9 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
-import type { ReadingRow } from '../../server/ingest/batch-writer'
+import type { ReadingRow } from '../../server/readings/batch-writer'
 import type { Incident } from '../../server/models'
-import { createRuleEngine, type RuleEngine } from '../../server/rules/engine'
-import type { IncidentNotifier, NotifyKind } from '../../server/rules/notifier'
-import { incidentsService } from '../../server/services/incidents'
+import { createRuleEngine, type RuleEngine } from '../../server/incidents/engine'
+import type { IncidentNotifier, NotifyKind } from '../../server/incidents/notifier'
+import { incidentsService } from '../../server/incidents/incidents'
 import { startTestApp } from '../helpers/app'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 

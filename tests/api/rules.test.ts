@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { rulesService } from '../../server/services/rules'
+import { rulesService } from '../../server/incidents/watch-rules'
 import type { PublicRule } from '@shared/schemas/rules'
 import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
 

@@ -2,11 +2,11 @@ import express from 'express'
 import { QueryTypes } from 'sequelize'
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { createPassport } from '../../server/auth/passport'
-import { authenticate } from '../../server/auth/middleware'
-import { errorHandler } from '../../server/http/errors'
-import { seriesRoutes } from '../../server/routes/series'
-import { seriesService } from '../../server/services/series'
+import { createPassport } from '../../server/access/passport'
+import { authenticate } from '../../server/access/middleware'
+import { errorHandler } from '../../server/platform/http/errors'
+import { seriesRoutes } from '../../server/readings/series-routes'
+import { seriesService } from '../../server/readings/series'
 import type { SeriesResponse } from '@shared/schemas/series'
 import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
 
@@ -64,7 +64,7 @@ const series = (query: Record<string, string | number>, id = tankId, token = org
 
 beforeAll(async () => {
   t = await startTestApp()
-  // The same chain the lead mounts in server/routes/index.ts; the rest of the API falls through to the real app.
+  // The same chain the lead mounts in server/api-router.ts; the rest of the API falls through to the real app.
   app = express()
   app.use('/api/v1/tanks', authenticate(createPassport(t.ctx.models, t.ctx.config.jwtSecret)), seriesRoutes(t.ctx))
   app.use(t.app)

@@ -1,6 +1,6 @@
 import type { Browser, BrowserContext, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { wallService } from '../../server/services/wall'
+import { wallService } from '../../server/sites/wall'
 import type { TestOrg } from '../helpers/fixtures'
 import { describeViolations, wcagViolations } from './axe'
 import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'

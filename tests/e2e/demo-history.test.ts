@@ -6,7 +6,7 @@ import type { Browser, Response } from 'playwright-core'
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { SeriesResponse } from '@shared/schemas/series'
-import { DEMO_PASSWORD, DEMO_USERS } from '../../server/seeders/demo-scenario'
+import { DEMO_PASSWORD, DEMO_USERS } from '../../server/demo/demo-scenario'
 import { startTestServer } from '../helpers/server'
 import { launchBrowser, shot, signIn } from './browser'
 

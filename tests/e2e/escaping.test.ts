@@ -1,6 +1,6 @@
 import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { wallService } from '../../server/services/wall'
+import { wallService } from '../../server/sites/wall'
 import type { TestOrg } from '../helpers/fixtures'
 import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'
 import { api, FIRST_LOAD_MS, tankWithProbe, type App } from './keeper-setup'

@@ -2,7 +2,7 @@ import type { Browser } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { sampleTank } from '../helpers/app'
 import type { TestOrg } from '../helpers/fixtures'
-import { tanksService } from '../../server/services/tanks'
+import { tanksService } from '../../server/tanks/tanks'
 import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'
 
 let s: Awaited<ReturnType<typeof startAppForBrowser>>

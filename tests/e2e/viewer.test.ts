@@ -14,7 +14,7 @@ let tankId: number
 const TANK = 'Community tank'
 const SITE = 'Viewer Org shop'
 
-// What each role may do (server/auth/permissions.ts): owners everything, keepers the daily work, viewers nothing.
+// What each role may do (server/access/permissions.ts): owners everything, keepers the daily work, viewers nothing.
 const SCREENS = {
   tanks: ['New tank'],
   tank: ['Log test', 'Edit tank', 'Archive', 'Register device', 'Rotate token', 'Revoke'],

@@ -1,7 +1,7 @@
 import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { HEATER_OFF_CAUTION } from '@shared/chemistry/water-change'
-import { TEMPORARY_RULE_NAME } from '../../server/services/care-water-changes'
+import { TEMPORARY_RULE_NAME } from '../../server/care/water-changes'
 import { sampleTank } from '../helpers/app'
 import type { TestOrg } from '../helpers/fixtures'
 import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'

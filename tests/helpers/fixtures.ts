@@ -1,7 +1,7 @@
 import bcrypt from 'bcryptjs'
 import type { AppContext } from '../../server/context'
-import { newDeviceToken } from '../../server/auth/device-tokens'
-import { authService } from '../../server/services/auth'
+import { newDeviceToken } from '../../server/devices/device-tokens'
+import { authService } from '../../server/people/auth'
 import type { Role } from '@shared/schemas/auth'
 
 export const TEST_PASSWORD = 'correct-horse-battery'

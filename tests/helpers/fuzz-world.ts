@@ -1,5 +1,5 @@
 import { expect } from 'vitest'
-import { ackLinksService } from '../../server/services/ack-links'
+import { ackLinksService } from '../../server/incidents/ack-links'
 import { bearer, sampleTank, startTestApp, TEST_PASSWORD, type TestOrg } from './app'
 import { createTankWithDevice } from './fixtures'
 

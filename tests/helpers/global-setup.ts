@@ -1,6 +1,6 @@
 import pg from 'pg'
-import { createSequelize } from '../../server/db/sequelize'
-import { migrate } from '../../server/db/migrate'
+import { createSequelize } from '../../server/platform/db/sequelize'
+import { migrate } from '../../server/platform/db/migrate'
 import { TEMPLATE_DB, adminUrl, databaseUrl } from './db-urls'
 
 /** Once per run: a migrated template database that every test file clones. */

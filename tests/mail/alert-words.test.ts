@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { describeMeasurement } from '@shared/rules/measurement'
 import { incidentOpened, type IncidentMailInput } from '../../server/mail/templates'
 import { renderTrendSvg } from '../../server/mail/trend-chart'
-import { firstStep } from '../../server/rules/what-to-check'
+import { firstStep } from '../../server/incidents/what-to-check'
 
 const input = (over: Partial<IncidentMailInput>): IncidentMailInput => ({
   organizationName: 'Riverside Aquatics', siteName: 'Fish room', tankName: 'Breeding cylinder C1', ruleName: 'No temperature reading for 15 min',

@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { runReportSchedules } from '../../server/report/job'
+import { runReportSchedules } from '../../server/reports/job'
 import { bearer } from '../helpers/app'
 import type { TestOrg } from '../helpers/fixtures'
 import { seedReportWeek } from '../helpers/report-week'

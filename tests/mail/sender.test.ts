@@ -1,5 +1,5 @@
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
-import type { EventMap } from '../../server/events'
+import type { EventMap } from '../../server/platform/events'
 import { enqueueMail } from '../../server/mail/outbox'
 import { DEFAULT_RETRY, retryDelayMs, startOutboxSender } from '../../server/mail/sender'
 import type { MailTransport } from '../../server/mail/transport'

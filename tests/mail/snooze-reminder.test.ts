@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { currentOccurrenceEnd, remindEndingSnoozes } from '../../server/services/snooze-reminders'
+import { currentOccurrenceEnd, remindEndingSnoozes } from '../../server/incidents/snooze-reminders'
 import { startTestApp, type TestOrg } from '../helpers/app'
 import { createTankWithDevice } from '../helpers/fixtures'
 

@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { EventMap } from '../../server/events'
+import type { EventMap } from '../../server/platform/events'
 import { startFakeSmtp, startMail, retryDelayMs, type FakeSmtp, type RunningMail } from '../../server/mail'
 import { bearer } from '../helpers/app'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'

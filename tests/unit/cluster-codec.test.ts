@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { MAX_PAYLOAD_BYTES, decodeEvent, encodeEvent } from '../../server/cluster/codec'
-import type { StoredReading } from '../../server/events'
+import { MAX_PAYLOAD_BYTES, decodeEvent, encodeEvent } from '../../server/platform/cluster/codec'
+import type { StoredReading } from '../../server/platform/events'
 
 const rows = (n: number): StoredReading[] =>
   Array.from({ length: n }, (_, i) => ({ tankId: 1000 + (i % 7), metric: i % 2 ? 'temperature' : 'water_level', time: new Date(1_796_000_000_000 + i * 1000), value: 20 + i / 1000, source: i % 3 ? 'device' : 'test_kit' }))

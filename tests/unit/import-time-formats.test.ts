@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { checkReading } from '../../server/ingest/validate-readings'
+import { checkReading } from '../../server/readings/validate-readings'
 import { reasonOf } from '../../server/imports/row-reader'
 import { detectDelimiter, guessMetric } from '../../server/imports/sniff'
 import { createTimeReader, detectTimeFormat } from '../../server/imports/time-formats'

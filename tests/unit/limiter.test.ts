@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { createLimiter, LimiterFullError } from '../../server/services/limiter'
+import { createLimiter, LimiterFullError } from '../../server/platform/limiter'
 
 describe('limiter', () => {
   it('runs at most `running` tasks, queues `waiting` more in order and refuses the rest', async () => {

@@ -2,8 +2,8 @@ import { spawn } from 'node:child_process'
 import { mkdtempSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
-import { createSequelize } from '../../../server/db/sequelize'
-import { migrate } from '../../../server/db/migrate'
+import { createSequelize } from '../../../server/platform/db/sequelize'
+import { migrate } from '../../../server/platform/db/migrate'
 
 type ThrowawayCluster = { port: number; adminUrl: string; base: string; stop: () => void; destroy: () => void }
 type ClusterLib = { startThrowawayCluster: () => Promise<ThrowawayCluster>; findPgBin: () => string | null }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { attachment, exportFileName, zonedFormatter } from '../../../server/services/export-format'
+import { attachment, exportFileName, zonedFormatter } from '../../../server/exports/format'
 import { lastDays, rangeOfDays } from '../../../src/components/exports/export-range'
 
 // Offsets from the IANA time zone database (tzdata, Eggert et al., 2024 release) as read through

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { isDatabaseUnavailable } from '../../../server/http/errors'
+import { isDatabaseUnavailable } from '../../../server/platform/http/errors'
 
 describe('an outage of the database is a 503, not a 500', () => {
   it.each([

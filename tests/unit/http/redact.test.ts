@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { redactUrl } from '../../../server/http/redact'
+import { redactUrl } from '../../../server/platform/http/redact'
 
 describe('redactUrl', () => {
   it.each([

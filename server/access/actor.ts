@@ -1,0 +1,37 @@
+import type { Role } from '@shared/schemas/auth'
+import type { DeviceActor } from '../devices/device-tokens'
+
+/** A signed-in person. */
+export type UserActor = {
+  kind: 'user'
+  userId: number
+  organizationId: number
+  role: Role
+  /** Sites this actor may see; null means every site of the organization. */
+  siteIds: number[] | null
+  sessionId: string
+}
+
+/** A wall display: read-only, one site, nothing but the wall. */
+export type WallActor = {
+  kind: 'wall'
+  credentialId: number
+  organizationId: number
+  siteIds: number[]
+  role: 'wall'
+}
+
+export type Actor = UserActor | WallActor
+
+declare global {
+  // eslint-disable-next-line @typescript-eslint/no-namespace
+  namespace Express {
+    interface User {
+      actor?: Actor
+    }
+    interface Request {
+      actor?: Actor
+      device?: DeviceActor
+    }
+  }
+}

@@ -1,0 +1,37 @@
+import type { Migration } from '../migrate'
+import createFoundation from './202612020200-create-foundation'
+import createReadings from './202612020230-create-readings'
+import createTestKitEntries from './202612020300-create-test-kit-entries'
+import createMailOutbox from './202612020330-create-mail-outbox'
+import createDutyRoster from './202612020340-create-duty-roster'
+import createWatchRulesIncidents from './202612020350-create-watch-rules-incidents'
+import createWallCredentials from './202612020400-create-wall-credentials'
+import createCare from './202612020410-create-care'
+import createPasswordResets from './202612020420-create-password-resets'
+import addTankStageChangedAt from './202612021000-add-tank-stage-changed-at'
+import allowCancelledWaterChanges from './202612021010-allow-cancelled-water-changes'
+import createImports from './202612021100-create-imports'
+import createPhotos from './202612021300-create-photos'
+import createReportSchedules from './202612021400-create-report-schedules'
+import addIncidentFlapsSitesMaintenance from './202612050200-add-incident-flaps-sites-maintenance'
+import createBuilds from './202612051000-create-builds'
+
+/** Every migration in order. Add new files here; never edit one that has shipped. */
+export const migrations: Migration[] = [
+  createFoundation,
+  createReadings,
+  createTestKitEntries,
+  createMailOutbox,
+  createDutyRoster,
+  createWatchRulesIncidents,
+  createWallCredentials,
+  createCare,
+  createPasswordResets,
+  addTankStageChangedAt,
+  allowCancelledWaterChanges,
+  createImports,
+  createPhotos,
+  createReportSchedules,
+  addIncidentFlapsSitesMaintenance,
+  createBuilds,
+]

@@ -1,0 +1,83 @@
+import { reportPeriod, type ReportPeriod, type ReportPeriodKind } from '@shared/report/period'
+import { formatLocalDate, localDateAt } from '@shared/roster/zoned-time'
+import type { Report, ReportQuery } from '@shared/schemas/reports'
+import type { Actor } from '../access/actor'
+import type { AppContext } from '../context'
+import { badRequest } from '../platform/errors'
+import type { Site, Tank } from '../models'
+import { tankReport } from './report-data'
+import { sitesService } from '../sites/sites'
+import { tanksService } from '../tanks/tanks'
+
+export type ReportSubject = { kind: 'tank'; tank: Tank; site: Site } | { kind: 'site'; site: Site; tanks: Tank[] }
+
+/** The period of `kind` holding `date`, or holding today on the site's calendar. */
+export function periodFor(kind: ReportPeriodKind, date: string | undefined, timeZone: string, now: Date): ReportPeriod {
+  return reportPeriod(kind, date ?? formatLocalDate(localDateAt(timeZone, now.getTime())), timeZone)
+}
+
+/** Builds a report with no actor: the caller has already decided the subject may be seen. */
+export async function buildReport(ctx: AppContext, subject: ReportSubject, period: ReportPeriod, now = new Date()): Promise<Report> {
+  if (period.from >= now.getTime()) throw badRequest('date: this period has not started yet', { date: 'this period has not started yet' })
+  const to = Math.min(period.to, now.getTime())
+  const tanks = subject.kind === 'tank' ? [subject.tank] : subject.tanks
+  const reports = []
+  for (const tank of tanks) reports.push(await tankReport(ctx, tank, period, to))
+  const { site } = subject
+  return {
+    subject: subject.kind === 'tank'
+      ? { kind: 'tank', id: subject.tank.id, name: subject.tank.name, siteId: site.id, siteName: site.name, timeZone: site.timeZone }
+      : { kind: 'site', id: site.id, name: site.name, siteId: site.id, siteName: site.name, timeZone: site.timeZone },
+    period: {
+      kind: period.kind,
+      label: period.label,
+      startDate: period.startDate,
+      endDate: period.endDate,
+      from: new Date(period.from).toISOString(),
+      to: new Date(period.to).toISOString(),
+      previousDate: period.previousDate,
+      nextDate: period.nextDate,
+      inProgress: period.to > now.getTime(),
+    },
+    generatedAt: now.toISOString(),
+    tanks: reports,
+  }
+}
+
+/** The subject with its live tanks, found without an actor (the schedule job). */
+export async function loadSubject(ctx: AppContext, target: { tankId: number | null; siteId: number | null }): Promise<ReportSubject | null> {
+  const { models } = ctx
+  if (target.tankId !== null) {
+    const tank = await models.Tank.findByPk(target.tankId)
+    const site = tank ? await models.Site.findByPk(tank.siteId) : null
+    return tank && site && !tank.archivedAt ? { kind: 'tank', tank, site } : null
+  }
+  const site = target.siteId !== null ? await models.Site.findByPk(target.siteId) : null
+  if (!site || site.archivedAt) return null
+  const tanks = await models.Tank.findAll({ where: { siteId: site.id, archivedAt: null }, order: [['sortOrder', 'ASC'], ['name', 'ASC']] })
+  return { kind: 'site', site, tanks }
+}
+
+export function reportService(ctx: AppContext) {
+  const tanks = tanksService(ctx)
+  const sites = sitesService(ctx)
+
+  /** A tank or a site the actor may see (404 otherwise, as everywhere). */
+  async function subjectFor(actor: Actor, kind: 'tank' | 'site', id: number): Promise<ReportSubject> {
+    if (kind === 'tank') {
+      const tank = await tanks.find(actor, id)
+      const site = (await ctx.models.Site.findByPk(tank.siteId))!
+      return { kind: 'tank', tank, site }
+    }
+    const site = await sites.find(actor, id)
+    return (await loadSubject(ctx, { tankId: null, siteId: site.id })) ?? { kind: 'site', site, tanks: [] }
+  }
+
+  return {
+    subjectFor,
+    async report(actor: Actor, kind: 'tank' | 'site', id: number, query: ReportQuery, now = new Date()) {
+      const subject = await subjectFor(actor, kind, id)
+      return buildReport(ctx, subject, periodFor(query.period, query.date, subject.site.timeZone, now), now)
+    },
+  }
+}

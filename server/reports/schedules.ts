@@ -1,0 +1,168 @@
+import { Op } from 'sequelize'
+import { lastEndedPeriod, type ReportPeriod } from '@shared/report/period'
+import { localToInstant, parseLocalDate } from '@shared/roster/zoned-time'
+import type { ReportSchedule as PublicSchedule, ReportScheduleInput, ReportScheduleUpdate } from '@shared/schemas/reports'
+import type { UserActor } from '../access/actor'
+import type { AppContext } from '../context'
+import { badRequest, notFound } from '../platform/errors'
+import { enqueueMail } from '../mail/outbox'
+import type { ReportSchedule, Site, User } from '../models'
+import { reportMail } from './mail'
+import { renderReportPdf } from './pdf'
+import { buildReport, loadSubject, reportService } from './report'
+
+/** Scheduled reports go out at 08:00 on the site's clock, on the first day after the period. */
+export const REPORT_SEND_MINUTES = 8 * 60
+
+/** When the report of `period` is due to go out. */
+export function sendTimeOf(period: ReportPeriod): number {
+  return localToInstant(period.timeZone, parseLocalDate(period.endDate), REPORT_SEND_MINUTES)
+}
+
+/** The period a schedule sends at `now`: the last one ended, once its send time has come; else none. */
+export function periodDue(kind: ReportSchedule['period'], timeZone: string, now: number): ReportPeriod | null {
+  const period = lastEndedPeriod(kind, now, timeZone)
+  return sendTimeOf(period) <= now ? period : null
+}
+
+function canSee(user: User, siteId: number) {
+  if (user.role !== 'viewer' || !user.sites?.length) return true
+  return user.sites.some((s) => s.id === siteId)
+}
+
+/** Addresses a schedule sends to: its own plus active users of the organization who may see the site. */
+export async function recipientsOf(ctx: AppContext, schedule: ReportSchedule, siteId: number): Promise<string[]> {
+  const users = schedule.userIds.length
+    ? await ctx.models.User.findAll({ where: { id: { [Op.in]: schedule.userIds }, organizationId: schedule.organizationId, active: true }, include: [{ association: 'sites', attributes: ['id'] }] })
+    : []
+  const all = [...schedule.emails, ...users.filter((u) => canSee(u, siteId)).map((u) => u.email)]
+  return [...new Set(all.map((a) => a.trim().toLowerCase()))]
+}
+
+async function siteOf(ctx: AppContext, schedule: Pick<ReportSchedule, 'tankId' | 'siteId'>): Promise<Site | null> {
+  if (schedule.siteId !== null) return ctx.models.Site.findByPk(schedule.siteId)
+  const tank = schedule.tankId !== null ? await ctx.models.Tank.findByPk(schedule.tankId) : null
+  return tank ? ctx.models.Site.findByPk(tank.siteId) : null
+}
+
+export function reportLink(ctx: AppContext, target: { tankId: number | null; siteId: number | null }, period: ReportPeriod) {
+  const subject = target.tankId !== null ? `tank=${target.tankId}` : `site=${target.siteId}`
+  return new URL(`/reports?${subject}&period=${period.kind}&date=${period.startDate}`, ctx.config.publicUrl).toString()
+}
+
+/**
+ * Renders the report of `period` and puts one mail per recipient in the outbox. `claim` marks
+ * the period sent in the same transaction, and only if no one else has: a period goes out once
+ * even with several instances. Answers how many mails were queued.
+ */
+export async function sendScheduledReport(ctx: AppContext, schedule: ReportSchedule, period: ReportPeriod, options: { claim: boolean; dedupeSuffix: string; now?: Date }): Promise<number> {
+  const subject = await loadSubject(ctx, schedule)
+  if (!subject) return 0
+  const report = await buildReport(ctx, subject, period, options.now)
+  const recipients = await recipientsOf(ctx, schedule, subject.site.id)
+  const pdf = await renderReportPdf(report)
+  const mail = reportMail(report, pdf, reportLink(ctx, schedule, period))
+  return ctx.sequelize.transaction(async (transaction) => {
+    if (options.claim) {
+      const [claimed] = await ctx.models.ReportSchedule.update(
+        { lastSentPeriod: period.startDate },
+        { where: { id: schedule.id, [Op.or]: [{ lastSentPeriod: null }, { lastSentPeriod: { [Op.ne]: period.startDate } }] }, transaction },
+      )
+      if (!claimed) return 0
+    }
+    let queued = 0
+    for (const to of recipients) {
+      const id = await enqueueMail(ctx, {
+        kind: 'report', to, ...mail, organizationId: schedule.organizationId,
+        dedupeKey: `report:${schedule.id}:${period.kind}:${period.startDate}:${options.dedupeSuffix}:${to}`,
+      }, { transaction })
+      if (id !== null) queued++
+    }
+    return queued
+  })
+}
+
+function present(s: ReportSchedule, names: Map<string, string>): PublicSchedule {
+  return {
+    id: s.id, tankId: s.tankId, siteId: s.siteId,
+    subjectName: names.get(s.tankId !== null ? `t${s.tankId}` : `s${s.siteId}`) ?? '',
+    period: s.period, emails: s.emails, userIds: s.userIds, enabled: s.enabled,
+    lastSentPeriod: s.lastSentPeriod, createdAt: s.createdAt.toISOString(),
+  }
+}
+
+export function reportSchedulesService(ctx: AppContext) {
+  const { models } = ctx
+  const reports = reportService(ctx)
+
+  async function names(rows: ReportSchedule[]) {
+    const tankIds = rows.map((r) => r.tankId).filter((v): v is number => v !== null)
+    const siteIds = rows.map((r) => r.siteId).filter((v): v is number => v !== null)
+    const tanks = tankIds.length ? await models.Tank.findAll({ where: { id: tankIds }, attributes: ['id', 'name'] }) : []
+    const sites = siteIds.length ? await models.Site.findAll({ where: { id: siteIds }, attributes: ['id', 'name'] }) : []
+    return new Map([...tanks.map((t) => [`t${t.id}`, t.name] as const), ...sites.map((s) => [`s${s.id}`, s.name] as const)])
+  }
+
+  async function find(actor: UserActor, id: number) {
+    const row = await models.ReportSchedule.findOne({ where: { id, organizationId: actor.organizationId } })
+    if (!row) throw notFound('Report schedule not found')
+    return row
+  }
+
+  async function assertUsers(actor: UserActor, userIds: number[], siteId: number) {
+    if (!userIds.length) return
+    const users = await models.User.findAll({ where: { id: { [Op.in]: userIds }, organizationId: actor.organizationId, active: true }, include: [{ association: 'sites', attributes: ['id'] }] })
+    const usable = new Set(users.filter((u) => canSee(u, siteId)).map((u) => u.id))
+    const bad = userIds.filter((id) => !usable.has(id))
+    if (bad.length) throw badRequest(`userIds: ${bad.join(', ')} cannot receive this report (unknown, inactive, or without access to the site)`, { userIds: 'unknown, inactive, or without access to the site' })
+  }
+
+  return {
+    async list(actor: UserActor) {
+      const rows = await models.ReportSchedule.findAll({ where: { organizationId: actor.organizationId }, order: [['id', 'ASC']] })
+      const map = await names(rows)
+      return rows.map((r) => present(r, map))
+    },
+
+    async create(actor: UserActor, input: ReportScheduleInput, now = new Date()) {
+      const subject = await reports.subjectFor(actor, input.tankId !== null ? 'tank' : 'site', (input.tankId ?? input.siteId)!).catch(() => {
+        throw badRequest(input.tankId !== null ? 'tankId: no such tank' : 'siteId: no such site', input.tankId !== null ? { tankId: 'no such tank' } : { siteId: 'no such site' })
+      })
+      await assertUsers(actor, input.userIds, subject.site.id)
+      // A schedule made after this period's send time starts with the next period, not a late send.
+      const due = periodDue(input.period, subject.site.timeZone, now.getTime())
+      const row = await models.ReportSchedule.create({
+        organizationId: actor.organizationId, tankId: input.tankId, siteId: input.siteId, period: input.period,
+        emails: input.emails, userIds: input.userIds, enabled: input.enabled, createdBy: actor.userId,
+        lastSentPeriod: due?.startDate ?? null,
+      })
+      return present(row, await names([row]))
+    },
+
+    async update(actor: UserActor, id: number, changes: Partial<ReportScheduleUpdate>) {
+      const row = await find(actor, id)
+      const site = await siteOf(ctx, row)
+      if (changes.userIds && site) await assertUsers(actor, changes.userIds, site.id)
+      const emails = changes.emails ?? row.emails
+      const userIds = changes.userIds ?? row.userIds
+      if (!emails.length && !userIds.length) throw badRequest('emails: add at least one recipient', { emails: 'add at least one recipient' })
+      await row.update(changes)
+      return present(row, await names([row]))
+    },
+
+    async remove(actor: UserActor, id: number) {
+      await (await find(actor, id)).destroy()
+    },
+
+    /** Sends the last ended period's report now, whether or not it already went out. */
+    async sendNow(actor: UserActor, id: number, now = new Date()) {
+      const row = await find(actor, id)
+      const site = await siteOf(ctx, row)
+      if (!site) throw notFound('Report schedule not found')
+      const period = lastEndedPeriod(row.period, now.getTime(), site.timeZone)
+      // One press per minute: a double click sends once.
+      const queued = await sendScheduledReport(ctx, row, period, { claim: false, dedupeSuffix: `now-${Math.floor(now.getTime() / 60_000)}`, now })
+      return { queued, period: { kind: period.kind, startDate: period.startDate, endDate: period.endDate, label: period.label } }
+    },
+  }
+}

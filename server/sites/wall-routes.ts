@@ -1,0 +1,37 @@
+import { Router, type RequestHandler } from 'express'
+import { idParamsSchema } from '@shared/schemas/common'
+import { wallCredentialInputSchema } from '@shared/schemas/wall'
+import { actorOf, allow, viewerOf } from '../access/middleware'
+import type { AppContext } from '../context'
+import { parse } from '../platform/http/validate'
+import { wallService } from './wall'
+
+/** GET /sites/:id/wall — for people and for the site's own wall displays. */
+export function wallRoute(ctx: AppContext, personOrWall: RequestHandler) {
+  const router = Router()
+  router.get('/:id/wall', personOrWall, allow('wall.read'), async (req, res) => {
+    res.json(await wallService(ctx).get(viewerOf(req), parse(idParamsSchema, req, 'params').id))
+  })
+  return router
+}
+
+/** Mounted under /sites (owner): the wall displays of a site. */
+export function siteWallCredentialRoutes(ctx: AppContext) {
+  const router = Router()
+  router.get('/:id/wall-credentials', allow('walls.manage'), async (req, res) => {
+    res.json(await wallService(ctx).listCredentials(actorOf(req), parse(idParamsSchema, req, 'params').id))
+  })
+  router.post('/:id/wall-credentials', allow('walls.manage'), async (req, res) => {
+    const { name } = parse(wallCredentialInputSchema, req, 'body')
+    res.status(201).json(await wallService(ctx).createCredential(actorOf(req), parse(idParamsSchema, req, 'params').id, name))
+  })
+  return router
+}
+
+export function wallCredentialsRouter(ctx: AppContext) {
+  const router = Router()
+  router.post('/:id/revoke', allow('walls.manage'), async (req, res) => {
+    res.json(await wallService(ctx).revokeCredential(actorOf(req), parse(idParamsSchema, req, 'params').id))
+  })
+  return router
+}

@@ -1,0 +1,33 @@
+import { Router } from 'express'
+import { idParamsSchema } from '@shared/schemas/common'
+import { tankInputSchema, tankListQuerySchema, tankUpdateSchema } from '@shared/schemas/tanks'
+import { actorOf, allow } from '../access/middleware'
+import type { AppContext } from '../context'
+import { parse, parseChanges } from '../platform/http/validate'
+import { tanksService } from './tanks'
+
+export function tanksRouter(ctx: AppContext) {
+  const router = Router()
+  const tanks = tanksService(ctx)
+
+  router.get('/', allow('org.read'), async (req, res) => {
+    res.json(await tanks.list(actorOf(req), parse(tankListQuerySchema, req, 'query')))
+  })
+  router.get('/:id', allow('org.read'), async (req, res) => {
+    res.json(await tanks.get(actorOf(req), parse(idParamsSchema, req, 'params').id))
+  })
+  router.post('/', allow('tanks.write'), async (req, res) => {
+    res.status(201).json(await tanks.create(actorOf(req), parse(tankInputSchema, req, 'body')))
+  })
+  router.patch('/:id', allow('tanks.write'), async (req, res) => {
+    const { id } = parse(idParamsSchema, req, 'params')
+    res.json(await tanks.update(actorOf(req), id, parseChanges(tankUpdateSchema, req)))
+  })
+  router.post('/:id/archive', allow('tanks.archive'), async (req, res) => {
+    res.json(await tanks.setArchived(actorOf(req), parse(idParamsSchema, req, 'params').id, true))
+  })
+  router.post('/:id/unarchive', allow('tanks.archive'), async (req, res) => {
+    res.json(await tanks.setArchived(actorOf(req), parse(idParamsSchema, req, 'params').id, false))
+  })
+  return router
+}

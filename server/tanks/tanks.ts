@@ -1,0 +1,156 @@
+import { Op, QueryTypes, type Order, type WhereOptions } from 'sequelize'
+import { grossVolumeLitres } from '@shared/chemistry/volume'
+import { defaultTargetsFor } from '@shared/schemas/tank-defaults'
+import { tankInputSchema, type TankInput, type TankListQuery, type TankUpdate } from '@shared/schemas/tanks'
+import type { Page } from '@shared/schemas/common'
+import type { TankListItem } from '@shared/schemas/tanks'
+import type { Actor } from '../access/actor'
+import type { AppContext } from '../context'
+import { badRequest, fromZod, notFound } from '../platform/errors'
+import { canSeeSite, siteScope } from '../access/scope'
+import { createDefaultCareTasks } from '../care/care-tasks'
+import { rulesService } from '../incidents/watch-rules'
+import { publicTank } from '../access/serializers'
+import { tankStatuses } from './tank-status'
+
+const SORT_COLUMNS: Record<TankListQuery['sortBy'], Order> = {
+  name: [['name', 'ASC']],
+  site: [['name', 'ASC']], // replaced by the site-name order in list()
+  kind: [['kind', 'ASC'], ['name', 'ASC']],
+  stage: [['stage', 'ASC'], ['name', 'ASC']],
+  volume: [['volumeLitres', 'ASC'], ['name', 'ASC']],
+  updated: [['updatedAt', 'ASC'], ['name', 'ASC']],
+}
+
+function withDirection(order: Order, desc: boolean): Order {
+  if (!desc || !Array.isArray(order)) return order
+  return order.map((part) => {
+    const items = [...(part as unknown[])]
+    items[items.length - 1] = 'DESC'
+    return items
+  }) as Order
+}
+
+/** Geometry the schema lets through but the formula refuses (a bow deeper than half the length) is bad input, not a 500. */
+function volumeFromDimensions(dimensions: NonNullable<TankInput['dimensions']>) {
+  let litres: number
+  try {
+    litres = Math.round(grossVolumeLitres(dimensions) * 10) / 10
+  } catch (error) {
+    if (!(error instanceof RangeError)) throw error
+    const field = `dimensions.${/^\w+/.exec(error.message)?.[0] ?? 'shape'}`
+    throw badRequest(`${field}: ${error.message}`, { [field]: error.message })
+  }
+  // Stored to 0.1 L, and the table refuses a volume of zero.
+  if (litres <= 0) throw badRequest('dimensions: holds less than 0.05 L', { dimensions: 'holds less than 0.05 L' })
+  return litres
+}
+
+/** The stored volume: computed from inside dimensions when given, else the entered figure. */
+function volumeOf(input: Pick<TankInput, 'dimensions' | 'volumeLitres'>) {
+  if (input.dimensions) {
+    return { volumeLitres: volumeFromDimensions(input.dimensions), volumeSource: 'dimensions' as const }
+  }
+  return { volumeLitres: input.volumeLitres as number, volumeSource: 'entered' as const }
+}
+
+/** When the tank's stage last changed (its creation time for a tank whose stage never changed). */
+export async function stageChangedAt(ctx: AppContext, tankId: number): Promise<Date> {
+  const [row] = await ctx.sequelize.query<{ at: Date }>('SELECT stage_changed_at AS at FROM tanks WHERE id = $1', { bind: [tankId], type: QueryTypes.SELECT })
+  if (!row) throw notFound('Tank not found')
+  return new Date(row.at)
+}
+
+export function tanksService(ctx: AppContext) {
+  const { models } = ctx
+  const include = [{ association: 'site', attributes: ['id', 'name', 'timeZone'] }]
+
+  async function find(actor: Actor, id: number) {
+    const tank = await models.Tank.findOne({ where: { id, ...siteScope(actor, 'siteId') }, include })
+    if (!tank) throw notFound('Tank not found')
+    return tank
+  }
+
+  async function assertSiteUsable(actor: Actor, siteId: number) {
+    const site = await models.Site.findByPk(siteId)
+    if (!canSeeSite(actor, site)) throw badRequest('siteId: no such site', { siteId: 'no such site' })
+    if (site!.archivedAt) throw badRequest('siteId: the site is archived', { siteId: 'the site is archived' })
+  }
+
+  return {
+    find,
+
+    /** A page of tanks, each with its state, latest values and open incidents. */
+    async list(actor: Actor, q: TankListQuery): Promise<Page<TankListItem>> {
+      const where: Record<string | symbol, unknown> = { ...(siteScope(actor, 'siteId') as object) }
+      if (!q.includeArchived) where.archivedAt = null
+      if (q.siteId) where.siteId = actor.siteIds && !actor.siteIds.includes(q.siteId) ? -1 : q.siteId
+      if (q.stage) where.stage = q.stage
+      if (q.kind) where.kind = q.kind
+      if (q.search) {
+        const like = `%${q.search.replace(/[\\%_]/g, (c) => `\\${c}`)}%`
+        where[Op.or] = [{ name: { [Op.iLike]: like } }, { notes: { [Op.iLike]: like } }]
+      }
+      const order =
+        q.sortBy === 'site'
+          ? ([[{ model: models.Site, as: 'site' }, 'name', q.sortDesc ? 'DESC' : 'ASC'], ['name', 'ASC']] as Order)
+          : withDirection(SORT_COLUMNS[q.sortBy], q.sortDesc)
+      const { rows, count } = await models.Tank.findAndCountAll({
+        where: where as WhereOptions,
+        include,
+        order,
+        limit: q.pageSize,
+        offset: (q.page - 1) * q.pageSize,
+      })
+      const statuses = await tankStatuses(ctx, rows)
+      const items = rows.map((tank) => ({ ...publicTank(tank), status: statuses.get(tank.id)! }))
+      return { items, total: count, page: q.page, pageSize: q.pageSize }
+    },
+
+    async get(actor: Actor, id: number) {
+      return publicTank(await find(actor, id))
+    },
+
+    async create(actor: Actor, input: TankInput) {
+      await assertSiteUsable(actor, input.siteId)
+      const tank = await models.Tank.create({
+        ...input,
+        ...volumeOf(input),
+        targets: input.targets ?? defaultTargetsFor(input.kind),
+        organizationId: actor.organizationId,
+      })
+      await rulesService(ctx).createDefaults(tank)
+      await createDefaultCareTasks(ctx, tank)
+      return publicTank(await find(actor, tank.id))
+    },
+
+    async update(actor: Actor, id: number, changes: TankUpdate) {
+      const tank = await find(actor, id)
+      const current = publicTank(tank)
+      // Validate the merged tank so cross-field rules (volume known, heater inside the tank) still hold.
+      const merged = tankInputSchema.safeParse({ ...current, ...changes })
+      if (!merged.success) throw fromZod(merged.error, 'body')
+      if (changes.siteId && changes.siteId !== tank.siteId) await assertSiteUsable(actor, changes.siteId)
+      const next = merged.data
+      const stageChanges = next.stage !== tank.stage
+      await ctx.sequelize.transaction(async (transaction) => {
+        await tank.update({ ...next, ...volumeOf(next), targets: next.targets ?? tank.targets }, { transaction })
+        // The quarantine clock starts here; the column belongs to care, the Tank model does not declare it.
+        if (stageChanges) await ctx.sequelize.query('UPDATE tanks SET stage_changed_at = now() WHERE id = $1', { bind: [tank.id], transaction })
+      })
+      return publicTank(await find(actor, id))
+    },
+
+    async setArchived(actor: Actor, id: number, archived: boolean) {
+      const tank = await find(actor, id)
+      await tank.update({ archivedAt: archived ? new Date() : null })
+      if (archived) {
+        // An archived tank takes no readings: its connected devices are cut as if revoked, and live sockets stop showing it.
+        const devices = await ctx.models.Device.findAll({ where: { tankId: tank.id }, attributes: ['id'] })
+        for (const device of devices) ctx.events.emit('device.revoked', { deviceId: device.id })
+      }
+      ctx.events.emit('access.changed', { organizationId: tank.organizationId })
+      return publicTank(tank)
+    },
+  }
+}

@@ -1,0 +1,126 @@
+import { Op } from 'sequelize'
+import { TEST_KIT_EDIT_WINDOW_HOURS, type PublicTestKitEntry, type TestKitEntryInput } from '@shared/schemas/test-kit'
+import type { UserActor } from '../access/actor'
+import type { AppContext } from '../context'
+import { badRequest, forbidden, notFound } from '../platform/errors'
+import { insertReadings, type ReadingRow } from '../readings/batch-writer'
+import { checkReading } from '../readings/validate-readings'
+import type { TestKitEntry } from '../models'
+import { tanksService } from '../tanks/tanks'
+
+const sourceKey = (entryId: number) => `k:${entryId}`
+
+/** Keepers' test-kit entries: readings with source `test_kit`, written with the entry in one transaction. */
+export function testKitService(ctx: AppContext) {
+  const { models, sequelize, events, config } = ctx
+  const tanks = tanksService(ctx)
+  const include = [
+    { association: 'author', attributes: ['id', 'name'] },
+    { association: 'revisions', attributes: ['id'] },
+  ]
+
+  function toRows(entryId: number, tankId: number, input: TestKitEntryInput, takenAt: Date): ReadingRow[] {
+    const fields: Record<string, string> = {}
+    const rows: ReadingRow[] = []
+    input.values.forEach((v, i) => {
+      const checked = checkReading({ ...v, time: takenAt.toISOString() }, config.readingLimits)
+      if (!checked.ok) fields[`values.${i}.value`] = checked.reason
+      else rows.push({ sourceKey: sourceKey(entryId), metric: checked.metric, time: checked.time, tankId, value: checked.value, source: 'test_kit' })
+    })
+    if (Object.keys(fields).length) throw badRequest(Object.values(fields)[0], fields)
+    return rows
+  }
+
+  function present(entry: TestKitEntry): PublicTestKitEntry {
+    return {
+      id: entry.id,
+      tankId: entry.tankId,
+      takenAt: entry.takenAt.toISOString(),
+      values: entry.values,
+      notes: entry.notes,
+      enteredBy: { id: entry.author?.id ?? 0, name: entry.author?.name ?? 'former user' },
+      editableUntil: new Date(entry.createdAt.getTime() + TEST_KIT_EDIT_WINDOW_HOURS * 3600_000).toISOString(),
+      revisions: (entry as TestKitEntry & { revisions?: unknown[] }).revisions?.length ?? 0,
+      createdAt: entry.createdAt.toISOString(),
+    }
+  }
+
+  async function findOwn(actor: UserActor, id: number) {
+    const entry = await models.TestKitEntry.findOne({ where: { id, organizationId: actor.organizationId, deletedAt: null }, include })
+    if (!entry) throw notFound('Test-kit entry not found')
+    await tanks.find(actor, entry.tankId)
+    if (entry.enteredBy !== actor.userId) throw forbidden('Only the keeper who made an entry may change it')
+    if (Date.now() > entry.createdAt.getTime() + TEST_KIT_EDIT_WINDOW_HOURS * 3600_000) {
+      throw forbidden(`Entries can be changed for ${TEST_KIT_EDIT_WINDOW_HOURS} hours after they are made`)
+    }
+    return entry
+  }
+
+  const snapshot = (e: TestKitEntry) => ({ takenAt: e.takenAt.toISOString(), values: e.values, notes: e.notes })
+
+  return {
+    async list(actor: UserActor, tankId: number, range: { from?: Date; to?: Date } = {}) {
+      await tanks.find(actor, tankId)
+      const where: Record<string | symbol, unknown> = { tankId, deletedAt: null }
+      if (range.from || range.to) {
+        where.takenAt = { ...(range.from ? { [Op.gte]: range.from } : {}), ...(range.to ? { [Op.lt]: range.to } : {}) }
+      }
+      const entries = await models.TestKitEntry.findAll({ where, include, order: [['takenAt', 'DESC']], limit: 500 })
+      return entries.map(present)
+    },
+
+    async create(actor: UserActor, tankId: number, input: TestKitEntryInput) {
+      const tank = await tanks.find(actor, tankId)
+      const takenAt = input.takenAt ? new Date(input.takenAt) : new Date()
+      toRows(0, tank.id, input, takenAt) // validate before anything is written
+      const { entry, stored } = await sequelize.transaction(async (transaction) => {
+        const entry = await models.TestKitEntry.create(
+          { organizationId: actor.organizationId, tankId: tank.id, enteredBy: actor.userId, takenAt, values: input.values, notes: input.notes },
+          { transaction },
+        )
+        const stored = await insertReadings(sequelize, toRows(entry.id, tank.id, input, takenAt), transaction)
+        return { entry, stored }
+      })
+      events.emit('readings.stored', stored)
+      await entry.reload({ include })
+      return present(entry)
+    },
+
+    async update(actor: UserActor, id: number, input: TestKitEntryInput) {
+      const entry = await findOwn(actor, id)
+      const takenAt = input.takenAt ? new Date(input.takenAt) : entry.takenAt
+      const rows = toRows(entry.id, entry.tankId, input, takenAt)
+      const stored = await sequelize.transaction(async (transaction) => {
+        await models.TestKitEntryRevision.create({ entryId: entry.id, action: 'edit', changedBy: actor.userId, snapshot: snapshot(entry) }, { transaction })
+        await sequelize.query('DELETE FROM readings WHERE source_key = $1', { bind: [sourceKey(entry.id)], transaction })
+        await entry.update({ takenAt, values: input.values, notes: input.notes }, { transaction })
+        return insertReadings(sequelize, rows, transaction)
+      })
+      events.emit('readings.stored', stored)
+      await entry.reload({ include })
+      return present(entry)
+    },
+
+    async remove(actor: UserActor, id: number) {
+      const entry = await findOwn(actor, id)
+      await sequelize.transaction(async (transaction) => {
+        await models.TestKitEntryRevision.create({ entryId: entry.id, action: 'delete', changedBy: actor.userId, snapshot: snapshot(entry) }, { transaction })
+        await sequelize.query('DELETE FROM readings WHERE source_key = $1', { bind: [sourceKey(entry.id)], transaction })
+        await entry.update({ deletedAt: new Date() }, { transaction })
+      })
+    },
+
+    /** The entry's story: what it said before each edit or deletion. */
+    async history(actor: UserActor, id: number) {
+      const entry = await models.TestKitEntry.findOne({ where: { id, organizationId: actor.organizationId } })
+      if (!entry) throw notFound('Test-kit entry not found')
+      await tanks.find(actor, entry.tankId)
+      const revisions = await models.TestKitEntryRevision.findAll({ where: { entryId: id }, order: [['createdAt', 'ASC']] })
+      return {
+        current: entry.deletedAt ? null : snapshot(entry),
+        deletedAt: entry.deletedAt?.toISOString() ?? null,
+        revisions: revisions.map((r) => ({ action: r.action, changedBy: r.changedBy, at: r.createdAt.toISOString(), before: r.snapshot })),
+      }
+    },
+  }
+}
