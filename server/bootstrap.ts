@@ -8,6 +8,8 @@ import { createIngest } from './readings/ingest'
 import { createLogger } from './platform/logger'
 import { initModels } from './models'
 import { silentNotifier } from './incidents/notifier'
+import { rulesService } from './incidents/watch-rules'
+import { createDefaultCareTasks } from './care/care-tasks'
 
 /** Builds the shared context (database, models, logger, events, ingest) from a config. */
 export function createContext(config: Config, options: { writer?: BatchWriterOptions } = {}): AppContext {
@@ -21,7 +23,11 @@ export function createContext(config: Config, options: { writer?: BatchWriterOpt
   })
   const status = new DeviceStatusTracker(sequelize, logger)
   const ingest = createIngest({ writer, status, limits: config.readingLimits })
-  return { config, sequelize, models, logger, events, readings: { writer, status, ingest }, alerts: { notifier: silentNotifier } }
+  const ctx: AppContext = { config, sequelize, models, logger, events, readings: { writer, status, ingest }, incidents: { notifier: silentNotifier } }
+  // A new tank gets its starter watch rules, then its care routine, before its creation answers.
+  events.on('tank.created', (tank) => rulesService(ctx).createDefaults(tank))
+  events.on('tank.created', (tank) => createDefaultCareTasks(ctx, tank))
+  return ctx
 }
 
 /** Writes what is still buffered and closes the database. */

@@ -98,7 +98,7 @@ export type Config = Readonly<{
   rulesTickMs: number
   /** How often the scheduled-report job looks for reports due. */
   reportScheduleTickMs: number
-  alertTiming: { escalateAlarmAfterMinutes: number; escalateWarningAfterMinutes: number; repeatEveryMinutes: number; siteGroupWaitSeconds?: number }
+  incidentTiming: { escalateAlarmAfterMinutes: number; escalateWarningAfterMinutes: number; repeatEveryMinutes: number; siteGroupWaitSeconds?: number }
   mail: { smtpUrl?: string; fakeSmtpPort: number; from: string }
   photos: { maxBytes: number; store: PhotoStoreSettings }
   /** Local hour (site's zone) from which the morning care digest goes out. */
@@ -152,7 +152,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     rawRetentionDays: e.RAW_RETENTION_DAYS,
     rulesTickMs: e.RULES_TICK_SECONDS * 1000,
     reportScheduleTickMs: e.REPORT_SCHEDULE_SECONDS * 1000,
-    alertTiming: { escalateAlarmAfterMinutes: e.ESCALATE_ALARM_MINUTES, escalateWarningAfterMinutes: e.ESCALATE_WARNING_MINUTES, repeatEveryMinutes: e.REPEAT_MINUTES, siteGroupWaitSeconds: e.SITE_GROUP_WAIT_SECONDS },
+    incidentTiming: { escalateAlarmAfterMinutes: e.ESCALATE_ALARM_MINUTES, escalateWarningAfterMinutes: e.ESCALATE_WARNING_MINUTES, repeatEveryMinutes: e.REPEAT_MINUTES, siteGroupWaitSeconds: e.SITE_GROUP_WAIT_SECONDS },
     mail: { smtpUrl: e.SMTP_URL, fakeSmtpPort: e.FAKE_SMTP_PORT, from: e.MAIL_FROM },
     photos: {
       maxBytes: Math.round(e.PHOTO_MAX_MB * 1024 * 1024),
@@ -190,7 +190,7 @@ export function testConfig(overrides: Partial<Config> & { databaseUrl: string })
     rawRetentionDays: 90,
     rulesTickMs: 10_000,
     reportScheduleTickMs: 60_000,
-    alertTiming: { escalateAlarmAfterMinutes: 15, escalateWarningAfterMinutes: 60, repeatEveryMinutes: 30 },
+    incidentTiming: { escalateAlarmAfterMinutes: 15, escalateWarningAfterMinutes: 60, repeatEveryMinutes: 30 },
     mail: { fakeSmtpPort: 0, from: 'Tankwarden <alerts@tankwarden.invalid>' },
     photos: { maxBytes: 15 * 1024 * 1024, store: { kind: 'local' as const } },
     careDigestHour: 7,

@@ -17,5 +17,5 @@ export type AppContext = {
   events: EventBus
   readings: { writer: BatchWriter; status: DeviceStatusTracker; ingest: Ingest }
   /** Who hears about incidents; the mail notifier in a running server, silent in bare tests. */
-  alerts: { notifier: IncidentNotifier }
+  incidents: { notifier: IncidentNotifier }
 }

@@ -59,10 +59,10 @@ export async function startServer(config: Config): Promise<RunningServer> {
 
   const stopMailTimeline = recordMailAttempts(ctx)
   const mail: RunningMail = await startMail(ctx)
-  ctx.alerts.notifier = createMailNotifier(ctx)
+  ctx.incidents.notifier = createMailNotifier(ctx)
   // Jobs that must not run twice go beside the engine, in the one instance holding the lock (the
   // report and digest jobs are also safe twice over, by their outbox dedupe keys).
-  const rules = startRuleEngine(ctx, ctx.alerts.notifier, config.alertTiming, config.rulesTickMs, {
+  const rules = startRuleEngine(ctx, ctx.incidents.notifier, config.incidentTiming, config.rulesTickMs, {
     whileLeading: [
       () => startRetentionJob(ctx, { rawRetentionDays: config.rawRetentionDays, everyMs: 3600_000 }),
       () => startReportJob(ctx, { everyMs: config.reportScheduleTickMs }),

@@ -1,4 +1,4 @@
-import type { TankState } from './schemas/wall'
+import type { TankState } from './schemas/tank-status'
 import type { Targets } from './schemas/tanks'
 
 export type TankStateInput = {

@@ -1,5 +1,6 @@
 import { Op, type WhereOptions } from 'sequelize'
 import type { Actor } from './actor'
+import type { AppContext } from '../context'
 import { notFound } from '../platform/errors'
 
 /** Rows an actor may see: always its own organization, and for a limited viewer only its sites. */
@@ -18,4 +19,11 @@ export function canSeeSite(actor: Actor, site: { organizationId: number; id: num
 export function mustSee<T extends { organizationId: number }>(row: T | null, actor: Actor, what: string): T {
   if (!row || row.organizationId !== actor.organizationId) throw notFound(`${what} not found`)
   return row
+}
+
+/** The tank with its site, if the actor may see it; else 404. Every feature checks tank access here. */
+export async function visibleTank(ctx: AppContext, actor: Actor, id: number) {
+  const tank = await ctx.models.Tank.findOne({ where: { id, ...siteScope(actor, 'siteId') }, include: [{ association: 'site', attributes: ['id', 'name', 'timeZone'] }] })
+  if (!tank) throw notFound('Tank not found')
+  return tank
 }

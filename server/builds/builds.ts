@@ -12,8 +12,7 @@ import type { BuildStep, Tank, TankBuild } from '../models'
 import { groupTests, livestockService } from '../care/livestock'
 import { instantNotAhead, writeCareLog } from '../care/care-log'
 import { nitrogenReadings } from '../care/care-readings'
-import { siteScope } from '../access/scope'
-import { tanksService } from '../tanks/tanks'
+import { siteScope, visibleTank } from '../access/scope'
 
 const DAY_MS = 86_400_000
 /** A fill date further back is a record being typed up, not a build being run. */
@@ -101,7 +100,6 @@ export async function buildDaysFor(ctx: AppContext, tankIds: number[], timeZone:
 
 export function buildsService(ctx: AppContext) {
   const { models, sequelize } = ctx
-  const tanks = tanksService(ctx)
 
   async function findBuild(tank: Tank) {
     const build = await models.TankBuild.findOne({ where: { tankId: tank.id } })
@@ -169,13 +167,13 @@ export function buildsService(ctx: AppContext) {
     figuresFor,
 
     async get(actor: UserActor, tankId: number, now = new Date()) {
-      const tank = await tanks.find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       return view(tank, await findBuild(tank), now)
     },
 
     /** Saves the plan and writes its figures into the tank (substrate depth, heater, filter, light, targets). */
     async savePlan(actor: UserActor, tankId: number, plan: BuildPlan, now = new Date()) {
-      const tank = await tanks.find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       const figures = figuresFor(tank, plan)
       const fields = tankFieldsFrom(tank, plan, figures)
       const build = await sequelize.transaction(async (transaction) => {
@@ -189,7 +187,7 @@ export function buildsService(ctx: AppContext) {
 
     /** The tank is filled: the dated steps and their care tasks, and the stage moves to cycling. */
     async start(actor: UserActor, tankId: number, input: BuildStartInput, now = new Date()) {
-      const tank = await tanks.find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       const build = await findBuild(tank)
       if (build.filledOn) throw conflict('build_started', `This build was filled on ${build.filledOn}; its timeline is already running`)
       const today = todayAt(tank, now)
@@ -231,7 +229,7 @@ export function buildsService(ctx: AppContext) {
 
     /** Ticks a step; cycling needs zero ammonia and nitrite on consecutive tests, stocking needs cycling and settled stages. */
     async tick(actor: UserActor, tankId: number, key: string, input: BuildStepDoneInput, now = new Date()) {
-      const tank = await tanks.find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       const build = await findBuild(tank)
       const steps = await models.BuildStep.findAll({ where: { buildId: build.id }, order: [['day', 'ASC'], ['id', 'ASC']] })
       const step = steps.find((s) => s.key === key)
@@ -283,7 +281,7 @@ export function buildsService(ctx: AppContext) {
 
     /** Finished builds of tanks of the same shape and size, newest first: a start for this tank's plan. */
     async templates(actor: UserActor, tankId: number) {
-      const tank = await tanks.find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       if (!tank.dimensions) return []
       const same = JSON.stringify(tank.dimensions)
       const builds = await models.TankBuild.findAll({ where: { organizationId: actor.organizationId, finishedAt: { [Op.ne]: null }, tankId: { [Op.ne]: tank.id } }, order: [['finishedAt', 'DESC']], limit: 50 })

@@ -5,7 +5,7 @@ import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { badRequest } from '../platform/errors'
 import type { CareLogEntry } from '../models'
-import { tanksService } from '../tanks/tanks'
+import { visibleTank } from '../access/scope'
 
 export interface PublicCareLogEntry {
   id: number
@@ -66,10 +66,9 @@ export function instantNotAhead(text: string | undefined, field: string, now = n
 
 /** The care log of a tank: what was done and when, for the tank page and its chart markers. */
 export function careLogService(ctx: AppContext) {
-  const tanks = tanksService(ctx)
   return {
     async list(actor: UserActor, tankId: number, range: { from?: string; to?: string }) {
-      const tank = await tanks.find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       const at: Record<symbol, Date> = {}
       if (range.from) at[Op.gte] = new Date(range.from)
       if (range.to) at[Op.lt] = new Date(range.to)
@@ -82,7 +81,7 @@ export function careLogService(ctx: AppContext) {
     },
 
     async create(actor: UserActor, tankId: number, input: CareLogInput) {
-      const tank = await tanks.find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       const entry = await writeCareLog(ctx, {
         organizationId: actor.organizationId,
         tankId: tank.id,

@@ -9,9 +9,9 @@ import { badRequest, notFound } from '../platform/errors'
 import type { CareTask, Tank } from '../models'
 import { instantNotAhead, presentCareLog, writeCareLog } from './care-log'
 import { whoIsOnDuty } from '../roster/roster'
-import { siteScope } from '../access/scope'
+import { siteScope, visibleTank } from '../access/scope'
 import { sitesService } from '../sites/sites'
-import { tanksService } from '../tanks/tanks'
+import type { CreatedTank } from '../platform/events'
 
 /** A snooze longer than this is a task that should be changed or switched off instead. */
 const MAX_SNOOZE_DAYS = 60
@@ -41,7 +41,7 @@ function presentTask(task: CareTask, timeZone: string, now: Date) {
 const zoneOf = (tank: TankWithSite) => tank.site?.timeZone ?? 'UTC'
 
 /** The starter routine for a new tank (see shared/care/defaults); call it where tanks are created. */
-export async function createDefaultCareTasks(ctx: AppContext, tank: Tank, transaction?: Transaction) {
+export async function createDefaultCareTasks(ctx: AppContext, tank: CreatedTank, transaction?: Transaction) {
   // Once per tank: a tank that already has tasks keeps them.
   const existing = await ctx.models.CareTask.findAll({ where: { tankId: tank.id }, order: [['id', 'ASC']], transaction })
   if (existing.length) return existing
@@ -105,12 +105,11 @@ export async function dueItems(ctx: AppContext, where: { siteIds?: number[]; tan
 
 export function careTasksService(ctx: AppContext) {
   const { models, sequelize } = ctx
-  const tanks = tanksService(ctx)
 
   async function findTask(actor: UserActor, id: number) {
     const task = await models.CareTask.findOne({ where: { id, organizationId: actor.organizationId } })
     if (!task) throw notFound('Care task not found')
-    const tank = (await tanks.find(actor, task.tankId)) as TankWithSite
+    const tank = (await visibleTank(ctx, actor, task.tankId)) as TankWithSite
     return { task, tank }
   }
 
@@ -134,13 +133,13 @@ export function careTasksService(ctx: AppContext) {
 
   return {
     async listForTank(actor: UserActor, tankId: number, now = new Date()) {
-      const tank = (await tanks.find(actor, tankId)) as TankWithSite
+      const tank = (await visibleTank(ctx, actor, tankId)) as TankWithSite
       const tasks = await models.CareTask.findAll({ where: { tankId: tank.id }, order: [['id', 'ASC']] })
       return tasks.map((t) => presentTask(t, zoneOf(tank), now))
     },
 
     async create(actor: UserActor, tankId: number, input: CareTaskInput) {
-      const tank = (await tanks.find(actor, tankId)) as TankWithSite
+      const tank = (await visibleTank(ctx, actor, tankId)) as TankWithSite
       const task = await models.CareTask.create({
         ...input,
         title: input.title ?? CARE_TASK_KIND_TITLES[input.kind],
@@ -193,7 +192,7 @@ export function careTasksService(ctx: AppContext) {
         for (const [index, seen] of input.tasks.entries()) {
           const task = byId.get(seen.id)
           if (!task) throw notFound(`Care task ${seen.id} not found`)
-          const tank = (await tanks.find(actor, task.tankId)) as TankWithSite
+          const tank = (await visibleTank(ctx, actor, task.tankId)) as TankWithSite
           if (!task.active) throw badRequest(`tasks.${index}.id: this task is switched off`, { [`tasks.${index}.id`]: 'this task is switched off' })
           const seenAt = seen.seenLastDoneAt ? new Date(seen.seenLastDoneAt) : null
           if (task.lastDoneAt && (!seenAt || task.lastDoneAt > seenAt)) {

@@ -10,7 +10,8 @@ import { badRequest, notFound } from '../platform/errors'
 import type { LivestockEntry, Tank } from '../models'
 import { instantNotAhead, writeCareLog } from './care-log'
 import { nitrogenReadings, tankPh, tankTemperature } from './care-readings'
-import { stageChangedAt, tanksService } from '../tanks/tanks'
+import { stageChangedAt } from './quarantine'
+import { visibleTank } from '../access/scope'
 
 const DAY_MS = 86_400_000
 /** Cycling a new tank takes weeks; a longer look back only adds old, settled tests. */
@@ -60,7 +61,6 @@ export function groupTests(rows: Awaited<ReturnType<typeof nitrogenReadings>>): 
 
 export function livestockService(ctx: AppContext) {
   const { models, sequelize } = ctx
-  const tanks = tanksService(ctx)
 
   async function quarantineOf(tank: Tank, now: Date) {
     if (tank.stage !== 'quarantine') return null
@@ -68,7 +68,7 @@ export function livestockService(ctx: AppContext) {
   }
 
   async function findEntry(actor: UserActor, tankId: number, entryId: number) {
-    const tank = await tanks.find(actor, tankId)
+    const tank = await visibleTank(ctx, actor, tankId)
     const entry = await models.LivestockEntry.findOne({ where: { id: entryId, tankId: tank.id } })
     if (!entry) throw notFound('Livestock entry not found')
     return { tank, entry }
@@ -76,14 +76,14 @@ export function livestockService(ctx: AppContext) {
 
   return {
     async list(actor: UserActor, tankId: number, now = new Date()) {
-      const tank = await tanks.find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       const entries = await models.LivestockEntry.findAll({ where: { tankId: tank.id }, order: [['addedAt', 'ASC'], ['id', 'ASC']] })
       const watch = (await tankWatchUntil(ctx, [tank.id], now)).get(tank.id)
       return { entries: entries.map(present), watchUntil: watch?.toISOString() ?? null, quarantine: await quarantineOf(tank, now) }
     },
 
     async add(actor: UserActor, tankId: number, input: LivestockInput) {
-      const tank = await tanks.find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       const species = input.speciesKey ? speciesByKey(input.speciesKey) : undefined
       const category = species?.category ?? input.category ?? 'fish'
       const addedAt = instantNotAhead(input.addedAt, 'addedAt')
@@ -140,7 +140,7 @@ export function livestockService(ctx: AppContext) {
     },
 
     async cycling(actor: UserActor, tankId: number, now = new Date()) {
-      const tank = await tanks.find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       const rows = await nitrogenReadings(ctx, tank.id, new Date(now.getTime() - CYCLING_LOOKBACK_DAYS * DAY_MS))
       const plants = await models.LivestockEntry.findAll({ where: { tankId: tank.id, category: 'plant' }, attributes: ['addedAt'] })
       const status = cyclingStatus(groupTests(rows))

@@ -8,7 +8,7 @@ import type { Tank, WaterChange } from '../models'
 import { presentCareLog, writeCareLog } from './care-log'
 import { latestReading, tankTemperature } from './care-readings'
 import { markTasksOfKindDone } from './care-tasks'
-import { tanksService } from '../tanks/tanks'
+import { visibleTank } from '../access/scope'
 
 /** common practice: a change above a quarter of the water is done with the heater off. */
 export const HEATER_CONFIRM_PERCENT = 25
@@ -70,7 +70,6 @@ export const CANCEL_CAUTION = 'Top the tank back up to its usual level before sw
 
 export function waterChangesService(ctx: AppContext) {
   const { models, sequelize, events } = ctx
-  const tanks = tanksService(ctx)
 
   async function planFor(tank: Tank, input: WaterChangePlanInput) {
     const shape = tank.dimensions as TankShape | null
@@ -105,23 +104,23 @@ export function waterChangesService(ctx: AppContext) {
   async function findChange(actor: UserActor, id: number) {
     const change = await models.WaterChange.findOne({ where: { id, organizationId: actor.organizationId } })
     if (!change) throw notFound('Water change not found')
-    const tank = await tanks.find(actor, change.tankId)
+    const tank = await visibleTank(ctx, actor, change.tankId)
     return { change, tank }
   }
 
   return {
     async plan(actor: UserActor, tankId: number, input: WaterChangePlanInput) {
-      return planFor(await tanks.find(actor, tankId), input)
+      return planFor(await visibleTank(ctx, actor, tankId), input)
     },
 
     async list(actor: UserActor, tankId: number) {
-      const tank = await tanks.find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       const changes = await models.WaterChange.findAll({ where: { tankId: tank.id }, order: [['startedAt', 'DESC']], limit: 100 })
       return changes.map(present)
     },
 
     async start(actor: UserActor, tankId: number, input: WaterChangeStartInput) {
-      const tank = await tanks.find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       const plan = await planFor(tank, input)
       if (plan.requiresHeaterOffConfirmation && !input.heaterOffConfirmed) {
         const why = plan.heaterExposed ? 'this change uncovers the heater' : `this change is over ${HEATER_CONFIRM_PERCENT} %`

@@ -7,11 +7,10 @@ import type { AppContext } from '../context'
 import { notFound } from '../platform/errors'
 import type { Device } from '../models'
 import { newDeviceToken } from './device-tokens'
-import { tanksService } from '../tanks/tanks'
+import { visibleTank } from '../access/scope'
 
 export function devicesService(ctx: AppContext) {
   const { models, sequelize } = ctx
-  const tanks = tanksService(ctx)
   const include = [{ association: 'tank', attributes: ['id', 'name', 'siteId'] }]
 
   async function readingsSince(deviceIds: number[], since: Date) {
@@ -53,14 +52,14 @@ export function devicesService(ctx: AppContext) {
   async function find(actor: Actor, id: number) {
     const device = await models.Device.findOne({ where: { id, organizationId: actor.organizationId }, include })
     if (!device) throw notFound('Device not found')
-    await tanks.find(actor, device.tankId) // a limited viewer sees devices of its sites only
+    await visibleTank(ctx, actor, device.tankId) // a limited viewer sees devices of its sites only
     return device
   }
 
   return {
     async list(actor: Actor, tankId?: number) {
       const where: Record<string, unknown> = { organizationId: actor.organizationId }
-      if (tankId) where.tankId = (await tanks.find(actor, tankId)).id
+      if (tankId) where.tankId = (await visibleTank(ctx, actor, tankId)).id
       else if (actor.siteIds) {
         const visible = await models.Tank.findAll({ where: { siteId: { [Op.in]: actor.siteIds } }, attributes: ['id'] })
         where.tankId = visible.map((t) => t.id)
@@ -74,7 +73,7 @@ export function devicesService(ctx: AppContext) {
     },
 
     async create(actor: Actor, input: DeviceInput) {
-      const tank = await tanks.find(actor, input.tankId)
+      const tank = await visibleTank(ctx, actor, input.tankId)
       const placeholder = await models.Device.create({
         ...input,
         tankId: tank.id,

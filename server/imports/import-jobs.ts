@@ -8,8 +8,7 @@ import { importFiles } from './files'
 import { importRunnerFor } from './runner'
 import { assertCsvText, buildPreview, NotCsvError, readHead, SNIFF_BYTES, UnreadableHeaderError } from './sniff'
 import type { ImportJob } from '../models'
-import { canSeeSite } from '../access/scope'
-import { tanksService } from '../tanks/tanks'
+import { canSeeSite, visibleTank } from '../access/scope'
 
 /** Units that need the tank's context (full-scale lux, water temperature) cannot come from a file column. */
 const CONTEXT_UNITS = new Set(['light:pct', 'oxygen:pct_sat'])
@@ -19,7 +18,6 @@ export type UploadedFile = { key: string; originalName: string; size: number }
 export function importJobsService(ctx: AppContext) {
   const { models } = ctx
   const files = importFiles(ctx.config.dataDir)
-  const tanks = tanksService(ctx)
 
   function present(job: ImportJob, timeZone: string): PublicImportJob {
     return {
@@ -67,7 +65,7 @@ export function importJobsService(ctx: AppContext) {
     /** Resolves the scope before any byte is accepted, so a refused scope stores nothing. */
     async scopeFor(actor: UserActor, scope: { tankId?: number; siteId?: number }) {
       if (scope.tankId) {
-        const tank = await tanks.find(actor, scope.tankId)
+        const tank = await visibleTank(ctx, actor, scope.tankId)
         if (tank.archivedAt) throw badRequest('The tank is archived', { tankId: 'the tank is archived' })
         return { siteId: tank.siteId, tankId: tank.id, timeZone: tank.site?.timeZone ?? 'UTC' }
       }

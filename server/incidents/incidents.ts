@@ -175,4 +175,4 @@ export function incidentsService(ctx: AppContext, notifier: IncidentNotifier, ti
 export type IncidentsService = ReturnType<typeof incidentsService>
 
 /** The incidents service as the app is configured (its notifier and timings). */
-export const incidentsOf = (ctx: AppContext) => incidentsService(ctx, ctx.alerts.notifier, ctx.config.alertTiming)
+export const incidentsOf = (ctx: AppContext) => incidentsService(ctx, ctx.incidents.notifier, ctx.config.incidentTiming)

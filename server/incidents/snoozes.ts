@@ -4,7 +4,7 @@ import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { notFound } from '../platform/errors'
 import type { Snooze } from '../models'
-import { tanksService } from '../tanks/tanks'
+import { visibleTank } from '../access/scope'
 
 function present(s: Snooze): PublicSnooze {
   const suppresses = ['Alert e-mails for this tank’s warnings and alarms (incidents are still recorded and shown on the wall)']
@@ -26,7 +26,7 @@ export function snoozesService(ctx: AppContext) {
   const changed = (tankId: number) => events.emit('rules.changed', { tankIds: [tankId] })
   return {
     async list(actor: UserActor, tankId: number) {
-      await tanksService(ctx).find(actor, tankId)
+      await visibleTank(ctx, actor, tankId)
       const rows = await models.Snooze.findAll({
         where: { tankId, cancelledAt: null, [Op.or]: [{ endsAt: { [Op.gt]: new Date() } }, { repeatUntil: { [Op.gt]: new Date() } }] },
         order: [['startsAt', 'ASC']],
@@ -34,7 +34,7 @@ export function snoozesService(ctx: AppContext) {
       return rows.map(present)
     },
     async create(actor: UserActor, tankId: number, input: SnoozeInput) {
-      const tank = await tanksService(ctx).find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       const snooze = await models.Snooze.create({
         organizationId: actor.organizationId, tankId: tank.id, reason: input.reason,
         startsAt: new Date(input.startsAt), endsAt: new Date(input.endsAt), weekly: input.weekly,
@@ -46,7 +46,7 @@ export function snoozesService(ctx: AppContext) {
     async cancel(actor: UserActor, id: number) {
       const snooze = await models.Snooze.findOne({ where: { id, organizationId: actor.organizationId } })
       if (!snooze) throw notFound('Snooze not found')
-      await tanksService(ctx).find(actor, snooze.tankId)
+      await visibleTank(ctx, actor, snooze.tankId)
       // Cancelling again keeps the first time: a later one would re-snooze the minutes in between.
       if (!snooze.cancelledAt) {
         await snooze.update({ cancelledAt: new Date() })

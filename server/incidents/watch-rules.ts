@@ -4,9 +4,10 @@ import type { PublicRule, RuleInput } from '@shared/schemas/rules'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { badRequest, notFound } from '../platform/errors'
-import type { Tank, WatchRule } from '../models'
+import type { WatchRule } from '../models'
 import { sitesService } from '../sites/sites'
-import { tanksService } from '../tanks/tanks'
+import { visibleTank } from '../access/scope'
+import type { CreatedTank } from '../platform/events'
 
 export type EffectiveRule = { rule: WatchRule; tankId: number }
 
@@ -65,7 +66,7 @@ export function rulesService(ctx: AppContext) {
     effectiveRules,
 
     /** The starter rules every new tank gets (see shared/rules/defaults). */
-    async createDefaults(tank: Tank, transaction?: Transaction) {
+    async createDefaults(tank: CreatedTank, transaction?: Transaction) {
       const drafts = defaultRulesForTank({
         kind: tank.kind,
         targets: { temperature: tank.targets.temperature, ph: tank.targets.ph },
@@ -79,7 +80,7 @@ export function rulesService(ctx: AppContext) {
     },
 
     async listForTank(actor: UserActor, tankId: number, status?: (ruleId: number) => PublicRule['status']) {
-      const tank = await tanksService(ctx).find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       const rules = await models.WatchRule.findAll({
         where: { [Op.or]: [{ tankId: tank.id }, { tankId: null, siteId: tank.siteId }] },
         order: [['id', 'ASC']],
@@ -97,7 +98,7 @@ export function rulesService(ctx: AppContext) {
     },
 
     async createForTank(actor: UserActor, tankId: number, input: RuleInput) {
-      const tank = await tanksService(ctx).find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       const rule = await models.WatchRule.create({
         ...input, organizationId: actor.organizationId, siteId: tank.siteId, tankId: tank.id, createdBy: actor.userId,
       })
@@ -114,7 +115,7 @@ export function rulesService(ctx: AppContext) {
 
     /** A tank's own version of a site-wide rule (change its limits, or set `enabled: false` to opt out). */
     async overrideForTank(actor: UserActor, tankId: number, siteRuleId: number, input: Partial<RuleInput>) {
-      const tank = await tanksService(ctx).find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       const siteRule = await findRule(actor, siteRuleId)
       if (siteRule.tankId !== null || siteRule.siteId !== tank.siteId) {
         throw badRequest('ruleId: not a site-wide rule of this tank’s site', { ruleId: 'not a site-wide rule of this site' })

@@ -9,7 +9,7 @@ import type { Photo } from '../models'
 import { photoStoreFor, StoredObjectMissing } from './storage'
 import { instantNotAhead } from '../care/care-log'
 import { processPhoto } from './photo-images'
-import { tanksService } from '../tanks/tanks'
+import { visibleTank } from '../access/scope'
 
 const API = '/api/v1'
 const MAX_LISTED = 500
@@ -52,7 +52,7 @@ export async function photosInPeriod(ctx: AppContext, tankId: number, from: Date
 
 /** The same list with the caller's permissions: another site's or organization's tank is a 404. */
 export async function listTankPhotos(ctx: AppContext, actor: UserActor, tankId: number, from: Date, to: Date): Promise<PhotoSummary[]> {
-  const tank = await tanksService(ctx).find(actor, tankId)
+  const tank = await visibleTank(ctx, actor, tankId)
   return photosInPeriod(ctx, tank.id, from, to)
 }
 
@@ -66,7 +66,6 @@ export async function readPhotoBytes(ctx: AppContext, photoId: number, variant: 
 }
 
 export function photosService(ctx: AppContext) {
-  const tanks = tanksService(ctx)
   const store = () => photoStoreFor(ctx.config)
 
   async function find(actor: UserActor, id: number) {
@@ -74,7 +73,7 @@ export function photosService(ctx: AppContext) {
     if (!photo) throw notFound('Photo not found')
     // The tank decides: a viewer limited to other sites gets the same 404 as a stranger.
     try {
-      await tanks.find(actor, photo.tankId)
+      await visibleTank(ctx, actor, photo.tankId)
     } catch {
       throw notFound('Photo not found')
     }
@@ -92,7 +91,7 @@ export function photosService(ctx: AppContext) {
     find,
 
     async list(actor: UserActor, tankId: number, range: { from?: string; to?: string }) {
-      const tank = await tanks.find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       const photos = await ctx.models.Photo.findAll({
         where: { tankId: tank.id, ...periodWhere({ from: range.from ? new Date(range.from) : undefined, to: range.to ? new Date(range.to) : undefined }) },
         order: [['takenAt', 'DESC'], ['id', 'DESC']],
@@ -107,7 +106,7 @@ export function photosService(ctx: AppContext) {
 
     /** Nothing is kept of a refused upload: the row is written last, and stored objects are removed if it fails. */
     async upload(actor: UserActor, tankId: number, bytes: Buffer | undefined, fields: PhotoUploadFields): Promise<PublicPhoto> {
-      const tank = await tanks.find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       if (!bytes || bytes.length === 0) throw badRequest('photo: attach a JPEG, PNG or WebP image', { photo: 'attach a JPEG, PNG or WebP image' })
       const takenAt = instantNotAhead(fields.takenAt, 'takenAt')
       const careLogEntryId = await checkCareLogEntry(tank.id, fields.careLogEntryId)

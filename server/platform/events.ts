@@ -1,4 +1,5 @@
 import { EventEmitter } from 'node:events'
+import type { TankKind, TankStage, Targets } from '@shared/schemas/tanks'
 
 export type StoredReading = {
   tankId: number
@@ -8,9 +9,14 @@ export type StoredReading = {
   source: 'device' | 'test_kit' | 'import'
 }
 
+/** What the features that seed a new tank's defaults need to know of it. */
+export type CreatedTank = { id: number; organizationId: number; siteId: number; kind: TankKind; stage: TankStage; targets: Targets; heater: { topCm: number } | null }
+
 /** Everything that happens in-process and that other parts react to. Models import no transport. */
 export type EventMap = {
   'readings.stored': [StoredReading[]]
+  /** Awaited with `settle`: the tank's starter watch rules and care routine exist when creation answers. */
+  'tank.created': [CreatedTank]
   'device.revoked': [{ deviceId: number }]
   'wall.revoked': [{ credentialId: number }]
   /** Who may see what in an organization changed (a person's sites, role or status; a site or tank archived). */
@@ -24,6 +30,8 @@ export type EventBus = {
   on<K extends keyof EventMap>(event: K, listener: (...args: EventMap[K]) => void): void
   off<K extends keyof EventMap>(event: K, listener: (...args: EventMap[K]) => void): void
   emit<K extends keyof EventMap>(event: K, ...args: EventMap[K]): void
+  /** Calls every listener and waits for the async ones; the first failure fails the caller. */
+  settle<K extends keyof EventMap>(event: K, ...args: EventMap[K]): Promise<void>
 }
 
 export function createEventBus(): EventBus {
@@ -33,5 +41,8 @@ export function createEventBus(): EventBus {
     on: (event, listener) => void emitter.on(event, listener as (...a: unknown[]) => void),
     off: (event, listener) => void emitter.off(event, listener as (...a: unknown[]) => void),
     emit: (event, ...args) => void emitter.emit(event, ...args),
+    settle: async (event, ...args) => {
+      for (const listener of emitter.listeners(event)) await (listener as (...a: unknown[]) => unknown)(...args)
+    },
   }
 }

@@ -7,7 +7,7 @@ import { badRequest } from '../platform/errors'
 import type { Site, Tank } from '../models'
 import { tankReport } from './report-data'
 import { sitesService } from '../sites/sites'
-import { tanksService } from '../tanks/tanks'
+import { visibleTank } from '../access/scope'
 
 export type ReportSubject = { kind: 'tank'; tank: Tank; site: Site } | { kind: 'site'; site: Site; tanks: Tank[] }
 
@@ -59,13 +59,12 @@ export async function loadSubject(ctx: AppContext, target: { tankId: number | nu
 }
 
 export function reportService(ctx: AppContext) {
-  const tanks = tanksService(ctx)
   const sites = sitesService(ctx)
 
   /** A tank or a site the actor may see (404 otherwise, as everywhere). */
   async function subjectFor(actor: Actor, kind: 'tank' | 'site', id: number): Promise<ReportSubject> {
     if (kind === 'tank') {
-      const tank = await tanks.find(actor, id)
+      const tank = await visibleTank(ctx, actor, id)
       const site = (await ctx.models.Site.findByPk(tank.siteId))!
       return { kind: 'tank', tank, site }
     }

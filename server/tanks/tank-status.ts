@@ -1,6 +1,6 @@
 import { isDeviceQuiet } from '@shared/schemas/devices'
 import type { Targets, TankStage } from '@shared/schemas/tanks'
-import type { TankStatus } from '@shared/schemas/wall'
+import type { TankStatus } from '@shared/schemas/tank-status'
 import { tankState } from '@shared/tank-state'
 import type { AppContext } from '../context'
 import { incidentsOf } from '../incidents/incidents'

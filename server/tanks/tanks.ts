@@ -1,4 +1,4 @@
-import { Op, QueryTypes, type Order, type WhereOptions } from 'sequelize'
+import { Op, type Order, type WhereOptions } from 'sequelize'
 import { grossVolumeLitres } from '@shared/chemistry/volume'
 import { defaultTargetsFor } from '@shared/schemas/tank-defaults'
 import { tankInputSchema, type TankInput, type TankListQuery, type TankUpdate } from '@shared/schemas/tanks'
@@ -6,10 +6,8 @@ import type { Page } from '@shared/schemas/common'
 import type { TankListItem } from '@shared/schemas/tanks'
 import type { Actor } from '../access/actor'
 import type { AppContext } from '../context'
-import { badRequest, fromZod, notFound } from '../platform/errors'
-import { canSeeSite, siteScope } from '../access/scope'
-import { createDefaultCareTasks } from '../care/care-tasks'
-import { rulesService } from '../incidents/watch-rules'
+import { badRequest, fromZod } from '../platform/errors'
+import { canSeeSite, siteScope, visibleTank } from '../access/scope'
 import { publicTank } from '../access/serializers'
 import { tankStatuses } from './tank-status'
 
@@ -54,22 +52,11 @@ function volumeOf(input: Pick<TankInput, 'dimensions' | 'volumeLitres'>) {
   return { volumeLitres: input.volumeLitres as number, volumeSource: 'entered' as const }
 }
 
-/** When the tank's stage last changed (its creation time for a tank whose stage never changed). */
-export async function stageChangedAt(ctx: AppContext, tankId: number): Promise<Date> {
-  const [row] = await ctx.sequelize.query<{ at: Date }>('SELECT stage_changed_at AS at FROM tanks WHERE id = $1', { bind: [tankId], type: QueryTypes.SELECT })
-  if (!row) throw notFound('Tank not found')
-  return new Date(row.at)
-}
-
 export function tanksService(ctx: AppContext) {
   const { models } = ctx
   const include = [{ association: 'site', attributes: ['id', 'name', 'timeZone'] }]
 
-  async function find(actor: Actor, id: number) {
-    const tank = await models.Tank.findOne({ where: { id, ...siteScope(actor, 'siteId') }, include })
-    if (!tank) throw notFound('Tank not found')
-    return tank
-  }
+  const find = (actor: Actor, id: number) => visibleTank(ctx, actor, id)
 
   async function assertSiteUsable(actor: Actor, siteId: number) {
     const site = await models.Site.findByPk(siteId)
@@ -119,8 +106,7 @@ export function tanksService(ctx: AppContext) {
         targets: input.targets ?? defaultTargetsFor(input.kind),
         organizationId: actor.organizationId,
       })
-      await rulesService(ctx).createDefaults(tank)
-      await createDefaultCareTasks(ctx, tank)
+      await ctx.events.settle('tank.created', tank)
       return publicTank(await find(actor, tank.id))
     },
 

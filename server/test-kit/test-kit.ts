@@ -6,14 +6,13 @@ import { badRequest, forbidden, notFound } from '../platform/errors'
 import { insertReadings, type ReadingRow } from '../readings/batch-writer'
 import { checkReading } from '../readings/validate-readings'
 import type { TestKitEntry } from '../models'
-import { tanksService } from '../tanks/tanks'
+import { visibleTank } from '../access/scope'
 
 const sourceKey = (entryId: number) => `k:${entryId}`
 
 /** Keepers' test-kit entries: readings with source `test_kit`, written with the entry in one transaction. */
 export function testKitService(ctx: AppContext) {
   const { models, sequelize, events, config } = ctx
-  const tanks = tanksService(ctx)
   const include = [
     { association: 'author', attributes: ['id', 'name'] },
     { association: 'revisions', attributes: ['id'] },
@@ -48,7 +47,7 @@ export function testKitService(ctx: AppContext) {
   async function findOwn(actor: UserActor, id: number) {
     const entry = await models.TestKitEntry.findOne({ where: { id, organizationId: actor.organizationId, deletedAt: null }, include })
     if (!entry) throw notFound('Test-kit entry not found')
-    await tanks.find(actor, entry.tankId)
+    await visibleTank(ctx, actor, entry.tankId)
     if (entry.enteredBy !== actor.userId) throw forbidden('Only the keeper who made an entry may change it')
     if (Date.now() > entry.createdAt.getTime() + TEST_KIT_EDIT_WINDOW_HOURS * 3600_000) {
       throw forbidden(`Entries can be changed for ${TEST_KIT_EDIT_WINDOW_HOURS} hours after they are made`)
@@ -60,7 +59,7 @@ export function testKitService(ctx: AppContext) {
 
   return {
     async list(actor: UserActor, tankId: number, range: { from?: Date; to?: Date } = {}) {
-      await tanks.find(actor, tankId)
+      await visibleTank(ctx, actor, tankId)
       const where: Record<string | symbol, unknown> = { tankId, deletedAt: null }
       if (range.from || range.to) {
         where.takenAt = { ...(range.from ? { [Op.gte]: range.from } : {}), ...(range.to ? { [Op.lt]: range.to } : {}) }
@@ -70,7 +69,7 @@ export function testKitService(ctx: AppContext) {
     },
 
     async create(actor: UserActor, tankId: number, input: TestKitEntryInput) {
-      const tank = await tanks.find(actor, tankId)
+      const tank = await visibleTank(ctx, actor, tankId)
       const takenAt = input.takenAt ? new Date(input.takenAt) : new Date()
       toRows(0, tank.id, input, takenAt) // validate before anything is written
       const { entry, stored } = await sequelize.transaction(async (transaction) => {
@@ -114,7 +113,7 @@ export function testKitService(ctx: AppContext) {
     async history(actor: UserActor, id: number) {
       const entry = await models.TestKitEntry.findOne({ where: { id, organizationId: actor.organizationId } })
       if (!entry) throw notFound('Test-kit entry not found')
-      await tanks.find(actor, entry.tankId)
+      await visibleTank(ctx, actor, entry.tankId)
       const revisions = await models.TestKitEntryRevision.findAll({ where: { entryId: id }, order: [['createdAt', 'ASC']] })
       return {
         current: entry.deletedAt ? null : snapshot(entry),

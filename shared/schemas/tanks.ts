@@ -1,7 +1,7 @@
 import { z } from 'zod'
 import { METRIC_KEYS } from '../metrics/registry'
 import { clockTimeSchema, pageQuerySchema } from './common'
-import type { TankStatus } from './wall'
+import type { TankStatus } from './tank-status'
 
 export const TANK_KINDS = ['tropical_freshwater', 'planted', 'coldwater', 'brackish', 'marine'] as const
 export type TankKind = (typeof TANK_KINDS)[number]

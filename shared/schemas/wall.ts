@@ -1,24 +1,8 @@
 import { z } from 'zod'
 import type { LatestResponse } from './series'
 import type { Targets, TankKind, TankStage } from './tanks'
+import type { TankState } from './tank-status'
 
-export const TANK_STATES = ['alarm', 'watch', 'quiet', 'steady'] as const
-export type TankState = (typeof TANK_STATES)[number]
-
-/** What the wall and the tanks list say about a tank now. */
-export interface TankStatus {
-  state: TankState
-  stateReasons: string[]
-  latest: LatestResponse
-  /** Unresolved incidents, newest first. */
-  openIncidents: Array<{
-    id: number; title: string; severity: 'warning' | 'alarm'; openedAt: string
-    state: 'open' | 'acknowledged'; maintenance: boolean; siteIncidentId: number | null; flapCount: number
-  }>
-  /** Names of the tank's devices that have stopped reporting (none for an empty or archived tank). */
-  quietDevices: string[]
-  hasDevices: boolean
-}
 
 export interface WallTank {
   id: number

@@ -1,7 +1,7 @@
 import { computed } from 'vue'
 import type { LatestValue } from '@shared/schemas/series'
 import type { TankListItem } from '@shared/schemas/tanks'
-import type { TankState, TankStatus } from '@shared/schemas/wall'
+import type { TankState, TankStatus } from '@shared/schemas/tank-status'
 import { tankState } from '@shared/tank-state'
 import { mergeLatest } from '@/stores/live'
 import { useIncidentRefresh } from './useIncidentRefresh'

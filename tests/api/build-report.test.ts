@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { UserActor } from '../../server/access/actor'
-import { renderBuildReportPdf } from '../../server/reports/build-pdf'
+import { renderBuildReportPdf } from '../../server/builds/report-pdf'
 import { buildReportService } from '../../server/builds/build-report'
 import { buildsService } from '../../server/builds/builds'
 import { buildPlanSchema } from '@shared/schemas/build'

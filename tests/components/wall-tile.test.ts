@@ -1,5 +1,5 @@
 import { afterEach, describe, expect, it } from 'vitest'
-import type { TankState } from '@shared/schemas/wall'
+import type { TankState } from '@shared/schemas/tank-status'
 import WallTile from '@/components/wall/WallTile.vue'
 import { reloadUnitPreference, TEMPERATURE_UNIT_KEY } from '@/composables/useUnits'
 import { useLiveStore } from '@/stores/live'

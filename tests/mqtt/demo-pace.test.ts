@@ -54,10 +54,10 @@ beforeAll(async () => {
   const address = http.address()
   const baseUrl = `http://127.0.0.1:${typeof address === 'object' && address ? address.port : 0}`
   broker = await startEmbeddedBroker(ctx, { host: '127.0.0.1', port: 0 })
-  ctx.alerts.notifier = createMailNotifier(ctx)
+  ctx.incidents.notifier = createMailNotifier(ctx)
   clock = Date.now()
   startedAt = clock
-  engine = createRuleEngine(ctx, incidentsService(ctx, ctx.alerts.notifier, config.alertTiming), { now: () => clock })
+  engine = createRuleEngine(ctx, incidentsService(ctx, ctx.incidents.notifier, config.incidentTiming), { now: () => clock })
   await engine.start()
   const tanks = await provisionDevices(createApiClient(baseUrl), { email: DEMO_USERS[0].email, password: DEMO_PASSWORD, intervalSeconds: INTERVAL_MS / 1000 })
   nodes = await buildNodes(

@@ -41,7 +41,7 @@ export async function seedIncidents(
       const trips = replayTrips(rule.spec, { times: history.times, values }, { fromMs: input.fromMs, toMs: input.toMs, tickMs: TICK_MS }, ruleCtx)
       for (const trip of trips) {
         const notes = notesFor(input.notes, tank.name, trip, input.episodes.get(tank.name) ?? [])
-        await writeIncident(ctx, { tank, rule: { id: rule.id, name: rule.name, severity: rule.severity, kind: rule.spec.kind, metric }, trip, notes, owners: owners.map((o) => o.email), users, timing: config.alertTiming })
+        await writeIncident(ctx, { tank, rule: { id: rule.id, name: rule.name, severity: rule.severity, kind: rule.spec.kind, metric }, trip, notes, owners: owners.map((o) => o.email), users, timing: config.incidentTiming })
         count++
       }
     }

@@ -2,12 +2,6 @@ import { Umzug, SequelizeStorage } from 'umzug'
 import type { QueryInterface, Sequelize } from 'sequelize'
 import { migrations } from './migrations'
 
-export type Migration = {
-  name: string
-  up: (qi: QueryInterface) => Promise<void>
-  down: (qi: QueryInterface) => Promise<void>
-}
-
 /** Applies pending migrations under an advisory lock so two instances starting together do not race. */
 export async function migrate(sequelize: Sequelize): Promise<string[]> {
   const umzug = new Umzug<QueryInterface>({

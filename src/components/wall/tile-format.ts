@@ -1,4 +1,4 @@
-import type { TankState } from '@shared/schemas/wall'
+import type { TankState } from '@shared/schemas/tank-status'
 
 export interface StateLook {
   word: string

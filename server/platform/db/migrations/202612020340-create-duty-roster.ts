@@ -1,4 +1,4 @@
-import type { Migration } from '../migrate'
+import type { Migration } from './migration'
 
 const up = `
 -- The weekly pattern: one row per person per weekday (0 = Monday … 6 = Sunday), local wall-clock

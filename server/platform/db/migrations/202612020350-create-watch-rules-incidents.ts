@@ -1,4 +1,4 @@
-import type { Migration } from '../migrate'
+import type { Migration } from './migration'
 
 const up = `
 -- A rule belongs to one tank, or to a whole site (tank_id NULL) where it applies to every tank

@@ -1,4 +1,4 @@
-import type { Migration } from '../migrate'
+import type { Migration } from './migration'
 
 const up = `
 -- Recurring care work on one tank. recurrence: {"kind":"interval","everyDays":7} or

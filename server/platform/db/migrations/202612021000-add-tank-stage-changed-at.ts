@@ -1,4 +1,4 @@
-import type { Migration } from '../migrate'
+import type { Migration } from './migration'
 
 // When a tank last changed stage: the quarantine clock reads it. Existing tanks take their
 // creation time, the best we know; the tanks service moves it whenever the stage changes.

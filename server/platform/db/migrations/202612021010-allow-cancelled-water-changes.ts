@@ -1,4 +1,4 @@
-import type { Migration } from '../migrate'
+import type { Migration } from './migration'
 
 // A started water change may be called off: it is then neither in progress nor finished, and
 // keeps who cancelled it and when. The one-open-per-tank index only covers in_progress rows.

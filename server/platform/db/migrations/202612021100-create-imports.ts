@@ -1,4 +1,4 @@
-import type { Migration } from '../migrate'
+import type { Migration } from './migration'
 
 const up = `
 -- A named upload source ("Logger in fish room") and the column mapping last confirmed for it.

@@ -1,4 +1,4 @@
-import type { Migration } from '../migrate'
+import type { Migration } from './migration'
 
 // The image bytes live in the photo store; a row names its two generated keys.
 const up = `

@@ -1,4 +1,4 @@
-import type { Migration } from '../migrate'
+import type { Migration } from './migration'
 
 const up = `
 -- A periodic client report: one tank or one site, weekly or monthly, to addresses and/or users.

@@ -1,4 +1,4 @@
-import type { Migration } from '../migrate'
+import type { Migration } from './migration'
 
 const up = `
 -- A tank's build: the plan (equipment, substrate, hardscape, water, stocking) and, once filled,

@@ -1,4 +1,4 @@
-import type { Migration } from '../migrate'
+import type { Migration } from './migration'
 import createFoundation from './202612020200-create-foundation'
 import createReadings from './202612020230-create-readings'
 import createTestKitEntries from './202612020300-create-test-kit-entries'

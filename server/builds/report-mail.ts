@@ -1,8 +1,8 @@
 import { escapeHtml, factsTable, layout, oneLine } from '../mail/templates/html'
 import { READINGS_ARE_AIDS } from '../mail/templates/safety'
 import type { RenderedMail } from '../mail/types'
-import type { BuildReport } from '../builds/build-report'
-import { buildReportLines } from './build-pdf'
+import type { BuildReport } from './report-data'
+import { buildReportLines } from './report-pdf'
 
 const ACCENT = '#0b6e99'
 
