@@ -8,6 +8,14 @@ module.exports = {
       from: {},
       to: { circular: true },
     },
+    {
+      name: 'feature-through-entry',
+      severity: 'error',
+      comment:
+        "A server feature reaches another only through that feature's index.ts, so a folder's inside can change without breaking its neighbours. platform/ and access/ are what every feature uses; model files may name each other's classes for associations.",
+      from: { path: '^server/([^/]+)/', pathNot: '(-model|/models)\\.ts$' },
+      to: { path: '^server/[^/]+/.+', pathNot: ['^server/$1/', '^server/(platform|access)/', '^server/[^/]+/index\\.ts$'] },
+    },
   ],
   options: {
     doNotFollow: { path: 'node_modules' },

@@ -1,5 +1,4 @@
 import type { Role } from '@shared/schemas/auth'
-import type { DeviceActor } from '../devices/device-tokens'
 
 /** A signed-in person. */
 export type UserActor = {
@@ -20,6 +19,9 @@ export type WallActor = {
   siteIds: number[]
   role: 'wall'
 }
+
+/** A sensor posting readings with its own token. */
+export type DeviceActor = { kind: 'device'; deviceId: number; organizationId: number; tankId: number }
 
 export type Actor = UserActor | WallActor
 

@@ -2,7 +2,7 @@ import type { RequestHandler } from 'express'
 import type { Passport } from 'passport'
 import { forbidden, unauthenticated } from '../platform/errors'
 import type { Actor, UserActor } from './actor'
-import type { DeviceActor } from '../devices/device-tokens'
+import type { DeviceActor } from './actor'
 import { roleAllows, type Permission } from './permissions'
 
 /** Requires a valid user token; answers 401 in the API's error shape otherwise. */

@@ -4,8 +4,8 @@ import { Strategy as BearerStrategy, type VerifyFunction } from 'passport-http-b
 import type { Models } from '../models'
 import type { UserActor } from './actor'
 import { verifyAccessToken } from './tokens'
-import { deviceFromToken } from '../devices/device-tokens'
-import { wallFromToken } from '../sites/wall-tokens'
+import { deviceFromToken } from '../devices'
+import { wallFromToken } from '../sites'
 
 /**
  * Bearer tokens from the Authorization header only. passport-http-bearer also reads `access_token`

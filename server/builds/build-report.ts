@@ -1,12 +1,13 @@
 // The build report sent or downloaded: its data rendered as a PDF, and as a mail with that PDF.
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
-import { enqueueMail } from '../mail/outbox'
+import { enqueueMail } from '../mail'
 import { buildReportMail, buildReportFileName } from './report-mail'
 import { renderBuildReportPdf } from './report-pdf'
 import { loadBuildReport } from './report-data'
+import { perContext } from '../platform/per-context'
 
-export function buildReportService(ctx: AppContext) {
+export const buildReportService = perContext((ctx: AppContext) => {
   return {
     load: (actor: UserActor, tankId: number, now = new Date()) => loadBuildReport(ctx, actor, tankId, now),
 
@@ -32,4 +33,4 @@ export function buildReportService(ctx: AppContext) {
       return { queued }
     },
   }
-}
+})

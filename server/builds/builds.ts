@@ -9,10 +9,11 @@ import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { badRequest, conflict, notFound } from '../platform/errors'
 import type { BuildStep, Tank, TankBuild } from '../models'
-import { groupTests, livestockService } from '../care/livestock'
-import { instantNotAhead, writeCareLog } from '../care/care-log'
-import { nitrogenReadings } from '../care/care-readings'
+import { groupTests, livestockService } from '../care'
+import { instantNotAhead, writeCareLog } from '../care'
+import { nitrogenReadings } from '../care'
 import { siteScope, visibleTank } from '../access/scope'
+import { perContext } from '../platform/per-context'
 
 const DAY_MS = 86_400_000
 /** A fill date further back is a record being typed up, not a build being run. */
@@ -98,7 +99,7 @@ export async function buildDaysFor(ctx: AppContext, tankIds: number[], timeZone:
   return result
 }
 
-export function buildsService(ctx: AppContext) {
+export const buildsService = perContext((ctx: AppContext) => {
   const { models, sequelize } = ctx
 
   async function findBuild(tank: Tank) {
@@ -292,4 +293,4 @@ export function buildsService(ctx: AppContext) {
       })
     },
   }
-}
+})

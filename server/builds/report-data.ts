@@ -5,7 +5,7 @@ import { formatLocalDate, localDateAt } from '@shared/roster/zoned-time'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { buildsService } from './builds'
-import { photosInPeriod } from '../photos/photos'
+import { photosInPeriod } from '../photos'
 import { visibleTank } from '../access/scope'
 
 const REPORT_METRICS = ['temperature', 'ph', 'ammonia', 'nitrite', 'nitrate'] as const

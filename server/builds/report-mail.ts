@@ -1,6 +1,6 @@
-import { escapeHtml, factsTable, layout, oneLine } from '../mail/templates/html'
-import { READINGS_ARE_AIDS } from '../mail/templates/safety'
-import type { RenderedMail } from '../mail/types'
+import { escapeHtml, factsTable, layout, oneLine } from '../mail'
+import { READINGS_ARE_AIDS } from '../mail'
+import type { RenderedMail } from '../mail'
 import type { BuildReport } from './report-data'
 import { buildReportLines } from './report-pdf'
 

@@ -2,9 +2,9 @@
 import { substrateMaterial } from '@shared/build/materials'
 import { buildDay } from '@shared/build/timeline'
 import { formatLocalDate, localDateAt } from '@shared/roster/zoned-time'
-import { READINGS_ARE_AIDS } from '../mail/templates/safety'
+import { READINGS_ARE_AIDS } from '../mail'
 import type { BuildReport } from './report-data'
-import { COLOURS, openDocument, section, write, type Doc } from '../reports/pdf'
+import { COLOURS, openDocument, section, write, type Doc } from '../reports'
 
 const n = (value: number, digits = 1) => value.toFixed(digits)
 const METRIC_WORDS: Record<string, string> = { temperature: '°C', ph: 'pH', ammonia: 'ammonia', nitrite: 'nitrite', nitrate: 'nitrate' }

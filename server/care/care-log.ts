@@ -6,6 +6,7 @@ import type { AppContext } from '../context'
 import { badRequest } from '../platform/errors'
 import type { CareLogEntry } from '../models'
 import { visibleTank } from '../access/scope'
+import { perContext } from '../platform/per-context'
 
 export interface PublicCareLogEntry {
   id: number
@@ -65,7 +66,7 @@ export function instantNotAhead(text: string | undefined, field: string, now = n
 }
 
 /** The care log of a tank: what was done and when, for the tank page and its chart markers. */
-export function careLogService(ctx: AppContext) {
+export const careLogService = perContext((ctx: AppContext) => {
   return {
     async list(actor: UserActor, tankId: number, range: { from?: string; to?: string }) {
       const tank = await visibleTank(ctx, actor, tankId)
@@ -94,4 +95,4 @@ export function careLogService(ctx: AppContext) {
       return (await presentCareLog(ctx, [entry]))[0] as PublicCareLogEntry
     },
   }
-}
+})

@@ -8,10 +8,11 @@ import type { AppContext } from '../context'
 import { badRequest, notFound } from '../platform/errors'
 import type { CareTask, Tank } from '../models'
 import { instantNotAhead, presentCareLog, writeCareLog } from './care-log'
-import { whoIsOnDuty } from '../roster/roster'
+import { whoIsOnDuty } from '../roster'
 import { siteScope, visibleTank } from '../access/scope'
-import { sitesService } from '../sites/sites'
+import { sitesService } from '../sites'
 import type { CreatedTank } from '../platform/events'
+import { perContext } from '../platform/per-context'
 
 /** A snooze longer than this is a task that should be changed or switched off instead. */
 const MAX_SNOOZE_DAYS = 60
@@ -103,7 +104,7 @@ export async function dueItems(ctx: AppContext, where: { siteIds?: number[]; tan
   })
 }
 
-export function careTasksService(ctx: AppContext) {
+export const careTasksService = perContext((ctx: AppContext) => {
   const { models, sequelize } = ctx
 
   async function findTask(actor: UserActor, id: number) {
@@ -260,4 +261,4 @@ export function careTasksService(ctx: AppContext) {
       return bySite.get(siteId) ?? { overdue: 0, dueToday: 0 }
     },
   }
-}
+})

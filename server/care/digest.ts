@@ -2,10 +2,10 @@ import { QueryTypes } from 'sequelize'
 import { byUrgency } from '@shared/care/due'
 import { formatLocalDate, localDateAt, offsetAt } from '@shared/roster/zoned-time'
 import type { AppContext } from '../context'
-import { careDigest, type DigestTank, type DigestTask } from '../mail/care-digest'
-import { enqueueMail } from '../mail/outbox'
+import { careDigest, type DigestTank, type DigestTask } from '../mail'
+import { enqueueMail } from '../mail'
 import { dueItems } from './care-tasks'
-import { dutyRecipients } from '../roster/roster'
+import { dutyRecipients } from '../roster'
 import { tanksToWatch } from './tanks-to-watch'
 
 /** The digest goes out from the configured hour until this many hours later (a late start still sends it). */

@@ -12,6 +12,7 @@ import { instantNotAhead, writeCareLog } from './care-log'
 import { nitrogenReadings, tankPh, tankTemperature } from './care-readings'
 import { stageChangedAt } from './quarantine'
 import { visibleTank } from '../access/scope'
+import { perContext } from '../platform/per-context'
 
 const DAY_MS = 86_400_000
 /** Cycling a new tank takes weeks; a longer look back only adds old, settled tests. */
@@ -59,7 +60,7 @@ export function groupTests(rows: Awaited<ReturnType<typeof nitrogenReadings>>): 
   return [...tests.values()]
 }
 
-export function livestockService(ctx: AppContext) {
+export const livestockService = perContext((ctx: AppContext) => {
   const { models, sequelize } = ctx
 
   async function quarantineOf(tank: Tank, now: Date) {
@@ -153,4 +154,4 @@ export function livestockService(ctx: AppContext) {
       }
     },
   }
-}
+})

@@ -9,6 +9,7 @@ import { presentCareLog, writeCareLog } from './care-log'
 import { latestReading, tankTemperature } from './care-readings'
 import { markTasksOfKindDone } from './care-tasks'
 import { visibleTank } from '../access/scope'
+import { perContext } from '../platform/per-context'
 
 /** common practice: a change above a quarter of the water is done with the heater off. */
 export const HEATER_CONFIRM_PERCENT = 25
@@ -68,7 +69,7 @@ function present(change: WaterChange) {
 /** Said on the tank page and in the log when a change is called off with the heater possibly still off. */
 export const CANCEL_CAUTION = 'Top the tank back up to its usual level before switching the heater on again'
 
-export function waterChangesService(ctx: AppContext) {
+export const waterChangesService = perContext((ctx: AppContext) => {
   const { models, sequelize, events } = ctx
 
   async function planFor(tank: Tank, input: WaterChangePlanInput) {
@@ -222,4 +223,4 @@ export function waterChangesService(ctx: AppContext) {
       }
     },
   }
-}
+})

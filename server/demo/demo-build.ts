@@ -4,9 +4,9 @@ import { buildPlanSchema } from '@shared/schemas/build'
 import { formatLocalDate, localDateAt } from '@shared/roster/zoned-time'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
-import { buildsService } from '../builds/builds'
-import { tanksService } from '../tanks/tanks'
-import { testKitService } from '../test-kit/test-kit'
+import { buildsService } from '../builds'
+import { tanksService } from '../tanks'
+import { testKitService } from '../test-kit'
 
 export const DEMO_BUILD_TANK = 'Studio build 60'
 const DAY_MS = 86_400_000

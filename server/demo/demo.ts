@@ -1,6 +1,6 @@
 import bcrypt from 'bcryptjs'
 import type { AppContext } from '../context'
-import { tanksService } from '../tanks/tanks'
+import { tanksService } from '../tanks'
 import { seedDemoBuild } from './demo-build'
 import { seedDemoHistory } from './demo-history'
 import { DEMO_ORGANIZATION, DEMO_PASSWORD, DEMO_ROSTER, DEMO_SITES, DEMO_TANKS, DEMO_USERS } from './demo-scenario'

@@ -2,8 +2,7 @@ import { randomBytes, timingSafeEqual } from 'node:crypto'
 import { parseDeviceToken } from '@shared/ingest/contract'
 import type { Models } from '../models'
 import { hashSecret } from '../access/tokens'
-
-export type DeviceActor = { kind: 'device'; deviceId: number; organizationId: number; tankId: number }
+import type { DeviceActor } from '../access/actor'
 
 /** `twd_<id>_<secret>`: the id finds the row, the secret (32 random bytes) is stored only as a hash. */
 export function newDeviceToken(deviceId: number) {

@@ -8,8 +8,9 @@ import { notFound } from '../platform/errors'
 import type { Device } from '../models'
 import { newDeviceToken } from './device-tokens'
 import { visibleTank } from '../access/scope'
+import { perContext } from '../platform/per-context'
 
-export function devicesService(ctx: AppContext) {
+export const devicesService = perContext((ctx: AppContext) => {
   const { models, sequelize } = ctx
   const include = [{ association: 'tank', attributes: ['id', 'name', 'siteId'] }]
 
@@ -107,4 +108,4 @@ export function devicesService(ctx: AppContext) {
       return (await present([device]))[0]
     },
   }
-}
+})

@@ -7,6 +7,7 @@ import { BACKUP_FORMAT, BACKUP_FORMAT_VERSION } from '@shared/schemas/exports'
 import { BACKUP_TABLES, READING_COLUMNS, type BackupTable } from './backup-tables'
 import { eachBatch, snapshot } from './cursor'
 import { exportFileName } from './format'
+import { perContext } from '../platform/per-context'
 
 /** Told to whoever opens the file, and to whoever restores it. */
 export const RESTORE_NOTES = [
@@ -24,7 +25,7 @@ async function put(out: Writable, text: string): Promise<boolean> {
   return !out.destroyed
 }
 
-export function backupExportService(ctx: AppContext) {
+export const backupExportService = perContext((ctx: AppContext) => {
   const { sequelize } = ctx
 
   async function tableRows(spec: BackupTable, organizationId: number, transaction: Parameters<typeof eachBatch>[1]) {
@@ -88,4 +89,4 @@ export function backupExportService(ctx: AppContext) {
       }
     },
   }
-}
+})

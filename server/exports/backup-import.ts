@@ -7,6 +7,7 @@ import type { AppContext } from '../context'
 import { AppError, badRequest, conflict, fromZod } from '../platform/errors'
 import { BACKUP_FORMAT, BACKUP_FORMAT_VERSION } from '@shared/schemas/exports'
 import { BACKUP_TABLES, readingTupleSchema, referenceOf, rowSchema, type BackupTable } from './backup-tables'
+import { perContext } from '../platform/per-context'
 
 const READING_CHUNK = 5000
 type Row = Record<string, unknown>
@@ -74,7 +75,7 @@ function checkReferences(backup: Backup) {
 
 const quote = (name: string) => `"${name}"`
 
-export function backupImportService(ctx: AppContext) {
+export const backupImportService = perContext((ctx: AppContext) => {
   const { sequelize } = ctx
 
   /** New ids for a table, ascending in the same order as the old ones, so the restored order matches. */
@@ -240,4 +241,4 @@ export function backupImportService(ctx: AppContext) {
       )
     }
   }
-}
+})

@@ -6,6 +6,7 @@ import type { ExportKind, ExportRangeQuery } from '@shared/schemas/exports'
 import { canSeeSite } from '../access/scope'
 import { eachBatch, snapshot } from './cursor'
 import { exportFileName, zonedFormatter } from './format'
+import { perContext } from '../platform/per-context'
 
 export type ExportScope = { kind: 'tank' | 'site'; id: number }
 export type CsvCell = string | number | null
@@ -79,7 +80,7 @@ const EXPORTS: Record<ExportKind, { header: string[]; sql: (where: string) => st
   },
 }
 
-export function exportCsvService(ctx: AppContext) {
+export const exportCsvService = perContext((ctx: AppContext) => {
   const { models, sequelize } = ctx
 
   /** The tank or site an actor asks for; another organization's or another site's answers 404. */
@@ -126,4 +127,4 @@ export function exportCsvService(ctx: AppContext) {
       begin()
     },
   }
-}
+})

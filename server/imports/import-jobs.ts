@@ -9,13 +9,14 @@ import { importRunnerFor } from './runner'
 import { assertCsvText, buildPreview, NotCsvError, readHead, SNIFF_BYTES, UnreadableHeaderError } from './sniff'
 import type { ImportJob } from '../models'
 import { canSeeSite, visibleTank } from '../access/scope'
+import { perContext } from '../platform/per-context'
 
 /** Units that need the tank's context (full-scale lux, water temperature) cannot come from a file column. */
 const CONTEXT_UNITS = new Set(['light:pct', 'oxygen:pct_sat'])
 
 export type UploadedFile = { key: string; originalName: string; size: number }
 
-export function importJobsService(ctx: AppContext) {
+export const importJobsService = perContext((ctx: AppContext) => {
   const { models } = ctx
   const files = importFiles(ctx.config.dataDir)
 
@@ -171,7 +172,7 @@ export function importJobsService(ctx: AppContext) {
       return rows.map((s) => ({ id: s.id, name: s.name, mapping: s.mapping, updatedAt: s.updatedAt.toISOString() }))
     },
   }
-}
+})
 
 /** A fixed tank of a site import belongs to that upload, not to the source. */
 function rememberable(mapping: ImportMapping): ImportMapping {

@@ -1,5 +1,5 @@
 import type { ImportMapping, RejectionReason } from '@shared/schemas/imports'
-import type { FileReading } from '../readings/ingest'
+import type { FileReading } from '../readings'
 import { createTimeReader } from './time-formats'
 
 /** Imported readings of one tank share a source key, so a value already imported at that time is a duplicate whatever file brings it. */

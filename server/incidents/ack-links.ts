@@ -3,11 +3,12 @@ import { hashSecret, newSecretToken } from '../access/tokens'
 import type { AppContext } from '../context'
 import { AppError, notFound } from '../platform/errors'
 import { incidentsOf } from './incidents'
+import { perContext } from '../platform/per-context'
 
 export const ACK_LINK_HOURS = 48
 
 /** One-click acknowledge links for alert mails: signed by randomness, single use, expiring. */
-export function ackLinksService(ctx: AppContext) {
+export const ackLinksService = perContext((ctx: AppContext) => {
   const { models, sequelize } = ctx
 
   async function find(token: string) {
@@ -82,4 +83,4 @@ export function ackLinksService(ctx: AppContext) {
       return { ...outcome, incident: await presentIncident(link.incidentId) }
     },
   }
-}
+})

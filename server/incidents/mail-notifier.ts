@@ -1,17 +1,14 @@
 import { Op, QueryTypes, type Transaction } from 'sequelize'
 import { METRICS, isMetricKey } from '@shared/metrics/registry'
 import type { AppContext } from '../context'
-import { enqueueMail } from '../mail/outbox'
+import { enqueueMail } from '../mail'
 import { describeMeasurement } from '@shared/rules/measurement'
-import {
-  ELECTRICAL_SAFETY_CAUTION, TREND_CID, deviceBack, incidentEscalated, incidentOpened, incidentRaised, incidentReopened, incidentReopenedToResolver,
-  incidentRepeat, incidentResolved, type IncidentMailInput,
-} from '../mail/templates'
-import { SITE_FIRST_STEPS, siteIncidentMail } from '../mail/templates/site-incident'
-import { renderTrendPng } from '../mail/trend-chart'
+import { ELECTRICAL_SAFETY_CAUTION, TREND_CID, deviceBack, incidentEscalated, incidentOpened, incidentRaised, incidentReopened, incidentReopenedToResolver, incidentRepeat, incidentResolved, type IncidentMailInput } from '../mail'
+import { SITE_FIRST_STEPS, siteIncidentMail } from '../mail'
+import { renderTrendPng } from '../mail'
 import type { Incident, SiteIncident } from '../models'
 import { ackLinksService } from './ack-links'
-import { dutyRecipients } from '../roster/roster'
+import { dutyRecipients } from '../roster'
 import type { IncidentNotifier, NotifyKind, NotifyOptions } from './notifier'
 import { firstStep, needsElectricalCaution, whatToCheck } from './what-to-check'
 

@@ -6,7 +6,8 @@ import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { badRequest, notFound } from '../platform/errors'
 import type { MaintenanceWindow } from '../models'
-import { sitesService } from '../sites/sites'
+import { sitesService } from '../sites'
+import { perContext } from '../platform/per-context'
 
 const clockOf = (minute: number) => `${String(Math.floor(minute / 60)).padStart(2, '0')}:${String(minute % 60).padStart(2, '0')}`
 
@@ -21,7 +22,7 @@ function present(w: MaintenanceWindow, timeZone: string, from: number, to: numbe
 }
 
 /** Maintenance windows of a site: planned quiet, evaluated and recorded, nobody told. */
-export function maintenanceService(ctx: AppContext) {
+export const maintenanceService = perContext((ctx: AppContext) => {
   const { models, events } = ctx
   // The engine reloads its windows with its rules.
   const changed = () => events.emit('rules.changed', { tankIds: 'all' })
@@ -64,4 +65,4 @@ export function maintenanceService(ctx: AppContext) {
       return present(row, site.timeZone, Date.now(), Date.now() + 7 * 86400_000)
     },
   }
-}
+})

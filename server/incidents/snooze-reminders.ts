@@ -1,8 +1,8 @@
 import { Op } from 'sequelize'
 import type { AppContext } from '../context'
-import { enqueueMail } from '../mail/outbox'
-import { escapeHtml, layout } from '../mail/templates/html'
-import { formatInZone } from '../mail/templates/time'
+import { enqueueMail } from '../mail'
+import { escapeHtml, layout } from '../mail'
+import { formatInZone } from '../mail'
 
 export const REMIND_BEFORE_MS = 15 * 60_000
 const WEEK_MS = 7 * 86400_000

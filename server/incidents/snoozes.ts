@@ -5,6 +5,7 @@ import type { AppContext } from '../context'
 import { notFound } from '../platform/errors'
 import type { Snooze } from '../models'
 import { visibleTank } from '../access/scope'
+import { perContext } from '../platform/per-context'
 
 function present(s: Snooze): PublicSnooze {
   const suppresses = ['Alert e-mails for this tank’s warnings and alarms (incidents are still recorded and shown on the wall)']
@@ -21,7 +22,7 @@ function present(s: Snooze): PublicSnooze {
 }
 
 /** Snoozes of one tank's rules: always with an end, and the heater line only when asked for by name. */
-export function snoozesService(ctx: AppContext) {
+export const snoozesService = perContext((ctx: AppContext) => {
   const { models, events } = ctx
   const changed = (tankId: number) => events.emit('rules.changed', { tankIds: [tankId] })
   return {
@@ -55,4 +56,4 @@ export function snoozesService(ctx: AppContext) {
       return present(snooze)
     },
   }
-}
+})

@@ -5,9 +5,10 @@ import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { badRequest, notFound } from '../platform/errors'
 import type { WatchRule } from '../models'
-import { sitesService } from '../sites/sites'
+import { sitesService } from '../sites'
 import { visibleTank } from '../access/scope'
 import type { CreatedTank } from '../platform/events'
+import { perContext } from '../platform/per-context'
 
 export type EffectiveRule = { rule: WatchRule; tankId: number }
 
@@ -27,7 +28,7 @@ function present(rule: WatchRule, extra: Partial<PublicRule> = {}): PublicRule {
 }
 
 /** Watch rules: per tank, or site-wide unless a tank overrides them. */
-export function rulesService(ctx: AppContext) {
+export const rulesService = perContext((ctx: AppContext) => {
   const { models, events } = ctx
   const changed = (tankIds: number[] | 'all') => events.emit('rules.changed', { tankIds })
 
@@ -149,4 +150,4 @@ export function rulesService(ctx: AppContext) {
       changed(rule.tankId ? [rule.tankId] : 'all')
     },
   }
-}
+})

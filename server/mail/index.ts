@@ -10,6 +10,7 @@ export { startFakeSmtp, type FakeSmtp } from './fake-smtp'
 export { renderTrendPng, renderTrendSvg, type TrendChartInput } from './trend-chart'
 export * from './templates'
 export * from './types'
+export { careDigest, type DigestTank, type DigestTask } from './care-digest'
 
 export type RunningMail = {
   /** The local fake server, when no SMTP_URL is configured (then the dev mailbox may be mounted). */

@@ -3,9 +3,10 @@ import { Aedes, type Client } from 'aedes'
 import {
   MAX_PAYLOAD_BYTES, commandsTopic, messageOutcome, messageRefused, outcomesTopic, parseDeviceTopic, readingsTopic, type MessageOutcome,
 } from '@shared/ingest/contract'
-import { deviceFromToken, type DeviceActor } from '../devices/device-tokens'
+import { deviceFromToken } from '../devices'
+import type { DeviceActor } from '../access/actor'
 import type { AppContext } from '../context'
-import { MalformedMessageError } from '../readings/ingest'
+import { MalformedMessageError } from '../readings'
 import { GuardedSocket, type PacketLimits, type PacketRefusal } from './packet-guard'
 
 // AuthErrorCode is a const enum, which isolatedModules cannot import: 4 = bad user name or password.

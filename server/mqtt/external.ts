@@ -1,8 +1,8 @@
 import mqtt, { type MqttClient } from 'mqtt'
 import { TOPIC_PREFIX, parseDeviceTopic } from '@shared/ingest/contract'
-import type { DeviceActor } from '../devices/device-tokens'
+import type { DeviceActor } from '../access/actor'
 import type { AppContext } from '../context'
-import { MalformedMessageError } from '../readings/ingest'
+import { MalformedMessageError } from '../readings'
 
 /** Instances of one deployment share the subscription, so each message is taken by one of them. */
 export const SHARED_GROUP = 'tankwarden'

@@ -7,11 +7,12 @@ import type { AppContext } from '../context'
 import { AppError, badRequest, notFound } from '../platform/errors'
 import type { User } from '../models'
 import { publicUser } from '../access/serializers'
+import { perContext } from '../platform/per-context'
 
 // Compared against when the e-mail is unknown, so both failures take the same time.
 const DUMMY_HASH = bcrypt.hashSync('not-a-real-password', 10)
 
-export function authService(ctx: AppContext) {
+export const authService = perContext((ctx: AppContext) => {
   const { models, config } = ctx
 
   async function loadUser(where: { id: number } | { email: string }) {
@@ -76,4 +77,4 @@ export function authService(ctx: AppContext) {
       )
     },
   }
-}
+})

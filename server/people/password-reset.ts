@@ -3,8 +3,9 @@ import bcrypt from 'bcryptjs'
 import { hashSecret, newSecretToken } from '../access/tokens'
 import type { AppContext } from '../context'
 import { badRequest } from '../platform/errors'
-import { enqueueMail } from '../mail/outbox'
-import { passwordReset } from '../mail/templates'
+import { enqueueMail } from '../mail'
+import { passwordReset } from '../mail'
+import { perContext } from '../platform/per-context'
 
 export const RESET_MINUTES = 60
 
@@ -12,7 +13,7 @@ export const RESET_MINUTES = 60
 const resetRefused = (message: string, field: 'unknown' | 'already used' | 'expired') => badRequest(message, { token: field })
 
 /** Password resets by mail: a single-use link valid for an hour; the answer never says whether the e-mail exists. */
-export function passwordResetService(ctx: AppContext) {
+export const passwordResetService = perContext((ctx: AppContext) => {
   const { models, sequelize, config } = ctx
   return {
     async request(email: string) {
@@ -48,4 +49,4 @@ export function passwordResetService(ctx: AppContext) {
       })
     },
   }
-}
+})

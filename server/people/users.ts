@@ -5,15 +5,16 @@ import { hashSecret, newSecretToken } from '../access/tokens'
 import type { AppContext } from '../context'
 import { badRequest, conflict, notFound } from '../platform/errors'
 import { authService } from './auth'
-import { enqueueMail } from '../mail/outbox'
-import { invitation as invitationMail } from '../mail/templates'
+import { enqueueMail } from '../mail'
+import { invitation as invitationMail } from '../mail'
 import { publicUser } from '../access/serializers'
+import { perContext } from '../platform/per-context'
 
 const INVITATION_DAYS = 7
 
 type UserChanges = { role?: Role; active?: boolean; name?: string; siteIds?: number[] }
 
-export function usersService(ctx: AppContext) {
+export const usersService = perContext((ctx: AppContext) => {
   const { models, sequelize } = ctx
   const auth = authService(ctx)
   const include = [{ association: 'sites', attributes: ['id'] }]
@@ -186,4 +187,4 @@ export function usersService(ctx: AppContext) {
       return auth.openSession(user)
     },
   }
-}
+})

@@ -7,9 +7,10 @@ import type { AppContext } from '../context'
 import { badRequest, notFound } from '../platform/errors'
 import type { Photo } from '../models'
 import { photoStoreFor, StoredObjectMissing } from './storage'
-import { instantNotAhead } from '../care/care-log'
+import { instantNotAhead } from '../care'
 import { processPhoto } from './photo-images'
 import { visibleTank } from '../access/scope'
+import { perContext } from '../platform/per-context'
 
 const API = '/api/v1'
 const MAX_LISTED = 500
@@ -65,7 +66,7 @@ export async function readPhotoBytes(ctx: AppContext, photoId: number, variant: 
   return Buffer.concat(chunks)
 }
 
-export function photosService(ctx: AppContext) {
+export const photosService = perContext((ctx: AppContext) => {
   const store = () => photoStoreFor(ctx.config)
 
   async function find(actor: UserActor, id: number) {
@@ -162,4 +163,4 @@ export function photosService(ctx: AppContext) {
       }
     },
   }
-}
+})

@@ -1,5 +1,5 @@
 import { readingsMessageSchema, MAX_READINGS_PER_MESSAGE, type IngestSummary, type ReadingOutcome } from '@shared/ingest/contract'
-import type { DeviceActor } from '../devices/device-tokens'
+import type { DeviceActor } from '../access/actor'
 import type { BatchWriter, ReadingRow } from './batch-writer'
 import type { DeviceStatusTracker } from './device-status'
 import { checkReading, type ReadingLimits } from './validate-readings'

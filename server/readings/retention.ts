@@ -1,6 +1,7 @@
 import { QueryTypes } from 'sequelize'
 import type { AppContext } from '../context'
 import { BUCKET_ORIGIN } from './series'
+import { perContext } from '../platform/per-context'
 
 export type RetentionOptions = { rawRetentionDays: number; now: Date }
 export type RetentionResult = { rolledUpHours: number; deletedRows: number }
@@ -42,7 +43,7 @@ export function retentionCutoff({ rawRetentionDays, now }: RetentionOptions): Da
   return new Date(Math.floor(cutoff / HOUR_MS) * HOUR_MS)
 }
 
-export function retentionService(ctx: AppContext) {
+export const retentionService = perContext((ctx: AppContext) => {
   return {
     async rollUpAndPrune(options: RetentionOptions): Promise<RetentionResult> {
       if (!(options.rawRetentionDays > 0)) throw new Error('rawRetentionDays must be above zero')
@@ -67,7 +68,7 @@ export function retentionService(ctx: AppContext) {
       })
     },
   }
-}
+})
 
 /** Runs the roll-up every `everyMs` until the returned function is called; never keeps the process alive. */
 export function startRetentionJob(ctx: AppContext, options: { rawRetentionDays: number; everyMs: number }) {

@@ -9,6 +9,7 @@ import type {
   SiteLatestResponse,
 } from '@shared/schemas/series'
 import type { AppContext } from '../context'
+import { perContext } from '../platform/per-context'
 
 /**
  * Buckets are aligned to this instant (a Monday, 00:00 UTC), not to the requested range: every chart
@@ -113,7 +114,7 @@ function latestByMetric(rows: LatestRow[]): LatestResponse {
   return out
 }
 
-export function seriesService(ctx: AppContext) {
+export const seriesService = perContext((ctx: AppContext) => {
   const select = <T extends object>(sql: string, bind: unknown[]) =>
     ctx.sequelize.query<T>(sql, { bind, type: QueryTypes.SELECT })
 
@@ -164,4 +165,4 @@ export function seriesService(ctx: AppContext) {
       return ids.map((tankId) => ({ tankId, metrics: latestByMetric(rowsByTank.get(tankId)!) }))
     },
   }
-}
+})

@@ -1,8 +1,8 @@
 import { formatPercent, formatSpan } from '@shared/report/format'
 import type { Report } from '@shared/schemas/reports'
-import { button, escapeHtml, factsTable, layout, oneLine } from '../mail/templates/html'
-import { READINGS_ARE_AIDS } from '../mail/templates/safety'
-import type { RenderedMail } from '../mail/types'
+import { button, escapeHtml, factsTable, layout, oneLine } from '../mail'
+import { READINGS_ARE_AIDS } from '../mail'
+import type { RenderedMail } from '../mail'
 
 const ACCENT = '#0b6e99'
 

@@ -3,7 +3,7 @@ import { createRequire } from 'node:module'
 import PDFDocument from 'pdfkit'
 import { formatBand, formatPercent, formatSpan, formatValue, metricSummary } from '@shared/report/format'
 import type { Report, ReportMetric, TankReport } from '@shared/schemas/reports'
-import { READINGS_ARE_AIDS } from '../mail/templates/safety'
+import { READINGS_ARE_AIDS } from '../mail'
 import { REPORT_MAX_GAP_MS } from './report-data'
 
 const require = createRequire(import.meta.url)

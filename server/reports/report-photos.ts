@@ -1,6 +1,6 @@
 import type { ReportPhoto } from '@shared/schemas/reports'
 import type { AppContext } from '../context'
-import { photosInPeriod as storedPhotos } from '../photos/photos'
+import { photosInPeriod as storedPhotos } from '../photos'
 
 /** The photos of a tank taken in [from, to), for the report's photos section (thumbnails). */
 export async function photosInPeriod(ctx: AppContext, tankId: number, from: Date, to: Date): Promise<ReportPhoto[]> {

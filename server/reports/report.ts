@@ -6,8 +6,9 @@ import type { AppContext } from '../context'
 import { badRequest } from '../platform/errors'
 import type { Site, Tank } from '../models'
 import { tankReport } from './report-data'
-import { sitesService } from '../sites/sites'
+import { sitesService } from '../sites'
 import { visibleTank } from '../access/scope'
+import { perContext } from '../platform/per-context'
 
 export type ReportSubject = { kind: 'tank'; tank: Tank; site: Site } | { kind: 'site'; site: Site; tanks: Tank[] }
 
@@ -58,7 +59,7 @@ export async function loadSubject(ctx: AppContext, target: { tankId: number | nu
   return { kind: 'site', site, tanks }
 }
 
-export function reportService(ctx: AppContext) {
+export const reportService = perContext((ctx: AppContext) => {
   const sites = sitesService(ctx)
 
   /** A tank or a site the actor may see (404 otherwise, as everywhere). */
@@ -79,4 +80,4 @@ export function reportService(ctx: AppContext) {
       return buildReport(ctx, subject, periodFor(query.period, query.date, subject.site.timeZone, now), now)
     },
   }
-}
+})

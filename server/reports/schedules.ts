@@ -5,11 +5,12 @@ import type { ReportSchedule as PublicSchedule, ReportScheduleInput, ReportSched
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { badRequest, notFound } from '../platform/errors'
-import { enqueueMail } from '../mail/outbox'
+import { enqueueMail } from '../mail'
 import type { ReportSchedule, Site, User } from '../models'
 import { reportMail } from './mail'
 import { renderReportPdf } from './pdf'
 import { buildReport, loadSubject, reportService } from './report'
+import { perContext } from '../platform/per-context'
 
 /** Scheduled reports go out at 08:00 on the site's clock, on the first day after the period. */
 export const REPORT_SEND_MINUTES = 8 * 60
@@ -91,7 +92,7 @@ function present(s: ReportSchedule, names: Map<string, string>): PublicSchedule 
   }
 }
 
-export function reportSchedulesService(ctx: AppContext) {
+export const reportSchedulesService = perContext((ctx: AppContext) => {
   const { models } = ctx
   const reports = reportService(ctx)
 
@@ -165,4 +166,4 @@ export function reportSchedulesService(ctx: AppContext) {
       return { queued, period: { kind: period.kind, startDate: period.startDate, endDate: period.endDate, label: period.label } }
     },
   }
-}
+})

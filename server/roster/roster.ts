@@ -9,7 +9,8 @@ import type { AppContext } from '../context'
 import { badRequest, notFound } from '../platform/errors'
 import type { DutyOverride, DutyShift, User } from '../models'
 import { canSeeSite } from '../access/scope'
-import { sitesService } from '../sites/sites'
+import { sitesService } from '../sites'
+import { perContext } from '../platform/per-context'
 
 const DAY_MS = 86_400_000
 
@@ -118,7 +119,7 @@ function weekBounds(timeZone: string, weekStart: string) {
   return { startsAt: localToInstant(timeZone, first, 0), endsAt: localToInstant(timeZone, next, 0) }
 }
 
-export function rosterService(ctx: AppContext) {
+export const rosterService = perContext((ctx: AppContext) => {
   const { models } = ctx
   const sites = sitesService(ctx)
 
@@ -274,4 +275,4 @@ export function rosterService(ctx: AppContext) {
       return { weekStart, timeZone: roster.timeZone, spans }
     },
   }
-}
+})

@@ -5,8 +5,9 @@ import type { AppContext } from '../context'
 import { notFound } from '../platform/errors'
 import { canSeeSite, siteScope } from '../access/scope'
 import { publicSite } from '../access/serializers'
+import { perContext } from '../platform/per-context'
 
-export function sitesService(ctx: AppContext) {
+export const sitesService = perContext((ctx: AppContext) => {
   const { models } = ctx
 
   async function find(actor: Actor, id: number) {
@@ -59,4 +60,4 @@ export function sitesService(ctx: AppContext) {
       return publicSite(site, (await tankCounts([id])).get(id) ?? 0)
     },
   }
-}
+})

@@ -4,15 +4,16 @@ import { compareForWall } from '@shared/tank-state'
 import { occurrenceAt } from '@shared/rules/maintenance'
 import type { Actor, UserActor } from '../access/actor'
 import { newWallToken } from './wall-tokens'
-import { buildDaysFor } from '../builds/builds'
+import { buildDaysFor } from '../builds'
 import type { AppContext } from '../context'
 import { notFound } from '../platform/errors'
 import type { WallCredential } from '../models'
-import { scheduleFn, snoozeCovers } from '../incidents/tank-context'
-import { careDueCounts } from '../care/care-tasks'
-import { whoIsOnDuty } from '../roster/roster'
+import { scheduleFn, snoozeCovers } from '../incidents'
+import { careDueCounts } from '../care'
+import { whoIsOnDuty } from '../roster'
 import { canSeeSite } from '../access/scope'
-import { tankStatuses } from '../tanks/tank-status'
+import { tankStatuses } from '../tanks'
+import { perContext } from '../platform/per-context'
 
 const TREND_HOURS = 6
 const LIGHT_ON_LUX = 50
@@ -25,7 +26,7 @@ function presentCredential(c: WallCredential): PublicWallCredential {
 }
 
 /** The wall: every tank of a site with its state, in the order a keeper should look at them. */
-export function wallService(ctx: AppContext) {
+export const wallService = perContext((ctx: AppContext) => {
   const { models, sequelize } = ctx
 
   async function visibleSite(actor: Actor, siteId: number) {
@@ -137,4 +138,4 @@ export function wallService(ctx: AppContext) {
       return presentCredential(row)
     },
   }
-}
+})

@@ -3,8 +3,8 @@ import type { Targets, TankStage } from '@shared/schemas/tanks'
 import type { TankStatus } from '@shared/schemas/tank-status'
 import { tankState } from '@shared/tank-state'
 import type { AppContext } from '../context'
-import { incidentsOf } from '../incidents/incidents'
-import { seriesService } from '../readings/series'
+import { incidentsOf } from '../incidents'
+import { seriesService } from '../readings'
 
 export interface StatusTank {
   id: number

@@ -10,6 +10,7 @@ import { badRequest, fromZod } from '../platform/errors'
 import { canSeeSite, siteScope, visibleTank } from '../access/scope'
 import { publicTank } from '../access/serializers'
 import { tankStatuses } from './tank-status'
+import { perContext } from '../platform/per-context'
 
 const SORT_COLUMNS: Record<TankListQuery['sortBy'], Order> = {
   name: [['name', 'ASC']],
@@ -52,7 +53,7 @@ function volumeOf(input: Pick<TankInput, 'dimensions' | 'volumeLitres'>) {
   return { volumeLitres: input.volumeLitres as number, volumeSource: 'entered' as const }
 }
 
-export function tanksService(ctx: AppContext) {
+export const tanksService = perContext((ctx: AppContext) => {
   const { models } = ctx
   const include = [{ association: 'site', attributes: ['id', 'name', 'timeZone'] }]
 
@@ -139,4 +140,4 @@ export function tanksService(ctx: AppContext) {
       return publicTank(tank)
     },
   }
-}
+})

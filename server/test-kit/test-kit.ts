@@ -3,15 +3,16 @@ import { TEST_KIT_EDIT_WINDOW_HOURS, type PublicTestKitEntry, type TestKitEntryI
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { badRequest, forbidden, notFound } from '../platform/errors'
-import { insertReadings, type ReadingRow } from '../readings/batch-writer'
-import { checkReading } from '../readings/validate-readings'
+import { insertReadings, type ReadingRow } from '../readings'
+import { checkReading } from '../readings'
 import type { TestKitEntry } from '../models'
 import { visibleTank } from '../access/scope'
+import { perContext } from '../platform/per-context'
 
 const sourceKey = (entryId: number) => `k:${entryId}`
 
 /** Keepers' test-kit entries: readings with source `test_kit`, written with the entry in one transaction. */
-export function testKitService(ctx: AppContext) {
+export const testKitService = perContext((ctx: AppContext) => {
   const { models, sequelize, events, config } = ctx
   const include = [
     { association: 'author', attributes: ['id', 'name'] },
@@ -122,4 +123,4 @@ export function testKitService(ctx: AppContext) {
       }
     },
   }
-}
+})

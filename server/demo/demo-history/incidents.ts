@@ -2,9 +2,9 @@
 // (opened, mail_queued, escalated, acknowledged, resolved) dated when each step happened.
 import { metricOfSpec } from '@shared/rules/schema'
 import type { AppContext } from '../../context'
-import { ruleContextFor } from '../../incidents/tank-context'
-import { dutyRecipients } from '../../roster/roster'
-import { rulesService } from '../../incidents/watch-rules'
+import { ruleContextFor } from '../../incidents'
+import { dutyRecipients } from '../../roster'
+import { rulesService } from '../../incidents'
 import type { TankHistory } from './readings'
 import { replayTrips, type Trip } from './rule-replay'
 import type { IncidentNotes } from './story'

@@ -1,0 +1,2 @@
+// What other features may use of roster/; everything else in the folder is its own.
+export { dutyRecipients, whoIsOnDuty } from './roster'
