@@ -7,12 +7,13 @@ import { badRequest, conflict, notFound } from '../platform/errors'
 import { authService } from './auth'
 import { enqueueMail } from '../mail'
 import { invitation as invitationMail } from '../mail'
-import { publicUser } from '../access/serializers'
 import { perContext } from '../platform/per-context'
+import { presentUser } from './present-user'
 
 const INVITATION_DAYS = 7
 
 type UserChanges = { role?: Role; active?: boolean; name?: string; siteIds?: number[] }
+
 
 export const usersService = perContext((ctx: AppContext) => {
   const { models, sequelize } = ctx
@@ -52,7 +53,7 @@ export const usersService = perContext((ctx: AppContext) => {
         include,
         order: [['name', 'ASC']],
       })
-      return users.map(publicUser)
+      return users.map(presentUser)
     },
 
     async update(actor: UserActor, id: number, changes: UserChanges) {
@@ -83,7 +84,7 @@ export const usersService = perContext((ctx: AppContext) => {
           await models.Session.update({ revokedAt: new Date() }, { where: { userId: user.id, revokedAt: null }, transaction })
         }
         await user.reload({ include, transaction })
-        return publicUser(user)
+        return presentUser(user)
       })
       // Open live sockets are checked against the new scope at once (a changed role or status also ends the sessions).
       if (changes.siteIds || changes.role !== undefined || changes.active !== undefined) {

@@ -8,9 +8,10 @@ import type { Actor } from '../access/actor'
 import type { AppContext } from '../context'
 import { badRequest, fromZod } from '../platform/errors'
 import { canSeeSite, siteScope, visibleTank } from '../access/scope'
-import { publicTank } from '../access/serializers'
 import { tankStatuses } from './tank-status'
 import { perContext } from '../platform/per-context'
+import type { Tank } from '../models'
+import type { PublicTank } from '@shared/schemas/tanks'
 
 const SORT_COLUMNS: Record<TankListQuery['sortBy'], Order> = {
   name: [['name', 'ASC']],
@@ -53,6 +54,34 @@ function volumeOf(input: Pick<TankInput, 'dimensions' | 'volumeLitres'>) {
   return { volumeLitres: input.volumeLitres as number, volumeSource: 'entered' as const }
 }
 
+const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null)
+
+/** The row as the API answers it (see its Public… type in shared/schemas). */
+function presentTank(tank: Tank): PublicTank {
+  return {
+    id: tank.id,
+    name: tank.name,
+    siteId: tank.siteId,
+    siteName: tank.site?.name ?? '',
+    kind: tank.kind,
+    stage: tank.stage,
+    dimensions: tank.dimensions,
+    volumeLitres: tank.volumeLitres,
+    volumeSource: tank.volumeSource,
+    substrateDepthCm: tank.substrateDepthCm,
+    heater: tank.heater,
+    filter: tank.filter,
+    media: tank.media,
+    lightSchedule: tank.lightSchedule,
+    targets: tank.targets,
+    notes: tank.notes,
+    sortOrder: tank.sortOrder,
+    archivedAt: iso(tank.archivedAt),
+    createdAt: tank.createdAt.toISOString(),
+    updatedAt: tank.updatedAt.toISOString(),
+  }
+}
+
 export const tanksService = perContext((ctx: AppContext) => {
   const { models } = ctx
   const include = [{ association: 'site', attributes: ['id', 'name', 'timeZone'] }]
@@ -91,12 +120,12 @@ export const tanksService = perContext((ctx: AppContext) => {
         offset: (q.page - 1) * q.pageSize,
       })
       const statuses = await tankStatuses(ctx, rows)
-      const items = rows.map((tank) => ({ ...publicTank(tank), status: statuses.get(tank.id)! }))
+      const items = rows.map((tank) => ({ ...presentTank(tank), status: statuses.get(tank.id)! }))
       return { items, total: count, page: q.page, pageSize: q.pageSize }
     },
 
     async get(actor: Actor, id: number) {
-      return publicTank(await find(actor, id))
+      return presentTank(await find(actor, id))
     },
 
     async create(actor: Actor, input: TankInput) {
@@ -108,12 +137,12 @@ export const tanksService = perContext((ctx: AppContext) => {
         organizationId: actor.organizationId,
       })
       await ctx.events.settle('tank.created', tank)
-      return publicTank(await find(actor, tank.id))
+      return presentTank(await find(actor, tank.id))
     },
 
     async update(actor: Actor, id: number, changes: TankUpdate) {
       const tank = await find(actor, id)
-      const current = publicTank(tank)
+      const current = presentTank(tank)
       // Validate the merged tank so cross-field rules (volume known, heater inside the tank) still hold.
       const merged = tankInputSchema.safeParse({ ...current, ...changes })
       if (!merged.success) throw fromZod(merged.error, 'body')
@@ -125,7 +154,7 @@ export const tanksService = perContext((ctx: AppContext) => {
         // The quarantine clock starts here; the column belongs to care, the Tank model does not declare it.
         if (stageChanges) await ctx.sequelize.query('UPDATE tanks SET stage_changed_at = now() WHERE id = $1', { bind: [tank.id], transaction })
       })
-      return publicTank(await find(actor, id))
+      return presentTank(await find(actor, id))
     },
 
     async setArchived(actor: Actor, id: number, archived: boolean) {
@@ -137,7 +166,7 @@ export const tanksService = perContext((ctx: AppContext) => {
         for (const device of devices) ctx.events.emit('device.revoked', { deviceId: device.id })
       }
       ctx.events.emit('access.changed', { organizationId: tank.organizationId })
-      return publicTank(tank)
+      return presentTank(tank)
     },
   }
 })
