@@ -15,7 +15,7 @@ const DAY_MS = 24 * HOUR_MS
  * The job rolls closed hours forward, then deletes raw rows older than the raw window: those are in
  * the rollups already, so deleting them changes no rollup.
  */
-const LOCK_STATE_SQL = 'SELECT rolled_up_before, raw_kept_from FROM readings_rollup_state FOR UPDATE'
+const LOCK_STATE_SQL = 'SELECT rolled_up_before FROM readings_rollup_state FOR UPDATE'
 
 /*
  * A statement whose readings are less than 30 minutes older than its transaction merges nothing into
@@ -70,7 +70,7 @@ export function retentionService(ctx: AppContext) {
       return ctx.sequelize.transaction(async (transaction) => {
         const select = <T extends object>(sql: string, bind: unknown[] = []) =>
           ctx.sequelize.query<T>(sql, { bind, type: QueryTypes.SELECT, transaction })
-        const [state] = await select<{ rolled_up_before: Date; raw_kept_from: Date }>(LOCK_STATE_SQL)
+        const [state] = await select<{ rolled_up_before: Date }>(LOCK_STATE_SQL)
         const [{ settled }] = await select<{ settled: Date }>(SETTLED_BEFORE_SQL)
         const rolledBefore = state.rolled_up_before.getTime()
         const target = floorHour(Math.min(settled.getTime(), options.now.getTime() - HOUR_MS / 2))

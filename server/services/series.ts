@@ -82,7 +82,9 @@ export function readPlan(from: number, to: number, stepSeconds: number, state: {
 }
 
 type RawRow = { time: Date; value: number; source: ReadingSource }
-type StateRow = { rolled_up_before: Date; raw_kept_from: Date; raw: number }
+// pg answers the timestamp '-infinity' (nothing pruned yet) as the number -Infinity, not a Date.
+type StateRow = { rolled_up_before: Date; raw_kept_from: Date | number; raw: number }
+const instantMs = (v: Date | number) => (typeof v === 'number' ? v : v.getTime())
 type BucketRow = { bucket: Date; min: number; mean: number; max: number; count: number }
 type LatestRow = { tank_id: number; metric: MetricKey; time: Date; value: number; source: ReadingSource }
 
@@ -173,7 +175,7 @@ export function seriesService(ctx: AppContext) {
       }
       const range = [tankId, q.metric, q.from, q.to]
       const [state] = await select<StateRow>(STATE_SQL, [...range, q.points + 1])
-      const rawComplete = q.from.getTime() >= state.raw_kept_from.getTime()
+      const rawComplete = q.from.getTime() >= instantMs(state.raw_kept_from)
       if (rawComplete && state.raw <= q.points) {
         const rows = await select<RawRow>(RAW_SQL, range)
         const raw = rows.map((r) => ({ t: r.time.toISOString(), value: r.value, source: r.source }))
@@ -183,7 +185,7 @@ export function seriesService(ctx: AppContext) {
       const bucketSeconds = chooseBucketSeconds(q.from, q.to, q.points, rawComplete ? 1 : HOUR)
       const parts = readPlan(q.from.getTime(), q.to.getTime(), bucketSeconds, {
         rolledUpBefore: state.rolled_up_before.getTime(),
-        rawKeptFrom: state.raw_kept_from.getTime(),
+        rawKeptFrom: instantMs(state.raw_kept_from),
       })
       const bounds = [parts.raw[0], parts.raw[1], parts.hourly[0], parts.hourly[1], [parts.daily[0], parts.daily[1]]]
       const bind = [tankId, q.metric, bucketSeconds, BUCKET_ORIGIN, ...bounds.flatMap(([a, b]) => [new Date(a), new Date(b)])]
