@@ -21,11 +21,12 @@ const LOCK_STATE_SQL = 'SELECT rolled_up_before FROM readings_rollup_state FOR U
  * A statement whose readings are less than 30 minutes older than its transaction merges nothing into
  * the rollups (the quick path of the insert trigger). Hours ending later than 30 minutes before the
  * oldest open transaction may still receive such readings, so they wait for a later run.
- * pg_stat_activity is read once per transaction, after the state row is ours.
+ * pg_stat_activity is read once per transaction, after the state row is ours. Only client sessions
+ * count: autovacuum writes no readings and may run for long.
  */
 const SETTLED_BEFORE_SQL = `
 SELECT least(now(), min(xact_start)) - interval '30 minutes' AS settled
-FROM pg_stat_activity WHERE datname = current_database()`
+FROM pg_stat_activity WHERE datname = current_database() AND backend_type = 'client backend'`
 
 // One index range per tank and metric, over the hours being closed.
 const ROLL_FORWARD_SQL = `
