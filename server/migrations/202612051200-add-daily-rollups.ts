@@ -14,10 +14,12 @@ import type { Migration } from '../db/migrate'
  * - A deleted reading (a test-kit entry edited or removed) in a rolled-up hour whose raw rows are
  *   all kept has its hour recomputed from them. Before `raw_kept_from` a deletion is retention's
  *   own (or of a reading older than the raw window), and the rollup keeps it.
- * - Days are the sum of their hours: a trigger on `readings_hourly` recomputes every day an hour
- *   of it changed, so each path that writes hours keeps days true.
- * Hours and days are UTC, aligned like chart buckets (Monday 2000-01-03 00:00 UTC). Advisory lock
- * 7411010 per tank orders writers of one tank's rollups; the state row is always locked first.
+ * - Days are the sum of their hours: triggers on `readings_hourly` add a new or grown hour to its
+ *   day (an upsert, so concurrent writers queue on the day's row) and recompute a day one of whose
+ *   hours was removed, so each path that writes hours keeps days true.
+ * - Deleting readings recomputes hours from raw rows, so two deletions in one tank's hours must not
+ *   interleave: they take advisory lock 7411010 per tank, after the state row.
+ * Hours and days are UTC, aligned like chart buckets (Monday 2000-01-03 00:00 UTC).
  */
 const ORIGIN = `'2000-01-03T00:00:00Z'::timestamptz`
 
@@ -75,7 +77,6 @@ BEGIN
     RETURN NULL;
   END IF;
   SELECT rolled_up_before INTO rolled_before FROM readings_rollup_state FOR SHARE;
-  PERFORM readings_rollup_lock_tanks(ARRAY(SELECT tank_id FROM changed WHERE time < rolled_before));
   INSERT INTO readings_hourly AS h (tank_id, metric, hour, min, max, sum, count)
   SELECT tank_id, metric, date_bin(interval '1 hour', time, ${ORIGIN}), min(value), max(value), sum(value), count(*)
   FROM changed
@@ -110,9 +111,33 @@ BEGIN
   RETURN NULL;
 END $$;
 
--- Writers of hours hold the state row (the job FOR UPDATE, the triggers above FOR SHARE and the
--- tank's advisory lock), so a day is never recomputed from another writer's uncommitted hours.
-CREATE FUNCTION readings_hours_into_days() RETURNS trigger LANGUAGE plpgsql AS $$
+-- Hours added or grown are added to their days; the upsert's row lock orders concurrent writers.
+CREATE FUNCTION readings_hours_added_to_days() RETURNS trigger LANGUAGE plpgsql AS $$
+BEGIN
+  INSERT INTO readings_daily AS d (tank_id, metric, day, min, max, sum, count)
+  SELECT tank_id, metric, date_bin(interval '1 day', hour, ${ORIGIN}), min(min), max(max), sum(sum), sum(count)
+  FROM changed
+  GROUP BY 1, 2, 3
+  ON CONFLICT (tank_id, metric, day) DO UPDATE SET
+    min = LEAST(d.min, EXCLUDED.min), max = GREATEST(d.max, EXCLUDED.max),
+    sum = d.sum + EXCLUDED.sum, count = d.count + EXCLUDED.count;
+  RETURN NULL;
+END $$;
+
+CREATE FUNCTION readings_hours_grown_in_days() RETURNS trigger LANGUAGE plpgsql AS $$
+BEGIN
+  INSERT INTO readings_daily AS d (tank_id, metric, day, min, max, sum, count)
+  SELECT a.tank_id, a.metric, date_bin(interval '1 day', a.hour, ${ORIGIN}), min(a.min), max(a.max), sum(a.sum - b.sum), sum(a.count - b.count)
+  FROM grown a JOIN before_growing b USING (tank_id, metric, hour)
+  GROUP BY 1, 2, 3
+  ON CONFLICT (tank_id, metric, day) DO UPDATE SET
+    min = LEAST(d.min, EXCLUDED.min), max = GREATEST(d.max, EXCLUDED.max),
+    sum = d.sum + EXCLUDED.sum, count = d.count + EXCLUDED.count;
+  RETURN NULL;
+END $$;
+
+-- A removed hour may have held a day's min or max: the day is recomputed from the hours left.
+CREATE FUNCTION readings_hours_removed_from_days() RETURNS trigger LANGUAGE plpgsql AS $$
 BEGIN
   DELETE FROM readings_daily d
   USING (SELECT DISTINCT tank_id, metric, date_bin(interval '1 day', hour, ${ORIGIN}) AS day FROM changed) t
@@ -130,11 +155,11 @@ CREATE TRIGGER readings_merge_into_hours AFTER INSERT ON readings
 CREATE TRIGGER readings_recompute_hours AFTER DELETE ON readings
   REFERENCING OLD TABLE AS changed FOR EACH STATEMENT EXECUTE FUNCTION readings_recompute_hours();
 CREATE TRIGGER readings_hourly_inserted AFTER INSERT ON readings_hourly
-  REFERENCING NEW TABLE AS changed FOR EACH STATEMENT EXECUTE FUNCTION readings_hours_into_days();
+  REFERENCING NEW TABLE AS changed FOR EACH STATEMENT EXECUTE FUNCTION readings_hours_added_to_days();
 CREATE TRIGGER readings_hourly_updated AFTER UPDATE ON readings_hourly
-  REFERENCING NEW TABLE AS changed FOR EACH STATEMENT EXECUTE FUNCTION readings_hours_into_days();
+  REFERENCING OLD TABLE AS before_growing NEW TABLE AS grown FOR EACH STATEMENT EXECUTE FUNCTION readings_hours_grown_in_days();
 CREATE TRIGGER readings_hourly_deleted AFTER DELETE ON readings_hourly
-  REFERENCING OLD TABLE AS changed FOR EACH STATEMENT EXECUTE FUNCTION readings_hours_into_days();
+  REFERENCING OLD TABLE AS changed FOR EACH STATEMENT EXECUTE FUNCTION readings_hours_removed_from_days();
 `
 
 const down = `
@@ -143,7 +168,9 @@ DROP TRIGGER readings_hourly_updated ON readings_hourly;
 DROP TRIGGER readings_hourly_inserted ON readings_hourly;
 DROP TRIGGER readings_recompute_hours ON readings;
 DROP TRIGGER readings_merge_into_hours ON readings;
-DROP FUNCTION readings_hours_into_days();
+DROP FUNCTION readings_hours_removed_from_days();
+DROP FUNCTION readings_hours_grown_in_days();
+DROP FUNCTION readings_hours_added_to_days();
 DROP FUNCTION readings_recompute_hours();
 DROP FUNCTION readings_merge_into_hours();
 DROP FUNCTION readings_rollup_lock_tanks(integer[]);

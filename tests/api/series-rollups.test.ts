@@ -179,4 +179,26 @@ describe('series from rollups', () => {
     expectPointsMatch(after.points, written.filter((r) => r.t >= day && r.t < day + DAY), HOUR)
     expectSameDays(await dailyRows(), writtenDays())
   })
+
+  it('keeps a day true when two transactions write late readings into different hours of it at once', async () => {
+    const day = floorTo(now - 12 * DAY, DAY)
+    const first = { t: day + 3 * HOUR + 5 * MINUTE, value: 6.1 }
+    const second = { t: day + 20 * HOUR + 5 * MINUTE, value: 8.3 }
+    const insertIn = (transaction: Awaited<ReturnType<typeof t.ctx.sequelize.transaction>>, row: Row, key: string) =>
+      t.ctx.sequelize.query(
+        `INSERT INTO readings (source_key, metric, time, tank_id, value, source) VALUES ($1, 'ph', $2, $3, $4, 'test_kit')`,
+        { bind: [key, at(row.t), tankId, row.value], transaction },
+      )
+    const one = await t.ctx.sequelize.transaction()
+    const two = await t.ctx.sequelize.transaction()
+    await insertIn(one, first, 'k:2')
+    // The second waits for the first on the day's row, then adds to what the first committed.
+    const secondDone = insertIn(two, second, 'k:3').then(() => two.commit())
+    await new Promise((resolve) => setTimeout(resolve, 200))
+    await one.commit()
+    await secondDone
+    written.push(first, second)
+    expect((await dailyRows()).get(day)).toMatchObject({ min: 6.1, max: 8.3, count: 146 })
+    expectSameDays(await dailyRows(), writtenDays())
+  })
 })
