@@ -66,6 +66,8 @@ for (const tanks of SIZES) {
   }
   if (PARTS.has('series')) {
     const series = await seriesTimes(ctx, app, shop.devices[0].tankId, token, SERIES_RUNS)
+    f.requestFloor = series.floor.series
+    console.log(`  GET /tanks/:id/latest (the request's own cost): ${series.floor.series.toFixed(1)} ms`)
     for (const [label] of SERIES_RANGES) {
       f[`series ${label}`] = series[label].series
       f[`scan ${label}`] = series[label].scan
@@ -104,6 +106,7 @@ const rows: Array<[string, string, (f: Figures) => string, string]> = [
     (f: Figures) => `${n(f[`series ${label}`], 1)} (scan ${n(f[`scan ${label}`], 1)}; ${n(f[`series ${label}`] / f[`scan ${label}`], 2)}×)`,
     '< 50',
   ] as [string, string, (f: Figures) => string, string]),
+  [`GET /tanks/:id/latest, the same sign-in and tank lookup as a series (ms, median of ${SERIES_RUNS})`, 'requestFloor', (f) => n(f.requestFloor, 1), '—'],
   ['wall display link → first page of tiles drawn (ms, median of 3)', 'wall', (f) => n(f.wall), '< 2,000 at 200 tanks'],
   ['rule engine, 10 rules per tank (µs per reading)', 'engine', (f) => n(f.engine, 1), '—'],
   ['app memory while ingesting, peak RSS (MB)', 'rss', (f) => n(f.rss), '< 300'],
