@@ -187,8 +187,8 @@ export function seriesService(ctx: AppContext) {
         rolledUpBefore: state.rolled_up_before.getTime(),
         rawKeptFrom: instantMs(state.raw_kept_from),
       })
-      const bounds = [parts.raw[0], parts.raw[1], parts.hourly[0], parts.hourly[1], [parts.daily[0], parts.daily[1]]]
-      const bind = [tankId, q.metric, bucketSeconds, BUCKET_ORIGIN, ...bounds.flatMap(([a, b]) => [new Date(a), new Date(b)])]
+      const spans = [...parts.raw, ...parts.hourly, parts.daily]
+      const bind = [tankId, q.metric, bucketSeconds, BUCKET_ORIGIN, ...spans.flatMap(([a, b]) => [new Date(a), new Date(b)])]
       const rows = await select<BucketRow>(BUCKETS_SQL, bind)
       const points: SeriesBucket[] = rows.map((r) => ({
         t: r.bucket.toISOString(),
