@@ -72,6 +72,8 @@ export const backupExportService = perContext((ctx: AppContext) => {
           `SELECT json_build_array(r.tank_id, r.metric, r.time, r.value, r.source, r.source_key) AS row
            FROM readings r JOIN tanks t ON t.id = r.tank_id
            WHERE t.organization_id = :organizationId
+             -- An older raw row (late, not yet pruned) is in the exported hours already.
+             AND r.time >= (SELECT raw_kept_from FROM readings_rollup_state)
            ORDER BY r.tank_id, r.metric, r.time, r.source_key`,
           { organizationId },
           async (rows) => {

@@ -1,5 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import type { AppContext } from '../context'
+import { METRIC_KEYS } from '@shared/metrics/registry'
 import { BUCKET_ORIGIN } from './series'
 import { perContext } from '../platform/per-context'
 
@@ -9,24 +10,36 @@ export type RetentionResult = { rolledUpHours: number; deletedRows: number }
 const HOUR_MS = 3_600_000
 const DAY_MS = 24 * HOUR_MS
 
-/**
- * Deletes one tank's raw readings older than the cutoff and folds exactly those rows into their hours,
- * in one statement: a reading inserted concurrently is either deleted and rolled up, or neither.
- *
- * The upsert merges instead of replacing: the rows it folds in are gone afterwards, so an existing
- * rollup describes other, earlier-deleted readings of the same hour (a back-dated test-kit entry
- * arriving after its hour was rolled up). Re-running finds no raw rows left and changes nothing.
+/*
+ * Rollups hold every reading before `rolled_up_before`; raw rows are complete from `raw_kept_from` on
+ * (migration 202612051200 explains the triggers that keep both true for late and deleted readings).
+ * The job rolls closed hours forward, then deletes raw rows older than the raw window: those are in
+ * the rollups already, so deleting them changes no rollup.
  */
-const ROLL_UP_AND_DELETE_SQL = `
-WITH gone AS (
-  DELETE FROM readings
-  WHERE tank_id = $1 AND time < $2::timestamptz
-  RETURNING tank_id, metric, time, value
-), merged AS (
+const LOCK_STATE_SQL = 'SELECT rolled_up_before FROM readings_rollup_state FOR UPDATE'
+
+/*
+ * A statement whose readings are less than 30 minutes older than its transaction merges nothing into
+ * the rollups (the quick path of the insert trigger). Hours ending later than 30 minutes before the
+ * oldest open transaction may still receive such readings, so they wait for a later run.
+ * pg_stat_activity is read once per transaction, after the state row is ours. Only client sessions
+ * count: autovacuum writes no readings and may run for long.
+ */
+const SETTLED_BEFORE_SQL = `
+SELECT least(now(), min(xact_start)) - interval '30 minutes' AS settled
+FROM pg_stat_activity WHERE datname = current_database() AND backend_type = 'client backend'`
+
+// One index range per tank and metric, over the hours being closed.
+const ROLL_FORWARD_SQL = `
+WITH merged AS (
   INSERT INTO readings_hourly AS h (tank_id, metric, hour, min, max, sum, count)
-  SELECT tank_id, metric, date_bin(interval '1 hour', time, $3::timestamptz),
-         min(value), max(value), sum(value), count(*)
-  FROM gone
+  SELECT t.id, m.metric, date_bin(interval '1 hour', r.time, $3::timestamptz), min(r.value), max(r.value), sum(r.value), count(*)
+  FROM tanks t
+  CROSS JOIN unnest($4::text[]) AS m(metric)
+  CROSS JOIN LATERAL (
+    SELECT time, value FROM readings
+    WHERE tank_id = t.id AND metric = m.metric AND time >= $1::timestamptz AND time < $2::timestamptz
+  ) r
   GROUP BY 1, 2, 3
   ON CONFLICT (tank_id, metric, hour) DO UPDATE SET
     min = LEAST(h.min, EXCLUDED.min),
@@ -35,7 +48,14 @@ WITH gone AS (
     count = h.count + EXCLUDED.count
   RETURNING 1
 )
-SELECT (SELECT count(*) FROM merged) AS hours, (SELECT count(*) FROM gone) AS deleted`
+SELECT count(*) AS hours FROM merged`
+
+const MOVE_STATE_SQL = `
+UPDATE readings_rollup_state SET rolled_up_before = $1::timestamptz, raw_kept_from = GREATEST(raw_kept_from, $2::timestamptz)`
+
+const DELETE_OLD_SQL = `
+WITH gone AS (DELETE FROM readings WHERE tank_id = $1 AND time < $2::timestamptz RETURNING 1)
+SELECT count(*) AS deleted FROM gone`
 
 /** The start of the hour `rawRetentionDays` before `now`: everything before it is whole, old hours. */
 export function retentionCutoff({ rawRetentionDays, now }: RetentionOptions): Date {
@@ -43,28 +63,33 @@ export function retentionCutoff({ rawRetentionDays, now }: RetentionOptions): Da
   return new Date(Math.floor(cutoff / HOUR_MS) * HOUR_MS)
 }
 
+const floorHour = (ms: number) => Math.floor(ms / HOUR_MS) * HOUR_MS
+
 export const retentionService = perContext((ctx: AppContext) => {
   return {
     async rollUpAndPrune(options: RetentionOptions): Promise<RetentionResult> {
       if (!(options.rawRetentionDays > 0)) throw new Error('rawRetentionDays must be above zero')
-      const cutoff = retentionCutoff(options)
       return ctx.sequelize.transaction(async (transaction) => {
-        // Per tank, so each DELETE can walk the (tank_id, metric, time) index instead of the whole table.
-        const tanks = await ctx.sequelize.query<{ id: number }>('SELECT id FROM tanks ORDER BY id', {
-          type: QueryTypes.SELECT,
-          transaction,
-        })
-        const total: RetentionResult = { rolledUpHours: 0, deletedRows: 0 }
-        for (const { id } of tanks) {
-          const [row] = await ctx.sequelize.query<{ hours: number; deleted: number }>(ROLL_UP_AND_DELETE_SQL, {
-            bind: [id, cutoff, BUCKET_ORIGIN],
-            type: QueryTypes.SELECT,
-            transaction,
-          })
-          total.rolledUpHours += row.hours
-          total.deletedRows += row.deleted
+        const select = <T extends object>(sql: string, bind: unknown[] = []) =>
+          ctx.sequelize.query<T>(sql, { bind, type: QueryTypes.SELECT, transaction })
+        const [state] = await select<{ rolled_up_before: Date }>(LOCK_STATE_SQL)
+        const [{ settled }] = await select<{ settled: Date }>(SETTLED_BEFORE_SQL)
+        const rolledBefore = state.rolled_up_before.getTime()
+        const target = floorHour(Math.min(settled.getTime(), options.now.getTime() - HOUR_MS / 2))
+        let rolledUpHours = 0
+        if (target > rolledBefore) {
+          const [row] = await select<{ hours: number }>(ROLL_FORWARD_SQL, [state.rolled_up_before, new Date(target), BUCKET_ORIGIN, METRIC_KEYS])
+          rolledUpHours = row.hours
         }
-        return total
+        const rolledUpTo = Math.max(target, rolledBefore)
+        // Never delete a raw row the rollups do not hold yet.
+        const cutoff = new Date(Math.min(retentionCutoff(options).getTime(), rolledUpTo))
+        await ctx.sequelize.query(MOVE_STATE_SQL, { bind: [new Date(rolledUpTo), cutoff], transaction })
+        // Per tank, so each DELETE can walk the (tank_id, metric, time) index instead of the whole table.
+        const tanks = await select<{ id: number }>('SELECT id FROM tanks ORDER BY id')
+        let deletedRows = 0
+        for (const { id } of tanks) deletedRows += (await select<{ deleted: number }>(DELETE_OLD_SQL, [id, cutoff]))[0].deleted
+        return { rolledUpHours, deletedRows }
       })
     },
   }

@@ -51,20 +51,55 @@ export function chooseBucketSeconds(from: Date, to: Date, points: number, floorS
   throw new Error('unreachable: the step list is unbounded')
 }
 
+type Span = [from: number, to: number]
+export type ReadPlan = { raw: [Span, Span]; hourly: [Span, Span]; daily: Span }
+const NONE: Span = [0, 0]
+const span = (from: number, to: number): Span => (from < to ? [from, to] : NONE)
+const floorTo = (ms: number, unitMs: number) => ORIGIN_MS + Math.floor((ms - ORIGIN_MS) / unitMs) * unitMs
+const ceilTo = (ms: number, unitMs: number) => ORIGIN_MS + Math.ceil((ms - ORIGIN_MS) / unitMs) * unitMs
+
+/**
+ * Which source answers which part of [from, to) for buckets of `stepSeconds`: whole days (steps of
+ * whole days only), whole hours (steps of whole hours), raw rows for the rest. Before
+ * `rolledUpBefore` every reading is in the rollups; from `rawKeptFrom` on every reading is a raw
+ * row. Where an edge falls inside an hour whose raw rows are gone, that hour counts whole.
+ */
+export function readPlan(from: number, to: number, stepSeconds: number, state: { rolledUpBefore: number; rawKeptFrom: number }): ReadPlan {
+  const { rolledUpBefore, rawKeptFrom } = state
+  const hourMs = HOUR * 1000
+  const dayMs = DAY * 1000
+  if (stepSeconds % HOUR !== 0) return { raw: [span(from, to), NONE], hourly: [NONE, NONE], daily: NONE }
+  const hourStart = from >= rawKeptFrom ? ceilTo(from, hourMs) : floorTo(from, hourMs)
+  const hourEnd =
+    to >= rolledUpBefore ? rolledUpBefore : floorTo(to, hourMs) >= rawKeptFrom ? floorTo(to, hourMs) : ceilTo(to, hourMs)
+  if (hourStart >= hourEnd) return { raw: [span(from, to), NONE], hourly: [NONE, NONE], daily: NONE }
+  const raw: [Span, Span] = [span(from, hourStart), span(hourEnd, to)]
+  if (stepSeconds % DAY === 0) {
+    const dayStart = ceilTo(hourStart, dayMs)
+    const dayEnd = floorTo(hourEnd, dayMs)
+    if (dayStart < dayEnd) return { raw, hourly: [span(hourStart, dayStart), span(dayEnd, hourEnd)], daily: [dayStart, dayEnd] }
+  }
+  return { raw, hourly: [span(hourStart, hourEnd), NONE], daily: NONE }
+}
+
 type RawRow = { time: Date; value: number; source: ReadingSource }
+// pg answers the timestamp '-infinity' (nothing pruned yet) as the number -Infinity, not a Date.
+type StateRow = { rolled_up_before: Date; raw_kept_from: Date | number; raw: number }
+const instantMs = (v: Date | number) => (typeof v === 'number' ? v : v.getTime())
 type BucketRow = { bucket: Date; min: number; mean: number; max: number; count: number }
 type LatestRow = { tank_id: number; metric: MetricKey; time: Date; value: number; source: ReadingSource }
 
-// Only reads up to points + 1 index entries: raw-or-buckets needs no exact count of a long range.
-const COUNT_SQL = `
-SELECT
+/*
+ * Every reading before `rolled_up_before` is in its hour and its day; raw rows are complete from
+ * `raw_kept_from` on (migration 202612051200). The raw count reads at most points + 1 index entries.
+ */
+const STATE_SQL = `
+SELECT s.rolled_up_before, s.raw_kept_from,
   (SELECT count(*) FROM (
      SELECT 1 FROM readings
      WHERE tank_id = $1 AND metric = $2 AND time >= $3::timestamptz AND time < $4::timestamptz
-     LIMIT $5) capped) AS raw,
-  EXISTS (SELECT 1 FROM readings_hourly
-     WHERE tank_id = $1 AND metric = $2
-       AND hour > $3::timestamptz - interval '1 hour' AND hour < $4::timestamptz) AS rolled_up`
+     LIMIT $5) capped) AS raw
+FROM readings_rollup_state s`
 
 const RAW_SQL = `
 SELECT time, value, source FROM readings
@@ -72,21 +107,28 @@ WHERE tank_id = $1 AND metric = $2 AND time >= $3::timestamptz AND time < $4::ti
 ORDER BY time, source_key`
 
 /*
- * Rolled-up hours and the raw rows still kept are disjoint sets of readings: the retention job deletes
- * exactly the rows it rolls up, in the same statement. So a bucket is the union of both, with no
- * per-hour overlap test. A rolled-up hour counts whole when it overlaps the range.
+ * The range is read from the coarsest source that holds each part of it: whole days from
+ * readings_daily, whole hours around them from readings_hourly, and the minutes at either edge (and
+ * after the last rolled-up hour) from raw rows. The parts are disjoint, so a bucket is their union.
  */
 const BUCKETS_SQL = `
 WITH samples AS (
-  SELECT time AS t, value AS lo, value AS hi, value AS total, 1 AS n
-  FROM readings
-  WHERE tank_id = $1 AND metric = $2 AND time >= $3::timestamptz AND time < $4::timestamptz
+  SELECT time AS t, value AS lo, value AS hi, value AS total, 1 AS n FROM readings
+  WHERE tank_id = $1 AND metric = $2 AND time >= $5::timestamptz AND time < $6::timestamptz
   UNION ALL
-  SELECT hour, min, max, sum, count
-  FROM readings_hourly
-  WHERE tank_id = $1 AND metric = $2 AND hour > $3::timestamptz - interval '1 hour' AND hour < $4::timestamptz
+  SELECT time, value, value, value, 1 FROM readings
+  WHERE tank_id = $1 AND metric = $2 AND time >= $7::timestamptz AND time < $8::timestamptz
+  UNION ALL
+  SELECT hour, min, max, sum, count FROM readings_hourly
+  WHERE tank_id = $1 AND metric = $2 AND hour >= $9::timestamptz AND hour < $10::timestamptz
+  UNION ALL
+  SELECT hour, min, max, sum, count FROM readings_hourly
+  WHERE tank_id = $1 AND metric = $2 AND hour >= $11::timestamptz AND hour < $12::timestamptz
+  UNION ALL
+  SELECT day, min, max, sum, count FROM readings_daily
+  WHERE tank_id = $1 AND metric = $2 AND day >= $13::timestamptz AND day < $14::timestamptz
 )
-SELECT date_bin($5::integer * interval '1 second', t, $6::timestamptz) AS bucket,
+SELECT date_bin($3::integer * interval '1 second', t, $4::timestamptz) AS bucket,
        min(lo) AS min, sum(total) / sum(n) AS mean, max(hi) AS max, sum(n) AS count
 FROM samples
 GROUP BY bucket
@@ -133,15 +175,22 @@ export const seriesService = perContext((ctx: AppContext) => {
         to: q.to.toISOString(),
       }
       const range = [tankId, q.metric, q.from, q.to]
-      const [counted] = await select<{ raw: number; rolled_up: boolean }>(COUNT_SQL, [...range, q.points + 1])
-      if (!counted.rolled_up && counted.raw <= q.points) {
+      const [state] = await select<StateRow>(STATE_SQL, [...range, q.points + 1])
+      const rawComplete = q.from.getTime() >= instantMs(state.raw_kept_from)
+      if (rawComplete && state.raw <= q.points) {
         const rows = await select<RawRow>(RAW_SQL, range)
         const raw = rows.map((r) => ({ t: r.time.toISOString(), value: r.value, source: r.source }))
         return { ...head, bucketSeconds: 0, points: [], raw }
       }
-      // Rolled-up hours cannot be split, so a range reaching into them is shown in hours or longer.
-      const bucketSeconds = chooseBucketSeconds(q.from, q.to, q.points, counted.rolled_up ? HOUR : 1)
-      const rows = await select<BucketRow>(BUCKETS_SQL, [...range, bucketSeconds, BUCKET_ORIGIN])
+      // Where raw rows are gone, hours are the finest thing left, and they cannot be split.
+      const bucketSeconds = chooseBucketSeconds(q.from, q.to, q.points, rawComplete ? 1 : HOUR)
+      const parts = readPlan(q.from.getTime(), q.to.getTime(), bucketSeconds, {
+        rolledUpBefore: state.rolled_up_before.getTime(),
+        rawKeptFrom: instantMs(state.raw_kept_from),
+      })
+      const spans = [...parts.raw, ...parts.hourly, parts.daily]
+      const bind = [tankId, q.metric, bucketSeconds, BUCKET_ORIGIN, ...spans.flatMap(([a, b]) => [new Date(a), new Date(b)])]
+      const rows = await select<BucketRow>(BUCKETS_SQL, bind)
       const points: SeriesBucket[] = rows.map((r) => ({
         t: r.bucket.toISOString(),
         min: r.min,

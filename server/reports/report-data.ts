@@ -21,16 +21,18 @@ export const REPORT_METRICS = ['temperature', 'ph'] as const
 export const REPORT_MAX_GAP_MS = 6 * 3_600_000
 
 // The last reading before the period may hold into it and the first after ends its last step.
-// Hours the retention job has rolled up count as one reading of their mean at the half hour.
+// Hours whose raw rows retention has deleted count as one reading of their mean at the half hour
+// (rollups also hold the hours still kept raw: migration 202612051200).
+const KEPT = '(SELECT raw_kept_from FROM readings_rollup_state)'
 const READINGS_SQL = `
-(SELECT time, value FROM readings WHERE tank_id = $1 AND metric = $2 AND time < $3::timestamptz ORDER BY time DESC LIMIT 1)
+(SELECT time, value FROM readings WHERE tank_id = $1 AND metric = $2 AND time < $3::timestamptz AND time >= ${KEPT} ORDER BY time DESC LIMIT 1)
 UNION ALL
-(SELECT time, value FROM readings WHERE tank_id = $1 AND metric = $2 AND time >= $3::timestamptz AND time < $4::timestamptz)
+(SELECT time, value FROM readings WHERE tank_id = $1 AND metric = $2 AND time >= $3::timestamptz AND time < $4::timestamptz AND time >= ${KEPT})
 UNION ALL
-(SELECT time, value FROM readings WHERE tank_id = $1 AND metric = $2 AND time >= $4::timestamptz ORDER BY time LIMIT 1)
+(SELECT time, value FROM readings WHERE tank_id = $1 AND metric = $2 AND time >= $4::timestamptz AND time >= ${KEPT} ORDER BY time LIMIT 1)
 UNION ALL
 (SELECT hour + interval '30 minutes', sum / count FROM readings_hourly
-  WHERE tank_id = $1 AND metric = $2 AND hour >= $3::timestamptz - interval '1 hour' AND hour < $4::timestamptz)`
+  WHERE tank_id = $1 AND metric = $2 AND hour >= $3::timestamptz - interval '1 hour' AND hour < $4::timestamptz AND hour < ${KEPT})`
 
 async function metricReadings(ctx: AppContext, tankId: number, metric: string, from: number, to: number): Promise<TimedValue[]> {
   const rows = await ctx.sequelize.query<{ time: Date; value: number }>(READINGS_SQL, {

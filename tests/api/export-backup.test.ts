@@ -49,7 +49,9 @@ async function buildOrganization() {
   await insertRow(t.ctx, 'livestock', { organization_id: o, tank_id: tank2, species_key: 'zebra_danio', name: 'Zebra danio', category: 'fish', count: 8, added_at: '2026-06-20T10:00:00Z', created_by: keeper })
   const entry = await insertRow(t.ctx, 'test_kit_entries', { organization_id: o, tank_id: tank, entered_by: keeper, taken_at: '2026-07-01T08:00:00Z', values: JSON.stringify([{ metric: 'ph', value: 7.1 }]) })
   await insertRow(t.ctx, 'test_kit_entry_revisions', { entry_id: entry, action: 'edit', changed_by: keeper, snapshot: JSON.stringify({ values: [{ metric: 'ph', value: 7.2 }] }) })
-  await insertRow(t.ctx, 'readings_hourly', { tank_id: tank, metric: 'temperature', hour: '2026-07-01T12:00:00Z', min: 25, max: 29.2, sum: 1620.4, count: 60 })
+  // An hour whose raw rows retention has deleted: raw rows are kept from 1 July on.
+  await t.ctx.sequelize.query("UPDATE readings_rollup_state SET raw_kept_from = '2026-07-01T00:00:00Z'")
+  await insertRow(t.ctx, 'readings_hourly', { tank_id: tank, metric: 'temperature', hour: '2026-06-30T12:00:00Z', min: 25, max: 29.2, sum: 1620.4, count: 60 })
   await insertReading(t.ctx, { tankId: tank, metric: 'temperature', time: '2026-07-01T12:00:00.123Z', value: 25.1, source: 'device', sourceKey: `d:${device}` })
   await insertReading(t.ctx, { tankId: tank, metric: 'ph', time: '2026-07-01T08:00:00Z', value: 7.1, source: 'test_kit', sourceKey: `k:${entry}` })
   await insertReading(t.ctx, { tankId: tank2, metric: 'temperature', time: '2026-07-01T08:00:00Z', value: 0.1 + 0.2, source: 'import', sourceKey: 'i:7' })

@@ -98,19 +98,21 @@ describe('rollUpAndPrune', () => {
     expect(retentionCutoff({ rawRetentionDays: 7, now: NOW }).toISOString()).toBe('2026-11-13T12:00:00.000Z')
   })
 
-  it('stores hourly rollups equal to a plain aggregation and deletes the rolled-up raw rows', async () => {
+  it('holds every past reading in its hour already, and deletes only the raw rows before the cutoff', async () => {
     const cutoff = Date.parse('2026-11-13T12:00:00Z')
     const old = original.filter((r) => r.t < cutoff)
-    const expected = aggregate(old, hourKey)
     // Three days of minute readings, and two kit hours (two pH readings share one hour).
     expect(old.length).toBe(3 * 24 * 60 + 3)
-    expect(expected.size).toBe(3 * 24 + 2)
+    // These readings are weeks older than the real clock: written into closed hours, they were merged on insert.
+    expectSameAggregates(await rollups(), aggregate(original, hourKey))
 
     const result = await retentionService(t.ctx).rollUpAndPrune({ rawRetentionDays: 7, now: NOW })
-    expect(result).toEqual({ rolledUpHours: expected.size, deletedRows: old.length })
-    expectSameAggregates(await rollups(), expected)
+    expect(result).toEqual({ rolledUpHours: 0, deletedRows: old.length })
+    expectSameAggregates(await rollups(), aggregate(original, hourKey))
     expect((await rollups()).get(`${kitTankId}|ph|2026-11-11T09:00:00.000Z`)).toEqual({ min: 7.2, max: 7.6, sum: 7.2 + 7.6, count: 2 })
     expect(await readingsNow()).toEqual(original.filter((r) => r.t >= cutoff))
+    const [state] = await t.ctx.sequelize.query<{ raw_kept_from: Date }>('SELECT raw_kept_from FROM readings_rollup_state', { type: QueryTypes.SELECT })
+    expect(state.raw_kept_from.toISOString()).toBe('2026-11-13T12:00:00.000Z')
   })
 
   it('changes nothing when run again', async () => {
@@ -121,10 +123,10 @@ describe('rollUpAndPrune', () => {
     expect(await readingsNow()).toEqual(rawBefore)
   })
 
-  it('merges a back-dated reading into its already rolled-up hour instead of replacing it', async () => {
+  it('merges a back-dated reading into its already rolled-up hour, and pruning it changes nothing', async () => {
     await insertRow('k:5', 'temperature', '2026-11-11T03:20:00Z', tankId, 31)
     original.push({ tankId, metric: 'temperature', t: Date.parse('2026-11-11T03:20:00Z'), value: 31 })
-    expect(await retentionService(t.ctx).rollUpAndPrune({ rawRetentionDays: 7, now: NOW })).toEqual({ rolledUpHours: 1, deletedRows: 1 })
+    expect(await retentionService(t.ctx).rollUpAndPrune({ rawRetentionDays: 7, now: NOW })).toEqual({ rolledUpHours: 0, deletedRows: 1 })
     const hour = original.filter((r) => r.metric === 'temperature' && r.t >= Date.parse('2026-11-11T03:00:00Z') && r.t < Date.parse('2026-11-11T04:00:00Z'))
     expect(hour.length).toBe(61)
     const [[, expected]] = aggregate(hour, hourKey)
