@@ -7,6 +7,7 @@ import { BACKUP_FORMAT, BACKUP_FORMAT_VERSION } from '@shared/schemas/exports'
 import { BACKUP_TABLES, READING_COLUMNS, type BackupTable } from './backup-tables'
 import { eachBatch, snapshot } from './cursor'
 import { exportFileName } from './format'
+import { BACKUP_READINGS_SQL } from '../readings/repository-bulk'
 
 /** Told to whoever opens the file, and to whoever restores it. */
 export const RESTORE_NOTES = [
@@ -68,10 +69,7 @@ export function backupExportService(ctx: AppContext) {
         await eachBatch<{ row: unknown[] }>(
           sequelize,
           transaction,
-          `SELECT json_build_array(r.tank_id, r.metric, r.time, r.value, r.source, r.source_key) AS row
-           FROM readings r JOIN tanks t ON t.id = r.tank_id
-           WHERE t.organization_id = :organizationId
-           ORDER BY r.tank_id, r.metric, r.time, r.source_key`,
+          BACKUP_READINGS_SQL,
           { organizationId },
           async (rows) => {
             const text = rows.map((r) => JSON.stringify(r.row)).join(',')

@@ -1,4 +1,4 @@
-import { Op, QueryTypes } from 'sequelize'
+import { Op } from 'sequelize'
 import { causeOf } from '@shared/rules/cause'
 import { evaluate, replay } from '@shared/rules/evaluate'
 import { windowCovers, type MaintenanceSpan } from '@shared/rules/maintenance'
@@ -7,6 +7,7 @@ import type { RuleContext, RuleEvent, RuleState } from '@shared/rules/types'
 import { initialRuleState } from '@shared/rules/types'
 import type { AppContext } from '../context'
 import type { StoredReading } from '../platform/events'
+import { windowOfTanks } from '../readings/repository'
 import { RANK } from './incident-kit'
 import { DEFAULT_SETTLE_MINUTES, type IncidentsService } from './incidents'
 import { rulesService } from './watch-rules'
@@ -197,10 +198,7 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
       byMetric.set(metric, entry)
     }
     for (const [metric, { tankIds, ms }] of byMetric) {
-      const rows = await ctx.sequelize.query<{ tank_id: number; time: Date; value: number }>(
-        `SELECT tank_id, time, value FROM readings WHERE metric = $1 AND tank_id = ANY($2) AND time >= $3 AND time <= $4 ORDER BY tank_id, time`,
-        { bind: [metric, tankIds, new Date(t - ms), new Date(t)], type: QueryTypes.SELECT },
-      )
+      const rows = await windowOfTanks(ctx.sequelize, metric, tankIds, new Date(t - ms), new Date(t))
       for (const r of rows) {
         const k = `${r.tank_id}:${metric}`
         const list = history.get(k) ?? []

@@ -5,6 +5,7 @@ import type { AppContext } from '../context'
 import { badRequest, forbidden, notFound } from '../platform/errors'
 import { insertReadings, type ReadingRow } from '../readings/batch-writer'
 import { checkReading } from '../readings/validate-readings'
+import { deleteReadingsOfSource } from '../readings/repository-bulk'
 import type { TestKitEntry } from '../models'
 import { visibleTank } from '../access/scope'
 
@@ -91,7 +92,7 @@ export function testKitService(ctx: AppContext) {
       const rows = toRows(entry.id, entry.tankId, input, takenAt)
       const stored = await sequelize.transaction(async (transaction) => {
         await models.TestKitEntryRevision.create({ entryId: entry.id, action: 'edit', changedBy: actor.userId, snapshot: snapshot(entry) }, { transaction })
-        await sequelize.query('DELETE FROM readings WHERE source_key = $1', { bind: [sourceKey(entry.id)], transaction })
+        await deleteReadingsOfSource(sequelize, sourceKey(entry.id), transaction)
         await entry.update({ takenAt, values: input.values, notes: input.notes }, { transaction })
         return insertReadings(sequelize, rows, transaction)
       })
@@ -104,7 +105,7 @@ export function testKitService(ctx: AppContext) {
       const entry = await findOwn(actor, id)
       await sequelize.transaction(async (transaction) => {
         await models.TestKitEntryRevision.create({ entryId: entry.id, action: 'delete', changedBy: actor.userId, snapshot: snapshot(entry) }, { transaction })
-        await sequelize.query('DELETE FROM readings WHERE source_key = $1', { bind: [sourceKey(entry.id)], transaction })
+        await deleteReadingsOfSource(sequelize, sourceKey(entry.id), transaction)
         await entry.update({ deletedAt: new Date() }, { transaction })
       })
     },
