@@ -2,7 +2,7 @@ import { Op } from 'sequelize'
 import { causeOf } from '@shared/rules/cause'
 import { evaluate, replay } from '@shared/rules/evaluate'
 import { windowCovers, type MaintenanceSpan } from '@shared/rules/maintenance'
-import { metricOfSpec } from '@shared/rules/schema'
+import { kindOf, metricOfSpec } from '@shared/rules/kinds'
 import type { RuleContext, RuleEvent, RuleState } from '@shared/rules/types'
 import { initialRuleState } from '@shared/rules/types'
 import type { AppContext } from '../context'
@@ -41,11 +41,9 @@ const RECHECK_MIN_MS = 5 * 60_000
 const settleMsOf = (rule: EngineRule) => (rule.spec.settleMinutes ?? DEFAULT_SETTLE_MINUTES) * 60_000
 const recheckMsOf = (rule: EngineRule) => Math.max('holdMinutes' in rule.spec ? rule.spec.holdMinutes * 60_000 : 0, RECHECK_MIN_MS)
 
-/** How far back a rule needs stored readings to rebuild its state. */
+/** How far back a rule needs stored readings to rebuild its state (its kind says; an unknown kind throws). */
 function lookbackMs(rule: EngineRule): number {
-  const s = rule.spec
-  const minutes = s.kind === 'rate' ? s.windowMinutes : s.kind === 'quiet' ? s.quietMinutes : 'holdMinutes' in s ? s.holdMinutes : 0
-  return minutes * 60_000 + LOOKBACK_PAD_MS
+  return kindOf(rule.spec).lookbackMinutes(rule.spec) * 60_000 + LOOKBACK_PAD_MS
 }
 
 /**
