@@ -39,6 +39,20 @@ export interface ConditionWords {
   minutes(minutes: number): string
 }
 
+/** What incident words need: values at the metric's display precision (see shared/rules/measurement.ts). */
+export interface MeasureWords {
+  /** "temperature"; "pH" keeps its capitals. */
+  metric(metric: string): string
+  /** A measured value as measured, with its unit: "23.0 °C". */
+  measured(metric: string, value: number): string
+  /** A limit without trailing zeros, with its unit: "22 °C". */
+  limit(metric: string, value: number): string
+  /** A limit's number alone: "10". */
+  number(metric: string, value: number): string
+  /** "15 min", "2 h". */
+  minutes(minutes: number): string
+}
+
 // Methods rather than function properties: an entry of one kind then serves where any kind's is asked for.
 export interface KindEntry<K extends WatchRuleKind = WatchRuleKind> {
   /** The form's choice: "Above a limit". */
@@ -59,6 +73,11 @@ export interface KindEntry<K extends WatchRuleKind = WatchRuleKind> {
   ticksMatter: 'always' | 'unless-clear' | 'never'
   /** The condition in plain words, without the severity. */
   describe(spec: SpecOfKind<K>, words: ConditionWords): string
+  /**
+   * What an incident measured, for mail, tile and timeline: "temperature 23.5 °C, above 10–22 °C".
+   * `value` is the compared quantity (see RuleEvent), finite; `heaterTopCm` the tank's heater top.
+   */
+  measure(spec: SpecOfKind<K>, metric: string, value: number, words: MeasureWords, heaterTopCm?: number): string
 }
 
 const HOLD: FormField<'holdMinutes'> = {
@@ -87,6 +106,7 @@ export const KINDS = {
     fields: [{ key: 'limit', label: 'Upper limit', suffix: 'metric', initial: '', line: 1 }, HOLD, clearMargin('metric')],
     describe: (s, w) =>
       `${w.metric(s.metric)} is above ${w.value(s.metric, s.limit)}${forHold(s.holdMinutes, w)}; clears below ${w.value(s.metric, s.limit - s.clearMargin)}`,
+    measure: (s, metric, value, w) => `${w.metric(metric)} ${w.measured(metric, value)}, above ${w.limit(metric, s.limit)}`,
   },
   below: {
     ...level,
@@ -94,6 +114,7 @@ export const KINDS = {
     fields: [{ key: 'limit', label: 'Lower limit', suffix: 'metric', initial: '', line: 1 }, HOLD, clearMargin('metric')],
     describe: (s, w) =>
       `${w.metric(s.metric)} is below ${w.value(s.metric, s.limit)}${forHold(s.holdMinutes, w)}; clears above ${w.value(s.metric, s.limit + s.clearMargin)}`,
+    measure: (s, metric, value, w) => `${w.metric(metric)} ${w.measured(metric, value)}, below ${w.limit(metric, s.limit)}`,
   },
   outside: {
     ...level,
@@ -108,6 +129,11 @@ export const KINDS = {
       const band = `${w.value(s.metric, s.min)} – ${w.value(s.metric, s.max)}`
       const inner = `${w.value(s.metric, s.min + s.clearMargin)} – ${w.value(s.metric, s.max - s.clearMargin)}`
       return `${w.metric(s.metric)} is outside ${band}${forHold(s.holdMinutes, w)}; clears back inside ${inner}`
+    },
+    measure: (s, metric, value, w) => {
+      const band = `${w.number(metric, s.min)}–${w.limit(metric, s.max)}`
+      const side = value > s.max ? 'above' : value < s.min ? 'below' : 'back inside'
+      return `${w.metric(metric)} ${w.measured(metric, value)}, ${side} ${metric === 'ph' ? `pH ${band}` : band}`
     },
   },
   rate: {
@@ -124,6 +150,7 @@ export const KINDS = {
     // A rate rule judges readings only.
     ticksMatter: 'never',
     describe: (s, w) => `${w.metric(s.metric)} changes by more than ${w.change(s.metric, s.maxChange)} within ${w.minutes(s.windowMinutes)}`,
+    measure: (s, metric, value, w) => `${w.metric(metric)} ${value < 0 ? 'fell' : 'rose'} ${w.measured(metric, Math.abs(value))} in ${w.minutes(s.windowMinutes)}`,
   },
   quiet: {
     label: 'No readings',
@@ -135,6 +162,8 @@ export const KINDS = {
     asksMissingReading: false,
     ticksMatter: 'always',
     describe: (s, w) => `no ${w.metric(s.metric)} reading arrives for ${w.minutes(s.quietMinutes)}`,
+    // The compared quantity is the minutes of silence.
+    measure: (_s, metric, value, w) => `no ${w.metric(metric)} reading for ${w.minutes(value)}`,
   },
   heater_line: {
     ...level,
@@ -149,6 +178,13 @@ export const KINDS = {
       const where = s.marginCm > 0 ? `is within ${cm(s.marginCm)} of the heater top or lower` : 'is at or below the heater top'
       return `the water level ${where}${forHold(s.holdMinutes, w)}; clears once it is more than ${cm(s.marginCm + s.clearMargin)} above the heater top`
     },
+    measure: (_s, _metric, value, w, heaterTopCm) => {
+      const level = `water level ${w.measured('water_level', value)}`
+      if (heaterTopCm === undefined) return level
+      const top = `the heater top (${w.limit('water_level', heaterTopCm)})`
+      const gap = value - heaterTopCm
+      return gap <= 0 ? `${level}, at or below ${top}` : `${level}, ${w.limit('water_level', gap)} above ${top}`
+    },
   },
   light_schedule: {
     ...level,
@@ -159,6 +195,7 @@ export const KINDS = {
     ticksMatter: 'always',
     describe: (s, w) =>
       `the light is on when the schedule says off, or off when it says on, for ${w.minutes(s.holdMinutes)} (on means at least ${Number(s.onLux.toFixed(1))} lux)`,
+    measure: (_s, _metric, value, w) => `light ${w.measured('light', value)}, off its schedule`,
   },
 } satisfies { [K in WatchRuleKind]: KindEntry<K> }
 

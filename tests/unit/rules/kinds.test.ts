@@ -59,13 +59,16 @@ describe('the kinds table', () => {
       expect(entry.lookbackMinutes(spec)).toBe(longest)
     })
 
-    it('evaluates and describes a spec of its kind', () => {
+    it('evaluates, describes and measures a spec of its kind', () => {
       const spec = formSpec(kind)
       const result = replay(spec, [{ at: 0, value: 1 }], 60_000, { heaterTopCm: 10, isScheduledOn: () => true })
       expect(['clear', 'holding', 'tripped']).toContain(result.state.status)
       const words = entry.describe(spec, plainWords)
       expect(words).not.toMatch(/undefined|NaN/)
       expect(words.length).toBeGreaterThan(10)
+      const measured = entry.measure(spec, 'temperature', 12.5, { metric: (m) => m, measured: (m, v) => `${v} ${m}`, limit: (m, v) => `${v} ${m}`, number: String, minutes: (n) => `${n} min` }, 10)
+      expect(measured).not.toMatch(/undefined|NaN/)
+      expect(measured).toMatch(/12\.5|2\.5/)
     })
   })
 })
