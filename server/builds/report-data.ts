@@ -1,12 +1,12 @@
 // The build report: what went into the tank, the steps with their dates, the readings through
 // cycling, photos, livestock and the care plan that follows, as data the PDF and the mail render.
-import { QueryTypes } from 'sequelize'
 import { formatLocalDate, localDateAt } from '@shared/roster/zoned-time'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { buildsService } from './builds'
 import { photosInPeriod } from '../photos'
 import { visibleTank } from '../access/scope'
+import { kitRowsBetween } from '../readings'
 
 const REPORT_METRICS = ['temperature', 'ph', 'ammonia', 'nitrite', 'nitrate'] as const
 const MAX_TESTS = 60
@@ -21,11 +21,7 @@ export async function loadBuildReport(ctx: AppContext, actor: UserActor, tankId:
   const from = build.filledOn ? new Date(`${build.filledOn}T00:00:00Z`).getTime() - 86_400_000 : now.getTime()
   const cycledAt = build.steps.find((s) => s.key === 'cycling')?.doneAt
   const until = cycledAt ? Date.parse(cycledAt) : now.getTime()
-  const rows = await ctx.sequelize.query<{ sourceKey: string; time: Date; metric: string; value: number }>(
-    `SELECT source_key AS "sourceKey", time, metric, value FROM readings
-     WHERE tank_id = $1 AND source_key LIKE 'k:%' AND metric = ANY($2) AND time >= $3 AND time <= $4 ORDER BY time`,
-    { bind: [tank.id, [...REPORT_METRICS], new Date(from), new Date(until)], type: QueryTypes.SELECT },
-  )
+  const rows = await kitRowsBetween(ctx.sequelize, tank.id, [...REPORT_METRICS], new Date(from), new Date(until))
   const tests = new Map<string, { at: string; values: Record<string, number> }>()
   for (const r of rows) {
     const key = `${r.sourceKey}@${new Date(r.time).getTime()}`

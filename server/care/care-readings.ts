@@ -1,16 +1,12 @@
-import { QueryTypes } from 'sequelize'
 import type { AppContext } from '../context'
 import type { Tank } from '../models'
+import { newestReadingAfter, nitrogenRows, type KitRow } from '../readings'
 
 const HOUR_MS = 3600_000
 
 /** The tank's newest reading of `metric` no older than `maxAgeMs`, from any source. */
 export async function latestReading(ctx: AppContext, tankId: number, metric: string, maxAgeMs: number) {
-  const rows = await ctx.sequelize.query<{ value: number; time: Date }>(
-    `SELECT value, time FROM readings WHERE tank_id = $1 AND metric = $2 AND time > $3 ORDER BY time DESC LIMIT 1`,
-    { bind: [tankId, metric, new Date(Date.now() - maxAgeMs)], type: QueryTypes.SELECT },
-  )
-  return rows[0] ?? null
+  return newestReadingAfter(ctx.sequelize, tankId, metric, new Date(Date.now() - maxAgeMs))
 }
 
 /** The tank's temperature now: a reading of the last hour, else the heater's set point, else the target's middle. */
@@ -30,13 +26,9 @@ export async function tankPh(ctx: AppContext, tank: Tank) {
   return band ? { value: (band.min + band.max) / 2, source: 'target' as const } : null
 }
 
-export type KitRow = { sourceKey: string; time: Date; metric: string; value: number }
+export type { KitRow }
 
 /** Ammonia, nitrite and nitrate readings since `since`, oldest first. */
 export async function nitrogenReadings(ctx: AppContext, tankId: number, since: Date): Promise<KitRow[]> {
-  return ctx.sequelize.query<KitRow>(
-    `SELECT source_key AS "sourceKey", time, metric, value FROM readings
-     WHERE tank_id = $1 AND metric IN ('ammonia', 'nitrite', 'nitrate') AND time >= $2 ORDER BY time`,
-    { bind: [tankId, since], type: QueryTypes.SELECT },
-  )
+  return nitrogenRows(ctx.sequelize, tankId, since)
 }

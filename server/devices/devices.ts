@@ -1,4 +1,4 @@
-import { Op, QueryTypes } from 'sequelize'
+import { Op } from 'sequelize'
 import { isDeviceQuiet, type DeviceInput, type PublicDevice } from '@shared/schemas/devices'
 import type { MetricKey } from '@shared/metrics/registry'
 import type { Actor } from '../access/actor'
@@ -9,6 +9,7 @@ import type { Device } from '../models'
 import { newDeviceToken } from './device-tokens'
 import { visibleTank } from '../access/scope'
 import { perContext } from '../platform/per-context'
+import { countsBySourceKey } from '../readings'
 
 export const devicesService = perContext((ctx: AppContext) => {
   const { models, sequelize } = ctx
@@ -16,12 +17,8 @@ export const devicesService = perContext((ctx: AppContext) => {
 
   async function readingsSince(deviceIds: number[], since: Date) {
     if (!deviceIds.length) return new Map<number, number>()
-    const rows = await sequelize.query<{ source_key: string; n: number }>(
-      `SELECT source_key, count(*)::int AS n FROM readings
-        WHERE source_key = ANY($keys) AND time >= $since GROUP BY source_key`,
-      { bind: { keys: deviceIds.map((id) => `d:${id}`), since }, type: QueryTypes.SELECT },
-    )
-    return new Map(rows.map((r) => [Number(r.source_key.slice(2)), r.n]))
+    const counts = await countsBySourceKey(sequelize, deviceIds.map((id) => `d:${id}`), since)
+    return new Map([...counts].map(([key, n]) => [Number(key.slice(2)), n]))
   }
 
   function publicDevice(d: Device, readingsToday: number): PublicDevice {

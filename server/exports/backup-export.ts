@@ -8,6 +8,7 @@ import { BACKUP_TABLES, READING_COLUMNS, type BackupTable } from './backup-table
 import { eachBatch, snapshot } from './cursor'
 import { exportFileName } from './format'
 import { perContext } from '../platform/per-context'
+import { BACKUP_READINGS_SQL } from '../readings'
 
 /** Told to whoever opens the file, and to whoever restores it. */
 export const RESTORE_NOTES = [
@@ -69,12 +70,7 @@ export const backupExportService = perContext((ctx: AppContext) => {
         await eachBatch<{ row: unknown[] }>(
           sequelize,
           transaction,
-          `SELECT json_build_array(r.tank_id, r.metric, r.time, r.value, r.source, r.source_key) AS row
-           FROM readings r JOIN tanks t ON t.id = r.tank_id
-           WHERE t.organization_id = :organizationId
-             -- An older raw row (late, not yet pruned) is in the exported hours already.
-             AND r.time >= (SELECT raw_kept_from FROM readings_rollup_state)
-           ORDER BY r.tank_id, r.metric, r.time, r.source_key`,
+          BACKUP_READINGS_SQL,
           { organizationId },
           async (rows) => {
             const text = rows.map((r) => JSON.stringify(r.row)).join(',')

@@ -8,6 +8,7 @@ import { AppError, badRequest, conflict, fromZod } from '../platform/errors'
 import { BACKUP_FORMAT, BACKUP_FORMAT_VERSION } from '@shared/schemas/exports'
 import { BACKUP_TABLES, readingTupleSchema, referenceOf, rowSchema, type BackupTable } from './backup-tables'
 import { perContext } from '../platform/per-context'
+import { insertRestoredReadings } from '../readings'
 
 const READING_CHUNK = 5000
 type Row = Record<string, unknown>
@@ -228,17 +229,10 @@ export const backupImportService = perContext((ctx: AppContext) => {
     }
     for (let start = 0; start < readings.length; start += READING_CHUNK) {
       const chunk = readings.slice(start, start + READING_CHUNK)
-      await sequelize.query(
-        `INSERT INTO readings (tank_id, metric, time, value, source, source_key)
-         SELECT * FROM unnest($1::integer[], $2::text[], $3::timestamptz[], $4::double precision[], $5::text[], $6::text[])`,
-        {
-          bind: [
-            chunk.map((r) => tanks.get(r[0])), chunk.map((r) => r[1]), chunk.map((r) => r[2]),
-            chunk.map((r) => r[3]), chunk.map((r) => r[4]), chunk.map((r) => sourceKey(r[5])),
-          ],
-          transaction,
-        },
-      )
+      await insertRestoredReadings(sequelize, {
+        tankIds: chunk.map((r) => tanks.get(r[0])), metrics: chunk.map((r) => r[1]), times: chunk.map((r) => r[2]),
+        values: chunk.map((r) => r[3]), sources: chunk.map((r) => r[4]), sourceKeys: chunk.map((r) => sourceKey(r[5])),
+      }, transaction)
     }
   }
 })

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { instantSchema } from '@shared/schemas/time'
+import { ROLLUP_BACKUP_TABLES } from '../readings'
 
 /**
  * What an organization backup holds, table by table, in the order a restore inserts them.
@@ -153,14 +154,7 @@ export const BACKUP_TABLES = [
     scope: 'entry_id IN (SELECT id FROM test_kit_entries WHERE organization_id = :organizationId)',
     columns: { entry_id: '->test_kit_entries', action: 'text', changed_by: '->users?', snapshot: 'json' },
   },
-  // The hours whose raw rows retention deleted; with the raw rows kept (backup-export.ts) they are
-  // every reading once. The other rollups (hours still kept raw, readings_daily) are derived: restore
-  // rebuilds them from these rows and the readings (triggers of migration 202612051200).
-  {
-    table: 'readings_hourly', hasId: false, order: 'tank_id, metric, hour',
-    scope: 'tank_id IN (SELECT id FROM tanks WHERE organization_id = :organizationId) AND hour < (SELECT raw_kept_from FROM readings_rollup_state)',
-    columns: { tank_id: '->tanks', metric: 'text', hour: 'time', min: 'float', max: 'float', sum: 'float', count: 'int' },
-  },
+  ...ROLLUP_BACKUP_TABLES,
 ] as const satisfies readonly BackupTable[]
 
 /** Readings are many: one array per row, in this column order. */

@@ -4,6 +4,7 @@ import { notFound } from '../platform/errors'
 import { METRICS, isMetricKey } from '@shared/metrics'
 import type { ExportKind, ExportRangeQuery } from '@shared/schemas/exports'
 import { canSeeSite } from '../access/scope'
+import { readingsCsvSql, type ReadingCsvRow } from '../readings'
 import { eachBatch, snapshot } from './cursor'
 import { exportFileName, zonedFormatter } from './format'
 import { perContext } from '../platform/per-context'
@@ -22,7 +23,6 @@ const SOURCE_LABELS: Record<string, string> = { test_kit: 'test kit', import: 'i
 
 const unitOf = (metric: string) => (isMetricKey(metric) ? METRICS[metric].unit : '')
 
-type ReadingRow = { time: Date; tank: string; metric: string; value: number; source: string; device: string | null }
 type IncidentRow = {
   opened_at: Date; tank: string; title: string; metric: string; severity: string; state: string
   first_value: number | null; peak_value: number | null; acknowledged_at: Date | null; acknowledged_by: string | null
@@ -34,14 +34,8 @@ type CareLogRow = { at: Date; tank: string; kind: string; text: string; by: stri
 const EXPORTS: Record<ExportKind, { header: string[]; sql: (where: string) => string; cells: (row: never, time: (d: Date | null) => string) => CsvCell[] }> = {
   readings: {
     header: ['time', 'tank', 'metric', 'value', 'unit', 'source'],
-    sql: (where) => `
-      SELECT r.time, t.name AS tank, r.metric, r.value, r.source, d.name AS device
-      FROM readings r
-      JOIN tanks t ON t.id = r.tank_id
-      LEFT JOIN devices d ON r.source = 'device' AND r.source_key = 'd:' || d.id
-      WHERE ${where} AND r.time >= :from AND r.time < :to
-      ORDER BY r.time, t.name, t.id, r.metric, r.source_key`,
-    cells: (row: ReadingRow, time) => [
+    sql: readingsCsvSql,
+    cells: (row: ReadingCsvRow, time) => [
       time(row.time), row.tank, row.metric, row.value, unitOf(row.metric),
       row.source === 'device' ? (row.device ?? 'device') : (SOURCE_LABELS[row.source] ?? row.source),
     ],

@@ -1,12 +1,13 @@
-import { Op, QueryTypes } from 'sequelize'
+import { Op } from 'sequelize'
 import { causeOf } from '@shared/rules/cause'
 import { evaluate, replay } from '@shared/rules/evaluate'
 import { windowCovers, type MaintenanceSpan } from '@shared/rules/maintenance'
-import { metricOfSpec } from '@shared/rules/schema'
+import { kindOf, metricOfSpec } from '@shared/rules/kinds'
 import type { RuleContext, RuleEvent, RuleState } from '@shared/rules/types'
 import { initialRuleState } from '@shared/rules/types'
 import type { AppContext } from '../context'
 import type { StoredReading } from '../platform/events'
+import { windowOfTanks } from '../readings'
 import { RANK } from './incident-kit'
 import { DEFAULT_SETTLE_MINUTES, type IncidentsService } from './incidents'
 import { rulesService } from './watch-rules'
@@ -40,11 +41,9 @@ const RECHECK_MIN_MS = 5 * 60_000
 const settleMsOf = (rule: EngineRule) => (rule.spec.settleMinutes ?? DEFAULT_SETTLE_MINUTES) * 60_000
 const recheckMsOf = (rule: EngineRule) => Math.max('holdMinutes' in rule.spec ? rule.spec.holdMinutes * 60_000 : 0, RECHECK_MIN_MS)
 
-/** How far back a rule needs stored readings to rebuild its state. */
+/** How far back a rule needs stored readings to rebuild its state (its kind says; an unknown kind throws). */
 function lookbackMs(rule: EngineRule): number {
-  const s = rule.spec
-  const minutes = s.kind === 'rate' ? s.windowMinutes : s.kind === 'quiet' ? s.quietMinutes : 'holdMinutes' in s ? s.holdMinutes : 0
-  return minutes * 60_000 + LOOKBACK_PAD_MS
+  return kindOf(rule.spec).lookbackMinutes(rule.spec) * 60_000 + LOOKBACK_PAD_MS
 }
 
 /**
@@ -197,10 +196,7 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
       byMetric.set(metric, entry)
     }
     for (const [metric, { tankIds, ms }] of byMetric) {
-      const rows = await ctx.sequelize.query<{ tank_id: number; time: Date; value: number }>(
-        `SELECT tank_id, time, value FROM readings WHERE metric = $1 AND tank_id = ANY($2) AND time >= $3 AND time <= $4 ORDER BY tank_id, time`,
-        { bind: [metric, tankIds, new Date(t - ms), new Date(t)], type: QueryTypes.SELECT },
-      )
+      const rows = await windowOfTanks(ctx.sequelize, metric, tankIds, new Date(t - ms), new Date(t))
       for (const r of rows) {
         const k = `${r.tank_id}:${metric}`
         const list = history.get(k) ?? []

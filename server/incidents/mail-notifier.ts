@@ -11,6 +11,7 @@ import { ackLinksService } from './ack-links'
 import { dutyRecipients } from '../roster'
 import type { IncidentNotifier, NotifyKind, NotifyOptions } from './notifier'
 import { firstStep, needsElectricalCaution, whatToCheck } from './what-to-check'
+import { recentValues } from '../readings'
 
 type Person = { userId: number | null; name: string; email: string }
 
@@ -63,10 +64,7 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
   }
 
   async function trend(incident: Incident, transaction: Transaction) {
-    const rows = await sequelize.query<{ time: Date; value: number }>(
-      `SELECT time, value FROM readings WHERE tank_id = $1 AND metric = $2 AND time >= $3 ORDER BY time LIMIT 5000`,
-      { bind: [incident.tankId, incident.metric, new Date(Date.now() - 6 * 3600_000)], type: QueryTypes.SELECT, transaction },
-    )
+    const rows = await recentValues(sequelize, incident.tankId, incident.metric, new Date(Date.now() - 6 * 3600_000), transaction)
     return rows.map((r) => [r.time.getTime(), r.value] as [number, number])
   }
 

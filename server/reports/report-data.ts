@@ -1,5 +1,5 @@
 // What one tank's report is made of, read from the stored records of the period.
-import { Op, QueryTypes } from 'sequelize'
+import { Op } from 'sequelize'
 import { METRICS } from '@shared/metrics/registry'
 import { tallyCareTask } from '@shared/report/care'
 import type { ReportPeriod } from '@shared/report/period'
@@ -10,6 +10,7 @@ import type { ReportCareTask, ReportIncident, ReportLivestockChange, ReportMetri
 import type { AppContext } from '../context'
 import type { Tank } from '../models'
 import { photosInPeriod } from './report-photos'
+import { periodValues } from '../readings'
 
 export const REPORT_METRICS = ['temperature', 'ph'] as const
 
@@ -20,25 +21,9 @@ export const REPORT_METRICS = ['temperature', 'ph'] as const
  */
 export const REPORT_MAX_GAP_MS = 6 * 3_600_000
 
-// The last reading before the period may hold into it and the first after ends its last step.
-// Hours whose raw rows retention has deleted count as one reading of their mean at the half hour
-// (rollups also hold the hours still kept raw: migration 202612051200).
-const KEPT = '(SELECT raw_kept_from FROM readings_rollup_state)'
-const READINGS_SQL = `
-(SELECT time, value FROM readings WHERE tank_id = $1 AND metric = $2 AND time < $3::timestamptz AND time >= ${KEPT} ORDER BY time DESC LIMIT 1)
-UNION ALL
-(SELECT time, value FROM readings WHERE tank_id = $1 AND metric = $2 AND time >= $3::timestamptz AND time < $4::timestamptz AND time >= ${KEPT})
-UNION ALL
-(SELECT time, value FROM readings WHERE tank_id = $1 AND metric = $2 AND time >= $4::timestamptz AND time >= ${KEPT} ORDER BY time LIMIT 1)
-UNION ALL
-(SELECT hour + interval '30 minutes', sum / count FROM readings_hourly
-  WHERE tank_id = $1 AND metric = $2 AND hour >= $3::timestamptz - interval '1 hour' AND hour < $4::timestamptz AND hour < ${KEPT})`
-
 async function metricReadings(ctx: AppContext, tankId: number, metric: string, from: number, to: number): Promise<TimedValue[]> {
-  const rows = await ctx.sequelize.query<{ time: Date; value: number }>(READINGS_SQL, {
-    bind: [tankId, metric, new Date(from).toISOString(), new Date(to).toISOString()],
-    type: QueryTypes.SELECT,
-  })
+  // Hours the retention job has rolled up come back as one reading of their mean at the half hour.
+  const rows = await periodValues(ctx.sequelize, tankId, metric, new Date(from), new Date(to))
   return rows.map((r) => ({ at: new Date(r.time).getTime(), value: Number(r.value) }))
 }
 

@@ -1,4 +1,4 @@
-import { Op, QueryTypes } from 'sequelize'
+import { Op } from 'sequelize'
 import type { PublicWallCredential, WallResponse, WallTank } from '@shared/schemas/wall'
 import { compareForWall } from '@shared/tank-state'
 import { occurrenceAt } from '@shared/rules/maintenance'
@@ -14,6 +14,7 @@ import { whoIsOnDuty } from '../roster'
 import { canSeeSite } from '../access/scope'
 import { tankStatuses } from '../tanks'
 import { perContext } from '../platform/per-context'
+import { temperatureBins } from '../readings'
 
 const TREND_HOURS = 6
 const LIGHT_ON_LUX = 50
@@ -36,12 +37,7 @@ export const wallService = perContext((ctx: AppContext) => {
   }
 
   async function trends(tankIds: number[], now: number) {
-    const rows = await sequelize.query<{ tank_id: number; t: Date; value: number }>(
-      `SELECT tank_id, date_bin('15 minutes', time, TIMESTAMPTZ '2000-01-03') AS t, avg(value) AS value
-         FROM readings WHERE metric = 'temperature' AND tank_id = ANY($1) AND time >= $2
-        GROUP BY 1, 2 ORDER BY 1, 2`,
-      { bind: [tankIds, new Date(now - TREND_HOURS * 3600_000)], type: QueryTypes.SELECT },
-    )
+    const rows = await temperatureBins(sequelize, tankIds, new Date(now - TREND_HOURS * 3600_000))
     const byTank = new Map<number, WallTank['trend']>()
     for (const r of rows) {
       const list = byTank.get(r.tank_id) ?? []

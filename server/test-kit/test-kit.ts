@@ -5,6 +5,7 @@ import type { AppContext } from '../context'
 import { badRequest, forbidden, notFound } from '../platform/errors'
 import { insertReadings, type ReadingRow } from '../readings'
 import { checkReading } from '../readings'
+import { deleteReadingsOfSource } from '../readings'
 import type { TestKitEntry } from '../models'
 import { visibleTank } from '../access/scope'
 import { perContext } from '../platform/per-context'
@@ -92,7 +93,7 @@ export const testKitService = perContext((ctx: AppContext) => {
       const rows = toRows(entry.id, entry.tankId, input, takenAt)
       const stored = await sequelize.transaction(async (transaction) => {
         await models.TestKitEntryRevision.create({ entryId: entry.id, action: 'edit', changedBy: actor.userId, snapshot: snapshot(entry) }, { transaction })
-        await sequelize.query('DELETE FROM readings WHERE source_key = $1', { bind: [sourceKey(entry.id)], transaction })
+        await deleteReadingsOfSource(sequelize, sourceKey(entry.id), transaction)
         await entry.update({ takenAt, values: input.values, notes: input.notes }, { transaction })
         return insertReadings(sequelize, rows, transaction)
       })
@@ -105,7 +106,7 @@ export const testKitService = perContext((ctx: AppContext) => {
       const entry = await findOwn(actor, id)
       await sequelize.transaction(async (transaction) => {
         await models.TestKitEntryRevision.create({ entryId: entry.id, action: 'delete', changedBy: actor.userId, snapshot: snapshot(entry) }, { transaction })
-        await sequelize.query('DELETE FROM readings WHERE source_key = $1', { bind: [sourceKey(entry.id)], transaction })
+        await deleteReadingsOfSource(sequelize, sourceKey(entry.id), transaction)
         await entry.update({ deletedAt: new Date() }, { transaction })
       })
     },

@@ -1,5 +1,5 @@
 import type { WatchRuleSpec } from './schema'
-import { metricOfSpec } from './schema'
+import { metricOfSpec } from './kinds'
 
 /**
  * The kind of cause a trip points to, so that several tanks of one site tripping on the same

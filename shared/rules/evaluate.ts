@@ -1,20 +1,8 @@
-import { evaluateLevel, levelJudge } from './level'
+import { kindOf } from './kinds'
 import { missingVerdict } from './missing'
-import { evaluateQuiet } from './quiet'
-import { evaluateRate } from './rate'
 import type { WatchRuleSpec } from './schema'
 import { initialRuleState } from './types'
 import type { EvaluationResult, RuleContext, RuleEvent, RuleInput, RuleState } from './types'
-
-// A judge depends only on its spec and context, which the engine keeps for a rule's life: made once
-// per pair rather than once per reading (the hot path meets every rule of a tank on every reading).
-const judges = new WeakMap<object, WeakMap<object, ReturnType<typeof levelJudge>>>()
-function cachedJudge(spec: Parameters<typeof levelJudge>[0], ctx: RuleContext) {
-  let byCtx = judges.get(spec)
-  if (!byCtx) judges.set(spec, (byCtx = new WeakMap()))
-  if (!byCtx.has(ctx)) byCtx.set(ctx, levelJudge(spec, ctx))
-  return byCtx.get(ctx) ?? null
-}
 
 /**
  * Feeds one input to one rule. Pure: the same spec, state, input and context always give the
@@ -22,8 +10,8 @@ function cachedJudge(spec: Parameters<typeof levelJudge>[0], ctx: RuleContext) {
  *
  * Late readings (`at` earlier than `lastReadingAt`) change nothing and emit nothing, because
  * the hold and hysteresis logic assumes each reading stands until the next one and a late
- * reading would rewrite a past the incident timeline has already recorded. The `rate` rule is
- * the exception: it slots a late reading into its window (see `evaluateRate`). Readings with a
+ * reading would rewrite a past the incident timeline has already recorded. A kind that
+ * `takesLateReadings` (`rate`) is the exception: it slots a late reading into its window. Readings with a
  * non-finite value are ignored the same way.
  */
 export function evaluate(
@@ -32,24 +20,16 @@ export function evaluate(
   input: RuleInput,
   ctx: RuleContext = {},
 ): EvaluationResult {
+  const kind = kindOf(spec)
   if (input.type === 'reading') {
     if (!Number.isFinite(input.value) || !Number.isFinite(input.at)) return { state }
     const late = state.lastReadingAt !== undefined && input.at < state.lastReadingAt
-    if (late && spec.kind !== 'rate') return { state }
+    if (late && !kind.takesLateReadings) return { state }
   } else {
     const missing = missingVerdict(spec, state, input.at)
     if (missing) return missing
   }
-  switch (spec.kind) {
-    case 'rate':
-      return evaluateRate(spec, state, input)
-    case 'quiet':
-      return evaluateQuiet(spec, state, input)
-    default: {
-      const judge = cachedJudge(spec, ctx)
-      return judge ? evaluateLevel(judge, state, input) : { state }
-    }
-  }
+  return kind.step(spec, state, input, ctx)
 }
 
 export interface ReplayResult {

@@ -155,3 +155,19 @@ export function evaluateLevel(judge: LevelJudge, state: RuleState, input: RuleIn
   }
   return { state }
 }
+
+// A judge depends only on its spec and context, which the engine keeps for a rule's life: made once
+// per pair rather than once per reading (the hot path meets every rule of a tank on every reading).
+const judges = new WeakMap<object, WeakMap<object, LevelJudge | null>>()
+function cachedJudge(spec: LevelSpec, ctx: RuleContext) {
+  let byCtx = judges.get(spec)
+  if (!byCtx) judges.set(spec, (byCtx = new WeakMap()))
+  if (!byCtx.has(ctx)) byCtx.set(ctx, levelJudge(spec, ctx))
+  return byCtx.get(ctx) ?? null
+}
+
+/** Any level kind: its judge made (once) from spec and context; without what it needs it stays inert. */
+export function evaluateLevelSpec(spec: LevelSpec, state: RuleState, input: RuleInput, ctx: RuleContext): EvaluationResult {
+  const judge = cachedJudge(spec, ctx)
+  return judge ? evaluateLevel(judge, state, input) : { state }
+}

@@ -1,4 +1,5 @@
 import { METRICS, isMetricKey } from '../metrics/registry'
+import { kindOf, type MeasureWords } from './kinds'
 import type { WatchRuleSpec } from './schema'
 
 /**
@@ -44,37 +45,17 @@ export function measuredValue(metric: string, value: number): string {
   return metric === 'ph' ? `pH ${fixed(metric, value)}` : withUnit(metric, fixed(metric, value))
 }
 
-/** The whole phrase; starts lower case unless the metric keeps its capitals (pH). */
+const WORDS: MeasureWords = {
+  metric: metricWord,
+  measured: (metric, v) => withUnit(metric, fixed(metric, v)),
+  limit: (metric, v) => withUnit(metric, trimmed(metric, v)),
+  number: trimmed,
+  minutes: durationWords,
+}
+
+/** The whole phrase, in the words of the rule's kind (shared/rules/kinds.ts); starts lower case unless the metric keeps its capitals (pH). */
 export function describeMeasurement({ spec, metric, value, heaterTopCm }: MeasurementInput): string {
   const word = metricWord(metric)
-  if (value === null || !Number.isFinite(value)) return spec?.kind === 'quiet' ? `no ${word} reading` : word
-  const limit = (v: number) => withUnit(metric, trimmed(metric, v))
-  switch (spec?.kind) {
-    case 'quiet':
-      return `no ${word} reading for ${durationWords(value)}`
-    case 'rate': {
-      const change = withUnit(metric, fixed(metric, Math.abs(value)))
-      return `${word} ${value < 0 ? 'fell' : 'rose'} ${change} in ${durationWords(spec.windowMinutes)}`
-    }
-    case 'above':
-      return `${word} ${withUnit(metric, fixed(metric, value))}, above ${limit(spec.limit)}`
-    case 'below':
-      return `${word} ${withUnit(metric, fixed(metric, value))}, below ${limit(spec.limit)}`
-    case 'outside': {
-      const band = `${trimmed(metric, spec.min)}–${limit(spec.max)}`
-      const side = value > spec.max ? 'above' : value < spec.min ? 'below' : 'back inside'
-      return `${word} ${withUnit(metric, fixed(metric, value))}, ${side} ${metric === 'ph' ? `pH ${band}` : band}`
-    }
-    case 'heater_line': {
-      const level = `water level ${withUnit('water_level', fixed('water_level', value))}`
-      if (heaterTopCm === undefined) return level
-      const top = `the heater top (${withUnit('water_level', trimmed('water_level', heaterTopCm))})`
-      const gap = value - heaterTopCm
-      return gap <= 0 ? `${level}, at or below ${top}` : `${level}, ${withUnit('water_level', trimmed('water_level', gap))} above ${top}`
-    }
-    case 'light_schedule':
-      return `light ${withUnit('light', fixed('light', value))}, off its schedule`
-    default:
-      return `${word} ${withUnit(metric, fixed(metric, value))}`
-  }
+  if (value === null || !Number.isFinite(value)) return spec && !kindOf(spec).asksMissingReading ? `no ${word} reading` : word
+  return spec ? kindOf(spec).measure(spec, metric, value, WORDS, heaterTopCm) : `${word} ${withUnit(metric, fixed(metric, value))}`
 }

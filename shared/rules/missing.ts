@@ -1,3 +1,4 @@
+import { kindOf } from './kinds'
 import { MISSING_AFTER_MINUTES, type WatchRuleSpec } from './schema'
 import type { EvaluationResult, RuleState } from './types'
 
@@ -11,7 +12,7 @@ const MISSING_MS = MISSING_AFTER_MINUTES * 60_000
  */
 export function missingVerdict(spec: WatchRuleSpec, state: RuleState, at: number): EvaluationResult | undefined {
   const meaning = spec.missingReading ?? 'keep'
-  if (meaning === 'keep' || spec.kind === 'quiet' || state.lastReadingAt === undefined) return undefined
+  if (meaning === 'keep' || !kindOf(spec).asksMissingReading || state.lastReadingAt === undefined) return undefined
   const missingSince = state.lastReadingAt + MISSING_MS
   if (at < missingSince) return undefined
   if (meaning === 'tripped') {

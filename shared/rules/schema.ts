@@ -115,15 +115,3 @@ export const watchRuleDraftSchema = z.object({
   spec: watchRuleSpecSchema,
 })
 export type WatchRuleDraft = z.output<typeof watchRuleDraftSchema>
-
-/** The metric a spec watches; the two tank-context kinds have a fixed one. */
-export function metricOfSpec(spec: WatchRuleSpec): (typeof METRIC_KEYS)[number] {
-  switch (spec.kind) {
-    case 'heater_line':
-      return 'water_level'
-    case 'light_schedule':
-      return 'light'
-    default:
-      return spec.metric
-  }
-}

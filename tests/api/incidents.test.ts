@@ -3,7 +3,7 @@ import type { UserActor } from '../../server/access/actor'
 import type { IncidentNotifier } from '../../server/incidents/notifier'
 import { ACK_LINK_HOURS, ackLinksService } from '../../server/incidents/ack-links'
 import { incidentsService } from '../../server/incidents/incidents'
-import { metricOfSpec } from '@shared/rules/schema'
+import { metricOfSpec } from '@shared/rules/kinds'
 import type { IncidentDetail, PublicIncident } from '@shared/schemas/incidents'
 import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
 

@@ -1,6 +1,7 @@
 import { DOMWrapper, flushPromises } from '@vue/test-utils'
 import { afterEach, describe, expect, it } from 'vitest'
 import { defaultRulesForTank } from '@shared/rules/defaults'
+import { RULE_KINDS, kindEntry } from '@shared/rules/kinds'
 import type { WatchRuleSpec } from '@shared/rules/schema'
 import RuleDialog from '@/components/rules/RuleDialog.vue'
 import { emptyRuleDraft, parseRuleDraft, draftFromRule } from '@/components/rules/rule-draft'
@@ -136,5 +137,24 @@ describe('rule form validation', () => {
     expect(wrapper.findComponent(RuleDialog).emitted('save')![0]).toEqual([
       { name: 'Too warm', severity: 'warning', enabled: true, spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 } },
     ])
+  })
+})
+
+describe('the rule dialog asks what the kind’s entry in shared/rules/kinds.ts says', () => {
+  const SHARED_BOXES = ['ruleName', 'ruleKind', 'ruleSeverity', 'ruleMetric', 'settleMinutes', 'missingReading']
+
+  it.each([...RULE_KINDS])('%s', async (kind) => {
+    const entry = kindEntry(kind)
+    const { wrapper } = await mountView(RuleDialog, { props: { modelValue: true, title: 'New watch rule', initial: { ...emptyRuleDraft(), kind } } })
+    await flushPromises()
+    const names = [...document.querySelectorAll<HTMLInputElement>('.v-dialog input[name]')].map((input) => input.name)
+    // The condition's boxes on the first line, hold and clearing on the second, each in the entry's order.
+    const expected = [...entry.fields.filter((f) => f.line === 1), ...entry.fields.filter((f) => f.line === 2)].map((f) => f.key)
+    expect(names.filter((name) => !SHARED_BOXES.includes(name))).toEqual(expected)
+    expect(names.includes('ruleMetric')).toBe(entry.fixedMetric === null)
+    expect(document.querySelector('[data-test="missing-reading"]') !== null).toBe(entry.asksMissingReading)
+    const labels = [...document.querySelectorAll('.v-dialog .v-field-label')].map((label) => label.textContent?.trim())
+    for (const field of entry.fields) expect(labels).toContain(field.label)
+    wrapper.unmount()
   })
 })

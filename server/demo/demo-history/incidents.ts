@@ -1,6 +1,6 @@
 // Past incidents, written as the incidents service writes a live one: the row, then its timeline
 // (opened, mail_queued, escalated, acknowledged, resolved) dated when each step happened.
-import { metricOfSpec } from '@shared/rules/schema'
+import { metricOfSpec } from '@shared/rules/kinds'
 import type { AppContext } from '../../context'
 import { ruleContextFor } from '../../incidents'
 import { dutyRecipients } from '../../roster'

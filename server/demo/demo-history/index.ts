@@ -7,6 +7,7 @@ import type { Tank } from '../../models'
 import { devicesService } from '../../devices'
 import { photosService } from '../../photos'
 import { retentionService } from '../../readings'
+import { insertDeviceSeries } from '../../readings'
 import { seedFrom } from '../../../simulator/model/random'
 import { DEMO_NODE_NAME, DEMO_NODE_INTERVAL_SECONDS } from '../demo-scenario'
 import { seedCare } from './care'
@@ -34,11 +35,7 @@ async function insertHistory(ctx: AppContext, tankId: number, deviceId: number, 
       values.push(value)
     })
   }
-  await ctx.sequelize.query(
-    `INSERT INTO readings (source_key, metric, time, tank_id, value, source)
-     SELECT $1, m, to_timestamp(s), $2, v, 'device' FROM unnest($3::text[], $4::float8[], $5::float8[]) AS u(m, s, v)`,
-    { bind: [`d:${deviceId}`, tankId, metrics, seconds, values] },
-  )
+  await insertDeviceSeries(ctx.sequelize, { sourceKey: `d:${deviceId}`, tankId, metrics, epochSeconds: seconds, values })
   return values.length
 }
 

@@ -1,5 +1,6 @@
 // The watch-rule trips a tank's history would have caused, found by the engine's own pure evaluator.
 import { evaluate } from '@shared/rules/evaluate'
+import { kindOf } from '@shared/rules/kinds'
 import type { WatchRuleSpec } from '@shared/rules/schema'
 import { initialRuleState, type RuleContext, type RuleEvent, type RuleInput } from '@shared/rules/types'
 
@@ -39,7 +40,7 @@ export function replayTrips(
       feed({ type: 'reading', at: readings.times[next]!, value: readings.values[next]! })
       next++
     }
-    if (ticksMatter(spec.kind, state.status)) feed({ type: 'tick', at: tick })
+    if (ticksMatter(spec, state.status)) feed({ type: 'tick', at: tick })
   }
   return trips
 }
@@ -48,8 +49,10 @@ export function replayTrips(
  * A rate rule judges readings only, and a level rule that is clear waits for a reading (unless it
  * judges a schedule): the timer cannot move either, so those ticks are skipped.
  */
-const ticksMatter = (kind: WatchRuleSpec['kind'], status: string) =>
-  kind === 'quiet' || kind === 'light_schedule' || (kind !== 'rate' && status !== 'clear')
+function ticksMatter(spec: WatchRuleSpec, status: string) {
+  const when = kindOf(spec).ticksMatter
+  return when === 'always' || (when === 'unless-clear' && status !== 'clear')
+}
 
 function onEvent(event: RuleEvent, open: Trip | null, trips: Trip[]): Trip | null {
   if (event.type === 'trip') {

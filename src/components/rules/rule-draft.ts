@@ -1,47 +1,29 @@
 import type { MetricKey } from '@shared/metrics/registry'
+import { KINDS, RULE_KINDS, kindEntry, type RuleFormField } from '@shared/rules/kinds'
 import { DEFAULT_SETTLE_MINUTES, type MissingReading, type RuleSeverity, type WatchRuleKind } from '@shared/rules/schema'
 import { ruleInputSchema, type PublicRule, type RuleInput } from '@shared/schemas/rules'
 import { fieldErrors, friendlyIssues, type FieldErrors } from '@/composables/useFieldErrors'
 
-/** Every field a rule form can show, as typed text; which ones count depends on the kind. */
-export interface RuleDraft {
+/**
+ * Every field a rule form can show, as typed text; which ones count depends on the kind (its
+ * entry in shared/rules/kinds.ts). One box per spec field, whichever kinds share it, so switching
+ * kind keeps what was typed.
+ */
+export type RuleDraft = {
   name: string
   severity: RuleSeverity
   enabled: boolean
   kind: WatchRuleKind
   metric: MetricKey
-  limit: string
-  min: string
-  max: string
-  holdMinutes: string
-  clearMargin: string
-  maxChange: string
-  windowMinutes: string
-  quietMinutes: string
-  marginCm: string
-  onLux: string
   /** Every kind: a trip this soon after a clear counts as a flap of the same incident. */
   settleMinutes: string
   missingReading: MissingReading
-}
-
-/** Which fields each kind asks for, in form order. */
-export const KIND_FIELDS: Record<WatchRuleKind, Array<keyof RuleDraft>> = {
-  above: ['metric', 'limit', 'holdMinutes', 'clearMargin'],
-  below: ['metric', 'limit', 'holdMinutes', 'clearMargin'],
-  outside: ['metric', 'min', 'max', 'holdMinutes', 'clearMargin'],
-  rate: ['metric', 'maxChange', 'windowMinutes'],
-  quiet: ['metric', 'quietMinutes'],
-  heater_line: ['marginCm', 'holdMinutes', 'clearMargin'],
-  light_schedule: ['holdMinutes', 'onLux'],
-}
+} & Record<RuleFormField, string>
 
 export function emptyRuleDraft(): RuleDraft {
-  return {
-    name: '', severity: 'warning', enabled: true, kind: 'above', metric: 'temperature',
-    limit: '', min: '', max: '', holdMinutes: '10', clearMargin: '0.5', maxChange: '', windowMinutes: '60',
-    quietMinutes: '15', marginCm: '2', onLux: '50', settleMinutes: '30', missingReading: 'keep',
-  }
+  const boxes = {} as Record<RuleFormField, string>
+  for (const kind of RULE_KINDS) for (const field of KINDS[kind].fields) boxes[field.key] ??= field.initial
+  return { name: '', severity: 'warning', enabled: true, kind: 'above', metric: 'temperature', ...boxes, settleMinutes: '30', missingReading: 'keep' }
 }
 
 const text = (value: number | undefined) => (value == null ? '' : String(value))
@@ -50,14 +32,8 @@ export function draftFromRule(rule: Pick<PublicRule, 'name' | 'severity' | 'enab
   const draft: RuleDraft = { ...emptyRuleDraft(), name: rule.name, severity: rule.severity, enabled: rule.enabled, kind: rule.spec.kind }
   const spec = rule.spec
   if ('metric' in spec) draft.metric = spec.metric
-  if ('holdMinutes' in spec) draft.holdMinutes = text(spec.holdMinutes)
-  if ('clearMargin' in spec) draft.clearMargin = text(spec.clearMargin)
-  if (spec.kind === 'above' || spec.kind === 'below') draft.limit = text(spec.limit)
-  if (spec.kind === 'outside') Object.assign(draft, { min: text(spec.min), max: text(spec.max) })
-  if (spec.kind === 'rate') Object.assign(draft, { maxChange: text(spec.maxChange), windowMinutes: text(spec.windowMinutes) })
-  if (spec.kind === 'quiet') draft.quietMinutes = text(spec.quietMinutes)
-  if (spec.kind === 'heater_line') draft.marginCm = text(spec.marginCm)
-  if (spec.kind === 'light_schedule') draft.onLux = text(spec.onLux)
+  const values = spec as unknown as Record<RuleFormField, number | undefined>
+  for (const field of kindEntry(spec.kind).fields) draft[field.key] = text(values[field.key])
   if (spec.settleMinutes !== undefined) draft.settleMinutes = text(spec.settleMinutes)
   if (spec.missingReading) draft.missingReading = spec.missingReading
   return draft
@@ -68,15 +44,15 @@ const numberOrUndefined = (value: string) => (value.trim() === '' ? undefined : 
 
 /** The spec as sent: only the fields of the chosen kind. */
 export function specFromDraft(draft: RuleDraft): Record<string, unknown> {
+  const kind = kindEntry(draft.kind)
   const spec: Record<string, unknown> = { kind: draft.kind }
-  for (const field of KIND_FIELDS[draft.kind]) {
-    spec[field] = field === 'metric' ? draft.metric : numberOrUndefined(draft[field] as string)
-  }
+  if (!kind.fixedMetric) spec.metric = draft.metric
+  for (const field of kind.fields) spec[field.key] = numberOrUndefined(draft[field.key])
   // Sent only when they differ from what an absent value means, so a stored rule reads back unchanged.
   const settle = numberOrUndefined(draft.settleMinutes)
   if (settle !== DEFAULT_SETTLE_MINUTES) spec.settleMinutes = settle
   // A quiet rule is itself about missing readings.
-  if (draft.kind !== 'quiet' && draft.missingReading !== 'keep') spec.missingReading = draft.missingReading
+  if (kind.asksMissingReading && draft.missingReading !== 'keep') spec.missingReading = draft.missingReading
   return spec
 }
 

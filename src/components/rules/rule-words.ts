@@ -1,16 +1,10 @@
 import { METRICS, displayPrecision, isMetricKey, type MetricKey } from '@shared/metrics/registry'
+import { KINDS, RULE_KINDS, kindOf, type ConditionWords } from '@shared/rules/kinds'
 import type { RuleSeverity, WatchRuleKind, WatchRuleSpec } from '@shared/rules/schema'
 import { displayUnitOf, toDisplayValue, unitLabel } from '@/composables/useUnits'
 
-export const RULE_KIND_LABELS: Record<WatchRuleKind, string> = {
-  above: 'Above a limit',
-  below: 'Below a limit',
-  outside: 'Outside a band',
-  rate: 'Changes too fast',
-  quiet: 'No readings',
-  heater_line: 'Water near the heater top',
-  light_schedule: 'Light off its schedule',
-}
+/** Each kind's name, from the kinds table, in the schema's order. */
+export const RULE_KIND_LABELS = Object.fromEntries(RULE_KINDS.map((kind) => [kind, KINDS[kind].label])) as Record<WatchRuleKind, string>
 
 export const SEVERITY_LABELS: Record<RuleSeverity, string> = { warning: 'Warning', alarm: 'Alarm' }
 
@@ -47,32 +41,12 @@ export function ruleChange(metric: MetricKey, canonicalDelta: number): string {
   return `${delta.toFixed(displayPrecision(metric, displayUnitOf(metric)))}${unitSuffix(metric)}`
 }
 
-const cm = (value: number) => `${Number(value.toFixed(1))} cm`
-const forHold = (minutes: number) => (minutes > 0 ? ` for ${formatMinutes(minutes)}` : '')
+/** The words a rule's condition is written with: the person's units. */
+const WORDS: ConditionWords = { metric: metricInSentence, value: ruleValue, change: ruleChange, minutes: formatMinutes }
 
 /** The condition alone, without the severity: "temperature is above 28.0 °C for 10 min; clears below 27.5 °C". */
 export function describeCondition(spec: WatchRuleSpec): string {
-  switch (spec.kind) {
-    case 'above':
-      return `${metricInSentence(spec.metric)} is above ${ruleValue(spec.metric, spec.limit)}${forHold(spec.holdMinutes)}; clears below ${ruleValue(spec.metric, spec.limit - spec.clearMargin)}`
-    case 'below':
-      return `${metricInSentence(spec.metric)} is below ${ruleValue(spec.metric, spec.limit)}${forHold(spec.holdMinutes)}; clears above ${ruleValue(spec.metric, spec.limit + spec.clearMargin)}`
-    case 'outside': {
-      const band = `${ruleValue(spec.metric, spec.min)} – ${ruleValue(spec.metric, spec.max)}`
-      const inner = `${ruleValue(spec.metric, spec.min + spec.clearMargin)} – ${ruleValue(spec.metric, spec.max - spec.clearMargin)}`
-      return `${metricInSentence(spec.metric)} is outside ${band}${forHold(spec.holdMinutes)}; clears back inside ${inner}`
-    }
-    case 'rate':
-      return `${metricInSentence(spec.metric)} changes by more than ${ruleChange(spec.metric, spec.maxChange)} within ${formatMinutes(spec.windowMinutes)}`
-    case 'quiet':
-      return `no ${metricInSentence(spec.metric)} reading arrives for ${formatMinutes(spec.quietMinutes)}`
-    case 'heater_line': {
-      const where = spec.marginCm > 0 ? `is within ${cm(spec.marginCm)} of the heater top or lower` : 'is at or below the heater top'
-      return `the water level ${where}${forHold(spec.holdMinutes)}; clears once it is more than ${cm(spec.marginCm + spec.clearMargin)} above the heater top`
-    }
-    case 'light_schedule':
-      return `the light is on when the schedule says off, or off when it says on, for ${formatMinutes(spec.holdMinutes)} (on means at least ${Number(spec.onLux.toFixed(1))} lux)`
-  }
+  return kindOf(spec).describe(spec, WORDS)
 }
 
 /** The whole rule in plain words: "Alarm when temperature is above 28.0 °C for 10 min; clears below 27.5 °C". */

@@ -1,0 +1,111 @@
+// Every read of the stored readings and their hourly rollups made outside this folder: the one
+// place that knows their tables. Writes, exports and backup streams are in `repository-bulk.ts`.
+import { QueryTypes, type Sequelize, type Transaction } from 'sequelize'
+
+export type TimedRow = { time: Date; value: number }
+export type TankTimedRow = { tank_id: number; time: Date; value: number }
+/** A reading with its source key: `k:<entry id>` for a test-kit entry, `d:<device id>` for a device. */
+export type KitRow = { sourceKey: string; time: Date; metric: string; value: number }
+export type CatchUpRow = { tank_id: number; metric: string; time: Date; value: number; source: 'device' | 'test_kit' | 'import' }
+
+// ---- latest values -------------------------------------------------------------------------
+
+/** The tank's newest reading of `metric` after `after`, from any source, or null. */
+export async function newestReadingAfter(sequelize: Sequelize, tankId: number, metric: string, after: Date): Promise<TimedRow | null> {
+  const rows = await sequelize.query<TimedRow>(
+    `SELECT value, time FROM readings WHERE tank_id = $1 AND metric = $2 AND time > $3 ORDER BY time DESC LIMIT 1`,
+    { bind: [tankId, metric, after], type: QueryTypes.SELECT },
+  )
+  return rows[0] ?? null
+}
+
+/** How many readings each source key stored since `since` (keys without readings are absent). */
+export async function countsBySourceKey(sequelize: Sequelize, sourceKeys: string[], since: Date): Promise<Map<string, number>> {
+  const rows = await sequelize.query<{ source_key: string; n: number }>(
+    `SELECT source_key, count(*)::int AS n FROM readings
+      WHERE source_key = ANY($keys) AND time >= $since GROUP BY source_key`,
+    { bind: { keys: sourceKeys, since }, type: QueryTypes.SELECT },
+  )
+  return new Map(rows.map((r) => [r.source_key, r.n]))
+}
+
+/** Readings of these tanks stored after `after`: the newest `maxRows` of them, oldest first. */
+export async function newestReadingsOfTanks(sequelize: Sequelize, tankIds: number[], after: Date, maxRows: number): Promise<CatchUpRow[]> {
+  return sequelize.query<CatchUpRow>(
+    `SELECT tank_id, metric, time, value, source FROM (
+       SELECT tank_id, metric, time, value, source FROM readings
+        WHERE tank_id = ANY($tanks) AND time > $from ORDER BY time DESC LIMIT ${Math.trunc(maxRows)}
+     ) newest ORDER BY time`,
+    { bind: { tanks: tankIds, from: after }, type: QueryTypes.SELECT },
+  )
+}
+
+// ---- windows -------------------------------------------------------------------------------
+
+/** One metric of several tanks between `from` and `to` (both included), by tank, then time: a rule's history. */
+export async function windowOfTanks(sequelize: Sequelize, metric: string, tankIds: number[], from: Date, to: Date): Promise<TankTimedRow[]> {
+  return sequelize.query<TankTimedRow>(
+    `SELECT tank_id, time, value FROM readings WHERE metric = $1 AND tank_id = ANY($2) AND time >= $3 AND time <= $4 ORDER BY tank_id, time`,
+    { bind: [metric, tankIds, from, to], type: QueryTypes.SELECT },
+  )
+}
+
+/** One tank's `metric` since `since`, oldest first, at most 5000 (a mail's trend chart). */
+export async function recentValues(sequelize: Sequelize, tankId: number, metric: string, since: Date, transaction?: Transaction): Promise<TimedRow[]> {
+  return sequelize.query<TimedRow>(
+    `SELECT time, value FROM readings WHERE tank_id = $1 AND metric = $2 AND time >= $3 ORDER BY time LIMIT 5000`,
+    { bind: [tankId, metric, since], type: QueryTypes.SELECT, transaction },
+  )
+}
+
+/** Temperature of these tanks since `since`, averaged into 15-minute bins (`t` is the bin's start). */
+export async function temperatureBins(sequelize: Sequelize, tankIds: number[], since: Date): Promise<Array<{ tank_id: number; t: Date; value: number }>> {
+  return sequelize.query<{ tank_id: number; t: Date; value: number }>(
+    `SELECT tank_id, date_bin('15 minutes', time, TIMESTAMPTZ '2000-01-03') AS t, avg(value) AS value
+       FROM readings WHERE metric = 'temperature' AND tank_id = ANY($1) AND time >= $2
+      GROUP BY 1, 2 ORDER BY 1, 2`,
+    { bind: [tankIds, since], type: QueryTypes.SELECT },
+  )
+}
+
+// The last reading before the period may hold into it and the first after ends its last step.
+// Hours whose raw rows retention has deleted count as one reading of their mean at the half hour
+// (rollups also hold the hours still kept raw: migration 202612051200).
+const KEPT = '(SELECT raw_kept_from FROM readings_rollup_state)'
+const PERIOD_SQL = `
+(SELECT time, value FROM readings WHERE tank_id = $1 AND metric = $2 AND time < $3::timestamptz AND time >= ${KEPT} ORDER BY time DESC LIMIT 1)
+UNION ALL
+(SELECT time, value FROM readings WHERE tank_id = $1 AND metric = $2 AND time >= $3::timestamptz AND time < $4::timestamptz AND time >= ${KEPT})
+UNION ALL
+(SELECT time, value FROM readings WHERE tank_id = $1 AND metric = $2 AND time >= $4::timestamptz AND time >= ${KEPT} ORDER BY time LIMIT 1)
+UNION ALL
+(SELECT hour + interval '30 minutes', sum / count FROM readings_hourly
+  WHERE tank_id = $1 AND metric = $2 AND hour >= $3::timestamptz - interval '1 hour' AND hour < $4::timestamptz AND hour < ${KEPT})`
+
+/** A report period's values of one metric: raw readings, one either side, and rolled-up hours as their means. Unordered. */
+export async function periodValues(sequelize: Sequelize, tankId: number, metric: string, from: Date, to: Date): Promise<TimedRow[]> {
+  return sequelize.query<TimedRow>(PERIOD_SQL, {
+    bind: [tankId, metric, from.toISOString(), to.toISOString()],
+    type: QueryTypes.SELECT,
+  })
+}
+
+// ---- test-kit rows -------------------------------------------------------------------------
+
+/** Ammonia, nitrite and nitrate readings since `since`, oldest first. */
+export async function nitrogenRows(sequelize: Sequelize, tankId: number, since: Date): Promise<KitRow[]> {
+  return sequelize.query<KitRow>(
+    `SELECT source_key AS "sourceKey", time, metric, value FROM readings
+     WHERE tank_id = $1 AND metric IN ('ammonia', 'nitrite', 'nitrate') AND time >= $2 ORDER BY time`,
+    { bind: [tankId, since], type: QueryTypes.SELECT },
+  )
+}
+
+/** Test-kit readings (source key `k:…`) of these metrics between `from` and `until` (both included), oldest first. */
+export async function kitRowsBetween(sequelize: Sequelize, tankId: number, metrics: string[], from: Date, until: Date): Promise<KitRow[]> {
+  return sequelize.query<KitRow>(
+    `SELECT source_key AS "sourceKey", time, metric, value FROM readings
+     WHERE tank_id = $1 AND source_key LIKE 'k:%' AND metric = ANY($2) AND time >= $3 AND time <= $4 ORDER BY time`,
+    { bind: [tankId, metrics, from, until], type: QueryTypes.SELECT },
+  )
+}
