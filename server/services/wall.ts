@@ -34,20 +34,19 @@ export function wallService(ctx: AppContext) {
     return site
   }
 
+  /** Each tank's temperature in 15-minute means, one row per tank (a row per point costs a large site more than the query). */
   async function trends(tankIds: number[], now: number) {
-    const rows = await sequelize.query<{ tank_id: number; t: Date; value: number }>(
-      `SELECT tank_id, date_bin('15 minutes', time, TIMESTAMPTZ '2000-01-03') AS t, avg(value) AS value
-         FROM readings WHERE metric = 'temperature' AND tank_id = ANY($1) AND time >= $2
-        GROUP BY 1, 2 ORDER BY 1, 2`,
+    const rows = await sequelize.query<{ tank_id: number; trend: WallTank['trend'] }>(
+      `SELECT tank_id, json_agg(json_build_object(
+                't', to_char(t AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"'),
+                'value', round(value::numeric, 2)::float8) ORDER BY t) AS trend
+         FROM (SELECT tank_id, date_bin('15 minutes', time, TIMESTAMPTZ '2000-01-03') AS t, avg(value) AS value
+                 FROM readings WHERE metric = 'temperature' AND tank_id = ANY($1) AND time >= $2
+                GROUP BY 1, 2) buckets
+        GROUP BY tank_id`,
       { bind: [tankIds, new Date(now - TREND_HOURS * 3600_000)], type: QueryTypes.SELECT },
     )
-    const byTank = new Map<number, WallTank['trend']>()
-    for (const r of rows) {
-      const list = byTank.get(r.tank_id) ?? []
-      list.push({ t: r.t.toISOString(), value: Math.round(r.value * 100) / 100 })
-      byTank.set(r.tank_id, list)
-    }
-    return byTank
+    return new Map(rows.map((r) => [r.tank_id, r.trend]))
   }
 
   return {
