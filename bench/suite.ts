@@ -72,6 +72,7 @@ for (const tanks of SIZES) {
     const bytes = await wallBytes(browser, app, link)
     f.wallKb = bytes.filesKb
     f.wallApiKb = bytes.apiKb
+    console.log(`  wall data: ${bytes.api.map((t) => `${t.path} ${(t.bytes / 1024).toFixed(1)} KB ${t.encoding}`).join(', ')}`)
     console.log(`  wall files: ${bytes.files.map((t) => `${t.path.replace(/^\/assets\//, '')} ${(t.bytes / 1024).toFixed(1)} KB ${t.encoding}`).join(', ')}`)
   }
   if (runs('series')) {

@@ -128,11 +128,11 @@ export async function seriesTimes(ctx: AppContext, app: AppProcess, tankId: numb
   return out
 }
 
-/** Six hours of five-minute temperature and pH readings on every tank: what a wall shows as trends and latest values. */
+/** Six hours of five-minute temperature and pH readings on every tank, each its own: what a wall shows as trends and latest values. */
 export async function wallHistory(ctx: AppContext, shop: Shop) {
   await ctx.sequelize.query(
     `INSERT INTO readings (source_key, metric, time, tank_id, value, source)
-     SELECT 'd:' || d, m.metric, date_trunc('minute', now()) - g * interval '5 minutes', t, m.base + (g % 7) / 20.0, 'device'
+     SELECT 'd:' || d, m.metric, date_trunc('minute', now()) - g * interval '5 minutes', t, m.base + ((g * 7 + d * 13) % 23) / 20.0, 'device'
        FROM unnest($1::int[], $2::int[]) u(t, d), generate_series(0, 71) g, (VALUES ('temperature', 25.5), ('ph', 7.1)) m(metric, base)
      ON CONFLICT DO NOTHING`,
     { bind: [shop.devices.map((d) => d.tankId), shop.devices.map((d) => d.deviceId)] },
@@ -189,13 +189,16 @@ export async function wallBytes(browser: Browser, app: AppProcess, link: string)
   })
   await page.goto(`http://127.0.0.1:${app.port}${link}`)
   await page.locator('article').first().waitFor({ timeout: 30_000 })
+  // The fonts are asked for once text is drawn in them; then nothing more until the next refresh.
+  await page.evaluate(() => (globalThis as unknown as { document: { fonts: { ready: Promise<unknown> } } }).document.fonts.ready.then(() => undefined))
   await page.waitForLoadState('networkidle')
+  await page.waitForTimeout(1000)
   const transfers = await Promise.all(pending)
   await context.close()
   const files = transfers.filter((t) => !t.path.startsWith('/api/'))
   const api = transfers.filter((t) => t.path.startsWith('/api/'))
   const sum = (list: Transfer[]) => list.reduce((a, t) => a + t.bytes, 0)
-  return { filesKb: sum(files) / 1024, apiKb: sum(api) / 1024, files: files.sort((a, b) => b.bytes - a.bytes) }
+  return { filesKb: sum(files) / 1024, apiKb: sum(api) / 1024, files: files.sort((a, b) => b.bytes - a.bytes), api }
 }
 
 /** The engine's work per reading with every tank's rules loaded: readings fed as the bus would. */
