@@ -1,6 +1,7 @@
 // npm run bench — every figure at 10, 100, 200 and 1,000 tanks, side by side, with the targets and
 // how each grows. The app runs in a process of its own (its memory is the app's alone); load comes
 // from other processes; the browser figures from Debian's Chromium.
+// BENCH_ONLY=wall,series (any of ingest, latency, wall, series, engine) runs only those parts.
 import { cpus, totalmem } from 'node:os'
 import { existsSync } from 'node:fs'
 import { execFileSync } from 'node:child_process'
@@ -12,24 +13,28 @@ import { authService } from '../server/people/auth'
 import { wallService } from '../server/sites/wall'
 import { benchShop } from './fixtures'
 import { startAppProcess, sampleRss } from './suite/processes'
-import { engineCost, ingestHttp, ingestMqtt, latencyInBrowser, rawCopy, SERIES_RANGES, seriesTimes, tenRulesPerTank, wallRender } from './suite/measures'
+import { engineCost, ingestHttp, ingestMqtt, latencyInBrowser, rawCopy, SERIES_RANGES, seriesTimes, tenRulesPerTank, wallBytes, wallHistory, wallRender } from './suite/measures'
 
 const SIZES = (process.env.BENCH_SIZES ?? '10,100,200,1000').split(',').map(Number)
 const RATE = Number(process.env.BENCH_RATE ?? 20_000)
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 20)
 const databaseUrl = process.env.DATABASE_URL!
-// BENCH_PARTS=series (or a comma list of ingest, browser, series, engine) runs only those parts.
-const PARTS = new Set((process.env.BENCH_PARTS ?? 'ingest,browser,series,engine').split(','))
-const SERIES_RUNS = Number(process.env.BENCH_SERIES_RUNS ?? 9)
+const PARTS = ['ingest', 'latency', 'wall', 'series', 'engine']
+const only = (process.env.BENCH_ONLY ?? PARTS.join(',')).split(',').filter(Boolean)
+for (const part of only) if (!PARTS.includes(part)) throw new Error(`BENCH_ONLY: no part named ${part} (parts: ${PARTS.join(', ')})`)
+const runs = (part: string) => only.includes(part)
 
-if (PARTS.has('browser') && !existsSync('dist/index.html')) execFileSync('node_modules/.bin/vite', ['build', '--logLevel', 'warn'], { stdio: 'inherit' })
-const browser = PARTS.has('browser')
-  ? await chromium.launch({
-      executablePath: process.env.CHROMIUM_PATH || '/usr/bin/chromium',
-      headless: true,
-      args: ['--no-sandbox', '--disable-gpu', '--disable-dev-shm-usage', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
-    })
-  : null
+// The wall's byte figure is about the client as it is now: build it afresh (BENCH_SKIP_BUILD=1 keeps dist as it is).
+if (!process.env.BENCH_SKIP_BUILD || !existsSync('dist/index.html')) {
+  // A production build whatever this process runs under (bench.mjs sets NODE_ENV=test), as `npm start` serves it.
+  execFileSync('node_modules/.bin/vite', ['build', '--logLevel', 'warn'], { stdio: 'inherit', env: { ...process.env, NODE_ENV: 'production' } })
+}
+const browser = await chromium.launch({
+  executablePath: process.env.CHROMIUM_PATH || '/usr/bin/chromium',
+  headless: true,
+  args: ['--no-sandbox', '--disable-gpu', '--disable-dev-shm-usage', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
+})
+const SERIES_RUNS = Number(process.env.BENCH_SERIES_RUNS ?? 9)
 
 type Figures = Record<string, number>
 const results: Figures[] = []
@@ -48,23 +53,30 @@ for (const tanks of SIZES) {
   const app = await startAppProcess(databaseUrl)
   const rss = sampleRss(app.pid)
   const f: Figures = { tanks }
-  if (PARTS.has('ingest')) {
+  if (runs('ingest')) {
     const mqtt = await ingestMqtt(app, shop, RATE, SECONDS, Date.now() - 6 * 3600_000)
     f.mqtt = mqtt.rate
     f.mqttLost = mqtt.acked - mqtt.stored
     const http = await ingestHttp(app, shop, Math.min(SECONDS, 15), Date.now() - 5 * 3600_000)
     f.http = http.rate
     f.copy = await rawCopy(ctx, shop, mqtt.stored)
-    f.ratio = (100 * f.mqtt) / f.copy
     f.rss = rss.peakMb()
   }
-  if (browser) {
+  if (runs('latency')) {
     const latency = await latencyInBrowser(browser, app, shop, token, 1000, 10)
     f.p50 = latency.p50
     f.p99 = latency.p99
-    f.wall = await wallRender(browser, app, link)
   }
-  if (PARTS.has('series')) {
+  if (runs('wall')) {
+    await wallHistory(ctx, shop)
+    f.wall = await wallRender(browser, app, link)
+    const bytes = await wallBytes(browser, app, link)
+    f.wallKb = bytes.filesKb
+    f.wallApiKb = bytes.apiKb
+    console.log(`  wall data: ${bytes.api.map((t) => `${t.path} ${(t.bytes / 1024).toFixed(1)} KB ${t.encoding}`).join(', ')}`)
+    console.log(`  wall files: ${bytes.files.map((t) => `${t.path.replace(/^\/assets\//, '')} ${(t.bytes / 1024).toFixed(1)} KB ${t.encoding}`).join(', ')}`)
+  }
+  if (runs('series')) {
     const series = await seriesTimes(ctx, app, shop.devices[0].tankId, token, SERIES_RUNS)
     f.requestFloor = series.floor.series
     console.log(`  GET /tanks/:id/latest (the request's own cost): ${series.floor.series.toFixed(1)} ms`)
@@ -74,7 +86,7 @@ for (const tanks of SIZES) {
       console.log(`  series ${label}: ${series[label].series.toFixed(1)} ms for ${series[label].points} ${series[label].bucketSeconds ? `buckets of ${series[label].bucketSeconds} s` : 'raw rows'}; plain scan of the same raw rows ${series[label].scan.toFixed(1)} ms; ratio ${(series[label].series / series[label].scan).toFixed(2)}; target < 50 ms`)
     }
   }
-  if (PARTS.has('engine')) f.engine = await engineCost(ctx, shop, 50_000)
+  if (runs('engine')) f.engine = await engineCost(ctx, shop, 50_000)
   f.rssAll = rss.peakMb()
   rss.stop()
   await app.stop()
@@ -107,7 +119,9 @@ const rows: Array<[string, string, (f: Figures) => string, string]> = [
     '< 50',
   ] as [string, string, (f: Figures) => string, string]),
   [`GET /tanks/:id/latest, the same sign-in and tank lookup as a series (ms, median of ${SERIES_RUNS})`, 'requestFloor', (f) => n(f.requestFloor, 1), '—'],
-  ['wall display link → first page of tiles drawn (ms, median of 3)', 'wall', (f) => n(f.wall), '< 2,000 at 200 tanks'],
+  ['wall display link → first page of tiles drawn (ms, median of 3)', 'wall', (f) => n(f.wall), '< 1,000 at 200 tanks, < 1,500 at 1,000'],
+  ['wall route bytes (compressed): built files a display loads (KB)', 'wallKb', (f) => n(f.wallKb), '< 350'],
+  ['wall data on first load, GET /sites/:id/wall (KB as sent)', 'wallApiKb', (f) => n(f.wallApiKb), '—'],
   ['rule engine, 10 rules per tank (µs per reading)', 'engine', (f) => n(f.engine, 1), '—'],
   ['app memory while ingesting, peak RSS (MB)', 'rss', (f) => n(f.rss), '< 300'],
   ['app memory over the whole run, peak RSS (MB)', 'rssAll', (f) => n(f.rssAll), '—'],
@@ -115,5 +129,6 @@ const rows: Array<[string, string, (f: Figures) => string, string]> = [
 console.log(`\nMachine: ${cpus().length} × ${cpus()[0]?.model ?? 'cpu'}, ${Math.round(totalmem() / 2 ** 30)} GiB, Node ${process.version}, PostgreSQL on the same machine; ${SECONDS} s of MQTT load per size\n`)
 console.log(`| figure | ${results.map((f) => `${n(f.tanks)} tanks`).join(' | ')} | target | growth k (∝ tanks^k) |`)
 console.log(`|---|${results.map(() => '---').join('|')}|---|---|`)
-for (const [label, key, show, target] of rows.filter(([, key]) => key in results[0])) console.log(`| ${label} | ${results.map(show).join(' | ')} | ${target} | ${growth(key)} |`)
+for (const f of results) if ('mqtt' in f) f.ratio = (100 * f.mqtt) / f.copy
+for (const [label, key, show, target] of rows) if (results.some((f) => key in f || (key === 'ratio' && 'mqtt' in f))) console.log(`| ${label} | ${results.map(show).join(' | ')} | ${target} | ${growth(key)} |`)
 process.exit(0)

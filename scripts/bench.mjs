@@ -10,9 +10,8 @@ const root = join(dirname(fileURLToPath(import.meta.url)), '..')
 process.chdir(root)
 const names = process.argv.slice(2)
 ensureDependencies(root)
-// The suite measures the wall and live latency in Debian's Chromium (unless BENCH_PARTS leaves out 'browser').
-const browserPart = (process.env.BENCH_PARTS ?? 'browser').split(',').includes('browser')
-const chromium = names.includes('suite') && browserPart ? ensureChromium() : null
+// The suite measures the wall's bytes and time and live latency in Debian's Chromium.
+const chromium = names.includes('suite') ? ensureChromium() : null
 const cluster = await startThrowawayCluster()
 const stop = () => cluster.destroy()
 process.on('SIGINT', () => {

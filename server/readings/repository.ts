@@ -58,12 +58,16 @@ export async function recentValues(sequelize: Sequelize, tankId: number, metric:
   )
 }
 
-/** Temperature of these tanks since `since`, averaged into 15-minute bins (`t` is the bin's start). */
-export async function temperatureBins(sequelize: Sequelize, tankIds: number[], since: Date): Promise<Array<{ tank_id: number; t: Date; value: number }>> {
-  return sequelize.query<{ tank_id: number; t: Date; value: number }>(
-    `SELECT tank_id, date_bin('15 minutes', time, TIMESTAMPTZ '2000-01-03') AS t, avg(value) AS value
-       FROM readings WHERE metric = 'temperature' AND tank_id = ANY($1) AND time >= $2
-      GROUP BY 1, 2 ORDER BY 1, 2`,
+/** Temperature of these tanks since `since`, as 15-minute means per tank (`t` the bin's start, ISO), oldest first; one row per tank. */
+export async function temperatureTrends(sequelize: Sequelize, tankIds: number[], since: Date): Promise<Array<{ tank_id: number; trend: Array<{ t: string; value: number }> }>> {
+  return sequelize.query<{ tank_id: number; trend: Array<{ t: string; value: number }> }>(
+    `SELECT tank_id, json_agg(json_build_object(
+              't', to_char(t AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"'),
+              'value', round(value::numeric, 2)::float8) ORDER BY t) AS trend
+       FROM (SELECT tank_id, date_bin('15 minutes', time, TIMESTAMPTZ '2000-01-03') AS t, avg(value) AS value
+               FROM readings WHERE metric = 'temperature' AND tank_id = ANY($1) AND time >= $2
+              GROUP BY 1, 2) buckets
+      GROUP BY tank_id`,
     { bind: [tankIds, since], type: QueryTypes.SELECT },
   )
 }

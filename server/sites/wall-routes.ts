@@ -1,3 +1,4 @@
+import compression from 'compression'
 import { Router, type RequestHandler } from 'express'
 import { idParamsSchema } from '@shared/schemas/common'
 import { wallCredentialInputSchema } from '@shared/schemas/wall'
@@ -6,10 +7,13 @@ import type { AppContext } from '../context'
 import { parse } from '../platform/http/validate'
 import { wallService } from './wall'
 
-/** GET /sites/:id/wall — for people and for the site's own wall displays. */
+/**
+ * GET /sites/:id/wall — for people and for the site's own wall displays. Sent compressed: a large
+ * site's wall is megabytes of JSON, often to a TV on Wi-Fi.
+ */
 export function wallRoute(ctx: AppContext, personOrWall: RequestHandler) {
   const router = Router()
-  router.get('/:id/wall', personOrWall, allow('wall.read'), async (req, res) => {
+  router.get('/:id/wall', personOrWall, allow('wall.read'), compression(), async (req, res) => {
     res.json(await wallService(ctx).get(viewerOf(req), parse(idParamsSchema, req, 'params').id))
   })
   return router

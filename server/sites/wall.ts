@@ -14,7 +14,7 @@ import { whoIsOnDuty } from '../roster'
 import { canSeeSite } from '../access/scope'
 import { tankStatuses } from '../tanks'
 import { perContext } from '../platform/per-context'
-import { temperatureBins } from '../readings'
+import { temperatureTrends } from '../readings'
 
 const TREND_HOURS = 6
 const LIGHT_ON_LUX = 50
@@ -36,15 +36,10 @@ export const wallService = perContext((ctx: AppContext) => {
     return site
   }
 
+  /** Each tank's temperature in 15-minute means, one row per tank (a row per point costs a large site more than the query). */
   async function trends(tankIds: number[], now: number) {
-    const rows = await temperatureBins(sequelize, tankIds, new Date(now - TREND_HOURS * 3600_000))
-    const byTank = new Map<number, WallTank['trend']>()
-    for (const r of rows) {
-      const list = byTank.get(r.tank_id) ?? []
-      list.push({ t: r.t.toISOString(), value: Math.round(r.value * 100) / 100 })
-      byTank.set(r.tank_id, list)
-    }
-    return byTank
+    const rows = await temperatureTrends(sequelize, tankIds, new Date(now - TREND_HOURS * 3600_000))
+    return new Map(rows.map((r) => [r.tank_id, r.trend as WallTank['trend']]))
   }
 
   return {

@@ -26,11 +26,14 @@ export async function tankStatuses(ctx: AppContext, tanks: StatusTank[], now = D
     incidentsOf(ctx).openForTanks(ids),
   ])
   const latestByTank = new Map(latest.map((l) => [l.tankId, l.metrics]))
+  // Grouped once: a site of 1,000 tanks would otherwise read a million model attributes.
+  const devicesByTank = groupByTank(devices)
+  const openByTank = groupByTank(open)
   return new Map(
     tanks.map((tank) => {
       const metrics = latestByTank.get(tank.id) ?? {}
-      const mine = devices.filter((d) => d.tankId === tank.id)
-      const incidents = open.filter((i) => i.tankId === tank.id)
+      const mine = devicesByTank.get(tank.id) ?? []
+      const incidents = openByTank.get(tank.id) ?? []
       // Nobody expects readings from an empty or archived tank, so its devices cannot fall quiet.
       const expectsReadings = tank.stage !== 'empty' && !tank.archivedAt
       const quietDevices = expectsReadings ? mine.filter((d) => isDeviceQuiet(d, now)).map((d) => d.name) : []
@@ -55,4 +58,15 @@ export async function tankStatuses(ctx: AppContext, tanks: StatusTank[], now = D
       return [tank.id, status] as const
     }),
   )
+}
+
+function groupByTank<T extends { tankId: number | null }>(rows: T[]): Map<number | null, T[]> {
+  const groups = new Map<number | null, T[]>()
+  for (const row of rows) {
+    const tankId = row.tankId
+    const group = groups.get(tankId)
+    if (group) group.push(row)
+    else groups.set(tankId, [row])
+  }
+  return groups
 }

@@ -1,6 +1,6 @@
 import type { PublicWallCredential, WallResponse } from '@shared/schemas/wall'
 import { http } from './client'
-import { currentToken, storedWallSession } from './session'
+import { fetchWall, takeEarlyWall } from './wall-early'
 
 export interface CreatedWallCredential {
   credential: PublicWallCredential
@@ -8,15 +8,8 @@ export interface CreatedWallCredential {
   link: string
 }
 
-/** A display without a person signed in sends its wall key; the request interceptor adds a person's token. */
-function wallHeaders(): Record<string, string> {
-  if (currentToken()) return {}
-  const wall = storedWallSession()
-  return wall ? { Authorization: `Bearer ${wall.key}` } : {}
-}
-
 export async function getWall(siteId: number): Promise<WallResponse> {
-  return (await http.get<WallResponse>(`/sites/${siteId}/wall`, { headers: wallHeaders() })).data
+  return takeEarlyWall(siteId) ?? fetchWall(siteId)
 }
 
 export async function listWallCredentials(siteId: number): Promise<PublicWallCredential[]> {

@@ -2,7 +2,7 @@ import type { App } from 'vue'
 import { createPinia } from 'pinia'
 import { vuetify } from './vuetify'
 import { router } from '@/router'
-import { onUnauthorized } from '@/api/session'
+import { onUnauthorized, storedWallSession } from '@/api/session'
 import { useAuthStore } from '@/stores/auth'
 import { resetSessionStores } from '@/stores/session-reset'
 
@@ -19,7 +19,8 @@ export function registerPlugins(app: App) {
     const current = router.currentRoute.value
     // A display's key that stops working leaves the wall up, saying so, and retrying: signing in
     // is not something a TV can do, and the owner may fix the credential.
-    if (!personWasSignedIn && current.meta.wall) return
+    // The wall's data may be asked for before the wall is the current route (src/api/wall-early.ts).
+    if (!personWasSignedIn && (current.meta.wall || storedWallSession())) return
     auth.clearSession()
     resetSessionStores(pinia)
     if (current.meta.public) return

@@ -1,12 +1,11 @@
-import '@fontsource/roboto/400.css'
-import '@fontsource/roboto/500.css'
-import '@fontsource/roboto/700.css'
-import '@fontsource/roboto-mono/400.css'
-import '@fontsource/roboto-mono/500.css'
-import '@mdi/font/css/materialdesignicons.css'
-import 'vuetify/styles'
+import '@/styles/fonts.css'
+// Vuetify's base and utility classes; its material colour palette (bg-red-lighten-2, …) is left
+// out: every colour the client names is a theme colour.
+import 'vuetify/styles/core'
+import 'vuetify/styles/utilities'
 import { createVuetify, type ThemeDefinition } from 'vuetify'
-import { aliases, mdi } from 'vuetify/iconsets/mdi'
+import { aliases } from 'vuetify/iconsets/mdi-svg'
+import { mdiSvg } from './icons'
 import { initialThemeName } from '@/composables/useThemePreference'
 
 // Tank-state colours (steady, watch, alarm, quiet) are theme colours so later screens can use
@@ -70,7 +69,8 @@ export const tankwardenDark: ThemeDefinition = {
 }
 
 export const vuetify = createVuetify({
-  icons: { defaultSet: 'mdi', aliases, sets: { mdi } },
+  // `mdi-…` names in templates draw as SVG from the build's icon map; Vuetify's own icons ($close, …) are its SVG aliases.
+  icons: { defaultSet: 'mdi', aliases, sets: { mdi: mdiSvg } },
   theme: {
     defaultTheme: initialThemeName(),
     themes: { tankwardenLight, tankwardenDark },

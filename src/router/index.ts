@@ -1,5 +1,6 @@
-import { createRouter, createWebHistory, type Router } from 'vue-router'
+import { createRouter, createWebHistory, type RouteLocationNormalized, type Router } from 'vue-router'
 import { storeWallSession, storedWallSession } from '@/api/session'
+import { requestWallEarly } from '@/api/wall-early'
 import { pageTitle } from '@/composables/usePageTitle'
 import { useAuthStore } from '@/stores/auth'
 import { safeRedirect } from './redirect'
@@ -11,8 +12,14 @@ export const router = createRouter({
   scrollBehavior: (_to, _from, saved) => saved ?? { top: 0 },
 })
 
+/** The wall's data is asked for while its screen's code loads (the largest wait of a display's first visit). */
+function openingWall(to: RouteLocationNormalized, from: RouteLocationNormalized): true {
+  if (from.name !== 'wall' || from.params.siteId !== to.params.siteId) requestWallEarly(Number(to.params.siteId))
+  return true
+}
+
 export function installGuards(target: Router) {
-  target.beforeEach(async (to) => {
+  target.beforeEach(async (to, from) => {
     // A wall link carries its display key once: keep it, and take it out of the address bar.
     const linkKey = to.name === 'wall' ? to.query.key : undefined
     if (typeof linkKey === 'string' && linkKey) {
@@ -29,7 +36,7 @@ export function installGuards(target: Router) {
     // acknowledge link aside: it carries its own secret and shows only that one incident).
     const wall = storedWallSession()
     if (!auth.isSignedIn && wall && to.name !== 'ack') {
-      if (to.name === 'wall' && Number(to.params.siteId) === wall.siteId) return true
+      if (to.name === 'wall' && Number(to.params.siteId) === wall.siteId) return openingWall(to, from)
       return { name: 'wall', params: { siteId: String(wall.siteId) }, replace: true }
     }
 
@@ -40,7 +47,7 @@ export function installGuards(target: Router) {
     }
     if (!auth.isSignedIn) return { name: 'sign-in', query: { redirect: to.fullPath } }
     if (to.meta.roles && (!auth.role || !to.meta.roles.includes(auth.role))) return { name: 'tanks' }
-    return true
+    return to.name === 'wall' ? openingWall(to, from) : true
   })
 
   target.afterEach((to, from, failure) => {

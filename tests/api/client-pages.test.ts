@@ -1,4 +1,5 @@
 import { mkdtempSync, mkdirSync, rmSync, writeFileSync } from 'node:fs'
+import { brotliCompressSync, gzipSync } from 'node:zlib'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import request from 'supertest'
@@ -13,11 +14,16 @@ describe('the built client behind the API', () => {
   let app: ReturnType<typeof createApp>
   const dist = mkdtempSync(join(tmpdir(), 'tw-dist-'))
   const page = '<!doctype html><title>Tankwarden page</title>'
+  const SCRIPT = `console.log(${JSON.stringify('the wall '.repeat(400))})`
 
   beforeAll(async () => {
     writeFileSync(join(dist, 'index.html'), page)
     mkdirSync(join(dist, 'assets'))
     writeFileSync(join(dist, 'assets', 'app-1.js'), 'console.log(1)')
+    // The build writes brotli and gzip copies beside each text file (vite.config.ts).
+    writeFileSync(join(dist, 'assets', 'app-2.js'), SCRIPT)
+    writeFileSync(join(dist, 'assets', 'app-2.js.br'), brotliCompressSync(SCRIPT))
+    writeFileSync(join(dist, 'assets', 'app-2.js.gz'), gzipSync(SCRIPT))
     t = await startTestApp({ serveClient: true })
     app = createApp(t.ctx, { clientDir: dist })
   })
@@ -37,6 +43,30 @@ describe('the built client behind the API', () => {
     const res = await request(app).get('/assets/app-1.js')
     expect(res.status).toBe(200)
     expect(res.text).toBe('console.log(1)')
+  })
+
+  it.each([
+    ['br, gzip, deflate', 'br'],
+    ['gzip, deflate', 'gzip'],
+  ])('sends a built file compressed to a browser that accepts %s: Content-Encoding %s', async (accept, encoding) => {
+    const res = await request(app).get('/assets/app-2.js').set('Accept-Encoding', accept).buffer(true).parse((r, done) => {
+      const chunks: Buffer[] = []
+      r.on('data', (c: Buffer) => chunks.push(c))
+      r.on('end', () => done(null, Buffer.concat(chunks)))
+    })
+    expect(res.status).toBe(200)
+    expect(res.headers['content-encoding']).toBe(encoding)
+    expect(res.headers['content-type']).toMatch(/^(text|application)\/javascript/)
+    expect(res.headers.vary).toMatch(/Accept-Encoding/)
+    // supertest decodes gzip itself; brotli arrives as sent. Either way the file is the script.
+    expect(Number(res.headers['content-length'])).toBeLessThan(SCRIPT.length / 10)
+  })
+
+  it('sends the plain file to a client that accepts no compression', async () => {
+    const res = await request(app).get('/assets/app-2.js').set('Accept-Encoding', 'identity')
+    expect(res.status).toBe(200)
+    expect(res.headers['content-encoding']).toBeUndefined()
+    expect(res.text).toBe(SCRIPT)
   })
 
   it.each(['/favicon.ico', '/assets/missing-2.js', '/robots.txt'])('GET %s, a file that is not there, is a 404', async (path) => {

@@ -1,3 +1,5 @@
+import { get, type IncomingHttpHeaders } from 'node:http'
+import { gunzipSync } from 'node:zlib'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import WebSocket from 'ws'
 import type { WallResponse } from '@shared/schemas/wall'
@@ -88,3 +90,37 @@ describe('the wall and wall displays', () => {
     expect((await api(`/sites/${site}/wall`, key)).status).toBe(401)
   })
 })
+
+describe('the wall data itself', () => {
+  it('sends each tank its temperature trend in 15-minute means, compressed for a client that accepts it', async () => {
+    const trendOrg = await s.createOrg('Trend Org')
+    const tank = await createTankWithDevice(s.ctx, trendOrg, 'Trend tank')
+    // Enough tanks that the answer passes the 1 KB below which compressing is not worth it.
+    for (const name of ['Second tank', 'Third tank']) await createTankWithDevice(s.ctx, trendOrg, name)
+    const QUARTER = 15 * 60_000
+    const base = Math.floor(Date.now() / QUARTER) * QUARTER - 4 * QUARTER
+    const readings = [[base + 60_000, 25.0], [base + 120_000, 25.4], [base + QUARTER + 60_000, 26.0]].map(([at, value]) => ({ metric: 'temperature', value, time: new Date(at).toISOString() }))
+    expect((await api('/readings', tank.token, { method: 'POST', body: JSON.stringify({ v: 1, readings }) })).status).toBe(200)
+
+    const res = await request(`${s.baseUrl}/api/v1/sites/${trendOrg.siteIds[0]}/wall`, { 'accept-encoding': 'gzip', authorization: `Bearer ${trendOrg.users.viewer.token}` })
+    expect(res.status).toBe(200)
+    expect(res.headers['content-encoding']).toBe('gzip')
+    const wall = JSON.parse(gunzipSync(res.body).toString('utf8')) as WallResponse
+    expect(Object.fromEntries(wall.tanks.map((t) => [t.name, t.trend]))).toEqual({
+      'Trend tank': [{ t: new Date(base).toISOString(), value: 25.2 }, { t: new Date(base + QUARTER).toISOString(), value: 26 }],
+      'Second tank': [],
+      'Third tank': [],
+    })
+  })
+})
+
+/** A GET whose body arrives as sent (fetch would decompress it). */
+function request(url: string, headers: Record<string, string>): Promise<{ status: number; headers: IncomingHttpHeaders; body: Buffer }> {
+  return new Promise((resolve, reject) => {
+    get(url, { headers }, (res) => {
+      const chunks: Buffer[] = []
+      res.on('data', (c: Buffer) => chunks.push(c))
+      res.on('end', () => resolve({ status: res.statusCode ?? 0, headers: res.headers, body: Buffer.concat(chunks) }))
+    }).on('error', reject)
+  })
+}

@@ -72,7 +72,7 @@ describe('WallView', () => {
     await vi.advanceTimersByTimeAsync(15_000)
     expect(wrapper.find('[data-test="wall-page"]').text()).toBe('page 2 of 9')
     expect(wrapper.find('.tw-tile__name').text()).toBe('Tank 25')
-    // jsdom is far slower than a browser (about 1.5 s here alone, mostly the 24 trend charts, against
+    // jsdom is far slower than a browser (seconds here against
     // tens of milliseconds in Chromium); the bound only catches a layout that renders every page at once.
     console.info(`wall: first page of 200 tanks rendered in ${elapsedMs.toFixed(0)} ms (jsdom)`)
     expect(elapsedMs).toBeLessThan(15_000)

@@ -311,14 +311,3 @@ export function eventsSeries(input: Pick<MetricChartInput, 'events' | 'incidents
     },
   }
 }
-
-/** The wall tile's trend: a bare line, no axes, no interaction. */
-export function sparkOption(points: Array<[number, number]>, color: string): MetricChartOption {
-  return {
-    animation: false,
-    grid: { left: 2, right: 2, top: 2, bottom: 2 },
-    xAxis: { type: 'time', show: false },
-    yAxis: { type: 'value', show: false, scale: true },
-    series: [{ type: 'line', data: points, symbol: 'none', silent: true, lineStyle: { width: 2, color }, areaStyle: { color, opacity: 0.12 } }],
-  }
-}
