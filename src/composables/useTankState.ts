@@ -1,5 +1,8 @@
 import { onScopeDispose, shallowRef, watch } from 'vue'
-import type { WallTank } from '@shared/schemas/wall'
+import type { LatestResponse } from '@shared/schemas/series'
+import type { TankState, WallTank } from '@shared/schemas/wall'
+import { tankState } from '@shared/tank-state'
+import { mergeLatest } from '@/stores/live'
 import { getWall } from '@/api/wall'
 import { WALL_REFRESH_MS } from './useWall'
 
@@ -33,4 +36,21 @@ export function useTankState(source: () => { tankId: number; siteId: number } | 
     ticket++
   })
   return state
+}
+
+/**
+ * The wall's view of the tank with the page's newer readings applied by the wall's own rule, so a
+ * reading crossing into or out of its band moves the state at once. An open alarm or a silent
+ * device decides the state whatever the readings say; the next fetch settles those.
+ */
+export function withNewerReadings(wall: WallTank | null, latest: LatestResponse): WallTank | null {
+  if (!wall || wall.state === 'alarm' || wall.state === 'quiet') return wall
+  const decided: { state: TankState; reasons: string[] } = tankState({
+    latest: mergeLatest(wall.latest, latest),
+    targets: wall.targets,
+    openIncidents: wall.openIncident ? [wall.openIncident] : [],
+    quietDevices: [],
+    hasDevices: true,
+  })
+  return { ...wall, state: decided.state, stateReasons: decided.reasons }
 }
