@@ -2,7 +2,9 @@ import { onScopeDispose, shallowRef, watch } from 'vue'
 import type { LatestResponse } from '@shared/schemas/series'
 import type { TankState, WallTank } from '@shared/schemas/wall'
 import { tankState } from '@shared/tank-state'
+import { STATE_LOOKS } from '@/components/wall/tile-format'
 import { mergeLatest } from '@/stores/live'
+import { announce } from './useAnnouncer'
 import { getWall } from '@/api/wall'
 import { WALL_REFRESH_MS } from './useWall'
 
@@ -53,4 +55,25 @@ export function withNewerReadings(wall: WallTank | null, latest: LatestResponse)
     hasDevices: true,
   })
   return { ...wall, state: decided.state, stateReasons: decided.reasons }
+}
+
+/** "Reef display is now Watch: temperature 28.4 outside 24–28.": a change of state, read out politely. */
+export function stateAnnouncement(tank: Pick<WallTank, 'name' | 'state' | 'stateReasons'>): string {
+  const reasons = tank.stateReasons.length ? `: ${tank.stateReasons.join('; ')}` : ''
+  return `${tank.name} is now ${STATE_LOOKS[tank.state].word}${reasons}.`
+}
+
+/** Announces each change of the tank's state; the state shown on opening the page is not a change. */
+export function announceStateChanges(source: () => WallTank | null) {
+  watch(
+    () => {
+      const tank = source()
+      return tank ? `${tank.id}:${tank.state}` : null
+    },
+    (now, before) => {
+      const tank = source()
+      if (!tank || !now || !before || now.split(':')[0] !== before.split(':')[0]) return
+      announce(stateAnnouncement(tank))
+    },
+  )
 }

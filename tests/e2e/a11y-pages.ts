@@ -35,9 +35,12 @@ export const currentRouteName = (page: Page): Promise<string | null> =>
  */
 export async function checkPage(page: Page, label: string, found: string[]): Promise<string | null> {
   const violations = await wcagViolations(page)
+  const before = found.length
   if (violations.length) found.push(`${label}:\n${describeViolations(violations)}`)
   const unnamed = await unnamedIconButtons(page)
   if (unnamed.length) found.push(`${label}: icon-only buttons without a name saying what they do: ${unnamed.join(' | ')}`)
+  // Said at once, so a later step that fails does not hide what this one found.
+  for (const finding of found.slice(before)) console.log(finding)
   await shot(page, `a11y-${label.replace(/\W+/g, '-')}`)
   return currentRouteName(page)
 }

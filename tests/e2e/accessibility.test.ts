@@ -99,7 +99,6 @@ describe('every screen meets WCAG 2.1 AA as axe-core checks it', () => {
     visited.add(await audit(await wallContext.newPage(), label, new URL(wallLink, s.baseUrl).toString(), found))
     await wallContext.close()
 
-    if (found.length) console.log(found.join('\n\n'))
     expect(found, found.join('\n\n')).toEqual([])
   }, 240_000)
 
