@@ -85,6 +85,12 @@ describe('forms, mail links and dialogs meet WCAG 2.1 AA as axe-core checks them
     }
 
     await open(page, `${s.baseUrl}/tanks/${tankId}`)
+    // A chart's points as a table, as someone who cannot see the chart asks for them.
+    const chart = page.locator('[data-test=metric-panel-temperature]')
+    await chart.locator('[data-test=chart-table-toggle]').click()
+    await chart.locator('[data-test=chart-table] caption').waitFor()
+    await chart.locator('[data-test=chart-table]').scrollIntoViewIfNeeded()
+    await checkPage(page, `${label}-chart-table`, found)
     await auditDialog(page, `${label}-rule`, () => page.locator('[data-test=add-rule]').click(), found)
     await auditDialog(page, `${label}-care-done`, () => page.locator('[data-test=care-task-done-notes]').first().click(), found)
     const planner = page.locator('[data-test=water-change-panel]')
