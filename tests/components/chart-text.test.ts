@@ -34,6 +34,12 @@ describe('a chart in words', () => {
     )
   })
 
+  it('says so once when every value shown is the same', () => {
+    const steady = { ...raw, raw: raw.raw.map((r) => ({ ...r, value: 25 })) }
+    const text = { subject: 'Temperature', timeZone: 'UTC', format, ...metricChartRows({ series: steady }) }
+    expect(describeChart(text)).toBe('Temperature: latest 25.0 °C at 3 Mar, 11:00 UTC. Shown every value 25.0 °C, from 2 Mar, 12:00 UTC to 3 Mar, 12:00 UTC.')
+  })
+
   it('says when there is nothing in the span', () => {
     const text = { subject: 'pH', timeZone: 'UTC', format, ...metricChartRows({ series: { ...raw, raw: [] } }) }
     expect(describeChart(text)).toBe('pH: no readings from 2 Mar, 12:00 UTC to 3 Mar, 12:00 UTC.')

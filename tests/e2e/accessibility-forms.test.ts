@@ -102,6 +102,14 @@ describe('forms, mail links and dialogs meet WCAG 2.1 AA as axe-core checks them
     // The sample tank's heater top sits above the water left by a 40 % change: the start asks first.
     await auditDialog(page, `${label}-heater-confirm`, () => planner.locator('[data-test=water-change-start]').click(), found)
 
+    // A report's chart as a table: the same shared chart component, fed by the report.
+    await open(page, `${s.baseUrl}/reports?tank=${tankId}&period=week&date=${new Date().toISOString().slice(0, 10)}`)
+    const reportChart = page.locator('[data-test=report-metric-temperature]')
+    await reportChart.locator('[data-test=chart-table-toggle]').click()
+    await reportChart.locator('[data-test=chart-table] caption').waitFor()
+    await reportChart.locator('[data-test=chart-table]').scrollIntoViewIfNeeded()
+    await checkPage(page, `${label}-report-chart-table`, found)
+
     await open(page, `${s.baseUrl}/tanks/${tankId}/test-kit`)
     await auditDialog(page, `${label}-test-kit-entry`, () => page.getByRole('button', { name: /^Edit the entry of/ }).first().click(), found)
     await auditDialog(page, `${label}-delete-confirm`, () => page.getByRole('button', { name: /^Delete the entry of/ }).first().click(), found)

@@ -77,7 +77,8 @@ describe('every screen meets WCAG 2.1 AA as axe-core checks it', () => {
     const page = await browser.newPage()
     await page.setContent(
       '<main><button><i class="mdi mdi-pencil"></i></button><button aria-label="Edit the tank"><i class="mdi mdi-pencil"></i></button>' +
-        '<button aria-label="Reef appended action"><i></i></button><button>Save</button></main>',
+        '<button aria-label="Reef appended action"><i></i></button><button>Save</button>' +
+        '<i role="button" aria-hidden="true" tabindex="-1" class="mdi mdi-menu-down"></i></main>',
     )
     expect(await unnamedIconButtons(page)).toEqual(['button', 'button named "Reef appended action"'])
     await page.close()

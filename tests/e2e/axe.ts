@@ -40,12 +40,15 @@ const PLACEHOLDER_NAMES = ['appended action', 'prepended action', 'append action
 
 /**
  * Buttons that show no text (an icon only) and carry no aria-label or aria-labelledby, or one of
- * Vuetify's placeholder names: a screen reader would announce them as just "button".
+ * Vuetify's placeholder names: a screen reader would announce them as just "button". Buttons
+ * hidden from assistive technology are not counted.
  */
 export async function unnamedIconButtons(page: Page): Promise<string[]> {
   return page.evaluate(`(() => {
     const placeholders = ${JSON.stringify(PLACEHOLDER_NAMES)}
-    const visible = (el) => el.getClientRects().length > 0 && getComputedStyle(el).visibility !== 'hidden'
+    // Shown, and not hidden from assistive technology (Vuetify's dropdown arrow is a click target
+    // for the mouse only: aria-hidden, out of the tab order).
+    const visible = (el) => el.getClientRects().length > 0 && getComputedStyle(el).visibility !== 'hidden' && !el.closest('[aria-hidden=true]')
     const buttons = [...document.querySelectorAll('button, [role=button], a.v-btn')].filter(visible)
     const out = []
     for (const el of buttons) {

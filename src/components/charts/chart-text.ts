@@ -38,8 +38,8 @@ export function describeChart(text: ChartText): string {
   const latestValue = present(latest.values)[0]!
   const low = Math.min(...all)
   const high = Math.max(...all)
-  return `${text.subject}: latest ${text.format(latestValue)} at ${formatZonedDateTime(latest.t, text.timeZone)}. ` +
-    `Shown ${text.format(low)} to ${text.format(high)}, ${span}.`
+  const shown = low === high ? `every value ${text.format(low)}` : `${text.format(low)} to ${text.format(high)}`
+  return `${text.subject}: latest ${text.format(latestValue)} at ${formatZonedDateTime(latest.t, text.timeZone)}. Shown ${shown}, ${span}.`
 }
 
 const ms = (iso: string) => Date.parse(iso)
