@@ -3,7 +3,7 @@ import { onScopeDispose, ref, type Ref } from 'vue'
 const QUERY = '(prefers-reduced-motion: reduce)'
 
 /** Whether the person has asked their system for less motion, now. */
-export function prefersReducedMotion(): boolean {
+function prefersReducedMotion(): boolean {
   return typeof window !== 'undefined' && typeof window.matchMedia === 'function' && window.matchMedia(QUERY).matches
 }
 
