@@ -92,3 +92,26 @@ describe('the tank page chart', () => {
     expect(wrapper.find('table').exists()).toBe(false)
   })
 })
+
+describe('the report chart', () => {
+  it('has the same text alternative, and leaves steps without readings out of its table', async () => {
+    const { default: ReportMetricCard } = await import('@/components/report/ReportMetricCard.vue')
+    const hour = 3_600_000
+    const from = Date.parse('2026-03-02T00:00:00.000Z')
+    const metric = {
+      metric: 'temperature' as const, label: 'Temperature', unitLabel: '°C', band: { min: 24, max: 27 }, readings: 3, coveragePercent: 50,
+      timeInBandPercent: 100, belowMs: 0, aboveMs: 0, min: 25.1, max: 25.9, mean: 25.5, gapLimitMs: hour, gaps: [],
+      series: [[from + hour / 2, 25.1], [from + 1.5 * hour, null], [from + 2.5 * hour, 25.9]] as Array<[number, number | null]>,
+    }
+    const { wrapper } = await mountView(ReportMetricCard, { props: { metric, from: '2026-03-02T00:00:00.000Z', to: '2026-03-02T03:00:00.000Z', timeZone: 'UTC' } })
+    expect(wrapper.find('[data-test=chart-description]').text()).toBe(
+      'Temperature: latest 25.9 °C at 2 Mar, 02:30 UTC. Shown 25.1 °C to 25.9 °C, from 2 Mar, 00:00 UTC to 2 Mar, 03:00 UTC.',
+    )
+    await wrapper.find('[data-test=chart-table-toggle]').trigger('click')
+    expect(wrapper.find('caption').text()).toBe('Temperature: mean per step of the period, steps without readings left out; times in UTC')
+    expect(wrapper.findAll('tbody tr').map((tr) => tr.findAll('th, td').map((c) => c.text()))).toEqual([
+      ['2 Mar, 00:30 UTC', '25.1 °C'],
+      ['2 Mar, 02:30 UTC', '25.9 °C'],
+    ])
+  })
+})

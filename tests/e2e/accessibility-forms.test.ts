@@ -116,7 +116,7 @@ describe('forms, mail links and dialogs meet WCAG 2.1 AA as axe-core checks them
     await context.close()
 
     expect(found, found.join('\n\n')).toEqual([])
-  }, 300_000)
+  }, 420_000)
 
   it('opened every route this file is listed as auditing', () => {
     expect([...visited].sort()).toEqual([...AUDITED_ROUTES['accessibility-forms.test.ts']!].sort())
