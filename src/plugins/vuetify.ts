@@ -81,5 +81,8 @@ export const vuetify = createVuetify({
     VAutocomplete: { variant: 'outlined', density: 'comfortable' },
     VTextarea: { variant: 'outlined', density: 'comfortable' },
     VCard: { variant: 'flat', border: true },
+    // The paperclip outside a file field is a second, nameless way to open the file picker ("CSV
+    // file prepended action" to a screen reader); inside the field it is only a picture.
+    VFileInput: { variant: 'outlined', density: 'comfortable', prependIcon: '', prependInnerIcon: '$file' },
   },
 })

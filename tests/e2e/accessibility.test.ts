@@ -1,14 +1,17 @@
-import type { Browser, BrowserContext, Page } from 'playwright-core'
+import type { Browser } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { wallService } from '../../server/sites/wall'
 import type { TestOrg } from '../helpers/fixtures'
-import { describeViolations, wcagViolations } from './axe'
-import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'
-import { api, FIRST_LOAD_MS, postTemperatures, tankWithProbe, type App } from './keeper-setup'
+import { audit, newContext, SIZE_THEMES } from './a11y-pages'
+import { AUDITED_ROUTES } from './audited-routes'
+import { unnamedIconButtons, wcagViolations } from './axe'
+import { launchBrowser, signIn, startAppForBrowser } from './browser'
+import { api, postTemperatures, tankWithProbe, type App } from './keeper-setup'
 
 // Every screen, as a keeper's owner sees it with real data on it, is audited with axe-core against
 // WCAG 2.1 levels A and AA (Web Content Accessibility Guidelines 2.1, W3C, 2018) in both themes, at
-// desktop and phone sizes.
+// desktop and phone sizes. The screens of forms, mail links and dialogs are in
+// accessibility-forms.test.ts.
 
 let s: App
 let b: Awaited<ReturnType<typeof launchBrowser>>
@@ -46,32 +49,6 @@ afterAll(async () => {
   await s?.close()
 })
 
-const SIZES = { desktop: { width: 1280, height: 800 }, phone: { width: 390, height: 844 } }
-type Size = keyof typeof SIZES
-type Theme = 'light' | 'dark'
-
-/** Loads a screen and waits until its data has arrived and its entrance transitions are over. */
-async function open(page: Page, path: string) {
-  await page.goto(path.startsWith('http') ? path : `${s.baseUrl}${path}`, { timeout: FIRST_LOAD_MS })
-  await page.waitForLoadState('networkidle', { timeout: FIRST_LOAD_MS }).catch(() => undefined)
-  await page.locator('h1, form, main').first().waitFor({ timeout: FIRST_LOAD_MS })
-  // Vuetify fades cards and fields in; an element half-faded would be measured at half its contrast.
-  await page.waitForTimeout(400)
-}
-
-async function audit(page: Page, label: string, path: string, found: string[]) {
-  await open(page, path)
-  const violations = await wcagViolations(page)
-  if (violations.length) found.push(`${label} ${path}:\n${describeViolations(violations)}`)
-  await shot(page, `a11y-${label}${new URL(path, s.baseUrl).pathname.replace(/\W+/g, '-')}`)
-}
-
-async function newContext(size: Size, theme: Theme): Promise<BrowserContext> {
-  // The app follows the device's colour scheme until someone picks a theme. The page's CSP allows
-  // only its own scripts; the audit engine is added from outside it, so this context bypasses it.
-  return browser.newContext({ viewport: SIZES[size], colorScheme: theme, reducedMotion: 'reduce', bypassCSP: true })
-}
-
 const SIGNED_OUT = ['/sign-in', '/forgot-password']
 const signedInScreens = () => [
   '/tanks',
@@ -96,22 +73,37 @@ describe('every screen meets WCAG 2.1 AA as axe-core checks it', () => {
     await page.close()
   })
 
-  const cases: Array<[Size, Theme]> = [['desktop', 'light'], ['phone', 'light'], ['desktop', 'dark'], ['phone', 'dark']]
-  it.each(cases)('at %s size in the %s theme', async (size, theme) => {
+  it('and names every icon-only button by what it does', async () => {
+    const page = await browser.newPage()
+    await page.setContent(
+      '<main><button><i class="mdi mdi-pencil"></i></button><button aria-label="Edit the tank"><i class="mdi mdi-pencil"></i></button>' +
+        '<button aria-label="Reef appended action"><i></i></button><button>Save</button>' +
+        '<i role="button" aria-hidden="true" tabindex="-1" class="mdi mdi-menu-down"></i></main>',
+    )
+    expect(await unnamedIconButtons(page)).toEqual(['button', 'button named "Reef appended action"'])
+    await page.close()
+  })
+
+  const visited = new Set<string | null>()
+  it.each(SIZE_THEMES)('at %s size in the %s theme', async (size, theme) => {
     const found: string[] = []
-    const context = await newContext(size, theme)
+    const label = `${size}-${theme}`
+    const context = await newContext(browser, size, theme)
     const page = await context.newPage()
-    for (const path of SIGNED_OUT) await audit(page, `${size}-${theme}`, path, found)
+    for (const path of SIGNED_OUT) visited.add(await audit(page, label, `${s.baseUrl}${path}`, found))
     await signIn(page, s.baseUrl, org.users.owner.email)
     await page.evaluate(`localStorage.setItem('tw.careTodayScope', '${org.siteIds[0]}')`)
-    for (const path of signedInScreens()) await audit(page, `${size}-${theme}`, path, found)
+    for (const path of signedInScreens()) visited.add(await audit(page, label, `${s.baseUrl}${path}`, found))
     await context.close()
 
-    const wallContext = await newContext(size, theme)
-    await audit(await wallContext.newPage(), `${size}-${theme}`, new URL(wallLink, s.baseUrl).toString(), found)
+    const wallContext = await newContext(browser, size, theme)
+    visited.add(await audit(await wallContext.newPage(), label, new URL(wallLink, s.baseUrl).toString(), found))
     await wallContext.close()
 
-    if (found.length) console.log(found.join('\n\n'))
     expect(found, found.join('\n\n')).toEqual([])
   }, 240_000)
+
+  it('opened every route this file is listed as auditing', () => {
+    expect([...visited].sort()).toEqual([...AUDITED_ROUTES['accessibility.test.ts']!].sort())
+  })
 })

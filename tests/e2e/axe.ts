@@ -34,3 +34,33 @@ export async function wcagViolations(page: Page): Promise<AxeViolation[]> {
 export function describeViolations(violations: AxeViolation[]): string {
   return violations.map((v) => `${v.id} (${v.impact}, ${v.targets.length}): ${v.targets.slice(0, 8).join(' | ')} — ${v.detail}`).join('\n')
 }
+
+/** Names Vuetify gives icon buttons of its own that say where they are, not what they do. */
+const PLACEHOLDER_NAMES = ['appended action', 'prepended action', 'append action', 'prepend action']
+
+/**
+ * Buttons that show no text (an icon only) and carry no aria-label or aria-labelledby, or one of
+ * Vuetify's placeholder names: a screen reader would announce them as just "button". Buttons
+ * hidden from assistive technology are not counted.
+ */
+export async function unnamedIconButtons(page: Page): Promise<string[]> {
+  return page.evaluate(`(() => {
+    const placeholders = ${JSON.stringify(PLACEHOLDER_NAMES)}
+    // Shown, and not hidden from assistive technology (Vuetify's dropdown arrow is a click target
+    // for the mouse only: aria-hidden, out of the tab order).
+    const visible = (el) => el.getClientRects().length > 0 && getComputedStyle(el).visibility !== 'hidden' && !el.closest('[aria-hidden=true]')
+    const buttons = [...document.querySelectorAll('button, [role=button], a.v-btn')].filter(visible)
+    const out = []
+    for (const el of buttons) {
+      const text = (el.innerText ?? el.textContent ?? '').trim()
+      const byIds = (el.getAttribute('aria-labelledby') ?? '').split(' ').filter(Boolean).map((id) => document.getElementById(id)?.textContent ?? '').join(' ').trim()
+      const name = (el.getAttribute('aria-label') ?? '').trim() || byIds
+      const placeholder = placeholders.some((p) => name.toLowerCase().endsWith(p))
+      if ((!text && !name) || placeholder) {
+        const where = el.closest('[data-test]')?.getAttribute('data-test')
+        out.push(el.tagName.toLowerCase() + (el.className ? '.' + String(el.className).trim().split(/\\s+/).slice(0, 3).join('.') : '') + (where ? ' in [data-test=' + where + ']' : '') + (name ? ' named "' + name + '"' : ''))
+      }
+    }
+    return out
+  })()`) as Promise<string[]>
+}

@@ -53,14 +53,19 @@ const focused = (page: Page): Promise<Focused> =>
     if (!el || el === document.body) return { name: '', tag: 'body', visible: false }
     const byIds = el.getAttribute('aria-labelledby')?.split(' ').map((id) => document.getElementById(id)?.textContent ?? '').join(' ')
     const name = (el.getAttribute('aria-label') || byIds || el.labels?.[0]?.textContent || el.textContent || '').trim()
-    // A Vuetify field shows its focus on the field around the input; links and buttons on an outline.
-    const field = el.closest('.v-field')
+    // A Vuetify field shows its focus on the field around the input; links and buttons (a field's
+    // own "Show password" too) on an outline.
+    const field = el.matches('input, textarea, select') ? el.closest('.v-field') : null
     const visible = field ? field.classList.contains('v-field--focused') : el.matches(':focus-visible') && getComputedStyle(el).outlineStyle !== 'none'
     return { name, tag: el.tagName.toLowerCase(), visible }
   })()`) as Promise<Focused>
 
-/** Presses Tab until the focus is on a control named `name`; every stop on the way must show its focus. */
+/**
+ * Presses Tab until the focus is on a control named `name`; every stop on the way must show its
+ * focus. A control that already has the focus (a form's first field focuses itself) needs no Tab.
+ */
 async function tabTo(page: Page, name: string, maxStops = 80) {
+  if ((await focused(page)).name === name) return
   const stops: Focused[] = []
   for (let i = 0; i < maxStops; i++) {
     await page.keyboard.press('Tab')
