@@ -32,8 +32,8 @@ const snapshot = (value: unknown) =>
 /**
  * A form's field errors: its own checks (`show`) and the server's (`server`, usually the
  * `serverErrors` prop a list passes down), one set on screen. A field's message goes as soon as
- * that field changes (`heater.topCm` goes with `heater`), so nobody reads an error about a value
- * they have already corrected.
+ * that field changes (`heater.topCm` goes with `heater`; a whole-form `_form` message with any field),
+ * so nobody reads an error about a value they have already corrected.
  */
 export function useFieldErrors(fields: () => Record<string, unknown>, server: () => FieldErrors | undefined = () => undefined) {
   const errors = ref<FieldErrors>({})
@@ -48,7 +48,7 @@ export function useFieldErrors(fields: () => Record<string, unknown>, server: ()
       const changed = [...after.keys()].filter((key) => after.get(key) !== before.get(key))
       before = after
       if (!changed.length) return
-      const kept = Object.entries(errors.value).filter(([path]) => !changed.some((key) => path === key || path.startsWith(`${key}.`)))
+      const kept = Object.entries(errors.value).filter(([path]) => path !== '_form' && !changed.some((key) => path === key || path.startsWith(`${key}.`)))
       if (kept.length !== Object.keys(errors.value).length) errors.value = Object.fromEntries(kept)
     },
     { deep: true },

@@ -125,9 +125,9 @@ describe('useFieldErrors', () => {
   it('shows the server’s messages and drops a field’s message as soon as that field changes', async () => {
     const server = ref<FieldErrors>({})
     const { draft, form } = withForm(() => server.value)
-    server.value = { name: 'already used on this site', 'heater.topCm': 'above the water line' }
+    server.value = { name: 'already used on this site', 'heater.topCm': 'above the water line', _form: 'check the heater' }
     await nextTick()
-    expect(form.errors.value).toEqual({ name: 'already used on this site', 'heater.topCm': 'above the water line' })
+    expect(form.errors.value).toEqual({ name: 'already used on this site', 'heater.topCm': 'above the water line', _form: 'check the heater' })
     draft.name = 'Reef 2'
     await nextTick()
     expect(form.errors.value).toEqual({ 'heater.topCm': 'above the water line' })
