@@ -89,6 +89,8 @@ export const useAuthStore = defineStore('auth', () => {
     restore,
     clearSession,
     changePassword,
+    // Signing out resets every store (stores/session-reset.ts); for this one that is the session itself.
+    $reset: clearSession,
   }
 })
 

@@ -9,14 +9,18 @@ export const useUsersStore = defineStore('users', () => {
   const invitations = ref<Invitation[]>([])
   const loading = ref(false)
 
+  // An answer that arrives after a sign-out belongs to the last person: it is dropped.
+  let request = 0
   async function load() {
+    const call = ++request
     loading.value = true
     try {
       const [userList, invitationList] = await Promise.all([usersApi.listUsers(), usersApi.listInvitations()])
+      if (call !== request) return
       users.value = userList
       invitations.value = invitationList
     } finally {
-      loading.value = false
+      if (call === request) loading.value = false
     }
   }
 
@@ -40,8 +44,10 @@ export const useUsersStore = defineStore('users', () => {
   }
 
   function $reset() {
+    request++
     users.value = []
     invitations.value = []
+    loading.value = false
   }
 
   return { users, invitations, loading, load, update, invite, revoke, $reset }
