@@ -1,7 +1,7 @@
 // The build report: what went into the tank, the steps with their dates, the readings through
 // cycling, photos, livestock and the care plan that follows; as data, a PDF and a mail.
 import { QueryTypes } from 'sequelize'
-import { formatLocalDate, localDateAt } from '@shared/roster/zoned-time'
+import { formatLocalDate, localDateAt } from '@shared/time/zoned'
 import type { UserActor } from '../auth/actor'
 import type { AppContext } from '../context'
 import { enqueueMail } from '../mail/outbox'

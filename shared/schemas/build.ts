@@ -2,7 +2,7 @@ import { z } from 'zod'
 import { SPECIES_KEYS } from '../care/species'
 import { DEFAULT_MEDIA_ORDER, TROPICAL_SET_POINT_C } from '../build/equipment'
 import { DEFAULT_MAX_PH_CHANGE_PER_DAY, DEFAULT_SETTLE_DAYS } from '../build/timeline'
-import { parseLocalDate } from '../roster/zoned-time'
+import { parseLocalDate } from '../time/zoned'
 import { clockTimeSchema } from './common'
 import { targetBandSchema, type PublicTank } from './tanks'
 

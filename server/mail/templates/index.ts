@@ -2,4 +2,4 @@ export { deviceBack, incidentEscalated, incidentOpened, incidentRaised, incident
 export { invitation, passwordReset, type InvitationInput, type PasswordResetInput } from './account'
 export { ELECTRICAL_SAFETY_CAUTION, READINGS_ARE_AIDS } from './safety'
 export { escapeHtml } from './html'
-export { formatInZone } from './time'
+export { formatInZone } from '@shared/time'
