@@ -7,6 +7,7 @@ import type { AppContext } from '../context'
 import { AppError, badRequest, conflict, fromZod } from '../errors'
 import { BACKUP_FORMAT, BACKUP_FORMAT_VERSION } from '@shared/schemas/exports'
 import { BACKUP_TABLES, readingTupleSchema, referenceOf, rowSchema, type BackupTable } from './backup-tables'
+import type { RestoreSummary } from '@shared/schemas/exports'
 
 const READING_CHUNK = 5000
 type Row = Record<string, unknown>
@@ -20,7 +21,6 @@ const backupSchema = z.object({
   readings: z.array(readingTupleSchema),
 })
 
-export type RestoreSummary = { organizationName: string; rows: Record<string, number>; readings: number; notes: string[] }
 
 /** Reads and checks a backup file completely before anything is written. */
 export function parseBackup(file: Buffer): Backup {

@@ -1,5 +1,5 @@
 import { Op } from 'sequelize'
-import type { InviteInput, Role } from '@shared/schemas/auth'
+import type { InviteInput, UserChanges } from '@shared/schemas/auth'
 import type { UserActor } from '../auth/actor'
 import { hashSecret, newSecretToken } from '../auth/tokens'
 import type { AppContext } from '../context'
@@ -11,7 +11,6 @@ import { publicUser } from './serializers'
 
 const INVITATION_DAYS = 7
 
-type UserChanges = { role?: Role; active?: boolean; name?: string; siteIds?: number[] }
 
 export function usersService(ctx: AppContext) {
   const { models, sequelize } = ctx

@@ -1,12 +1,6 @@
-import type { PublicWallCredential, WallResponse } from '@shared/schemas/wall'
+import type { CreatedWallCredential, PublicWallCredential, WallResponse } from '@shared/schemas/wall'
 import { http } from './client'
 import { currentToken, storedWallSession } from './session'
-
-export interface CreatedWallCredential {
-  credential: PublicWallCredential
-  /** Relative, e.g. `/wall/3?key=…`; shown once, made absolute for the TV. */
-  link: string
-}
 
 /** A display without a person signed in sends its wall key; the request interceptor adds a person's token. */
 function wallHeaders(): Record<string, string> {

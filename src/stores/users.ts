@@ -1,8 +1,7 @@
 import { acceptHMRUpdate, defineStore } from 'pinia'
 import { ref } from 'vue'
-import type { InviteInput, PublicUser } from '@shared/schemas/auth'
+import type { Invitation, InviteInput, PublicUser, UserChanges } from '@shared/schemas/auth'
 import * as usersApi from '@/api/users'
-import type { Invitation, UserChanges } from '@/api/users'
 
 export const useUsersStore = defineStore('users', () => {
   const users = ref<PublicUser[]>([])
