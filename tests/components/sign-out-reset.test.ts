@@ -30,7 +30,7 @@ function leftOver(value: unknown): unknown {
   return 'left over'
 }
 
-describe('signing out', () => {
+describe('signing out', { timeout: 30_000 }, () => {
   it('finds every store of the app', () => {
     expect(useStores.map((useStore) => useStore.$id).sort()).toEqual(
       ['auth', 'care', 'devMail', 'exports', 'imports', 'live', 'photos', 'reports', 'sites', 'tanks', 'users'].sort(),
