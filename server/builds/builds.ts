@@ -3,7 +3,7 @@ import { buildFigures, buildDay, buildTimeline, redateStocking, zeroOnConsecutiv
 import { defaultCareTasksFor } from '@shared/care/defaults'
 import { speciesByKey } from '@shared/care/species'
 import type { TankShape } from '@shared/chemistry/volume'
-import { addDays, formatLocalDate, localDateAt, parseLocalDate } from '@shared/roster/zoned-time'
+import { addDays, formatLocalDate, localDateAt, parseLocalDate } from '@shared/time/zoned'
 import type { BuildPlan, BuildStartInput, BuildStepDoneInput, PublicBuild, PublicBuildStep } from '@shared/schemas/build'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'

@@ -1,6 +1,6 @@
 // The build report: what went into the tank, the steps with their dates, the readings through
 // cycling, photos, livestock and the care plan that follows, as data the PDF and the mail render.
-import { formatLocalDate, localDateAt } from '@shared/roster/zoned-time'
+import { formatLocalDate, localDateAt } from '@shared/time/zoned'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { buildsService } from './builds'

@@ -1,17 +1,13 @@
 // The build report as a PDF, in the client report's fonts and colours (pdf.ts).
 import { substrateMaterial } from '@shared/build/materials'
 import { buildDay } from '@shared/build/timeline'
-import { formatLocalDate, localDateAt } from '@shared/roster/zoned-time'
+import { formatCalendarDay as day, formatLocalDate, localDateAt } from '@shared/time'
 import { READINGS_ARE_AIDS } from '../mail'
 import type { BuildReport } from './report-data'
 import { COLOURS, openDocument, section, write, type Doc } from '../reports'
 
 const n = (value: number, digits = 1) => value.toFixed(digits)
 const METRIC_WORDS: Record<string, string> = { temperature: '°C', ph: 'pH', ammonia: 'ammonia', nitrite: 'nitrite', nitrate: 'nitrate' }
-
-function day(iso: string, timeZone: string) {
-  return new Intl.DateTimeFormat('en-GB', { timeZone, day: 'numeric', month: 'short', year: 'numeric' }).format(new Date(iso))
-}
 
 function shapeText(report: BuildReport) {
   const d = report.tank.dimensions

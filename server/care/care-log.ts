@@ -1,6 +1,7 @@
 import { Op, type Transaction } from 'sequelize'
 import type { CareValues } from '@shared/care/defaults'
 import type { CareLogInput, CareLogKind } from '@shared/schemas/care'
+import type { PublicCareLogEntry } from '@shared/schemas/care-api'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { badRequest } from '../platform/errors'
@@ -8,17 +9,7 @@ import type { CareLogEntry } from '../models'
 import { visibleTank } from '../access/scope'
 import { perContext } from '../platform/per-context'
 
-export interface PublicCareLogEntry {
-  id: number
-  tankId: number
-  kind: CareLogKind
-  at: string
-  by: { id: number; name: string } | null
-  text: string
-  values: CareValues
-  careTaskId: number | null
-  waterChangeId: number | null
-}
+export type { PublicCareLogEntry }
 
 const MAX_ENTRIES = 1000
 /** A care-log entry may be back-dated (written up afterwards) but not dated ahead of now. */

@@ -2,6 +2,7 @@ import { Op, type Transaction } from 'sequelize'
 import { CARE_TASK_KIND_TITLES, defaultCareTasksFor, type CareTaskKind } from '@shared/care/defaults'
 import { byUrgency, careDue, type CareDue } from '@shared/care/due'
 import type { CareTaskDone, CareTaskInput, CareTasksDone, CareTaskUpdate } from '@shared/schemas/care'
+import type { PublicCareTask } from '@shared/schemas/care-api'
 import type { UserActor } from '../access/actor'
 import { tanksToWatch } from './tanks-to-watch'
 import type { AppContext } from '../context'
@@ -18,10 +19,10 @@ import { perContext } from '../platform/per-context'
 const MAX_SNOOZE_DAYS = 60
 const DAY_MS = 86_400_000
 
-export type PublicCareTask = ReturnType<typeof presentTask>
+export type { PublicCareTask }
 type TankWithSite = Tank & { site?: { id: number; name: string; timeZone: string } }
 
-function presentTask(task: CareTask, timeZone: string, now: Date) {
+function presentTask(task: CareTask, timeZone: string, now: Date): PublicCareTask {
   return {
     id: task.id,
     tankId: task.tankId,

@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import { byUrgency } from '@shared/care/due'
-import { formatLocalDate, localDateAt, offsetAt } from '@shared/roster/zoned-time'
+import { formatLocalDate, localDateAt, offsetAt } from '@shared/time/zoned'
 import type { AppContext } from '../context'
 import { careDigest, type DigestTank, type DigestTask } from '../mail'
 import { enqueueMail } from '../mail'

@@ -1,7 +1,7 @@
 // One demo tank mid-build: filled eight days ago (build day 9 of about 28), the first steps
 // ticked on their days, and daily test-kit readings showing the cycle under way. Invented data.
 import { buildPlanSchema } from '@shared/schemas/build'
-import { formatLocalDate, localDateAt } from '@shared/roster/zoned-time'
+import { formatLocalDate, localDateAt } from '@shared/time/zoned'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { buildsService } from '../builds'

@@ -9,6 +9,7 @@ import { BACKUP_FORMAT, BACKUP_FORMAT_VERSION } from '@shared/schemas/exports'
 import { BACKUP_TABLES, readingTupleSchema, referenceOf, rowSchema, type BackupTable } from './backup-tables'
 import { perContext } from '../platform/per-context'
 import { insertRestoredReadings } from '../readings'
+import type { RestoreSummary } from '@shared/schemas/exports'
 
 const READING_CHUNK = 5000
 type Row = Record<string, unknown>
@@ -22,7 +23,6 @@ const backupSchema = z.object({
   readings: z.array(readingTupleSchema),
 })
 
-export type RestoreSummary = { organizationName: string; rows: Record<string, number>; readings: number; notes: string[] }
 
 /** Reads and checks a backup file completely before anything is written. */
 export function parseBackup(file: Buffer): Backup {

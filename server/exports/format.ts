@@ -1,4 +1,4 @@
-import { offsetAt } from '@shared/roster/zoned-time'
+import { offsetAt } from '@shared/time/zoned'
 
 const QUARTER_HOUR_MS = 900_000
 const pad = (n: number, width = 2) => String(n).padStart(width, '0')

@@ -1,4 +1,4 @@
-import { localToInstant } from '@shared/roster/zoned-time'
+import { localToInstant } from '@shared/time/zoned'
 import { LOCAL_TIME_FORMATS, type TimeDetection, type TimeFormat } from '@shared/schemas/imports'
 
 const ISO_OFFSET = /^\d{4}-\d{2}-\d{2}[T ]\d{2}:\d{2}(:\d{2}(\.\d{1,9})?)?(Z|[+-]\d{2}:?\d{2})$/i

@@ -1,6 +1,6 @@
 import { Op } from 'sequelize'
 import { occurrencesBetween } from '@shared/rules/maintenance'
-import { minutesOfClock } from '@shared/roster/zoned-time'
+import { minutesOfClock } from '@shared/time/zoned'
 import type { MaintenanceInput, PublicMaintenanceWindow } from '@shared/schemas/maintenance'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'

@@ -2,7 +2,7 @@ import { Op } from 'sequelize'
 import type { AppContext } from '../context'
 import { enqueueMail } from '../mail'
 import { escapeHtml, layout } from '../mail'
-import { formatInZone } from '../mail'
+import { formatInZone } from '@shared/time'
 
 export const REMIND_BEFORE_MS = 15 * 60_000
 const WEEK_MS = 7 * 86400_000

@@ -1,4 +1,4 @@
-import { offsetAt } from '@shared/roster/zoned-time'
+import { offsetAt } from '@shared/time/zoned'
 
 // The chart library and the image library are loaded on the first chart, not at start-up: together
 // they are about 60 MB of memory an instance that never mails a chart never needs.

@@ -1,5 +1,5 @@
 import { Op } from 'sequelize'
-import type { InviteInput, Role } from '@shared/schemas/auth'
+import type { InviteInput, UserChanges } from '@shared/schemas/auth'
 import type { UserActor } from '../access/actor'
 import { hashSecret, newSecretToken } from '../access/tokens'
 import type { AppContext } from '../context'
@@ -12,7 +12,6 @@ import { presentUser } from './present-user'
 
 const INVITATION_DAYS = 7
 
-type UserChanges = { role?: Role; active?: boolean; name?: string; siteIds?: number[] }
 
 
 export const usersService = perContext((ctx: AppContext) => {

@@ -2,6 +2,7 @@
 import { createRequire } from 'node:module'
 import PDFDocument from 'pdfkit'
 import { formatBand, formatPercent, formatSpan, formatValue, metricSummary } from '@shared/report/format'
+import { formatDateTime as moment, formatDay as dayLabel } from '@shared/time'
 import type { Report, ReportMetric, TankReport } from '@shared/schemas/reports'
 import { READINGS_ARE_AIDS } from '../mail'
 import { REPORT_MAX_GAP_MS } from './report-data'
@@ -32,14 +33,6 @@ export function write(doc: Doc, text: string, font: 'body' | 'bold', size: numbe
 
 export function ensureRoom(doc: Doc, height: number) {
   if (doc.y + height > PAGE_BOTTOM) doc.addPage()
-}
-
-function dayLabel(ms: number, timeZone: string) {
-  return new Intl.DateTimeFormat('en-GB', { timeZone, weekday: 'short', day: 'numeric', month: 'short' }).format(ms)
-}
-
-function moment(iso: string, timeZone: string) {
-  return new Intl.DateTimeFormat('en-GB', { timeZone, day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(new Date(iso))
 }
 
 /** A line chart of the period: band shaded, the line broken at gaps, min and max of the axis labelled. */

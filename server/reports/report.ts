@@ -1,5 +1,5 @@
 import { reportPeriod, type ReportPeriod, type ReportPeriodKind } from '@shared/report/period'
-import { formatLocalDate, localDateAt } from '@shared/roster/zoned-time'
+import { formatLocalDate, localDateAt } from '@shared/time/zoned'
 import type { Report, ReportQuery } from '@shared/schemas/reports'
 import type { Actor } from '../access/actor'
 import type { AppContext } from '../context'

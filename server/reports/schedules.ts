@@ -1,6 +1,6 @@
 import { Op } from 'sequelize'
 import { lastEndedPeriod, type ReportPeriod } from '@shared/report/period'
-import { localToInstant, parseLocalDate } from '@shared/roster/zoned-time'
+import { localToInstant, parseLocalDate } from '@shared/time/zoned'
 import type { ReportSchedule as PublicSchedule, ReportScheduleInput, ReportScheduleUpdate } from '@shared/schemas/reports'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'

@@ -1,6 +1,6 @@
 // The build timeline: dated steps from the day the tank is filled to its first stocking.
 // Day 1 is the fill day. Every interval here is common practice among keepers, not a standard.
-import { addDays, formatLocalDate, parseLocalDate } from '../roster/zoned-time'
+import { addDays, formatLocalDate, parseLocalDate } from '../time/zoned'
 import { daysBetween } from '../care/due'
 import { AMMONIA_ZERO_MG_L, NITRITE_ZERO_MG_L } from '../care/cycling'
 import { requireInRange, requirePositiveUpTo } from '../chemistry/validate'

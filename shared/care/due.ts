@@ -1,5 +1,5 @@
 // When a care task is next due and how urgent it is, on the site's own calendar.
-import { addDays, formatLocalDate, localDateAt, parseLocalDate, weekdayOf, type LocalDate } from '../roster/zoned-time'
+import { addDays, formatLocalDate, localDateAt, parseLocalDate, weekdayOf, type LocalDate } from '../time/zoned'
 
 /** Every N days after the last time it was done, or on fixed weekdays (0 = Monday … 6 = Sunday). */
 export type CareRecurrence = { kind: 'interval'; everyDays: number } | { kind: 'weekdays'; weekdays: number[] }

@@ -1,6 +1,6 @@
 // How many times a care task fell due in a report period, and how many times it was done.
 import type { CareRecurrence } from '../care/due'
-import { addDays, formatLocalDate, localDateAt, parseLocalDate, weekdayOf, type LocalDate } from '../roster/zoned-time'
+import { addDays, formatLocalDate, localDateAt, parseLocalDate, weekdayOf, type LocalDate } from '../time/zoned'
 import { daysOf, type ReportPeriod } from './period'
 
 export type CareTaskHistory = {

@@ -1,5 +1,5 @@
 // Report periods on the site's own calendar: an ISO week (Monday to Sunday) or a calendar month.
-import { addDays, formatLocalDate, localDateAt, localToInstant, parseLocalDate, weekdayOf, type LocalDate } from '../roster/zoned-time'
+import { addDays, formatLocalDate, localDateAt, localToInstant, parseLocalDate, weekdayOf, type LocalDate } from '../time/zoned'
 
 export const REPORT_PERIOD_KINDS = ['week', 'month'] as const
 export type ReportPeriodKind = (typeof REPORT_PERIOD_KINDS)[number]

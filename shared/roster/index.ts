@@ -1,10 +1,10 @@
 import type { DutySpan, RosterOverride, WeeklyShift } from './schema'
 import { applyOverrides, patternSpansOn } from './spans'
-import { addDays, localDateAt, localToInstant, parseLocalDate } from './zoned-time'
+import { addDays, localDateAt, localToInstant, parseLocalDate } from '../time/zoned'
 
 export * from './schema'
-export { isValidTimeZone, localToInstant, offsetAt, parseLocalDate } from './zoned-time'
-export type { LocalDate } from './zoned-time'
+export { isValidTimeZone, localToInstant, offsetAt, parseLocalDate } from '../time/zoned'
+export type { LocalDate } from '../time/zoned'
 
 export type RosterPattern = readonly WeeklyShift[] | { shifts: readonly WeeklyShift[] }
 

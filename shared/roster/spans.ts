@@ -1,6 +1,6 @@
 import type { DutySpan, RosterOverride, WeeklyShift } from './schema'
-import { addDays, localToInstant, minutesOfClock, weekdayOf } from './zoned-time'
-import type { LocalDate } from './zoned-time'
+import { addDays, localToInstant, minutesOfClock, weekdayOf } from '../time/zoned'
+import type { LocalDate } from '../time/zoned'
 
 /**
  * The pattern's shifts that start on local `date`, as real instants. Durations follow the

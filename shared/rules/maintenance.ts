@@ -1,4 +1,4 @@
-import { addDays, localDateAt, localToInstant, weekdayOf } from '../roster/zoned-time'
+import { addDays, localDateAt, localToInstant, weekdayOf } from '../time/zoned'
 
 /** A maintenance window as the engine and the screens read it. Weekly ones are in the site's zone. */
 export interface MaintenanceSpan {

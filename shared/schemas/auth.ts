@@ -41,6 +41,7 @@ export const updateUserSchema = z
     siteIds: z.array(z.number().int().positive()).max(500).optional(),
   })
   .refine((v) => Object.keys(v).length > 0, 'nothing to change')
+export type UserChanges = z.input<typeof updateUserSchema>
 
 export interface PublicUser {
   id: number
@@ -62,3 +63,37 @@ export interface SessionInfo {
 
 export const passwordResetRequestSchema = z.object({ email: emailSchema })
 export const passwordResetConfirmSchema = z.object({ token: z.string().min(20).max(200), password: passwordSchema })
+
+export interface Organization {
+  id: number
+  name: string
+}
+
+export interface Me {
+  user: PublicUser
+  organization: Organization
+}
+
+export interface InvitationPreview {
+  email: string
+  name: string
+  role: Role
+  organizationName: string
+  expiresAt: string
+}
+
+export interface Invitation {
+  id: number
+  email: string
+  name: string
+  role: Role
+  siteIds: number[]
+  expiresAt: string
+  createdAt: string
+}
+
+export interface CreatedInvitation {
+  invitation: Invitation
+  /** Relative, e.g. `/accept-invite?token=…`; the client makes it absolute for copying. */
+  link: string
+}

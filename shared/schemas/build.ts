@@ -2,7 +2,7 @@ import { z } from 'zod'
 import { SPECIES_KEYS } from '../care/species'
 import { DEFAULT_MEDIA_ORDER, TROPICAL_SET_POINT_C } from '../build/equipment'
 import { DEFAULT_MAX_PH_CHANGE_PER_DAY, DEFAULT_SETTLE_DAYS } from '../build/timeline'
-import { parseLocalDate } from '../roster/zoned-time'
+import { parseLocalDate } from '../time/zoned'
 import { clockTimeSchema } from './common'
 import { targetBandSchema, type PublicTank } from './tanks'
 
@@ -97,6 +97,8 @@ export const buildStepDoneSchema = z.object({
     .optional(),
 })
 export type BuildStepDoneInput = z.infer<typeof buildStepDoneSchema>
+/** The body as a client sends it, before the defaults are filled in. */
+export type BuildStepDoneBody = z.input<typeof buildStepDoneSchema>
 export const buildStepParamsSchema = z.object({ id: z.coerce.number().int().positive(), key: z.string().regex(/^(conditioner|heater_check|ph|plants|cycling|stock_[1-8])$/, 'unknown step') })
 export const buildReportMailSchema = z.object({ emails: z.array(z.email().max(320)).min(1, 'at least one address').max(10) })
 
@@ -141,4 +143,11 @@ export function defaultBuildPlan(tank: Pick<PublicTank, 'dimensions' | 'heater' 
     plants: tank.kind === 'planted',
     stocking: [],
   }
+}
+
+export interface BuildTemplate {
+  tankId: number
+  tankName: string
+  finishedAt: string
+  plan: BuildPlan
 }

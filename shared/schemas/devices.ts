@@ -40,3 +40,9 @@ export function isDeviceQuiet(
   const last = new Date(d.lastSeenAt ?? d.createdAt).getTime()
   return now - last > 3 * d.intervalSeconds * 1000
 }
+
+export interface DeviceWithToken {
+  device: PublicDevice
+  /** Shown once; the server keeps only a hash. */
+  token: string
+}

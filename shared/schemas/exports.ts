@@ -28,3 +28,10 @@ export const BACKUP_FORMAT = 'tankwarden-organization-backup'
 export const BACKUP_FORMAT_VERSION = 1
 /** The largest backup file a restore accepts. */
 export const MAX_BACKUP_BYTES = 256 * 1024 * 1024
+
+export interface RestoreSummary {
+  organizationName: string
+  rows: Record<string, number>
+  readings: number
+  notes: string[]
+}

@@ -64,3 +64,35 @@ export interface PublicIncident {
 export interface IncidentDetail extends PublicIncident {
   timeline: Array<{ at: string; kind: string; userId: number | null; detail: Record<string, unknown> }>
 }
+
+/** What an acknowledge link from an alert mail points at; readable without a session. */
+export interface AckLinkIncident {
+  id: number
+  title: string
+  severity: 'warning' | 'alarm'
+  state: IncidentState
+  tankName: string
+  siteName: string
+  /** The site's zone: every time on the page is shown on its clock. */
+  timeZone: string
+  openedAt: string
+  acknowledgedAt: string | null
+  acknowledgedBy: { name: string } | null
+  resolvedAt: string | null
+  resolvedBy: { name: string } | null
+}
+
+export interface AckLinkInfo {
+  incident: AckLinkIncident
+  usedAt: string | null
+  expiresAt: string
+  expired: boolean
+}
+
+export interface AckLinkResult {
+  state: string
+  /** Someone had already acknowledged or resolved it; the link is spent all the same. */
+  alreadyHandled: boolean
+  /** The incident after the press: acknowledged, by whom and when. */
+  incident: AckLinkIncident
+}

@@ -15,6 +15,8 @@ export const photoUploadFieldsSchema = z.object({
   careLogEntryId: z.coerce.number().int().positive().optional(),
 })
 export type PhotoUploadFields = z.infer<typeof photoUploadFieldsSchema>
+/** The same fields as a client has them, before they become form strings. */
+export type PhotoUpload = { caption?: string; takenAt?: string; careLogEntryId?: number }
 
 export const photoListQuerySchema = z.object({ from: isoInstant.optional(), to: isoInstant.optional() })
 

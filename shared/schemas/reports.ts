@@ -31,6 +31,8 @@ export const reportScheduleInputSchema = z
   .refine((s) => (s.tankId === null) !== (s.siteId === null), { message: 'choose either a tank or a site', path: ['tankId'] })
   .refine((s) => s.emails.length + s.userIds.length > 0, { message: 'add at least one recipient', path: ['emails'] })
 export type ReportScheduleInput = z.infer<typeof reportScheduleInputSchema>
+/** The body as a client sends it, before the defaults are filled in. */
+export type ReportScheduleBody = z.input<typeof reportScheduleInputSchema>
 
 /** What may change on a schedule: its recipients, period and whether it runs; not what it covers. */
 export const reportScheduleUpdateSchema = z.object({
@@ -39,6 +41,7 @@ export const reportScheduleUpdateSchema = z.object({
   enabled: z.boolean(),
 }).partial()
 export type ReportScheduleUpdate = z.infer<typeof reportScheduleUpdateSchema>
+export type ReportScheduleUpdateBody = z.input<typeof reportScheduleUpdateSchema>
 
 export type ReportSchedule = {
   id: number

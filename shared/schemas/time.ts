@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { parseLocalDate } from '../roster/zoned-time'
+import { parseLocalDate } from '../time/zoned'
 
 /**
  * The earliest and latest instants the API accepts. PostgreSQL refuses year 0 (there is none in

@@ -65,3 +65,9 @@ export interface PublicWallCredential {
   lastUsedAt: string | null
   revokedAt: string | null
 }
+
+export interface CreatedWallCredential {
+  credential: PublicWallCredential
+  /** Relative, e.g. `/wall/3?key=…`; shown once, made absolute for the TV. */
+  link: string
+}

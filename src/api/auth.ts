@@ -1,23 +1,5 @@
-import type { PublicUser, Role, SessionInfo, SignInInput } from '@shared/schemas/auth'
+import type { InvitationPreview, Me, SessionInfo, SignInInput } from '@shared/schemas/auth'
 import { http } from './client'
-
-export interface Organization {
-  id: number
-  name: string
-}
-
-export interface Me {
-  user: PublicUser
-  organization: Organization
-}
-
-export interface InvitationPreview {
-  email: string
-  name: string
-  role: Role
-  organizationName: string
-  expiresAt: string
-}
 
 export async function signIn(input: SignInInput): Promise<SessionInfo> {
   return (await http.post<SessionInfo>('/auth/sign-in', input)).data

@@ -1,19 +1,9 @@
-import type { z } from 'zod'
 import type { BuildFigures } from '@shared/build/figures'
-import type { BuildPlan, BuildPlanInput, buildStepDoneSchema, PublicBuild } from '@shared/schemas/build'
-import type { LivestockAdded } from './care'
+import type { BuildPlanInput, BuildStepDoneBody, BuildTemplate, PublicBuild } from '@shared/schemas/build'
+import type { LivestockAdded } from '@shared/schemas/care-api'
 import { http } from './client'
 import { ApiError } from './errors'
 import { fileNameOf, saveFile } from './save-file'
-
-export type { BuildPlan, BuildPlanInput, PublicBuild }
-export type BuildStepDoneInput = z.input<typeof buildStepDoneSchema>
-export interface BuildTemplate {
-  tankId: number
-  tankName: string
-  finishedAt: string
-  plan: BuildPlan
-}
 
 /** The tank's build, or null when none has been planned yet. */
 export async function getBuild(tankId: number): Promise<PublicBuild | null> {
@@ -33,7 +23,7 @@ export async function startBuild(tankId: number, filledOn: string): Promise<Publ
   return (await http.post<PublicBuild>(`/tanks/${tankId}/build/start`, { filledOn })).data
 }
 
-export async function tickBuildStep(tankId: number, key: string, input: BuildStepDoneInput = {}): Promise<{ build: PublicBuild; livestock: LivestockAdded[] }> {
+export async function tickBuildStep(tankId: number, key: string, input: BuildStepDoneBody = {}): Promise<{ build: PublicBuild; livestock: LivestockAdded[] }> {
   return (await http.post<{ build: PublicBuild; livestock: LivestockAdded[] }>(`/tanks/${tankId}/build/steps/${key}/done`, input)).data
 }
 

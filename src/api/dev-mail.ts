@@ -1,22 +1,6 @@
+import type { MailMessage, MailSummary } from '@shared/schemas/dev-mail'
 import { ApiError } from './errors'
 import { http } from './client'
-
-export interface MailSummary {
-  id: number
-  receivedAt: string
-  organizationId: number | null
-  envelopeFrom: string
-  envelopeTo: string[]
-  subject: string
-  attachments: Array<{ filename?: string; contentType?: string; size?: number }> | null
-  rawSize: number
-}
-
-export interface MailMessage extends MailSummary {
-  textBody: string | null
-  htmlBody: string | null
-  headers: Record<string, string>
-}
 
 /** The local test mailbox exists only while the development mail server runs; `null` when it does not. */
 export async function listMail(): Promise<MailSummary[] | null> {

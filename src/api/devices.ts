@@ -1,11 +1,5 @@
-import type { DeviceInput, PublicDevice } from '@shared/schemas/devices'
+import type { DeviceInput, DeviceWithToken, PublicDevice } from '@shared/schemas/devices'
 import { http } from './client'
-
-export interface DeviceWithToken {
-  device: PublicDevice
-  /** Shown once; the server keeps only a hash. */
-  token: string
-}
 
 export async function listDevices(tankId: number): Promise<PublicDevice[]> {
   return (await http.get<PublicDevice[]>('/devices', { params: { tankId: String(tankId) } })).data

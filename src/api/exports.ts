@@ -1,16 +1,10 @@
-import type { ExportKind } from '@shared/schemas/exports'
+import type { ExportKind, RestoreSummary } from '@shared/schemas/exports'
 import { http } from './client'
 import { notifyUnauthorized } from './session'
 import { ApiError, isApiErrorBody } from './errors'
 import { fileNameOf, saveFile } from './save-file'
 
 export type ExportScope = 'tank' | 'site'
-export interface RestoreSummary {
-  organizationName: string
-  rows: Record<string, number>
-  readings: number
-  notes: string[]
-}
 
 /** A failed download still answers a Blob; the error body is read out of it. */
 async function errorFromBlob(status: number, data: Blob): Promise<ApiError> {
@@ -22,7 +16,6 @@ async function errorFromBlob(status: number, data: Blob): Promise<ApiError> {
   }
   return new ApiError({ status, code: `http_${status}`, message: `The server answered ${status}` })
 }
-
 
 async function download(path: string, params: Record<string, string>, fallback: string): Promise<string> {
   // Every status is taken as an answer here, so the error body in the Blob can be read.

@@ -1,8 +1,5 @@
-import type { PublicPhoto } from '@shared/schemas/photos'
+import type { PhotoUpload, PublicPhoto } from '@shared/schemas/photos'
 import { http } from './client'
-
-export type { PublicPhoto }
-export type PhotoUpload = { caption?: string; takenAt?: string; careLogEntryId?: number }
 
 const API_PREFIX = '/api/v1'
 

@@ -1,12 +1,9 @@
-import type { z } from 'zod'
 import type { ReportPeriodKind } from '@shared/report/period'
-import type { Report, ReportSchedule, reportScheduleInputSchema, reportScheduleUpdateSchema } from '@shared/schemas/reports'
+import type { Report, ReportSchedule, ReportScheduleBody, ReportScheduleUpdateBody } from '@shared/schemas/reports'
 import { http } from './client'
 
 export type ReportSubjectKind = 'tank' | 'site'
 export type ReportRequest = { kind: ReportSubjectKind; id: number; period: ReportPeriodKind; date?: string }
-export type ReportScheduleInput = z.input<typeof reportScheduleInputSchema>
-export type ReportScheduleUpdate = z.input<typeof reportScheduleUpdateSchema>
 
 const base = (r: ReportRequest) => `/${r.kind === 'tank' ? 'tanks' : 'sites'}/${r.id}/report`
 const query = (r: ReportRequest) => ({ period: r.period, ...(r.date ? { date: r.date } : {}) })
@@ -26,10 +23,10 @@ export async function getReportPdf(r: ReportRequest): Promise<{ blob: Blob; file
 export async function listReportSchedules(): Promise<ReportSchedule[]> {
   return (await http.get<ReportSchedule[]>('/report-schedules')).data
 }
-export async function createReportSchedule(input: ReportScheduleInput): Promise<ReportSchedule> {
+export async function createReportSchedule(input: ReportScheduleBody): Promise<ReportSchedule> {
   return (await http.post<ReportSchedule>('/report-schedules', input)).data
 }
-export async function updateReportSchedule(id: number, changes: ReportScheduleUpdate): Promise<ReportSchedule> {
+export async function updateReportSchedule(id: number, changes: ReportScheduleUpdateBody): Promise<ReportSchedule> {
   return (await http.patch<ReportSchedule>(`/report-schedules/${id}`, changes)).data
 }
 export async function deleteReportSchedule(id: number): Promise<void> {

@@ -1,28 +1,5 @@
-import type { InviteInput, PublicUser, Role } from '@shared/schemas/auth'
+import type { CreatedInvitation, Invitation, InviteInput, PublicUser, UserChanges } from '@shared/schemas/auth'
 import { http } from './client'
-
-export interface Invitation {
-  id: number
-  email: string
-  name: string
-  role: Role
-  siteIds: number[]
-  expiresAt: string
-  createdAt: string
-}
-
-export interface CreatedInvitation {
-  invitation: Invitation
-  /** Relative, e.g. `/accept-invite?token=…`; the client makes it absolute for copying. */
-  link: string
-}
-
-export interface UserChanges {
-  role?: Role
-  active?: boolean
-  name?: string
-  siteIds?: number[]
-}
 
 export async function listUsers(): Promise<PublicUser[]> {
   return (await http.get<PublicUser[]>('/users')).data

@@ -1,12 +1,6 @@
-import type { PublicWallCredential, WallResponse } from '@shared/schemas/wall'
+import type { CreatedWallCredential, PublicWallCredential, WallResponse } from '@shared/schemas/wall'
 import { http } from './client'
 import { fetchWall, takeEarlyWall } from './wall-early'
-
-export interface CreatedWallCredential {
-  credential: PublicWallCredential
-  /** Relative, e.g. `/wall/3?key=…`; shown once, made absolute for the TV. */
-  link: string
-}
 
 export async function getWall(siteId: number): Promise<WallResponse> {
   return takeEarlyWall(siteId) ?? fetchWall(siteId)

@@ -1,6 +1,7 @@
 import { onScopeDispose, shallowRef, watch } from 'vue'
 import type { LatestResponse } from '@shared/schemas/series'
-import type { TankState, WallTank } from '@shared/schemas/wall'
+import type { TankState } from '@shared/schemas/tank-status'
+import type { WallTank } from '@shared/schemas/wall'
 import { tankState } from '@shared/tank-state'
 import { STATE_LOOKS } from '@/components/wall/tile-format'
 import { mergeLatest } from '@/stores/live'

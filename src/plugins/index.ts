@@ -1,5 +1,5 @@
 import type { App } from 'vue'
-import { createPinia } from 'pinia'
+import { createAppPinia } from './pinia'
 import { vuetify } from './vuetify'
 import { router } from '@/router'
 import { onUnauthorized, storedWallSession } from '@/api/session'
@@ -7,7 +7,7 @@ import { useAuthStore } from '@/stores/auth'
 import { resetSessionStores } from '@/stores/session-reset'
 
 export function registerPlugins(app: App) {
-  const pinia = createPinia()
+  const pinia = createAppPinia()
   app.use(vuetify)
   app.use(pinia)
   app.use(router)

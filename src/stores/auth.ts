@@ -1,8 +1,7 @@
 import { acceptHMRUpdate, defineStore } from 'pinia'
 import { computed, ref } from 'vue'
-import type { PublicUser, SessionInfo } from '@shared/schemas/auth'
+import type { Organization, PublicUser, SessionInfo } from '@shared/schemas/auth'
 import * as authApi from '@/api/auth'
-import type { Organization } from '@/api/auth'
 import { provideToken, storeToken, storedToken } from '@/api/session'
 
 export const useAuthStore = defineStore('auth', () => {
@@ -89,6 +88,8 @@ export const useAuthStore = defineStore('auth', () => {
     restore,
     clearSession,
     changePassword,
+    // Signing out resets every store (stores/session-reset.ts); for this one that is the session itself.
+    $reset: clearSession,
   }
 })
 

@@ -2,7 +2,7 @@ import { acceptHMRUpdate, defineStore } from 'pinia'
 import { computed, ref } from 'vue'
 import type { Species } from '@shared/care/species'
 import * as careApi from '@/api/care'
-import type { CareTankToWatch, CareTodayTask } from '@/api/care'
+import type { CareTankToWatch, CareTaskSnoozeBody, CareTodayTask } from '@shared/schemas/care-api'
 import { urgentFirst } from '@/components/care/care-words'
 
 export type CareTodayScope = { siteId: number } | { mine: true }
@@ -64,7 +64,7 @@ export const useCareStore = defineStore('care', () => {
   }
 
   /** Snoozed tasks are not due today, so the task leaves the list too. */
-  async function snoozeToday(taskId: number, input: careApi.CareTaskSnoozeInput) {
+  async function snoozeToday(taskId: number, input: CareTaskSnoozeBody) {
     const task = await careApi.snoozeCareTask(taskId, input)
     todayTasks.value = todayTasks.value.filter((t) => t.id !== taskId)
     return task

@@ -1,7 +1,7 @@
 import { defineStore } from 'pinia'
 import { ref } from 'vue'
-import type { ExportKind } from '@shared/schemas/exports'
-import { downloadBackup, downloadCsv, restoreBackup, type ExportScope, type RestoreSummary } from '@/api/exports'
+import type { ExportKind, RestoreSummary } from '@shared/schemas/exports'
+import { downloadBackup, downloadCsv, restoreBackup, type ExportScope } from '@/api/exports'
 
 /** Downloads in progress and the last restore, so a second click does not start a second download. */
 export const useExportsStore = defineStore('exports', () => {

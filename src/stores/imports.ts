@@ -73,6 +73,8 @@ export const useImportsStore = defineStore('imports', () => {
   function $reset() {
     stopPolling()
     job.value = null
+    sources.value = []
+    maxUploadMb.value = null
     uploadFraction.value = 0
   }
 

@@ -1,7 +1,7 @@
 import { acceptHMRUpdate, defineStore } from 'pinia'
 import { ref } from 'vue'
 import * as photosApi from '@/api/photos'
-import type { PhotoUpload, PublicPhoto } from '@/api/photos'
+import type { PhotoUpload, PublicPhoto } from '@shared/schemas/photos'
 
 const newestFirst = (a: PublicPhoto, b: PublicPhoto) => Date.parse(b.takenAt) - Date.parse(a.takenAt) || b.id - a.id
 

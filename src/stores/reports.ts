@@ -1,8 +1,8 @@
 import { acceptHMRUpdate, defineStore } from 'pinia'
 import { ref } from 'vue'
-import type { Report, ReportSchedule } from '@shared/schemas/reports'
+import type { Report, ReportSchedule, ReportScheduleBody, ReportScheduleUpdateBody } from '@shared/schemas/reports'
 import * as reportsApi from '@/api/reports'
-import type { ReportRequest, ReportScheduleInput, ReportScheduleUpdate } from '@/api/reports'
+import type { ReportRequest } from '@/api/reports'
 import { saveFile } from '@/api/save-file'
 
 export const useReportsStore = defineStore('reports', () => {
@@ -33,12 +33,12 @@ export const useReportsStore = defineStore('reports', () => {
   async function loadSchedules() {
     schedules.value = await reportsApi.listReportSchedules()
   }
-  async function createSchedule(input: ReportScheduleInput) {
+  async function createSchedule(input: ReportScheduleBody) {
     const created = await reportsApi.createReportSchedule(input)
     schedules.value = [...schedules.value, created]
     return created
   }
-  async function updateSchedule(id: number, changes: ReportScheduleUpdate) {
+  async function updateSchedule(id: number, changes: ReportScheduleUpdateBody) {
     const updated = await reportsApi.updateReportSchedule(id, changes)
     schedules.value = schedules.value.map((s) => (s.id === id ? updated : s))
   }

@@ -12,14 +12,19 @@ export const useSitesStore = defineStore('sites', () => {
   const activeSites = computed(() => sites.value.filter((site) => site.archivedAt == null))
   const siteById = computed(() => new Map(sites.value.map((site) => [site.id, site])))
 
+  // An answer that arrives after a sign-out belongs to the last person: it is dropped.
+  let request = 0
   async function load(options: { includeArchived?: boolean } = {}) {
     if (options.includeArchived != null) includeArchived.value = options.includeArchived
+    const call = ++request
     loading.value = true
     try {
-      sites.value = await sitesApi.listSites({ includeArchived: includeArchived.value })
+      const list = await sitesApi.listSites({ includeArchived: includeArchived.value })
+      if (call !== request) return
+      sites.value = list
       loaded.value = true
     } finally {
-      loading.value = false
+      if (call === request) loading.value = false
     }
   }
 
@@ -46,7 +51,10 @@ export const useSitesStore = defineStore('sites', () => {
   const unarchive = async (id: number) => replace(await sitesApi.unarchiveSite(id))
 
   function $reset() {
+    request++
     sites.value = []
+    includeArchived.value = false
+    loading.value = false
     loaded.value = false
   }
 

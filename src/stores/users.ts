@@ -1,22 +1,25 @@
 import { acceptHMRUpdate, defineStore } from 'pinia'
 import { ref } from 'vue'
-import type { InviteInput, PublicUser } from '@shared/schemas/auth'
+import type { Invitation, InviteInput, PublicUser, UserChanges } from '@shared/schemas/auth'
 import * as usersApi from '@/api/users'
-import type { Invitation, UserChanges } from '@/api/users'
 
 export const useUsersStore = defineStore('users', () => {
   const users = ref<PublicUser[]>([])
   const invitations = ref<Invitation[]>([])
   const loading = ref(false)
 
+  // An answer that arrives after a sign-out belongs to the last person: it is dropped.
+  let request = 0
   async function load() {
+    const call = ++request
     loading.value = true
     try {
       const [userList, invitationList] = await Promise.all([usersApi.listUsers(), usersApi.listInvitations()])
+      if (call !== request) return
       users.value = userList
       invitations.value = invitationList
     } finally {
-      loading.value = false
+      if (call === request) loading.value = false
     }
   }
 
@@ -40,8 +43,10 @@ export const useUsersStore = defineStore('users', () => {
   }
 
   function $reset() {
+    request++
     users.value = []
     invitations.value = []
+    loading.value = false
   }
 
   return { users, invitations, loading, load, update, invite, revoke, $reset }

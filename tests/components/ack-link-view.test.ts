@@ -1,6 +1,6 @@
 import { flushPromises } from '@vue/test-utils'
 import { beforeEach, describe, expect, it, vi } from 'vitest'
-import type { AckLinkInfo } from '@/api/incidents'
+import type { AckLinkInfo } from '@shared/schemas/incidents'
 
 vi.mock('@/api/incidents', () => ({ describeAckLink: vi.fn(), redeemAckLink: vi.fn() }))
 

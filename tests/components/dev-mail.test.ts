@@ -1,6 +1,6 @@
 import { flushPromises } from '@vue/test-utils'
 import { beforeEach, describe, expect, it, vi } from 'vitest'
-import type { MailMessage } from '@/api/dev-mail'
+import type { MailMessage } from '@shared/schemas/dev-mail'
 
 vi.mock('@/api/dev-mail', () => ({ listMail: vi.fn(), getMail: vi.fn(), emptyMailbox: vi.fn() }))
 vi.mock('@/api/sites', () => ({ listSites: vi.fn(async () => [{ id: 3, name: 'Front shop', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 1 }]) }))

@@ -1,10 +1,11 @@
 import { mount, type ComponentMountingOptions } from '@vue/test-utils'
-import { createPinia, setActivePinia, type Pinia } from 'pinia'
+import { setActivePinia, type Pinia } from 'pinia'
 import { defineComponent, h, type Component } from 'vue'
 import { createMemoryHistory, createRouter, type Router } from 'vue-router'
 import { createVuetify } from 'vuetify'
 import { VApp } from 'vuetify/components'
 import type { PublicUser, Role } from '@shared/schemas/auth'
+import { createAppPinia } from '@/plugins/pinia'
 import { useAuthStore } from '@/stores/auth'
 
 const Blank = defineComponent({ render: () => h('div') })
@@ -65,7 +66,7 @@ interface MountOptions<P> {
 
 /** Mounts inside a v-app with Vuetify, a fresh Pinia and a memory router. */
 export async function mountView<P extends Record<string, unknown>>(component: Component, options: MountOptions<P> = {}) {
-  const pinia: Pinia = createPinia()
+  const pinia: Pinia = createAppPinia()
   setActivePinia(pinia)
   if (options.role) {
     const auth = useAuthStore()

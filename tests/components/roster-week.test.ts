@@ -2,7 +2,6 @@ import { flushPromises } from '@vue/test-utils'
 import { describe, expect, it } from 'vitest'
 import type { RosterWeekSpan } from '@shared/schemas/roster'
 import RosterWeek from '@/components/roster/RosterWeek.vue'
-import { siteInputToIso, isoToSiteInput } from '@/components/roster/site-time'
 import { layoutWeek, mondayOf, moveWeek } from '@/components/roster/week-layout'
 import { mountView } from './mount'
 
@@ -50,13 +49,6 @@ describe('week layout', () => {
     expect(moveWeek('2026-03-02', 1)).toBe('2026-03-09')
     expect(moveWeek('2026-03-05', 0)).toBe('2026-03-02')
     expect(moveWeek('2026-03-02', -1)).toBe('2026-02-23')
-  })
-
-  it('reads typed times as the site’s clock', () => {
-    expect(siteInputToIso('2026-03-02T22:00', ZONE)).toBe('2026-03-02T21:00:00.000Z')
-    expect(siteInputToIso('2026-07-02T22:00', ZONE)).toBe('2026-07-02T20:00:00.000Z')
-    expect(isoToSiteInput('2026-03-02T21:00:00.000Z', ZONE)).toBe('2026-03-02T22:00')
-    expect(siteInputToIso('not a time', ZONE)).toBeNull()
   })
 })
 

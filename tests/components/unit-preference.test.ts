@@ -2,7 +2,7 @@ import { DOMWrapper, flushPromises } from '@vue/test-utils'
 import { afterEach, describe, expect, it } from 'vitest'
 import UserMenu from '@/components/layout/UserMenu.vue'
 import { formatReading, reloadUnitPreference, TEMPERATURE_UNIT_KEY } from '@/composables/useUnits'
-import { formatBand } from '@/composables/useLabels'
+import { formatBand } from '@/components/labels'
 import { mountView } from './mount'
 
 afterEach(() => {

@@ -1,6 +1,6 @@
 // A worked build plan for a 60 × 30 × 36 cm planted tank, shared by the API, report and browser tests.
 // Its figures are worked by hand in tests/unit/build (water left 47.48 L, heater 75 W, top ≤ 20 cm).
-import { formatLocalDate, localDateAt } from '@shared/roster/zoned-time'
+import { formatLocalDate, localDateAt } from '@shared/time/zoned'
 
 export const TANK_60 = { shape: 'rectangular', lengthCm: 60, widthCm: 30, heightCm: 36 } as const
 

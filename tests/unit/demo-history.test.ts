@@ -1,7 +1,7 @@
 // The demo seed's pure parts: a tank's month of readings, the month's story, and the rule replay.
 import { describe, expect, it } from 'vitest'
 import { lastEndedPeriod } from '@shared/report/period'
-import { localDateAt, localToInstant } from '@shared/roster/zoned-time'
+import { localDateAt, localToInstant } from '@shared/time/zoned'
 import { DRAIN_MS, localClock, REFILL_MS, tankHistory, type Episode } from '../../server/demo/demo-history/readings'
 import { replayTrips } from '../../server/demo/demo-history/rule-replay'
 import { demoStory, HISTORY_DAYS, PLANNED_LATE } from '../../server/demo/demo-history/story'

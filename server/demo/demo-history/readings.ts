@@ -1,5 +1,5 @@
 // A demo tank's past sensor readings, from the simulator's physics: pure and seeded, no I/O.
-import { offsetAt } from '@shared/roster/zoned-time'
+import { offsetAt } from '@shared/time/zoned'
 import { litresAtLevel, START_FILL_FRACTION, tankGeometry } from '../../../simulator/model/geometry'
 import { initialLevelState, stepLevel } from '../../../simulator/model/level'
 import { lightLux, scheduleFraction } from '../../../simulator/model/light'

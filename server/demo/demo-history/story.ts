@@ -2,7 +2,7 @@
 // Every date is placed on the site's own calendar, so last week always holds a fault or two.
 import { defaultCareTasksFor, type CareTaskKind } from '@shared/care/defaults'
 import { lastEndedPeriod } from '@shared/report/period'
-import { addDays, localDateAt, localToInstant, weekdayOf, type LocalDate } from '@shared/roster/zoned-time'
+import { addDays, localDateAt, localToInstant, weekdayOf, type LocalDate } from '@shared/time/zoned'
 import type { KitValue } from '@shared/schemas/test-kit'
 import type { TankKind } from '@shared/schemas/tanks'
 import { mulberry32, seedFrom } from '../../../simulator/model/random'

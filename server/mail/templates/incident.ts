@@ -1,7 +1,7 @@
 import type { OutboxAttachment, RenderedMail } from '../types'
 import { button, cautionBox, escapeHtml, factsTable, layout, oneLine, safeUrl } from './html'
 import { READINGS_ARE_AIDS } from './safety'
-import { formatDuration, formatInZone } from './time'
+import { formatDuration, formatInZone } from '@shared/time'
 
 export type IncidentMailInput = {
   organizationName: string

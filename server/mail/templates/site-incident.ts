@@ -1,7 +1,7 @@
 import type { RenderedMail } from '../types'
 import { button, escapeHtml, layout, oneLine } from './html'
 import { READINGS_ARE_AIDS } from './safety'
-import { formatInZone } from './time'
+import { formatInZone } from '@shared/time'
 
 export type SiteIncidentMailInput = {
   organizationName: string

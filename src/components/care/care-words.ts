@@ -2,7 +2,7 @@
 import { CARE_TASK_KIND_TITLES, type CareTaskKind } from '@shared/care/defaults'
 import { byUrgency, type CareDue, type CareDueStatus, type CareRecurrence } from '@shared/care/due'
 import type { CareLogKind } from '@shared/schemas/care'
-import { formatDay } from '@/composables/useZonedTime'
+import { formatDay } from '@shared/time'
 
 export interface StatusLook {
   word: string

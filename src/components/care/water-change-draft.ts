@@ -1,6 +1,6 @@
 import { toCanonical } from '@shared/metrics/units'
 import { waterChangePlanSchema } from '@shared/schemas/care'
-import type { LabelRate, WaterChangePlanInput, WaterChangePlanResult } from '@/api/care'
+import type { LabelRate, WaterChangePlanBody, WaterChangePlanResult } from '@shared/schemas/care-api'
 import { fieldErrors, friendlyIssues, type FieldErrors } from '@/composables/useFieldErrors'
 import { displayUnitOf } from '@/composables/useUnits'
 import { parseDecimal } from '@/components/testkit/kit-checks'
@@ -27,9 +27,9 @@ export const freshWaterChangeDraft = (percent = 12): WaterChangeDraft => ({
 const numberOrNaN = (text: string) => parseDecimal(text) ?? Number.NaN
 
 /** A blank optional field is left out; a field with something unreadable in it is an error. */
-export function planInputFromDraft(draft: WaterChangeDraft): { input: WaterChangePlanInput | null; errors: FieldErrors } {
+export function planInputFromDraft(draft: WaterChangeDraft): { input: WaterChangePlanBody | null; errors: FieldErrors } {
   const errors: FieldErrors = {}
-  const input: WaterChangePlanInput = draft.mode === 'percent' ? { percent: numberOrNaN(draft.amount) } : { litres: numberOrNaN(draft.amount) }
+  const input: WaterChangePlanBody = draft.mode === 'percent' ? { percent: numberOrNaN(draft.amount) } : { litres: numberOrNaN(draft.amount) }
   if (draft.labelAmount.trim()) input.labelRate = { amount: numberOrNaN(draft.labelAmount), unit: draft.labelUnit, per: draft.labelPer }
   if (draft.newWaterTemp.trim()) {
     const value = parseDecimal(draft.newWaterTemp)

@@ -1,6 +1,6 @@
 // A chart's text alternative: one sentence for its accessible description, and its points as the
 // rows of a table. Built from the same data the chart draws, in display units.
-import { formatZonedDateTime } from '@/composables/useZonedTime'
+import { formatZonedDateTime } from '@shared/time'
 import { SERIES_NAMES, type MetricChartInput } from './options'
 
 export interface ChartRow {

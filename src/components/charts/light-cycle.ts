@@ -1,4 +1,4 @@
-import { addDays, formatLocalDate, localDateAt, localToInstant, minutesOfClock, type LocalDate } from '@shared/roster/zoned-time'
+import { addDays, formatLocalDate, localDateAt, localToInstant, minutesOfClock, type LocalDate } from '@shared/time/zoned'
 
 /** A light reading at or above this many lux counts as lights on (the product's threshold). */
 export const LIGHT_ON_LUX = 50

@@ -9,7 +9,7 @@ import type {
 } from 'echarts/components'
 import type { ComposeOption } from 'echarts/core'
 import type { SeriesBucket, SeriesResponse } from '@shared/schemas/series'
-import { formatClock, formatDateTime, formatDay } from '@/composables/useZonedTime'
+import { formatClock, formatDateTime, formatDay } from '@shared/time'
 
 export type MetricChartOption = ComposeOption<
   | LineSeriesOption

@@ -1,6 +1,6 @@
 // Relative imports: the unit tests (server tsconfig, no @shared alias) import this file too.
 import { MAX_EXPORT_DAYS } from '@shared/schemas/exports'
-import { addDays, formatLocalDate, localDateAt, localToInstant, parseLocalDate } from '@shared/roster/zoned-time'
+import { addDays, formatLocalDate, localDateAt, localToInstant, parseLocalDate } from '@shared/time/zoned'
 
 export type RangeCheck = { from: Date; to: Date } | { error: string }
 

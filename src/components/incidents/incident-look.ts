@@ -3,7 +3,7 @@ import type { IncidentDetail, IncidentState, PublicIncident } from '@shared/sche
 import { SEVERITY_LOOKS, type Look } from '@/components/rules/rule-look'
 import { formatMinutes, metricInSentence, ruleChange } from '@/components/rules/rule-words'
 import { formatReading } from '@/composables/useUnits'
-import { formatDateTime } from '@/composables/useZonedTime'
+import { formatDateTime } from '@shared/time'
 
 export { SEVERITY_LOOKS }
 

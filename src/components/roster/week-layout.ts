@@ -1,6 +1,6 @@
 import type { RosterWeekSpan } from '@shared/schemas/roster'
-import { addDays, formatLocalDate, localDateAt, localToInstant, parseLocalDate, weekdayOf } from '@shared/roster/zoned-time'
-import { formatClock, formatDay } from '@/composables/useZonedTime'
+import { addDays, formatLocalDate, localDateAt, localToInstant, parseLocalDate, weekdayOf } from '@shared/time/zoned'
+import { formatClock, formatDay } from '@shared/time'
 
 export const WEEKDAY_NAMES = ['Monday', 'Tuesday', 'Wednesday', 'Thursday', 'Friday', 'Saturday', 'Sunday'] as const
 

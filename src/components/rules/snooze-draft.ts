@@ -1,6 +1,6 @@
 import { snoozeInputSchema, type SnoozeInput } from '@shared/schemas/rules'
 import { fieldErrors, friendlyIssues, type FieldErrors } from '@/composables/useFieldErrors'
-import { fromLocalInputValue, toLocalInputValue } from '@/composables/useZonedTime'
+import { fromLocalInputValue, toLocalInputValue } from '@shared/time'
 
 export const MAX_SNOOZE_DAYS = 7
 

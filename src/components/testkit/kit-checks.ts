@@ -1,7 +1,7 @@
 import { METRICS, toCanonical, type MetricKey } from '@shared/metrics/index'
 import type { Targets } from '@shared/schemas/tanks'
 import { testKitEntryInputSchema, type TestKitEntryInput } from '@shared/schemas/test-kit'
-import { formatBand } from '@/composables/useLabels'
+import { formatBand } from '@/components/labels'
 import { KIT_METRICS } from './kit-units'
 
 export interface KitDraft {

@@ -1,7 +1,7 @@
 import { flushPromises } from '@vue/test-utils'
 import { afterEach, describe, expect, it, vi } from 'vitest'
 import { acclimationPlan } from '@shared/care/acclimation'
-import type { AcclimationResult } from '@/api/care'
+import type { AcclimationResult } from '@shared/schemas/care-api'
 import AcclimationTimer from '@/components/care/AcclimationTimer.vue'
 import { mountView } from '../mount'
 

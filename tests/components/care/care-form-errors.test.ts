@@ -3,7 +3,8 @@ import { beforeEach, describe, expect, it, vi } from 'vitest'
 
 vi.mock('@/api/care')
 
-import { finishWaterChange, listWaterChanges, planWaterChange, type PublicWaterChange } from '@/api/care'
+import { finishWaterChange, listWaterChanges, planWaterChange } from '@/api/care'
+import type { PublicWaterChange } from '@shared/schemas/care-api'
 import { ApiError } from '@/api/errors'
 import WaterChangePanel from '@/components/care/WaterChangePanel.vue'
 import { mountView } from '../mount'

@@ -4,7 +4,8 @@ import { CYCLED_RULE } from '@shared/care/cycling'
 
 vi.mock('@/api/care')
 
-import { addCareLogEntry, getCycling, listCareLog, type PublicCareLogEntry } from '@/api/care'
+import { addCareLogEntry, getCycling, listCareLog } from '@/api/care'
+import type { PublicCareLogEntry } from '@shared/schemas/care-api'
 import CareLogPanel from '@/components/care/CareLogPanel.vue'
 import CyclingPanel from '@/components/care/CyclingPanel.vue'
 import { mountView } from '../mount'

@@ -1,6 +1,6 @@
 import { HEATER_OFF_CAUTION, UNPLUG_CAUTION } from '@shared/chemistry/water-change'
 import type { PublicTank } from '@shared/schemas/tanks'
-import type { CareTodayTask, PublicCareTask, WaterChangePlanResult } from '@/api/care'
+import type { CareTodayTask, PublicCareTask, WaterChangePlanResult } from '@shared/schemas/care-api'
 
 export const careTank: PublicTank = {
   id: 12,

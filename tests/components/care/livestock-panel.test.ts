@@ -5,7 +5,8 @@ import { SPECIES, speciesByKey } from '@shared/care/species'
 
 vi.mock('@/api/care')
 
-import { addLivestock, listLivestock, listSpecies, updateLivestock, type PublicLivestockEntry } from '@/api/care'
+import { addLivestock, listLivestock, listSpecies, updateLivestock } from '@/api/care'
+import type { PublicLivestockEntry } from '@shared/schemas/care-api'
 import LivestockPanel from '@/components/care/LivestockPanel.vue'
 import { mountView } from '../mount'
 import { careTank } from './fixtures'

@@ -4,7 +4,8 @@ import { HEATER_OFF_CAUTION, UNPLUG_CAUTION } from '@shared/chemistry/water-chan
 
 vi.mock('@/api/care')
 
-import { cancelWaterChange, finishWaterChange, listWaterChanges, planWaterChange, startWaterChange, type PublicWaterChange } from '@/api/care'
+import { cancelWaterChange, finishWaterChange, listWaterChanges, planWaterChange, startWaterChange } from '@/api/care'
+import type { PublicWaterChange } from '@shared/schemas/care-api'
 import WaterChangePanel from '@/components/care/WaterChangePanel.vue'
 import { heaterConfirmReason, needsHeaterConfirmation } from '@/components/care/water-change-draft'
 import { mountView } from '../mount'

@@ -1,7 +1,7 @@
 import type { Role } from '@shared/schemas/auth'
 import { METRICS, displayPrecision, type MetricKey } from '@shared/metrics/registry'
-import { displayUnitOf, toDisplayValue, unitLabel } from './useUnits'
-import { formatZonedDateTime } from './useZonedTime'
+import { displayUnitOf, toDisplayValue, unitLabel } from '@/composables/useUnits'
+import { formatZonedDateTime } from '@shared/time'
 
 export const ROLE_LABELS: Record<Role, string> = {
   owner: 'Owner',

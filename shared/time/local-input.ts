@@ -1,4 +1,22 @@
-import { localToInstant, parseLocalDate } from '@shared/roster/zoned-time'
+import { localToInstant, parseLocalDate } from './zoned'
+
+/**
+ * Values of a `datetime-local` input ("2026-03-02T22:00"), which carries no zone: either the
+ * viewer's own clock, or, where a form says "times in <zone>", the site's.
+ */
+const pad = (n: number) => String(n).padStart(2, '0')
+
+/** The value a `datetime-local` input shows for an instant, in the viewer's own zone. */
+export function toLocalInputValue(date: Date): string {
+  return `${date.getFullYear()}-${pad(date.getMonth() + 1)}-${pad(date.getDate())}T${pad(date.getHours())}:${pad(date.getMinutes())}`
+}
+
+/** The instant a `datetime-local` value means on the viewer's own clock; `null` when empty or unreadable. */
+export function fromLocalInputValue(text: string): Date | null {
+  if (!text) return null
+  const date = new Date(text)
+  return Number.isNaN(date.getTime()) ? null : date
+}
 
 /**
  * A `datetime-local` value read as the site's wall clock, not the viewer's: an owner away from
