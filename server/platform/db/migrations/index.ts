@@ -15,6 +15,7 @@ import createPhotos from './202612021300-create-photos'
 import createReportSchedules from './202612021400-create-report-schedules'
 import addIncidentFlapsSitesMaintenance from './202612050200-add-incident-flaps-sites-maintenance'
 import createBuilds from './202612051000-create-builds'
+import addChecklistDismissed from './202612051200-add-checklist-dismissed'
 
 /** Every migration in order. Add new files here; never edit one that has shipped. */
 export const migrations: Migration[] = [
@@ -34,4 +35,5 @@ export const migrations: Migration[] = [
   createReportSchedules,
   addIncidentFlapsSitesMaintenance,
   createBuilds,
+  addChecklistDismissed,
 ]
