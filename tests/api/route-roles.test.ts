@@ -120,8 +120,9 @@ const ROUTES: RouteCase[] = [
   row('post', '/setup', everyone(409), (w) => ({
     body: { businessName: 'Late', ownerName: 'Late Owner', email: w.freshEmail(), password: 'long-enough-password', siteName: 'Late site', timeZone: 'UTC' },
   })),
-  row('get', '/setup/checklist', ownerOnly),
-  row('post', '/setup/checklist/:step/dismiss', ownerDeletes, () => ({ param: 'wall' })),
+  // Each owner has their own organisation's checklist, so another organisation's owner is answered too.
+  row('get', '/setup/checklist', signedIn(200, 403, 403, 200)),
+  row('post', '/setup/checklist/:step/dismiss', signedIn(204, 403, 403, 204), () => ({ param: 'wall' })),
   // Everyone sees their own organisation's overview, so another organisation's owner gets 200 too.
   row('get', '/overview', signedIn(200, 200, 403, 200)),
   row('post', '/auth/password', signedIn(204, 204, 204, 204), () => ({
@@ -437,7 +438,7 @@ describe('the table itself', () => {
     expect(ROUTES.filter((r) => r.expected.wall !== r.expected.noToken).map(name)).toEqual(['GET /sites/:id/wall'])
     expect(ROUTES.filter((r) => r.expected.wall !== 401).map(name)).toEqual([
       'GET /health', 'POST /auth/sign-in', 'POST /auth/password-reset', 'POST /auth/password-reset/confirm',
-      'GET /invitations/:token', 'POST /invitations/accept', 'GET /ack-links/:token', 'POST /ack-links/use', 'GET /sites/:id/wall',
+      'GET /setup', 'POST /setup', 'GET /invitations/:token', 'POST /invitations/accept', 'GET /ack-links/:token', 'POST /ack-links/use', 'GET /sites/:id/wall',
     ])
     const { key } = await world.freshWallKey()
     for (const siteId of [org.siteIds[1], other.siteIds[0]]) expect((await send('get', `/sites/${siteId}/wall`, key)).status).toBe(404)
