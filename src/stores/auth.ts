@@ -86,6 +86,7 @@ export const useAuthStore = defineStore('auth', () => {
     signIn,
     signOut,
     acceptInvitation,
+    applySession,
     restore,
     clearSession,
     changePassword,
