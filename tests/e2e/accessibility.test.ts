@@ -74,6 +74,7 @@ async function newContext(size: Size, theme: Theme): Promise<BrowserContext> {
 
 const SIGNED_OUT = ['/sign-in', '/forgot-password']
 const signedInScreens = () => [
+  '/',
   '/tanks',
   `/tanks/${tankId}`,
   `/tanks/${tankId}/test-kit`,

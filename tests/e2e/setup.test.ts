@@ -84,7 +84,7 @@ describe('a business starting for real', () => {
       body: JSON.stringify({ v: 1, readings: [{ metric: 'temperature', value: 25.4, time: new Date().toISOString() }] }),
     })
     expect(res.status).toBe(200)
-    expect((await res.json()).accepted).toBe(1)
+    expect(((await res.json()) as { accepted: number }).accepted).toBe(1)
   })
 
   it('sets a duty shift from the checklist', async () => {
