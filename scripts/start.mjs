@@ -117,7 +117,7 @@ try {
         : []),
       '',
       ...(message.demo?.length ? [`  Wall of the shop floor: ${url}/wall/1   Incidents: ${url}/incidents   Test mailbox: ${url}/dev/mail`] : []),
-      `  MQTT broker: mqtt://127.0.0.1:${message.mqttPort}   Simulator: ${process.env.SIMULATOR === '0' ? 'off (SIMULATOR=0)' : `on, ${simulatorSpeed}× speed, demo faults`}`,
+      `  MQTT broker: mqtt://127.0.0.1:${message.mqttPort}   Simulator: ${process.env.SIMULATOR === '0' ? 'off (SIMULATOR=0)' : !message.demo?.length ? 'off (no demo)' : `on, ${simulatorSpeed}× speed, demo faults`}`,
       '',
       '  Ctrl-C stops the app, the simulator and the database.',
       '',
