@@ -89,7 +89,9 @@ async function checkInBrowser(url, owner, password, shotsDir) {
     await page.getByLabel('E-mail').fill(owner, { timeout: 30_000 })
     await page.getByLabel('Password', { exact: true }).fill(password)
     await page.getByRole('button', { name: 'Sign in' }).click()
-    await page.waitForURL((u) => u.pathname === '/tanks', { timeout: 30_000 })
+    // The owner lands on the overview; the tanks list is one step on.
+    await page.waitForURL((u) => u.pathname === '/', { timeout: 30_000 })
+    await page.goto(`${url}/tanks`, { timeout: 30_000 })
     // Every tank row shows its state word; the simulator's readings make some more than "quiet".
     const rows = page.locator('[data-test="tank-row"]')
     await rows.first().waitFor({ timeout: 30_000 })

@@ -108,9 +108,16 @@ try {
       ...(message.demo?.length
         ? ['  Demo sign-ins (password for all: ' + message.demo[0].password + '):', ...message.demo.map((d) => `    ${d.role.padEnd(7)} ${d.email}`)]
         : []),
+      ...(message.setupCode
+        ? [
+            `  No business set up yet. Start here:  ${url}/setup`,
+            `  (from another machine, use this host's address and the one-time setup code ${message.setupCode};`,
+            '   or from a script: npm run setup -- --help)',
+          ]
+        : []),
       '',
-      `  Wall of the shop floor: ${url}/wall/1   Incidents: ${url}/incidents   Test mailbox: ${url}/dev/mail`,
-      `  MQTT broker: mqtt://127.0.0.1:${message.mqttPort}   Simulator: ${process.env.SIMULATOR === '0' ? 'off (SIMULATOR=0)' : `on, ${simulatorSpeed}× speed, demo faults`}`,
+      ...(message.demo?.length ? [`  Wall of the shop floor: ${url}/wall/1   Incidents: ${url}/incidents   Test mailbox: ${url}/dev/mail`] : []),
+      `  MQTT broker: mqtt://127.0.0.1:${message.mqttPort}   Simulator: ${process.env.SIMULATOR === '0' ? 'off (SIMULATOR=0)' : !message.demo?.length ? 'off (no demo)' : `on, ${simulatorSpeed}× speed, demo faults`}`,
       '',
       '  Ctrl-C stops the app, the simulator and the database.',
       '',

@@ -23,6 +23,8 @@ import { exportRoutes } from './exports/routes'
 import { backupRouter } from './exports/backup-routes'
 import { buildRoutes } from './builds/routes'
 import { maintenanceRouter, siteMaintenanceRoutes } from './incidents/maintenance-routes'
+import { setupRouter } from './setup/routes'
+import { overviewRouter } from './overview/routes'
 import { importSourcesRouter, importsRouter, siteImportRoutes, tankImportRoutes } from './imports/routes'
 
 export const API_VERSION = '0.1.0'
@@ -38,6 +40,8 @@ export function apiRouter(ctx: AppContext) {
     res.json({ ok: true, version: API_VERSION })
   })
   router.use('/auth', authRouter(ctx, requireUser))
+  router.use('/setup', setupRouter(ctx, requireUser))
+  router.use('/overview', requireUser, overviewRouter(ctx))
   router.use('/invitations', invitationsRouter(ctx))
   router.use('/users', requireUser, usersRouter(ctx))
   // The wall answers wall displays too, so it is mounted ahead of the people-only /sites chain.

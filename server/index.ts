@@ -7,7 +7,7 @@ async function main() {
   const config = loadConfig()
   const running = await startServer(config)
   if (process.send) {
-    process.send({ type: 'ready', port: running.port, mqttPort: running.mqttPort, demo: config.seedDemo ? DEMO_SIGN_INS : [] })
+    process.send({ type: 'ready', port: running.port, mqttPort: running.mqttPort, demo: config.seedDemo ? DEMO_SIGN_INS : [], setupCode: running.setupCode })
   }
   let stopping = false
   const stop = async (signal: string) => {

@@ -17,6 +17,7 @@ import { startMail, type RunningMail } from './mail'
 import { startReportJob } from './reports/job'
 import { startCareDigestJob } from './care/digest'
 import { startImportRunner } from './imports/runner'
+import { setupCodeFor, setupService } from './setup/setup'
 
 export type RunningServer = {
   ctx: AppContext
@@ -29,6 +30,8 @@ export type RunningServer = {
   rules: ReturnType<typeof startRuleEngine>
   mail: RunningMail
   hub: ReturnType<typeof attachLiveHub>
+  /** On an installation without any organisation: the code that lets another machine run the setup page. */
+  setupCode: string | null
   stop: () => Promise<void>
 }
 
@@ -73,6 +76,8 @@ export async function startServer(config: Config): Promise<RunningServer> {
   const stopImports = startImportRunner(ctx)
 
   logger.info({ port, mqttPort: broker?.port ?? null }, 'Tankwarden is listening')
+  const setupCode = (await setupService(ctx).isNeeded()) ? setupCodeFor(ctx) : null
+  if (setupCode) logger.info({ setupPath: '/setup', setupCode }, 'no business set up yet: open /setup (from another machine, with this setup code)')
 
   let stopped = false
   return {
@@ -85,6 +90,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
     rules,
     mail,
     hub,
+    setupCode,
     async stop() {
       if (stopped) return
       stopped = true

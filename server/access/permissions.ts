@@ -27,6 +27,8 @@ export const PERMISSIONS = {
   'org.backup': ['owner'],
   'imports.write': ['owner', 'keeper'],
   'builds.write': ['owner', 'keeper'],
+  'org.setup': ['owner'],
+  'overview.read': ['owner', 'keeper'],
 } as const satisfies Record<string, readonly Caller[]>
 
 export type Permission = keyof typeof PERMISSIONS

@@ -1,10 +1,11 @@
 import { Router } from 'express'
 import { idParamsSchema } from '@shared/schemas/common'
-import { tankInputSchema, tankListQuerySchema, tankUpdateSchema } from '@shared/schemas/tanks'
+import { tankDuplicateSchema, tankInputSchema, tankListQuerySchema, tankUpdateSchema } from '@shared/schemas/tanks'
 import { actorOf, allow } from '../access/middleware'
 import type { AppContext } from '../context'
 import { parse, parseChanges } from '../platform/http/validate'
 import { tanksService } from './tanks'
+import { duplicateTank } from './duplicate'
 
 export function tanksRouter(ctx: AppContext) {
   const router = Router()
@@ -22,6 +23,11 @@ export function tanksRouter(ctx: AppContext) {
   router.patch('/:id', allow('tanks.write'), async (req, res) => {
     const { id } = parse(idParamsSchema, req, 'params')
     res.json(await tanks.update(actorOf(req), id, parseChanges(tankUpdateSchema, req)))
+  })
+  router.post('/:id/duplicate', allow('tanks.write'), async (req, res) => {
+    const { id } = parse(idParamsSchema, req, 'params')
+    const { count } = parse(tankDuplicateSchema, req, 'body')
+    res.status(201).json(await duplicateTank(ctx, actorOf(req), id, count))
   })
   router.post('/:id/archive', allow('tanks.archive'), async (req, res) => {
     res.json(await tanks.setArchived(actorOf(req), parse(idParamsSchema, req, 'params').id, true))

@@ -57,7 +57,7 @@ function volumeOf(input: Pick<TankInput, 'dimensions' | 'volumeLitres'>) {
 const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null)
 
 /** The row as the API answers it (see its Public… type in shared/schemas). */
-function presentTank(tank: Tank): PublicTank {
+export function presentTank(tank: Tank): PublicTank {
   return {
     id: tank.id,
     name: tank.name,

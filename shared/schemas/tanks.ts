@@ -131,3 +131,10 @@ export interface PublicTank {
 export interface TankListItem extends PublicTank {
   status: TankStatus
 }
+
+/** How many copies of a tank to make at once. */
+export const MAX_TANK_COPIES = 50
+export const tankDuplicateSchema = z.object({
+  count: z.number({ error: 'a whole number from 1 to 50' }).int('a whole number from 1 to 50').min(1, 'at least 1').max(MAX_TANK_COPIES, `at most ${MAX_TANK_COPIES}`),
+})
+export type TankDuplicateInput = z.infer<typeof tankDuplicateSchema>

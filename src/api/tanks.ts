@@ -55,3 +55,8 @@ export async function archiveTank(id: number): Promise<PublicTank> {
 export async function unarchiveTank(id: number): Promise<PublicTank> {
   return (await http.post<PublicTank>(`/tanks/${id}/unarchive`)).data
 }
+
+/** Numbered copies of a tank with its size, equipment, targets, rules and care tasks. */
+export async function duplicateTank(id: number, count: number): Promise<{ items: PublicTank[] }> {
+  return (await http.post<{ items: PublicTank[] }>(`/tanks/${id}/duplicate`, { count })).data
+}

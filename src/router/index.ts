@@ -2,6 +2,7 @@ import { createRouter, createWebHistory, type RouteLocationNormalized, type Rout
 import { storeWallSession, storedWallSession } from '@/api/session'
 import { requestWallEarly } from '@/api/wall-early'
 import { pageTitle } from '@/composables/usePageTitle'
+import { fetchSetupState } from '@/api/setup'
 import { useAuthStore } from '@/stores/auth'
 import { safeRedirect } from './redirect'
 import { routes } from './routes'
@@ -42,7 +43,10 @@ export function installGuards(target: Router) {
 
     if (to.meta.public) {
       // A signed-in person opening the sign-in page goes straight on.
-      if (to.name === 'sign-in' && auth.isSignedIn) return safeRedirect(to.query.redirect) ?? { name: 'tanks' }
+      if (to.name === 'sign-in' && auth.isSignedIn) return safeRedirect(to.query.redirect) ?? { name: 'overview' }
+      // An installation without a business opens its setup page, and only then.
+      if (to.name === 'sign-in' && (await setupNeeded())) return { name: 'setup', replace: true }
+      if (to.name === 'setup' && (auth.isSignedIn || !(await setupNeeded()))) return { name: auth.isSignedIn ? 'overview' : 'sign-in', replace: true }
       return true
     }
     if (!auth.isSignedIn) return { name: 'sign-in', query: { redirect: to.fullPath } }
@@ -68,6 +72,15 @@ export function installGuards(target: Router) {
 }
 
 const CHUNK_RELOAD_KEY = 'tw.chunkReload'
+
+async function setupNeeded(): Promise<boolean> {
+  try {
+    return (await fetchSetupState()).needed
+  } catch {
+    // An unreachable server is the sign-in page's to explain.
+    return false
+  }
+}
 
 export function isChunkLoadError(error: unknown): boolean {
   const message = error instanceof Error ? error.message : String(error)

@@ -23,6 +23,13 @@ export const routes: RouteRecordRaw[] = [
     meta: { public: true, title: 'Sign in' },
   },
   {
+    // Only while no business exists; the guard sends everyone else to sign in.
+    path: '/setup',
+    name: 'setup',
+    component: () => import('@/views/SetupView.vue'),
+    meta: { public: true, title: 'Set up your business' },
+  },
+  {
     path: '/forgot-password',
     name: 'forgot-password',
     component: () => import('@/views/ForgotPasswordView.vue'),
@@ -59,7 +66,8 @@ export const routes: RouteRecordRaw[] = [
     path: '/',
     component: () => import('@/components/layout/AppShell.vue'),
     children: [
-      { path: '', redirect: { name: 'tanks' } },
+      // Owners' and keepers' home; a viewer is sent on to the tanks list by the role guard.
+      { path: '', name: 'overview', component: () => import('@/views/OverviewView.vue'), meta: { title: 'Overview', roles: EDITORS } },
       { path: 'tanks', name: 'tanks', component: () => import('@/views/TanksView.vue'), meta: { title: 'Tanks' } },
       {
         path: 'tanks/new',

@@ -85,6 +85,7 @@ export const useAuthStore = defineStore('auth', () => {
     signIn,
     signOut,
     acceptInvitation,
+    applySession,
     restore,
     clearSession,
     changePassword,

@@ -115,6 +115,16 @@ const ROUTES: RouteCase[] = [
   row('post', '/auth/password-reset', everyone(202), () => ({ body: { email: 'someone@nowhere.example' } })),
   row('post', '/auth/password-reset/confirm', everyone(400), () => ({ body: { token: 'x'.repeat(43), password: 'a-long-enough-password' } })),
   row('get', '/auth/me', signedIn(200, 200, 200, 200)),
+  // Setup is open to anyone until the first business exists; here one does, so every caller is refused alike.
+  row('get', '/setup', everyone(200)),
+  row('post', '/setup', everyone(409), (w) => ({
+    body: { businessName: 'Late', ownerName: 'Late Owner', email: w.freshEmail(), password: 'long-enough-password', siteName: 'Late site', timeZone: 'UTC' },
+  })),
+  // Each owner has their own organisation's checklist, so another organisation's owner is answered too.
+  row('get', '/setup/checklist', signedIn(200, 403, 403, 200)),
+  row('post', '/setup/checklist/:step/dismiss', signedIn(204, 403, 403, 204), () => ({ param: 'wall' })),
+  // Everyone sees their own organisation's overview, so another organisation's owner gets 200 too.
+  row('get', '/overview', signedIn(200, 200, 403, 200)),
   row('post', '/auth/password', signedIn(204, 204, 204, 204), () => ({
     body: { currentPassword: TEST_PASSWORD, newPassword: TEST_PASSWORD },
   })),
@@ -142,6 +152,7 @@ const ROUTES: RouteCase[] = [
   row('patch', '/tanks/:id', signedIn(200, 200, 403, 404), async (w) => ({ param: await w.freshTank(), body: { stage: 'quarantine' } })),
   row('post', '/tanks/:id/archive', ownerOnly, async (w) => ({ param: await w.freshTank() })),
   row('post', '/tanks/:id/unarchive', ownerOnly, async (w) => ({ param: await w.freshTank(true) })),
+  row('post', '/tanks/:id/duplicate', signedIn(201, 201, 403, 404), async (w) => ({ param: await w.freshTank(), body: { count: 1 } })),
   row('get', '/tanks/:id/series', signedIn(200, 200, 200, 404), async (w) => ({ param: await w.freshTank(), query: 'metric=temperature' })),
   row('get', '/tanks/:id/latest', signedIn(200, 200, 200, 404), async (w) => ({ param: await w.freshTank() })),
   row('get', '/devices', signedIn(200, 200, 200, 200)),
@@ -427,7 +438,7 @@ describe('the table itself', () => {
     expect(ROUTES.filter((r) => r.expected.wall !== r.expected.noToken).map(name)).toEqual(['GET /sites/:id/wall'])
     expect(ROUTES.filter((r) => r.expected.wall !== 401).map(name)).toEqual([
       'GET /health', 'POST /auth/sign-in', 'POST /auth/password-reset', 'POST /auth/password-reset/confirm',
-      'GET /invitations/:token', 'POST /invitations/accept', 'GET /ack-links/:token', 'POST /ack-links/use', 'GET /sites/:id/wall',
+      'GET /setup', 'POST /setup', 'GET /invitations/:token', 'POST /invitations/accept', 'GET /ack-links/:token', 'POST /ack-links/use', 'GET /sites/:id/wall',
     ])
     const { key } = await world.freshWallKey()
     for (const siteId of [org.siteIds[1], other.siteIds[0]]) expect((await send('get', `/sites/${siteId}/wall`, key)).status).toBe(404)

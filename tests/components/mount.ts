@@ -12,7 +12,7 @@ const Blank = defineComponent({ render: () => h('div') })
 
 /** Same route names as the app, with blank pages, so links resolve and pushes can be checked. */
 export function testRouter(): Router {
-  const names = ['sign-in', 'tanks', 'tank-new', 'tank', 'tank-edit', 'tank-test-kit', 'tank-build', 'sites', 'users', 'account', 'wall', 'incidents', 'incident', 'roster', 'ack', 'dev-mail', 'care-today', 'report', 'import', 'backup', 'forgot-password', 'reset-password']
+  const names = ['sign-in', 'tanks', 'tank-new', 'tank', 'tank-edit', 'tank-test-kit', 'tank-build', 'sites', 'users', 'account', 'wall', 'incidents', 'incident', 'roster', 'ack', 'dev-mail', 'care-today', 'report', 'import', 'backup', 'forgot-password', 'reset-password', 'overview', 'setup']
   const paths: Record<string, string> = {
     'sign-in': '/sign-in',
     tanks: '/tanks',
@@ -36,6 +36,8 @@ export function testRouter(): Router {
     backup: '/backup',
     'forgot-password': '/forgot-password',
     'reset-password': '/reset-password',
+    overview: '/',
+    setup: '/setup',
   }
   return createRouter({
     history: createMemoryHistory(),

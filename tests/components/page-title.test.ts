@@ -38,6 +38,8 @@ async function app() {
   installGuards(router)
   const host = defineComponent({ render: () => h(RouterView) })
   mounted.push(mount(host, { global: { plugins: [router] } }))
+  // The first navigation (to /, which sends a viewer on to the tanks) finishes before the test's own.
+  await router.isReady()
   return router
 }
 

@@ -3,6 +3,7 @@ import { beforeEach, describe, expect, it, vi } from 'vitest'
 import { defineComponent, h } from 'vue'
 import { createMemoryHistory, createRouter, type RouteRecordRaw } from 'vue-router'
 
+vi.mock('@/api/setup', () => ({ fetchSetupState: vi.fn() }))
 vi.mock('@/api/auth', () => ({
   signIn: vi.fn(),
   signOut: vi.fn(),
@@ -13,6 +14,7 @@ vi.mock('@/api/auth', () => ({
 }))
 
 import { fetchMe } from '@/api/auth'
+import { fetchSetupState } from '@/api/setup'
 import { installGuards, isChunkLoadError } from '@/router'
 import { routes } from '@/router/routes'
 import { useAuthStore } from '@/stores/auth'
@@ -37,6 +39,8 @@ function appRouter() {
 beforeEach(() => {
   setActivePinia(createPinia())
   vi.mocked(fetchMe).mockReset()
+  vi.mocked(fetchSetupState).mockReset()
+  vi.mocked(fetchSetupState).mockResolvedValue({ needed: false, codeRequired: false })
 })
 
 describe('route guards', () => {
@@ -96,13 +100,29 @@ describe('route guards', () => {
     expect(router.currentRoute.value.name).toBe('wall')
   })
 
-  it('redirects / to the tanks', async () => {
+  it.each([
+    ['viewer', 'tanks'],
+    ['keeper', 'overview'],
+    ['owner', 'overview'],
+  ] as const)('opens / for a %s on %s', async (role, expected) => {
     const auth = useAuthStore()
     auth.token = 'token'
-    auth.user = userWithRole('viewer')
+    auth.user = userWithRole(role)
     const router = appRouter()
     await router.push('/')
-    expect(router.currentRoute.value.name).toBe('tanks')
+    expect(router.currentRoute.value.name).toBe(expected)
+  })
+
+  it('opens the setup page on an installation without a business, and only then', async () => {
+    vi.mocked(fetchSetupState).mockResolvedValue({ needed: true, codeRequired: false })
+    const router = appRouter()
+    await router.push('/tanks')
+    expect(router.currentRoute.value.name).toBe('setup')
+    vi.mocked(fetchSetupState).mockResolvedValue({ needed: false, codeRequired: false })
+    await router.push('/tanks')
+    expect(router.currentRoute.value.name).toBe('sign-in')
+    await router.push('/setup')
+    expect(router.currentRoute.value.name).toBe('sign-in')
   })
 
   it('recognises a vanished lazy chunk', () => {

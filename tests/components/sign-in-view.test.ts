@@ -61,7 +61,7 @@ describe('SignInView', () => {
     expect(wrapper.text()).toContain('not an e-mail address')
   })
 
-  it('signs in and goes to the tanks', async () => {
+  it('signs in and goes to the overview (a keeper\'s home)', async () => {
     vi.mocked(signIn).mockResolvedValue({
       token: 'jwt-token',
       expiresAt: '2030-01-01T00:00:00.000Z',
@@ -81,6 +81,6 @@ describe('SignInView', () => {
 
     expect(signIn).toHaveBeenCalledWith({ email: 'sam@example.test', password: 'correct horse battery' })
     expect(localStorage.getItem('tw.token')).toBe('jwt-token')
-    expect(router.currentRoute.value.name).toBe('tanks')
+    expect(router.currentRoute.value.name).toBe('overview')
   })
 })

@@ -51,6 +51,7 @@ afterAll(async () => {
 
 const SIGNED_OUT = ['/sign-in', '/forgot-password']
 const signedInScreens = () => [
+  '/',
   '/tanks',
   `/tanks/${tankId}`,
   `/tanks/${tankId}/test-kit`,

@@ -86,14 +86,15 @@ async function signInByKeyboard(page: Page, email: string) {
   await tabTo(page, 'Password')
   await page.keyboard.type(TEST_PASSWORD)
   await page.keyboard.press('Enter')
-  await page.waitForURL((url) => url.pathname === '/tanks', { timeout: FIRST_LOAD_MS })
+  // Keepers land on the overview.
+  await page.waitForURL((url) => url.pathname === '/', { timeout: FIRST_LOAD_MS })
 }
 
 describe('keyboard only', () => {
   it('signs in with Tab, typing and Enter', async () => {
     const page = await browser.newPage({ viewport: { width: 1280, height: 800 } })
     await signInByKeyboard(page, org.users.keeper.email)
-    await page.locator('h1', { hasText: 'Tanks' }).waitFor({ timeout: FIRST_LOAD_MS })
+    await page.locator('h1', { hasText: 'Overview' }).waitFor({ timeout: FIRST_LOAD_MS })
     await page.close()
   })
 

@@ -99,7 +99,8 @@ describe('a forgotten password, from the sign-in page to signing in with the new
     await page.locator('[data-test=reset-sign-in]').click()
     await page.waitForURL(/\/sign-in/)
     await signIn(page, s.baseUrl, keeper, 'a-fresh-keeper-password')
-    expect(new URL(page.url()).pathname).toBe('/tanks')
+    // A keeper's home is the overview.
+    expect(new URL(page.url()).pathname).toBe('/')
 
     // The same link a second time: refused by name, with the way to a new one.
     const again = await browser.newPage({ viewport: { width: 390, height: 844 } })

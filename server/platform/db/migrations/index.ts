@@ -16,6 +16,7 @@ import createReportSchedules from './202612021400-create-report-schedules'
 import addIncidentFlapsSitesMaintenance from './202612050200-add-incident-flaps-sites-maintenance'
 import createBuilds from './202612051000-create-builds'
 import addDailyRollups from './202612051200-add-daily-rollups'
+import addChecklistDismissed from './202612051300-add-checklist-dismissed'
 
 /** Every migration in order. Add new files here; never edit one that has shipped. */
 export const migrations: Migration[] = [
@@ -36,4 +37,5 @@ export const migrations: Migration[] = [
   addIncidentFlapsSitesMaintenance,
   createBuilds,
   addDailyRollups,
+  addChecklistDismissed,
 ]

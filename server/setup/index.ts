@@ -1,0 +1,2 @@
+// What other features may use of setup/; everything else in the folder is its own.
+export { checklistService } from './checklist'

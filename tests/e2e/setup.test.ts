@@ -1,0 +1,131 @@
+import type { Browser, Page } from 'playwright-core'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { launchBrowser, shot, startAppForBrowser } from './browser'
+import { FIRST_LOAD_MS, type App } from './keeper-setup'
+
+// A fresh installation: an empty database, no demo. Everything below goes through the screens,
+// except the device's reading, which arrives over HTTP with the device's own token as a sensor's would.
+let s: App
+let b: Awaited<ReturnType<typeof launchBrowser>>
+let browser: Browser
+let page: Page
+const OWNER = { business: 'Blue Hollow Aquatics', name: 'Ines Varga', email: 'ines@blue-hollow.example', password: 'a-long-enough-password' }
+const TANK = 'Show tank 1'
+
+beforeAll(async () => {
+  s = await startAppForBrowser()
+  expect(await s.ctx.models.Organization.count()).toBe(0)
+  b = await launchBrowser()
+  browser = b.browser
+  page = await browser.newPage({ viewport: { width: 1280, height: 800 } })
+})
+afterAll(async () => {
+  await b?.close()
+  await s?.close()
+})
+
+const checklistStep = (step: string) => page.locator(`[data-test="checklist-${step}"]`)
+
+describe('a business starting for real', () => {
+  it('opens the setup page on an empty installation and signs the owner in', async () => {
+    await page.goto(`${s.baseUrl}/`, { timeout: FIRST_LOAD_MS })
+    await page.waitForURL((url) => url.pathname === '/setup', { timeout: FIRST_LOAD_MS })
+    await page.getByLabel('Business name').fill(OWNER.business, { timeout: FIRST_LOAD_MS })
+    // On the server's own machine no setup code is asked for.
+    expect(await page.getByLabel('Setup code').count()).toBe(0)
+    const phone = await browser.newPage({ viewport: { width: 390, height: 844 } })
+    await phone.goto(`${s.baseUrl}/setup`, { timeout: FIRST_LOAD_MS })
+    await phone.getByLabel('Business name').waitFor({ timeout: FIRST_LOAD_MS })
+    await shot(phone, 'setup-phone')
+    await phone.close()
+
+    await page.getByLabel('Your name').fill(OWNER.name)
+    await page.getByLabel('E-mail').fill(OWNER.email)
+    await page.getByLabel('Password').fill(OWNER.password)
+    await page.getByLabel('First site').fill('Back room')
+    await shot(page, 'setup-desktop')
+    await page.getByRole('button', { name: 'Set up and sign in' }).click()
+    await page.waitForURL((url) => url.pathname === '/', { timeout: FIRST_LOAD_MS })
+    await page.locator('[data-test="checklist"]').waitFor({ timeout: FIRST_LOAD_MS })
+    await shot(page, 'setup-checklist-desktop')
+    const site = (await s.ctx.models.Site.findAll())[0]!
+    // The browser's zone is the default; headless Chromium here reports the machine's.
+    expect(site.timeZone).toBe(await page.evaluate(() => Intl.DateTimeFormat().resolvedOptions().timeZone))
+    expect(await checklistStep('tanks').getAttribute('data-done')).toBe('false')
+  })
+
+  it('adds a tank from the checklist', async () => {
+    await checklistStep('tanks').getByRole('link', { name: 'New tank' }).click()
+    await page.waitForURL((url) => url.pathname === '/tanks/new')
+    await page.getByLabel('Name', { exact: true }).fill(TANK, { timeout: FIRST_LOAD_MS })
+    await page.getByLabel('Length').fill('100')
+    await page.getByLabel('Width (front to back)').fill('40')
+    await page.getByLabel('Height', { exact: true }).fill('50')
+    await page.getByLabel('Heater power').fill('150')
+    await page.getByLabel('Heater top above the tank floor').fill('30')
+    await page.getByRole('button', { name: 'Add tank' }).click()
+    await page.waitForURL((url) => /^\/tanks\/\d+$/.test(url.pathname), { timeout: FIRST_LOAD_MS })
+    expect((await s.ctx.models.Tank.findAll()).map((t) => t.name)).toEqual([TANK])
+  })
+
+  let deviceToken = ''
+  it('registers a device on the tank and a reading arrives over HTTP with its token', async () => {
+    await page.locator('[data-test="register-device"]').click()
+    await page.getByLabel('Name, e.g. Probe node 4').fill('Back room probe 1')
+    // Temperature is what a new device measures unless told otherwise.
+    await page.getByRole('button', { name: 'Register', exact: true }).click()
+    const token = page.locator('[data-test="device-token"] input')
+    await token.waitFor({ timeout: FIRST_LOAD_MS })
+    deviceToken = await token.inputValue()
+    expect(deviceToken.length).toBeGreaterThan(20)
+    const res = await fetch(`${s.baseUrl}/api/v1/readings`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', authorization: `Bearer ${deviceToken}` },
+      body: JSON.stringify({ v: 1, readings: [{ metric: 'temperature', value: 25.4, time: new Date().toISOString() }] }),
+    })
+    expect(res.status).toBe(200)
+    expect(((await res.json()) as { accepted: number }).accepted).toBe(1)
+  })
+
+  it('sets a duty shift from the checklist', async () => {
+    await page.goto(`${s.baseUrl}/`, { timeout: FIRST_LOAD_MS })
+    await checklistStep('roster').waitFor({ timeout: FIRST_LOAD_MS })
+    expect(await checklistStep('tanks').getAttribute('data-done')).toBe('true')
+    expect(await checklistStep('device').getAttribute('data-done')).toBe('true')
+    await checklistStep('roster').getByRole('link', { name: 'Duty roster' }).click()
+    await page.locator('[data-test="add-shift"]').click({ timeout: FIRST_LOAD_MS })
+    const dialog = page.locator('[data-test="shift-dialog"]')
+    await dialog.locator('.v-select').first().click()
+    await page.getByRole('option', { name: OWNER.name }).click()
+    await dialog.getByRole('button', { name: 'Save shift' }).click()
+    await dialog.waitFor({ state: 'hidden', timeout: FIRST_LOAD_MS })
+    expect(await s.ctx.models.DutyShift.count()).toBe(1)
+  })
+
+  it('opens the wall from the checklist and sees the tank with its reading', async () => {
+    await page.goto(`${s.baseUrl}/`, { timeout: FIRST_LOAD_MS })
+    await checklistStep('wall').waitFor({ timeout: FIRST_LOAD_MS })
+    expect(await checklistStep('roster').getAttribute('data-done')).toBe('true')
+    await shot(page, 'setup-checklist-progress-desktop')
+    await checklistStep('wall').getByRole('link', { name: 'Open the wall' }).click()
+    await page.waitForURL((url) => /^\/wall\/\d+$/.test(url.pathname), { timeout: FIRST_LOAD_MS })
+    const tile = page.getByRole('article', { name: new RegExp(`^${TANK}:`) })
+    await tile.waitFor({ timeout: FIRST_LOAD_MS })
+    expect(await tile.locator('[data-test=tile-temperature]').textContent()).toContain('25.4')
+    await shot(page, 'setup-wall-desktop')
+  })
+
+  it('refuses a second setup, over HTTP and on the page', async () => {
+    const res = await fetch(`${s.baseUrl}/api/v1/setup`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: JSON.stringify({ businessName: 'Intruder', ownerName: 'X', email: 'x@intruder.example', password: 'another-long-password', siteName: 'Y', timeZone: 'UTC' }),
+    })
+    expect(res.status).toBe(409)
+    const stranger = await browser.newPage({ viewport: { width: 390, height: 844 } })
+    await stranger.goto(`${s.baseUrl}/setup`, { timeout: FIRST_LOAD_MS })
+    await stranger.waitForURL((url) => url.pathname === '/sign-in', { timeout: FIRST_LOAD_MS })
+    await stranger.close()
+    expect(await s.ctx.models.Organization.count()).toBe(1)
+  })
+})
