@@ -1,0 +1,53 @@
+// Lint rules for every source and test file (`npm run lint`). Layout and spacing belong to Prettier
+// (`npm run format`): eslint-config-prettier comes last and switches off every rule that would
+// argue with it. A rule switched off here says why; a line-level `eslint-disable` says why beside it.
+import js from '@eslint/js'
+import prettier from 'eslint-config-prettier'
+import vue from 'eslint-plugin-vue'
+import globals from 'globals'
+import tseslint from 'typescript-eslint'
+
+export default tseslint.config(
+  {
+    ignores: ['**/node_modules/**', 'dist/**', '.build/**', 'test-results/**', '.data*/**', '.test-data/**', 'coverage/**'],
+  },
+  js.configs.recommended,
+  ...tseslint.configs.recommended,
+  ...vue.configs['flat/recommended'],
+  {
+    files: ['**/*.vue'],
+    languageOptions: { parserOptions: { parser: tseslint.parser } },
+  },
+  {
+    // The client runs in the browser; everything else (server, simulator, scripts, bench, tests,
+    // configs) runs on Node. Component tests run in jsdom, so they see both.
+    files: ['src/**/*.{ts,vue}', 'tests/components/**/*.ts', 'tests/e2e/**/*.ts', 'env.d.ts'],
+    languageOptions: { globals: { ...globals.browser } },
+  },
+  {
+    files: ['server/**', 'shared/**', 'simulator/**', 'scripts/**', 'bench/**', 'tests/**', '*.{js,cjs,mjs,ts}'],
+    languageOptions: { globals: { ...globals.node } },
+  },
+  {
+    rules: {
+      // A leading underscore marks a name kept on purpose (an Express error handler's fourth
+      // argument), and `{ dropped, ...rest }` is how the code leaves fields out of an object.
+      '@typescript-eslint/no-unused-vars': [
+        'error',
+        { argsIgnorePattern: '^_', varsIgnorePattern: '^_', caughtErrorsIgnorePattern: '^_', ignoreRestSiblings: true },
+      ],
+      // Input guards refuse control characters (file names, CSV cells, free text), so their
+      // patterns name \x00–\x1f on purpose.
+      'no-control-regex': 'off',
+      // Form sections (TankSizeFields, BuildPlanForm, …) edit the fields of a draft object the
+      // parent form owns and submits; replacing the prop itself is still an error.
+      'vue/no-mutating-props': ['error', { shallowOnly: true }],
+    },
+  },
+  {
+    // Tests define small throwaway components beside the test that mounts them.
+    files: ['tests/**'],
+    rules: { 'vue/one-component-per-file': 'off' },
+  },
+  prettier,
+)
