@@ -7,6 +7,31 @@ import vue from 'eslint-plugin-vue'
 import globals from 'globals'
 import tseslint from 'typescript-eslint'
 
+// Our own rule: a line that switches a rule off says why, after ` -- `, so the next reader can judge
+// whether the reason still holds (`// eslint-disable-next-line prefer-const -- the callback may …`).
+const house = {
+  rules: {
+    'disable-needs-reason': {
+      meta: {
+        type: 'suggestion',
+        docs: { description: 'An eslint-disable comment gives its reason after " -- ".' },
+        schema: [],
+        messages: { missing: 'Say why beside the eslint-disable comment: `eslint-disable-next-line rule -- reason`.' },
+      },
+      create(context) {
+        return {
+          Program() {
+            for (const comment of context.sourceCode.getAllComments()) {
+              const text = comment.value.trim()
+              if (/^eslint-disable(-line|-next-line)?(\s|$)/.test(text) && !/\s--\s*\S/.test(text)) context.report({ loc: comment.loc, messageId: 'missing' })
+            }
+          },
+        }
+      },
+    },
+  },
+}
+
 export default tseslint.config(
   {
     ignores: ['**/node_modules/**', 'dist/**', '.build/**', 'test-results/**', '.data*/**', '.test-data/**', 'coverage/**'],
@@ -29,7 +54,11 @@ export default tseslint.config(
     languageOptions: { globals: { ...globals.node } },
   },
   {
+    plugins: { house },
+    // A switch-off that no longer switches anything off is clutter with a stale reason.
+    linterOptions: { reportUnusedDisableDirectives: 'error' },
     rules: {
+      'house/disable-needs-reason': 'error',
       // A leading underscore marks a name kept on purpose (an Express error handler's fourth
       // argument), and `{ dropped, ...rest }` is how the code leaves fields out of an object.
       '@typescript-eslint/no-unused-vars': [
