@@ -27,12 +27,14 @@ describe('dependency rules', () => {
     'shared/pure.ts': "import { join } from 'node:path'\nexport const pure = join('a', 'b')\n",
     'src/probe.ts': "import { secret } from '../server/tanks/tanks'\nimport { pure } from '../shared/pure'\nexport const seen = [secret, pure]\n",
     'simulator/probe.ts': "import { secret } from '../server/tanks/tanks'\nimport { pure } from '../shared/pure'\nexport const sent = [secret, pure]\n",
-    'server/platform/probe.ts': "import { secret } from '../tanks/tanks'\nimport { createServer } from 'node:http'\nexport const plumbing = [secret, createServer]\n",
+    'server/platform/probe.ts':
+      "import { secret } from '../tanks/tanks'\nimport { createServer } from 'node:http'\nexport const plumbing = [secret, createServer]\n",
     'server/tanks/tanks.ts': "export const secret = 'tank'\n",
     'server/tanks/routes.ts': "import { secret } from './tanks'\nexport const tanksRouter = () => secret\n",
     'server/tanks/report-routes.ts': "export const reportRoutes = () => 'report'\n",
     'server/tanks/uses-routes.ts': "import { reportRoutes } from './report-routes'\nexport const wrong = reportRoutes\n",
-    'server/api-router.ts': "import { tanksRouter } from './tanks/routes'\nimport { reportRoutes } from './tanks/report-routes'\nexport const api = [tanksRouter, reportRoutes]\n",
+    'server/api-router.ts':
+      "import { tanksRouter } from './tanks/routes'\nimport { reportRoutes } from './tanks/report-routes'\nexport const api = [tanksRouter, reportRoutes]\n",
     'server/loop-a.ts': "import { b } from './loop-b'\nexport const a = () => b\n",
     'server/loop-b.ts': "import { a } from './loop-a'\nexport const b = () => a\n",
   }
@@ -48,7 +50,9 @@ describe('dependency rules', () => {
     const result = run('depcruise', ['server', 'shared', 'src', 'simulator', '--config', join(root, '.dependency-cruiser.cjs')], { cwd: fixture })
     exitCode = result.status
     // `  error rule: from → to`; a loop prints its first file on the line and the rest below.
-    found = [...result.stdout.matchAll(/^\s*error (\S+): (\S+) →(?: (\S+))? *$/gm)].map(([, rule, from, to]) => `${rule}: ${from}${to ? ` → ${to}` : ''}`).sort()
+    found = [...result.stdout.matchAll(/^\s*error (\S+): (\S+) →(?: (\S+))? *$/gm)]
+      .map(([, rule, from, to]) => `${rule}: ${from}${to ? ` → ${to}` : ''}`)
+      .sort()
   }, SLOW)
   afterAll(() => rmSync(fixture, { recursive: true, force: true }))
 
@@ -80,7 +84,7 @@ describe('lint', () => {
   it(
     'fails on an unused variable, and lets a name with a leading underscore or a left-out field pass',
     () => {
-      const text = "const unused = 1\nconst _kept = 2\nconst { dropped, ...rest } = { dropped: 1, kept: 2 }\nexport { rest }\n"
+      const text = 'const unused = 1\nconst _kept = 2\nconst { dropped, ...rest } = { dropped: 1, kept: 2 }\nexport { rest }\n'
       expect(lint('tests/unit/_probe.ts', text)).toEqual({ status: 1, rules: ['1 @typescript-eslint/no-unused-vars'] })
     },
     SLOW,
