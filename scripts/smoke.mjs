@@ -97,6 +97,7 @@ async function checkInBrowser(url, owner, password, shotsDir) {
     await rows.first().waitFor({ timeout: 30_000 })
     const states = page.locator('[data-test="tanks-table"] [data-test="tank-state"]')
     await page.waitForFunction(
+      // eslint-disable-next-line no-undef -- this function runs in the page, where document exists
       () => [...document.querySelectorAll('[data-test="tanks-table"] [data-test="tank-state"]')].some((el) => /Steady|Watch|Alarm/.test(el.textContent ?? '')),
       undefined,
       { timeout: 60_000 },

@@ -1,4 +1,5 @@
-// `npm test`: a throwaway PostgreSQL, type checks, the client build, then every vitest project.
+// `npm test`: a throwaway PostgreSQL, type checks, house rules (lint, format, dependency rules), the
+// client build, then every vitest project.
 // Ends with one line `N passed, N failed` over everything it ran. Node built-ins only at the top.
 import { existsSync, readFileSync, rmSync, mkdtempSync } from 'node:fs'
 import { tmpdir } from 'node:os'
@@ -58,6 +59,10 @@ try {
   if (!vitestArgs.length) {
     await check('type check: client (vue-tsc)', bin('vue-tsc'), ['--noEmit', '-p', 'tsconfig.json'])
     await check('type check: server (tsc)', bin('tsc'), ['--noEmit', '-p', 'tsconfig.server.json'])
+    // House rules, defined once in package.json's scripts: lint, layout, and who may import whom.
+    await check('lint (eslint)', 'npm', ['run', '--silent', 'lint'])
+    await check('format (prettier --check)', 'npm', ['run', '--silent', 'format:check'])
+    await check('dependency rules (dependency-cruiser)', 'npm', ['run', '--silent', 'deps'])
     await check('client build (vite)', bin('vite'), ['build', '--logLevel', 'warn'])
   }
 

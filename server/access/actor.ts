@@ -26,7 +26,7 @@ export type DeviceActor = { kind: 'device'; deviceId: number; organizationId: nu
 export type Actor = UserActor | WallActor
 
 declare global {
-  // eslint-disable-next-line @typescript-eslint/no-namespace
+  // eslint-disable-next-line @typescript-eslint/no-namespace -- Express types the request through its global namespace; only merging into it adds our fields
   namespace Express {
     interface User {
       actor?: Actor

@@ -155,6 +155,7 @@ export async function startEmbeddedBroker(ctx: AppContext, options: { host: stri
   }
 
   const server: Server = createServer((socket) => {
+    // eslint-disable-next-line prefer-const -- the guard is built before the client it reports to: a refusal before broker.handle returns must read undefined, where const would throw
     let client: DeviceClient | undefined
     const guarded: GuardedSocket = new GuardedSocket(socket, PACKET_LIMITS, (refusal) => (client ? onRefused(client, guarded, refusal) : guarded.cut()))
     client = broker.handle(guarded) as DeviceClient

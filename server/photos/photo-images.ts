@@ -37,7 +37,7 @@ const ACCEPTED = 'attach a JPEG, PNG or WebP image'
 export async function processPhoto(bytes: Buffer): Promise<ProcessedPhoto> {
   const sharp = await loadSharp()
   let format: string | undefined
-  let pixels = 0
+  let pixels: number
   try {
     const meta = await sharp(bytes, { limitInputPixels: false }).metadata()
     format = meta.format

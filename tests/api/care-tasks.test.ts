@@ -24,7 +24,8 @@ async function tankWithDefaults(siteId = org.siteIds[0] as number) {
   await createDefaultCareTasks(t.ctx, (await t.ctx.models.Tank.findByPk(tankId))!)
   return tankId
 }
-const tasksOf = async (tankId: number) => (await t.api().get(`/api/v1/tanks/${tankId}/care-tasks`).set(as(org, 'viewer'))).body as Array<Record<string, any>>
+type TaskRow = { id: number; kind: string; recurrence: { everyDays?: number }; due: { status: string }; defaultValues: unknown }
+const tasksOf = async (tankId: number) => (await t.api().get(`/api/v1/tanks/${tankId}/care-tasks`).set(as(org, 'viewer'))).body as TaskRow[]
 const setLastDone = (taskId: number, at: Date | null) => t.ctx.models.CareTask.update({ lastDoneAt: at }, { where: { id: taskId } })
 const actorFor = (role: 'owner' | 'keeper'): UserActor => ({ kind: 'user', userId: org.users[role].id, organizationId: org.organizationId, role, siteIds: null, sessionId: 'test' })
 

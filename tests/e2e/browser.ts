@@ -61,6 +61,7 @@ export async function signIn(page: Page, baseUrl: string, email: string, passwor
       throw new Error(
         `sign-in as ${email} failed twice at ${page.url()}${alert ? `: ${alert.trim()}` : ''} (${(error as Error).message}); ` +
           `unfinished requests: ${[...unfinished].join(', ') || 'none'}; console errors: ${consoleErrors.join(' | ') || 'none'}; screenshot ${name}.png`,
+        { cause: error },
       )
     }
   }

@@ -9,7 +9,7 @@ export const FIRST_LOAD_MS = 30_000
 
 export interface ApiAnswer {
   status: number
-  // eslint-disable-next-line @typescript-eslint/no-explicit-any
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- a JSON answer, typed loosely like supertest's res.body: each test reads the fields it checks
   body: any
 }
 

@@ -69,18 +69,17 @@ describe('several senders on one outbox', () => {
 
   it('stopping a sender mid-batch hands the unsent rows back at once', async () => {
     await enqueueMany(6, 'Handed back')
-    let sender: ReturnType<typeof startOutboxSender> | undefined
     let stopping: Promise<void> | undefined
     // A transport that asks for the stop after the first delivery.
     const stopAfterFirst = {
       sendMail: async (m: Parameters<typeof bed.transport.sendMail>[0]) => {
         const info = await bed.transport.sendMail(m)
-        stopping ??= sender!.stop()
+        stopping ??= sender.stop()
         return info
       },
       close: () => {},
     }
-    sender = startOutboxSender(bed.ctx, { transport: stopAfterFirst, manual: true, batch: 6 })
+    const sender = startOutboxSender(bed.ctx, { transport: stopAfterFirst, manual: true, batch: 6 })
     const result = await sender.runOnce()
     await stopping
     expect(result).toEqual({ claimed: 6, sent: 1, retried: 0, failed: 0, released: 5 })

@@ -22,7 +22,7 @@ beforeAll(async () => {
 afterAll(() => s.close())
 
 type Reading = { metric: string; value: number; time: string }
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- a JSON answer, typed loosely like supertest's res.body: each test reads the fields it checks
 async function api(path: string, token: string, init: RequestInit = {}): Promise<{ status: number; body: any }> {
   const res = await fetch(`${s.baseUrl}/api/v1${path}`, { ...init, headers: { 'content-type': 'application/json', ...bearer(token) } })
   return { status: res.status, body: await res.json() }

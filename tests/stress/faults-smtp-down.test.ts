@@ -42,7 +42,7 @@ afterAll(async () => {
   await s?.close()
 })
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- a JSON answer, typed loosely like supertest's res.body: each test reads the fields it checks
 async function api(path: string, token: string, init: RequestInit = {}): Promise<{ status: number; body: any }> {
   const res = await fetch(`${s.baseUrl}/api/v1${path}`, { ...init, headers: { 'content-type': 'application/json', ...bearer(token) } })
   return { status: res.status, body: res.status === 204 ? null : await res.json() }

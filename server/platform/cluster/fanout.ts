@@ -1,10 +1,19 @@
 import { randomBytes } from 'node:crypto'
 import pg from 'pg'
-import type { AppContext } from '../../context'
-import type { EventMap } from '../events'
+import type { Sequelize } from 'sequelize'
+import type { EventBus, EventMap } from '../events'
+import type { Logger } from '../logger'
 import { RELAYED_EVENTS, decodeEvent, encodeEvent, type RelayedEvent } from './codec'
 
 export const FANOUT_CHANNEL = 'tankwarden_events'
+
+/** The part of the app's context the fan-out uses (platform code names no feature's types). */
+export type FanoutContext = {
+  config: { instanceId: string; clusterFanout: boolean; databaseUrl: string }
+  events: EventBus
+  logger: Logger
+  sequelize: Sequelize
+}
 
 export type ClusterFanout = {
   origin: string
@@ -23,7 +32,7 @@ export type ClusterFanout = {
  * elsewhere and the rule engine leader sees them. A single instance works the same, hearing only
  * itself (its own notifications are ignored).
  */
-export async function startClusterFanout(ctx: AppContext, options: { reconnectMs?: number } = {}): Promise<ClusterFanout> {
+export async function startClusterFanout(ctx: FanoutContext, options: { reconnectMs?: number } = {}): Promise<ClusterFanout> {
   const { events, logger, sequelize } = ctx
   const origin = `${ctx.config.instanceId}:${randomBytes(4).toString('hex')}`
   const reconnectMs = options.reconnectMs ?? 1000
