@@ -12,9 +12,11 @@ const alias = {
 // Every file has its own database, ports and processes, so all projects share one pool of workers.
 // The longest files start first and the short ones fill in around them: the stress suites (mostly
 // waiting on child processes and real clocks), the API files, the browser tests (which wait for the
-// client build scripts/test.mjs runs beside vitest), then component and unit tests. Within a project
-// vitest's own order holds: longest first by the last run's durations, else larger files first.
-const PROJECT_ORDER = ['stress', 'api', 'e2e', 'components', 'unit']
+// client build scripts/test.mjs runs beside vitest), then component and unit tests; `stress-alone`
+// after them all. Within a project vitest's own order holds: longest first by the last run's
+// durations, else larger files first.
+const PROJECT_ORDER = ['stress', 'api', 'e2e', 'components', 'unit', 'stress-alone']
+const ALONE = ['tests/stress/hostile-load.test.ts']
 class LongestFirst extends BaseSequencer {
   async sort(files: TestSpecification[]) {
     const rank = (spec: TestSpecification) => PROJECT_ORDER.indexOf(spec.project.name)
@@ -45,6 +47,7 @@ export default defineConfig({
           globalSetup: ['tests/helpers/global-setup.ts'],
           testTimeout: 20000,
           hookTimeout: 30000,
+          isolate: false,
         },
       },
       {
@@ -77,10 +80,25 @@ export default defineConfig({
         test: {
           name: 'stress',
           include: ['tests/stress/**/*.test.ts'],
+          exclude: ALONE,
           environment: 'node',
           globalSetup: ['tests/helpers/global-setup.ts'],
           testTimeout: 120000,
           hookTimeout: 120000,
+        },
+      },
+      {
+        resolve: { alias },
+        test: {
+          // Suites that measure latency and memory under attack, and so would measure the other
+          // workers too: vitest runs a project without file parallelism after all the others, alone.
+          name: 'stress-alone',
+          include: ALONE,
+          environment: 'node',
+          globalSetup: ['tests/helpers/global-setup.ts'],
+          testTimeout: 120000,
+          hookTimeout: 120000,
+          fileParallelism: false,
         },
       },
     ],

@@ -90,7 +90,7 @@ try {
   mkdirSync(resultsDir, { recursive: true })
   const resultsFile = join(resultsDir, 'test-results.json')
   rmSync(resultsFile, { force: true })
-  log(vitestArgs.length ? '— vitest' : '— vitest: unit, api, components, e2e, stress; beside it the client build and the type checks')
+  log(vitestArgs.length ? '— vitest' : '— vitest: unit, api, components, e2e, stress, stress-alone; beside it the client build and the type checks')
   const code = await runAsync(
     bin('vitest'),
     ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${resultsFile}`, ...vitestArgs],
