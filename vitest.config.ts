@@ -45,8 +45,10 @@ export default defineConfig({
           include: ['tests/api/**/*.test.ts', 'tests/mqtt/**/*.test.ts', 'tests/mail/**/*.test.ts'],
           environment: 'node',
           globalSetup: ['tests/helpers/global-setup.ts'],
-          testTimeout: 20000,
-          hookTimeout: 30000,
+          // Room for a test waiting its turn for a core among three workers and other jobs.
+          testTimeout: 60000,
+          hookTimeout: 60000,
+          // A worker imports the server once and runs file after file (DEVELOPERS.md, Tests).
           isolate: false,
         },
       },
@@ -59,6 +61,8 @@ export default defineConfig({
           environment: 'jsdom',
           setupFiles: ['tests/components/setup.ts'],
           server: { deps: { inline: ['vuetify'] } },
+          // Mounting Vuetify in jsdom is all CPU: a test may wait its turn among three workers.
+          testTimeout: 30000,
         },
       },
       {
