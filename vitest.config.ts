@@ -1,5 +1,6 @@
 import { fileURLToPath, URL } from 'node:url'
 import { defineConfig } from 'vitest/config'
+import { BaseSequencer, type TestSpecification } from 'vitest/node'
 import vue from '@vitejs/plugin-vue'
 import vuetify from 'vite-plugin-vuetify'
 
@@ -8,11 +9,30 @@ const alias = {
   '@shared': fileURLToPath(new URL('./shared', import.meta.url)),
 }
 
+// Every file has its own database, ports and processes, so all projects share one pool of workers.
+// The longest files start first and the short ones fill in around them: the stress suites (mostly
+// waiting on child processes and real clocks), the API files, the browser tests (which wait for the
+// client build scripts/test.mjs runs beside vitest), then component and unit tests; `stress-alone`
+// after them all. Within a project vitest's own order holds: longest first by the last run's
+// durations, else larger files first.
+const PROJECT_ORDER = ['stress', 'api', 'e2e', 'components', 'unit', 'stress-alone']
+const ALONE = ['tests/stress/hostile-load.test.ts']
+class LongestFirst extends BaseSequencer {
+  async sort(files: TestSpecification[]) {
+    const rank = (spec: TestSpecification) => PROJECT_ORDER.indexOf(spec.project.name)
+    return (await super.sort(files)).sort((a, b) => rank(a) - rank(b))
+  }
+}
+
 // Projects: pure unit tests, API/integration tests over a real PostgreSQL (DATABASE_URL from
 // scripts/test.mjs), component tests in jsdom, browser tests, and stress suites (several processes,
-// external broker, faults, fuzzing) that run one file at a time.
+// external broker, faults, fuzzing).
 export default defineConfig({
   test: {
+    // Three workers on two cores: much of every test is waiting (PostgreSQL, child processes,
+    // Chromium, timers), so a third keeps both cores busy. VITEST_MAX_WORKERS (vitest's own) overrides it.
+    maxWorkers: 3,
+    sequence: { sequencer: LongestFirst },
     projects: [
       {
         resolve: { alias },
@@ -25,8 +45,11 @@ export default defineConfig({
           include: ['tests/api/**/*.test.ts', 'tests/mqtt/**/*.test.ts', 'tests/mail/**/*.test.ts'],
           environment: 'node',
           globalSetup: ['tests/helpers/global-setup.ts'],
-          testTimeout: 20000,
-          hookTimeout: 30000,
+          // Room for a test waiting its turn for a core among three workers and other jobs.
+          testTimeout: 60000,
+          hookTimeout: 60000,
+          // A worker imports the server once and runs file after file (DEVELOPERS.md, Tests).
+          isolate: false,
         },
       },
       {
@@ -38,6 +61,8 @@ export default defineConfig({
           environment: 'jsdom',
           setupFiles: ['tests/components/setup.ts'],
           server: { deps: { inline: ['vuetify'] } },
+          // Mounting Vuetify in jsdom is all CPU: a test may wait its turn among three workers.
+          testTimeout: 30000,
         },
       },
       {
@@ -47,10 +72,11 @@ export default defineConfig({
           include: ['tests/e2e/**/*.test.ts'],
           environment: 'node',
           globalSetup: ['tests/helpers/global-setup.ts'],
+          // Waits for the client build when scripts/test.mjs runs it beside vitest.
+          setupFiles: ['tests/e2e/setup.ts'],
           // A sign-in may be retried once on a busy machine (tests/e2e/browser.ts).
           testTimeout: 120000,
           hookTimeout: 120000,
-          fileParallelism: false,
         },
       },
       {
@@ -58,6 +84,20 @@ export default defineConfig({
         test: {
           name: 'stress',
           include: ['tests/stress/**/*.test.ts'],
+          exclude: ALONE,
+          environment: 'node',
+          globalSetup: ['tests/helpers/global-setup.ts'],
+          testTimeout: 120000,
+          hookTimeout: 120000,
+        },
+      },
+      {
+        resolve: { alias },
+        test: {
+          // Suites that measure latency and memory under attack, and so would measure the other
+          // workers too: vitest runs a project without file parallelism after all the others, alone.
+          name: 'stress-alone',
+          include: ALONE,
           environment: 'node',
           globalSetup: ['tests/helpers/global-setup.ts'],
           testTimeout: 120000,

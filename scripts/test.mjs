@@ -1,14 +1,13 @@
-// `npm test`: a throwaway PostgreSQL, type checks, house rules (lint, format, dependency rules), the
-// client build, then every vitest project.
-// Ends with one line `N passed, N failed` over everything it ran. Node built-ins only at the top.
-import { existsSync, readFileSync, rmSync, mkdtempSync } from 'node:fs'
-import { tmpdir } from 'node:os'
-import { dirname, join } from 'node:path'
+// `npm test`: a throwaway PostgreSQL, then every vitest project with the client build, the type
+// checks and the house rules (lint, format, dependency rules) beside it. Ends with the ten slowest test files and one line `N passed, N failed` over
+// everything it ran. Node built-ins only at the top.
+import { existsSync, mkdirSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs'
+import { dirname, join, relative } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { ensureDependencies } from './lib/deps.mjs'
 import { startThrowawayCluster } from './lib/postgres.mjs'
 import { ensureChromium, ensureMosquittoBroker, ensureMosquittoClients } from './lib/chromium.mjs'
-import { log, runAsync } from './lib/run.mjs'
+import { log, runAsync, runCaptured } from './lib/run.mjs'
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..')
 process.chdir(root)
@@ -34,15 +33,27 @@ for (const signal of ['SIGINT', 'SIGTERM']) {
   })
 }
 
+// A check runs beside vitest with its output kept, and is reported after vitest's own output.
 async function check(name, cmd, args, env) {
-  log(`— ${name}`)
-  const code = await runAsync(cmd, args, { env: { ...process.env, ...env } })
-  if (code === 0) tally.passed++
-  else {
-    tally.failed++
-    log(`✗ ${name} failed (exit ${code})`)
-  }
-  return code === 0
+  const started = Date.now()
+  const { code, output } = await runCaptured(cmd, args, { env: { ...process.env, ...env } })
+  return { name, ok: code === 0, code, output, seconds: (Date.now() - started) / 1000 }
+}
+
+function reportCheck({ name, ok, code, output, seconds }) {
+  log(`— ${name}: ${ok ? 'ok' : `failed (exit ${code})`} in ${seconds.toFixed(0)} s`)
+  if (output.trim()) process.stdout.write(output.endsWith('\n') ? output : `${output}\n`)
+  if (ok) tally.passed++
+  else tally.failed++
+}
+
+/** The ten test files that took longest, from vitest's JSON results (first test's start to last test's end). */
+function printSlowestFiles(results) {
+  const files = (results.testResults ?? []).map((f) => ({ name: relative(root, f.name), seconds: (f.endTime - f.startTime) / 1000 }))
+  const slowest = files.sort((a, b) => b.seconds - a.seconds).slice(0, 10)
+  if (!slowest.length) return
+  log('Slowest test files:')
+  for (const f of slowest) process.stdout.write(`${f.seconds.toFixed(1).padStart(8)} s  ${f.name}\n`)
 }
 
 try {
@@ -56,26 +67,43 @@ try {
   }
   const bin = (name) => join(root, 'node_modules', '.bin', name)
 
+  // The client build and the type checks run beside vitest, one after another (two cores). The
+  // browser tests need the build: they wait for the file named by CLIENT_BUILD_DONE (tests/e2e/setup.ts).
+  let checks = Promise.resolve([])
   if (!vitestArgs.length) {
-    await check('type check: client (vue-tsc)', bin('vue-tsc'), ['--noEmit', '-p', 'tsconfig.json'])
-    await check('type check: server (tsc)', bin('tsc'), ['--noEmit', '-p', 'tsconfig.server.json'])
-    // House rules, defined once in package.json's scripts: lint, layout, and who may import whom.
-    await check('lint (eslint)', 'npm', ['run', '--silent', 'lint'])
-    await check('format (prettier --check)', 'npm', ['run', '--silent', 'format:check'])
-    await check('dependency rules (dependency-cruiser)', 'npm', ['run', '--silent', 'deps'])
-    await check('client build (vite)', bin('vite'), ['build', '--logLevel', 'warn'])
+    const buildDone = join(root, '.build', 'client-build-done.json')
+    mkdirSync(dirname(buildDone), { recursive: true })
+    rmSync(buildDone, { force: true })
+    env.CLIENT_BUILD_DONE = buildDone
+    checks = (async () => {
+      const build = await check('client build (vite)', bin('vite'), ['build', '--logLevel', 'warn'])
+      writeFileSync(`${buildDone}.tmp`, JSON.stringify({ ok: build.ok }))
+      renameSync(`${buildDone}.tmp`, buildDone)
+      const client = await check('type check: client (vue-tsc)', bin('vue-tsc'), ['--noEmit', '-p', 'tsconfig.json'])
+      const server = await check('type check: server (tsc)', bin('tsc'), ['--noEmit', '-p', 'tsconfig.server.json'])
+      // House rules, defined once in package.json's scripts: lint, layout, and who may import whom.
+      const lint = await check('lint (eslint)', 'npm', ['run', '--silent', 'lint'])
+      const format = await check('format (prettier --check)', 'npm', ['run', '--silent', 'format:check'])
+      const deps = await check('dependency rules (dependency-cruiser)', 'npm', ['run', '--silent', 'deps'])
+      return [build, client, server, lint, format, deps]
+    })()
   }
 
-  const resultsDir = mkdtempSync(join(tmpdir(), 'tw-vitest-'))
-  const resultsFile = join(resultsDir, 'results.json')
-  log('— vitest: unit, api, components, e2e, stress')
+  // Kept after the run (git-ignored) for the slowest-files table and a closer look.
+  const resultsDir = join(root, '.build')
+  mkdirSync(resultsDir, { recursive: true })
+  const resultsFile = join(resultsDir, 'test-results.json')
+  rmSync(resultsFile, { force: true })
+  log(vitestArgs.length ? '— vitest' : '— vitest: unit, api, components, e2e, stress, stress-alone; beside it the client build, the type checks and the house rules')
   const code = await runAsync(
     bin('vitest'),
     ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${resultsFile}`, ...vitestArgs],
     { env: { ...process.env, ...env } },
   )
+  for (const result of await checks) reportCheck(result)
   if (existsSync(resultsFile)) {
     const results = JSON.parse(readFileSync(resultsFile, 'utf8'))
+    printSlowestFiles(results)
     tally.passed += results.numPassedTests ?? 0
     tally.failed += results.numFailedTests ?? 0
     tally.skipped += (results.numPendingTests ?? 0) + (results.numTodoTests ?? 0)
@@ -87,7 +115,6 @@ try {
     tally.failed++
     log(`vitest wrote no results (exit ${code})`)
   }
-  rmSync(resultsDir, { recursive: true, force: true })
 } catch (error) {
   tally.failed++
   log(`test run aborted: ${error instanceof Error ? error.message : error}`)

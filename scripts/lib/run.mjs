@@ -36,6 +36,18 @@ export function runAsync(cmd, args, options = {}) {
   })
 }
 
+/** Runs a command with its output kept rather than shown; resolves with the exit code and the output. */
+export function runCaptured(cmd, args, options = {}) {
+  return new Promise((resolve) => {
+    const child = spawn(cmd, args, { stdio: ['ignore', 'pipe', 'pipe'], env: options.env ?? process.env, cwd: options.cwd })
+    let output = ''
+    child.stdout.on('data', (d) => (output += d))
+    child.stderr.on('data', (d) => (output += d))
+    child.on('close', (code, signal) => resolve({ code: code ?? (signal ? 1 : 0), output }))
+    child.on('error', (error) => resolve({ code: 127, output: error.message }))
+  })
+}
+
 export function commandExists(cmd) {
   return spawnSync('sh', ['-c', `command -v ${cmd}`], { stdio: 'ignore' }).status === 0
 }

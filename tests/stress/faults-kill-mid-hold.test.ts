@@ -14,6 +14,8 @@ import { sleep, until } from './helpers/faults-load'
 // never stopped would have opened it.
 
 const MIN = 60_000
+/** How long after the readings go out the holds end: time to check nothing tripped and kill the app. */
+const LEAD_MS = 20_000
 let db: Awaited<ReturnType<typeof createTestDatabase>>
 let ctx: AppContext
 let app: AppProcess
@@ -62,13 +64,16 @@ const incidentsOf = (tankId: number) => ctx.models.Incident.findAll({ where: { t
 
 describe('app killed mid-hold of a rule', () => {
   it('opens the incident at hold start + hold, once, whether the hold ends on a reading delivered after the restart or with the device gone quiet', { timeout: 480_000 }, async () => {
-    // Both holds started 9 min 5 s ago, with readings every minute (28.6 and 28.7 °C) up to now.
-    const holdStart = Date.now() - 9 * MIN - 5000
-    const resentStart = holdStart
-    const quietStart = holdStart
     const a = device(resent)
     const b = device(quiet)
     await until(() => a.connected && b.connected)
+    // Both holds end LEAD_MS from now, with readings every minute (28.6 and 28.7 °C) from their
+    // start up to a minute before their end: the app is killed while they hold, and stays down
+    // until they have ended. A longer lead only waits longer on the real clock.
+    const holdStart = Date.now() + LEAD_MS - 10 * MIN
+    const holdEnd = holdStart + 10 * MIN
+    const resentStart = holdStart
+    const quietStart = holdStart
     for (let i = 0; i <= 9; i++) await publish(a, resent, resentStart + i * MIN, 28.6)
     for (let i = 0; i <= 9; i++) await publish(b, quiet, quietStart + i * MIN, 28.7)
     await sleep(1500) // a few engine ticks: both rules are holding, neither has tripped
@@ -76,15 +81,17 @@ describe('app killed mid-hold of a rule', () => {
     expect(await incidentsOf(quiet.tankId)).toHaveLength(0)
 
     await app.kill()
-    // "Resent" keeps measuring every 30 s while the app is down; its client keeps the readings until
-    // it can deliver them. "Quiet" has gone silent after its last reading.
+    // The premise, which a machine too slow for LEAD_MS breaks: the app went down while both rules held.
+    expect(Date.now(), 'killed 5 s or more before the holds end').toBeLessThan(holdEnd - 5000)
+    // "Resent" keeps measuring while the app is down (5 s before the hold ends, and as it ends); its
+    // client keeps the readings until it can deliver them. "Quiet" has gone silent after its last reading.
     const later: Array<Promise<unknown>> = []
-    for (const at of [resentStart + 9.5 * MIN, resentStart + 10 * MIN]) {
+    for (const at of [holdEnd - 5000, holdEnd]) {
       await sleep(Math.max(0, at - Date.now()))
       later.push(publish(a, resent, at, 28.8))
     }
     // Down until 5 s after both holds ended.
-    await sleep(Math.max(0, holdStart + 10 * MIN + 5000 - Date.now()))
+    await sleep(Math.max(0, holdEnd + 5000 - Date.now()))
     await app.start()
     await Promise.all(later)
 
