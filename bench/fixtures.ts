@@ -19,9 +19,8 @@ export async function benchShop(ctx: AppContext, tanks: number) {
     { bind: [org.id, tankRows.map((t) => t.id)], type: QueryTypes.SELECT },
   )
   const tokens = devices.map((d) => ({ deviceId: d.id, tankId: d.tank_id, ...newDeviceToken(d.id) }))
-  await ctx.sequelize.query(
-    `UPDATE devices d SET token_hash = u.hash FROM unnest($1::int[], $2::text[]) AS u(id, hash) WHERE d.id = u.id`,
-    { bind: [tokens.map((t) => t.deviceId), tokens.map((t) => t.hash)] },
-  )
+  await ctx.sequelize.query(`UPDATE devices d SET token_hash = u.hash FROM unnest($1::int[], $2::text[]) AS u(id, hash) WHERE d.id = u.id`, {
+    bind: [tokens.map((t) => t.deviceId), tokens.map((t) => t.hash)],
+  })
   return { organizationId: org.id, siteId: site.id, devices: tokens.map(({ deviceId, tankId, token }) => ({ deviceId, tankId, token })) }
 }

@@ -16,12 +16,25 @@ import { benchShop } from './fixtures'
 const ROWS = Number(process.env.BENCH_IMPORT_ROWS ?? 525_600)
 const dir = await mkdtemp(join(tmpdir(), 'tw-bench-import-'))
 const running = await startServer(
-  testConfig({ databaseUrl: process.env.DATABASE_URL!, dataDir: dir, mqtt: { host: '127.0.0.1', port: 0 }, logLevel: 'silent', mail: { fakeSmtpPort: 0, from: 'bench@tankwarden.invalid' }, imports: { maxMb: 200 } }),
+  testConfig({
+    databaseUrl: process.env.DATABASE_URL!,
+    dataDir: dir,
+    mqtt: { host: '127.0.0.1', port: 0 },
+    logLevel: 'silent',
+    mail: { fakeSmtpPort: 0, from: 'bench@tankwarden.invalid' },
+    imports: { maxMb: 200 },
+  }),
 )
 const { ctx } = running
 const shop = await benchShop(ctx, 1)
 const tankId = shop.devices[0]!.tankId
-const user = await ctx.models.User.create({ organizationId: shop.organizationId, email: 'bench-keeper@example.invalid', name: 'Bench keeper', role: 'keeper', passwordHash: await bcrypt.hash('bench-password-1', 4) })
+const user = await ctx.models.User.create({
+  organizationId: shop.organizationId,
+  email: 'bench-keeper@example.invalid',
+  name: 'Bench keeper',
+  role: 'keeper',
+  passwordHash: await bcrypt.hash('bench-password-1', 4),
+})
 await user.reload({ include: [{ association: 'sites' }] })
 const { token } = await authService(ctx).openSession(user)
 const api = `http://127.0.0.1:${running.port}/api/v1`
@@ -53,7 +66,11 @@ async function importOnce(label: string) {
   if (uploaded.status !== 201) throw new Error(`upload answered ${uploaded.status}: ${await uploaded.text()}`)
   const job = (await uploaded.json()) as PublicImportJob
   const uploadedAt = performance.now()
-  const startRes = await fetch(`${api}/imports/${job.id}/start`, { method: 'POST', headers: { ...auth, 'Content-Type': 'application/json' }, body: JSON.stringify({ mapping: job.preview!.suggested }) })
+  const startRes = await fetch(`${api}/imports/${job.id}/start`, {
+    method: 'POST',
+    headers: { ...auth, 'Content-Type': 'application/json' },
+    body: JSON.stringify({ mapping: job.preview!.suggested }),
+  })
   if (startRes.status !== 202) throw new Error(`start answered ${startRes.status}: ${await startRes.text()}`)
   let state: PublicImportJob = job
   while (!['done', 'failed', 'cancelled'].includes(state.status)) {
@@ -64,20 +81,34 @@ async function importOnce(label: string) {
   return { label, state, seconds, uploadSeconds: (uploadedAt - began) / 1000 }
 }
 
-const [{ n: before }] = await ctx.sequelize.query<{ n: number }>('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1', { bind: [tankId], type: 'SELECT' as never })
+const [{ n: before }] = await ctx.sequelize.query<{ n: number }>('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1', {
+  bind: [tankId],
+  type: 'SELECT' as never,
+})
 const first = await importOnce('first import')
-const [{ n: afterFirst }] = await ctx.sequelize.query<{ n: number }>('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1', { bind: [tankId], type: 'SELECT' as never })
+const [{ n: afterFirst }] = await ctx.sequelize.query<{ n: number }>('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1', {
+  bind: [tankId],
+  type: 'SELECT' as never,
+})
 const second = await importOnce('same file again')
-const [{ n: afterSecond }] = await ctx.sequelize.query<{ n: number }>('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1', { bind: [tankId], type: 'SELECT' as never })
+const [{ n: afterSecond }] = await ctx.sequelize.query<{ n: number }>('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1', {
+  bind: [tankId],
+  type: 'SELECT' as never,
+})
 clearInterval(rssTimer)
 
 const mb = (b: number) => (b / 1024 / 1024).toFixed(0)
 console.log(`\nCSV import benchmark: ${ROWS.toLocaleString('en')} rows (${mb(size)} MB, 2 metrics a row) for one tank`)
 console.log('| run | status | rows read | accepted | duplicates | rejected | upload s | total s | rows/s | readings added |')
 console.log('|---|---|---:|---:|---:|---:|---:|---:|---:|---:|')
-for (const [run, added] of [[first, afterFirst - before], [second, afterSecond - afterFirst]] as const) {
+for (const [run, added] of [
+  [first, afterFirst - before],
+  [second, afterSecond - afterFirst],
+] as const) {
   const s = run.state
-  console.log(`| ${run.label} | ${s.status}${s.error ? ` (${s.error})` : ''} | ${s.rowsRead} | ${s.rowsAccepted} | ${s.rowsDuplicate} | ${s.rowsRejected} | ${run.uploadSeconds.toFixed(1)} | ${run.seconds.toFixed(1)} | ${Math.round(s.rowsRead / run.seconds)} | ${added} |`)
+  console.log(
+    `| ${run.label} | ${s.status}${s.error ? ` (${s.error})` : ''} | ${s.rowsRead} | ${s.rowsAccepted} | ${s.rowsDuplicate} | ${s.rowsRejected} | ${run.uploadSeconds.toFixed(1)} | ${run.seconds.toFixed(1)} | ${Math.round(s.rowsRead / run.seconds)} | ${added} |`,
+  )
 }
 console.log(`server process peak RSS: ${mb(peakRss)} MB (server and bench client share this process)`)
 console.log(`second import added ${afterSecond - afterFirst} readings (must be 0)`)

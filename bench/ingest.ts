@@ -19,14 +19,22 @@ const RATE = Number(process.env.BENCH_RATE ?? 20_000)
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 30)
 
 const running = await startServer(
-  testConfig({ databaseUrl: process.env.DATABASE_URL!, mqtt: { host: '127.0.0.1', port: 0 }, logLevel: 'silent',
+  testConfig({
+    databaseUrl: process.env.DATABASE_URL!,
+    mqtt: { host: '127.0.0.1', port: 0 },
+    logLevel: 'silent',
     // CLUSTER_FANOUT=false measures one instance alone, as a single box runs it (README, Configuration).
-    clusterFanout: process.env.CLUSTER_FANOUT !== 'false', mail: { fakeSmtpPort: 0, from: 'bench@tankwarden.invalid' } }),
+    clusterFanout: process.env.CLUSTER_FANOUT !== 'false',
+    mail: { fakeSmtpPort: 0, from: 'bench@tankwarden.invalid' },
+  }),
 )
 const { ctx } = running
 const mem = (label: string) => {
   const m = process.memoryUsage()
-  if (process.env.BENCH_MEMORY) console.log(`memory ${label}: rss ${Math.round(m.rss / 2 ** 20)} MB, heap used ${Math.round(m.heapUsed / 2 ** 20)} of ${Math.round(m.heapTotal / 2 ** 20)} MB, external ${Math.round(m.external / 2 ** 20)} MB, array buffers ${Math.round(m.arrayBuffers / 2 ** 20)} MB`)
+  if (process.env.BENCH_MEMORY)
+    console.log(
+      `memory ${label}: rss ${Math.round(m.rss / 2 ** 20)} MB, heap used ${Math.round(m.heapUsed / 2 ** 20)} of ${Math.round(m.heapTotal / 2 ** 20)} MB, external ${Math.round(m.external / 2 ** 20)} MB, array buffers ${Math.round(m.arrayBuffers / 2 ** 20)} MB`,
+    )
 }
 mem('after start')
 const shop = await benchShop(ctx, TANKS)
@@ -57,12 +65,23 @@ async function phase(name: string, offered: number, timeBaseMs: number) {
   const done = await load(offered, SECONDS, timeBaseMs)
   await ctx.readings.writer.drain()
   const inDb = await ctx.sequelize.query<{ n: number }>(`SELECT count(*)::int AS n FROM readings WHERE time >= $1 AND time < $2`, {
-    bind: [new Date(timeBaseMs), new Date(timeBaseMs + SECONDS * 1000 + 1000)], type: QueryTypes.SELECT,
+    bind: [new Date(timeBaseMs), new Date(timeBaseMs + SECONDS * 1000 + 1000)],
+    type: QueryTypes.SELECT,
   })
   // From the first publish to the last acknowledgement (each sent only once its rows are committed): the
   // load process's start-up and its 1,000 connections are not ingest time.
   const rate = (stored - before) / (done.elapsedMs / 1000)
-  return { name, offered, sent: done.sent, acked: done.acked, stored: stored - before, inDb: inDb[0].n, errors: done.errors, rate, rssMb: Math.max(...phaseRss) / 2 ** 20 }
+  return {
+    name,
+    offered,
+    sent: done.sent,
+    acked: done.acked,
+    stored: stored - before,
+    inDb: inDb[0].n,
+    errors: done.errors,
+    rate,
+    rssMb: Math.max(...phaseRss) / 2 ** 20,
+  }
 }
 
 // The sustained rate, then a burst at twice it; nothing lost in either.
@@ -76,20 +95,32 @@ const burst = await phase('burst ×2', RATE * 2, base + 3600_000)
 await ctx.sequelize.query('CREATE TABLE readings_copy (LIKE readings INCLUDING ALL)')
 await ctx.sequelize.query('ALTER TABLE readings_copy ADD FOREIGN KEY (tank_id) REFERENCES tanks(id) ON DELETE CASCADE')
 const copyRows = sustained.inDb
-const pool = (ctx.sequelize.connectionManager as unknown as { getConnection: () => Promise<import('pg').PoolClient>; releaseConnection: (c: unknown) => Promise<void> })
+const pool = ctx.sequelize.connectionManager as unknown as {
+  getConnection: () => Promise<import('pg').PoolClient>
+  releaseConnection: (c: unknown) => Promise<void>
+}
 const conn = await pool.getConnection()
 const copyStart = Date.now()
 await pipeline(
-  Readable.from((function* () {
-    for (let i = 0; i < copyRows; i++) yield `d:${shop.devices[i % TANKS].deviceId}\ttemperature\t${new Date(base + i).toISOString()}\t${shop.devices[i % TANKS].tankId}\t25.5\tdevice\n`
-  })()),
+  Readable.from(
+    (function* () {
+      for (let i = 0; i < copyRows; i++)
+        yield `d:${shop.devices[i % TANKS].deviceId}\ttemperature\t${new Date(base + i).toISOString()}\t${shop.devices[i % TANKS].tankId}\t25.5\tdevice\n`
+    })(),
+  ),
   conn.query(pgCopy.from('COPY readings_copy (source_key, metric, time, tank_id, value, source) FROM STDIN')),
 )
 const copyRate = copyRows / ((Date.now() - copyStart) / 1000)
 await pool.releaseConnection(conn)
 
 // Publish → WebSocket receipt at 1,000 readings/s: a keeper's browser watching the whole site.
-const owner = await ctx.models.User.create({ organizationId: shop.organizationId, email: 'bench@bench.example', name: 'Bench', role: 'owner', passwordHash: 'x' })
+const owner = await ctx.models.User.create({
+  organizationId: shop.organizationId,
+  email: 'bench@bench.example',
+  name: 'Bench',
+  role: 'owner',
+  passwordHash: 'x',
+})
 const session = await authService(ctx).openSession(owner)
 const ws = new WebSocket(`ws://127.0.0.1:${running.port}/ws`)
 await new Promise((r) => ws.once('open', r))
@@ -128,15 +159,25 @@ for (let i = 0; i < 21; i++) {
 clearInterval(rssTimer)
 const pct = (xs: number[], p: number) => [...xs].sort((a, b) => a - b)[Math.min(xs.length - 1, Math.floor((p / 100) * xs.length))] ?? NaN
 const f = (n: number) => Math.round(n).toLocaleString('en-GB')
-console.log(`\nMachine: ${cpus().length} × ${cpus()[0]?.model ?? 'cpu'}, ${Math.round(totalmem() / 2 ** 30)} GiB, Node ${process.version}; ${TANKS} tanks, ${TANKS} MQTT connections, QoS 1\n`)
+console.log(
+  `\nMachine: ${cpus().length} × ${cpus()[0]?.model ?? 'cpu'}, ${Math.round(totalmem() / 2 ** 30)} GiB, Node ${process.version}; ${TANKS} tanks, ${TANKS} MQTT connections, QoS 1\n`,
+)
 console.log('| figure | value | target |')
 console.log('|---|---|---|')
 for (const p of [sustained, burst]) {
-  console.log(`| ${p.name}: offered ${f(p.offered)}/s for ${SECONDS} s | ${f(p.rate)} readings/s stored (sent ${f(p.sent)}, acked ${f(p.acked)}, in table ${f(p.inDb)}, errors ${p.errors}) | ≥ 20,000/s, nothing lost |`)
+  console.log(
+    `| ${p.name}: offered ${f(p.offered)}/s for ${SECONDS} s | ${f(p.rate)} readings/s stored (sent ${f(p.sent)}, acked ${f(p.acked)}, in table ${f(p.inDb)}, errors ${p.errors}) | ≥ 20,000/s, nothing lost |`,
+  )
 }
-console.log(`| raw COPY of the same ${f(copyRows)} rows | ${f(copyRate)} rows/s; ingest is ${Math.round((sustained.rate / copyRate) * 100)} % of it at the offered rate, ${Math.round((burst.rate / copyRate) * 100)} % at twice it (what the app can take) | ≥ 50 % |`)
-console.log(`| publish → WebSocket at 1,000 readings/s | p50 ${f(pct(latencies, 50))} ms, p99 ${f(pct(latencies, 99))} ms (${f(latencies.length)} readings) | p99 < 100 ms |`)
+console.log(
+  `| raw COPY of the same ${f(copyRows)} rows | ${f(copyRate)} rows/s; ingest is ${Math.round((sustained.rate / copyRate) * 100)} % of it at the offered rate, ${Math.round((burst.rate / copyRate) * 100)} % at twice it (what the app can take) | ≥ 50 % |`,
+)
+console.log(
+  `| publish → WebSocket at 1,000 readings/s | p50 ${f(pct(latencies, 50))} ms, p99 ${f(pct(latencies, 99))} ms (${f(latencies.length)} readings) | p99 < 100 ms |`,
+)
 console.log(`| 30-day 1-minute series as ≤ 1,000 buckets | median ${pct(seriesTimes, 50).toFixed(1)} ms | < 50 ms |`)
-console.log(`| app memory (RSS) while ingesting | sustained max ${f(sustained.rssMb)} MB, burst max ${f(burst.rssMb)} MB, whole run max ${f(Math.max(...rss) / 2 ** 20)} MB | < 300 MB |`)
+console.log(
+  `| app memory (RSS) while ingesting | sustained max ${f(sustained.rssMb)} MB, burst max ${f(burst.rssMb)} MB, whole run max ${f(Math.max(...rss) / 2 ** 20)} MB | < 300 MB |`,
+)
 await running.stop()
 process.exit(0)

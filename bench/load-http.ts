@@ -14,7 +14,11 @@ process.on('message', async (job: Job) => {
       const device = job.devices[turn++ % job.devices.length]
       const from = next.get(device.deviceId) ?? 0
       next.set(device.deviceId, from + job.batch)
-      const readings = Array.from({ length: job.batch }, (_, k) => ({ metric: 'temperature', value: 25 + (k % 20) / 10, time: new Date(job.timeBaseMs + from + k).toISOString() }))
+      const readings = Array.from({ length: job.batch }, (_, k) => ({
+        metric: 'temperature',
+        value: 25 + (k % 20) / 10,
+        time: new Date(job.timeBaseMs + from + k).toISOString(),
+      }))
       sent += readings.length
       try {
         const res = await fetch(`${job.baseUrl}/api/v1/readings`, {

@@ -5,7 +5,9 @@ import { readingsTopic } from '@shared/ingest/contract'
 type Job = { url: string; devices: Array<{ deviceId: number; token: string }>; ratePerSecond: number; seconds: number }
 
 process.on('message', async (job: Job) => {
-  const clients = await Promise.all(job.devices.map((d) => mqtt.connectAsync(job.url, { username: String(d.deviceId), password: d.token, clientId: `lat-${d.deviceId}` })))
+  const clients = await Promise.all(
+    job.devices.map((d) => mqtt.connectAsync(job.url, { username: String(d.deviceId), password: d.token, clientId: `lat-${d.deviceId}` })),
+  )
   const intervalMs = (1000 * clients.length) / job.ratePerSecond
   const end = Date.now() + job.seconds * 1000
   let i = 0

@@ -14,7 +14,14 @@ process.on('message', async (job: Job) => {
     const chunk = job.devices.slice(i, i + 50)
     clients.push(
       ...(await Promise.all(
-        chunk.map((d) => mqtt.connectAsync(job.url, { username: String(d.deviceId), password: d.token, reconnectPeriod: 1000, clientId: `bench-${d.deviceId}-${process.pid}` })),
+        chunk.map((d) =>
+          mqtt.connectAsync(job.url, {
+            username: String(d.deviceId),
+            password: d.token,
+            reconnectPeriod: 1000,
+            clientId: `bench-${d.deviceId}-${process.pid}`,
+          }),
+        ),
       )),
     )
   }

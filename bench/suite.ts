@@ -13,7 +13,19 @@ import { authService } from '../server/people/auth'
 import { wallService } from '../server/sites/wall'
 import { benchShop } from './fixtures'
 import { startAppProcess, sampleRss } from './suite/processes'
-import { engineCost, ingestHttp, ingestMqtt, latencyInBrowser, rawCopy, SERIES_RANGES, seriesTimes, tenRulesPerTank, wallBytes, wallHistory, wallRender } from './suite/measures'
+import {
+  engineCost,
+  ingestHttp,
+  ingestMqtt,
+  latencyInBrowser,
+  rawCopy,
+  SERIES_RANGES,
+  seriesTimes,
+  tenRulesPerTank,
+  wallBytes,
+  wallHistory,
+  wallRender,
+} from './suite/measures'
 
 const SIZES = (process.env.BENCH_SIZES ?? '10,100,200,1000').split(',').map(Number)
 const RATE = Number(process.env.BENCH_RATE ?? 20_000)
@@ -32,7 +44,15 @@ if (!process.env.BENCH_SKIP_BUILD || !existsSync('dist/index.html')) {
 const browser = await chromium.launch({
   executablePath: process.env.CHROMIUM_PATH || '/usr/bin/chromium',
   headless: true,
-  args: ['--no-sandbox', '--disable-gpu', '--disable-dev-shm-usage', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
+  args: [
+    '--no-sandbox',
+    '--disable-gpu',
+    '--disable-dev-shm-usage',
+    '--disable-background-networking',
+    '--disable-component-update',
+    '--disable-sync',
+    '--no-first-run',
+  ],
 })
 const SERIES_RUNS = Number(process.env.BENCH_SERIES_RUNS ?? 9)
 
@@ -44,7 +64,13 @@ for (const tanks of SIZES) {
   await migrate(ctx.sequelize)
   const shop = await benchShop(ctx, tanks)
   await tenRulesPerTank(ctx, shop)
-  const owner = await ctx.models.User.create({ organizationId: shop.organizationId, email: 'bench@bench.example', name: 'Bench', role: 'owner', passwordHash: 'x' })
+  const owner = await ctx.models.User.create({
+    organizationId: shop.organizationId,
+    email: 'bench@bench.example',
+    name: 'Bench',
+    role: 'owner',
+    passwordHash: 'x',
+  })
   const { token } = await authService(ctx).openSession(owner)
   const actor = { kind: 'user' as const, userId: owner.id, organizationId: shop.organizationId, role: 'owner' as const, siteIds: null, jti: 'bench' }
   const { link } = await wallService(ctx).createCredential(actor as never, shop.siteId, 'Bench display')
@@ -83,7 +109,9 @@ for (const tanks of SIZES) {
     for (const [label] of SERIES_RANGES) {
       f[`series ${label}`] = series[label].series
       f[`scan ${label}`] = series[label].scan
-      console.log(`  series ${label}: ${series[label].series.toFixed(1)} ms for ${series[label].points} ${series[label].bucketSeconds ? `buckets of ${series[label].bucketSeconds} s` : 'raw rows'}; plain scan of the same raw rows ${series[label].scan.toFixed(1)} ms; ratio ${(series[label].series / series[label].scan).toFixed(2)}; target < 50 ms`)
+      console.log(
+        `  series ${label}: ${series[label].series.toFixed(1)} ms for ${series[label].points} ${series[label].bucketSeconds ? `buckets of ${series[label].bucketSeconds} s` : 'raw rows'}; plain scan of the same raw rows ${series[label].scan.toFixed(1)} ms; ratio ${(series[label].series / series[label].scan).toFixed(2)}; target < 50 ms`,
+      )
     }
   }
   if (runs('engine')) f.engine = await engineCost(ctx, shop, 50_000)
@@ -106,18 +134,26 @@ function growth(key: string) {
   return `${k >= 0 ? '+' : ''}${k.toFixed(2)}${k > 1.1 ? ' (faster than linear)' : ''}`
 }
 const rows: Array<[string, string, (f: Figures) => string, string]> = [
-  ['MQTT ingest, QoS 1, one connection per tank (readings/s stored)', 'mqtt', (f) => `${n(f.mqtt)}${f.mqttLost ? ` (${n(f.mqttLost)} acked but not stored!)` : ''}`, `≥ 20,000 (offered ${n(RATE)})`],
+  [
+    'MQTT ingest, QoS 1, one connection per tank (readings/s stored)',
+    'mqtt',
+    (f) => `${n(f.mqtt)}${f.mqttLost ? ` (${n(f.mqttLost)} acked but not stored!)` : ''}`,
+    `≥ 20,000 (offered ${n(RATE)})`,
+  ],
   ['HTTP ingest, 8 × 500-reading requests in flight (readings/s)', 'http', (f) => n(f.http), '—'],
   ['raw COPY of the same rows (rows/s)', 'copy', (f) => n(f.copy), '—'],
   ['MQTT ingest as a share of raw COPY', 'ratio', (f) => `${n((100 * f.mqtt) / f.copy)} %`, '≥ 50 %'],
   ['publish → browser at 1,000 readings/s, p50 (ms)', 'p50', (f) => n(f.p50), '—'],
   ['publish → browser at 1,000 readings/s, p99 (ms)', 'p99', (f) => n(f.p99), '< 100'],
-  ...SERIES_RANGES.map(([label]) => [
-    `series of a year of 1-minute rows, ${label} as ≤ 1,000 points (ms, median of ${SERIES_RUNS}; plain scan of the same raw rows; ratio)`,
-    `series ${label}`,
-    (f: Figures) => `${n(f[`series ${label}`], 1)} (scan ${n(f[`scan ${label}`], 1)}; ${n(f[`series ${label}`] / f[`scan ${label}`], 2)}×)`,
-    '< 50',
-  ] as [string, string, (f: Figures) => string, string]),
+  ...SERIES_RANGES.map(
+    ([label]) =>
+      [
+        `series of a year of 1-minute rows, ${label} as ≤ 1,000 points (ms, median of ${SERIES_RUNS}; plain scan of the same raw rows; ratio)`,
+        `series ${label}`,
+        (f: Figures) => `${n(f[`series ${label}`], 1)} (scan ${n(f[`scan ${label}`], 1)}; ${n(f[`series ${label}`] / f[`scan ${label}`], 2)}×)`,
+        '< 50',
+      ] as [string, string, (f: Figures) => string, string],
+  ),
   [`GET /tanks/:id/latest, the same sign-in and tank lookup as a series (ms, median of ${SERIES_RUNS})`, 'requestFloor', (f) => n(f.requestFloor, 1), '—'],
   ['wall display link → first page of tiles drawn (ms, median of 3)', 'wall', (f) => n(f.wall), '< 1,000 at 200 tanks, < 1,500 at 1,000'],
   ['wall route bytes (compressed): built files a display loads (KB)', 'wallKb', (f) => n(f.wallKb), '< 350'],
@@ -126,9 +162,13 @@ const rows: Array<[string, string, (f: Figures) => string, string]> = [
   ['app memory while ingesting, peak RSS (MB)', 'rss', (f) => n(f.rss), '< 300'],
   ['app memory over the whole run, peak RSS (MB)', 'rssAll', (f) => n(f.rssAll), '—'],
 ]
-console.log(`\nMachine: ${cpus().length} × ${cpus()[0]?.model ?? 'cpu'}, ${Math.round(totalmem() / 2 ** 30)} GiB, Node ${process.version}, PostgreSQL on the same machine; ${SECONDS} s of MQTT load per size\n`)
+console.log(
+  `\nMachine: ${cpus().length} × ${cpus()[0]?.model ?? 'cpu'}, ${Math.round(totalmem() / 2 ** 30)} GiB, Node ${process.version}, PostgreSQL on the same machine; ${SECONDS} s of MQTT load per size\n`,
+)
 console.log(`| figure | ${results.map((f) => `${n(f.tanks)} tanks`).join(' | ')} | target | growth k (∝ tanks^k) |`)
 console.log(`|---|${results.map(() => '---').join('|')}|---|---|`)
 for (const f of results) if ('mqtt' in f) f.ratio = (100 * f.mqtt) / f.copy
-for (const [label, key, show, target] of rows) if (results.some((f) => key in f || (key === 'ratio' && 'mqtt' in f))) console.log(`| ${label} | ${results.map(show).join(' | ')} | ${target} | ${growth(key)} |`)
+for (const [label, key, show, target] of rows)
+  if (results.some((f) => key in f || (key === 'ratio' && 'mqtt' in f)))
+    console.log(`| ${label} | ${results.map(show).join(' | ')} | ${target} | ${growth(key)} |`)
 process.exit(0)

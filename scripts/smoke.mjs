@@ -24,17 +24,18 @@ const seconds = () => `${((Date.now() - started) / 1000).toFixed(0)} s`
 function watchOutput(streams, sink) {
   let text = ''
   const waiters = []
-  for (const stream of streams) stream.setEncoding('utf8').on('data', (chunk) => {
-    text += chunk
-    sink.write(chunk)
-    for (const w of [...waiters]) {
-      const match = text.match(w.pattern)
-      if (match) {
-        waiters.splice(waiters.indexOf(w), 1)
-        w.resolve(match)
+  for (const stream of streams)
+    stream.setEncoding('utf8').on('data', (chunk) => {
+      text += chunk
+      sink.write(chunk)
+      for (const w of [...waiters]) {
+        const match = text.match(w.pattern)
+        if (match) {
+          waiters.splice(waiters.indexOf(w), 1)
+          w.resolve(match)
+        }
       }
-    }
-  })
+    })
   return {
     text: () => text,
     waitFor(pattern, ms, what) {
@@ -78,7 +79,16 @@ async function checkInBrowser(url, owner, password, shotsDir) {
   const browser = await chromium.launch({
     executablePath: chromiumPath,
     headless: true,
-    args: ['--no-sandbox', '--disable-gpu', '--disable-dev-shm-usage', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-quic'],
+    args: [
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-dev-shm-usage',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+      '--no-first-run',
+      '--disable-quic',
+    ],
   })
   const page = await browser.newPage({ viewport: { width: 1280, height: 800 } })
   try {
@@ -161,7 +171,12 @@ const stopped = await Promise.race([exited, new Promise((resolve) => setTimeout(
 const pgData = out.text().match(/PostgreSQL is up on \S+ \(data in (\S+)\)/)?.[1]
 const leftovers = processesMentioning([dataDir, pgData, join(root, '.build', 'server.mjs'), join(root, 'simulator', 'index.ts')].filter(Boolean))
 const busyPorts = []
-for (const [name, p] of [['HTTP', port], ['MQTT', mqttPort], ['fake SMTP', smtpPort], ['PostgreSQL', pgPort]]) {
+for (const [name, p] of [
+  ['HTTP', port],
+  ['MQTT', mqttPort],
+  ['fake SMTP', smtpPort],
+  ['PostgreSQL', pgPort],
+]) {
   if (p && !(await portIsFree(p))) busyPorts.push(`${name} ${p}`)
 }
 const problems = failure ? [failure] : []

@@ -34,11 +34,15 @@ const simulatorSpeed = process.env.SIMULATOR_SPEED ?? '20'
 /** The demo shop's sensor nodes: a separate program speaking MQTT to the app's broker. */
 function startSimulator(url, mqttPort) {
   mkdirSync(dataDir, { recursive: true })
-  const sim = fork(join(root, 'simulator', 'index.ts'), ['--url', url, '--mqtt-url', `mqtt://127.0.0.1:${mqttPort}`, '--demo-scenarios', '--speed', simulatorSpeed], {
-    execArgv: ['--import', 'tsx'],
-    // Its tick-by-tick log would drown the app's: it goes to a file in the data folder.
-    stdio: ['ignore', openSync(join(dataDir, 'simulator.log'), 'a'), 'inherit', 'ipc'],
-  })
+  const sim = fork(
+    join(root, 'simulator', 'index.ts'),
+    ['--url', url, '--mqtt-url', `mqtt://127.0.0.1:${mqttPort}`, '--demo-scenarios', '--speed', simulatorSpeed],
+    {
+      execArgv: ['--import', 'tsx'],
+      // Its tick-by-tick log would drown the app's: it goes to a file in the data folder.
+      stdio: ['ignore', openSync(join(dataDir, 'simulator.log'), 'a'), 'inherit', 'ipc'],
+    },
+  )
   children.push(sim)
   sim.on('exit', (code) => {
     if (!stopping && code) log(`The simulator stopped (exit ${code}); the app keeps running.`)

@@ -94,12 +94,14 @@ try {
   mkdirSync(resultsDir, { recursive: true })
   const resultsFile = join(resultsDir, 'test-results.json')
   rmSync(resultsFile, { force: true })
-  log(vitestArgs.length ? '— vitest' : '— vitest: unit, api, components, e2e, stress, stress-alone; beside it the client build, the type checks and the house rules')
-  const code = await runAsync(
-    bin('vitest'),
-    ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${resultsFile}`, ...vitestArgs],
-    { env: { ...process.env, ...env } },
+  log(
+    vitestArgs.length
+      ? '— vitest'
+      : '— vitest: unit, api, components, e2e, stress, stress-alone; beside it the client build, the type checks and the house rules',
   )
+  const code = await runAsync(bin('vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${resultsFile}`, ...vitestArgs], {
+    env: { ...process.env, ...env },
+  })
   for (const result of await checks) reportCheck(result)
   if (existsSync(resultsFile)) {
     const results = JSON.parse(readFileSync(resultsFile, 'utf8'))

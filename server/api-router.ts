@@ -46,9 +46,32 @@ export function apiRouter(ctx: AppContext) {
   router.use('/users', requireUser, usersRouter(ctx))
   // The wall answers wall displays too, so it is mounted ahead of the people-only /sites chain.
   router.use('/sites', wallRoute(ctx, authenticate(passport, ['user-jwt', 'wall-token'])))
-  router.use('/sites', requireUser, sitesRouter(ctx), siteRulesRoutes(ctx), rosterRoutes(ctx), siteWallCredentialRoutes(ctx), siteCareRoutes(ctx), exportRoutes(ctx, 'site'), siteImportRoutes(ctx), siteMaintenanceRoutes(ctx))
+  router.use(
+    '/sites',
+    requireUser,
+    sitesRouter(ctx),
+    siteRulesRoutes(ctx),
+    rosterRoutes(ctx),
+    siteWallCredentialRoutes(ctx),
+    siteCareRoutes(ctx),
+    exportRoutes(ctx, 'site'),
+    siteImportRoutes(ctx),
+    siteMaintenanceRoutes(ctx),
+  )
   router.use('/wall-credentials', requireUser, wallCredentialsRouter(ctx))
-  router.use('/tanks', requireUser, tanksRouter(ctx), seriesRoutes(ctx), tankTestKitRoutes(ctx), tankRulesRoutes(ctx), careRoutes(ctx), tankPhotoRoutes(ctx), exportRoutes(ctx, 'tank'), tankImportRoutes(ctx), buildRoutes(ctx))
+  router.use(
+    '/tanks',
+    requireUser,
+    tanksRouter(ctx),
+    seriesRoutes(ctx),
+    tankTestKitRoutes(ctx),
+    tankRulesRoutes(ctx),
+    careRoutes(ctx),
+    tankPhotoRoutes(ctx),
+    exportRoutes(ctx, 'tank'),
+    tankImportRoutes(ctx),
+    buildRoutes(ctx),
+  )
   router.use('/test-kit-entries', requireUser, testKitEntriesRouter(ctx))
   router.use('/rules', requireUser, rulesRouter(ctx))
   router.use('/snoozes', requireUser, snoozesRouter(ctx))

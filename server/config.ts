@@ -4,9 +4,7 @@ import { hostname } from 'node:os'
 import { join, resolve } from 'node:path'
 import { z } from 'zod'
 
-const boolish = z
-  .enum(['1', '0', 'true', 'false', 'yes', 'no'])
-  .transform((v) => v === '1' || v === 'true' || v === 'yes')
+const boolish = z.enum(['1', '0', 'true', 'false', 'yes', 'no']).transform((v) => v === '1' || v === 'true' || v === 'yes')
 
 /**
  * Which proxies may name the client's address in X-Forwarded-For: a hop count, or addresses,
@@ -16,59 +14,80 @@ const boolish = z
 const trustProxySchema = z
   .string()
   .trim()
-  .refine((v) => !['true', 'yes', '*'].includes(v.toLowerCase()), 'name the proxy (an address, subnet or loopback) or a hop count; trusting every sender lets anyone choose their address')
-  .transform((v): TrustProxy => (['false', 'no', '0', ''].includes(v.toLowerCase()) ? false : /^\d+$/.test(v) ? Number(v) : v.split(',').map((part) => part.trim()).filter(Boolean)))
+  .refine(
+    (v) => !['true', 'yes', '*'].includes(v.toLowerCase()),
+    'name the proxy (an address, subnet or loopback) or a hop count; trusting every sender lets anyone choose their address',
+  )
+  .transform((v): TrustProxy =>
+    ['false', 'no', '0', ''].includes(v.toLowerCase())
+      ? false
+      : /^\d+$/.test(v)
+        ? Number(v)
+        : v
+            .split(',')
+            .map((part) => part.trim())
+            .filter(Boolean),
+  )
 
 /** Express's `trust proxy`: false (ignore X-Forwarded-For), a hop count, or trusted addresses and subnets. */
 export type TrustProxy = false | number | string[]
 
-const envSchema = z.object({
-  NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
-  HOST: z.string().default('127.0.0.1'),
-  PORT: z.coerce.number().int().min(0).max(65535).default(8080),
-  DATABASE_URL: z.string().url('DATABASE_URL must be a postgres:// URL'),
-  DATA_DIR: z.string().default('.data'),
-  JWT_SECRET: z.string().min(32, 'JWT_SECRET must be at least 32 characters').optional(),
-  ACCESS_TOKEN_HOURS: z.coerce.number().positive().max(24 * 30).default(12),
-  PUBLIC_URL: z.string().url().optional(),
-  SEED_DEMO: boolish.default(false),
-  LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
-  LOG_FORMAT: z.enum(['json', 'pretty']).optional(),
-  TRUST_PROXY: trustProxySchema.optional(),
-  SIGN_IN_LIMIT: z.coerce.number().int().positive().default(10),
-  SIGN_IN_WINDOW_MINUTES: z.coerce.number().positive().default(15),
-  SERVE_CLIENT: boolish.default(true),
-  MQTT_URL: z.string().url().optional(),
-  CLUSTER_FANOUT: boolish.default(true),
-  INSTANCE_ID: z.string().regex(/^[A-Za-z0-9_.-]{1,40}$/, 'INSTANCE_ID: letters, digits, _ . - (at most 40)').optional(),
-  MQTT_HOST: z.string().default('127.0.0.1'),
-  MQTT_PORT: z.coerce.number().int().min(0).max(65535).default(1883),
-  MQTT_WS_PORT: z.coerce.number().int().min(0).max(65535).optional(),
-  MAX_FUTURE_SECONDS: z.coerce.number().int().min(0).max(86400).default(300),
-  MAX_READING_AGE_DAYS: z.coerce.number().int().min(1).max(3650).default(400),
-  RAW_RETENTION_DAYS: z.coerce.number().int().min(1).max(3650).default(90),
-  RULES_TICK_SECONDS: z.coerce.number().positive().max(300).default(10),
-  REPORT_SCHEDULE_SECONDS: z.coerce.number().positive().max(3600).default(60),
-  ESCALATE_ALARM_MINUTES: z.coerce.number().positive().max(1440).default(15),
-  ESCALATE_WARNING_MINUTES: z.coerce.number().positive().max(1440).default(60),
-  REPEAT_MINUTES: z.coerce.number().positive().max(1440).default(30),
-  // A tank's first alert mail waits this long for other tanks of its site to trip on the same cause.
-  SITE_GROUP_WAIT_SECONDS: z.coerce.number().int().min(0).max(600).default(60),
-  BCRYPT_ROUNDS: z.coerce.number().int().min(4).max(15).default(11),
-  SMTP_URL: z.string().url('SMTP_URL must be an smtp:// or smtps:// URL').optional(),
-  FAKE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
-  MAIL_FROM: z.string().min(3).default('Tankwarden <alerts@tankwarden.invalid>'),
-  PHOTO_MAX_MB: z.coerce.number().positive().max(200).default(15),
-  PHOTO_STORE: z.enum(['local', 's3']).default('local'),
-  S3_ENDPOINT: z.string().url('S3_ENDPOINT must be an http(s):// URL').optional(),
-  S3_BUCKET: z.string().min(3).max(63).optional(),
-  S3_REGION: z.string().min(1).default('us-east-1'),
-  S3_ACCESS_KEY_ID: z.string().min(1).optional(),
-  S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
-  S3_FORCE_PATH_STYLE: boolish.default(false),
-  CARE_DIGEST_HOUR: z.coerce.number().int().min(0).max(23).default(7),
-  IMPORT_MAX_MB: z.coerce.number().positive().max(10_000).default(100),
-}).refine((e) => e.PHOTO_STORE !== 's3' || e.S3_BUCKET, { message: 'S3_BUCKET is required when PHOTO_STORE=s3', path: ['S3_BUCKET'] })
+const envSchema = z
+  .object({
+    NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+    HOST: z.string().default('127.0.0.1'),
+    PORT: z.coerce.number().int().min(0).max(65535).default(8080),
+    DATABASE_URL: z.string().url('DATABASE_URL must be a postgres:// URL'),
+    DATA_DIR: z.string().default('.data'),
+    JWT_SECRET: z.string().min(32, 'JWT_SECRET must be at least 32 characters').optional(),
+    ACCESS_TOKEN_HOURS: z.coerce
+      .number()
+      .positive()
+      .max(24 * 30)
+      .default(12),
+    PUBLIC_URL: z.string().url().optional(),
+    SEED_DEMO: boolish.default(false),
+    LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+    LOG_FORMAT: z.enum(['json', 'pretty']).optional(),
+    TRUST_PROXY: trustProxySchema.optional(),
+    SIGN_IN_LIMIT: z.coerce.number().int().positive().default(10),
+    SIGN_IN_WINDOW_MINUTES: z.coerce.number().positive().default(15),
+    SERVE_CLIENT: boolish.default(true),
+    MQTT_URL: z.string().url().optional(),
+    CLUSTER_FANOUT: boolish.default(true),
+    INSTANCE_ID: z
+      .string()
+      .regex(/^[A-Za-z0-9_.-]{1,40}$/, 'INSTANCE_ID: letters, digits, _ . - (at most 40)')
+      .optional(),
+    MQTT_HOST: z.string().default('127.0.0.1'),
+    MQTT_PORT: z.coerce.number().int().min(0).max(65535).default(1883),
+    MQTT_WS_PORT: z.coerce.number().int().min(0).max(65535).optional(),
+    MAX_FUTURE_SECONDS: z.coerce.number().int().min(0).max(86400).default(300),
+    MAX_READING_AGE_DAYS: z.coerce.number().int().min(1).max(3650).default(400),
+    RAW_RETENTION_DAYS: z.coerce.number().int().min(1).max(3650).default(90),
+    RULES_TICK_SECONDS: z.coerce.number().positive().max(300).default(10),
+    REPORT_SCHEDULE_SECONDS: z.coerce.number().positive().max(3600).default(60),
+    ESCALATE_ALARM_MINUTES: z.coerce.number().positive().max(1440).default(15),
+    ESCALATE_WARNING_MINUTES: z.coerce.number().positive().max(1440).default(60),
+    REPEAT_MINUTES: z.coerce.number().positive().max(1440).default(30),
+    // A tank's first alert mail waits this long for other tanks of its site to trip on the same cause.
+    SITE_GROUP_WAIT_SECONDS: z.coerce.number().int().min(0).max(600).default(60),
+    BCRYPT_ROUNDS: z.coerce.number().int().min(4).max(15).default(11),
+    SMTP_URL: z.string().url('SMTP_URL must be an smtp:// or smtps:// URL').optional(),
+    FAKE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
+    MAIL_FROM: z.string().min(3).default('Tankwarden <alerts@tankwarden.invalid>'),
+    PHOTO_MAX_MB: z.coerce.number().positive().max(200).default(15),
+    PHOTO_STORE: z.enum(['local', 's3']).default('local'),
+    S3_ENDPOINT: z.string().url('S3_ENDPOINT must be an http(s):// URL').optional(),
+    S3_BUCKET: z.string().min(3).max(63).optional(),
+    S3_REGION: z.string().min(1).default('us-east-1'),
+    S3_ACCESS_KEY_ID: z.string().min(1).optional(),
+    S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
+    S3_FORCE_PATH_STYLE: boolish.default(false),
+    CARE_DIGEST_HOUR: z.coerce.number().int().min(0).max(23).default(7),
+    IMPORT_MAX_MB: z.coerce.number().positive().max(10_000).default(100),
+  })
+  .refine((e) => e.PHOTO_STORE !== 's3' || e.S3_BUCKET, { message: 'S3_BUCKET is required when PHOTO_STORE=s3', path: ['S3_BUCKET'] })
 
 export type Config = Readonly<{
   env: 'development' | 'production' | 'test'
@@ -107,8 +126,7 @@ export type Config = Readonly<{
 }>
 
 export type PhotoStoreSettings =
-  | { kind: 'local' }
-  | { kind: 's3'; endpoint?: string; bucket: string; region: string; accessKeyId?: string; secretAccessKey?: string; forcePathStyle: boolean }
+  { kind: 'local' } | { kind: 's3'; endpoint?: string; bucket: string; region: string; accessKeyId?: string; secretAccessKey?: string; forcePathStyle: boolean }
 
 /** The JWT secret is generated once and kept in the data folder when not configured. */
 function persistentSecret(dataDir: string): string {
@@ -147,18 +165,36 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     bcryptRounds: e.BCRYPT_ROUNDS,
     mqtt: { url: e.MQTT_URL, host: e.MQTT_HOST, port: e.MQTT_PORT, wsPort: e.MQTT_WS_PORT },
     clusterFanout: e.CLUSTER_FANOUT,
-    instanceId: e.INSTANCE_ID ?? `${hostname().replace(/[^A-Za-z0-9_.-]/g, '-').slice(0, 30)}-${e.PORT}`,
+    instanceId:
+      e.INSTANCE_ID ??
+      `${hostname()
+        .replace(/[^A-Za-z0-9_.-]/g, '-')
+        .slice(0, 30)}-${e.PORT}`,
     readingLimits: { maxFutureSeconds: e.MAX_FUTURE_SECONDS, maxAgeDays: e.MAX_READING_AGE_DAYS },
     rawRetentionDays: e.RAW_RETENTION_DAYS,
     rulesTickMs: e.RULES_TICK_SECONDS * 1000,
     reportScheduleTickMs: e.REPORT_SCHEDULE_SECONDS * 1000,
-    incidentTiming: { escalateAlarmAfterMinutes: e.ESCALATE_ALARM_MINUTES, escalateWarningAfterMinutes: e.ESCALATE_WARNING_MINUTES, repeatEveryMinutes: e.REPEAT_MINUTES, siteGroupWaitSeconds: e.SITE_GROUP_WAIT_SECONDS },
+    incidentTiming: {
+      escalateAlarmAfterMinutes: e.ESCALATE_ALARM_MINUTES,
+      escalateWarningAfterMinutes: e.ESCALATE_WARNING_MINUTES,
+      repeatEveryMinutes: e.REPEAT_MINUTES,
+      siteGroupWaitSeconds: e.SITE_GROUP_WAIT_SECONDS,
+    },
     mail: { smtpUrl: e.SMTP_URL, fakeSmtpPort: e.FAKE_SMTP_PORT, from: e.MAIL_FROM },
     photos: {
       maxBytes: Math.round(e.PHOTO_MAX_MB * 1024 * 1024),
-      store: e.PHOTO_STORE === 's3'
-        ? { kind: 's3' as const, endpoint: e.S3_ENDPOINT, bucket: e.S3_BUCKET as string, region: e.S3_REGION, accessKeyId: e.S3_ACCESS_KEY_ID, secretAccessKey: e.S3_SECRET_ACCESS_KEY, forcePathStyle: e.S3_FORCE_PATH_STYLE }
-        : { kind: 'local' as const },
+      store:
+        e.PHOTO_STORE === 's3'
+          ? {
+              kind: 's3' as const,
+              endpoint: e.S3_ENDPOINT,
+              bucket: e.S3_BUCKET as string,
+              region: e.S3_REGION,
+              accessKeyId: e.S3_ACCESS_KEY_ID,
+              secretAccessKey: e.S3_SECRET_ACCESS_KEY,
+              forcePathStyle: e.S3_FORCE_PATH_STYLE,
+            }
+          : { kind: 'local' as const },
     },
     careDigestHour: e.CARE_DIGEST_HOUR,
     imports: { maxMb: e.IMPORT_MAX_MB },

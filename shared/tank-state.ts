@@ -32,7 +32,8 @@ export function tankState(input: TankStateInput): { state: TankState; reasons: s
     const margin = (band.max - band.min) * NEAR_LIMIT_FRACTION
     if (current < band.min || current > band.max) reasons.push(`${metric} ${current} outside ${band.min}–${band.max}`)
     // A lower edge of zero (ammonia, nitrite) is where a tank should be, not a warning.
-    else if (margin > 0 && ((band.min > 0 && current < band.min + margin) || current > band.max - margin)) reasons.push(`${metric} ${current} near the edge of ${band.min}–${band.max}`)
+    else if (margin > 0 && ((band.min > 0 && current < band.min + margin) || current > band.max - margin))
+      reasons.push(`${metric} ${current} near the edge of ${band.min}–${band.max}`)
   }
   return reasons.length ? { state: 'watch', reasons } : { state: 'steady', reasons: [] }
 }

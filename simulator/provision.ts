@@ -38,10 +38,7 @@ export interface ProvisionOptions {
 }
 
 export async function signIn(api: ApiClient, email: string, password: string, log?: (line: string) => void) {
-  const session = await withRetry('signing in', () =>
-    api.request<{ token: string }>('POST', '/api/v1/auth/sign-in', { body: { email, password } }),
-    { log },
-  )
+  const session = await withRetry('signing in', () => api.request<{ token: string }>('POST', '/api/v1/auth/sign-in', { body: { email, password } }), { log })
   return session.token
 }
 
@@ -89,10 +86,9 @@ export async function provisionDevices(api: ApiClient, options: ProvisionOptions
   for (const tank of tanks) {
     // A tank mid-build is followed by its keeper's tests; its sensors go on once it is established.
     if (await midBuild(api, token, tank.id)) continue
-    const { device, token: deviceToken } = await withRetry(`device for '${tank.name}'`, () =>
-      deviceFor(api, token, tank, options.intervalSeconds),
-      { log: options.log },
-    )
+    const { device, token: deviceToken } = await withRetry(`device for '${tank.name}'`, () => deviceFor(api, token, tank, options.intervalSeconds), {
+      log: options.log,
+    })
     provisioned.push({ tankId: tank.id, deviceId: device.id, token: deviceToken, spec: specOf(tank, siteById) })
   }
   return provisioned

@@ -64,8 +64,7 @@ function tally(summary: TickSummary, node: SimulatedNode, message: OutgoingMessa
 
 async function sendAll(node: SimulatedNode, messages: OutgoingMessage[], summary: TickSummary): Promise<void> {
   for (const message of messages) {
-    const outcome =
-      message.kind === 'raw' ? await node.transport.sendRaw(message.body) : await node.transport.send(message.readings)
+    const outcome = message.kind === 'raw' ? await node.transport.sendRaw(message.body) : await node.transport.send(message.readings)
     tally(summary, node, message, outcome)
   }
 }

@@ -23,7 +23,13 @@ export function percentile(xs: number[], p: number) {
 /** MQTT at QoS 1, one connection per device: rows stored per second, publish to the last ack. */
 export async function ingestMqtt(app: AppProcess, shop: Shop, rate: number, seconds: number, timeBaseMs: number) {
   const before = await app.stored()
-  const done = await runLoad<LoadDone>('load-mqtt.ts', { url: `mqtt://127.0.0.1:${app.mqttPort}`, devices: shop.devices, ratePerSecond: rate, seconds, timeBaseMs })
+  const done = await runLoad<LoadDone>('load-mqtt.ts', {
+    url: `mqtt://127.0.0.1:${app.mqttPort}`,
+    devices: shop.devices,
+    ratePerSecond: rate,
+    seconds,
+    timeBaseMs,
+  })
   const stored = (await app.stored()) - before
   // From the first publish to the last acknowledgement (sent once the rows are committed), not the load process's start-up.
   return { rate: stored / (done.elapsedMs / 1000), stored, sent: done.sent, acked: done.acked ?? 0, errors: done.errors }
@@ -32,7 +38,14 @@ export async function ingestMqtt(app: AppProcess, shop: Shop, rate: number, seco
 /** HTTP, a closed loop of 8 requests of 500 readings in flight: rows stored per second. */
 export async function ingestHttp(app: AppProcess, shop: Shop, seconds: number, timeBaseMs: number) {
   const before = await app.stored()
-  const done = await runLoad<LoadDone>('load-http.ts', { baseUrl: `http://127.0.0.1:${app.port}`, devices: shop.devices, seconds, timeBaseMs, concurrency: 8, batch: 500 })
+  const done = await runLoad<LoadDone>('load-http.ts', {
+    baseUrl: `http://127.0.0.1:${app.port}`,
+    devices: shop.devices,
+    seconds,
+    timeBaseMs,
+    concurrency: 8,
+    batch: 500,
+  })
   const stored = (await app.stored()) - before
   return { rate: stored / (done.elapsedMs / 1000), stored, sent: done.sent, accepted: done.accepted ?? 0, errors: done.errors }
 }
@@ -42,15 +55,21 @@ export async function rawCopy(ctx: AppContext, shop: Shop, rows: number) {
   await ctx.sequelize.query('DROP TABLE IF EXISTS readings_copy')
   await ctx.sequelize.query('CREATE TABLE readings_copy (LIKE readings INCLUDING ALL)')
   await ctx.sequelize.query('ALTER TABLE readings_copy ADD FOREIGN KEY (tank_id) REFERENCES tanks(id) ON DELETE CASCADE')
-  const pool = ctx.sequelize.connectionManager as unknown as { getConnection: () => Promise<import('pg').PoolClient>; releaseConnection: (c: unknown) => Promise<void> }
+  const pool = ctx.sequelize.connectionManager as unknown as {
+    getConnection: () => Promise<import('pg').PoolClient>
+    releaseConnection: (c: unknown) => Promise<void>
+  }
   const conn = await pool.getConnection()
   const base = Date.now() - 86400_000
   const n = shop.devices.length
   const t0 = Date.now()
   await pipeline(
-    Readable.from((function* () {
-      for (let i = 0; i < rows; i++) yield `d:${shop.devices[i % n].deviceId}\ttemperature\t${new Date(base + i).toISOString()}\t${shop.devices[i % n].tankId}\t25.5\tdevice\n`
-    })()),
+    Readable.from(
+      (function* () {
+        for (let i = 0; i < rows; i++)
+          yield `d:${shop.devices[i % n].deviceId}\ttemperature\t${new Date(base + i).toISOString()}\t${shop.devices[i % n].tankId}\t25.5\tdevice\n`
+      })(),
+    ),
     conn.query(pgCopy.from('COPY readings_copy (source_key, metric, time, tank_id, value, source) FROM STDIN')),
   )
   const rate = rows / ((Date.now() - t0) / 1000)
@@ -148,9 +167,12 @@ export async function seriesTimes(ctx: AppContext, app: AppProcess, tankId: numb
       const to = new Date()
       const from = new Date(to.getTime() - ms)
       let t = performance.now()
-      const res = await fetch(`http://127.0.0.1:${app.port}/api/v1/tanks/${tankId}/series?metric=ph&from=${from.toISOString()}&to=${to.toISOString()}&points=1000`, {
-        headers: { authorization: `Bearer ${token}` },
-      })
+      const res = await fetch(
+        `http://127.0.0.1:${app.port}/api/v1/tanks/${tankId}/series?metric=ph&from=${from.toISOString()}&to=${to.toISOString()}&points=1000`,
+        {
+          headers: { authorization: `Bearer ${token}` },
+        },
+      )
       const text = await res.text()
       seriesMs.push(performance.now() - t)
       if (!res.ok) throw new Error(`series ${label}: HTTP ${res.status}`)
@@ -195,7 +217,11 @@ export async function wallRender(browser: Browser, app: AppProcess, link: string
     times.push(performance.now() - t)
     // Where the time went: when the page asked for the wall's data and when the answer was in (ms from navigation).
     const api = await page.evaluate(() => {
-      const entries = (globalThis as unknown as { performance: { getEntriesByType: (k: string) => Array<{ name: string; startTime: number; responseStart: number; responseEnd: number }> } }).performance.getEntriesByType('resource')
+      const entries = (
+        globalThis as unknown as {
+          performance: { getEntriesByType: (k: string) => Array<{ name: string; startTime: number; responseStart: number; responseEnd: number }> }
+        }
+      ).performance.getEntriesByType('resource')
       const wall = entries.find((e) => /\/api\/v1\/sites\/\d+\/wall$/.test(e.name))
       return wall ? [wall.startTime, wall.responseStart, wall.responseEnd].map(Math.round) : null
     })
@@ -241,13 +267,23 @@ export async function wallBytes(browser: Browser, app: AppProcess, link: string)
 
 /** The engine's work per reading with every tank's rules loaded: readings fed as the bus would. */
 export async function engineCost(ctx: AppContext, shop: Shop, readings: number) {
-  const engine = createRuleEngine(ctx, incidentsService(ctx, silentNotifier, { escalateAlarmAfterMinutes: 15, escalateWarningAfterMinutes: 60, repeatEveryMinutes: 30 }))
+  const engine = createRuleEngine(
+    ctx,
+    incidentsService(ctx, silentNotifier, { escalateAlarmAfterMinutes: 15, escalateWarningAfterMinutes: 60, repeatEveryMinutes: 30 }),
+  )
   await engine.start()
   // Later than anything the ingest figures stored, so no reading counts as late.
   const start = Date.now() - 30 * 60_000
   const rows: StoredReading[] = Array.from({ length: readings }, (_, i) => {
     const d = shop.devices[i % shop.devices.length]
-    return { sourceKey: `d:${d.deviceId}`, metric: 'temperature', time: new Date(start + Math.floor(i / shop.devices.length) * 1000), tankId: d.tankId, value: 25 + (i % 10) / 10, source: 'device' }
+    return {
+      sourceKey: `d:${d.deviceId}`,
+      metric: 'temperature',
+      time: new Date(start + Math.floor(i / shop.devices.length) * 1000),
+      tankId: d.tankId,
+      value: 25 + (i % 10) / 10,
+      source: 'device',
+    }
   })
   const t = performance.now()
   for (let i = 0; i < rows.length; i += 5000) ctx.events.emit('readings.stored', rows.slice(i, i + 5000))

@@ -6,8 +6,7 @@ import { log, run } from './run.mjs'
 export function ensureDependencies(root) {
   const lock = join(root, 'package-lock.json')
   const installed = join(root, 'node_modules', '.package-lock.json')
-  const stale =
-    !existsSync(installed) || (existsSync(lock) && statSync(lock).mtimeMs > statSync(installed).mtimeMs + 1000)
+  const stale = !existsSync(installed) || (existsSync(lock) && statSync(lock).mtimeMs > statSync(installed).mtimeMs + 1000)
   if (!stale) return
   log('Installing dependencies (npm ci)…')
   const args = existsSync(lock) ? ['ci', '--no-audit', '--no-fund'] : ['install', '--no-audit', '--no-fund']

@@ -23,7 +23,10 @@ export function mustSee<T extends { organizationId: number }>(row: T | null, act
 
 /** The tank with its site, if the actor may see it; else 404. Every feature checks tank access here. */
 export async function visibleTank(ctx: AppContext, actor: Actor, id: number) {
-  const tank = await ctx.models.Tank.findOne({ where: { id, ...siteScope(actor, 'siteId') }, include: [{ association: 'site', attributes: ['id', 'name', 'timeZone'] }] })
+  const tank = await ctx.models.Tank.findOne({
+    where: { id, ...siteScope(actor, 'siteId') },
+    include: [{ association: 'site', attributes: ['id', 'name', 'timeZone'] }],
+  })
   if (!tank) throw notFound('Tank not found')
   return tank
 }

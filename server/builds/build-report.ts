@@ -23,10 +23,17 @@ export const buildReportService = perContext((ctx: AppContext) => {
       let queued = 0
       await ctx.sequelize.transaction(async (transaction) => {
         for (const to of [...new Set(emails.map((e) => e.toLowerCase()))]) {
-          const id = await enqueueMail(ctx, {
-            kind: 'report', to, ...mail, organizationId: actor.organizationId,
-            dedupeKey: `build-report:${tankId}:${now.getTime()}:${to}`,
-          }, { transaction })
+          const id = await enqueueMail(
+            ctx,
+            {
+              kind: 'report',
+              to,
+              ...mail,
+              organizationId: actor.organizationId,
+              dedupeKey: `build-report:${tankId}:${now.getTime()}:${to}`,
+            },
+            { transaction },
+          )
           if (id !== null) queued++
         }
       })

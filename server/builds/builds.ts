@@ -39,12 +39,21 @@ function shapeOf(tank: Tank): TankShape {
 
 export function figuresFor(tank: Tank, plan: BuildPlan): BuildFigures {
   const shape = shapeOf(tank)
-  return asBadRequest(() => buildFigures({
-    shape, kind: tank.kind, fillHeightCm: plan.fillHeightCm, glassThicknessMm: plan.glassThicknessMm, roomC: plan.roomC,
-    setPointC: plan.heater.setPointC, substrate: plan.substrate, hardscape: plan.hardscape, labelRate: plan.water.labelRate,
-    targets: { temperature: plan.water.temperature ?? undefined, ph: plan.water.ph ?? undefined },
-    groups: plan.stocking.flatMap((s) => s.groups),
-  }))
+  return asBadRequest(() =>
+    buildFigures({
+      shape,
+      kind: tank.kind,
+      fillHeightCm: plan.fillHeightCm,
+      glassThicknessMm: plan.glassThicknessMm,
+      roomC: plan.roomC,
+      setPointC: plan.heater.setPointC,
+      substrate: plan.substrate,
+      hardscape: plan.hardscape,
+      labelRate: plan.water.labelRate,
+      targets: { temperature: plan.water.temperature ?? undefined, ph: plan.water.ph ?? undefined },
+      groups: plan.stocking.flatMap((s) => s.groups),
+    }),
+  )
 }
 
 /** The tank's own fields the rest of the product reads (the water-change planner reads substrate depth and heater). */
@@ -72,8 +81,16 @@ function tankFieldsFrom(tank: Tank, plan: BuildPlan, figures: BuildFigures) {
 
 function presentStep(step: BuildStep): PublicBuildStep {
   return {
-    key: step.key, title: step.title, day: step.day, untilDay: step.untilDay, dueOn: step.dueOn, daily: step.untilDay !== null,
-    doneAt: step.doneAt?.toISOString() ?? null, doneBy: step.doneBy ?? null, careTaskId: step.careTaskId ?? null, notes: step.notes,
+    key: step.key,
+    title: step.title,
+    day: step.day,
+    untilDay: step.untilDay,
+    dueOn: step.dueOn,
+    daily: step.untilDay !== null,
+    doneAt: step.doneAt?.toISOString() ?? null,
+    doneBy: step.doneBy ?? null,
+    careTaskId: step.careTaskId ?? null,
+    notes: step.notes,
   }
 }
 
@@ -128,7 +145,13 @@ export const buildsService = perContext((ctx: AppContext) => {
   }
 
   async function view(tank: Tank, build: TankBuild, now: Date): Promise<PublicBuild> {
-    const steps = await models.BuildStep.findAll({ where: { buildId: build.id }, order: [['day', 'ASC'], ['id', 'ASC']] })
+    const steps = await models.BuildStep.findAll({
+      where: { buildId: build.id },
+      order: [
+        ['day', 'ASC'],
+        ['id', 'ASC'],
+      ],
+    })
     await syncFromCareTasks(steps)
     const filled = build.filledOn ?? null
     return {
@@ -147,7 +170,11 @@ export const buildsService = perContext((ctx: AppContext) => {
   /** Moves the open stocking steps (and their care tasks) to the days what happened allows. */
   async function redate(build: TankBuild, steps: BuildStep[], event: TimelineEvent, transaction: Transaction) {
     const stock = steps.filter((s) => s.key.startsWith('stock_')).sort((a, b) => Number(a.key.slice(6)) - Number(b.key.slice(6)))
-    const days = redateStocking(stock.map((s) => s.day), build.plan.stocking.map((s) => s.settleDays), event)
+    const days = redateStocking(
+      stock.map((s) => s.day),
+      build.plan.stocking.map((s) => s.settleDays),
+      event,
+    )
     const filled = parseLocalDate(build.filledOn as string)
     for (const [i, step] of stock.entries()) {
       const day = days[i] as number
@@ -194,14 +221,21 @@ export const buildsService = perContext((ctx: AppContext) => {
       const today = todayAt(tank, now)
       const ago = buildDay(input.filledOn, today) - 1
       if (ago < 0) throw badRequest('filledOn: cannot be in the future', { filledOn: 'cannot be in the future' })
-      if (ago > MAX_FILLED_DAYS_AGO) throw badRequest(`filledOn: at most ${MAX_FILLED_DAYS_AGO} days ago`, { filledOn: `at most ${MAX_FILLED_DAYS_AGO} days ago` })
+      if (ago > MAX_FILLED_DAYS_AGO)
+        throw badRequest(`filledOn: at most ${MAX_FILLED_DAYS_AGO} days ago`, { filledOn: `at most ${MAX_FILLED_DAYS_AGO} days ago` })
       const plan = build.plan
-      const timeline = asBadRequest(() => buildTimeline({
-        filledOn: input.filledOn, setPointC: plan.heater.setPointC,
-        ph: { start: plan.water.startPh, min: tank.targets.ph?.min ?? 6.5, max: tank.targets.ph?.max ?? 7.5, maxChangePerDay: plan.water.maxPhChangePerDay },
-        plants: plan.plants,
-        stages: plan.stocking.map((s) => ({ label: s.label || s.groups.map((g) => `${g.count} × ${speciesByKey(g.speciesKey)?.commonName ?? g.speciesKey}`).join(', '), settleDays: s.settleDays })),
-      }))
+      const timeline = asBadRequest(() =>
+        buildTimeline({
+          filledOn: input.filledOn,
+          setPointC: plan.heater.setPointC,
+          ph: { start: plan.water.startPh, min: tank.targets.ph?.min ?? 6.5, max: tank.targets.ph?.max ?? 7.5, maxChangePerDay: plan.water.maxPhChangePerDay },
+          plants: plan.plants,
+          stages: plan.stocking.map((s) => ({
+            label: s.label || s.groups.map((g) => `${g.count} × ${speciesByKey(g.speciesKey)?.commonName ?? g.speciesKey}`).join(', '),
+            settleDays: s.settleDays,
+          })),
+        }),
+      )
       await sequelize.transaction(async (transaction) => {
         // Two fills at once: the second waits here, then finds the first one's date.
         const locked = await models.TankBuild.findOne({ where: { id: build.id }, lock: transaction.LOCK.UPDATE, transaction })
@@ -210,17 +244,38 @@ export const buildsService = perContext((ctx: AppContext) => {
         if (!(await models.CareTask.count({ where: { tankId: tank.id }, transaction }))) {
           const startsOn = timeline.steps.find((st) => st.day === timeline.aboutDays)?.dueOn ?? input.filledOn
           const routine = defaultCareTasksFor({ kind: tank.kind, stage: 'established' })
-          await models.CareTask.bulkCreate(routine.map((d) => ({ ...d, organizationId: tank.organizationId, tankId: tank.id, startsOn })), { transaction })
+          await models.CareTask.bulkCreate(
+            routine.map((d) => ({ ...d, organizationId: tank.organizationId, tankId: tank.id, startsOn })),
+            { transaction },
+          )
         }
         for (const step of timeline.steps) {
           const testing = step.key === 'ph' || step.key === 'cycling'
-          const task = await models.CareTask.create({
-            organizationId: tank.organizationId, tankId: tank.id, kind: testing ? 'test_kit_check' : 'other', title: `Build: ${step.title}`.slice(0, 200),
-            recurrence: { kind: 'interval', everyDays: 1 }, startsOn: step.dueOn, createdBy: actor.userId,
-          }, { transaction })
-          await models.BuildStep.create({
-            buildId: build.id, tankId: tank.id, key: step.key, title: step.title, day: step.day, untilDay: step.untilDay, dueOn: step.dueOn, careTaskId: task.id,
-          }, { transaction })
+          const task = await models.CareTask.create(
+            {
+              organizationId: tank.organizationId,
+              tankId: tank.id,
+              kind: testing ? 'test_kit_check' : 'other',
+              title: `Build: ${step.title}`.slice(0, 200),
+              recurrence: { kind: 'interval', everyDays: 1 },
+              startsOn: step.dueOn,
+              createdBy: actor.userId,
+            },
+            { transaction },
+          )
+          await models.BuildStep.create(
+            {
+              buildId: build.id,
+              tankId: tank.id,
+              key: step.key,
+              title: step.title,
+              day: step.day,
+              untilDay: step.untilDay,
+              dueOn: step.dueOn,
+              careTaskId: task.id,
+            },
+            { transaction },
+          )
         }
         await build.update({ filledOn: input.filledOn }, { transaction })
         await setStage(tank, 'cycling', transaction)
@@ -232,7 +287,13 @@ export const buildsService = perContext((ctx: AppContext) => {
     async tick(actor: UserActor, tankId: number, key: string, input: BuildStepDoneInput, now = new Date()) {
       const tank = await visibleTank(ctx, actor, tankId)
       const build = await findBuild(tank)
-      const steps = await models.BuildStep.findAll({ where: { buildId: build.id }, order: [['day', 'ASC'], ['id', 'ASC']] })
+      const steps = await models.BuildStep.findAll({
+        where: { buildId: build.id },
+        order: [
+          ['day', 'ASC'],
+          ['id', 'ASC'],
+        ],
+      })
       const step = steps.find((s) => s.key === key)
       if (!step) throw notFound('No such step in this build')
       if (step.doneAt) throw conflict('step_done', 'This step is already ticked')
@@ -261,20 +322,43 @@ export const buildsService = perContext((ctx: AppContext) => {
         if (step.careTaskId) {
           await models.CareTask.update({ lastDoneAt: at, lastDoneBy: actor.userId, active: false }, { where: { id: step.careTaskId }, transaction })
         }
-        await writeCareLog(ctx, {
-          organizationId: tank.organizationId, tankId: tank.id, kind: 'task_done', at, userId: actor.userId,
-          text: `Build day ${tickDay}: ${step.title}${input.notes ? ` — ${input.notes}` : ''}`,
-          values: { buildStep: key }, careTaskId: step.careTaskId ?? null,
-        }, transaction)
+        await writeCareLog(
+          ctx,
+          {
+            organizationId: tank.organizationId,
+            tankId: tank.id,
+            kind: 'task_done',
+            at,
+            userId: actor.userId,
+            text: `Build day ${tickDay}: ${step.title}${input.notes ? ` — ${input.notes}` : ''}`,
+            values: { buildStep: key },
+            careTaskId: step.careTaskId ?? null,
+          },
+          transaction,
+        )
         if (key === 'cycling') await setStage(tank, 'established', transaction)
-        const event = key === 'cycling' ? { kind: 'cycled' as const, day: tickDay } : key.startsWith('stock_') ? { kind: 'stocked' as const, stage: Number(key.slice(6)), day: tickDay } : null
+        const event =
+          key === 'cycling'
+            ? { kind: 'cycled' as const, day: tickDay }
+            : key.startsWith('stock_')
+              ? { kind: 'stocked' as const, stage: Number(key.slice(6)), day: tickDay }
+              : null
         if (event) await redate(build, steps, event, transaction)
         if (steps.every((s) => s.id === step.id || s.doneAt)) await build.update({ finishedAt: at }, { transaction })
       })
       // After the tick has committed, so two ticks at once can never add the animals twice.
       if (key.startsWith('stock_')) {
         for (const group of build.plan.stocking[Number(key.slice(6)) - 1]?.groups ?? []) {
-          added.push(await livestockService(ctx).add(actor, tank.id, { speciesKey: group.speciesKey, count: group.count, addedAt: at.toISOString(), source: 'Build stocking', notes: '', acclimation: input.acclimation }))
+          added.push(
+            await livestockService(ctx).add(actor, tank.id, {
+              speciesKey: group.speciesKey,
+              count: group.count,
+              addedAt: at.toISOString(),
+              source: 'Build stocking',
+              notes: '',
+              acclimation: input.acclimation,
+            }),
+          )
         }
       }
       return { build: await view(tank, build, now), livestock: added }
@@ -285,11 +369,17 @@ export const buildsService = perContext((ctx: AppContext) => {
       const tank = await visibleTank(ctx, actor, tankId)
       if (!tank.dimensions) return []
       const same = JSON.stringify(tank.dimensions)
-      const builds = await models.TankBuild.findAll({ where: { organizationId: actor.organizationId, finishedAt: { [Op.ne]: null }, tankId: { [Op.ne]: tank.id } }, order: [['finishedAt', 'DESC']], limit: 50 })
+      const builds = await models.TankBuild.findAll({
+        where: { organizationId: actor.organizationId, finishedAt: { [Op.ne]: null }, tankId: { [Op.ne]: tank.id } },
+        order: [['finishedAt', 'DESC']],
+        limit: 50,
+      })
       const others = new Map((await models.Tank.findAll({ where: { id: builds.map((b) => b.tankId), ...siteScope(actor, 'siteId') } })).map((o) => [o.id, o]))
       return builds.flatMap((b) => {
         const other = others.get(b.tankId)
-        return other && JSON.stringify(other.dimensions) === same ? [{ tankId: other.id, tankName: other.name, finishedAt: b.finishedAt!.toISOString(), plan: b.plan }] : []
+        return other && JSON.stringify(other.dimensions) === same
+          ? [{ tankId: other.id, tankName: other.name, finishedAt: b.finishedAt!.toISOString(), plan: b.plan }]
+          : []
       })
     },
   }

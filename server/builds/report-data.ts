@@ -46,4 +46,3 @@ export async function loadBuildReport(ctx: AppContext, actor: UserActor, tankId:
     today: formatLocalDate(localDateAt(timeZone, now.getTime())),
   }
 }
-

@@ -7,7 +7,13 @@ import { buildReportLines } from './report-pdf'
 const ACCENT = '#0b6e99'
 
 export function buildReportFileName(report: BuildReport): string {
-  const slug = report.tank.name.toLowerCase().normalize('NFKD').replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 60) || 'tank'
+  const slug =
+    report.tank.name
+      .toLowerCase()
+      .normalize('NFKD')
+      .replace(/[^a-z0-9]+/g, '-')
+      .replace(/^-|-$/g, '')
+      .slice(0, 60) || 'tank'
   return `tankwarden-build-${slug}-${report.today}.pdf`
 }
 
@@ -28,7 +34,9 @@ export function buildReportMail(report: BuildReport, pdf: Buffer): RenderedMail 
       heading: subject,
       accent: ACCENT,
       footer: READINGS_ARE_AIDS,
-      body: [`<p style="margin:0 0 12px">${escapeHtml(lead)}</p>`, factsTable(facts), ...lines.cautions.slice(0, 5).map((c) => `<p>${escapeHtml(c)}</p>`)].join(''),
+      body: [`<p style="margin:0 0 12px">${escapeHtml(lead)}</p>`, factsTable(facts), ...lines.cautions.slice(0, 5).map((c) => `<p>${escapeHtml(c)}</p>`)].join(
+        '',
+      ),
     }),
     attachments: [{ filename: buildReportFileName(report), contentType: 'application/pdf', base64: pdf.toString('base64') }],
   }

@@ -26,27 +26,51 @@ export function buildReportLines(report: BuildReport) {
     `Heater: ${plan.heater.watts ?? figures.heater.watts} W (suggested ${figures.heater.watts} W: ${figures.heater.rule}); set point ${n(plan.heater.setPointC)} °C; top at most ${n(figures.heater.topMaxCm)} cm above the tank floor, fully under water`,
     plan.light ? `Light: on ${plan.light.on}, off ${plan.light.off}` : 'Light: no schedule',
   ]
-  const substrate = figures.substrate.layers.map((l) =>
-    `${substrateMaterial(l.material)?.label ?? l.material}: ${n(l.depthCm)} cm, ${n(l.litres)} L, ${n(l.kg)} kg${l.bags !== null ? `, ${l.bags} bag${l.bags === 1 ? '' : 's'}` : ''}`)
-  if (figures.substrate.layers.length) substrate.push(`Bed in all: ${n(figures.substrate.depthCm)} cm, ${n(figures.substrate.litres)} L, ${n(figures.substrate.kg)} kg`)
+  const substrate = figures.substrate.layers.map(
+    (l) =>
+      `${substrateMaterial(l.material)?.label ?? l.material}: ${n(l.depthCm)} cm, ${n(l.litres)} L, ${n(l.kg)} kg${l.bags !== null ? `, ${l.bags} bag${l.bags === 1 ? '' : 's'}` : ''}`,
+  )
+  if (figures.substrate.layers.length)
+    substrate.push(`Bed in all: ${n(figures.substrate.depthCm)} cm, ${n(figures.substrate.litres)} L, ${n(figures.substrate.kg)} kg`)
   const hardscape = figures.hardscape.items.map((h) => `${h.label || h.kind} (${h.kind}): ${n(h.kg)} kg, ${n(h.litres)} L`)
   const water = [
     `Water after substrate and hardscape: ${n(figures.waterLitres)} L`,
-    figures.conditioner ? `Conditioner${plan.water.conditioner ? ` (${plan.water.conditioner})` : ''}: ${n(figures.conditioner.amount)} ${figures.conditioner.unit} for ${n(figures.conditioner.forLitres)} L, from the label rate` : 'Conditioner: no label rate entered',
+    figures.conditioner
+      ? `Conditioner${plan.water.conditioner ? ` (${plan.water.conditioner})` : ''}: ${n(figures.conditioner.amount)} ${figures.conditioner.unit} for ${n(figures.conditioner.forLitres)} L, from the label rate`
+      : 'Conditioner: no label rate entered',
     `Filled weight about ${n(figures.weight.totalKg, 0)} kg (glass ${n(figures.weight.glassKg)}, water ${n(figures.weight.waterKg)}, substrate ${n(figures.weight.substrateKg)}, hardscape ${n(figures.weight.hardscapeKg)}), ${n(figures.weight.loadKgPerM2, 0)} kg/m² over the tank's footprint`,
   ]
-  const steps = build.steps.map((s) => `Day ${s.day}${s.untilDay && s.untilDay > s.day ? `–${s.untilDay}` : ''} · ${s.doneAt ? `done ${day(s.doneAt, zone)}` : `due ${s.dueOn}`} · ${s.title}`)
-  const tests = report.tests.map((t) => `${day(t.at, zone)} · ${Object.entries(t.values).map(([m, v]) => (m === 'temperature' ? `${n(v)} °C` : m === 'ph' ? `pH ${n(v, 2)}` : `${METRIC_WORDS[m] ?? m} ${n(v, 2)} mg/L`)).join(', ')}`)
+  const steps = build.steps.map(
+    (s) =>
+      `Day ${s.day}${s.untilDay && s.untilDay > s.day ? `–${s.untilDay}` : ''} · ${s.doneAt ? `done ${day(s.doneAt, zone)}` : `due ${s.dueOn}`} · ${s.title}`,
+  )
+  const tests = report.tests.map(
+    (t) =>
+      `${day(t.at, zone)} · ${Object.entries(t.values)
+        .map(([m, v]) => (m === 'temperature' ? `${n(v)} °C` : m === 'ph' ? `pH ${n(v, 2)}` : `${METRIC_WORDS[m] ?? m} ${n(v, 2)} mg/L`))
+        .join(', ')}`,
+  )
   const livestock = report.livestock.map((l) => `${day(l.addedAt, zone)} · ${l.count} × ${l.name}${l.removed ? ' (removed since)' : ''}`)
   // Each photo under the build day it was taken on, so the pictures read as the steps went.
   const buildDayOf = (iso: string) => (build.filledOn ? buildDay(build.filledOn, formatLocalDate(localDateAt(zone, Date.parse(iso)))) : null)
-  const photos = report.photos.map((p) => `${buildDayOf(p.takenAt) !== null ? `Day ${buildDayOf(p.takenAt)} · ` : ''}${day(p.takenAt, zone)} · ${p.caption || 'photo'}`)
+  const photos = report.photos.map(
+    (p) => `${buildDayOf(p.takenAt) !== null ? `Day ${buildDayOf(p.takenAt)} · ` : ''}${day(p.takenAt, zone)} · ${p.caption || 'photo'}`,
+  )
   const care = report.carePlan.map((c) => `${c.title}: ${c.every}`)
   const cautions = [...figures.cautions.weight, ...figures.cautions.electrical, figures.cautions.label, READINGS_ARE_AIDS]
   // The report font's Latin subset has no →; › reads the same way.
   const arrows = (list: string[]) => list.map((line) => line.replace(/→/g, '›'))
   return {
-    equipment: arrows(equipment), substrate, hardscape, water, steps: arrows(steps), tests, livestock, photos, care, cautions,
+    equipment: arrows(equipment),
+    substrate,
+    hardscape,
+    water,
+    steps: arrows(steps),
+    tests,
+    livestock,
+    photos,
+    care,
+    cautions,
   }
 }
 
@@ -59,7 +83,9 @@ function header(doc: Doc, report: BuildReport) {
   doc.fillColor(COLOURS.muted)
   const status = build.finishedAt
     ? `finished ${day(build.finishedAt, report.tank.timeZone)}`
-    : build.day !== null ? `build day ${build.day} of about ${build.aboutDays ?? '?'}` : 'planned, not yet filled'
+    : build.day !== null
+      ? `build day ${build.day} of about ${build.aboutDays ?? '?'}`
+      : 'planned, not yet filled'
   write(doc, `${shapeText(report)} · ${build.filledOn ? `filled on ${build.filledOn} · ` : ''}${status}`, 'body', 9)
   doc.moveDown(0.6)
 }

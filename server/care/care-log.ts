@@ -66,7 +66,10 @@ export const careLogService = perContext((ctx: AppContext) => {
       if (range.to) at[Op.lt] = new Date(range.to)
       const entries = await ctx.models.CareLogEntry.findAll({
         where: { tankId: tank.id, ...(range.from || range.to ? { at } : {}) },
-        order: [['at', 'DESC'], ['id', 'DESC']],
+        order: [
+          ['at', 'DESC'],
+          ['id', 'DESC'],
+        ],
         limit: MAX_ENTRIES,
       })
       return presentCareLog(ctx, entries)

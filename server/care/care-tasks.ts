@@ -74,7 +74,10 @@ export async function careDueCounts(ctx: AppContext, where: { siteIds?: number[]
   const items = await dueItems(ctx, where, now)
   for (const { tank, due } of items) {
     if (due.snoozed || (due.status !== 'overdue' && due.status !== 'due_today')) continue
-    for (const [map, key] of [[bySite, tank.siteId], [byTank, tank.id]] as const) {
+    for (const [map, key] of [
+      [bySite, tank.siteId],
+      [byTank, tank.id],
+    ] as const) {
       const counts = map.get(key) ?? { overdue: 0, dueToday: 0 }
       if (due.status === 'overdue') counts.overdue++
       else counts.dueToday++
@@ -117,9 +120,7 @@ export const careTasksService = perContext((ctx: AppContext) => {
 
   /** Tasks due today or overdue at the given sites, overdue first. */
   async function todayAt(siteIds: number[], now: Date) {
-    const items = (await dueItems(ctx, { siteIds }, now)).filter(
-      (i) => !i.due.snoozed && (i.due.status === 'overdue' || i.due.status === 'due_today'),
-    )
+    const items = (await dueItems(ctx, { siteIds }, now)).filter((i) => !i.due.snoozed && (i.due.status === 'overdue' || i.due.status === 'due_today'))
     items.sort((a, b) => byUrgency(a.due, b.due) || a.tank.name.localeCompare(b.tank.name) || a.task.id - b.task.id)
     return items.map(({ task, tank }) => ({
       ...presentTask(task, zoneOf(tank), now),
@@ -167,12 +168,20 @@ export const careTasksService = perContext((ctx: AppContext) => {
         if (!task.lastDoneAt || task.lastDoneAt < at) {
           await task.update({ lastDoneAt: at, lastDoneBy: actor.userId, snoozedUntil: null, snoozeReason: null }, { transaction })
         }
-        return writeCareLog(ctx, {
-          organizationId: actor.organizationId, tankId: tank.id, kind: 'task_done', at, userId: actor.userId,
-          text: input.notes ? `${task.title}: ${input.notes}` : task.title,
-          values: { taskKind: task.kind, ...task.defaultValues, ...input.values },
-          careTaskId: task.id,
-        }, transaction)
+        return writeCareLog(
+          ctx,
+          {
+            organizationId: actor.organizationId,
+            tankId: tank.id,
+            kind: 'task_done',
+            at,
+            userId: actor.userId,
+            text: input.notes ? `${task.title}: ${input.notes}` : task.title,
+            values: { taskKind: task.kind, ...task.defaultValues, ...input.values },
+            careTaskId: task.id,
+          },
+          transaction,
+        )
       })
       return { task: presentTask(task, zoneOf(tank), new Date()), logEntry: (await presentCareLog(ctx, [entry]))[0] }
     },
@@ -187,7 +196,10 @@ export const careTasksService = perContext((ctx: AppContext) => {
       const ids = input.tasks.map((t) => t.id)
       const done = await sequelize.transaction(async (transaction) => {
         const rows = await models.CareTask.findAll({
-          where: { id: ids, organizationId: actor.organizationId }, order: [['id', 'ASC']], lock: transaction.LOCK.UPDATE, transaction,
+          where: { id: ids, organizationId: actor.organizationId },
+          order: [['id', 'ASC']],
+          lock: transaction.LOCK.UPDATE,
+          transaction,
         })
         const byId = new Map(rows.map((r) => [r.id, r]))
         const outcomes: Array<{ task: CareTask; tank: TankWithSite; outcome: 'done' | 'already_done' }> = []
@@ -202,12 +214,20 @@ export const careTasksService = perContext((ctx: AppContext) => {
             continue
           }
           await task.update({ lastDoneAt: at, lastDoneBy: actor.userId, snoozedUntil: null, snoozeReason: null }, { transaction })
-          await writeCareLog(ctx, {
-            organizationId: actor.organizationId, tankId: tank.id, kind: 'task_done', at, userId: actor.userId,
-            text: input.notes ? `${task.title}: ${input.notes}` : task.title,
-            values: { taskKind: task.kind, ...task.defaultValues },
-            careTaskId: task.id,
-          }, transaction)
+          await writeCareLog(
+            ctx,
+            {
+              organizationId: actor.organizationId,
+              tankId: tank.id,
+              kind: 'task_done',
+              at,
+              userId: actor.userId,
+              text: input.notes ? `${task.title}: ${input.notes}` : task.title,
+              values: { taskKind: task.kind, ...task.defaultValues },
+              careTaskId: task.id,
+            },
+            transaction,
+          )
           outcomes.push({ task, tank, outcome: 'done' })
         }
         return outcomes

@@ -14,7 +14,12 @@ export const DIGEST_WINDOW_HOURS = 3
 const DIGEST_LOCK_KEY = 7_411_006
 
 export type DigestOptions = { hour: number }
-export type DigestRun = { site: { id: number; name: string }; day: string; outcome: 'sent' | 'nothing_due' | 'already_sent' | 'nobody_on_duty'; recipients: string[] }
+export type DigestRun = {
+  site: { id: number; name: string }
+  day: string
+  outcome: 'sent' | 'nothing_due' | 'already_sent' | 'nobody_on_duty'
+  recipients: string[]
+}
 
 /** The hour (0–23) on the site's clock at `atMs`. */
 export function localHourAt(timeZone: string, atMs: number): number {
@@ -35,7 +40,15 @@ function dayLabel(timeZone: string, atMs: number) {
 }
 
 function shortMoment(timeZone: string, iso: string) {
-  return new Intl.DateTimeFormat('en-GB', { timeZone, weekday: 'short', day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(new Date(iso))
+  return new Intl.DateTimeFormat('en-GB', {
+    timeZone,
+    weekday: 'short',
+    day: 'numeric',
+    month: 'short',
+    hour: '2-digit',
+    minute: '2-digit',
+    hourCycle: 'h23',
+  }).format(new Date(iso))
 }
 
 /**
@@ -85,9 +98,17 @@ export async function sendCareDigests(ctx: AppContext, options: DigestOptions, n
       const recipients = await dutyRecipients(ctx, site.id, now)
       if (!recipients.length) return { outcome: 'nobody_on_duty' as const, to: [] }
       for (const person of recipients) {
-        await enqueueMail(ctx, {
-          kind: 'care_digest', to: person.email, ...mail, organizationId: site.organizationId, dedupeKey: `${prefix}user:${person.userId}`,
-        }, { transaction })
+        await enqueueMail(
+          ctx,
+          {
+            kind: 'care_digest',
+            to: person.email,
+            ...mail,
+            organizationId: site.organizationId,
+            dedupeKey: `${prefix}user:${person.userId}`,
+          },
+          { transaction },
+        )
       }
       return { outcome: 'sent' as const, to: recipients.map((p) => p.email) }
     })

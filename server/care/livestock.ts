@@ -78,7 +78,13 @@ export const livestockService = perContext((ctx: AppContext) => {
   return {
     async list(actor: UserActor, tankId: number, now = new Date()) {
       const tank = await visibleTank(ctx, actor, tankId)
-      const entries = await models.LivestockEntry.findAll({ where: { tankId: tank.id }, order: [['addedAt', 'ASC'], ['id', 'ASC']] })
+      const entries = await models.LivestockEntry.findAll({
+        where: { tankId: tank.id },
+        order: [
+          ['addedAt', 'ASC'],
+          ['id', 'ASC'],
+        ],
+      })
       const watch = (await tankWatchUntil(ctx, [tank.id], now)).get(tank.id)
       return { entries: entries.map(present), watchUntil: watch?.toISOString() ?? null, quarantine: await quarantineOf(tank, now) }
     },
@@ -108,15 +114,33 @@ export const livestockService = perContext((ctx: AppContext) => {
       const entry = await sequelize.transaction(async (transaction) => {
         const entry = await models.LivestockEntry.create(
           {
-            organizationId: actor.organizationId, tankId: tank.id, speciesKey: input.speciesKey ?? null, name, category, count: input.count,
-            addedAt, source: input.source, notes: input.notes, watchUntil: animal ? watchUntil(addedAt) : null, createdBy: actor.userId,
+            organizationId: actor.organizationId,
+            tankId: tank.id,
+            speciesKey: input.speciesKey ?? null,
+            name,
+            category,
+            count: input.count,
+            addedAt,
+            source: input.source,
+            notes: input.notes,
+            watchUntil: animal ? watchUntil(addedAt) : null,
+            createdBy: actor.userId,
           },
           { transaction },
         )
-        await writeCareLog(ctx, {
-          organizationId: actor.organizationId, tankId: tank.id, kind: 'livestock_in', at: addedAt, userId: actor.userId,
-          text: `Added ${input.count} × ${name}`, values: { count: input.count, category, ...(input.speciesKey ? { speciesKey: input.speciesKey } : {}), livestockId: entry.id },
-        }, transaction)
+        await writeCareLog(
+          ctx,
+          {
+            organizationId: actor.organizationId,
+            tankId: tank.id,
+            kind: 'livestock_in',
+            at: addedAt,
+            userId: actor.userId,
+            text: `Added ${input.count} × ${name}`,
+            values: { count: input.count, category, ...(input.speciesKey ? { speciesKey: input.speciesKey } : {}), livestockId: entry.id },
+          },
+          transaction,
+        )
         return entry
       })
       return { entry: present(entry), warnings, acclimation, watchUntil: entry.watchUntil?.toISOString() ?? null }
@@ -133,7 +157,19 @@ export const livestockService = perContext((ctx: AppContext) => {
         const { removedAt: _text, ...rest } = changes
         await entry.update({ ...rest, ...(removedAt !== undefined ? { removedAt } : {}) }, { transaction })
         const out = (text: string, values: Record<string, number>) =>
-          writeCareLog(ctx, { organizationId: actor.organizationId, tankId: tank.id, kind: 'livestock_out', at: new Date(), userId: actor.userId, text, values: { ...values, livestockId: entry.id } }, transaction)
+          writeCareLog(
+            ctx,
+            {
+              organizationId: actor.organizationId,
+              tankId: tank.id,
+              kind: 'livestock_out',
+              at: new Date(),
+              userId: actor.userId,
+              text,
+              values: { ...values, livestockId: entry.id },
+            },
+            transaction,
+          )
         if (lost > 0) await out(`${lost} × ${entry.name} lost`, { losses: lost })
         if (changes.removedAt && !wasRemoved) await out(`${entry.name} removed`, { count: entry.count })
       })
@@ -149,7 +185,10 @@ export const livestockService = perContext((ctx: AppContext) => {
         tankId: tank.id,
         stage: tank.stage,
         ...status,
-        newPlants: newPlantsNote(plants.map((p) => p.addedAt), now),
+        newPlants: newPlantsNote(
+          plants.map((p) => p.addedAt),
+          now,
+        ),
         suggestion: status.cycled && tank.stage === 'cycling' ? 'The tank reads as cycled: set its stage to established' : null,
       }
     },

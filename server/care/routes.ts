@@ -2,8 +2,20 @@ import { Router, type Request } from 'express'
 import { z } from 'zod'
 import { idParamsSchema, idSchema } from '@shared/schemas/common'
 import {
-  careLogInputSchema, careLogQuerySchema, careTaskDoneSchema, careTaskInputSchema, careTasksDoneSchema, careTaskSnoozeSchema, careTaskUpdateSchema, careTodayQuerySchema,
-  livestockInputSchema, livestockUpdateSchema, waterChangeCancelSchema, waterChangeFinishSchema, waterChangePlanSchema, waterChangeStartSchema,
+  careLogInputSchema,
+  careLogQuerySchema,
+  careTaskDoneSchema,
+  careTaskInputSchema,
+  careTasksDoneSchema,
+  careTaskSnoozeSchema,
+  careTaskUpdateSchema,
+  careTodayQuerySchema,
+  livestockInputSchema,
+  livestockUpdateSchema,
+  waterChangeCancelSchema,
+  waterChangeFinishSchema,
+  waterChangePlanSchema,
+  waterChangeStartSchema,
 } from '@shared/schemas/care'
 import { SPECIES } from '@shared/care/species'
 import { actorOf, allow } from '../access/middleware'

@@ -82,10 +82,17 @@ export const waterChangesService = perContext((ctx: AppContext) => {
     const amount = input.percent !== undefined ? { percent: input.percent } : { litres: input.litres as number }
     const plan = asBadRequest(() => planWaterChange({ shape, fillHeightCm: fillHeight.cm, substrateDepthCm: tank.substrateDepthCm, heaterTopCm, ...amount }))
     const waterLitres = waterVolumeLitres(shape, fillHeight.cm, tank.substrateDepthCm)
-    const dose = input.labelRate ? { ...asBadRequest(() => doseForVolume(plan.litresOut, input.labelRate!)), forLitres: plan.litresOut, labelRate: input.labelRate } : null
+    const dose = input.labelRate
+      ? { ...asBadRequest(() => doseForVolume(plan.litresOut, input.labelRate!)), forLitres: plan.litresOut, labelRate: input.labelRate }
+      : null
     const tankTemp = input.newWaterTempC !== undefined ? await tankTemperature(ctx, tank) : null
     const temperature = tankTemp
-      ? { tankC: tankTemp.value, tankSource: tankTemp.source, newWaterC: input.newWaterTempC as number, ...temperatureMismatchAdvice(tankTemp.value, input.newWaterTempC as number) }
+      ? {
+          tankC: tankTemp.value,
+          tankSource: tankTemp.source,
+          newWaterC: input.newWaterTempC as number,
+          ...temperatureMismatchAdvice(tankTemp.value, input.newWaterTempC as number),
+        }
       : null
     const requiresHeaterOffConfirmation = plan.heaterExposed || plan.percent > HEATER_CONFIRM_PERCENT
     return {
@@ -138,15 +145,29 @@ export const waterChangesService = perContext((ctx: AppContext) => {
           const rule = existing
             ? await existing.update({ enabled: true, severity: 'alarm', spec }, { transaction })
             : await models.WatchRule.create(
-                { organizationId: tank.organizationId, siteId: tank.siteId, tankId: tank.id, name: TEMPORARY_RULE_NAME, severity: 'alarm', spec, createdBy: actor.userId },
+                {
+                  organizationId: tank.organizationId,
+                  siteId: tank.siteId,
+                  tankId: tank.id,
+                  name: TEMPORARY_RULE_NAME,
+                  severity: 'alarm',
+                  spec,
+                  createdBy: actor.userId,
+                },
                 { transaction },
               )
           ruleId = rule.id
         }
         return models.WaterChange.create(
           {
-            organizationId: actor.organizationId, tankId: tank.id, status: 'in_progress', plan, heaterOffConfirmed: input.heaterOffConfirmed,
-            temporaryRuleId: ruleId, startedAt: new Date(), startedBy: actor.userId,
+            organizationId: actor.organizationId,
+            tankId: tank.id,
+            status: 'in_progress',
+            plan,
+            heaterOffConfirmed: input.heaterOffConfirmed,
+            temporaryRuleId: ruleId,
+            startedAt: new Date(),
+            startedBy: actor.userId,
           },
           { transaction },
         )
@@ -157,7 +178,8 @@ export const waterChangesService = perContext((ctx: AppContext) => {
 
     async finish(actor: UserActor, id: number, input: WaterChangeFinishInput) {
       const { change, tank } = await findChange(actor, id)
-      if (change.status !== 'in_progress') throw conflict('water_change_finished', `This water change is already ${change.status === 'cancelled' ? 'cancelled' : 'finished'}`)
+      if (change.status !== 'in_progress')
+        throw conflict('water_change_finished', `This water change is already ${change.status === 'cancelled' ? 'cancelled' : 'finished'}`)
       if (input.litresReplaced > tank.volumeLitres) {
         const message = `at most the tank’s ${tank.volumeLitres} L`
         throw badRequest(`litresReplaced: ${message}`, { litresReplaced: message })
@@ -169,14 +191,30 @@ export const waterChangesService = perContext((ctx: AppContext) => {
         const values: Record<string, number> = { litres: input.litresReplaced, percent: Math.round((1000 * input.litresReplaced) / waterLitres) / 10 }
         if (input.dechlorinatorMl !== undefined) values.dechlorinatorMl = input.dechlorinatorMl
         if (input.newWaterTempC !== undefined) values.newWaterTempC = input.newWaterTempC
-        const entry = await writeCareLog(ctx, {
-          organizationId: actor.organizationId, tankId: tank.id, kind: 'water_change', at: now, userId: actor.userId,
-          text: input.notes || 'Water change', values, waterChangeId: change.id,
-        }, transaction)
+        const entry = await writeCareLog(
+          ctx,
+          {
+            organizationId: actor.organizationId,
+            tankId: tank.id,
+            kind: 'water_change',
+            at: now,
+            userId: actor.userId,
+            text: input.notes || 'Water change',
+            values,
+            waterChangeId: change.id,
+          },
+          transaction,
+        )
         await change.update(
           {
-            status: 'finished', finishedAt: now, finishedBy: actor.userId, litresReplaced: input.litresReplaced,
-            dechlorinatorMl: input.dechlorinatorMl ?? null, newWaterTempC: input.newWaterTempC ?? null, careLogEntryId: entry.id, temporaryRuleId: null,
+            status: 'finished',
+            finishedAt: now,
+            finishedBy: actor.userId,
+            litresReplaced: input.litresReplaced,
+            dechlorinatorMl: input.dechlorinatorMl ?? null,
+            newWaterTempC: input.newWaterTempC ?? null,
+            careLogEntryId: entry.id,
+            temporaryRuleId: null,
           },
           { transaction },
         )
@@ -198,18 +236,34 @@ export const waterChangesService = perContext((ctx: AppContext) => {
      */
     async cancel(actor: UserActor, id: number, input: WaterChangeCancelInput) {
       const { change, tank } = await findChange(actor, id)
-      if (change.status !== 'in_progress') throw conflict('water_change_finished', `This water change is already ${change.status === 'cancelled' ? 'cancelled' : 'finished'}`)
+      if (change.status !== 'in_progress')
+        throw conflict('water_change_finished', `This water change is already ${change.status === 'cancelled' ? 'cancelled' : 'finished'}`)
       const now = new Date()
       const temporaryRuleId = change.temporaryRuleId ?? null
       const entry = await sequelize.transaction(async (transaction) => {
-        const entry = await writeCareLog(ctx, {
-          organizationId: actor.organizationId, tankId: tank.id, kind: 'note', at: now, userId: actor.userId,
-          text: input.reason ? `Water change cancelled (not done): ${input.reason}` : 'Water change cancelled (not done)',
-          values: { waterChangeCancelled: true, plannedLitres: Number(change.plan.litresOut) || 0 },
-          waterChangeId: change.id,
-        }, transaction)
+        const entry = await writeCareLog(
+          ctx,
+          {
+            organizationId: actor.organizationId,
+            tankId: tank.id,
+            kind: 'note',
+            at: now,
+            userId: actor.userId,
+            text: input.reason ? `Water change cancelled (not done): ${input.reason}` : 'Water change cancelled (not done)',
+            values: { waterChangeCancelled: true, plannedLitres: Number(change.plan.litresOut) || 0 },
+            waterChangeId: change.id,
+          },
+          transaction,
+        )
         await change.update(
-          { status: 'cancelled', cancelledAt: now, cancelledBy: actor.userId, cancelReason: input.reason || null, careLogEntryId: entry.id, temporaryRuleId: null },
+          {
+            status: 'cancelled',
+            cancelledAt: now,
+            cancelledBy: actor.userId,
+            cancelReason: input.reason || null,
+            careLogEntryId: entry.id,
+            temporaryRuleId: null,
+          },
           { transaction },
         )
         if (temporaryRuleId) await models.WatchRule.destroy({ where: { id: temporaryRuleId }, transaction })

@@ -26,8 +26,17 @@ const PLAN = buildPlanSchema.parse({
     { material: 'nutrient_soil', depthCm: 4, bagLitres: 3 },
     { material: 'gravel', depthCm: 1, bagLitres: 2 },
   ],
-  hardscape: [{ kind: 'rock', kg: 5, label: 'Grey stone' }, { kind: 'wood', kg: 1.1, label: 'Branch root' }],
-  water: { conditioner: 'Tap-water conditioner', labelRate: { amount: 5, unit: 'mL', per: '10L' }, startPh: 7.6, temperature: { min: 24, max: 26 }, ph: { min: 6.8, max: 7.2 } },
+  hardscape: [
+    { kind: 'rock', kg: 5, label: 'Grey stone' },
+    { kind: 'wood', kg: 1.1, label: 'Branch root' },
+  ],
+  water: {
+    conditioner: 'Tap-water conditioner',
+    labelRate: { amount: 5, unit: 'mL', per: '10L' },
+    startPh: 7.6,
+    temperature: { min: 24, max: 26 },
+    ph: { min: 6.8, max: 7.2 },
+  },
   plants: true,
   stocking: [
     { label: 'Harlequin rasboras', settleDays: 14, groups: [{ speciesKey: 'harlequin_rasbora', count: 6 }] },
@@ -60,10 +69,19 @@ export async function seedDemoBuild(ctx: AppContext, options: { actor: UserActor
   const site = await ctx.models.Site.findByPk(siteId)
   const timeZone = site?.timeZone ?? 'UTC'
   const tank = await tanksService(ctx).create(actor, {
-    name: DEMO_BUILD_TANK, siteId, kind: 'planted', stage: 'empty',
+    name: DEMO_BUILD_TANK,
+    siteId,
+    kind: 'planted',
+    stage: 'empty',
     dimensions: { shape: 'rectangular', lengthCm: 60, widthCm: 30, heightCm: 36 },
-    volumeLitres: null, substrateDepthCm: 0, heater: null, filter: '', media: '', lightSchedule: null,
-    notes: 'Being built for a client: see its Build page.', sortOrder: 90,
+    volumeLitres: null,
+    substrateDepthCm: 0,
+    heater: null,
+    filter: '',
+    media: '',
+    lightSchedule: null,
+    notes: 'Being built for a client: see its Build page.',
+    sortOrder: 90,
   })
   const builds = buildsService(ctx)
   await builds.savePlan(actor, tank.id, PLAN, now)

@@ -17,17 +17,11 @@ export async function seedDemoIfEmpty(ctx: AppContext): Promise<boolean> {
     const org = await models.Organization.create({ name: DEMO_ORGANIZATION }, { transaction })
     const sites = new Map<string, number>()
     for (const s of DEMO_SITES) {
-      const site = await models.Site.create(
-        { organizationId: org.id, name: s.name, timeZone: s.timeZone, address: s.address },
-        { transaction },
-      )
+      const site = await models.Site.create({ organizationId: org.id, name: s.name, timeZone: s.timeZone, address: s.address }, { transaction })
       sites.set(s.key, site.id)
     }
     for (const u of DEMO_USERS) {
-      const user = await models.User.create(
-        { organizationId: org.id, email: u.email, name: u.name, role: u.role, passwordHash },
-        { transaction },
-      )
+      const user = await models.User.create({ organizationId: org.id, email: u.email, name: u.name, role: u.role, passwordHash }, { transaction })
       for (const key of u.sites) await models.UserSite.create({ userId: user.id, siteId: sites.get(key)! }, { transaction })
       for (const shift of DEMO_ROSTER.filter((r) => r.email === u.email)) {
         for (const siteId of sites.values()) {

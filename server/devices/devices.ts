@@ -17,7 +17,11 @@ export const devicesService = perContext((ctx: AppContext) => {
 
   async function readingsSince(deviceIds: number[], since: Date) {
     if (!deviceIds.length) return new Map<number, number>()
-    const counts = await countsBySourceKey(sequelize, deviceIds.map((id) => `d:${id}`), since)
+    const counts = await countsBySourceKey(
+      sequelize,
+      deviceIds.map((id) => `d:${id}`),
+      since,
+    )
     return new Map([...counts].map(([key, n]) => [Number(key.slice(2)), n]))
   }
 
@@ -43,7 +47,10 @@ export const devicesService = perContext((ctx: AppContext) => {
 
   async function present(devices: Device[]) {
     // "Today" is the last 24 hours: sites of one organization can sit in different zones.
-    const counts = await readingsSince(devices.map((d) => d.id), new Date(Date.now() - 86400_000))
+    const counts = await readingsSince(
+      devices.map((d) => d.id),
+      new Date(Date.now() - 86400_000),
+    )
     return devices.map((d) => publicDevice(d, counts.get(d.id) ?? 0))
   }
 
@@ -62,7 +69,14 @@ export const devicesService = perContext((ctx: AppContext) => {
         const visible = await models.Tank.findAll({ where: { siteId: { [Op.in]: actor.siteIds } }, attributes: ['id'] })
         where.tankId = visible.map((t) => t.id)
       }
-      const devices = await models.Device.findAll({ where, include, order: [['name', 'ASC'], ['id', 'ASC']] })
+      const devices = await models.Device.findAll({
+        where,
+        include,
+        order: [
+          ['name', 'ASC'],
+          ['id', 'ASC'],
+        ],
+      })
       return present(devices)
     },
 

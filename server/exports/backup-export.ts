@@ -32,10 +32,11 @@ export const backupExportService = perContext((ctx: AppContext) => {
   async function tableRows(spec: BackupTable, organizationId: number, transaction: Parameters<typeof eachBatch>[1]) {
     const columns = [...(spec.hasId ? ['id'] : []), ...Object.keys(spec.columns)]
     // to_jsonb keeps what JavaScript would lose: microseconds of timestamps, exact doubles, dates as dates.
-    const rows = (await sequelize.query(
-      `SELECT to_jsonb(x) AS row FROM "${spec.table}" x WHERE ${spec.scope ?? ORGANIZATION} ORDER BY ${spec.order}`,
-      { transaction, replacements: { organizationId }, type: QueryTypes.SELECT },
-    )) as Array<{ row: Record<string, unknown> }>
+    const rows = (await sequelize.query(`SELECT to_jsonb(x) AS row FROM "${spec.table}" x WHERE ${spec.scope ?? ORGANIZATION} ORDER BY ${spec.order}`, {
+      transaction,
+      replacements: { organizationId },
+      type: QueryTypes.SELECT,
+    })) as Array<{ row: Record<string, unknown> }>
     return rows.map(({ row }) => Object.fromEntries(columns.map((column) => [column, row[column] ?? null])))
   }
 
@@ -67,18 +68,12 @@ export const backupExportService = perContext((ctx: AppContext) => {
         }
         let open = await put(out, `${JSON.stringify(head).slice(0, -1)},"readings":[`)
         let first = true
-        await eachBatch<{ row: unknown[] }>(
-          sequelize,
-          transaction,
-          BACKUP_READINGS_SQL,
-          { organizationId },
-          async (rows) => {
-            const text = rows.map((r) => JSON.stringify(r.row)).join(',')
-            open = await put(out, first ? text : `,${text}`)
-            first = false
-            return open
-          },
-        )
+        await eachBatch<{ row: unknown[] }>(sequelize, transaction, BACKUP_READINGS_SQL, { organizationId }, async (rows) => {
+          const text = rows.map((r) => JSON.stringify(r.row)).join(',')
+          open = await put(out, first ? text : `,${text}`)
+          first = false
+          return open
+        })
         if (open) await put(out, ']}')
         await transaction.commit()
       } catch (error) {

@@ -23,7 +23,6 @@ const backupSchema = z.object({
   readings: z.array(readingTupleSchema),
 })
 
-
 /** Reads and checks a backup file completely before anything is written. */
 export function parseBackup(file: Buffer): Backup {
   let document: unknown
@@ -83,10 +82,11 @@ export const backupImportService = perContext((ctx: AppContext) => {
   async function allocateIds(table: string, oldIds: number[], transaction: Transaction): Promise<Map<number, number>> {
     const map = new Map<number, number>()
     if (oldIds.length === 0) return map
-    const fresh = (await sequelize.query(
-      `SELECT nextval(pg_get_serial_sequence('${table}', 'id'))::bigint AS id FROM generate_series(1, $1)`,
-      { bind: [oldIds.length], transaction, type: QueryTypes.SELECT },
-    )) as Array<{ id: number }>
+    const fresh = (await sequelize.query(`SELECT nextval(pg_get_serial_sequence('${table}', 'id'))::bigint AS id FROM generate_series(1, $1)`, {
+      bind: [oldIds.length],
+      transaction,
+      type: QueryTypes.SELECT,
+    })) as Array<{ id: number }>
     const sortedNew = fresh.map((r) => Number(r.id)).sort((a, b) => a - b)
     ;[...oldIds].sort((a, b) => a - b).forEach((old, i) => map.set(old, sortedNew[i]!))
     return map
@@ -100,7 +100,10 @@ export const backupImportService = perContext((ctx: AppContext) => {
       { bind: [actor.organizationId, actor.userId], transaction, type: QueryTypes.SELECT },
     )) as Array<{ sites: number; users: number }>
     if (Number(counts!.sites) > 0 || Number(counts!.users) > 0) {
-      throw conflict('organization_not_empty', 'A backup can only be restored into an empty organization (no sites, and no people but you). Create a new organization for the restore.')
+      throw conflict(
+        'organization_not_empty',
+        'A backup can only be restored into an empty organization (no sites, and no people but you). Create a new organization for the restore.',
+      )
     }
   }
 
@@ -108,7 +111,9 @@ export const backupImportService = perContext((ctx: AppContext) => {
     const wanted = users.map((u) => String(u.email).toLowerCase()).filter((email) => email !== ownEmail)
     if (wanted.length === 0) return
     const taken = (await sequelize.query('SELECT lower(email) AS email FROM users WHERE lower(email) = ANY($1)', {
-      bind: [wanted], transaction, type: QueryTypes.SELECT,
+      bind: [wanted],
+      transaction,
+      type: QueryTypes.SELECT,
     })) as Array<{ email: string }>
     if (taken.length) {
       const fields = Object.fromEntries(taken.map(({ email }) => [`users.${email}`, 'already has an account in another organization']))
@@ -155,8 +160,10 @@ export const backupImportService = perContext((ctx: AppContext) => {
             for (const column of spec.deferred ?? []) {
               step = `tables.${spec.table}`
               const target = maps.get(referenceOf(spec.columns[column]!)!.table)!
-              const updates = backup.tables[spec.table]!.filter((row) => row[column] !== null)
-                .map((row) => ({ id: maps.get(spec.table)!.get(row.id as number), value: target.get(row[column] as number) }))
+              const updates = backup.tables[spec.table]!.filter((row) => row[column] !== null).map((row) => ({
+                id: maps.get(spec.table)!.get(row.id as number),
+                value: target.get(row[column] as number),
+              }))
               if (updates.length) {
                 await sequelize.query(
                   `UPDATE "${spec.table}" SET ${quote(column)} = v.value FROM json_to_recordset($1::json) AS v(id integer, value integer) WHERE "${spec.table}".id = v.id`,
@@ -229,10 +236,18 @@ export const backupImportService = perContext((ctx: AppContext) => {
     }
     for (let start = 0; start < readings.length; start += READING_CHUNK) {
       const chunk = readings.slice(start, start + READING_CHUNK)
-      await insertRestoredReadings(sequelize, {
-        tankIds: chunk.map((r) => tanks.get(r[0])), metrics: chunk.map((r) => r[1]), times: chunk.map((r) => r[2]),
-        values: chunk.map((r) => r[3]), sources: chunk.map((r) => r[4]), sourceKeys: chunk.map((r) => sourceKey(r[5])),
-      }, transaction)
+      await insertRestoredReadings(
+        sequelize,
+        {
+          tankIds: chunk.map((r) => tanks.get(r[0])),
+          metrics: chunk.map((r) => r[1]),
+          times: chunk.map((r) => r[2]),
+          values: chunk.map((r) => r[3]),
+          sources: chunk.map((r) => r[4]),
+          sourceKeys: chunk.map((r) => sourceKey(r[5])),
+        },
+        transaction,
+      )
     }
   }
 })

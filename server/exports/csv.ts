@@ -24,9 +24,20 @@ const SOURCE_LABELS: Record<string, string> = { test_kit: 'test kit', import: 'i
 const unitOf = (metric: string) => (isMetricKey(metric) ? METRICS[metric].unit : '')
 
 type IncidentRow = {
-  opened_at: Date; tank: string; title: string; metric: string; severity: string; state: string
-  first_value: number | null; peak_value: number | null; acknowledged_at: Date | null; acknowledged_by: string | null
-  acknowledge_note: string | null; resolved_at: Date | null; resolved_by: string | null; resolve_note: string | null
+  opened_at: Date
+  tank: string
+  title: string
+  metric: string
+  severity: string
+  state: string
+  first_value: number | null
+  peak_value: number | null
+  acknowledged_at: Date | null
+  acknowledged_by: string | null
+  acknowledge_note: string | null
+  resolved_at: Date | null
+  resolved_by: string | null
+  resolve_note: string | null
 }
 type CareLogRow = { at: Date; tank: string; kind: string; text: string; by: string | null; values: Record<string, unknown> }
 
@@ -36,13 +47,32 @@ const EXPORTS: Record<ExportKind, { header: string[]; sql: (where: string) => st
     header: ['time', 'tank', 'metric', 'value', 'unit', 'source'],
     sql: readingsCsvSql,
     cells: (row: ReadingCsvRow, time) => [
-      time(row.time), row.tank, row.metric, row.value, unitOf(row.metric),
+      time(row.time),
+      row.tank,
+      row.metric,
+      row.value,
+      unitOf(row.metric),
       row.source === 'device' ? (row.device ?? 'device') : (SOURCE_LABELS[row.source] ?? row.source),
     ],
   },
   incidents: {
-    header: ['opened_at', 'tank', 'title', 'metric', 'severity', 'state', 'first_value', 'peak_value', 'unit',
-      'acknowledged_at', 'acknowledged_by', 'acknowledge_note', 'resolved_at', 'resolved_by', 'resolve_note'],
+    header: [
+      'opened_at',
+      'tank',
+      'title',
+      'metric',
+      'severity',
+      'state',
+      'first_value',
+      'peak_value',
+      'unit',
+      'acknowledged_at',
+      'acknowledged_by',
+      'acknowledge_note',
+      'resolved_at',
+      'resolved_by',
+      'resolve_note',
+    ],
     sql: (where) => `
       SELECT i.opened_at, t.name AS tank, i.title, i.metric, i.severity, i.state, i.first_value, i.peak_value,
         i.acknowledged_at, ack.name AS acknowledged_by, i.acknowledge_note, i.resolved_at, res.name AS resolved_by, i.resolve_note
@@ -53,9 +83,21 @@ const EXPORTS: Record<ExportKind, { header: string[]; sql: (where: string) => st
       WHERE ${where} AND i.opened_at >= :from AND i.opened_at < :to
       ORDER BY i.opened_at, i.id`,
     cells: (row: IncidentRow, time) => [
-      time(row.opened_at), row.tank, row.title, row.metric, row.severity, row.state, row.first_value, row.peak_value,
-      unitOf(row.metric), time(row.acknowledged_at), row.acknowledged_by, row.acknowledge_note,
-      time(row.resolved_at), row.resolved_by, row.resolve_note,
+      time(row.opened_at),
+      row.tank,
+      row.title,
+      row.metric,
+      row.severity,
+      row.state,
+      row.first_value,
+      row.peak_value,
+      unitOf(row.metric),
+      time(row.acknowledged_at),
+      row.acknowledged_by,
+      row.acknowledge_note,
+      time(row.resolved_at),
+      row.resolved_by,
+      row.resolve_note,
     ],
   },
   'care-log': {
@@ -68,7 +110,11 @@ const EXPORTS: Record<ExportKind, { header: string[]; sql: (where: string) => st
       WHERE ${where} AND c.at >= :from AND c.at < :to
       ORDER BY c.at, c.id`,
     cells: (row: CareLogRow, time) => [
-      time(row.at), row.tank, row.kind, row.text, row.by,
+      time(row.at),
+      row.tank,
+      row.kind,
+      row.text,
+      row.by,
       row.values && Object.keys(row.values).length ? JSON.stringify(row.values) : '',
     ],
   },

@@ -12,9 +12,7 @@ const MAX_RECORD_CHARS = 64 * 1024
 export const QUOTE_NOT_CLOSED = 'a quoted field opened on this line is never closed'
 
 export type CsvLine = { number: number; text: string }
-export type CsvRecord =
-  | { line: number; fields: string[] }
-  | { line: number; error: string; text: string }
+export type CsvRecord = { line: number; fields: string[] } | { line: number; error: string; text: string }
 
 type Split = { fields: string[] } | { error: string; open: boolean }
 

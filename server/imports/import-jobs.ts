@@ -126,7 +126,8 @@ export const importJobsService = perContext((ctx: AppContext) => {
       mapping.metrics.forEach((m, i) => {
         known(`mapping.metrics.${i}.column`, m.column)
         if (!(m.unit in METRICS[m.metric].units)) fields[`mapping.metrics.${i}.unit`] = `${m.metric} has no unit "${m.unit}"`
-        else if (CONTEXT_UNITS.has(`${m.metric}:${m.unit}`)) fields[`mapping.metrics.${i}.unit`] = `${m.unit} needs the tank's context; import ${METRICS[m.metric].unit} instead`
+        else if (CONTEXT_UNITS.has(`${m.metric}:${m.unit}`))
+          fields[`mapping.metrics.${i}.unit`] = `${m.unit} needs the tank's context; import ${METRICS[m.metric].unit} instead`
       })
       if (!job.tankId) {
         if (!mapping.tankColumn && !mapping.tankId) fields['mapping.tankColumn'] = 'a site import needs a tank column or one tank for every row'

@@ -64,11 +64,24 @@ export class ImportJob extends Model<InferAttributes<ImportJob>, InferCreationAt
         fileKey: { type: DataTypes.TEXT, allowNull: false },
         fileName: { type: DataTypes.TEXT, allowNull: false },
         // bigint comes back from pg as a string; these stay far below 2^53.
-        sizeBytes: { type: DataTypes.BIGINT, allowNull: false, get(this: ImportJob) { return Number(this.getDataValue('sizeBytes')) } },
+        sizeBytes: {
+          type: DataTypes.BIGINT,
+          allowNull: false,
+          get(this: ImportJob) {
+            return Number(this.getDataValue('sizeBytes'))
+          },
+        },
         preview: { type: DataTypes.JSONB, allowNull: true },
         mapping: { type: DataTypes.JSONB, allowNull: true },
         status: { type: DataTypes.TEXT, allowNull: false },
-        bytesRead: { type: DataTypes.BIGINT, allowNull: false, defaultValue: 0, get(this: ImportJob) { return Number(this.getDataValue('bytesRead')) } },
+        bytesRead: {
+          type: DataTypes.BIGINT,
+          allowNull: false,
+          defaultValue: 0,
+          get(this: ImportJob) {
+            return Number(this.getDataValue('bytesRead'))
+          },
+        },
         rowsRead: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
         rowsAccepted: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
         rowsDuplicate: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },

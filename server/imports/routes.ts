@@ -24,7 +24,12 @@ function uploadRoute(ctx: AppContext, scopeOf: (id: number) => { tankId?: number
       const key = uploadedKey(req.file!.filename)
       const fields = uploadFieldsSchema.safeParse(req.body ?? {})
       const sourceName = fields.success ? fields.data.sourceName : undefined
-      const job = await imports.createFromUpload(actorOf(req), res.locals.importScope, { key, originalName: req.file!.originalname, size: req.file!.size }, sourceName)
+      const job = await imports.createFromUpload(
+        actorOf(req),
+        res.locals.importScope,
+        { key, originalName: req.file!.originalname, size: req.file!.size },
+        sourceName,
+      )
       res.status(201).json(job)
     },
   )

@@ -9,9 +9,7 @@ const NUMBER = /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/
 
 export type RowProblem = { reason: RejectionReason; detail: string; column: string; value: string }
 
-export type ReadRow =
-  | { ok: true; readings: FileReading[]; columns: string[] }
-  | { ok: false; problems: RowProblem[] }
+export type ReadRow = { ok: true; readings: FileReading[]; columns: string[] } | { ok: false; problems: RowProblem[] }
 
 /** Sorts a checker's reason into the report's reason codes. */
 export function reasonOf(detail: string): RejectionReason {
@@ -44,12 +42,19 @@ export function createRowReader(
     const problems: RowProblem[] = []
     const timeCell = record[timeIndex] ?? ''
     const ms = readTime(timeCell)
-    if (ms === null) problems.push({ reason: 'unparseable_time', detail: `"${timeCell}" is not a ${mapping.timeFormat} time`, column: mapping.timeColumn, value: timeCell })
+    if (ms === null)
+      problems.push({ reason: 'unparseable_time', detail: `"${timeCell}" is not a ${mapping.timeFormat} time`, column: mapping.timeColumn, value: timeCell })
     let tankId = options.fixedTankId
     if (tankIndex >= 0) {
       const name = (record[tankIndex] ?? '').trim()
       tankId = options.tanksByName.get(name.toLowerCase()) ?? null
-      if (tankId === null) problems.push({ reason: 'unknown_tank', detail: name ? `no tank named "${name}" at this site` : 'no tank name', column: mapping.tankColumn!, value: name })
+      if (tankId === null)
+        problems.push({
+          reason: 'unknown_tank',
+          detail: name ? `no tank named "${name}" at this site` : 'no tank name',
+          column: mapping.tankColumn!,
+          value: name,
+        })
     }
     const readings: FileReading[] = []
     const used: string[] = []

@@ -88,7 +88,15 @@ export function createImportRunner(ctx: AppContext) {
         else if (mine.some((o) => o.outcome === 'accepted')) counts.rowsAccepted++
         else {
           counts.rowsDuplicate++
-          await report.add({ line: row.line, raw: row.raw, delimiter: preview.delimiter, reason: 'duplicate', detail: 'already stored (same tank, metric and time)', column: '', value: '' })
+          await report.add({
+            line: row.line,
+            raw: row.raw,
+            delimiter: preview.delimiter,
+            reason: 'duplicate',
+            detail: 'already stored (same tank, metric and time)',
+            column: '',
+            value: '',
+          })
         }
       }
       await touch()
@@ -109,7 +117,13 @@ export function createImportRunner(ctx: AppContext) {
       counts.rowsRead++
       if ('error' in record) {
         // Unreadable quoting refuses this one line, once; the next line is read afresh.
-        batch.push({ line: record.line, raw: [record.text], readings: [], columns: [], problems: [{ reason: 'invalid', detail: `unreadable CSV: ${record.error}`, column: '', value: '' }] })
+        batch.push({
+          line: record.line,
+          raw: [record.text],
+          readings: [],
+          columns: [],
+          problems: [{ reason: 'invalid', detail: `unreadable CSV: ${record.error}`, column: '', value: '' }],
+        })
       } else {
         const row = readRow(record.fields)
         if (!row.ok) batch.push({ line: record.line, raw: record.fields, readings: [], columns: [], problems: row.problems })
@@ -186,14 +200,28 @@ export function createImportRunner(ctx: AppContext) {
     async cancel(id: number) {
       const index = queue.indexOf(id)
       if (index >= 0) queue.splice(index, 1)
-      const [wasQueued] = await models.ImportJob.update({ status: 'cancelled', finishedAt: new Date() }, { where: { id, status: { [Op.in]: ['queued', 'uploaded'] } } })
+      const [wasQueued] = await models.ImportJob.update(
+        { status: 'cancelled', finishedAt: new Date() },
+        { where: { id, status: { [Op.in]: ['queued', 'uploaded'] } } },
+      )
       if (!wasQueued && current === id) cancelled.add(id)
     },
     /** Jobs left queued or running by an instance that went away are marked failed, never left "running". */
     async markInterrupted(staleAfterMs = STALE_AFTER_MS) {
       const [count] = await models.ImportJob.update(
-        { status: 'failed', error: 'Interrupted by a server restart; rows stored before it are kept, start the file again to add the rest', finishedAt: new Date() },
-        { where: { status: { [Op.in]: ['queued', 'running'] }, updatedAt: { [Op.lt]: new Date(Date.now() - staleAfterMs) }, ...(current ? { id: { [Op.ne]: current } } : {}), ...(queue.length ? { id: { [Op.notIn]: queue } } : {}) } },
+        {
+          status: 'failed',
+          error: 'Interrupted by a server restart; rows stored before it are kept, start the file again to add the rest',
+          finishedAt: new Date(),
+        },
+        {
+          where: {
+            status: { [Op.in]: ['queued', 'running'] },
+            updatedAt: { [Op.lt]: new Date(Date.now() - staleAfterMs) },
+            ...(current ? { id: { [Op.ne]: current } } : {}),
+            ...(queue.length ? { id: { [Op.notIn]: queue } } : {}),
+          },
+        },
       )
       return count
     },
@@ -201,7 +229,9 @@ export function createImportRunner(ctx: AppContext) {
     async expireUnstarted(now = new Date()) {
       const cutoff = new Date(now.getTime() - UNSTARTED_IMPORT_HOURS * 3600_000)
       // One statement, so a job started at this moment (status no longer 'uploaded') is never deleted.
-      const [rows] = (await ctx.sequelize.query(`DELETE FROM import_jobs WHERE status = 'uploaded' AND created_at < $1 RETURNING file_key`, { bind: [cutoff] })) as [Array<{ file_key: string }>, unknown]
+      const [rows] = (await ctx.sequelize.query(`DELETE FROM import_jobs WHERE status = 'uploaded' AND created_at < $1 RETURNING file_key`, {
+        bind: [cutoff],
+      })) as [Array<{ file_key: string }>, unknown]
       for (const row of rows) await files.removeUpload(row.file_key).catch(() => undefined)
       return rows.length
     },

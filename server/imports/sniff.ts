@@ -23,7 +23,10 @@ export class NotCsvError extends Error {}
 
 /** The header line's quoting cannot be read: the file cannot be mapped at all. */
 export class UnreadableHeaderError extends Error {
-  constructor(readonly line: number, readonly problem: string) {
+  constructor(
+    readonly line: number,
+    readonly problem: string,
+  ) {
     super(`line ${line}: ${problem}`)
   }
 }
@@ -85,7 +88,12 @@ export function detectDelimiter(text: string): string {
   return best.delimiter
 }
 
-const normalise = (s: string) => s.toLowerCase().normalize('NFKD').replace(/[^a-z0-9%/]+/g, ' ').trim()
+const normalise = (s: string) =>
+  s
+    .toLowerCase()
+    .normalize('NFKD')
+    .replace(/[^a-z0-9%/]+/g, ' ')
+    .trim()
 
 const METRIC_WORDS: Record<MetricKey, string[]> = {
   temperature: ['temperature', 'temp', 'water temp'],
@@ -110,7 +118,7 @@ export function guessMetric(header: string): { metric: MetricKey; unit: string }
     if (!hit) continue
     const def = METRICS[metric]
     let unit = def.unit
-    if (metric === 'temperature' && (/\bdeg f\b|\bf\b|fahrenheit/.test(text))) unit = 'F'
+    if (metric === 'temperature' && /\bdeg f\b|\bf\b|fahrenheit/.test(text)) unit = 'F'
     else {
       for (const code of Object.keys(def.units)) {
         if (code !== def.unit && words.includes(normalise(code))) unit = code
@@ -142,7 +150,8 @@ export function buildPreview(
   const column = (i: number) => data.map((r) => r[i] ?? '').filter(Boolean)
 
   let timeIndex = header.findIndex((h) => TIME_HEADER.test(normalise(h)))
-  if (timeIndex < 0) timeIndex = header.findIndex((_, i) => column(i).length > 0 && column(i).slice(0, 20).filter(looksLikeTime).length > column(i).slice(0, 20).length / 2)
+  if (timeIndex < 0)
+    timeIndex = header.findIndex((_, i) => column(i).length > 0 && column(i).slice(0, 20).filter(looksLikeTime).length > column(i).slice(0, 20).length / 2)
   const timeColumn = timeIndex >= 0 ? header[timeIndex]! : null
   const time = timeIndex >= 0 ? detectTimeFormat(column(timeIndex).slice(0, 50), options.timeZone) : null
 

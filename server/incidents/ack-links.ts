@@ -20,18 +20,30 @@ export const ackLinksService = perContext((ctx: AppContext) => {
   /** The incident as the page shows it; times are shown in the site's zone, so the zone comes along. */
   async function presentIncident(incidentId: number) {
     const incident = await models.Incident.findByPk(incidentId, {
-      include: [{ association: 'tank', attributes: ['name'] }, { association: 'site', attributes: ['name', 'timeZone'] }],
+      include: [
+        { association: 'tank', attributes: ['name'] },
+        { association: 'site', attributes: ['name', 'timeZone'] },
+      ],
     })
     if (!incident) throw notFound('The incident no longer exists')
     const joined = incident as unknown as { tank?: { name: string }; site?: { name: string; timeZone: string } }
     const names = new Map(
-      (await models.User.findAll({ attributes: ['id', 'name'], where: { id: [incident.acknowledgedBy, incident.resolvedBy].filter((id): id is number => id != null) } }))
-        .map((u) => [u.id, u.name]),
+      (
+        await models.User.findAll({
+          attributes: ['id', 'name'],
+          where: { id: [incident.acknowledgedBy, incident.resolvedBy].filter((id): id is number => id != null) },
+        })
+      ).map((u) => [u.id, u.name]),
     )
     const person = (id: number | null | undefined) => (id == null ? null : { name: names.get(id) ?? 'former user' })
     return {
-      id: incident.id, title: incident.title, severity: incident.severity, state: incident.state,
-      tankName: joined.tank?.name ?? '', siteName: joined.site?.name ?? '', timeZone: joined.site?.timeZone ?? 'UTC',
+      id: incident.id,
+      title: incident.title,
+      severity: incident.severity,
+      state: incident.state,
+      tankName: joined.tank?.name ?? '',
+      siteName: joined.site?.name ?? '',
+      timeZone: joined.site?.timeZone ?? 'UTC',
       openedAt: incident.openedAt.toISOString(),
       acknowledgedAt: incident.acknowledgedAt?.toISOString() ?? null,
       acknowledgedBy: person(incident.acknowledgedBy),
@@ -43,10 +55,7 @@ export const ackLinksService = perContext((ctx: AppContext) => {
   return {
     async create(incidentId: number, userId: number, transaction?: Transaction) {
       const { token, hash } = newSecretToken()
-      await models.IncidentAckLink.create(
-        { incidentId, userId, tokenHash: hash, expiresAt: new Date(Date.now() + ACK_LINK_HOURS * 3600_000) },
-        { transaction },
-      )
+      await models.IncidentAckLink.create({ incidentId, userId, tokenHash: hash, expiresAt: new Date(Date.now() + ACK_LINK_HOURS * 3600_000) }, { transaction })
       return `${ctx.config.publicUrl}/ack?token=${token}`
     },
 

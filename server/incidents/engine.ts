@@ -30,7 +30,6 @@ type EngineRule = {
 type Slot = { rule: EngineRule; state: RuleState; incidentId: number | null; lastWrite: number }
 type Window = MaintenanceSpan & { siteId: number; tankId: number | null; ruleId: number | null }
 
-
 // How far past a rule's own window the rebuild reads, so a trip during up to two hours without an
 // engine still opens at the moment it happened (longer outages open it when the engine returns).
 const LOOKBACK_PAD_MS = 2 * 3600_000
@@ -83,7 +82,11 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
       // A quiet rule watches only what a device is meant to report.
       if (rule.spec.kind === 'quiet' && !reported.has(`${tankId}:${metric}`)) continue
       rules.push({
-        id: rule.id, name: rule.name, severity: rule.severity, spec: rule.spec, metric,
+        id: rule.id,
+        name: rule.name,
+        severity: rule.severity,
+        spec: rule.spec,
+        metric,
         tank: { id: tank.id, siteId: tank.siteId, organizationId: tank.organizationId },
         timeZone: tank.site?.timeZone ?? 'UTC',
         ladderKey: `${tank.id}:${rule.spec.kind}:${metric}`,
@@ -94,26 +97,55 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
   }
 
   async function loadSnoozes() {
-    const rows = await ctx.models.Snooze.findAll({ where: { cancelledAt: null, [Op.or]: [{ endsAt: { [Op.gt]: new Date(now()) } }, { repeatUntil: { [Op.gt]: new Date(now()) } }] } })
+    const rows = await ctx.models.Snooze.findAll({
+      where: { cancelledAt: null, [Op.or]: [{ endsAt: { [Op.gt]: new Date(now()) } }, { repeatUntil: { [Op.gt]: new Date(now()) } }] },
+    })
     snoozes = rows.map((s) => ({ tankId: s.tankId, window: s }))
   }
 
   async function loadWindows() {
-    const rows = await ctx.models.MaintenanceWindow.findAll({ where: { cancelledAt: null, [Op.or]: [{ endsAt: null }, { endsAt: { [Op.gt]: new Date(now() - 86400_000) } }] } })
+    const rows = await ctx.models.MaintenanceWindow.findAll({
+      where: { cancelledAt: null, [Op.or]: [{ endsAt: null }, { endsAt: { [Op.gt]: new Date(now() - 86400_000) } }] },
+    })
     const ms = (d: Date | null) => (d ? d.getTime() : null)
-    windows = rows.map((w) => ({ siteId: w.siteId, tankId: w.tankId, ruleId: w.ruleId, startsAt: ms(w.startsAt), endsAt: ms(w.endsAt), weekday: w.weekday, startMinute: w.startMinute, durationMinutes: w.durationMinutes }))
+    windows = rows.map((w) => ({
+      siteId: w.siteId,
+      tankId: w.tankId,
+      ruleId: w.ruleId,
+      startsAt: ms(w.startsAt),
+      endsAt: ms(w.endsAt),
+      weekday: w.weekday,
+      startMinute: w.startMinute,
+      durationMinutes: w.durationMinutes,
+    }))
   }
 
   /** Inside a maintenance window for its site, its tank or itself. */
   function inMaintenance(rule: { id: number; tankId: number; siteId: number }, timeZone: string, at: number) {
-    return windows.some((w) => w.siteId === rule.siteId && (w.tankId === null || w.tankId === rule.tankId) && (w.ruleId === null || w.ruleId === rule.id) && windowCovers(w, at, timeZone))
+    return windows.some(
+      (w) =>
+        w.siteId === rule.siteId &&
+        (w.tankId === null || w.tankId === rule.tankId) &&
+        (w.ruleId === null || w.ruleId === rule.id) &&
+        windowCovers(w, at, timeZone),
+    )
   }
 
   /** Incidents opened during maintenance whose window is over while they still hold: tell people now. */
   async function endMaintenances(at: number) {
-    const held = await ctx.models.Incident.findAll({ where: { maintenance: true, state: { [Op.ne]: 'resolved' } }, include: [{ association: 'site', attributes: ['timeZone'] }] })
+    const held = await ctx.models.Incident.findAll({
+      where: { maintenance: true, state: { [Op.ne]: 'resolved' } },
+      include: [{ association: 'site', attributes: ['timeZone'] }],
+    })
     for (const i of held) {
-      if (!inMaintenance({ id: i.ruleId ?? -1, tankId: i.tankId, siteId: i.siteId }, (i as typeof i & { site?: { timeZone: string } }).site?.timeZone ?? 'UTC', at)) await incidents.endMaintenance(i.id, at)
+      if (
+        !inMaintenance(
+          { id: i.ruleId ?? -1, tankId: i.tankId, siteId: i.siteId },
+          (i as typeof i & { site?: { timeZone: string } }).site?.timeZone ?? 'UTC',
+          at,
+        )
+      )
+        await incidents.endMaintenance(i.id, at)
     }
   }
 
@@ -137,7 +169,12 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
     for (const rule of rules) {
       const readings = history.get(`${rule.tank.id}:${rule.metric}`) ?? []
       const since = t - lookbackMs(rule)
-      const { state, events } = replay(rule.spec, readings.filter((r) => r.at >= since), t, rule.ctx)
+      const { state, events } = replay(
+        rule.spec,
+        readings.filter((r) => r.at >= since),
+        t,
+        rule.ctx,
+      )
       const slot: Slot = { rule, state, incidentId: null, lastWrite: 0 }
       const trip = [...events].reverse().find((e) => e.type === 'trip')
       if (state.status === 'tripped' && trip) trips.set(slot, trip)
@@ -212,8 +249,15 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
     const ladder = ladders.get(rule.ladderKey) ?? [slot]
     if (event.type === 'trip') {
       const incident = await incidents.trip({
-        rule, tank: rule.tank, at: event.at, since: event.since, value: event.value, snoozed: isSnoozed(rule, event.at),
-        ladder: ladder.map((s) => s.rule.id), settleMs: settleMsOf(rule), recheckMs: recheckMsOf(rule),
+        rule,
+        tank: rule.tank,
+        at: event.at,
+        since: event.since,
+        value: event.value,
+        snoozed: isSnoozed(rule, event.at),
+        ladder: ladder.map((s) => s.rule.id),
+        settleMs: settleMsOf(rule),
+        recheckMs: recheckMsOf(rule),
         maintenance: inMaintenance({ id: rule.id, tankId: rule.tank.id, siteId: rule.tank.siteId }, rule.timeZone, event.at),
         cause: causeOf(rule.spec, event.value),
       })

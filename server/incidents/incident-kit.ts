@@ -22,7 +22,14 @@ export const escalateAfterMs = (timing: AlertTiming, severity: RuleSeverity) =>
 /** What every incident operation shares: its timeline, its mails and its change event. */
 export function incidentKit(ctx: AppContext, notifier: IncidentNotifier) {
   const { models, events } = ctx
-  async function record(incidentId: number, kind: string, detail: Record<string, unknown>, transaction: Transaction, userId: number | null = null, at = new Date()) {
+  async function record(
+    incidentId: number,
+    kind: string,
+    detail: Record<string, unknown>,
+    transaction: Transaction,
+    userId: number | null = null,
+    at = new Date(),
+  ) {
     await models.IncidentEvent.create({ incidentId, kind, detail, userId, at }, { transaction })
   }
   return {

@@ -19,15 +19,39 @@ export { DEFAULT_SETTLE_MINUTES } from '@shared/rules/schema'
 export function presentIncident(i: Incident & { tank?: { name: string }; site?: { name: string } }): PublicIncident {
   const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null)
   return {
-    id: i.id, siteId: i.siteId, tankId: i.tankId, tankName: i.tank?.name ?? '', siteName: i.site?.name ?? '',
-    ruleId: i.ruleId, ruleKind: i.ruleKind, metric: i.metric, severity: i.severity, title: i.title, state: i.state,
-    conditionSince: i.conditionSince.toISOString(), openedAt: i.openedAt.toISOString(),
-    firstValue: i.firstValue, peakValue: i.peakValue, latestValue: i.latestValue, latestAt: iso(i.latestAt),
-    snoozed: i.snoozed, acknowledgedAt: iso(i.acknowledgedAt), acknowledgedBy: i.acknowledgedBy ?? null, acknowledgeNote: i.acknowledgeNote ?? null,
-    resolvedAt: iso(i.resolvedAt), resolvedBy: i.resolvedBy ?? null, resolveNote: i.resolveNote ?? null,
-    escalationLevel: i.escalationLevel, nextEscalationAt: iso(i.nextEscalationAt), nextRepeatAt: iso(i.nextRepeatAt),
-    topSeverity: i.topSeverity, flapCount: i.flapCount, lastFlapAt: iso(i.lastFlapAt), settleUntil: iso(i.settleUntil),
-    maintenance: i.maintenance, siteIncidentId: i.siteIncidentId ?? null,
+    id: i.id,
+    siteId: i.siteId,
+    tankId: i.tankId,
+    tankName: i.tank?.name ?? '',
+    siteName: i.site?.name ?? '',
+    ruleId: i.ruleId,
+    ruleKind: i.ruleKind,
+    metric: i.metric,
+    severity: i.severity,
+    title: i.title,
+    state: i.state,
+    conditionSince: i.conditionSince.toISOString(),
+    openedAt: i.openedAt.toISOString(),
+    firstValue: i.firstValue,
+    peakValue: i.peakValue,
+    latestValue: i.latestValue,
+    latestAt: iso(i.latestAt),
+    snoozed: i.snoozed,
+    acknowledgedAt: iso(i.acknowledgedAt),
+    acknowledgedBy: i.acknowledgedBy ?? null,
+    acknowledgeNote: i.acknowledgeNote ?? null,
+    resolvedAt: iso(i.resolvedAt),
+    resolvedBy: i.resolvedBy ?? null,
+    resolveNote: i.resolveNote ?? null,
+    escalationLevel: i.escalationLevel,
+    nextEscalationAt: iso(i.nextEscalationAt),
+    nextRepeatAt: iso(i.nextRepeatAt),
+    topSeverity: i.topSeverity,
+    flapCount: i.flapCount,
+    lastFlapAt: iso(i.lastFlapAt),
+    settleUntil: iso(i.settleUntil),
+    maintenance: i.maintenance,
+    siteIncidentId: i.siteIncidentId ?? null,
     // The engine resolves an incident the moment its condition clears, so an unresolved one still holds.
     conditionHolds: i.state !== 'resolved' && i.ruleId !== null,
   }
@@ -81,9 +105,7 @@ export function incidentsService(ctx: AppContext, notifier: IncidentNotifier, ti
 
     async acknowledge(actor: UserActor, id: number, note: string) {
       const incident = await findVisible(actor, id)
-      await sequelize.transaction(async (transaction) =>
-        acknowledgeIncident(await lockedRow(incident.id, transaction), actor.userId, note, 'app', transaction),
-      )
+      await sequelize.transaction(async (transaction) => acknowledgeIncident(await lockedRow(incident.id, transaction), actor.userId, note, 'app', transaction))
       await incident.reload()
       changed(incident)
       return presentIncident(incident)
@@ -97,7 +119,16 @@ export function incidentsService(ctx: AppContext, notifier: IncidentNotifier, ti
         // A trip inside the settle window reopens it, and the engine reopens it at once if the condition still holds.
         const settleUntil = new Date(Date.now() + (await settleMinutesOf(row.ruleId, transaction)) * 60_000)
         await row.update(
-          { state: 'resolved', resolvedAt: new Date(), resolvedBy: actor.userId, resolveNote: note, nextEscalationAt: null, nextRepeatAt: null, recheckAt: null, settleUntil },
+          {
+            state: 'resolved',
+            resolvedAt: new Date(),
+            resolvedBy: actor.userId,
+            resolveNote: note,
+            nextEscalationAt: null,
+            nextRepeatAt: null,
+            recheckAt: null,
+            settleUntil,
+          },
           { transaction },
         )
         await record(row.id, 'resolved', { automatic: false, note }, transaction, actor.userId)
@@ -118,7 +149,11 @@ export function incidentsService(ctx: AppContext, notifier: IncidentNotifier, ti
       if (q.severity) where.severity = q.severity
       if (q.from || q.to) where.openedAt = { ...(q.from ? { [Op.gte]: new Date(q.from) } : {}), ...(q.to ? { [Op.lt]: new Date(q.to) } : {}) }
       const { rows, count } = await models.Incident.findAndCountAll({
-        where: where as WhereOptions, include, order: [['openedAt', 'DESC']], limit: q.pageSize, offset: (q.page - 1) * q.pageSize,
+        where: where as WhereOptions,
+        include,
+        order: [['openedAt', 'DESC']],
+        limit: q.pageSize,
+        offset: (q.page - 1) * q.pageSize,
       })
       return { items: rows.map(presentIncident), total: count, page: q.page, pageSize: q.pageSize }
     },
@@ -149,7 +184,9 @@ export function incidentsService(ctx: AppContext, notifier: IncidentNotifier, ti
       for (const { id } of due) {
         const done = await sequelize.transaction(async (transaction) => {
           const [row] = await sequelize.query<{ id: number }>('SELECT id FROM incidents WHERE id = $1 AND state = $2 FOR UPDATE SKIP LOCKED', {
-            bind: [id, 'open'], type: QueryTypes.SELECT, transaction,
+            bind: [id, 'open'],
+            type: QueryTypes.SELECT,
+            transaction,
           })
           if (!row) return false
           const incident = (await models.Incident.findByPk(id, { transaction }))!

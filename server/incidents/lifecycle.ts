@@ -37,16 +37,26 @@ export function incidentLifecycle(ctx: AppContext, notifier: IncidentNotifier, t
     const to = trip.rule.severity
     if (!isHigher(to, incident.severity)) return
     const news = isHigher(to, incident.topSeverity)
-    const escalation = incident.state === 'open'
-      ? new Date(Math.min(incident.nextEscalationAt?.getTime() ?? Infinity, trip.at + escalateAfterMs(timing, to)))
-      : incident.nextEscalationAt
+    const escalation =
+      incident.state === 'open'
+        ? new Date(Math.min(incident.nextEscalationAt?.getTime() ?? Infinity, trip.at + escalateAfterMs(timing, to)))
+        : incident.nextEscalationAt
     // A snooze may cover the lower level only (a heater-line alarm is snoozed only when asked by name).
     const unsnoozed = incident.snoozed && !trip.snoozed
     await record(incident.id, 'severity_raised', { from: incident.severity, to, value: trip.value, rule: trip.rule.name }, transaction, null, new Date(trip.at))
-    await incident.update({
-      severity: to, topSeverity: higherOf(to, incident.topSeverity), title: trip.rule.name, nextEscalationAt: escalation, recheckAt: null,
-      latestValue: trip.value, latestAt: new Date(trip.at), snoozed: incident.snoozed && trip.snoozed,
-    }, { transaction })
+    await incident.update(
+      {
+        severity: to,
+        topSeverity: higherOf(to, incident.topSeverity),
+        title: trip.rule.name,
+        nextEscalationAt: escalation,
+        recheckAt: null,
+        latestValue: trip.value,
+        latestAt: new Date(trip.at),
+        snoozed: incident.snoozed && trip.snoozed,
+      },
+      { transaction },
+    )
     if (silent(incident) || incident.siteIncidentId) return
     // Nobody was told of the snoozed lower level: this is its first mail. Before a deferred first mail has gone, that mail carries the new severity.
     if (unsnoozed) await tell('opened', incident, transaction)
@@ -57,16 +67,44 @@ export function incidentLifecycle(ctx: AppContext, notifier: IncidentNotifier, t
     const rises = isHigher(trip.rule.severity, incident.topSeverity)
     const resolver = incident.resolvedBy
     const state = incident.acknowledgedAt ? 'acknowledged' : 'open'
-    await incident.update({
-      state, severity: trip.rule.severity, topSeverity: higherOf(trip.rule.severity, incident.topSeverity), title: rises ? trip.rule.name : incident.title,
-      flapCount: incident.flapCount + 1, lastFlapAt: new Date(trip.at), resolvedAt: null, resolvedBy: null, resolveNote: null,
-      settleUntil: null, allClearAt: null, latestValue: trip.value, latestAt: new Date(trip.at),
-      recheckAt: rises ? null : new Date(trip.at + (trip.recheckMs ?? 0)),
-      nextEscalationAt: rises && state === 'open' ? new Date(trip.at + escalateAfterMs(timing, trip.rule.severity)) : null, nextRepeatAt: null,
-    }, { transaction })
-    await record(incident.id, 'flapped', { value: trip.value, count: incident.flapCount, since: new Date(trip.since).toISOString() }, transaction, null, new Date(trip.at))
+    await incident.update(
+      {
+        state,
+        severity: trip.rule.severity,
+        topSeverity: higherOf(trip.rule.severity, incident.topSeverity),
+        title: rises ? trip.rule.name : incident.title,
+        flapCount: incident.flapCount + 1,
+        lastFlapAt: new Date(trip.at),
+        resolvedAt: null,
+        resolvedBy: null,
+        resolveNote: null,
+        settleUntil: null,
+        allClearAt: null,
+        latestValue: trip.value,
+        latestAt: new Date(trip.at),
+        recheckAt: rises ? null : new Date(trip.at + (trip.recheckMs ?? 0)),
+        nextEscalationAt: rises && state === 'open' ? new Date(trip.at + escalateAfterMs(timing, trip.rule.severity)) : null,
+        nextRepeatAt: null,
+      },
+      { transaction },
+    )
+    await record(
+      incident.id,
+      'flapped',
+      { value: trip.value, count: incident.flapCount, since: new Date(trip.since).toISOString() },
+      transaction,
+      null,
+      new Date(trip.at),
+    )
     if (resolver) {
-      await record(incident.id, 'reopened', { reason: 'tripped_again', note: 'Reopened: the condition held again within the settle window after it was resolved' }, transaction, null, new Date(trip.at))
+      await record(
+        incident.id,
+        'reopened',
+        { reason: 'tripped_again', note: 'Reopened: the condition held again within the settle window after it was resolved' },
+        transaction,
+        null,
+        new Date(trip.at),
+      )
       await tell('resolver', incident, transaction, { userId: resolver })
     }
     if (rises && !silent(incident)) await tell('raised', incident, transaction)
@@ -75,16 +113,40 @@ export function incidentLifecycle(ctx: AppContext, notifier: IncidentNotifier, t
   async function create(trip: TripInput, transaction: Transaction) {
     const quiet = trip.snoozed || Boolean(trip.maintenance)
     const defer = !quiet && groupWaitMs > 0
-    const created = await models.Incident.create({
-      organizationId: trip.tank.organizationId, siteId: trip.tank.siteId, tankId: trip.tank.id, ruleId: trip.rule.id,
-      ruleKind: trip.rule.spec.kind, metric: trip.rule.metric, severity: trip.rule.severity, topSeverity: trip.rule.severity, title: trip.rule.name,
-      state: 'open', conditionSince: new Date(trip.since), openedAt: new Date(trip.at),
-      firstValue: trip.value, peakValue: trip.value, latestValue: trip.value, latestAt: new Date(trip.at), snoozed: trip.snoozed,
-      maintenance: Boolean(trip.maintenance), cause: trip.cause ?? null,
-      notifyAt: defer ? new Date(trip.at + groupWaitMs) : null,
-      nextEscalationAt: trip.maintenance ? null : new Date(trip.at + escalateAfterMs(timing, trip.rule.severity)),
-    }, { transaction })
-    await record(created.id, 'opened', { value: trip.value, since: new Date(trip.since).toISOString(), snoozed: trip.snoozed, maintenance: Boolean(trip.maintenance) }, transaction, null, new Date(trip.at))
+    const created = await models.Incident.create(
+      {
+        organizationId: trip.tank.organizationId,
+        siteId: trip.tank.siteId,
+        tankId: trip.tank.id,
+        ruleId: trip.rule.id,
+        ruleKind: trip.rule.spec.kind,
+        metric: trip.rule.metric,
+        severity: trip.rule.severity,
+        topSeverity: trip.rule.severity,
+        title: trip.rule.name,
+        state: 'open',
+        conditionSince: new Date(trip.since),
+        openedAt: new Date(trip.at),
+        firstValue: trip.value,
+        peakValue: trip.value,
+        latestValue: trip.value,
+        latestAt: new Date(trip.at),
+        snoozed: trip.snoozed,
+        maintenance: Boolean(trip.maintenance),
+        cause: trip.cause ?? null,
+        notifyAt: defer ? new Date(trip.at + groupWaitMs) : null,
+        nextEscalationAt: trip.maintenance ? null : new Date(trip.at + escalateAfterMs(timing, trip.rule.severity)),
+      },
+      { transaction },
+    )
+    await record(
+      created.id,
+      'opened',
+      { value: trip.value, since: new Date(trip.since).toISOString(), snoozed: trip.snoozed, maintenance: Boolean(trip.maintenance) },
+      transaction,
+      null,
+      new Date(trip.at),
+    )
     if (!quiet && !defer) await tell('opened', created, transaction)
     if (!quiet && trip.cause) await sites.consider(created, trip.at, transaction)
     return created
@@ -97,7 +159,11 @@ export function incidentLifecycle(ctx: AppContext, notifier: IncidentNotifier, t
   /** Runs `work` on the row locked (skipping one another instance holds), if it still matches `state`. */
   async function withRow(id: number, work: (row: Incident, transaction: Transaction) => Promise<void>) {
     const row = await sequelize.transaction(async (transaction) => {
-      const [locked] = await sequelize.query('SELECT id FROM incidents WHERE id = $1 FOR UPDATE SKIP LOCKED', { bind: [id], type: QueryTypes.SELECT, transaction })
+      const [locked] = await sequelize.query('SELECT id FROM incidents WHERE id = $1 FOR UPDATE SKIP LOCKED', {
+        bind: [id],
+        type: QueryTypes.SELECT,
+        transaction,
+      })
       if (!locked) return null
       const incident = (await models.Incident.findByPk(id, { transaction }))!
       await work(incident, transaction)
@@ -118,7 +184,10 @@ export function incidentLifecycle(ctx: AppContext, notifier: IncidentNotifier, t
           return existing
         }
         const settling = await models.Incident.findOne({
-          where: { ...where, state: 'resolved', settleUntil: { [Op.gt]: new Date(trip.at) } }, order: [['resolvedAt', 'DESC']], transaction, lock,
+          where: { ...where, state: 'resolved', settleUntil: { [Op.gt]: new Date(trip.at) } },
+          order: [['resolvedAt', 'DESC']],
+          transaction,
+          lock,
         })
         if (settling) {
           await reopenFlap(settling, trip, transaction)
@@ -151,8 +220,15 @@ export function incidentLifecycle(ctx: AppContext, notifier: IncidentNotifier, t
         const settleUntil = settleMs > 0 ? new Date(at + settleMs) : null
         await incident.update(
           {
-            state: 'resolved', resolvedAt: new Date(at), resolveNote: reason, nextEscalationAt: null, nextRepeatAt: null, recheckAt: null,
-            settleUntil, allClearAt: settleUntil && !silent(incident) ? settleUntil : null, ...(value !== undefined ? { latestValue: value } : {}),
+            state: 'resolved',
+            resolvedAt: new Date(at),
+            resolveNote: reason,
+            nextEscalationAt: null,
+            nextRepeatAt: null,
+            recheckAt: null,
+            settleUntil,
+            allClearAt: settleUntil && !silent(incident) ? settleUntil : null,
+            ...(value !== undefined ? { latestValue: value } : {}),
           },
           { transaction },
         )
@@ -171,11 +247,26 @@ export function incidentLifecycle(ctx: AppContext, notifier: IncidentNotifier, t
         if (row.state !== 'resolved' || !row.resolvedBy) return
         const resolver = row.resolvedBy
         const state = row.acknowledgedAt ? 'acknowledged' : 'open'
-        await record(row.id, 'reopened', { reason: 'still_holding', note: 'Reopened: the condition still held after it was resolved', resolvedBy: resolver, resolveNote: row.resolveNote }, transaction, null, new Date(at))
-        await row.update({
-          state, resolvedAt: null, resolvedBy: null, resolveNote: null, settleUntil: null, allClearAt: null,
-          nextEscalationAt: state === 'open' ? new Date(at + escalateAfterMs(timing, row.severity)) : null,
-        }, { transaction })
+        await record(
+          row.id,
+          'reopened',
+          { reason: 'still_holding', note: 'Reopened: the condition still held after it was resolved', resolvedBy: resolver, resolveNote: row.resolveNote },
+          transaction,
+          null,
+          new Date(at),
+        )
+        await row.update(
+          {
+            state,
+            resolvedAt: null,
+            resolvedBy: null,
+            resolveNote: null,
+            settleUntil: null,
+            allClearAt: null,
+            nextEscalationAt: state === 'open' ? new Date(at + escalateAfterMs(timing, row.severity)) : null,
+          },
+          { transaction },
+        )
         await tell('resolver', row, transaction, { userId: resolver })
       })
     },
@@ -185,7 +276,10 @@ export function incidentLifecycle(ctx: AppContext, notifier: IncidentNotifier, t
       await withRow(incidentId, async (row, transaction) => {
         if (row.state === 'resolved' || !row.maintenance) return
         await record(row.id, 'maintenance_ended', {}, transaction, null, new Date(at))
-        await row.update({ maintenance: false, nextEscalationAt: row.state === 'open' ? new Date(at + escalateAfterMs(timing, row.severity)) : null }, { transaction })
+        await row.update(
+          { maintenance: false, nextEscalationAt: row.state === 'open' ? new Date(at + escalateAfterMs(timing, row.severity)) : null },
+          { transaction },
+        )
         if (!row.snoozed) await tell('opened', row, transaction, { afterMaintenance: true })
       })
     },
@@ -204,7 +298,13 @@ export function incidentLifecycle(ctx: AppContext, notifier: IncidentNotifier, t
         await withRow(id, async (row, transaction) => {
           if (row.state === 'resolved' || !row.recheckAt || row.recheckAt.getTime() > now) return
           await record(row.id, 'still_holding', { flaps: row.flapCount }, transaction, null, new Date(now))
-          await row.update({ recheckAt: null, nextEscalationAt: row.state === 'open' && !row.maintenance ? new Date(now + escalateAfterMs(timing, row.severity)) : row.nextEscalationAt }, { transaction })
+          await row.update(
+            {
+              recheckAt: null,
+              nextEscalationAt: row.state === 'open' && !row.maintenance ? new Date(now + escalateAfterMs(timing, row.severity)) : row.nextEscalationAt,
+            },
+            { transaction },
+          )
           if (!silent(row) && !row.siteIncidentId) await tell('reopened', row, transaction)
         })
       }

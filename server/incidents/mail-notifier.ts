@@ -3,7 +3,19 @@ import { METRICS, isMetricKey } from '@shared/metrics/registry'
 import type { AppContext } from '../context'
 import { enqueueMail } from '../mail'
 import { describeMeasurement } from '@shared/rules/measurement'
-import { ELECTRICAL_SAFETY_CAUTION, TREND_CID, deviceBack, incidentEscalated, incidentOpened, incidentRaised, incidentReopened, incidentReopenedToResolver, incidentRepeat, incidentResolved, type IncidentMailInput } from '../mail'
+import {
+  ELECTRICAL_SAFETY_CAUTION,
+  TREND_CID,
+  deviceBack,
+  incidentEscalated,
+  incidentOpened,
+  incidentRaised,
+  incidentReopened,
+  incidentReopenedToResolver,
+  incidentRepeat,
+  incidentResolved,
+  type IncidentMailInput,
+} from '../mail'
 import { SITE_FIRST_STEPS, siteIncidentMail } from '../mail'
 import { renderTrendPng } from '../mail'
 import type { Incident, SiteIncident } from '../models'
@@ -16,12 +28,22 @@ import { recentValues } from '../readings'
 type Person = { userId: number | null; name: string; email: string }
 
 const TEMPLATES = {
-  opened: incidentOpened, escalated: incidentEscalated, repeated: incidentRepeat, resolved: incidentResolved,
-  raised: incidentRaised, reopened: incidentReopened, resolver: incidentReopenedToResolver,
+  opened: incidentOpened,
+  escalated: incidentEscalated,
+  repeated: incidentRepeat,
+  resolved: incidentResolved,
+  raised: incidentRaised,
+  reopened: incidentReopened,
+  resolver: incidentReopenedToResolver,
 }
 const MAIL_KIND = {
-  opened: 'incident_opened', escalated: 'incident_escalated', repeated: 'incident_repeat', resolved: 'incident_resolved',
-  raised: 'incident_raised', reopened: 'incident_reopened', resolver: 'incident_reopened',
+  opened: 'incident_opened',
+  escalated: 'incident_escalated',
+  repeated: 'incident_repeat',
+  resolved: 'incident_resolved',
+  raised: 'incident_raised',
+  reopened: 'incident_reopened',
+  resolver: 'incident_reopened',
 } as const
 
 /**
@@ -57,9 +79,12 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
     }
     const duty = (await dutyRecipients(ctx, incident.siteId)).map((d) => ({ userId: d.userId, name: d.name, email: d.email }))
     // A rise in severity or a flap that held goes to whoever is on duty and whoever was told before.
-    const list = kind === 'opened' ? duty
-      : kind === 'raised' || kind === 'reopened' ? [...duty, ...(await alreadyTold(incident.id, transaction))]
-        : [...duty, ...(await owners(incident.organizationId, transaction))]
+    const list =
+      kind === 'opened'
+        ? duty
+        : kind === 'raised' || kind === 'reopened'
+          ? [...duty, ...(await alreadyTold(incident.id, transaction))]
+          : [...duty, ...(await owners(incident.organizationId, transaction))]
     return [...new Map(list.map((p) => [p.email, p])).values()]
   }
 
@@ -80,15 +105,35 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
       const def = isMetricKey(incident.metric) ? METRICS[incident.metric] : null
       const points = await trend(incident, transaction)
       const band = tank?.targets?.[incident.metric as keyof typeof tank.targets]
-      const trendPng = points.length > 1
-        ? await renderTrendPng({ points, band: band ?? undefined, title: `${def?.label ?? incident.metric}, last 6 h`, window: { from: Date.now() - 6 * 3600_000, to: Date.now() }, unitLabel: def?.unitLabel ?? '', timeZone: site?.timeZone ?? 'UTC' })
-        : undefined
-      const serial = kind === 'escalated' ? `level-${incident.escalationLevel}`
-        : kind === 'repeated' ? (incident.nextRepeatAt?.toISOString() ?? String(Date.now()))
-          : kind === 'raised' ? incident.severity
-            : kind === 'reopened' || kind === 'resolver' ? `flap-${incident.flapCount}-${Date.now()}`
-              : options.afterMaintenance ? 'after-maintenance' : 'once'
-      const measurement = describeMeasurement({ spec: rule?.spec ?? null, metric: incident.metric, value: incident.latestValue ?? incident.firstValue, heaterTopCm: tank?.heater?.topCm })
+      const trendPng =
+        points.length > 1
+          ? await renderTrendPng({
+              points,
+              band: band ?? undefined,
+              title: `${def?.label ?? incident.metric}, last 6 h`,
+              window: { from: Date.now() - 6 * 3600_000, to: Date.now() },
+              unitLabel: def?.unitLabel ?? '',
+              timeZone: site?.timeZone ?? 'UTC',
+            })
+          : undefined
+      const serial =
+        kind === 'escalated'
+          ? `level-${incident.escalationLevel}`
+          : kind === 'repeated'
+            ? (incident.nextRepeatAt?.toISOString() ?? String(Date.now()))
+            : kind === 'raised'
+              ? incident.severity
+              : kind === 'reopened' || kind === 'resolver'
+                ? `flap-${incident.flapCount}-${Date.now()}`
+                : options.afterMaintenance
+                  ? 'after-maintenance'
+                  : 'once'
+      const measurement = describeMeasurement({
+        spec: rule?.spec ?? null,
+        metric: incident.metric,
+        value: incident.latestValue ?? incident.firstValue,
+        heaterTopCm: tank?.heater?.topCm,
+      })
       for (const person of people) {
         const acknowledgeUrl = kind !== 'resolved' && person.userId ? await ackLinksService(ctx).create(incident.id, person.userId, transaction) : undefined
         const input: IncidentMailInput = {
@@ -110,8 +155,11 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
           at: kind === 'opened' ? undefined : new Date().toISOString(),
           measurement,
           firstStep: rule ? firstStep(rule.spec, incident.metric, incident.latestValue) : undefined,
-          note: options.afterMaintenance ? 'It opened during a maintenance window, which has ended while it still holds.'
-            : incident.flapCount ? `It has cleared and come back ${incident.flapCount} ${incident.flapCount === 1 ? 'time' : 'times'}.` : undefined,
+          note: options.afterMaintenance
+            ? 'It opened during a maintenance window, which has ended while it still holds.'
+            : incident.flapCount
+              ? `It has cleared and come back ${incident.flapCount} ${incident.flapCount === 1 ? 'time' : 'times'}.`
+              : undefined,
         }
         // A quiet sensor that reports again is news of its own: "back", not just "resolved".
         const backOnline = kind === 'resolved' && incident.ruleKind === 'quiet'
@@ -119,8 +167,15 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
         await enqueueMail(
           ctx,
           {
-            kind: backOnline ? 'device_back' : MAIL_KIND[kind], to: person.email, subject: mail.subject, text: mail.text, html: mail.html, attachments: mail.attachments,
-            organizationId: incident.organizationId, incidentId: incident.id, dedupeKey: `incident:${incident.id}:${kind}:${serial}:${person.email}`,
+            kind: backOnline ? 'device_back' : MAIL_KIND[kind],
+            to: person.email,
+            subject: mail.subject,
+            text: mail.text,
+            html: mail.html,
+            attachments: mail.attachments,
+            organizationId: incident.organizationId,
+            incidentId: incident.id,
+            dedupeKey: `incident:${incident.id}:${kind}:${serial}:${person.email}`,
           },
           { transaction },
         )
@@ -135,7 +190,12 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
       if (!people.length) return []
       const site = await models.Site.findByPk(siteIncident.siteId, { transaction })
       const organization = await models.Organization.findByPk(siteIncident.organizationId, { transaction })
-      const linked = await models.Incident.findAll({ where: { siteIncidentId: siteIncident.id }, include: [{ association: 'tank', attributes: ['name', 'heater'] }], order: [['id', 'ASC']], transaction })
+      const linked = await models.Incident.findAll({
+        where: { siteIncidentId: siteIncident.id },
+        include: [{ association: 'tank', attributes: ['name', 'heater'] }],
+        order: [['id', 'ASC']],
+        transaction,
+      })
       const rules = await models.WatchRule.findAll({ where: { id: linked.map((i) => i.ruleId).filter((id): id is number => id !== null) }, transaction })
       const tanks = linked.map((i) => {
         const tank = (i as Incident & { tank?: { name: string; heater: { topCm: number } | null } }).tank
@@ -143,15 +203,32 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
         return `${tank?.name ?? `Tank ${i.tankId}`}: ${describeMeasurement({ spec, metric: i.metric, value: i.latestValue, heaterTopCm: tank?.heater?.topCm })}`
       })
       const mail = siteIncidentMail({
-        organizationName: organization?.name ?? '', siteName: site?.name ?? '', siteTimeZone: site?.timeZone ?? 'UTC',
-        title: siteIncident.title, severity: siteIncident.severity, tanks, firstStep: SITE_FIRST_STEPS[siteIncident.cause] ?? 'First: go and look at the tanks.',
-        openedAt: siteIncident.openedAt.toISOString(), incidentsUrl: `${config.publicUrl}/incidents?siteId=${siteIncident.siteId}`, escalated: kind === 'escalated',
+        organizationName: organization?.name ?? '',
+        siteName: site?.name ?? '',
+        siteTimeZone: site?.timeZone ?? 'UTC',
+        title: siteIncident.title,
+        severity: siteIncident.severity,
+        tanks,
+        firstStep: SITE_FIRST_STEPS[siteIncident.cause] ?? 'First: go and look at the tanks.',
+        openedAt: siteIncident.openedAt.toISOString(),
+        incidentsUrl: `${config.publicUrl}/incidents?siteId=${siteIncident.siteId}`,
+        escalated: kind === 'escalated',
       })
       for (const person of people) {
-        await enqueueMail(ctx, {
-          kind: kind === 'opened' ? 'site_incident_opened' : 'site_incident_escalated', to: person.email, subject: mail.subject, text: mail.text, html: mail.html,
-          organizationId: siteIncident.organizationId, incidentId: null, dedupeKey: `site_incident:${siteIncident.id}:${kind}:${siteIncident.escalationLevel}:${person.email}`,
-        }, { transaction })
+        await enqueueMail(
+          ctx,
+          {
+            kind: kind === 'opened' ? 'site_incident_opened' : 'site_incident_escalated',
+            to: person.email,
+            subject: mail.subject,
+            text: mail.text,
+            html: mail.html,
+            organizationId: siteIncident.organizationId,
+            incidentId: null,
+            dedupeKey: `site_incident:${siteIncident.id}:${kind}:${siteIncident.escalationLevel}:${person.email}`,
+          },
+          { transaction },
+        )
       }
       return people.map((p) => p.email)
     },

@@ -13,7 +13,13 @@ export type LeaderJob = () => () => void
  * Runs the engine in whichever instance holds the lock, with its timer, and the other
  * single-instance jobs beside it; returns a stop function.
  */
-export function startRuleEngine(ctx: AppContext, notifier: IncidentNotifier, timing: AlertTiming, tickMs: number, options: { whileLeading?: LeaderJob[] } = {}) {
+export function startRuleEngine(
+  ctx: AppContext,
+  notifier: IncidentNotifier,
+  timing: AlertTiming,
+  tickMs: number,
+  options: { whileLeading?: LeaderJob[] } = {},
+) {
   const engine = createRuleEngine(ctx, incidentsService(ctx, notifier, timing))
   let timer: NodeJS.Timeout | null = null
   let jobStops: Array<() => void> = []

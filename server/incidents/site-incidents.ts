@@ -36,18 +36,32 @@ export function siteGrouping(ctx: AppContext, notifier: IncidentNotifier, timing
       }
       const siblings = await models.Incident.findAll({
         where: {
-          siteId: incident.siteId, cause: incident.cause, state: { [Op.ne]: 'resolved' }, siteIncidentId: null,
-          snoozed: false, maintenance: false, openedAt: { [Op.between]: [new Date(at - SITE_WINDOW_MS), new Date(at + SITE_WINDOW_MS)] },
+          siteId: incident.siteId,
+          cause: incident.cause,
+          state: { [Op.ne]: 'resolved' },
+          siteIncidentId: null,
+          snoozed: false,
+          maintenance: false,
+          openedAt: { [Op.between]: [new Date(at - SITE_WINDOW_MS), new Date(at + SITE_WINDOW_MS)] },
         },
         transaction,
       })
       if (new Set(siblings.map((s) => s.tankId)).size < SITE_MIN_TANKS) return
       const severity = siblings.reduce((worst, s) => higherOf(worst, s.severity), siblings[0].severity)
-      const site = await models.SiteIncident.create({
-        organizationId: incident.organizationId, siteId: incident.siteId, cause: incident.cause, severity,
-        title: CAUSE_TITLES[incident.cause as CauseKey] ?? 'Several tanks at once', state: 'open', openedAt: new Date(at),
-        nextEscalationAt: new Date(at + escalateAfterMs(timing, severity)), notifyAt: groupWaitMs ? new Date(at + groupWaitMs) : null,
-      }, { transaction })
+      const site = await models.SiteIncident.create(
+        {
+          organizationId: incident.organizationId,
+          siteId: incident.siteId,
+          cause: incident.cause,
+          severity,
+          title: CAUSE_TITLES[incident.cause as CauseKey] ?? 'Several tanks at once',
+          state: 'open',
+          openedAt: new Date(at),
+          nextEscalationAt: new Date(at + escalateAfterMs(timing, severity)),
+          notifyAt: groupWaitMs ? new Date(at + groupWaitMs) : null,
+        },
+        { transaction },
+      )
       for (const s of siblings) await link(s, site, transaction)
       if (!groupWaitMs) await notifier.notifySite?.('opened', site, transaction)
     },
@@ -63,20 +77,34 @@ export function siteGrouping(ctx: AppContext, notifier: IncidentNotifier, timing
 
     /** The site's one mail once the grouping wait is over; one escalation, to the backup and the owners, if nobody acknowledged it. */
     async processDue(now: number) {
-      const waiting = await sequelize.query<{ id: number }>(`SELECT id FROM site_incidents WHERE state <> 'resolved' AND notify_at <= $1 ORDER BY id LIMIT 50`, { bind: [new Date(now)], type: QueryTypes.SELECT })
+      const waiting = await sequelize.query<{ id: number }>(
+        `SELECT id FROM site_incidents WHERE state <> 'resolved' AND notify_at <= $1 ORDER BY id LIMIT 50`,
+        { bind: [new Date(now)], type: QueryTypes.SELECT },
+      )
       for (const { id } of waiting) {
         await sequelize.transaction(async (transaction) => {
-          const [row] = await sequelize.query('SELECT id FROM site_incidents WHERE id = $1 AND notify_at IS NOT NULL FOR UPDATE SKIP LOCKED', { bind: [id], type: QueryTypes.SELECT, transaction })
+          const [row] = await sequelize.query('SELECT id FROM site_incidents WHERE id = $1 AND notify_at IS NOT NULL FOR UPDATE SKIP LOCKED', {
+            bind: [id],
+            type: QueryTypes.SELECT,
+            transaction,
+          })
           if (!row) return
           const site = (await models.SiteIncident.findByPk(id, { transaction }))!
           await site.update({ notifyAt: null }, { transaction })
           await notifier.notifySite?.('opened', site, transaction)
         })
       }
-      const due = await sequelize.query<{ id: number }>(`SELECT id FROM site_incidents WHERE state = 'open' AND next_escalation_at <= $1 ORDER BY id LIMIT 50`, { bind: [new Date(now)], type: QueryTypes.SELECT })
+      const due = await sequelize.query<{ id: number }>(
+        `SELECT id FROM site_incidents WHERE state = 'open' AND next_escalation_at <= $1 ORDER BY id LIMIT 50`,
+        { bind: [new Date(now)], type: QueryTypes.SELECT },
+      )
       for (const { id } of due) {
         await sequelize.transaction(async (transaction) => {
-          const [row] = await sequelize.query('SELECT id FROM site_incidents WHERE id = $1 AND state = $2 FOR UPDATE SKIP LOCKED', { bind: [id, 'open'], type: QueryTypes.SELECT, transaction })
+          const [row] = await sequelize.query('SELECT id FROM site_incidents WHERE id = $1 AND state = $2 FOR UPDATE SKIP LOCKED', {
+            bind: [id, 'open'],
+            type: QueryTypes.SELECT,
+            transaction,
+          })
           if (!row) return
           const site = (await models.SiteIncident.findByPk(id, { transaction }))!
           await site.update({ escalationLevel: site.escalationLevel + 1, nextEscalationAt: null }, { transaction })

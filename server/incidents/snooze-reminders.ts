@@ -42,7 +42,12 @@ export async function remindEndingSnoozes(ctx: AppContext, now = Date.now()) {
       to: user.email,
       subject: `Snooze on ${tank.name} ends at ${until}`,
       text,
-      html: layout({ heading: `Snooze on ${tank.name} ends soon`, accent: '#11606B', body: `<p>${escapeHtml(text)}</p>`, footer: 'Extend it in the app if the work is not finished.' }),
+      html: layout({
+        heading: `Snooze on ${tank.name} ends soon`,
+        accent: '#11606B',
+        body: `<p>${escapeHtml(text)}</p>`,
+        footer: 'Extend it in the app if the work is not finished.',
+      }),
       organizationId: s.organizationId,
       dedupeKey: `snooze:${s.id}:${new Date(end).toISOString()}`,
     })

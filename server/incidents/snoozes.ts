@@ -10,14 +10,20 @@ import { perContext } from '../platform/per-context'
 function present(s: Snooze): PublicSnooze {
   const suppresses = ['Alert e-mails for this tank’s warnings and alarms (incidents are still recorded and shown on the wall)']
   suppresses.push(
-    s.includeHeaterLine
-      ? 'ALSO heater-line alarms: nobody is told if the water falls to the heater top'
-      : 'Not heater-line alarms: those are still sent',
+    s.includeHeaterLine ? 'ALSO heater-line alarms: nobody is told if the water falls to the heater top' : 'Not heater-line alarms: those are still sent',
   )
   return {
-    id: s.id, tankId: s.tankId, reason: s.reason, startsAt: s.startsAt.toISOString(), endsAt: s.endsAt.toISOString(),
-    weekly: s.weekly, repeatUntil: s.repeatUntil?.toISOString() ?? null, includeHeaterLine: s.includeHeaterLine,
-    createdBy: s.createdBy, cancelledAt: s.cancelledAt?.toISOString() ?? null, suppresses,
+    id: s.id,
+    tankId: s.tankId,
+    reason: s.reason,
+    startsAt: s.startsAt.toISOString(),
+    endsAt: s.endsAt.toISOString(),
+    weekly: s.weekly,
+    repeatUntil: s.repeatUntil?.toISOString() ?? null,
+    includeHeaterLine: s.includeHeaterLine,
+    createdBy: s.createdBy,
+    cancelledAt: s.cancelledAt?.toISOString() ?? null,
+    suppresses,
   }
 }
 
@@ -37,9 +43,15 @@ export const snoozesService = perContext((ctx: AppContext) => {
     async create(actor: UserActor, tankId: number, input: SnoozeInput) {
       const tank = await visibleTank(ctx, actor, tankId)
       const snooze = await models.Snooze.create({
-        organizationId: actor.organizationId, tankId: tank.id, reason: input.reason,
-        startsAt: new Date(input.startsAt), endsAt: new Date(input.endsAt), weekly: input.weekly,
-        repeatUntil: input.repeatUntil ? new Date(input.repeatUntil) : null, includeHeaterLine: input.includeHeaterLine, createdBy: actor.userId,
+        organizationId: actor.organizationId,
+        tankId: tank.id,
+        reason: input.reason,
+        startsAt: new Date(input.startsAt),
+        endsAt: new Date(input.endsAt),
+        weekly: input.weekly,
+        repeatUntil: input.repeatUntil ? new Date(input.repeatUntil) : null,
+        includeHeaterLine: input.includeHeaterLine,
+        createdBy: actor.userId,
       })
       changed(tank.id)
       return present(snooze)

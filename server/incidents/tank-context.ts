@@ -27,11 +27,7 @@ export function scheduleFn(schedule: { on: string; off: string }, timeZone: stri
   }
 }
 
-export function ruleContextFor(tank: {
-  heater: { topCm: number } | null
-  lightSchedule: { on: string; off: string } | null
-  timeZone: string
-}): RuleContext {
+export function ruleContextFor(tank: { heater: { topCm: number } | null; lightSchedule: { on: string; off: string } | null; timeZone: string }): RuleContext {
   return {
     heaterTopCm: tank.heater?.topCm,
     isScheduledOn: tank.lightSchedule ? scheduleFn(tank.lightSchedule, tank.timeZone) : undefined,

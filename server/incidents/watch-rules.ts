@@ -87,9 +87,7 @@ export const rulesService = perContext((ctx: AppContext) => {
         order: [['id', 'ASC']],
       })
       const overridden = new Set(rules.map((r) => r.overridesRuleId).filter(Boolean))
-      return rules.map((r) =>
-        present(r, { ...(r.tankId ? {} : { overriddenHere: overridden.has(r.id) }), status: status?.(r.id) }),
-      )
+      return rules.map((r) => present(r, { ...(r.tankId ? {} : { overriddenHere: overridden.has(r.id) }), status: status?.(r.id) }))
     },
 
     async listForSite(actor: UserActor, siteId: number) {
@@ -101,7 +99,11 @@ export const rulesService = perContext((ctx: AppContext) => {
     async createForTank(actor: UserActor, tankId: number, input: RuleInput) {
       const tank = await visibleTank(ctx, actor, tankId)
       const rule = await models.WatchRule.create({
-        ...input, organizationId: actor.organizationId, siteId: tank.siteId, tankId: tank.id, createdBy: actor.userId,
+        ...input,
+        organizationId: actor.organizationId,
+        siteId: tank.siteId,
+        tankId: tank.id,
+        createdBy: actor.userId,
       })
       changed([tank.id])
       return present(rule)
@@ -131,7 +133,12 @@ export const rulesService = perContext((ctx: AppContext) => {
       const rule = existing
         ? await existing.update(fields)
         : await models.WatchRule.create({
-            ...fields, organizationId: actor.organizationId, siteId: tank.siteId, tankId: tank.id, overridesRuleId: siteRule.id, createdBy: actor.userId,
+            ...fields,
+            organizationId: actor.organizationId,
+            siteId: tank.siteId,
+            tankId: tank.id,
+            overridesRuleId: siteRule.id,
+            createdBy: actor.userId,
           })
       changed([tank.id])
       return present(rule)

@@ -21,7 +21,11 @@ export function whatToCheck(spec: WatchRuleSpec, metric: string): string[] {
       if (metric === 'temperature') {
         return spec.kind === 'below'
           ? ['Is the heater on and its indicator lit? Is it set correctly?', 'Check the room temperature; cover the tank to hold heat.']
-          : ['Is the heater stuck on? Unplug it if the water keeps warming.', 'Check the room temperature, the lights and any sun on the tank.', 'Float a sealed bag of cool water or add aeration; do not cool suddenly.']
+          : [
+              'Is the heater stuck on? Unplug it if the water keeps warming.',
+              'Check the room temperature, the lights and any sun on the tank.',
+              'Float a sealed bag of cool water or add aeration; do not cool suddenly.',
+            ]
       }
       return [`Confirm ${metric} with a test kit.`, 'A partial water change is the usual first step for water quality.']
   }

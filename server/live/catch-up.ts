@@ -19,9 +19,7 @@ export async function catchUpPages(sequelize: Sequelize, tankIds: number[], sinc
   const pages: LiveReading[][] = []
   for (let i = 0; i < rows.length; i += CATCH_UP_PAGE_ROWS) {
     pages.push(
-      rows
-        .slice(i, i + CATCH_UP_PAGE_ROWS)
-        .map((r) => ({ tankId: r.tank_id, metric: r.metric, time: r.time.toISOString(), value: r.value, source: r.source })),
+      rows.slice(i, i + CATCH_UP_PAGE_ROWS).map((r) => ({ tankId: r.tank_id, metric: r.metric, time: r.time.toISOString(), value: r.value, source: r.source })),
     )
   }
   return pages

@@ -144,7 +144,9 @@ export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubO
     const current: Actor | null =
       actor.kind === 'user'
         ? await userActorOfSession(ctx.models, actor.sessionId, actor.userId, actor.organizationId)
-        : (await wallStillValid(ctx.models, actor.credentialId)) ? actor : null
+        : (await wallStillValid(ctx.models, actor.credentialId))
+          ? actor
+          : null
     if (!current) return peer.socket.close(LIVE_CLOSE.unauthenticated, 'access withdrawn')
     peer.actor = current
     if (!peer.tanks.size) return

@@ -75,7 +75,9 @@ export function careDigest(i: CareDigestInput): RenderedMail {
     .join('')
   const watchBlock = i.watch.length
     ? '<h3 style="margin:20px 0 4px;font-size:15px">Worth a look</h3><ul style="margin:0;padding-left:20px">' +
-      i.watch.map((w) => `<li><a href="${escapeHtml(safeUrl(w.url))}" style="color:#1f2933">${escapeHtml(w.name)}</a>: ${escapeHtml(watchWords(w).join('; '))}</li>`).join('') +
+      i.watch
+        .map((w) => `<li><a href="${escapeHtml(safeUrl(w.url))}" style="color:#1f2933">${escapeHtml(w.name)}</a>: ${escapeHtml(watchWords(w).join('; '))}</li>`)
+        .join('') +
       '</ul>'
     : ''
 

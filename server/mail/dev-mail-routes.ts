@@ -19,10 +19,10 @@ export function devMailRouter(ctx: AppContext) {
   const router = Router()
 
   router.get('/', async (req, res) => {
-    const items = await ctx.sequelize.query(
-      `SELECT ${SUMMARY_COLUMNS} FROM fake_mailbox f WHERE ${VISIBLE} ORDER BY f.received_at DESC, f.id DESC LIMIT 100`,
-      { replacements: { org: actorOf(req).organizationId }, type: QueryTypes.SELECT },
-    )
+    const items = await ctx.sequelize.query(`SELECT ${SUMMARY_COLUMNS} FROM fake_mailbox f WHERE ${VISIBLE} ORDER BY f.received_at DESC, f.id DESC LIMIT 100`, {
+      replacements: { org: actorOf(req).organizationId },
+      type: QueryTypes.SELECT,
+    })
     res.json({ items })
   })
 

@@ -45,10 +45,7 @@ async function readAll(stream: SMTPServerDataStream): Promise<Buffer> {
  * the row is written, so a message the sender counts as sent is in the mailbox.
  * Stopping and starting again on the same port is how tests simulate a mail server outage.
  */
-export async function startFakeSmtp(
-  ctx: Pick<AppContext, 'models' | 'logger'>,
-  options: { host?: string; port: number },
-): Promise<FakeSmtp> {
+export async function startFakeSmtp(ctx: Pick<AppContext, 'models' | 'logger'>, options: { host?: string; port: number }): Promise<FakeSmtp> {
   const store = async (stream: SMTPServerDataStream, session: SMTPServerSession) => {
     const raw = await readAll(stream)
     if (stream.sizeExceeded) {

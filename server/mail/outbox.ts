@@ -30,7 +30,12 @@ const outgoingSchema = z.object({
   kind: z.enum(MAIL_KINDS),
   to: z.email().max(320),
   // A line break in a subject would start a new header line; a subject is one line.
-  subject: z.string().trim().min(1).max(400).transform((s) => s.replace(/[\r\n]+/g, ' ')),
+  subject: z
+    .string()
+    .trim()
+    .min(1)
+    .max(400)
+    .transform((s) => s.replace(/[\r\n]+/g, ' ')),
   text: z.string().min(1),
   html: z.string().nullish(),
   attachments: z.array(attachmentSchema).max(20).default([]),

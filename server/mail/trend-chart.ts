@@ -84,10 +84,19 @@ export async function renderTrendSvg(input: TrendChartInput): Promise<string> {
       animation: false,
       backgroundColor: '#ffffff',
       textStyle: { fontFamily: 'DejaVu Sans, Arial, sans-serif' },
-      title: { text: input.unitLabel && !input.title.includes(input.unitLabel) ? `${input.title} (${input.unitLabel})` : input.title, left: 8, top: 6, textStyle: { fontSize: 13, fontWeight: 'bold', color: '#1f2933' } },
+      title: {
+        text: input.unitLabel && !input.title.includes(input.unitLabel) ? `${input.title} (${input.unitLabel})` : input.title,
+        left: 8,
+        top: 6,
+        textStyle: { fontSize: 13, fontWeight: 'bold', color: '#1f2933' },
+      },
       grid: { left: 52, right: 16, top: 36, bottom: 28 },
       xAxis: {
-        type: 'time', min: ticks.min, max: ticks.max, minInterval: ticks.step, maxInterval: ticks.step,
+        type: 'time',
+        min: ticks.min,
+        max: ticks.max,
+        minInterval: ticks.step,
+        maxInterval: ticks.step,
         axisLabel: { formatter: clockLabel(input.timeZone, spanMs), color: '#52606d', fontSize: 10, hideOverlap: true },
       },
       yAxis: {
@@ -117,5 +126,7 @@ export async function renderTrendSvg(input: TrendChartInput): Promise<string> {
 /** A PNG of the recent trend for an alert mail (mail clients do not show SVG reliably). */
 export async function renderTrendPng(input: TrendChartInput): Promise<Buffer> {
   const [, { default: sharp }] = await libraries()
-  return sharp(Buffer.from(await renderTrendSvg(input))).png().toBuffer()
+  return sharp(Buffer.from(await renderTrendSvg(input)))
+    .png()
+    .toBuffer()
 }

@@ -1,7 +1,14 @@
 import { createServer, type Server } from 'node:net'
 import { Aedes, type Client } from 'aedes'
 import {
-  MAX_PAYLOAD_BYTES, commandsTopic, messageOutcome, messageRefused, outcomesTopic, parseDeviceTopic, readingsTopic, type MessageOutcome,
+  MAX_PAYLOAD_BYTES,
+  commandsTopic,
+  messageOutcome,
+  messageRefused,
+  outcomesTopic,
+  parseDeviceTopic,
+  readingsTopic,
+  type MessageOutcome,
 } from '@shared/ingest/contract'
 import { deviceFromToken } from '../devices'
 import type { DeviceActor } from '../access/actor'

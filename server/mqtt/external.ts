@@ -49,7 +49,10 @@ export async function startExternalConsumer(ctx: AppContext, url: string, option
     const cached = deviceCache.get(deviceId)
     if (cached && Date.now() - cached.at < 60_000) return cached.device
     const row = await models.Device.findByPk(deviceId, { include: [{ association: 'tank', attributes: ['id', 'archivedAt'] }] })
-    const device = row && !row.revokedAt && !row.tank?.archivedAt ? { kind: 'device' as const, deviceId: row.id, organizationId: row.organizationId, tankId: row.tankId } : null
+    const device =
+      row && !row.revokedAt && !row.tank?.archivedAt
+        ? { kind: 'device' as const, deviceId: row.id, organizationId: row.organizationId, tankId: row.tankId }
+        : null
     deviceCache.set(deviceId, { device, at: Date.now() })
     return device
   }
@@ -96,13 +99,15 @@ export async function startExternalConsumer(ctx: AppContext, url: string, option
       customHandleAcks: (topic, message, _packet, done) => {
         active++
         lastMessageAt = Date.now()
-        handle(topic, message).then(
-          () => done(0),
-          (error: Error) => done(error),
-        ).finally(() => {
-          active--
-          lastMessageAt = Date.now()
-        })
+        handle(topic, message)
+          .then(
+            () => done(0),
+            (error: Error) => done(error),
+          )
+          .finally(() => {
+            active--
+            lastMessageAt = Date.now()
+          })
       },
     })
     client.on('error', (error) => {

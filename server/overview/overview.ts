@@ -12,8 +12,17 @@ import { tankStatuses } from '../tanks'
 
 type SiteRow = { id: number; name: string; timeZone: string }
 type IncidentRow = {
-  id: number; title: string; severity: string; state: OverviewIncident['state']; ruleKind: string; tankId: number; tankName: string
-  openedAt: Date; acknowledgedAt: Date | null; ackUserId: number | null; ackUserName: string | null
+  id: number
+  title: string
+  severity: string
+  state: OverviewIncident['state']
+  ruleKind: string
+  tankId: number
+  tankName: string
+  openedAt: Date
+  acknowledgedAt: Date | null
+  ackUserId: number | null
+  ackUserName: string | null
 }
 
 /**
@@ -49,7 +58,13 @@ export function overviewService(ctx: AppContext) {
 
   async function forSite(site: SiteRow, now: Date): Promise<OverviewSite> {
     const since = new Date(endOfYesterdaysWorkday(site.timeZone, now.getTime()))
-    const tanks = await models.Tank.findAll({ where: { siteId: site.id, archivedAt: null }, order: [['name', 'ASC'], ['id', 'ASC']] })
+    const tanks = await models.Tank.findAll({
+      where: { siteId: site.id, archivedAt: null },
+      order: [
+        ['name', 'ASC'],
+        ['id', 'ASC'],
+      ],
+    })
     const [statuses, incidents, care, waterChanges, duty, watch] = await Promise.all([
       tankStatuses(ctx, tanks, now.getTime()),
       incidentsSince(site.id, since, now),
@@ -73,7 +88,11 @@ export function overviewService(ctx: AppContext) {
     }
 
     const task = (item: (typeof care)[number]): OverviewTask => ({
-      taskId: item.task.id, title: item.task.title, kind: item.task.kind, tank: { id: item.tank.id, name: item.tank.name }, dueOn: item.due.dueOn,
+      taskId: item.task.id,
+      title: item.task.title,
+      kind: item.task.kind,
+      tank: { id: item.tank.id, name: item.tank.name },
+      dueOn: item.due.dueOn,
     })
     const unsnoozed = care.filter((c) => !c.due.snoozed)
     const overdue = unsnoozed.filter((c) => c.due.status === 'overdue').sort((a, b) => a.due.dueOn.localeCompare(b.due.dueOn))
@@ -86,7 +105,11 @@ export function overviewService(ctx: AppContext) {
       states,
       overnight: {
         incidents: incidents.map((i) => ({
-          id: i.id, title: i.title, severity: i.severity, state: i.state, tank: { id: i.tankId, name: i.tankName },
+          id: i.id,
+          title: i.title,
+          severity: i.severity,
+          state: i.state,
+          tank: { id: i.tankId, name: i.tankName },
           openedAt: new Date(i.openedAt).toISOString(),
           acknowledgedAt: i.acknowledgedAt ? new Date(i.acknowledgedAt).toISOString() : null,
           acknowledgedBy: i.ackUserId ? { id: i.ackUserId, name: i.ackUserName ?? '' } : null,
@@ -101,9 +124,7 @@ export function overviewService(ctx: AppContext) {
         onDuty: duty.onDuty.map((p) => ({ id: p.userId, name: p.name })),
         backup: duty.backup ? { id: duty.backup.userId, name: duty.backup.name } : null,
         careDue: unsnoozed.filter((c) => c.due.status === 'due_today').map(task),
-        quarantine: watch
-          .filter((w) => w.quarantine)
-          .map((w) => ({ tank: w.tank, daysIn: w.quarantine!.daysIn, days: w.quarantine!.days })),
+        quarantine: watch.filter((w) => w.quarantine).map((w) => ({ tank: w.tank, daysIn: w.quarantine!.daysIn, days: w.quarantine!.days })),
       },
     }
   }
@@ -113,7 +134,10 @@ export function overviewService(ctx: AppContext) {
       const sites = await models.Site.findAll({
         where: { ...(siteScope(actor, 'id') as object), archivedAt: null },
         attributes: ['id', 'name', 'timeZone'],
-        order: [['name', 'ASC'], ['id', 'ASC']],
+        order: [
+          ['name', 'ASC'],
+          ['id', 'ASC'],
+        ],
       })
       const rows = sites.map((s) => ({ id: s.id, name: s.name, timeZone: s.timeZone }))
       const checklist = actor.role === 'owner' ? await checklistService(ctx).forOwner(actor) : null

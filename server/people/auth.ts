@@ -20,11 +20,7 @@ export const authService = perContext((ctx: AppContext) => {
   }
 
   async function openSession(user: User): Promise<SessionInfo> {
-    const { token, jti, expiresAt } = signAccessToken(
-      config.jwtSecret,
-      { userId: user.id, organizationId: user.organizationId },
-      config.accessTokenHours,
-    )
+    const { token, jti, expiresAt } = signAccessToken(config.jwtSecret, { userId: user.id, organizationId: user.organizationId }, config.accessTokenHours)
     await models.Session.create({ id: jti, userId: user.id, expiresAt })
     const organization = await models.Organization.findByPk(user.organizationId)
     return {
@@ -71,10 +67,7 @@ export const authService = perContext((ctx: AppContext) => {
       user.passwordHash = await bcrypt.hash(newPassword, config.bcryptRounds)
       await user.save()
       // Every other session of this user ends; the current one stays signed in.
-      await models.Session.update(
-        { revokedAt: new Date() },
-        { where: { userId: user.id, revokedAt: null, id: { [Op.ne]: actor.sessionId } } },
-      )
+      await models.Session.update({ revokedAt: new Date() }, { where: { userId: user.id, revokedAt: null, id: { [Op.ne]: actor.sessionId } } })
     },
   }
 })

@@ -26,7 +26,11 @@ export const passwordResetService = perContext((ctx: AppContext) => {
           transaction,
         })
         const mail = passwordReset({ link: `${config.publicUrl}/reset-password?token=${token}`, validMinutes: RESET_MINUTES })
-        await enqueueMail(ctx, { kind: 'password_reset', to: user.email, ...mail, organizationId: user.organizationId, dedupeKey: `reset:${hash}` }, { transaction })
+        await enqueueMail(
+          ctx,
+          { kind: 'password_reset', to: user.email, ...mail, organizationId: user.organizationId, dedupeKey: `reset:${hash}` },
+          { transaction },
+        )
       })
     },
 

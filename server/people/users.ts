@@ -12,8 +12,6 @@ import { presentUser } from './present-user'
 
 const INVITATION_DAYS = 7
 
-
-
 export const usersService = perContext((ctx: AppContext) => {
   const { models, sequelize } = ctx
   const auth = authService(ctx)
@@ -65,8 +63,7 @@ export const usersService = perContext((ctx: AppContext) => {
         })
         const user = await models.User.findOne({ where: { id, organizationId: actor.organizationId }, transaction })
         if (!user) throw notFound('User not found')
-        const losesOwner =
-          user.role === 'owner' && user.active && ((changes.role && changes.role !== 'owner') || changes.active === false)
+        const losesOwner = user.role === 'owner' && user.active && ((changes.role && changes.role !== 'owner') || changes.active === false)
         if (losesOwner && owners.length <= 1) {
           throw conflict('last_owner', 'The organization must keep at least one active owner')
         }
@@ -76,7 +73,10 @@ export const usersService = perContext((ctx: AppContext) => {
         await user.update(fields, { transaction })
         if (siteIds) {
           await models.UserSite.destroy({ where: { userId: user.id }, transaction })
-          await models.UserSite.bulkCreate(siteIds.map((siteId) => ({ userId: user.id, siteId })), { transaction })
+          await models.UserSite.bulkCreate(
+            siteIds.map((siteId) => ({ userId: user.id, siteId })),
+            { transaction },
+          )
         }
         if (changes.active === false || roleChanged) {
           // A deactivated user or a changed role takes effect at once: their sessions end.
@@ -178,7 +178,10 @@ export const usersService = perContext((ctx: AppContext) => {
           { transaction },
         )
         if (inv.siteIds.length) {
-          await models.UserSite.bulkCreate(inv.siteIds.map((siteId) => ({ userId: created.id, siteId })), { transaction })
+          await models.UserSite.bulkCreate(
+            inv.siteIds.map((siteId) => ({ userId: created.id, siteId })),
+            { transaction },
+          )
         }
         await inv.update({ acceptedAt: new Date() }, { transaction })
         return created

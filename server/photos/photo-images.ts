@@ -49,7 +49,9 @@ export async function processPhoto(bytes: Buffer): Promise<ProcessedPhoto> {
     throw badRequest(`photo: ${format ?? 'unknown'} images are not accepted; ${ACCEPTED}`, { photo: `${format ?? 'unknown'} is not accepted; ${ACCEPTED}` })
   }
   if (pixels > MAX_INPUT_PIXELS) {
-    throw new AppError(413, 'too_large', `photo: ${Math.round(pixels / 1e6)} megapixels is more than the ${MAX_INPUT_PIXELS / 1e6} accepted`, { photo: `at most ${MAX_INPUT_PIXELS / 1e6} megapixels` })
+    throw new AppError(413, 'too_large', `photo: ${Math.round(pixels / 1e6)} megapixels is more than the ${MAX_INPUT_PIXELS / 1e6} accepted`, {
+      photo: `at most ${MAX_INPUT_PIXELS / 1e6} megapixels`,
+    })
   }
   try {
     // One decode of the upload; the thumbnail is made from the display image.

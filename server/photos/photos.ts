@@ -47,7 +47,14 @@ function periodWhere(range: { from?: Date; to?: Date }) {
  * answers only with a token that may see the tank; `readPhotoBytes` gives the bytes directly.
  */
 export async function photosInPeriod(ctx: AppContext, tankId: number, from: Date, to: Date): Promise<PhotoSummary[]> {
-  const photos = await ctx.models.Photo.findAll({ where: { tankId, ...periodWhere({ from, to }) }, order: [['takenAt', 'ASC'], ['id', 'ASC']], limit: MAX_LISTED })
+  const photos = await ctx.models.Photo.findAll({
+    where: { tankId, ...periodWhere({ from, to }) },
+    order: [
+      ['takenAt', 'ASC'],
+      ['id', 'ASC'],
+    ],
+    limit: MAX_LISTED,
+  })
   return photos.map((p) => ({ id: p.id, takenAt: p.takenAt.toISOString(), caption: p.caption, thumbnailUrl: photoUrl(p.id, 'thumbnail') }))
 }
 
@@ -62,7 +69,8 @@ export async function readPhotoBytes(ctx: AppContext, photoId: number, variant: 
   const photo = await ctx.models.Photo.findByPk(photoId)
   if (!photo) throw notFound('Photo not found')
   const chunks: Buffer[] = []
-  for await (const chunk of await photoStoreFor(ctx.config).getStream(variant === 'display' ? photo.displayKey : photo.thumbnailKey)) chunks.push(Buffer.from(chunk))
+  for await (const chunk of await photoStoreFor(ctx.config).getStream(variant === 'display' ? photo.displayKey : photo.thumbnailKey))
+    chunks.push(Buffer.from(chunk))
   return Buffer.concat(chunks)
 }
 
@@ -95,7 +103,10 @@ export const photosService = perContext((ctx: AppContext) => {
       const tank = await visibleTank(ctx, actor, tankId)
       const photos = await ctx.models.Photo.findAll({
         where: { tankId: tank.id, ...periodWhere({ from: range.from ? new Date(range.from) : undefined, to: range.to ? new Date(range.to) : undefined }) },
-        order: [['takenAt', 'DESC'], ['id', 'DESC']],
+        order: [
+          ['takenAt', 'DESC'],
+          ['id', 'DESC'],
+        ],
         limit: MAX_LISTED,
       })
       return presentPhotos(ctx, photos)

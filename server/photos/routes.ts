@@ -49,21 +49,23 @@ export function photosRouter(ctx: AppContext) {
   router.get('/:id', allow('org.read'), async (req, res) => {
     res.json(await photos.get(actorOf(req), id(req)))
   })
-  const serve = (variant: PhotoVariant): RequestHandler => async (req, res) => {
-    const { photo, stream } = await photos.open(actorOf(req), id(req), variant)
-    // Each photo's bytes never change (a new upload is a new id), so a private cache may keep them.
-    const etag = `"photo-${photo.id}-${variant}"`
-    res.setHeader('Cache-Control', 'private, max-age=86400, immutable')
-    res.setHeader('ETag', etag)
-    if (req.headers['if-none-match'] === etag) {
-      stream.destroy()
-      return void res.status(304).end()
+  const serve =
+    (variant: PhotoVariant): RequestHandler =>
+    async (req, res) => {
+      const { photo, stream } = await photos.open(actorOf(req), id(req), variant)
+      // Each photo's bytes never change (a new upload is a new id), so a private cache may keep them.
+      const etag = `"photo-${photo.id}-${variant}"`
+      res.setHeader('Cache-Control', 'private, max-age=86400, immutable')
+      res.setHeader('ETag', etag)
+      if (req.headers['if-none-match'] === etag) {
+        stream.destroy()
+        return void res.status(304).end()
+      }
+      res.setHeader('Content-Type', photo.contentType)
+      res.setHeader('Content-Disposition', `inline; filename="photo-${photo.id}${variant === 'thumbnail' ? '-thumb' : ''}.jpg"`)
+      if (variant === 'display') res.setHeader('Content-Length', String(photo.displayBytes))
+      await pipeline(stream, res)
     }
-    res.setHeader('Content-Type', photo.contentType)
-    res.setHeader('Content-Disposition', `inline; filename="photo-${photo.id}${variant === 'thumbnail' ? '-thumb' : ''}.jpg"`)
-    if (variant === 'display') res.setHeader('Content-Length', String(photo.displayBytes))
-    await pipeline(stream, res)
-  }
   router.get('/:id/image', allow('org.read'), serve('display'))
   router.get('/:id/thumbnail', allow('org.read'), serve('thumbnail'))
   router.delete('/:id', allow('photos.write'), async (req, res) => {

@@ -13,13 +13,11 @@ export class AppError extends Error {
   }
 }
 
-export const badRequest = (message: string, fields?: Record<string, string>) =>
-  new AppError(400, 'invalid_input', message, fields)
+export const badRequest = (message: string, fields?: Record<string, string>) => new AppError(400, 'invalid_input', message, fields)
 export const unauthenticated = (message = 'Sign in first') => new AppError(401, 'unauthenticated', message)
 export const forbidden = (message = 'Your role does not allow this') => new AppError(403, 'forbidden', message)
 export const notFound = (what = 'Not found') => new AppError(404, 'not_found', what)
-export const conflict = (code: string, message: string, fields?: Record<string, string>) =>
-  new AppError(409, code, message, fields)
+export const conflict = (code: string, message: string, fields?: Record<string, string>) => new AppError(409, code, message, fields)
 
 export function fromZod(error: ZodError, where: 'body' | 'query' | 'params'): AppError {
   const fields: Record<string, string> = {}

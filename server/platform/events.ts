@@ -10,7 +10,15 @@ export type StoredReading = {
 }
 
 /** What the features that seed a new tank's defaults need to know of it. */
-export type CreatedTank = { id: number; organizationId: number; siteId: number; kind: TankKind; stage: TankStage; targets: Targets; heater: { topCm: number } | null }
+export type CreatedTank = {
+  id: number
+  organizationId: number
+  siteId: number
+  kind: TankKind
+  stage: TankStage
+  targets: Targets
+  heater: { topCm: number } | null
+}
 
 /** Everything that happens in-process and that other parts react to. Models import no transport. */
 export type EventMap = {

@@ -12,15 +12,7 @@ export function createLogger(level: string, options: { format?: LogFormat; desti
   const settings = {
     level,
     redact: {
-      paths: [
-        'req.headers.authorization',
-        'req.headers.cookie',
-        '*.password',
-        '*.token',
-        '*.newPassword',
-        '*.currentPassword',
-        '*.access_token',
-      ],
+      paths: ['req.headers.authorization', 'req.headers.cookie', '*.password', '*.token', '*.newPassword', '*.currentPassword', '*.access_token'],
       censor: '[redacted]',
     },
   }

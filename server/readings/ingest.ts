@@ -7,7 +7,11 @@ import { checkReading, type ReadingLimits } from './validate-readings'
 /** The message cannot be read at all (not JSON, wrong envelope): nothing in it was stored. */
 export class MalformedMessageError extends Error {
   /** The part of the message at fault (`body`, `v`, `readings`), for the 400's `fields`. */
-  constructor(message: string, readonly field = 'body', readonly problem = message) {
+  constructor(
+    message: string,
+    readonly field = 'body',
+    readonly problem = message,
+  ) {
     super(message)
   }
 }
@@ -24,7 +28,11 @@ function parseEnvelope(body: unknown) {
   const issue = parsed.error.issues[0]
   const where = issue.path.join('.') || 'body'
   if (issue.path[0] === 'readings' && issue.code === 'too_big') {
-    return new MalformedMessageError(`readings: at most ${MAX_READINGS_PER_MESSAGE} readings per message`, 'readings', `at most ${MAX_READINGS_PER_MESSAGE} readings per message`)
+    return new MalformedMessageError(
+      `readings: at most ${MAX_READINGS_PER_MESSAGE} readings per message`,
+      'readings',
+      `at most ${MAX_READINGS_PER_MESSAGE} readings per message`,
+    )
   }
   return new MalformedMessageError(`${where}: ${issue.message} (expected {"v":1,"readings":[…]})`, where, issue.message)
 }

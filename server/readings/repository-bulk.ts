@@ -64,7 +64,9 @@ export const ROLLUP_BACKUP_TABLES = [
   // every reading once. The other rollups (hours still kept raw, readings_daily) are derived: restore
   // rebuilds them from these rows and the readings (triggers of migration 202612051200).
   {
-    table: 'readings_hourly', hasId: false, order: 'tank_id, metric, hour',
+    table: 'readings_hourly',
+    hasId: false,
+    order: 'tank_id, metric, hour',
     scope: 'tank_id IN (SELECT id FROM tanks WHERE organization_id = :organizationId) AND hour < (SELECT raw_kept_from FROM readings_rollup_state)',
     columns: { tank_id: '->tanks', metric: 'text', hour: 'time', min: 'float', max: 'float', sum: 'float', count: 'int' },
   },

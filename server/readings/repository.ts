@@ -12,10 +12,10 @@ export type CatchUpRow = { tank_id: number; metric: string; time: Date; value: n
 
 /** The tank's newest reading of `metric` after `after`, from any source, or null. */
 export async function newestReadingAfter(sequelize: Sequelize, tankId: number, metric: string, after: Date): Promise<TimedRow | null> {
-  const rows = await sequelize.query<TimedRow>(
-    `SELECT value, time FROM readings WHERE tank_id = $1 AND metric = $2 AND time > $3 ORDER BY time DESC LIMIT 1`,
-    { bind: [tankId, metric, after], type: QueryTypes.SELECT },
-  )
+  const rows = await sequelize.query<TimedRow>(`SELECT value, time FROM readings WHERE tank_id = $1 AND metric = $2 AND time > $3 ORDER BY time DESC LIMIT 1`, {
+    bind: [tankId, metric, after],
+    type: QueryTypes.SELECT,
+  })
   return rows[0] ?? null
 }
 
@@ -52,14 +52,19 @@ export async function windowOfTanks(sequelize: Sequelize, metric: string, tankId
 
 /** One tank's `metric` since `since`, oldest first, at most 5000 (a mail's trend chart). */
 export async function recentValues(sequelize: Sequelize, tankId: number, metric: string, since: Date, transaction?: Transaction): Promise<TimedRow[]> {
-  return sequelize.query<TimedRow>(
-    `SELECT time, value FROM readings WHERE tank_id = $1 AND metric = $2 AND time >= $3 ORDER BY time LIMIT 5000`,
-    { bind: [tankId, metric, since], type: QueryTypes.SELECT, transaction },
-  )
+  return sequelize.query<TimedRow>(`SELECT time, value FROM readings WHERE tank_id = $1 AND metric = $2 AND time >= $3 ORDER BY time LIMIT 5000`, {
+    bind: [tankId, metric, since],
+    type: QueryTypes.SELECT,
+    transaction,
+  })
 }
 
 /** Temperature of these tanks since `since`, as 15-minute means per tank (`t` the bin's start, ISO), oldest first; one row per tank. */
-export async function temperatureTrends(sequelize: Sequelize, tankIds: number[], since: Date): Promise<Array<{ tank_id: number; trend: Array<{ t: string; value: number }> }>> {
+export async function temperatureTrends(
+  sequelize: Sequelize,
+  tankIds: number[],
+  since: Date,
+): Promise<Array<{ tank_id: number; trend: Array<{ t: string; value: number }> }>> {
   return sequelize.query<{ tank_id: number; trend: Array<{ t: string; value: number }> }>(
     `SELECT tank_id, json_agg(json_build_object(
               't', to_char(t AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"'),

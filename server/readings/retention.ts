@@ -70,8 +70,7 @@ export const retentionService = perContext((ctx: AppContext) => {
     async rollUpAndPrune(options: RetentionOptions): Promise<RetentionResult> {
       if (!(options.rawRetentionDays > 0)) throw new Error('rawRetentionDays must be above zero')
       return ctx.sequelize.transaction(async (transaction) => {
-        const select = <T extends object>(sql: string, bind: unknown[] = []) =>
-          ctx.sequelize.query<T>(sql, { bind, type: QueryTypes.SELECT, transaction })
+        const select = <T extends object>(sql: string, bind: unknown[] = []) => ctx.sequelize.query<T>(sql, { bind, type: QueryTypes.SELECT, transaction })
         const [state] = await select<{ rolled_up_before: Date }>(LOCK_STATE_SQL)
         const [{ settled }] = await select<{ settled: Date }>(SETTLED_BEFORE_SQL)
         const rolledBefore = state.rolled_up_before.getTime()

@@ -1,13 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import { METRIC_KEYS, METRICS, type MetricKey } from '@shared/metrics/registry'
-import type {
-  LatestResponse,
-  ReadingSource,
-  SeriesBucket,
-  SeriesQuery,
-  SeriesResponse,
-  SiteLatestResponse,
-} from '@shared/schemas/series'
+import type { LatestResponse, ReadingSource, SeriesBucket, SeriesQuery, SeriesResponse, SiteLatestResponse } from '@shared/schemas/series'
 import type { AppContext } from '../context'
 import { perContext } from '../platform/per-context'
 
@@ -23,10 +16,26 @@ const DAY = 24 * HOUR
 
 /** Steps a chart axis reads well at, in seconds; past the list, weeks keep doubling. */
 export const NICE_STEPS = [
-  1, 2, 5, 10, 15, 30,
-  60, 2 * 60, 5 * 60, 10 * 60, 15 * 60, 30 * 60,
-  HOUR, 2 * HOUR, 3 * HOUR, 6 * HOUR, 12 * HOUR,
-  DAY, 2 * DAY, 7 * DAY,
+  1,
+  2,
+  5,
+  10,
+  15,
+  30,
+  60,
+  2 * 60,
+  5 * 60,
+  10 * 60,
+  15 * 60,
+  30 * 60,
+  HOUR,
+  2 * HOUR,
+  3 * HOUR,
+  6 * HOUR,
+  12 * HOUR,
+  DAY,
+  2 * DAY,
+  7 * DAY,
 ]
 
 function* stepsFrom(minimumSeconds: number) {
@@ -70,8 +79,7 @@ export function readPlan(from: number, to: number, stepSeconds: number, state: {
   const dayMs = DAY * 1000
   if (stepSeconds % HOUR !== 0) return { raw: [span(from, to), NONE], hourly: [NONE, NONE], daily: NONE }
   const hourStart = from >= rawKeptFrom ? ceilTo(from, hourMs) : floorTo(from, hourMs)
-  const hourEnd =
-    to >= rolledUpBefore ? rolledUpBefore : floorTo(to, hourMs) >= rawKeptFrom ? floorTo(to, hourMs) : ceilTo(to, hourMs)
+  const hourEnd = to >= rolledUpBefore ? rolledUpBefore : floorTo(to, hourMs) >= rawKeptFrom ? floorTo(to, hourMs) : ceilTo(to, hourMs)
   if (hourStart >= hourEnd) return { raw: [span(from, to), NONE], hourly: [NONE, NONE], daily: NONE }
   const raw: [Span, Span] = [span(from, hourStart), span(hourEnd, to)]
   if (stepSeconds % DAY === 0) {
@@ -157,8 +165,7 @@ function latestByMetric(rows: LatestRow[]): LatestResponse {
 }
 
 export const seriesService = perContext((ctx: AppContext) => {
-  const select = <T extends object>(sql: string, bind: unknown[]) =>
-    ctx.sequelize.query<T>(sql, { bind, type: QueryTypes.SELECT })
+  const select = <T extends object>(sql: string, bind: unknown[]) => ctx.sequelize.query<T>(sql, { bind, type: QueryTypes.SELECT })
 
   async function latestFor(tankIds: number[]): Promise<LatestRow[]> {
     if (!tankIds.length) return []

@@ -8,7 +8,13 @@ const ACCENT = '#0b6e99'
 
 /** A file name that is safe anywhere: the subject's name reduced to letters, digits and dashes. */
 export function reportFileName(report: Report): string {
-  const slug = report.subject.name.toLowerCase().normalize('NFKD').replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 60) || report.subject.kind
+  const slug =
+    report.subject.name
+      .toLowerCase()
+      .normalize('NFKD')
+      .replace(/[^a-z0-9]+/g, '-')
+      .replace(/^-|-$/g, '')
+      .slice(0, 60) || report.subject.kind
   return `tankwarden-report-${slug}-${report.period.kind}-${report.period.startDate}.pdf`
 }
 
@@ -31,7 +37,16 @@ export function reportMail(report: Report, pdf: Buffer, link: string): RenderedM
   const lead = `The ${report.period.kind === 'week' ? 'weekly' : 'monthly'} report for ${report.subject.name} (${report.subject.siteName}), ${report.period.label}, is attached as a PDF.`
   return {
     subject,
-    text: [lead, '', ...lines.map(([name, value]) => `${name}: ${value}`), ...(ackNote ? ['', ackNote] : []), '', `Open it in Tankwarden: ${link}`, '', READINGS_ARE_AIDS].join('\n'),
+    text: [
+      lead,
+      '',
+      ...lines.map(([name, value]) => `${name}: ${value}`),
+      ...(ackNote ? ['', ackNote] : []),
+      '',
+      `Open it in Tankwarden: ${link}`,
+      '',
+      READINGS_ARE_AIDS,
+    ].join('\n'),
     html: layout({
       heading: subject,
       accent: ACCENT,

@@ -61,13 +61,21 @@ function chart(doc: Doc, m: ReportMetric, report: Report) {
   if (m.band && (m.band.min !== null || m.band.max !== null)) {
     const top = py(Math.min(hi, m.band.max ?? hi))
     const bottom = py(Math.max(lo, m.band.min ?? lo))
-    doc.rect(x0, top, width, bottom - top).fillColor(COLOURS.band).fill()
+    doc
+      .rect(x0, top, width, bottom - top)
+      .fillColor(COLOURS.band)
+      .fill()
   }
   // Day boundaries every 24 h from the start (a month gets one every 7 days).
   const step = report.period.kind === 'week' ? 86_400_000 : 7 * 86_400_000
   doc.fontSize(7).font('body').fillColor(COLOURS.muted)
   for (let t = from; t < to; t += step) {
-    doc.moveTo(px(t), y0).lineTo(px(t), y0 + height).strokeColor(COLOURS.grid).lineWidth(0.4).stroke()
+    doc
+      .moveTo(px(t), y0)
+      .lineTo(px(t), y0 + height)
+      .strokeColor(COLOURS.grid)
+      .lineWidth(0.4)
+      .stroke()
     doc.text(dayLabel(t, report.subject.timeZone), px(t) + 2, y0 + height + 2, { lineBreak: false })
   }
   let drawing = false
@@ -131,14 +139,29 @@ function tankPages(doc: Doc, tank: TankReport, report: Report) {
   for (const m of tank.metrics) metricBlock(doc, m, report)
 
   const s = tank.incidentSummary
-  const incidentLines = tank.incidents.map((i) =>
-    `${moment(i.openedAt, zone)} · ${i.severity} · ${i.title} · acknowledged after ${formatSpan(i.timeToAcknowledgeMs)} · ${i.resolvedAt ? `resolved after ${formatSpan(i.timeToResolveMs)}` : 'still open'}`)
-  const incidentHead = s.opened ? [`${s.opened} opened, ${s.stillOpen} still open · mean time to acknowledge ${formatSpan(s.meanTimeToAcknowledgeMs)} · to resolve ${formatSpan(s.meanTimeToResolveMs)}`] : []
+  const incidentLines = tank.incidents.map(
+    (i) =>
+      `${moment(i.openedAt, zone)} · ${i.severity} · ${i.title} · acknowledged after ${formatSpan(i.timeToAcknowledgeMs)} · ${i.resolvedAt ? `resolved after ${formatSpan(i.timeToResolveMs)}` : 'still open'}`,
+  )
+  const incidentHead = s.opened
+    ? [
+        `${s.opened} opened, ${s.stillOpen} still open · mean time to acknowledge ${formatSpan(s.meanTimeToAcknowledgeMs)} · to resolve ${formatSpan(s.meanTimeToResolveMs)}`,
+      ]
+    : []
   section(doc, 'Incidents', [...incidentHead, ...capped(incidentLines)], 'No incidents opened in this period.')
 
   const careHead = tank.care.tasks.length ? [`${tank.care.done} done of ${tank.care.due} due`] : []
   section(doc, 'Care tasks', [...careHead, ...capped(tank.care.tasks.map((t) => `${t.title}: done ${t.done} of ${t.due} due`))], 'No care tasks scheduled.')
-  section(doc, 'Water changes', tank.water.changes ? [`${tank.water.litres.toFixed(1)} L changed in ${tank.water.changes} water change${tank.water.changes === 1 ? '' : 's'} (${formatPercent((tank.water.litres / tank.volumeLitres) * 100)} of the tank volume in total)`] : [], 'No water changes recorded.')
+  section(
+    doc,
+    'Water changes',
+    tank.water.changes
+      ? [
+          `${tank.water.litres.toFixed(1)} L changed in ${tank.water.changes} water change${tank.water.changes === 1 ? '' : 's'} (${formatPercent((tank.water.litres / tank.volumeLitres) * 100)} of the tank volume in total)`,
+        ]
+      : [],
+    'No water changes recorded.',
+  )
   const stock = tank.livestock
   const stockHead = stock.changes.length ? [`added ${stock.added} · removed ${stock.removed} · lost ${stock.lost}`] : []
   section(doc, 'Livestock', [...stockHead, ...capped(stock.changes.map((c) => `${moment(c.at, zone)} · ${c.text}`))], 'No livestock changes.')
@@ -147,7 +170,12 @@ function tankPages(doc: Doc, tank: TankReport, report: Report) {
 
 /** An A4 document with the report fonts; `done` resolves to the bytes once `doc.end()` is called. */
 export function openDocument(title: string, createdAt: Date, options: { compress?: boolean } = {}) {
-  const doc = new PDFDocument({ size: 'A4', margin: MARGIN, compress: options.compress ?? true, info: { Title: title, Author: 'Tankwarden', CreationDate: createdAt } })
+  const doc = new PDFDocument({
+    size: 'A4',
+    margin: MARGIN,
+    compress: options.compress ?? true,
+    info: { Title: title, Author: 'Tankwarden', CreationDate: createdAt },
+  })
   doc.registerFont('body', FONTS.body)
   doc.registerFont('bold', FONTS.bold)
   doc.registerFont('math', FONTS.math)
@@ -180,7 +208,12 @@ export async function renderReportPdf(report: Report, options: { compress?: bool
   doc.moveDown(0.4)
   ensureRoom(doc, 40)
   doc.fillColor(COLOURS.muted)
-  write(doc, `Time in band counts only time covered by readings; a stretch of more than three usual reading intervals (at most ${formatSpan(REPORT_MAX_GAP_MS)}) without a reading is a gap and counts nowhere. ${READINGS_ARE_AIDS}`, 'body', 7.5)
+  write(
+    doc,
+    `Time in band counts only time covered by readings; a stretch of more than three usual reading intervals (at most ${formatSpan(REPORT_MAX_GAP_MS)}) without a reading is a gap and counts nowhere. ${READINGS_ARE_AIDS}`,
+    'body',
+    7.5,
+  )
   doc.end()
   return done
 }

@@ -120,7 +120,10 @@ async function waterSection(ctx: AppContext, tankId: number, from: number, to: n
 async function livestockSection(ctx: AppContext, tankId: number, from: number, to: number) {
   const entries = await ctx.models.CareLogEntry.findAll({
     where: { tankId, kind: { [Op.in]: ['livestock_in', 'livestock_out'] }, at: { [Op.gte]: new Date(from), [Op.lt]: new Date(to) } },
-    order: [['at', 'ASC'], ['id', 'ASC']],
+    order: [
+      ['at', 'ASC'],
+      ['id', 'ASC'],
+    ],
   })
   const changes: ReportLivestockChange[] = entries.map((e) => {
     const values = e.values as Record<string, unknown>

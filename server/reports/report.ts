@@ -26,9 +26,10 @@ export async function buildReport(ctx: AppContext, subject: ReportSubject, perio
   for (const tank of tanks) reports.push(await tankReport(ctx, tank, period, to))
   const { site } = subject
   return {
-    subject: subject.kind === 'tank'
-      ? { kind: 'tank', id: subject.tank.id, name: subject.tank.name, siteId: site.id, siteName: site.name, timeZone: site.timeZone }
-      : { kind: 'site', id: site.id, name: site.name, siteId: site.id, siteName: site.name, timeZone: site.timeZone },
+    subject:
+      subject.kind === 'tank'
+        ? { kind: 'tank', id: subject.tank.id, name: subject.tank.name, siteId: site.id, siteName: site.name, timeZone: site.timeZone }
+        : { kind: 'site', id: site.id, name: site.name, siteId: site.id, siteName: site.name, timeZone: site.timeZone },
     period: {
       kind: period.kind,
       label: period.label,
@@ -55,7 +56,13 @@ export async function loadSubject(ctx: AppContext, target: { tankId: number | nu
   }
   const site = target.siteId !== null ? await models.Site.findByPk(target.siteId) : null
   if (!site || site.archivedAt) return null
-  const tanks = await models.Tank.findAll({ where: { siteId: site.id, archivedAt: null }, order: [['sortOrder', 'ASC'], ['name', 'ASC']] })
+  const tanks = await models.Tank.findAll({
+    where: { siteId: site.id, archivedAt: null },
+    order: [
+      ['sortOrder', 'ASC'],
+      ['name', 'ASC'],
+    ],
+  })
   return { kind: 'site', site, tanks }
 }
 

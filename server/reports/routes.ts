@@ -23,7 +23,10 @@ export function reportRoutes(ctx: AppContext, kind: 'tank' | 'site') {
   router.get('/:id/report/pdf', allow('reports.read'), async (req, res: Response) => {
     const report = await build(req)
     const pdf = await renderReportPdf(report)
-    res.type('application/pdf').set('Content-Disposition', `attachment; filename="${reportFileName(report)}"`).send(pdf)
+    res
+      .type('application/pdf')
+      .set('Content-Disposition', `attachment; filename="${reportFileName(report)}"`)
+      .send(pdf)
   })
   return router
 }

@@ -34,7 +34,10 @@ function canSee(user: User, siteId: number) {
 /** Addresses a schedule sends to: its own plus active users of the organization who may see the site. */
 export async function recipientsOf(ctx: AppContext, schedule: ReportSchedule, siteId: number): Promise<string[]> {
   const users = schedule.userIds.length
-    ? await ctx.models.User.findAll({ where: { id: { [Op.in]: schedule.userIds }, organizationId: schedule.organizationId, active: true }, include: [{ association: 'sites', attributes: ['id'] }] })
+    ? await ctx.models.User.findAll({
+        where: { id: { [Op.in]: schedule.userIds }, organizationId: schedule.organizationId, active: true },
+        include: [{ association: 'sites', attributes: ['id'] }],
+      })
     : []
   const all = [...schedule.emails, ...users.filter((u) => canSee(u, siteId)).map((u) => u.email)]
   return [...new Set(all.map((a) => a.trim().toLowerCase()))]
@@ -56,7 +59,12 @@ export function reportLink(ctx: AppContext, target: { tankId: number | null; sit
  * the period sent in the same transaction, and only if no one else has: a period goes out once
  * even with several instances. Answers how many mails were queued.
  */
-export async function sendScheduledReport(ctx: AppContext, schedule: ReportSchedule, period: ReportPeriod, options: { claim: boolean; dedupeSuffix: string; now?: Date }): Promise<number> {
+export async function sendScheduledReport(
+  ctx: AppContext,
+  schedule: ReportSchedule,
+  period: ReportPeriod,
+  options: { claim: boolean; dedupeSuffix: string; now?: Date },
+): Promise<number> {
   const subject = await loadSubject(ctx, schedule)
   if (!subject) return 0
   const report = await buildReport(ctx, subject, period, options.now)
@@ -73,10 +81,17 @@ export async function sendScheduledReport(ctx: AppContext, schedule: ReportSched
     }
     let queued = 0
     for (const to of recipients) {
-      const id = await enqueueMail(ctx, {
-        kind: 'report', to, ...mail, organizationId: schedule.organizationId,
-        dedupeKey: `report:${schedule.id}:${period.kind}:${period.startDate}:${options.dedupeSuffix}:${to}`,
-      }, { transaction })
+      const id = await enqueueMail(
+        ctx,
+        {
+          kind: 'report',
+          to,
+          ...mail,
+          organizationId: schedule.organizationId,
+          dedupeKey: `report:${schedule.id}:${period.kind}:${period.startDate}:${options.dedupeSuffix}:${to}`,
+        },
+        { transaction },
+      )
       if (id !== null) queued++
     }
     return queued
@@ -85,10 +100,16 @@ export async function sendScheduledReport(ctx: AppContext, schedule: ReportSched
 
 function present(s: ReportSchedule, names: Map<string, string>): PublicSchedule {
   return {
-    id: s.id, tankId: s.tankId, siteId: s.siteId,
+    id: s.id,
+    tankId: s.tankId,
+    siteId: s.siteId,
     subjectName: names.get(s.tankId !== null ? `t${s.tankId}` : `s${s.siteId}`) ?? '',
-    period: s.period, emails: s.emails, userIds: s.userIds, enabled: s.enabled,
-    lastSentPeriod: s.lastSentPeriod, createdAt: s.createdAt.toISOString(),
+    period: s.period,
+    emails: s.emails,
+    userIds: s.userIds,
+    enabled: s.enabled,
+    lastSentPeriod: s.lastSentPeriod,
+    createdAt: s.createdAt.toISOString(),
   }
 }
 
@@ -112,10 +133,16 @@ export const reportSchedulesService = perContext((ctx: AppContext) => {
 
   async function assertUsers(actor: UserActor, userIds: number[], siteId: number) {
     if (!userIds.length) return
-    const users = await models.User.findAll({ where: { id: { [Op.in]: userIds }, organizationId: actor.organizationId, active: true }, include: [{ association: 'sites', attributes: ['id'] }] })
+    const users = await models.User.findAll({
+      where: { id: { [Op.in]: userIds }, organizationId: actor.organizationId, active: true },
+      include: [{ association: 'sites', attributes: ['id'] }],
+    })
     const usable = new Set(users.filter((u) => canSee(u, siteId)).map((u) => u.id))
     const bad = userIds.filter((id) => !usable.has(id))
-    if (bad.length) throw badRequest(`userIds: ${bad.join(', ')} cannot receive this report (unknown, inactive, or without access to the site)`, { userIds: 'unknown, inactive, or without access to the site' })
+    if (bad.length)
+      throw badRequest(`userIds: ${bad.join(', ')} cannot receive this report (unknown, inactive, or without access to the site)`, {
+        userIds: 'unknown, inactive, or without access to the site',
+      })
   }
 
   return {
@@ -127,14 +154,23 @@ export const reportSchedulesService = perContext((ctx: AppContext) => {
 
     async create(actor: UserActor, input: ReportScheduleInput, now = new Date()) {
       const subject = await reports.subjectFor(actor, input.tankId !== null ? 'tank' : 'site', (input.tankId ?? input.siteId)!).catch(() => {
-        throw badRequest(input.tankId !== null ? 'tankId: no such tank' : 'siteId: no such site', input.tankId !== null ? { tankId: 'no such tank' } : { siteId: 'no such site' })
+        throw badRequest(
+          input.tankId !== null ? 'tankId: no such tank' : 'siteId: no such site',
+          input.tankId !== null ? { tankId: 'no such tank' } : { siteId: 'no such site' },
+        )
       })
       await assertUsers(actor, input.userIds, subject.site.id)
       // A schedule made after this period's send time starts with the next period, not a late send.
       const due = periodDue(input.period, subject.site.timeZone, now.getTime())
       const row = await models.ReportSchedule.create({
-        organizationId: actor.organizationId, tankId: input.tankId, siteId: input.siteId, period: input.period,
-        emails: input.emails, userIds: input.userIds, enabled: input.enabled, createdBy: actor.userId,
+        organizationId: actor.organizationId,
+        tankId: input.tankId,
+        siteId: input.siteId,
+        period: input.period,
+        emails: input.emails,
+        userIds: input.userIds,
+        enabled: input.enabled,
+        createdBy: actor.userId,
         lastSentPeriod: due?.startDate ?? null,
       })
       return present(row, await names([row]))

@@ -2,7 +2,15 @@ import { Op, QueryTypes } from 'sequelize'
 import { localToInstant, onDutyAt, parseLocalDate, shiftsInWeek } from '@shared/roster'
 import type { DutySpan, RosterOverride, WeeklyShift } from '@shared/roster'
 import type {
-  DutyContact, OnDutyResponse, OverrideInput, PublicOverride, PublicShift, RosterBackupResponse, RosterWeekResponse, RosterWeekSpan, ShiftInput,
+  DutyContact,
+  OnDutyResponse,
+  OverrideInput,
+  PublicOverride,
+  PublicShift,
+  RosterBackupResponse,
+  RosterWeekResponse,
+  RosterWeekSpan,
+  ShiftInput,
 } from '@shared/schemas/roster'
 import type { Actor, UserActor } from '../access/actor'
 import type { AppContext } from '../context'
@@ -143,11 +151,24 @@ export const rosterService = perContext((ctx: AppContext) => {
   }
 
   const publicShift = (s: DutyShift, names: Map<number, string>): PublicShift => ({
-    id: s.id, siteId: s.siteId, userId: s.userId, userName: names.get(s.userId) ?? '', weekday: s.weekday, start: s.startTime, end: s.endTime,
+    id: s.id,
+    siteId: s.siteId,
+    userId: s.userId,
+    userName: names.get(s.userId) ?? '',
+    weekday: s.weekday,
+    start: s.startTime,
+    end: s.endTime,
   })
   const publicOverride = (o: DutyOverride, names: Map<number, string>): PublicOverride => ({
-    id: o.id, siteId: o.siteId, userId: o.userId, userName: names.get(o.userId) ?? '', kind: o.kind,
-    startsAt: o.startsAt.toISOString(), endsAt: o.endsAt.toISOString(), note: o.note, createdBy: o.createdBy,
+    id: o.id,
+    siteId: o.siteId,
+    userId: o.userId,
+    userName: names.get(o.userId) ?? '',
+    kind: o.kind,
+    startsAt: o.startsAt.toISOString(),
+    endsAt: o.endsAt.toISOString(),
+    note: o.note,
+    createdBy: o.createdBy,
   })
 
   async function findShift(actor: Actor, siteId: number, shiftId: number) {
@@ -168,7 +189,14 @@ export const rosterService = perContext((ctx: AppContext) => {
 
     async listShifts(actor: Actor, siteId: number): Promise<PublicShift[]> {
       const site = await sites.find(actor, siteId)
-      const shifts = await models.DutyShift.findAll({ where: { siteId: site.id }, order: [['weekday', 'ASC'], ['startTime', 'ASC'], ['id', 'ASC']] })
+      const shifts = await models.DutyShift.findAll({
+        where: { siteId: site.id },
+        order: [
+          ['weekday', 'ASC'],
+          ['startTime', 'ASC'],
+          ['id', 'ASC'],
+        ],
+      })
       const names = await namesOf(shifts.map((s) => s.userId))
       return shifts.map((s) => publicShift(s, names))
     },
@@ -177,7 +205,12 @@ export const rosterService = perContext((ctx: AppContext) => {
       const site = await sites.find(actor, siteId)
       const user = await assertCanBeOnDuty(site.organizationId, input.userId)
       const shift = await models.DutyShift.create({
-        organizationId: site.organizationId, siteId: site.id, userId: user.id, weekday: input.weekday, startTime: input.start, endTime: input.end,
+        organizationId: site.organizationId,
+        siteId: site.id,
+        userId: user.id,
+        weekday: input.weekday,
+        startTime: input.start,
+        endTime: input.end,
       })
       return publicShift(shift, new Map([[user.id, user.name]]))
     },
@@ -204,7 +237,10 @@ export const rosterService = perContext((ctx: AppContext) => {
       const from = range.from ? new Date(range.from) : new Date()
       const overrides = await models.DutyOverride.findAll({
         where: { siteId: site.id, endsAt: { [Op.gt]: from }, ...(range.to ? { startsAt: { [Op.lt]: new Date(range.to) } } : {}) },
-        order: [['startsAt', 'ASC'], ['id', 'ASC']],
+        order: [
+          ['startsAt', 'ASC'],
+          ['id', 'ASC'],
+        ],
       })
       const names = await namesOf(overrides.map((o) => o.userId))
       return overrides.map((o) => publicOverride(o, names))
@@ -214,8 +250,14 @@ export const rosterService = perContext((ctx: AppContext) => {
       const site = await sites.find(actor, siteId)
       const user = await assertCanBeOnDuty(site.organizationId, input.userId)
       const override = await models.DutyOverride.create({
-        organizationId: site.organizationId, siteId: site.id, userId: user.id, kind: input.kind,
-        startsAt: new Date(input.startsAt), endsAt: new Date(input.endsAt), note: input.note, createdBy: actor.userId,
+        organizationId: site.organizationId,
+        siteId: site.id,
+        userId: user.id,
+        kind: input.kind,
+        startsAt: new Date(input.startsAt),
+        endsAt: new Date(input.endsAt),
+        note: input.note,
+        createdBy: actor.userId,
       })
       return publicOverride(override, new Map([[user.id, user.name]]))
     },
@@ -257,7 +299,12 @@ export const rosterService = perContext((ctx: AppContext) => {
       const roster = await visibleRoster(actor, siteId, around - 3 * DAY_MS, around + 10 * DAY_MS)
       const { people, pattern, overrides } = await dutyPicture(ctx, roster)
       const week = weekBounds(roster.timeZone, weekStart)
-      const fromPattern = shiftsInWeek(pattern, overrides.filter((o) => o.kind === 'remove'), roster.timeZone, weekStart)
+      const fromPattern = shiftsInWeek(
+        pattern,
+        overrides.filter((o) => o.kind === 'remove'),
+        roster.timeZone,
+        weekStart,
+      )
       const fromOverrides = shiftsInWeek(pattern, overrides, roster.timeZone, weekStart)
         .flatMap((span) => uncoveredParts(span, fromPattern))
         .filter((span) => span.endsAt > week.startsAt && span.startsAt < week.endsAt)

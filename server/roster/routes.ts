@@ -1,8 +1,15 @@
 import { Router, type Request } from 'express'
 import { idParamsSchema } from '@shared/schemas/common'
 import {
-  backupInputSchema, onDutyQuerySchema, overrideInputSchema, overrideListQuerySchema, overrideParamsSchema, rosterWeekQuerySchema,
-  shiftInputSchema, shiftParamsSchema, shiftUpdateSchema,
+  backupInputSchema,
+  onDutyQuerySchema,
+  overrideInputSchema,
+  overrideListQuerySchema,
+  overrideParamsSchema,
+  rosterWeekQuerySchema,
+  shiftInputSchema,
+  shiftParamsSchema,
+  shiftUpdateSchema,
 } from '@shared/schemas/roster'
 import { actorOf, allow } from '../access/middleware'
 import type { AppContext } from '../context'

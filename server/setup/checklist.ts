@@ -11,7 +11,16 @@ export type Checklist = {
   firstTankId: number | null
 }
 
-type Facts = { tanks: number; devices: number; shifts: number; people: number; walls: number; firstSiteId: number | null; firstTankId: number | null; dismissed: string[] }
+type Facts = {
+  tanks: number
+  devices: number
+  shifts: number
+  people: number
+  walls: number
+  firstSiteId: number | null
+  firstTankId: number | null
+  dismissed: string[]
+}
 
 /** The first steps after setup, each done when the data says so (a device exists, …), or hidden by the owner. */
 export function checklistService(ctx: AppContext) {

@@ -19,8 +19,7 @@ export function setupRouter(ctx: AppContext, requireUser: ReturnType<typeof auth
    * TRUST_PROXY does not name carries the proxy's address, which may be loopback: it is no
    * proof of being on this machine, so it counts as from elsewhere.
    */
-  const callerAddress = (req: Request) =>
-    !ctx.config.trustProxy && (req.headers['x-forwarded-for'] || req.headers.forwarded) ? undefined : req.ip
+  const callerAddress = (req: Request) => (!ctx.config.trustProxy && (req.headers['x-forwarded-for'] || req.headers.forwarded) ? undefined : req.ip)
 
   // Guessing the setup code: a few tries per address and window, like sign-in.
   const limiter = rateLimit({

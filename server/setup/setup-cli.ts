@@ -46,7 +46,14 @@ const parsed = setupInputSchema.safeParse({
   timeZone: values['time-zone'] ?? Intl.DateTimeFormat().resolvedOptions().timeZone,
 })
 if (!parsed.success) {
-  const flags: Record<string, string> = { businessName: '--business', ownerName: '--owner', email: '--email', password: '--password-file', siteName: '--site', timeZone: '--time-zone' }
+  const flags: Record<string, string> = {
+    businessName: '--business',
+    ownerName: '--owner',
+    email: '--email',
+    password: '--password-file',
+    siteName: '--site',
+    timeZone: '--time-zone',
+  }
   fail(parsed.error.issues.map((i) => `${flags[String(i.path[0])] ?? i.path.join('.')}: ${i.message}`).join('\n') + `\n${USAGE}`)
 }
 

@@ -56,10 +56,7 @@ export function setupService(ctx: AppContext) {
       if ((await models.Organization.count({ transaction })) > 0) throw alreadySetUp()
       const org = await models.Organization.create({ name: input.businessName }, { transaction })
       await models.Site.create({ organizationId: org.id, name: input.siteName, timeZone: input.timeZone }, { transaction })
-      return models.User.create(
-        { organizationId: org.id, email: input.email, name: input.ownerName, role: 'owner', passwordHash },
-        { transaction },
-      )
+      return models.User.create({ organizationId: org.id, email: input.email, name: input.ownerName, role: 'owner', passwordHash }, { transaction })
     })
     ctx.logger.info({ organizationId: owner.organizationId }, 'installation set up')
     return owner
@@ -77,7 +74,9 @@ export function setupService(ctx: AppContext) {
     async run(input: SetupInput, callerAddress: string | undefined): Promise<SessionInfo> {
       if (!(await isNeeded())) throw alreadySetUp()
       if (!isLoopback(callerAddress) && !codeMatches(ctx, input.code)) {
-        throw new AppError(403, 'setup_code', 'From another machine, enter the setup code the server printed in its terminal', { code: 'not the printed setup code' })
+        throw new AppError(403, 'setup_code', 'From another machine, enter the setup code the server printed in its terminal', {
+          code: 'not the printed setup code',
+        })
       }
       return authService(ctx).openSession(await createBusiness(input))
     },

@@ -21,8 +21,12 @@ const LIGHT_ON_LUX = 50
 
 function presentCredential(c: WallCredential): PublicWallCredential {
   return {
-    id: c.id, name: c.name, siteId: c.siteId, createdAt: c.createdAt.toISOString(),
-    lastUsedAt: c.lastUsedAt?.toISOString() ?? null, revokedAt: c.revokedAt?.toISOString() ?? null,
+    id: c.id,
+    name: c.name,
+    siteId: c.siteId,
+    createdAt: c.createdAt.toISOString(),
+    lastUsedAt: c.lastUsedAt?.toISOString() ?? null,
+    revokedAt: c.revokedAt?.toISOString() ?? null,
   }
 }
 
@@ -46,22 +50,42 @@ export const wallService = perContext((ctx: AppContext) => {
     async get(actor: Actor, siteId: number): Promise<WallResponse> {
       const site = await visibleSite(actor, siteId)
       const now = Date.now()
-      const tanks = await models.Tank.findAll({ where: { siteId, archivedAt: null }, order: [['sortOrder', 'ASC'], ['name', 'ASC']] })
+      const tanks = await models.Tank.findAll({
+        where: { siteId, archivedAt: null },
+        order: [
+          ['sortOrder', 'ASC'],
+          ['name', 'ASC'],
+        ],
+      })
       const ids = tanks.map((t) => t.id)
       const [statuses, trend, snoozes, duty, care, settling, windows, siteIncidents] = await Promise.all([
         tankStatuses(ctx, tanks, now),
         trends(ids, now),
-        models.Snooze.findAll({ where: { tankId: ids, cancelledAt: null, [Op.or]: [{ endsAt: { [Op.gt]: new Date(now) } }, { repeatUntil: { [Op.gt]: new Date(now) } }] } }),
+        models.Snooze.findAll({
+          where: { tankId: ids, cancelledAt: null, [Op.or]: [{ endsAt: { [Op.gt]: new Date(now) } }, { repeatUntil: { [Op.gt]: new Date(now) } }] },
+        }),
         whoIsOnDuty(ctx, siteId, new Date(now)),
         careDueCounts(ctx, { siteIds: [siteId] }, new Date(now)),
         models.Incident.findAll({ where: { tankId: ids, state: 'resolved', flapCount: { [Op.gt]: 0 }, settleUntil: { [Op.gt]: new Date(now) } } }),
-        models.MaintenanceWindow.findAll({ where: { siteId, ruleId: null, cancelledAt: null, [Op.or]: [{ endsAt: null }, { endsAt: { [Op.gt]: new Date(now) } }] } }),
+        models.MaintenanceWindow.findAll({
+          where: { siteId, ruleId: null, cancelledAt: null, [Op.or]: [{ endsAt: null }, { endsAt: { [Op.gt]: new Date(now) } }] },
+        }),
         models.SiteIncident.findAll({ where: { siteId, state: { [Op.ne]: 'resolved' } }, order: [['openedAt', 'DESC']] }),
       ])
       const maintenanceOf = (tankId: number) => {
         for (const w of windows) {
           if (w.tankId !== null && w.tankId !== tankId) continue
-          const span = occurrenceAt({ startsAt: w.startsAt?.getTime(), endsAt: w.endsAt?.getTime(), weekday: w.weekday, startMinute: w.startMinute, durationMinutes: w.durationMinutes }, now, site.timeZone)
+          const span = occurrenceAt(
+            {
+              startsAt: w.startsAt?.getTime(),
+              endsAt: w.endsAt?.getTime(),
+              weekday: w.weekday,
+              startMinute: w.startMinute,
+              durationMinutes: w.durationMinutes,
+            },
+            now,
+            site.timeZone,
+          )
           if (span) return { until: new Date(span[1]).toISOString(), reason: w.reason }
         }
         return null
@@ -71,15 +95,38 @@ export const wallService = perContext((ctx: AppContext) => {
         const { state, stateReasons, latest: metrics, openIncidents: incidents } = statuses.get(tank.id)!
         const worst = [...incidents].sort((a, b) => (a.severity === b.severity ? 0 : a.severity === 'alarm' ? -1 : 1))[0]
         const snooze = snoozes.find((s) => s.tankId === tank.id && snoozeCovers(s, now))
-        const times = Object.values(metrics).map((m) => m?.time).filter(Boolean) as string[]
+        const times = Object.values(metrics)
+          .map((m) => m?.time)
+          .filter(Boolean) as string[]
         const light = metrics.light
         const flapper = [...incidents, ...settling.filter((i) => i.tankId === tank.id)].find((i) => i.flapCount > 0)
         const maintenance = maintenanceOf(tank.id)
         return {
-          id: tank.id, name: tank.name, kind: tank.kind, stage: tank.stage, sortOrder: tank.sortOrder, volumeLitres: tank.volumeLitres, heightCm: tank.dimensions?.heightCm ?? null,
-          heater: tank.heater, lightSchedule: tank.lightSchedule, targets: tank.targets, latest: metrics,
-          trend: trend.get(tank.id) ?? [], state, stateReasons,
-          openIncident: worst ? { id: worst.id, title: worst.title, severity: worst.severity, openedAt: worst.openedAt, state: worst.state, maintenance: worst.maintenance, siteIncidentId: worst.siteIncidentId } : null,
+          id: tank.id,
+          name: tank.name,
+          kind: tank.kind,
+          stage: tank.stage,
+          sortOrder: tank.sortOrder,
+          volumeLitres: tank.volumeLitres,
+          heightCm: tank.dimensions?.heightCm ?? null,
+          heater: tank.heater,
+          lightSchedule: tank.lightSchedule,
+          targets: tank.targets,
+          latest: metrics,
+          trend: trend.get(tank.id) ?? [],
+          state,
+          stateReasons,
+          openIncident: worst
+            ? {
+                id: worst.id,
+                title: worst.title,
+                severity: worst.severity,
+                openedAt: worst.openedAt,
+                state: worst.state,
+                maintenance: worst.maintenance,
+                siteIncidentId: worst.siteIncidentId,
+              }
+            : null,
           flapping: flapper ? { count: flapper.flapCount, title: flapper.title } : null,
           maintenanceUntil: maintenance?.until ?? null,
           maintenanceReason: maintenance?.reason ?? null,
@@ -100,7 +147,10 @@ export const wallService = perContext((ctx: AppContext) => {
         backupContact: duty.backup ? { userId: duty.backup.userId, name: duty.backup.name } : null,
         openIncidents: open.length,
         siteIncidents: siteIncidents.map((si) => ({
-          id: si.id, title: si.title, severity: si.severity, state: si.state === 'acknowledged' ? 'acknowledged' : 'open',
+          id: si.id,
+          title: si.title,
+          severity: si.severity,
+          state: si.state === 'acknowledged' ? 'acknowledged' : 'open',
           tanks: new Set(open.filter((i) => i.siteIncidentId === si.id).map((i) => i.tankId)).size,
         })),
         overdueCareTasks: care.bySite.get(siteId)?.overdue ?? 0,

@@ -14,7 +14,11 @@ export async function duplicateTank(ctx: AppContext, actor: UserActor, id: numbe
   const source = await visibleTank(ctx, actor, id)
   if (source.archivedAt) throw badRequest('id: an archived tank cannot be copied', { id: 'the tank is archived' })
   const siteTanks = await models.Tank.findAll({ where: { siteId: source.siteId }, attributes: ['name'] })
-  const names = numberedNames(source.name, count, siteTanks.map((t) => t.name))
+  const names = numberedNames(
+    source.name,
+    count,
+    siteTanks.map((t) => t.name),
+  )
   const rules = await models.WatchRule.findAll({ where: { tankId: source.id }, order: [['id', 'ASC']] })
   const allTasks = await models.CareTask.findAll({ where: { tankId: source.id }, order: [['id', 'ASC']] })
   // A build's steps belong to that build; the copy gets the tank's routine only.
@@ -27,24 +31,50 @@ export async function duplicateTank(ctx: AppContext, actor: UserActor, id: numbe
     for (const name of names) {
       const tank = await models.Tank.create(
         {
-          organizationId: source.organizationId, siteId: source.siteId, name, kind: source.kind, stage: source.stage,
-          dimensions: source.dimensions, volumeLitres: source.volumeLitres, volumeSource: source.volumeSource,
-          substrateDepthCm: source.substrateDepthCm, heater: source.heater, filter: source.filter, media: source.media,
-          lightSchedule: source.lightSchedule, targets: source.targets, notes: '', sortOrder: source.sortOrder,
+          organizationId: source.organizationId,
+          siteId: source.siteId,
+          name,
+          kind: source.kind,
+          stage: source.stage,
+          dimensions: source.dimensions,
+          volumeLitres: source.volumeLitres,
+          volumeSource: source.volumeSource,
+          substrateDepthCm: source.substrateDepthCm,
+          heater: source.heater,
+          filter: source.filter,
+          media: source.media,
+          lightSchedule: source.lightSchedule,
+          targets: source.targets,
+          notes: '',
+          sortOrder: source.sortOrder,
         },
         { transaction },
       )
       await models.WatchRule.bulkCreate(
         rules.map((r) => ({
-          organizationId: r.organizationId, siteId: r.siteId, tankId: tank.id, overridesRuleId: r.overridesRuleId,
-          name: r.name, severity: r.severity, spec: r.spec, enabled: r.enabled, createdBy: actor.userId,
+          organizationId: r.organizationId,
+          siteId: r.siteId,
+          tankId: tank.id,
+          overridesRuleId: r.overridesRuleId,
+          name: r.name,
+          severity: r.severity,
+          spec: r.spec,
+          enabled: r.enabled,
+          createdBy: actor.userId,
         })),
         { transaction },
       )
       await models.CareTask.bulkCreate(
         tasks.map((t) => ({
-          organizationId: t.organizationId, tankId: tank.id, kind: t.kind, title: t.title, recurrence: t.recurrence,
-          defaultValues: t.defaultValues, startsOn: t.startsOn, active: t.active, createdBy: actor.userId,
+          organizationId: t.organizationId,
+          tankId: tank.id,
+          kind: t.kind,
+          title: t.title,
+          recurrence: t.recurrence,
+          defaultValues: t.defaultValues,
+          startsOn: t.startsOn,
+          active: t.active,
+          createdBy: actor.userId,
         })),
         { transaction },
       )

@@ -16,10 +16,22 @@ import type { PublicTank } from '@shared/schemas/tanks'
 const SORT_COLUMNS: Record<TankListQuery['sortBy'], Order> = {
   name: [['name', 'ASC']],
   site: [['name', 'ASC']], // replaced by the site-name order in list()
-  kind: [['kind', 'ASC'], ['name', 'ASC']],
-  stage: [['stage', 'ASC'], ['name', 'ASC']],
-  volume: [['volumeLitres', 'ASC'], ['name', 'ASC']],
-  updated: [['updatedAt', 'ASC'], ['name', 'ASC']],
+  kind: [
+    ['kind', 'ASC'],
+    ['name', 'ASC'],
+  ],
+  stage: [
+    ['stage', 'ASC'],
+    ['name', 'ASC'],
+  ],
+  volume: [
+    ['volumeLitres', 'ASC'],
+    ['name', 'ASC'],
+  ],
+  updated: [
+    ['updatedAt', 'ASC'],
+    ['name', 'ASC'],
+  ],
 }
 
 function withDirection(order: Order, desc: boolean): Order {
@@ -110,7 +122,10 @@ export const tanksService = perContext((ctx: AppContext) => {
       }
       const order =
         q.sortBy === 'site'
-          ? ([[{ model: models.Site, as: 'site' }, 'name', q.sortDesc ? 'DESC' : 'ASC'], ['name', 'ASC']] as Order)
+          ? ([
+              [{ model: models.Site, as: 'site' }, 'name', q.sortDesc ? 'DESC' : 'ASC'],
+              ['name', 'ASC'],
+            ] as Order)
           : withDirection(SORT_COLUMNS[q.sortBy], q.sortDesc)
       const { rows, count } = await models.Tank.findAndCountAll({
         where: where as WhereOptions,

@@ -32,8 +32,7 @@ export function heaterTopMaxCm(shape: TankShape, fillHeightCm: number, substrate
   return planWaterChange({ shape, fillHeightCm, substrateDepthCm, percent: LARGE_CHANGE_PERCENT }).levelAfterCm
 }
 
-export const HEATER_PLACEMENT_NOTE =
-  `Fully under water even at the lowest level of a ${LARGE_CHANGE_PERCENT} % water change, clear of the substrate, where the flow passes it`
+export const HEATER_PLACEMENT_NOTE = `Fully under water even at the lowest level of a ${LARGE_CHANGE_PERCENT} % water change, clear of the substrate, where the flow passes it`
 
 export const ELECTRICAL_CAUTIONS = [
   'Mains electricity near water: give every cable a drip loop below its socket',

@@ -26,15 +26,23 @@ export function buildFigures(input: BuildFiguresInput) {
   const hardscape = hardscapeFigures(input.hardscape)
   const waterLitres = waterLeftLitres(input.shape, input.fillHeightCm, substrate.depthCm, hardscape.litres)
   const weight = filledTankWeight({
-    shape: input.shape, glassThicknessMm: input.glassThicknessMm, waterLitres,
-    substrateLitres: substrate.litres, substrateKg: substrate.kg, hardscapeKg: hardscape.kg,
+    shape: input.shape,
+    glassThicknessMm: input.glassThicknessMm,
+    waterLitres,
+    substrateLitres: substrate.litres,
+    substrateKg: substrate.kg,
+    hardscapeKg: hardscape.kg,
   })
   return {
     substrate,
     hardscape,
     waterLitres,
     weight,
-    heater: { ...suggestHeaterWatts(waterLitres, input.setPointC, input.roomC), topMaxCm: heaterTopMaxCm(input.shape, input.fillHeightCm, substrate.depthCm), minTopCm: substrate.depthCm },
+    heater: {
+      ...suggestHeaterWatts(waterLitres, input.setPointC, input.roomC),
+      topMaxCm: heaterTopMaxCm(input.shape, input.fillHeightCm, substrate.depthCm),
+      minTopCm: substrate.depthCm,
+    },
     conditioner: input.labelRate ? conditionerDose(waterLitres, input.labelRate) : null,
     stocking: {
       checks: checkStockingPlan({ kind: input.kind, tankLitres: grossVolumeLitres(input.shape), waterLitres, targets: input.targets }, input.groups),

@@ -12,7 +12,13 @@ export interface StockingHint {
   basis: 'from memory'
 }
 
-const hint = (adultCm: number, minTankLitres: number, minGroup: number, livebearer = false): StockingHint => ({ adultCm, minTankLitres, minGroup, livebearer, basis: 'from memory' })
+const hint = (adultCm: number, minTankLitres: number, minGroup: number, livebearer = false): StockingHint => ({
+  adultCm,
+  minTankLitres,
+  minGroup,
+  livebearer,
+  basis: 'from memory',
+})
 
 export const STOCKING_HINTS: Readonly<Record<string, StockingHint>> = {
   neon_tetra: hint(3.5, 54, 6),
@@ -79,7 +85,11 @@ export function checkStockingPlan(tank: StockingTankFacts, groups: readonly Plan
     if (!h) continue
     const name = species.commonName
     if (tank.tankLitres < h.minTankLitres) {
-      checks.push({ code: 'tank_too_small', message: `${name} usually needs a tank of at least ${h.minTankLitres} L; this one is about ${Math.round(tank.tankLitres)} L`, speciesKey: species.key })
+      checks.push({
+        code: 'tank_too_small',
+        message: `${name} usually needs a tank of at least ${h.minTankLitres} L; this one is about ${Math.round(tank.tankLitres)} L`,
+        speciesKey: species.key,
+      })
     }
     if (group.count < h.minGroup) {
       checks.push({ code: 'group_too_small', message: `${name} is kept in groups of ${h.minGroup} or more`, speciesKey: species.key })
@@ -94,7 +104,10 @@ export function checkStockingPlan(tank: StockingTankFacts, groups: readonly Plan
   }
   const load = stockingLoad(groups, tank.waterLitres)
   if (load.share > 1) {
-    checks.push({ code: 'overstocked', message: `${Math.round(load.adultCm)} cm of adult animals for about ${Math.round(tank.waterLitres)} L: more than ${CM_OF_FISH_PER_LITRE} cm per litre (common practice)` })
+    checks.push({
+      code: 'overstocked',
+      message: `${Math.round(load.adultCm)} cm of adult animals for about ${Math.round(tank.waterLitres)} L: more than ${CM_OF_FISH_PER_LITRE} cm per litre (common practice)`,
+    })
   }
   return checks
 }

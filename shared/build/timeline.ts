@@ -64,7 +64,12 @@ export function buildTimeline(input: TimelineInput): Timeline {
   const filled = parseLocalDate(input.filledOn)
   const on = (day: number) => formatLocalDate(addDays(filled, day - 1))
   const step = (key: BuildStepKey, title: string, day: number, untilDay: number | null = null): BuildStep => ({
-    key, title, day, untilDay, dueOn: on(day), daily: untilDay !== null,
+    key,
+    title,
+    day,
+    untilDay,
+    dueOn: on(day),
+    daily: untilDay !== null,
   })
   const band = `${plain(input.ph.min)}–${plain(input.ph.max)}`
   const steps: BuildStep[] = [
@@ -74,7 +79,14 @@ export function buildTimeline(input: TimelineInput): Timeline {
   const maxPerDay = input.ph.maxChangePerDay ?? DEFAULT_MAX_PH_CHANGE_PER_DAY
   const targets = input.ph.start === null ? [] : phSteps(input.ph.start, input.ph, maxPerDay)
   if (targets.length) {
-    steps.push(step('ph', `Bring pH from ${plain(input.ph.start as number)} to ${band}, at most ${plain(maxPerDay)} a day, testing daily (${targets.map(plain).join(' → ')})`, 2, 1 + targets.length))
+    steps.push(
+      step(
+        'ph',
+        `Bring pH from ${plain(input.ph.start as number)} to ${band}, at most ${plain(maxPerDay)} a day, testing daily (${targets.map(plain).join(' → ')})`,
+        2,
+        1 + targets.length,
+      ),
+    )
   } else {
     steps.push(step('ph', `Test pH against the target ${band}`, 2))
   }
@@ -83,7 +95,14 @@ export function buildTimeline(input: TimelineInput): Timeline {
     steps.push(step('plants', `Plant; remove melting leaves; let plants root ${ROOTING_DAYS.min}–${ROOTING_DAYS.max} days before heavy feeders or diggers`, 3))
     earliestStock = Math.max(earliestStock, 3 + ROOTING_DAYS.max)
   }
-  steps.push(step('cycling', `Cycling tests: ammonia, nitrite and nitrate until ammonia and nitrite read zero on ${CONSECUTIVE_ZERO_TESTS} tests in a row`, 3, earliestStock - 1))
+  steps.push(
+    step(
+      'cycling',
+      `Cycling tests: ammonia, nitrite and nitrate until ammonia and nitrite read zero on ${CONSECUTIVE_ZERO_TESTS} tests in a row`,
+      3,
+      earliestStock - 1,
+    ),
+  )
   let day = earliestStock
   input.stages.forEach((stage, i) => {
     if (i > 0) day += input.stages[i - 1]?.settleDays ?? DEFAULT_SETTLE_DAYS

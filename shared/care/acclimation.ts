@@ -43,10 +43,7 @@ export interface AcclimationPlan {
   cautions: string[]
 }
 
-export const ACCLIMATION_CAUTIONS = [
-  'Net the animals across; do not pour bag water into the tank',
-  'Keep the tank lights dimmed for the first hours',
-]
+export const ACCLIMATION_CAUTIONS = ['Net the animals across; do not pour bag water into the tank', 'Keep the tank lights dimmed for the first hours']
 
 function requirePositive(name: string, value: number) {
   if (!Number.isFinite(value) || value <= 0) throw new RangeError(`${name} must be above zero (got ${value})`)

@@ -57,8 +57,7 @@ function peakOf(tests: KitTest[], metric: 'ammonia' | 'nitrite'): Peak | null {
   return { value: peak, at: iso(best.at), passed }
 }
 
-const failsZero = (t: KitTest) =>
-  (t.ammonia !== undefined && t.ammonia > AMMONIA_ZERO_MG_L) || (t.nitrite !== undefined && t.nitrite > NITRITE_ZERO_MG_L)
+const failsZero = (t: KitTest) => (t.ammonia !== undefined && t.ammonia > AMMONIA_ZERO_MG_L) || (t.nitrite !== undefined && t.nitrite > NITRITE_ZERO_MG_L)
 
 export function cyclingStatus(input: readonly KitTest[]): CyclingStatus {
   const tests = input.filter((t) => t.ammonia !== undefined || t.nitrite !== undefined || t.nitrate !== undefined).sort((a, b) => a.at - b.at)
@@ -102,7 +101,6 @@ export function newPlantsNote(plantsAddedAt: readonly Date[], now: Date): { adde
   return {
     addedAt: recent.toISOString(),
     daysSince,
-    message:
-      'New plants can shed leaves and melt back in their first 14–21 days, adding ammonia: test more often and remove dying leaves (common practice)',
+    message: 'New plants can shed leaves and melt back in their first 14–21 days, adding ammonia: test more often and remove dying leaves (common practice)',
   }
 }

@@ -85,10 +85,7 @@ const ADVICE: Partial<Record<MetricKey, { high?: string[]; low?: string[] }>> = 
     ],
   },
   oxygen: {
-    low: [
-      'Add surface movement or an air stone now, and check the filter flow.',
-      'Warm water and a heavy stock need more: check the temperature and feeding.',
-    ],
+    low: ['Add surface movement or an air stone now, and check the filter flow.', 'Warm water and a heavy stock need more: check the temperature and feeding.'],
   },
   conductivity: {
     high: ['Check for evaporation topped up with salt water or minerals; a partial water change brings it down.'],
@@ -116,7 +113,12 @@ const figure = (value: number) => String(Number(value.toPrecision(4)))
  * order given. Values outside the band are flagged with the usual steps; `stage` softens ammonia
  * and nitrite in a tank that is still cycling.
  */
-export function kitVerdicts(values: Partial<Record<MetricKey, number>>, targets: Targets, stage: TankStage, unitOf: (metric: MetricKey) => string = () => ''): KitVerdict[] {
+export function kitVerdicts(
+  values: Partial<Record<MetricKey, number>>,
+  targets: Targets,
+  stage: TankStage,
+  unitOf: (metric: MetricKey) => string = () => '',
+): KitVerdict[] {
   const verdicts: KitVerdict[] = []
   for (const [metric, value] of Object.entries(values) as Array<[MetricKey, number | undefined]>) {
     if (value == null || !Number.isFinite(value)) continue
@@ -126,9 +128,11 @@ export function kitVerdicts(values: Partial<Record<MetricKey, number>>, targets:
     const withUnit = (n: number) => (unit ? `${figure(n)} ${unit}` : figure(n))
     const bandText = band ? `${figure(band.min)}–${withUnit(band.max)}` : ''
     const summary =
-      verdict === 'no_band' ? `${withUnit(value)}: this tank has no target band for it.`
-      : verdict === 'in_band' ? `${withUnit(value)}: within the target band ${bandText}.`
-      : `${withUnit(value)}: ${verdict === 'high' ? 'above' : 'below'} the target band ${bandText}.`
+      verdict === 'no_band'
+        ? `${withUnit(value)}: this tank has no target band for it.`
+        : verdict === 'in_band'
+          ? `${withUnit(value)}: within the target band ${bandText}.`
+          : `${withUnit(value)}: ${verdict === 'high' ? 'above' : 'below'} the target band ${bandText}.`
     const advice = verdict === 'high' || verdict === 'low' ? [...(ADVICE[metric]?.[verdict] ?? [RETEST])] : []
     if (advice.length && TOXIC.includes(metric) && verdict === 'high' && stage === 'cycling') advice.unshift(CYCLING_NOTE)
     if (advice.length && metric === 'temperature') advice.push(HEATER_HANDS_CAUTION)

@@ -9,13 +9,7 @@ const MAX_PRESSURE_KPA = 1.1 * STANDARD_PRESSURE_KPA
 
 /** mg/L O2 in water in equilibrium with water-saturated air at 1 atm. */
 function solubilityAtOneAtm(kelvin: number): number {
-  return Math.exp(
-    -139.34411 +
-      1.575701e5 / kelvin -
-      6.642308e7 / kelvin ** 2 +
-      1.2438e10 / kelvin ** 3 -
-      8.621949e11 / kelvin ** 4,
-  )
+  return Math.exp(-139.34411 + 1.575701e5 / kelvin - 6.642308e7 / kelvin ** 2 + 1.2438e10 / kelvin ** 3 - 8.621949e11 / kelvin ** 4)
 }
 
 /** Saturation vapour pressure of water in atm (the memo's fit). */
@@ -40,11 +34,7 @@ export function oxygenSolubilityMgL(tempC: number, pressureKPa: number = STANDAR
 }
 
 /** Measured DO as a percentage of saturation at that temperature and pressure. */
-export function percentSaturation(
-  measuredMgL: number,
-  tempC: number,
-  pressureKPa: number = STANDARD_PRESSURE_KPA,
-): number {
+export function percentSaturation(measuredMgL: number, tempC: number, pressureKPa: number = STANDARD_PRESSURE_KPA): number {
   requireNonNegative('measuredMgL', measuredMgL)
   return (100 * measuredMgL) / oxygenSolubilityMgL(tempC, pressureKPa)
 }

@@ -3,13 +3,10 @@
 import { footprintCm2, waterVolumeLitres, type TankShape } from './volume'
 import { requireFitTemperature, requireNonNegative, requirePositive, requirePositiveUpTo } from './validate'
 
-export const HEATER_OFF_CAUTION =
-  'Switch the heater off about 30 minutes before draining and back on only once it is covered again'
+export const HEATER_OFF_CAUTION = 'Switch the heater off about 30 minutes before draining and back on only once it is covered again'
 export const UNPLUG_CAUTION = 'Unplug heaters, pumps and lights before putting hands in the water'
-export const HEATER_ALREADY_EXPOSED_CAUTION =
-  'The heater is not fully covered even before draining: top the tank up or lower the heater'
-export const LARGE_CHANGE_CAUTION =
-  'A change this large shifts temperature and water chemistry quickly: match the new water closely'
+export const HEATER_ALREADY_EXPOSED_CAUTION = 'The heater is not fully covered even before draining: top the tank up or lower the heater'
+export const LARGE_CHANGE_CAUTION = 'A change this large shifts temperature and water chemistry quickly: match the new water closely'
 /** common practice: above half the volume, changes are treated as large. */
 export const LARGE_CHANGE_PERCENT = 50
 
@@ -21,9 +18,7 @@ interface WaterChangeBase {
   heaterTopCm?: number
 }
 
-export type WaterChangeInput =
-  | (WaterChangeBase & { percent: number; litres?: undefined })
-  | (WaterChangeBase & { litres: number; percent?: undefined })
+export type WaterChangeInput = (WaterChangeBase & { percent: number; litres?: undefined }) | (WaterChangeBase & { litres: number; percent?: undefined })
 
 export interface WaterChangePlan {
   litresOut: number
@@ -107,10 +102,7 @@ export type TemperatureMatch = 'ok' | 'caution' | 'warning'
 const MATCH_OK_K = 1
 const MATCH_CAUTION_K = 2
 
-export function temperatureMismatchAdvice(
-  tankC: number,
-  newWaterC: number,
-): { level: TemperatureMatch; differenceK: number; message: string } {
+export function temperatureMismatchAdvice(tankC: number, newWaterC: number): { level: TemperatureMatch; differenceK: number; message: string } {
   requireFitTemperature('tankC', tankC)
   requireFitTemperature('newWaterC', newWaterC)
   const differenceK = newWaterC - tankC

@@ -11,13 +11,7 @@ export function waterDensityKgPerL(tempC: number): number {
   requireFitTemperature('tempC', tempC)
   const t = tempC
   const kgPerM3 =
-    (999.83952 +
-      16.945176 * t -
-      7.9870401e-3 * t ** 2 -
-      46.170461e-6 * t ** 3 +
-      105.56302e-9 * t ** 4 -
-      280.54253e-12 * t ** 5) /
-    (1 + 16.87985e-3 * t)
+    (999.83952 + 16.945176 * t - 7.9870401e-3 * t ** 2 - 46.170461e-6 * t ** 3 + 105.56302e-9 * t ** 4 - 280.54253e-12 * t ** 5) / (1 + 16.87985e-3 * t)
   return kgPerM3 / 1000
 }
 

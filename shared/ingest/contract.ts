@@ -47,9 +47,7 @@ export const readingsMessageSchema = z.object({
 export type ReadingsMessage = { v: 1; readings: DeviceReading[] }
 
 export type ReadingOutcome =
-  | { index: number; outcome: 'accepted' }
-  | { index: number; outcome: 'duplicate' }
-  | { index: number; outcome: 'rejected'; reason: string; field?: string }
+  { index: number; outcome: 'accepted' } | { index: number; outcome: 'duplicate' } | { index: number; outcome: 'rejected'; reason: string; field?: string }
 
 export interface IngestSummary {
   accepted: number

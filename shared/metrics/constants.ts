@@ -31,8 +31,7 @@ export const NO3_PER_NO3_N = MOLAR_MASS.NO3 / MOLAR_MASS.N
 export const CAO_MG_PER_L_PER_GERMAN_DEGREE = 10
 
 /** 1 °dH expressed as mg/L CaCO3 (same number of moles as 10 mg/L CaO). */
-export const CACO3_MG_PER_L_PER_GERMAN_DEGREE =
-  (CAO_MG_PER_L_PER_GERMAN_DEGREE * MOLAR_MASS.CaCO3) / MOLAR_MASS.CaO
+export const CACO3_MG_PER_L_PER_GERMAN_DEGREE = (CAO_MG_PER_L_PER_GERMAN_DEGREE * MOLAR_MASS.CaCO3) / MOLAR_MASS.CaO
 
 /**
  * 1 °dH in mmol/L of hardness (Ca2+ + Mg2+, or carbonate as CaCO3). Alkalinity quoted in

@@ -1,12 +1,4 @@
-export {
-  METRIC_KEYS,
-  METRICS,
-  isMetricKey,
-  displayPrecision,
-  type MetricKey,
-  type MetricDef,
-  type UnitDef,
-} from './registry'
+export { METRIC_KEYS, METRICS, isMetricKey, displayPrecision, type MetricKey, type MetricDef, type UnitDef } from './registry'
 export {
   toCanonical,
   fromCanonical,

@@ -1,16 +1,4 @@
-export const METRIC_KEYS = [
-  'temperature',
-  'ph',
-  'light',
-  'water_level',
-  'ammonia',
-  'nitrite',
-  'nitrate',
-  'kh',
-  'gh',
-  'conductivity',
-  'oxygen',
-] as const
+export const METRIC_KEYS = ['temperature', 'ph', 'light', 'water_level', 'ammonia', 'nitrite', 'nitrate', 'kh', 'gh', 'conductivity', 'oxygen'] as const
 
 export type MetricKey = (typeof METRIC_KEYS)[number]
 

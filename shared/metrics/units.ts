@@ -63,9 +63,7 @@ function percentOf(reference: (ctx: ConversionContext) => ConversionResult): Uni
 const isPositiveFinite = (x: unknown): x is number => typeof x === 'number' && Number.isFinite(x) && x > 0
 
 const fullScaleLux = (ctx: ConversionContext): ConversionResult =>
-  isPositiveFinite(ctx.fullScaleLux)
-    ? ok(ctx.fullScaleLux)
-    : fail("light in 'pct' needs the tank's or device's full-scale lux (fullScaleLux > 0)")
+  isPositiveFinite(ctx.fullScaleLux) ? ok(ctx.fullScaleLux) : fail("light in 'pct' needs the tank's or device's full-scale lux (fullScaleLux > 0)")
 
 function airSaturatedOxygenMgL(ctx: ConversionContext): ConversionResult {
   const { temperatureC, pressureKPa } = ctx
@@ -77,9 +75,7 @@ function airSaturatedOxygenMgL(ctx: ConversionContext): ConversionResult {
   }
   try {
     const solubility = oxygenSolubilityMgL(temperatureC, pressureKPa)
-    return isPositiveFinite(solubility)
-      ? ok(solubility)
-      : fail(`no oxygen solubility for ${temperatureC} °C`)
+    return isPositiveFinite(solubility) ? ok(solubility) : fail(`no oxygen solubility for ${temperatureC} °C`)
   } catch (err) {
     return fail(`no oxygen solubility for ${temperatureC} °C: ${(err as Error).message}`)
   }
@@ -115,13 +111,7 @@ export function supportedUnits(metric: MetricKey): string[] {
   return Object.keys(CONVERTERS[metric] ?? {})
 }
 
-function convert(
-  direction: keyof UnitConverter,
-  metric: MetricKey,
-  value: number,
-  unit: string,
-  ctx: ConversionContext,
-): ConversionResult {
+function convert(direction: keyof UnitConverter, metric: MetricKey, value: number, unit: string, ctx: ConversionContext): ConversionResult {
   const table = CONVERTERS[metric]
   if (!table) return fail(`unknown metric '${String(metric)}'`)
   if (typeof value !== 'number' || !Number.isFinite(value)) {
@@ -139,22 +129,12 @@ function convert(
 }
 
 /** Converts a value given in `unit` to the metric's canonical unit. */
-export function toCanonical(
-  metric: MetricKey,
-  value: number,
-  unit: string,
-  ctx: ConversionContext = {},
-): ConversionResult {
+export function toCanonical(metric: MetricKey, value: number, unit: string, ctx: ConversionContext = {}): ConversionResult {
   return convert('toCanonical', metric, value, unit, ctx)
 }
 
 /** Converts a canonical value to `unit`. */
-export function fromCanonical(
-  metric: MetricKey,
-  value: number,
-  unit: string,
-  ctx: ConversionContext = {},
-): ConversionResult {
+export function fromCanonical(metric: MetricKey, value: number, unit: string, ctx: ConversionContext = {}): ConversionResult {
   return convert('fromCanonical', metric, value, unit, ctx)
 }
 
@@ -163,12 +143,7 @@ export function fromCanonical(
  * precision. A unit that cannot be shown is a programming error, so it throws instead of
  * silently printing a canonical number under a different label.
  */
-export function formatValue(
-  metric: MetricKey,
-  canonicalValue: number,
-  unit: string = METRICS[metric].unit,
-  ctx: ConversionContext = {},
-): string {
+export function formatValue(metric: MetricKey, canonicalValue: number, unit: string = METRICS[metric].unit, ctx: ConversionContext = {}): string {
   const converted = fromCanonical(metric, canonicalValue, unit, ctx)
   if (!converted.ok) throw new RangeError(converted.reason)
   const digits = displayPrecision(metric, unit)

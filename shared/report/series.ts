@@ -7,7 +7,13 @@ export const CHART_POINTS = 240
  * One point per bucket at its middle: the mean of the readings in it; an empty bucket carries the
  * value before it, unless its middle lies in a gap, where the point is null so the line breaks.
  */
-export function chartSeries(readings: readonly TimedValue[], from: number, to: number, gaps: readonly Gap[], points = CHART_POINTS): Array<[number, number | null]> {
+export function chartSeries(
+  readings: readonly TimedValue[],
+  from: number,
+  to: number,
+  gaps: readonly Gap[],
+  points = CHART_POINTS,
+): Array<[number, number | null]> {
   const width = (to - from) / points
   const sums = new Array<number>(points).fill(0)
   const counts = new Array<number>(points).fill(0)
@@ -17,7 +23,10 @@ export function chartSeries(readings: readonly TimedValue[], from: number, to: n
     sums[i]! += r.value
     counts[i]!++
   }
-  const before = [...readings].filter((r) => r.at < from).sort((a, b) => a.at - b.at).at(-1)
+  const before = [...readings]
+    .filter((r) => r.at < from)
+    .sort((a, b) => a.at - b.at)
+    .at(-1)
   let carried: number | null = before?.value ?? null
   const inGap = (t: number) => gaps.some((g) => t >= g.from && t < g.to)
   const out: Array<[number, number | null]> = []

@@ -84,7 +84,10 @@ export function stability(input: StabilityInput): Stability {
   const inside = sorted.filter((r) => r.at >= from && r.at < to)
   const after = sorted.find((r) => r.at >= to)
   const points = prior ? [prior, ...inside] : inside
-  const limit = gapLimit([...points, ...(after ? [after] : [])].map((r) => r.at), input.maxGapMs)
+  const limit = gapLimit(
+    [...points, ...(after ? [after] : [])].map((r) => r.at),
+    input.maxGapMs,
+  )
 
   const gaps: Gap[] = []
   const addGap = (start: number, end: number) => {

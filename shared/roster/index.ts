@@ -15,12 +15,7 @@ const shiftsOf = (roster: RosterPattern): readonly WeeklyShift[] => ('shifts' in
  * Spans include their start and exclude their end, so at a handover only the incoming person
  * is on duty.
  */
-export function onDutyAt(
-  roster: RosterPattern,
-  overrides: readonly RosterOverride[],
-  timeZone: string,
-  atMs: number,
-): string[] {
+export function onDutyAt(roster: RosterPattern, overrides: readonly RosterOverride[], timeZone: string, atMs: number): string[] {
   const today = localDateAt(timeZone, atMs)
   // A shift covering `atMs` started today or, running past midnight, yesterday; tomorrow is
   // included only so a zone that changes its clocks at midnight cannot hide one.
@@ -35,18 +30,11 @@ export function onDutyAt(
  * (any weekday may start the view), in real instants. Spans are not clipped to the week: a
  * Sunday night shift shows its true end on Monday morning. Sorted by start, then user.
  */
-export function shiftsInWeek(
-  roster: RosterPattern,
-  overrides: readonly RosterOverride[],
-  timeZone: string,
-  weekStartLocalDate: string,
-): DutySpan[] {
+export function shiftsInWeek(roster: RosterPattern, overrides: readonly RosterOverride[], timeZone: string, weekStartLocalDate: string): DutySpan[] {
   const first = parseLocalDate(weekStartLocalDate)
   const weekStarts = localToInstant(timeZone, first, 0)
   const weekEnds = localToInstant(timeZone, addDays(first, 7), 0)
-  const base = Array.from({ length: 8 }, (_, i) => i - 1).flatMap((days) =>
-    patternSpansOn(shiftsOf(roster), timeZone, addDays(first, days)),
-  )
+  const base = Array.from({ length: 8 }, (_, i) => i - 1).flatMap((days) => patternSpansOn(shiftsOf(roster), timeZone, addDays(first, days)))
   return applyOverrides(base, overrides)
     .filter((s) => s.endsAt > weekStarts && s.startsAt < weekEnds)
     .sort((a, b) => a.startsAt - b.startsAt || (a.userId < b.userId ? -1 : a.userId > b.userId ? 1 : 0) || a.endsAt - b.endsAt)

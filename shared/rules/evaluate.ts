@@ -14,12 +14,7 @@ import type { EvaluationResult, RuleContext, RuleEvent, RuleInput, RuleState } f
  * `takesLateReadings` (`rate`) is the exception: it slots a late reading into its window. Readings with a
  * non-finite value are ignored the same way.
  */
-export function evaluate(
-  spec: WatchRuleSpec,
-  state: RuleState,
-  input: RuleInput,
-  ctx: RuleContext = {},
-): EvaluationResult {
+export function evaluate(spec: WatchRuleSpec, state: RuleState, input: RuleInput, ctx: RuleContext = {}): EvaluationResult {
   const kind = kindOf(spec)
   if (input.type === 'reading') {
     if (!Number.isFinite(input.value) || !Number.isFinite(input.at)) return { state }
@@ -38,19 +33,11 @@ export interface ReplayResult {
 }
 
 /** Stored readings in time order, then one tick at `now`; every event along the way. */
-export function replay(
-  spec: WatchRuleSpec,
-  readings: ReadonlyArray<{ at: number; value: number }>,
-  now: number,
-  ctx: RuleContext = {},
-): ReplayResult {
+export function replay(spec: WatchRuleSpec, readings: ReadonlyArray<{ at: number; value: number }>, now: number, ctx: RuleContext = {}): ReplayResult {
   const sorted = [...readings].sort((a, b) => a.at - b.at)
   const events: RuleEvent[] = []
   let state = initialRuleState()
-  const inputs: RuleInput[] = [
-    ...sorted.map((r): RuleInput => ({ type: 'reading', at: r.at, value: r.value })),
-    { type: 'tick', at: now },
-  ]
+  const inputs: RuleInput[] = [...sorted.map((r): RuleInput => ({ type: 'reading', at: r.at, value: r.value })), { type: 'tick', at: now }]
   for (const input of inputs) {
     const result = evaluate(spec, state, input, ctx)
     state = result.state
@@ -66,11 +53,6 @@ export function replay(
  * `since`, so it trips at the same moment an uninterrupted run would. Pass the readings of
  * at least the longest hold, window or quiet period back from `now`.
  */
-export function rebuildState(
-  spec: WatchRuleSpec,
-  readings: ReadonlyArray<{ at: number; value: number }>,
-  now: number,
-  ctx: RuleContext = {},
-): RuleState {
+export function rebuildState(spec: WatchRuleSpec, readings: ReadonlyArray<{ at: number; value: number }>, now: number, ctx: RuleContext = {}): RuleState {
   return replay(spec, readings, now, ctx).state
 }

@@ -81,10 +81,20 @@ export interface KindEntry<K extends WatchRuleKind = WatchRuleKind> {
 }
 
 const HOLD: FormField<'holdMinutes'> = {
-  key: 'holdMinutes', label: 'For at least', suffix: 'min', initial: '10', hint: 'Rides out a lid lifted or a door left open', line: 2,
+  key: 'holdMinutes',
+  label: 'For at least',
+  suffix: 'min',
+  initial: '10',
+  hint: 'Rides out a lid lifted or a door left open',
+  line: 2,
 }
 const clearMargin = (suffix: FormField['suffix']): FormField<'clearMargin'> => ({
-  key: 'clearMargin', label: 'Clears only this far back', suffix, initial: '0.5', hint: 'Stops one reading on the line reopening it', line: 2,
+  key: 'clearMargin',
+  label: 'Clears only this far back',
+  suffix,
+  initial: '0.5',
+  hint: 'Stops one reading on the line reopening it',
+  line: 2,
 })
 
 const level = {
@@ -150,7 +160,8 @@ export const KINDS = {
     // A rate rule judges readings only.
     ticksMatter: 'never',
     describe: (s, w) => `${w.metric(s.metric)} changes by more than ${w.change(s.metric, s.maxChange)} within ${w.minutes(s.windowMinutes)}`,
-    measure: (s, metric, value, w) => `${w.metric(metric)} ${value < 0 ? 'fell' : 'rose'} ${w.measured(metric, Math.abs(value))} in ${w.minutes(s.windowMinutes)}`,
+    measure: (s, metric, value, w) =>
+      `${w.metric(metric)} ${value < 0 ? 'fell' : 'rose'} ${w.measured(metric, Math.abs(value))} in ${w.minutes(s.windowMinutes)}`,
   },
   quiet: {
     label: 'No readings',
@@ -169,11 +180,7 @@ export const KINDS = {
     ...level,
     label: 'Water near the heater top',
     fixedMetric: 'water_level',
-    fields: [
-      { key: 'marginCm', label: 'Water at most this far above the heater top', suffix: 'cm', initial: '2', line: 1 },
-      HOLD,
-      clearMargin('cm'),
-    ],
+    fields: [{ key: 'marginCm', label: 'Water at most this far above the heater top', suffix: 'cm', initial: '2', line: 1 }, HOLD, clearMargin('cm')],
     describe: (s, w) => {
       const where = s.marginCm > 0 ? `is within ${cm(s.marginCm)} of the heater top or lower` : 'is at or below the heater top'
       return `the water level ${where}${forHold(s.holdMinutes, w)}; clears once it is more than ${cm(s.marginCm + s.clearMargin)} above the heater top`

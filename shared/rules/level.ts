@@ -110,13 +110,7 @@ function onsetAfter(judge: LevelJudge, value: number, fineAt: number, breachedAt
  * One observation of `value` at `at`: a fresh reading, or on ticks for schedule-dependent
  * rules the last reading re-judged against the clock. Only fresh readings emit `update`.
  */
-function observe(
-  judge: LevelJudge,
-  state: RuleState,
-  at: number,
-  value: number,
-  fresh: boolean,
-): EvaluationResult {
+function observe(judge: LevelJudge, state: RuleState, at: number, value: number, fresh: boolean): EvaluationResult {
   switch (state.status) {
     case 'clear': {
       if (!judge.breached(value, at)) return { state }

@@ -21,7 +21,12 @@ export const MISSING_AFTER_MINUTES = 15
 // Shared by every kind. Optional rather than defaulted, so rules stored before they existed read the same.
 const commonFields = {
   /** A trip this many minutes after a clear reopens the same incident (a flap). */
-  settleMinutes: z.number().int().min(0).max(24 * 60).optional(),
+  settleMinutes: z
+    .number()
+    .int()
+    .min(0)
+    .max(24 * 60)
+    .optional(),
   missingReading: z.enum(MISSING_READING_CHOICES).optional(),
 }
 

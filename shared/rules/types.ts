@@ -1,7 +1,5 @@
 /** Times are epoch milliseconds throughout; the caller owns the clock. */
-export type RuleInput =
-  | { type: 'reading'; at: number; value: number }
-  | { type: 'tick'; at: number }
+export type RuleInput = { type: 'reading'; at: number; value: number } | { type: 'tick'; at: number }
 
 export interface RuleContext {
   /** Top of the heater, cm above the tank floor; `heater_line` rules stay inert without it. */

@@ -55,7 +55,10 @@ export const buildPlanSchema = z.object({
   filter: z.object({
     name: label(200).default(''),
     /** In the order the water passes them; the keeper sets it. */
-    media: z.array(z.string().trim().min(1).max(60)).max(10).default([...DEFAULT_MEDIA_ORDER]),
+    media: z
+      .array(z.string().trim().min(1).max(60))
+      .max(10)
+      .default([...DEFAULT_MEDIA_ORDER]),
   }),
   heater: z.object({
     /** null: take the suggested rating. */
@@ -99,7 +102,10 @@ export const buildStepDoneSchema = z.object({
 export type BuildStepDoneInput = z.infer<typeof buildStepDoneSchema>
 /** The body as a client sends it, before the defaults are filled in. */
 export type BuildStepDoneBody = z.input<typeof buildStepDoneSchema>
-export const buildStepParamsSchema = z.object({ id: z.coerce.number().int().positive(), key: z.string().regex(/^(conditioner|heater_check|ph|plants|cycling|stock_[1-8])$/, 'unknown step') })
+export const buildStepParamsSchema = z.object({
+  id: z.coerce.number().int().positive(),
+  key: z.string().regex(/^(conditioner|heater_check|ph|plants|cycling|stock_[1-8])$/, 'unknown step'),
+})
 export const buildReportMailSchema = z.object({ emails: z.array(z.email().max(320)).min(1, 'at least one address').max(10) })
 
 export interface PublicBuildStep {

@@ -9,8 +9,17 @@ import type { QuarantineStatus, StockingWarning } from '../care/livestock'
 import type { Species, SpeciesCategory } from '../care/species'
 import type { LabelRate, WaterChangePlan } from '../chemistry/water-change'
 import type {
-  CareLogKind, careLogInputSchema, careTaskDoneSchema, careTaskInputSchema, careTaskSnoozeSchema, careTaskUpdateSchema,
-  livestockInputSchema, livestockUpdateSchema, waterChangeFinishSchema, waterChangePlanSchema, waterChangeStartSchema,
+  CareLogKind,
+  careLogInputSchema,
+  careTaskDoneSchema,
+  careTaskInputSchema,
+  careTaskSnoozeSchema,
+  careTaskUpdateSchema,
+  livestockInputSchema,
+  livestockUpdateSchema,
+  waterChangeFinishSchema,
+  waterChangePlanSchema,
+  waterChangeStartSchema,
 } from './care'
 
 export type { LabelRate }

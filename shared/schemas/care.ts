@@ -8,7 +8,10 @@ export { CARE_TASK_KINDS }
 export const CARE_LOG_KINDS = ['water_change', 'dosing', 'livestock_in', 'livestock_out', 'equipment', 'media_change', 'note', 'task_done'] as const
 export type CareLogKind = (typeof CARE_LOG_KINDS)[number]
 /** `task_done` entries are written by marking a task done, never posted by hand. */
-export const MANUAL_CARE_LOG_KINDS = CARE_LOG_KINDS.filter((k) => k !== 'task_done') as [Exclude<CareLogKind, 'task_done'>, ...Exclude<CareLogKind, 'task_done'>[]]
+export const MANUAL_CARE_LOG_KINDS = CARE_LOG_KINDS.filter((k) => k !== 'task_done') as [
+  Exclude<CareLogKind, 'task_done'>,
+  ...Exclude<CareLogKind, 'task_done'>[],
+]
 
 const isoInstant = instantSchema
 const localDate = localDateSchema
@@ -39,7 +42,10 @@ export const careTaskInputSchema = z.object({
   active: z.boolean().default(true),
 })
 export type CareTaskInput = z.infer<typeof careTaskInputSchema>
-export const careTaskUpdateSchema = careTaskInputSchema.omit({ kind: true }).extend({ title: z.string().trim().min(1).max(120) }).partial()
+export const careTaskUpdateSchema = careTaskInputSchema
+  .omit({ kind: true })
+  .extend({ title: z.string().trim().min(1).max(120) })
+  .partial()
 export type CareTaskUpdate = z.infer<typeof careTaskUpdateSchema>
 
 export const careTaskDoneSchema = z.object({
@@ -71,7 +77,10 @@ export const careTaskSnoozeSchema = z.object({
 export const careTodayQuerySchema = z
   .object({
     siteId: z.coerce.number().int().positive().optional(),
-    mine: z.enum(['true', 'false']).optional().transform((v) => v === 'true'),
+    mine: z
+      .enum(['true', 'false'])
+      .optional()
+      .transform((v) => v === 'true'),
   })
   .refine((q) => (q.siteId !== undefined) !== q.mine, { message: 'give either siteId or mine=true', path: ['siteId'] })
 
@@ -103,9 +112,7 @@ const oneAmount = (w: { percent?: number; litres?: number }) => (w.percent === u
 const oneAmountIssue = { message: 'give either percent or litres', path: ['percent'] }
 export const waterChangePlanSchema = z.object(waterChangeAmount).refine(oneAmount, oneAmountIssue)
 export type WaterChangePlanInput = z.infer<typeof waterChangePlanSchema>
-export const waterChangeStartSchema = z
-  .object({ ...waterChangeAmount, heaterOffConfirmed: z.boolean().default(false) })
-  .refine(oneAmount, oneAmountIssue)
+export const waterChangeStartSchema = z.object({ ...waterChangeAmount, heaterOffConfirmed: z.boolean().default(false) }).refine(oneAmount, oneAmountIssue)
 export type WaterChangeStartInput = z.infer<typeof waterChangeStartSchema>
 export const waterChangeFinishSchema = z.object({
   litresReplaced: z.number().positive('must be above zero').max(100000),
@@ -122,7 +129,10 @@ export type WaterChangeCancelInput = z.infer<typeof waterChangeCancelSchema>
 export const LIVESTOCK_CATEGORIES = ['fish', 'invertebrate', 'plant'] as const
 export const livestockInputSchema = z
   .object({
-    speciesKey: z.string().refine((k) => SPECIES_KEYS.includes(k), 'unknown species').optional(),
+    speciesKey: z
+      .string()
+      .refine((k) => SPECIES_KEYS.includes(k), 'unknown species')
+      .optional(),
     name: z.string().trim().min(1).max(120).optional(),
     category: z.enum(LIVESTOCK_CATEGORIES).optional(),
     count: z.number().int().min(1, 'at least one').max(100000),
@@ -140,10 +150,12 @@ export const livestockInputSchema = z
   })
   .refine((l) => l.speciesKey !== undefined || l.name !== undefined, { message: 'choose a species or give a name', path: ['speciesKey'] })
 export type LivestockInput = z.infer<typeof livestockInputSchema>
-export const livestockUpdateSchema = z.object({
-  count: z.number().int().min(0).max(100000),
-  losses: z.number().int().min(0).max(100000),
-  removedAt: isoInstant.nullable(),
-  notes: z.string().trim().max(2000),
-}).partial()
+export const livestockUpdateSchema = z
+  .object({
+    count: z.number().int().min(0).max(100000),
+    losses: z.number().int().min(0).max(100000),
+    removedAt: isoInstant.nullable(),
+    notes: z.string().trim().max(2000),
+  })
+  .partial()
 export type LivestockUpdate = z.infer<typeof livestockUpdateSchema>

@@ -6,14 +6,17 @@ export const idParamsSchema = z.object({ id: idSchema })
 /** `HH:MM`, 24-hour local wall-clock time. */
 export const clockTimeSchema = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'use HH:MM (24-hour)')
 
-export const timeZoneSchema = z.string().min(1).refine((zone) => {
-  try {
-    new Intl.DateTimeFormat('en', { timeZone: zone })
-    return true
-  } catch {
-    return false
-  }
-}, 'unknown time zone')
+export const timeZoneSchema = z
+  .string()
+  .min(1)
+  .refine((zone) => {
+    try {
+      new Intl.DateTimeFormat('en', { timeZone: zone })
+      return true
+    } catch {
+      return false
+    }
+  }, 'unknown time zone')
 
 export const pageQuerySchema = z.object({
   page: z.coerce.number().int().min(1).default(1),

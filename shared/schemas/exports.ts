@@ -8,16 +8,14 @@ const DAY_MS = 86_400_000
 const instant = instantSchema
 
 /** `from` (inclusive) and `to` (exclusive) of a CSV export. */
-export const exportRangeQuerySchema = z
-  .object({ from: instant, to: instant })
-  .superRefine((range, check) => {
-    const from = Date.parse(range.from)
-    const to = Date.parse(range.to)
-    if (to <= from) check.addIssue({ code: 'custom', path: ['to'], message: 'must be after from' })
-    else if (to - from > MAX_EXPORT_DAYS * DAY_MS) {
-      check.addIssue({ code: 'custom', path: ['to'], message: `the range may be at most ${MAX_EXPORT_DAYS} days` })
-    }
-  })
+export const exportRangeQuerySchema = z.object({ from: instant, to: instant }).superRefine((range, check) => {
+  const from = Date.parse(range.from)
+  const to = Date.parse(range.to)
+  if (to <= from) check.addIssue({ code: 'custom', path: ['to'], message: 'must be after from' })
+  else if (to - from > MAX_EXPORT_DAYS * DAY_MS) {
+    check.addIssue({ code: 'custom', path: ['to'], message: `the range may be at most ${MAX_EXPORT_DAYS} days` })
+  }
+})
 export type ExportRangeQuery = z.infer<typeof exportRangeQuerySchema>
 
 export const EXPORT_KINDS = ['readings', 'incidents', 'care-log'] as const

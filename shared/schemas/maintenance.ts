@@ -17,9 +17,18 @@ export const maintenanceInputSchema = z
     start: clock.optional(),
     durationMinutes: z.number().int().min(1).max(1440).optional(),
   })
-  .refine((m) => m.repeat !== 'once' || (m.startsAt && m.endsAt && new Date(m.endsAt) > new Date(m.startsAt)), { message: 'a one-off window needs a start and a later end', path: ['endsAt'] })
-  .refine((m) => m.repeat !== 'once' || !m.startsAt || !m.endsAt || new Date(m.endsAt).getTime() - new Date(m.startsAt).getTime() <= 7 * 86400_000, { message: 'at most 7 days at a time', path: ['endsAt'] })
-  .refine((m) => m.repeat !== 'weekly' || (m.weekday !== undefined && m.start !== undefined && m.durationMinutes !== undefined), { message: 'a weekly window needs a weekday, a start and a duration', path: ['weekday'] })
+  .refine((m) => m.repeat !== 'once' || (m.startsAt && m.endsAt && new Date(m.endsAt) > new Date(m.startsAt)), {
+    message: 'a one-off window needs a start and a later end',
+    path: ['endsAt'],
+  })
+  .refine((m) => m.repeat !== 'once' || !m.startsAt || !m.endsAt || new Date(m.endsAt).getTime() - new Date(m.startsAt).getTime() <= 7 * 86400_000, {
+    message: 'at most 7 days at a time',
+    path: ['endsAt'],
+  })
+  .refine((m) => m.repeat !== 'weekly' || (m.weekday !== undefined && m.start !== undefined && m.durationMinutes !== undefined), {
+    message: 'a weekly window needs a weekday, a start and a duration',
+    path: ['weekday'],
+  })
 export type MaintenanceInput = z.output<typeof maintenanceInputSchema>
 
 export const maintenanceRangeSchema = z.object({

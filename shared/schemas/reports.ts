@@ -35,11 +35,13 @@ export type ReportScheduleInput = z.infer<typeof reportScheduleInputSchema>
 export type ReportScheduleBody = z.input<typeof reportScheduleInputSchema>
 
 /** What may change on a schedule: its recipients, period and whether it runs; not what it covers. */
-export const reportScheduleUpdateSchema = z.object({
-  period: z.enum(REPORT_PERIOD_KINDS),
-  ...recipientsFields,
-  enabled: z.boolean(),
-}).partial()
+export const reportScheduleUpdateSchema = z
+  .object({
+    period: z.enum(REPORT_PERIOD_KINDS),
+    ...recipientsFields,
+    enabled: z.boolean(),
+  })
+  .partial()
 export type ReportScheduleUpdate = z.infer<typeof reportScheduleUpdateSchema>
 export type ReportScheduleUpdateBody = z.input<typeof reportScheduleUpdateSchema>
 

@@ -12,7 +12,6 @@ export const SERIES_POINTS = { min: 10, max: 5000, default: 500 } as const
 const HOUR_MS = 3_600_000
 const DAY_MS = 24 * HOUR_MS
 
-
 export const seriesQuerySchema = z
   .object({
     metric: z.enum(METRIC_KEYS),

@@ -10,8 +10,14 @@ export interface TankStatus {
   latest: LatestResponse
   /** Unresolved incidents, newest first. */
   openIncidents: Array<{
-    id: number; title: string; severity: 'warning' | 'alarm'; openedAt: string
-    state: 'open' | 'acknowledged'; maintenance: boolean; siteIncidentId: number | null; flapCount: number
+    id: number
+    title: string
+    severity: 'warning' | 'alarm'
+    openedAt: string
+    state: 'open' | 'acknowledged'
+    maintenance: boolean
+    siteIncidentId: number | null
+    flapCount: number
   }>
   /** Names of the tank's devices that have stopped reporting (none for an empty or archived tank). */
   quietDevices: string[]

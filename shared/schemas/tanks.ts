@@ -135,6 +135,10 @@ export interface TankListItem extends PublicTank {
 /** How many copies of a tank to make at once. */
 export const MAX_TANK_COPIES = 50
 export const tankDuplicateSchema = z.object({
-  count: z.number({ error: 'a whole number from 1 to 50' }).int('a whole number from 1 to 50').min(1, 'at least 1').max(MAX_TANK_COPIES, `at most ${MAX_TANK_COPIES}`),
+  count: z
+    .number({ error: 'a whole number from 1 to 50' })
+    .int('a whole number from 1 to 50')
+    .min(1, 'at least 1')
+    .max(MAX_TANK_COPIES, `at most ${MAX_TANK_COPIES}`),
 })
 export type TankDuplicateInput = z.infer<typeof tankDuplicateSchema>

@@ -3,7 +3,6 @@ import type { LatestResponse } from './series'
 import type { Targets, TankKind, TankStage } from './tanks'
 import type { TankState } from './tank-status'
 
-
 export interface WallTank {
   id: number
   name: string
@@ -22,7 +21,10 @@ export interface WallTank {
   state: TankState
   stateReasons: string[]
   openIncident: {
-    id: number; title: string; severity: 'warning' | 'alarm'; openedAt: string
+    id: number
+    title: string
+    severity: 'warning' | 'alarm'
+    openedAt: string
     /** Acknowledged incidents stop the wall's chime. */
     state: 'open' | 'acknowledged'
     /** Opened inside a maintenance window: recorded, nobody told. */

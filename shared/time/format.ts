@@ -40,7 +40,9 @@ export function formatDateTime(value: Instant | null | undefined, timeZone?: str
  * another zone says whose clock it is on. Without a zone, the reader's own.
  */
 export function zoneAbbreviation(value: Instant, timeZone?: string): string {
-  const part = formatter(timeZone, { timeZoneName: 'short' }).formatToParts(toDate(value)).find((p) => p.type === 'timeZoneName')
+  const part = formatter(timeZone, { timeZoneName: 'short' })
+    .formatToParts(toDate(value))
+    .find((p) => p.type === 'timeZoneName')
   return part?.value ?? timeZone ?? ''
 }
 
@@ -73,7 +75,13 @@ export function formatInZone(iso: string, timeZone: string): string {
   const moment = new Date(iso)
   if (Number.isNaN(moment.getTime())) throw new RangeError(`Not an ISO time: ${iso}`)
   return new Intl.DateTimeFormat('en-GB', {
-    timeZone, weekday: 'short', day: 'numeric', month: 'short', year: 'numeric', ...CLOCK, timeZoneName: 'shortOffset',
+    timeZone,
+    weekday: 'short',
+    day: 'numeric',
+    month: 'short',
+    year: 'numeric',
+    ...CLOCK,
+    timeZoneName: 'shortOffset',
   }).format(moment)
 }
 

@@ -36,7 +36,13 @@ export function siteInputToIso(value: string, timeZone: string): string | null {
 /** The site's wall-clock time of an instant, as a `datetime-local` value. */
 export function isoToSiteInput(at: Date | string | number, timeZone: string): string {
   const parts = new Intl.DateTimeFormat('en-CA', {
-    timeZone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23',
+    timeZone,
+    year: 'numeric',
+    month: '2-digit',
+    day: '2-digit',
+    hour: '2-digit',
+    minute: '2-digit',
+    hourCycle: 'h23',
   }).formatToParts(new Date(at))
   const get = (type: string) => parts.find((p) => p.type === type)?.value ?? '00'
   return `${get('year')}-${get('month')}-${get('day')}T${get('hour')}:${get('minute')}`

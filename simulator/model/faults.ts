@@ -11,14 +11,7 @@ export const HOLD_BACK_CHANCE = 0.3
 export const MALFORMED_CHANCE = 0.5
 const HISTORY = 5
 
-export const MALFORMED_KINDS = [
-  'bad_json',
-  'wrong_version',
-  'unknown_metric',
-  'implausible_value',
-  'unknown_unit',
-  'time_without_zone',
-] as const
+export const MALFORMED_KINDS = ['bad_json', 'wrong_version', 'unknown_metric', 'implausible_value', 'unknown_unit', 'time_without_zone'] as const
 export type MalformedKind = (typeof MALFORMED_KINDS)[number]
 
 function shiftedTime(time: string, seconds: number): string {

@@ -36,9 +36,7 @@ function perimeterCm(spec: SimTankSpec, footprint: number): number {
 export function tankGeometry(spec: SimTankSpec): TankGeometry {
   const heightCm = spec.dimensions?.heightCm ?? DEFAULT_HEIGHT_CM
   // Without dimensions, the entered volume is taken as the water at the usual fill.
-  const footprint = spec.dimensions
-    ? footprintCm2(spec.dimensions)
-    : (spec.volumeLitres * 1000) / (heightCm * START_FILL_FRACTION)
+  const footprint = spec.dimensions ? footprintCm2(spec.dimensions) : (spec.volumeLitres * 1000) / (heightCm * START_FILL_FRACTION)
   const wallsCm2 = perimeterCm(spec, footprint) * heightCm
   return { heightCm, footprintCm2: footprint, exposedAreaM2: (wallsCm2 + footprint) / 10_000 }
 }

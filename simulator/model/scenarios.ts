@@ -60,7 +60,10 @@ export function parseScenarioPlan(text: string): ScenarioPlan {
 /** `Tank name=scenario,Other tank=scenario@60` → tank name → plan. */
 export function parseScenarioList(text: string): Map<string, ScenarioPlan> {
   const plans = new Map<string, ScenarioPlan>()
-  for (const entry of text.split(',').map((s) => s.trim()).filter(Boolean)) {
+  for (const entry of text
+    .split(',')
+    .map((s) => s.trim())
+    .filter(Boolean)) {
     const eq = entry.lastIndexOf('=')
     const name = entry.slice(0, eq).trim()
     if (eq <= 0 || !name) throw new Error(`scenario entry must be 'Tank name=scenario' (got '${entry}')`)

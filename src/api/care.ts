@@ -1,7 +1,24 @@
 import type {
-  CareLogBody, CareTaskBody, CareTaskDoneBody, CareTaskDoneOutcome, CareTaskSnoozeBody, CareTaskUpdateBody, CareToday, CyclingResult,
-  LivestockAdded, LivestockBody, LivestockList, LivestockUpdateBody, PublicCareLogEntry, PublicCareTask, PublicLivestockEntry, PublicWaterChange,
-  WaterChangeFinishBody, WaterChangePlanBody, WaterChangePlanResult, WaterChangeStartBody,
+  CareLogBody,
+  CareTaskBody,
+  CareTaskDoneBody,
+  CareTaskDoneOutcome,
+  CareTaskSnoozeBody,
+  CareTaskUpdateBody,
+  CareToday,
+  CyclingResult,
+  LivestockAdded,
+  LivestockBody,
+  LivestockList,
+  LivestockUpdateBody,
+  PublicCareLogEntry,
+  PublicCareTask,
+  PublicLivestockEntry,
+  PublicWaterChange,
+  WaterChangeFinishBody,
+  WaterChangePlanBody,
+  WaterChangePlanResult,
+  WaterChangeStartBody,
 } from '@shared/schemas/care-api'
 import type { Species } from '@shared/care/species'
 import { http } from './client'

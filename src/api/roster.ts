@@ -1,6 +1,4 @@
-import type {
-  OnDutyResponse, OverrideInput, PublicOverride, PublicShift, RosterBackupResponse, RosterWeekResponse, ShiftInput,
-} from '@shared/schemas/roster'
+import type { OnDutyResponse, OverrideInput, PublicOverride, PublicShift, RosterBackupResponse, RosterWeekResponse, ShiftInput } from '@shared/schemas/roster'
 import { http } from './client'
 
 const base = (siteId: number) => `/sites/${siteId}/roster`

@@ -20,7 +20,10 @@ export function useOpenIncidentCount() {
   }
 
   const targets = computed(() => sites.activeSites.map((site) => ({ siteId: site.id })))
-  useIncidentRefresh(() => targets.value, () => void load())
+  useIncidentRefresh(
+    () => targets.value,
+    () => void load(),
+  )
   void load()
   return count
 }

@@ -28,10 +28,14 @@ export function useTankLatest(tankId: () => number) {
       if (mine === ticket) loading.value = false
     }
   }
-  watch(tankId, () => {
-    snapshot.value = {}
-    void load()
-  }, { immediate: true })
+  watch(
+    tankId,
+    () => {
+      snapshot.value = {}
+      void load()
+    },
+    { immediate: true },
+  )
 
   const latest = computed(() => mergeLatest(snapshot.value, live.latestFor(tankId())))
   const metrics = computed<MetricKey[]>(() => METRIC_KEYS.filter((m) => latest.value[m]))

@@ -29,10 +29,14 @@ export function useTankState(source: () => { tankId: number; siteId: number } | 
     }
   }
 
-  watch(() => JSON.stringify(source()), () => {
-    state.value = null
-    void load()
-  }, { immediate: true })
+  watch(
+    () => JSON.stringify(source()),
+    () => {
+      state.value = null
+      void load()
+    },
+    { immediate: true },
+  )
   const timer = setInterval(() => void load(), WALL_REFRESH_MS)
   onScopeDispose(() => {
     clearInterval(timer)

@@ -18,7 +18,10 @@ function focusUnlessTyping(el: HTMLElement) {
 export const vAutofocus: Directive<HTMLElement> = {
   mounted(el) {
     if (typeof IntersectionObserver === 'undefined') {
-      timers.set(el, setTimeout(() => focusUnlessTyping(el), 50))
+      timers.set(
+        el,
+        setTimeout(() => focusUnlessTyping(el), 50),
+      )
       return
     }
     const observer = new IntersectionObserver((entries) => {
@@ -26,7 +29,10 @@ export const vAutofocus: Directive<HTMLElement> = {
       observer.disconnect()
       observers.delete(el)
       // Past the overlay's enter setup, which keeps a dialog's content hidden for a moment.
-      timers.set(el, setTimeout(() => focusUnlessTyping(el), 50))
+      timers.set(
+        el,
+        setTimeout(() => focusUnlessTyping(el), 50),
+      )
     })
     observer.observe(el)
     observers.set(el, observer)

@@ -81,8 +81,18 @@ export const useCareStore = defineStore('care', () => {
   }
 
   return {
-    species, speciesByKey, ensureSpecies, todayTasks, todaySiteIds, todayOnDuty, todayWatch, todayLoading,
-    loadToday, markTodayDone, snoozeToday, $reset,
+    species,
+    speciesByKey,
+    ensureSpecies,
+    todayTasks,
+    todaySiteIds,
+    todayOnDuty,
+    todayWatch,
+    todayLoading,
+    loadToday,
+    markTodayDone,
+    snoozeToday,
+    $reset,
   }
 })
 

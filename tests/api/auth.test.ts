@@ -42,7 +42,10 @@ describe('sign-in', () => {
     const bad = await t.api().post('/api/v1/auth/sign-in').set('Content-Type', 'application/json').send('{"email":')
     expect(bad.status).toBe(400)
     expect(bad.body.error.code).toBe('invalid_json')
-    const big = await t.api().post('/api/v1/auth/sign-in').send({ email: 'a@b.example', password: 'x'.repeat(2_000_000) })
+    const big = await t
+      .api()
+      .post('/api/v1/auth/sign-in')
+      .send({ email: 'a@b.example', password: 'x'.repeat(2_000_000) })
     expect(big.status).toBe(413)
     expect(big.body.error.code).toBe('too_large')
   })
@@ -50,7 +53,10 @@ describe('sign-in', () => {
   it('slows brute force: the sixth attempt in the window is 429 with a retry time', async () => {
     const email = 'target@limit.example'
     for (let i = 0; i < 5; i++) {
-      const res = await t.api().post('/api/v1/auth/sign-in').send({ email, password: `guess-${i}` })
+      const res = await t
+        .api()
+        .post('/api/v1/auth/sign-in')
+        .send({ email, password: `guess-${i}` })
       expect(res.status).toBe(401)
     }
     const blocked = await t.api().post('/api/v1/auth/sign-in').send({ email, password: 'guess-6' })

@@ -18,28 +18,65 @@ beforeAll(async () => {
   t = await startCareTestApp()
   org = await t.createOrg('Build Report Org')
   tankId = await newTank(t, org, { name: 'Client lounge 60', kind: 'planted', dimensions: TANK_60, heater: null })
-  const keeper: UserActor = { kind: 'user', userId: org.users.keeper.id, organizationId: org.organizationId, role: 'keeper', siteIds: null, sessionId: 'report' }
+  const keeper: UserActor = {
+    kind: 'user',
+    userId: org.users.keeper.id,
+    organizationId: org.organizationId,
+    role: 'keeper',
+    siteIds: null,
+    sessionId: 'report',
+  }
   await buildsService(t.ctx).savePlan(keeper, tankId, buildPlanSchema.parse(PLAN_60))
   await buildsService(t.ctx).start(keeper, tankId, { filledOn: localDaysAgo('Europe/Berlin', 8) })
-  await t.api().post(`/api/v1/tanks/${tankId}/test-kit-entries`).set(as(org, 'keeper')).send({
-    takenAt: new Date(Date.now() - 3 * DAY).toISOString(),
-    values: [{ metric: 'ammonia', value: 1.5, unit: 'mg/L' }, { metric: 'nitrite', value: 0.5, unit: 'mg/L' }, { metric: 'ph', value: 7.2, unit: 'pH' }],
-  })
+  await t
+    .api()
+    .post(`/api/v1/tanks/${tankId}/test-kit-entries`)
+    .set(as(org, 'keeper'))
+    .send({
+      takenAt: new Date(Date.now() - 3 * DAY).toISOString(),
+      values: [
+        { metric: 'ammonia', value: 1.5, unit: 'mg/L' },
+        { metric: 'nitrite', value: 0.5, unit: 'mg/L' },
+        { metric: 'ph', value: 7.2, unit: 'pH' },
+      ],
+    })
   await t.api().post(`/api/v1/tanks/${tankId}/build/steps/conditioner/done`).set(as(org, 'keeper')).send({})
   // A photo row (the report lists photos, it does not embed them, so no image bytes are needed): build day 2.
   await t.ctx.models.Photo.create({
-    organizationId: org.organizationId, tankId, careLogEntryId: null, caption: 'Hardscape placed', takenAt: new Date(Date.now() - 7 * DAY), uploadedBy: org.users.keeper.id,
-    contentType: 'image/jpeg', displayKey: 'k/d.jpg', displayWidth: 1600, displayHeight: 1200, displayBytes: 1000, thumbnailKey: 'k/t.jpg', thumbnailWidth: 320, thumbnailHeight: 240, originalFormat: 'jpeg',
+    organizationId: org.organizationId,
+    tankId,
+    careLogEntryId: null,
+    caption: 'Hardscape placed',
+    takenAt: new Date(Date.now() - 7 * DAY),
+    uploadedBy: org.users.keeper.id,
+    contentType: 'image/jpeg',
+    displayKey: 'k/d.jpg',
+    displayWidth: 1600,
+    displayHeight: 1200,
+    displayBytes: 1000,
+    thumbnailKey: 'k/t.jpg',
+    thumbnailWidth: 320,
+    thumbnailHeight: 240,
+    originalFormat: 'jpeg',
   })
 })
 afterAll(() => t.close())
 
 describe('build report', () => {
   it('lists equipment, substrate, hardscape, readings, the timeline, the care plan and the cautions', async () => {
-    const actor: UserActor = { kind: 'user', userId: org.users.viewer.id, organizationId: org.organizationId, role: 'viewer', siteIds: null, sessionId: 'report' }
+    const actor: UserActor = {
+      kind: 'user',
+      userId: org.users.viewer.id,
+      organizationId: org.organizationId,
+      role: 'viewer',
+      siteIds: null,
+      sessionId: 'report',
+    }
     const report = await buildReportService(t.ctx).load(actor, tankId)
     // Wrapped lines come out as separate blocks: join them and fold the spaces.
-    const text = pdfText(await renderBuildReportPdf(report, { compress: false })).join(' ').replace(/\s+/g, ' ')
+    const text = pdfText(await renderBuildReportPdf(report, { compress: false }))
+      .join(' ')
+      .replace(/\s+/g, ' ')
     expect(text).toContain('Tankwarden build report')
     expect(text).toContain('Client lounge 60')
     expect(text).toContain('60 × 30 × 36 cm')
@@ -63,25 +100,39 @@ describe('build report', () => {
   })
 
   it('mails the report with the PDF attached', async () => {
-    const res = await t.api().post(`/api/v1/tanks/${tankId}/build/report/mail`).set(as(org, 'keeper')).send({ emails: ['client@example.test'] })
+    const res = await t
+      .api()
+      .post(`/api/v1/tanks/${tankId}/build/report/mail`)
+      .set(as(org, 'keeper'))
+      .send({ emails: ['client@example.test'] })
     expect(res.status).toBe(200)
     expect(res.body).toEqual({ queued: 1 })
     const [row] = await t.ctx.sequelize.query<{ subject: string; attachments: Array<{ filename: string; contentType: string }> }>(
-      `SELECT subject, attachments FROM mail_outbox WHERE to_address = 'client@example.test'`, { type: 'SELECT' as never },
+      `SELECT subject, attachments FROM mail_outbox WHERE to_address = 'client@example.test'`,
+      { type: 'SELECT' as never },
     )
     expect(row!.subject).toBe('Tankwarden build report: Client lounge 60')
     expect(row!.attachments[0]).toMatchObject({ contentType: 'application/pdf' })
     expect(row!.attachments[0]!.filename).toMatch(/^tankwarden-build-client-lounge-60-\d{4}-\d{2}-\d{2}\.pdf$/)
-    const bad = await t.api().post(`/api/v1/tanks/${tankId}/build/report/mail`).set(as(org, 'keeper')).send({ emails: ['not an address'] })
+    const bad = await t
+      .api()
+      .post(`/api/v1/tanks/${tankId}/build/report/mail`)
+      .set(as(org, 'keeper'))
+      .send({ emails: ['not an address'] })
     expect(bad.status).toBe(400)
   })
 
   it('serves the PDF', async () => {
-    const res = await t.api().get(`/api/v1/tanks/${tankId}/build/report/pdf`).set(as(org, 'viewer')).buffer(true).parse((r, cb) => {
-      const chunks: Buffer[] = []
-      r.on('data', (c: Buffer) => chunks.push(c))
-      r.on('end', () => cb(null, Buffer.concat(chunks)))
-    })
+    const res = await t
+      .api()
+      .get(`/api/v1/tanks/${tankId}/build/report/pdf`)
+      .set(as(org, 'viewer'))
+      .buffer(true)
+      .parse((r, cb) => {
+        const chunks: Buffer[] = []
+        r.on('data', (c: Buffer) => chunks.push(c))
+        r.on('end', () => cb(null, Buffer.concat(chunks)))
+      })
     expect(res.status).toBe(200)
     expect(res.headers['content-type']).toBe('application/pdf')
     expect((res.body as Buffer).subarray(0, 5).toString()).toBe('%PDF-')

@@ -26,7 +26,14 @@ type Prepared = { path: string; body?: object }
 const readable = [200, 200, 200, 404]
 const writers = [200, 200, 403, 404]
 
-const owner = (): UserActor => ({ kind: 'user', userId: org.users.owner.id, organizationId: org.organizationId, role: 'owner', siteIds: null, sessionId: 'roles' })
+const owner = (): UserActor => ({
+  kind: 'user',
+  userId: org.users.owner.id,
+  organizationId: org.organizationId,
+  role: 'owner',
+  siteIds: null,
+  sessionId: 'roles',
+})
 const freshTank = () => newTank(t, org, { dimensions: TANK_60, heater: null })
 async function plannedTank() {
   const tankId = await freshTank()
@@ -42,11 +49,21 @@ async function filledTank() {
 const ROWS: Array<[string, string, number[], () => Promise<Prepared>]> = [
   ['get', '/tanks/:id/build', readable, async () => ({ path: `/tanks/${await plannedTank()}/build` })],
   ['put', '/tanks/:id/build/plan', writers, async () => ({ path: `/tanks/${await freshTank()}/build/plan`, body: PLAN_60 })],
-  ['post', '/tanks/:id/build/start', writers, async () => ({ path: `/tanks/${await plannedTank()}/build/start`, body: { filledOn: localDaysAgo('Europe/Berlin', 1) } })],
+  [
+    'post',
+    '/tanks/:id/build/start',
+    writers,
+    async () => ({ path: `/tanks/${await plannedTank()}/build/start`, body: { filledOn: localDaysAgo('Europe/Berlin', 1) } }),
+  ],
   ['post', '/tanks/:id/build/steps/:key/done', writers, async () => ({ path: `/tanks/${await filledTank()}/build/steps/conditioner/done`, body: {} })],
   ['get', '/tanks/:id/build/templates', readable, async () => ({ path: `/tanks/${await freshTank()}/build/templates` })],
   ['get', '/tanks/:id/build/report/pdf', readable, async () => ({ path: `/tanks/${await plannedTank()}/build/report/pdf` })],
-  ['post', '/tanks/:id/build/report/mail', writers, async () => ({ path: `/tanks/${await plannedTank()}/build/report/mail`, body: { emails: ['client@example.test'] } })],
+  [
+    'post',
+    '/tanks/:id/build/report/mail',
+    writers,
+    async () => ({ path: `/tanks/${await plannedTank()}/build/report/mail`, body: { emails: ['client@example.test'] } }),
+  ],
 ]
 
 const CALLERS: Caller[] = ['owner', 'keeper', 'viewer', 'otherOrg', 'noToken']

@@ -13,10 +13,14 @@ const ZONE = 'Europe/Berlin' // the fixture's first site
 let tankId: number
 
 const kit = (tank: number, daysAgo: number, values: Record<string, number>) =>
-  t.api().post(`/api/v1/tanks/${tank}/test-kit-entries`).set(as(org, 'keeper')).send({
-    takenAt: new Date(Date.now() - daysAgo * DAY).toISOString(),
-    values: Object.entries(values).map(([metric, value]) => ({ metric, value, unit: metric === 'ph' ? 'pH' : 'mg/L' })),
-  })
+  t
+    .api()
+    .post(`/api/v1/tanks/${tank}/test-kit-entries`)
+    .set(as(org, 'keeper'))
+    .send({
+      takenAt: new Date(Date.now() - daysAgo * DAY).toISOString(),
+      values: Object.entries(values).map(([metric, value]) => ({ metric, value, unit: metric === 'ph' ? 'pH' : 'mg/L' })),
+    })
 const tick = (tank: number, key: string, body: object = {}) => t.api().post(`/api/v1/tanks/${tank}/build/steps/${key}/done`).set(as(org, 'keeper')).send(body)
 
 beforeAll(async () => {
@@ -64,7 +68,13 @@ describe('build plan', () => {
     const heater = await put({ ...PLAN_60, heater: { ...PLAN_60.heater, topCm: 30 } })
     expect(heater.status).toBe(400)
     expect(heater.body.error.fields['heater.topCm']).toMatch(/between 6 cm .* and 20\.0 cm/)
-    const deep = await put({ ...PLAN_60, substrate: [{ material: 'sand', depthCm: 20 }, { material: 'gravel', depthCm: 20 }] })
+    const deep = await put({
+      ...PLAN_60,
+      substrate: [
+        { material: 'sand', depthCm: 20 },
+        { material: 'gravel', depthCm: 20 },
+      ],
+    })
     expect(deep.status).toBe(400)
     expect(Object.keys(deep.body.error.fields)).toEqual(['depthCm'])
     const rim = await put({ ...PLAN_60, fillHeightCm: 40 })
@@ -86,7 +96,12 @@ describe('build timeline', () => {
     expect(res.body).toMatchObject({ filledOn, day: 9, aboutDays: 28, cycled: false })
     expect(res.body.steps.map((s: { key: string }) => s.key)).toEqual(['conditioner', 'heater_check', 'ph', 'plants', 'cycling', 'stock_1', 'stock_2'])
     expect(res.body.steps[2]).toMatchObject({ day: 2, untilDay: 3, daily: true })
-    const tasks = (await t.api().get(`/api/v1/tanks/${tankId}/care-tasks`).set(as(org, 'viewer'))).body as Array<{ title: string; kind: string; startsOn: string; active: boolean }>
+    const tasks = (await t.api().get(`/api/v1/tanks/${tankId}/care-tasks`).set(as(org, 'viewer'))).body as Array<{
+      title: string
+      kind: string
+      startsOn: string
+      active: boolean
+    }>
     const build = tasks.filter((task) => task.title.startsWith('Build: '))
     expect(build).toHaveLength(7)
     expect(build.find((task) => task.title.includes('Cycling tests'))).toMatchObject({ kind: 'test_kit_check', active: true })
@@ -98,7 +113,11 @@ describe('build timeline', () => {
     expect((await t.api().get(`/api/v1/tanks/${tankId}`).set(as(org, 'viewer'))).body.stage).toBe('cycling')
     const again = await t.api().post(`/api/v1/tanks/${tankId}/build/start`).set(as(org, 'keeper')).send({ filledOn })
     expect(again.status).toBe(409)
-    const future = await t.api().post(`/api/v1/tanks/${await newTank(t, org)}/build/start`).set(as(org, 'keeper')).send({ filledOn: '2020-13-01' })
+    const future = await t
+      .api()
+      .post(`/api/v1/tanks/${await newTank(t, org)}/build/start`)
+      .set(as(org, 'keeper'))
+      .send({ filledOn: '2020-13-01' })
     expect(future.status).toBe(400)
   })
 
@@ -151,7 +170,14 @@ describe('build timeline', () => {
   })
 
   it('finishes when the last step is ticked, and offers the plan to the next tank of the same size', async () => {
-    const actor: UserActor = { kind: 'user', userId: org.users.keeper.id, organizationId: org.organizationId, role: 'keeper', siteIds: null, sessionId: 'builds' }
+    const actor: UserActor = {
+      kind: 'user',
+      userId: org.users.keeper.id,
+      organizationId: org.organizationId,
+      role: 'keeper',
+      siteIds: null,
+      sessionId: 'builds',
+    }
     const builds = buildsService(t.ctx)
     for (const key of ['heater_check', 'ph', 'plants']) await builds.tick(actor, tankId, key, { notes: '' })
     // Stage 1 went in 15 days ago (a dated entry), so it has settled.
@@ -190,7 +216,15 @@ describe('bad input and races', () => {
     expect(Object.keys(rockOnly.body.error.fields)).toEqual(['hardscape.0.kg'])
     const tooMuchRock = await put(fresh, { ...PLAN_60, hardscape: [{ kind: 'rock', litres: 60 }] })
     expect(tooMuchRock.status).toBe(400)
-    expect((await t.api().post(`/api/v1/tanks/${fresh}/build/start`).set(as(org, 'keeper')).send({ filledOn: localDaysAgo(ZONE, 1) })).status).toBe(404)
+    expect(
+      (
+        await t
+          .api()
+          .post(`/api/v1/tanks/${fresh}/build/start`)
+          .set(as(org, 'keeper'))
+          .send({ filledOn: localDaysAgo(ZONE, 1) })
+      ).status,
+    ).toBe(404)
     expect((await t.api().post(`/api/v1/tanks/${fresh}/build/steps/stock_9/done`).set(as(org, 'keeper')).send({})).status).toBe(400)
     expect(await t.ctx.models.TankBuild.count({ where: { tankId: [bare, fresh] } })).toBe(0)
   })
@@ -198,7 +232,12 @@ describe('bad input and races', () => {
   it('fills once and ticks once when two requests race', async () => {
     const racer = await newTank(t, org, { dimensions: TANK_60, heater: null })
     expect((await t.api().put(`/api/v1/tanks/${racer}/build/plan`).set(as(org, 'keeper')).send(PLAN_60)).status).toBe(200)
-    const start = () => t.api().post(`/api/v1/tanks/${racer}/build/start`).set(as(org, 'keeper')).send({ filledOn: localDaysAgo(ZONE, 1) })
+    const start = () =>
+      t
+        .api()
+        .post(`/api/v1/tanks/${racer}/build/start`)
+        .set(as(org, 'keeper'))
+        .send({ filledOn: localDaysAgo(ZONE, 1) })
     const starts = await Promise.all([start(), start()])
     expect(starts.map((r) => r.status).sort()).toEqual([200, 409])
     expect(await t.ctx.models.BuildStep.count({ where: { tankId: racer } })).toBe(7)

@@ -20,9 +20,24 @@ beforeAll(async () => {
   tankId = await newTank(t, org)
   const tank = (await t.ctx.models.Tank.findByPk(tankId))!
   taskId = (await createDefaultCareTasks(t.ctx, tank))[0]!.id
-  const actor: UserActor = { kind: 'user', userId: org.users.keeper.id, organizationId: org.organizationId, role: 'keeper', siteIds: null, sessionId: 'bad-input' }
+  const actor: UserActor = {
+    kind: 'user',
+    userId: org.users.keeper.id,
+    organizationId: org.organizationId,
+    role: 'keeper',
+    siteIds: null,
+    sessionId: 'bad-input',
+  }
   changeId = (await waterChangesService(t.ctx).start(actor, await newTank(t, org), { percent: 10, heaterOffConfirmed: false })).id
-  const entry = await t.ctx.models.LivestockEntry.create({ organizationId: org.organizationId, tankId, speciesKey: null, name: 'Probe fish', category: 'fish', count: 3, addedAt: new Date() })
+  const entry = await t.ctx.models.LivestockEntry.create({
+    organizationId: org.organizationId,
+    tankId,
+    speciesKey: null,
+    name: 'Probe fish',
+    category: 'fish',
+    count: 3,
+    addedAt: new Date(),
+  })
   entryPath = `/tanks/${tankId}/livestock/${entry.id}`
 })
 afterAll(() => t.close())
@@ -76,7 +91,12 @@ const cases: Case[] = [
   ['post', () => `/tanks/${tankId}/livestock`, { speciesKey: 'zebra_danio', count: 2, acclimation: { bagLitres: 0 } }, 'acclimation.bagLitres'],
   ['post', () => `/tanks/${tankId}/livestock`, { speciesKey: 'zebra_danio', count: 2, acclimation: { bagLitres: 1, bagTempC: 50 } }, 'acclimation.bagTempC'],
   ['post', () => `/tanks/${tankId}/livestock`, { speciesKey: 'zebra_danio', count: 2, acclimation: { bagLitres: 1, bagPh: 2 } }, 'acclimation.bagPh'],
-  ['post', () => `/tanks/${tankId}/livestock`, { speciesKey: 'zebra_danio', count: 2, acclimation: { bagLitres: 1, intervalMinutes: 2 } }, 'acclimation.intervalMinutes'],
+  [
+    'post',
+    () => `/tanks/${tankId}/livestock`,
+    { speciesKey: 'zebra_danio', count: 2, acclimation: { bagLitres: 1, intervalMinutes: 2 } },
+    'acclimation.intervalMinutes',
+  ],
   ['patch', () => entryPath, { losses: -1 }, 'losses'],
   ['patch', () => entryPath, { count: -2 }, 'count'],
   ['patch', () => entryPath, { removedAt: 'soon' }, 'removedAt'],
@@ -84,19 +104,36 @@ const cases: Case[] = [
 
 describe('out-of-range input to the care routes', () => {
   // The paths need the ids made in beforeAll, so the titles name the route by its shape.
-  it.each(cases.map(([method, path, body, field]) => ({ method, path, body, field, label: `${method.toUpperCase()} ${String(path).replace(/^\(\) => /, '').replace(/\$\{[^}]+\}/g, ':id')}` })))(
-    '$label → 400 naming $field',
-    async ({ method, path, body, field }) => {
-      const before = await Promise.all([t.ctx.models.CareLogEntry.count(), t.ctx.models.LivestockEntry.count(), t.ctx.models.CareTask.count(), t.ctx.models.WaterChange.count()])
-      let req = t.api()[method](`/api/v1${path()}`).set(as(org, 'owner'))
-      if (body !== undefined) req = req.send(body as object)
-      const res = await req
-      expect(res.status, JSON.stringify(res.body)).toBe(400)
-      expect(res.body.error.code).toBe('invalid_input')
-      expect(Object.keys(res.body.error.fields ?? {})).toContain(field)
-      expect(res.body.error.message).toContain(field)
-      const after = await Promise.all([t.ctx.models.CareLogEntry.count(), t.ctx.models.LivestockEntry.count(), t.ctx.models.CareTask.count(), t.ctx.models.WaterChange.count()])
-      expect(after).toEqual(before)
-    },
-  )
+  it.each(
+    cases.map(([method, path, body, field]) => ({
+      method,
+      path,
+      body,
+      field,
+      label: `${method.toUpperCase()} ${String(path)
+        .replace(/^\(\) => /, '')
+        .replace(/\$\{[^}]+\}/g, ':id')}`,
+    })),
+  )('$label → 400 naming $field', async ({ method, path, body, field }) => {
+    const before = await Promise.all([
+      t.ctx.models.CareLogEntry.count(),
+      t.ctx.models.LivestockEntry.count(),
+      t.ctx.models.CareTask.count(),
+      t.ctx.models.WaterChange.count(),
+    ])
+    let req = t.api()[method](`/api/v1${path()}`).set(as(org, 'owner'))
+    if (body !== undefined) req = req.send(body as object)
+    const res = await req
+    expect(res.status, JSON.stringify(res.body)).toBe(400)
+    expect(res.body.error.code).toBe('invalid_input')
+    expect(Object.keys(res.body.error.fields ?? {})).toContain(field)
+    expect(res.body.error.message).toContain(field)
+    const after = await Promise.all([
+      t.ctx.models.CareLogEntry.count(),
+      t.ctx.models.LivestockEntry.count(),
+      t.ctx.models.CareTask.count(),
+      t.ctx.models.WaterChange.count(),
+    ])
+    expect(after).toEqual(before)
+  })
 })

@@ -38,7 +38,11 @@ export type CareTestApp = Awaited<ReturnType<typeof startCareTestApp>>
 export const as = (org: TestOrg, role: 'owner' | 'keeper' | 'viewer') => bearer(org.users[role].token)
 
 export async function newTank(t: CareTestApp, org: TestOrg, overrides: Record<string, unknown> = {}, siteId = org.siteIds[0] as number) {
-  const res = await t.api().post('/api/v1/tanks').set(as(org, 'owner')).send(sampleTank(siteId, { name: `Tank ${Math.random().toString(36).slice(2, 8)}`, ...overrides }))
+  const res = await t
+    .api()
+    .post('/api/v1/tanks')
+    .set(as(org, 'owner'))
+    .send(sampleTank(siteId, { name: `Tank ${Math.random().toString(36).slice(2, 8)}`, ...overrides }))
   expect(res.status, JSON.stringify(res.body)).toBe(201)
   return res.body.id as number
 }

@@ -60,7 +60,11 @@ describe('adding livestock', () => {
     expect(watch - before).toBeGreaterThanOrEqual(3 * DAY - 1000)
     expect(watch - before).toBeLessThan(3 * DAY + 60_000)
     const listed = await t.api().get(`/api/v1/tanks/${tankId}/livestock`).set(as(org, 'viewer'))
-    expect(listed.body).toMatchObject({ watchUntil: res.body.watchUntil, quarantine: null, entries: [{ name: 'Bronze corydoras', count: 5, source: 'Wholesaler' }] })
+    expect(listed.body).toMatchObject({
+      watchUntil: res.body.watchUntil,
+      quarantine: null,
+      entries: [{ name: 'Bronze corydoras', count: 5, source: 'Wholesaler' }],
+    })
     const log = await t.api().get(`/api/v1/tanks/${tankId}/care-log`).set(as(org, 'viewer'))
     expect(log.body).toMatchObject([{ kind: 'livestock_in', text: 'Added 5 × Bronze corydoras', values: { count: 5, speciesKey: 'bronze_corydoras' } }])
   })
@@ -103,10 +107,14 @@ describe('adding livestock', () => {
 
 describe('cycling from test-kit entries', () => {
   const kit = (tankId: number, daysAgo: number, values: Record<string, number>) =>
-    t.api().post(`/api/v1/tanks/${tankId}/test-kit-entries`).set(as(org, 'keeper')).send({
-      takenAt: isoDaysAgo(daysAgo),
-      values: Object.entries(values).map(([metric, value]) => ({ metric, value, unit: 'mg/L' })),
-    })
+    t
+      .api()
+      .post(`/api/v1/tanks/${tankId}/test-kit-entries`)
+      .set(as(org, 'keeper'))
+      .send({
+        takenAt: isoDaysAgo(daysAgo),
+        values: Object.entries(values).map(([metric, value]) => ({ metric, value, unit: 'mg/L' })),
+      })
 
   it('follows the peaks and calls the tank cycled after 7 days of zero ammonia and nitrite', async () => {
     const tankId = await newTank(t, org, { stage: 'cycling' })
@@ -117,8 +125,15 @@ describe('cycling from test-kit entries', () => {
       [19, { ammonia: 4, nitrite: 0.25, nitrate: 0 }],
       [15, { ammonia: 1, nitrite: 2, nitrate: 5 }],
       [11, { ammonia: 0.25, nitrite: 5, nitrate: 10 }],
-    ] as const) expect((await kit(tankId, daysAgo, values)).status).toBe(201)
-    expect(await cycling()).toMatchObject({ phase: 'nitrite', cycled: false, ammoniaPeak: { value: 4, passed: true }, nitritePeak: { value: 5, passed: false }, nitrateRising: true })
+    ] as const)
+      expect((await kit(tankId, daysAgo, values)).status).toBe(201)
+    expect(await cycling()).toMatchObject({
+      phase: 'nitrite',
+      cycled: false,
+      ammoniaPeak: { value: 4, passed: true },
+      nitritePeak: { value: 5, passed: false },
+      nitrateRising: true,
+    })
     await kit(tankId, 7.5, { ammonia: 0, nitrite: 0, nitrate: 20 })
     expect(await cycling()).toMatchObject({ phase: 'nitrate', cycled: false, zeroDays: 0, daysToGo: 7, nitritePeak: { passed: true } })
     await kit(tankId, 0.1, { ammonia: 0.02, nitrite: 0.05, nitrate: 30 })
@@ -140,17 +155,24 @@ describe('cycling from test-kit entries', () => {
 describe('care log', () => {
   it('takes hand entries from keepers and owners, filters by time, and refuses task_done and viewers', async () => {
     const tankId = await newTank(t, org)
-    const post = (body: object, role: 'owner' | 'keeper' | 'viewer' = 'keeper') => t.api().post(`/api/v1/tanks/${tankId}/care-log`).set(as(org, role)).send(body)
+    const post = (body: object, role: 'owner' | 'keeper' | 'viewer' = 'keeper') =>
+      t.api().post(`/api/v1/tanks/${tankId}/care-log`).set(as(org, role)).send(body)
     expect((await post({ kind: 'dosing', at: isoDaysAgo(3), text: 'Fertiliser', values: { ml: 5 } })).status).toBe(201)
     expect((await post({ kind: 'equipment', text: 'New heater fitted' }, 'owner')).status).toBe(201)
     expect((await post({ kind: 'note', text: 'Looks fine' }, 'viewer')).status).toBe(403)
     expect(badFields(await post({ kind: 'task_done', text: 'x' }))).toEqual(['kind'])
     expect(badFields(await post({ kind: 'note' }))).toEqual(['text'])
     expect(badFields(await post({ kind: 'note', text: 'later', at: new Date(Date.now() + DAY).toISOString() }))).toEqual(['at'])
-    const recent = await t.api().get(`/api/v1/tanks/${tankId}/care-log?from=${encodeURIComponent(isoDaysAgo(1))}`).set(as(org, 'viewer'))
+    const recent = await t
+      .api()
+      .get(`/api/v1/tanks/${tankId}/care-log?from=${encodeURIComponent(isoDaysAgo(1))}`)
+      .set(as(org, 'viewer'))
     expect(recent.body.map((e: { kind: string }) => e.kind)).toEqual(['equipment'])
     const all = await t.api().get(`/api/v1/tanks/${tankId}/care-log`).set(as(org, 'viewer'))
-    expect(all.body.map((e: { kind: string; by: { id: number } }) => [e.kind, e.by.id])).toEqual([['equipment', org.users.owner.id], ['dosing', org.users.keeper.id]])
+    expect(all.body.map((e: { kind: string; by: { id: number } }) => [e.kind, e.by.id])).toEqual([
+      ['equipment', org.users.owner.id],
+      ['dosing', org.users.keeper.id],
+    ])
     expect(badFields(await t.api().get(`/api/v1/tanks/${tankId}/care-log?from=yesterday`).set(as(org, 'viewer')))).toEqual(['from'])
   })
 })

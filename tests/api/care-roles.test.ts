@@ -34,7 +34,15 @@ async function freshTask() {
 }
 async function freshEntry() {
   const tankId = await freshTank()
-  const entry = await t.ctx.models.LivestockEntry.create({ organizationId: org.organizationId, tankId, speciesKey: null, name: 'Probe fish', category: 'fish', count: 3, addedAt: new Date() })
+  const entry = await t.ctx.models.LivestockEntry.create({
+    organizationId: org.organizationId,
+    tankId,
+    speciesKey: null,
+    name: 'Probe fish',
+    category: 'fish',
+    count: 3,
+    addedAt: new Date(),
+  })
   return `${tankId}/livestock/${entry.id}`
 }
 async function freshChange() {
@@ -44,20 +52,38 @@ async function freshChange() {
 
 const ROWS: Array<[string, string, number[], () => Promise<Prepared>]> = [
   ['get', '/tanks/:id/care-tasks', readable, async () => ({ path: `/tanks/${await freshTank()}/care-tasks` })],
-  ['post', '/tanks/:id/care-tasks', ownerOnly(201), async () => ({ path: `/tanks/${await freshTank()}/care-tasks`, body: { kind: 'glass_clean', recurrence: { kind: 'interval', everyDays: 7 } } })],
+  [
+    'post',
+    '/tanks/:id/care-tasks',
+    ownerOnly(201),
+    async () => ({ path: `/tanks/${await freshTank()}/care-tasks`, body: { kind: 'glass_clean', recurrence: { kind: 'interval', everyDays: 7 } } }),
+  ],
   ['get', '/tanks/:id/care-log', readable, async () => ({ path: `/tanks/${await freshTank()}/care-log` })],
   ['post', '/tanks/:id/care-log', writers(201), async () => ({ path: `/tanks/${await freshTank()}/care-log`, body: { kind: 'note', text: 'Lid cleaned' } })],
   ['get', '/tanks/:id/water-changes', readable, async () => ({ path: `/tanks/${await freshTank()}/water-changes` })],
   ['post', '/tanks/:id/water-changes/plan', readable, async () => ({ path: `/tanks/${await freshTank()}/water-changes/plan`, body: { percent: 10 } })],
   ['post', '/tanks/:id/water-changes', writers(201), async () => ({ path: `/tanks/${await freshTank()}/water-changes`, body: { percent: 10 } })],
   ['get', '/tanks/:id/livestock', readable, async () => ({ path: `/tanks/${await freshTank()}/livestock` })],
-  ['post', '/tanks/:id/livestock', writers(201), async () => ({ path: `/tanks/${await freshTank()}/livestock`, body: { speciesKey: 'zebra_danio', count: 6 } })],
+  [
+    'post',
+    '/tanks/:id/livestock',
+    writers(201),
+    async () => ({ path: `/tanks/${await freshTank()}/livestock`, body: { speciesKey: 'zebra_danio', count: 6 } }),
+  ],
   ['patch', '/tanks/:id/livestock/:entryId', writers(200), async () => ({ path: `/tanks/${await freshEntry()}`, body: { losses: 1 } })],
   ['get', '/tanks/:id/cycling', readable, async () => ({ path: `/tanks/${await freshTank()}/cycling` })],
   ['patch', '/care-tasks/:id', ownerOnly(200), async () => ({ path: `/care-tasks/${await freshTask()}`, body: { title: 'Renamed task' } })],
   ['post', '/care-tasks/done', writers(200), async () => ({ path: '/care-tasks/done', body: { tasks: [{ id: await freshTask(), seenLastDoneAt: null }] } })],
   ['post', '/care-tasks/:id/done', writers(200), async () => ({ path: `/care-tasks/${await freshTask()}/done`, body: {} })],
-  ['post', '/care-tasks/:id/snooze', writers(200), async () => ({ path: `/care-tasks/${await freshTask()}/snooze`, body: { until: new Date(Date.now() + 86_400_000).toISOString(), reason: 'Parts on order' } })],
+  [
+    'post',
+    '/care-tasks/:id/snooze',
+    writers(200),
+    async () => ({
+      path: `/care-tasks/${await freshTask()}/snooze`,
+      body: { until: new Date(Date.now() + 86_400_000).toISOString(), reason: 'Parts on order' },
+    }),
+  ],
   ['post', '/water-changes/:id/finish', writers(200), async () => ({ path: `/water-changes/${await freshChange()}/finish`, body: { litresReplaced: 18 } })],
   ['post', '/water-changes/:id/cancel', writers(200), async () => ({ path: `/water-changes/${await freshChange()}/cancel`, body: { reason: 'Called away' } })],
   ['get', '/care/today', readable, async () => ({ path: `/care/today?siteId=${org.siteIds[0]}` })],

@@ -27,9 +27,15 @@ const tick = (role: 'owner' | 'keeper' | 'viewer', tasks: Array<{ id: number; se
 describe('ticking off several care tasks at once', () => {
   it('marks each done, logs each once, and names who did it', async () => {
     const { tankId, ids } = await freshTasks()
-    const res = await tick('keeper', [{ id: ids[0]!, seenLastDoneAt: null }, { id: ids[1]!, seenLastDoneAt: null }])
+    const res = await tick('keeper', [
+      { id: ids[0]!, seenLastDoneAt: null },
+      { id: ids[1]!, seenLastDoneAt: null },
+    ])
     expect(res.status, JSON.stringify(res.body)).toBe(200)
-    expect(res.body.results.map((r: { id: number; outcome: string }) => [r.id, r.outcome])).toEqual([[ids[0], 'done'], [ids[1], 'done']])
+    expect(res.body.results.map((r: { id: number; outcome: string }) => [r.id, r.outcome])).toEqual([
+      [ids[0], 'done'],
+      [ids[1], 'done'],
+    ])
     expect(res.body.results[0].doneBy).toEqual({ id: org.users.keeper.id, name: 'keeper of Bulk Care Org' })
     expect(res.body.results[0].task.due.status).not.toBe('due_today')
     expect(await logCount(tankId)).toBe(2)
@@ -42,7 +48,10 @@ describe('ticking off several care tasks at once', () => {
     const { tankId, ids } = await freshTasks()
     // The owner's list was loaded while both were due; the keeper ticks the first one first.
     expect((await tick('keeper', [{ id: ids[0]!, seenLastDoneAt: null }])).status).toBe(200)
-    const res = await tick('owner', [{ id: ids[0]!, seenLastDoneAt: null }, { id: ids[1]!, seenLastDoneAt: null }])
+    const res = await tick('owner', [
+      { id: ids[0]!, seenLastDoneAt: null },
+      { id: ids[1]!, seenLastDoneAt: null },
+    ])
     expect(res.status).toBe(200)
     expect(res.body.results.map((r: { outcome: string }) => r.outcome)).toEqual(['already_done', 'done'])
     expect(res.body.results[0].doneBy.name).toBe('keeper of Bulk Care Org')
@@ -65,9 +74,19 @@ describe('ticking off several care tasks at once', () => {
   it('refuses the whole request, writing nothing, when one task is unknown, switched off or another organization’s', async () => {
     const { tankId, ids } = await freshTasks()
     const foreign = (await createDefaultCareTasks(t.ctx, (await t.ctx.models.Tank.findByPk(await newTank(t, other)))!))[0]!.id
-    expect((await tick('keeper', [{ id: ids[0]!, seenLastDoneAt: null }, { id: foreign, seenLastDoneAt: null }])).status).toBe(404)
+    expect(
+      (
+        await tick('keeper', [
+          { id: ids[0]!, seenLastDoneAt: null },
+          { id: foreign, seenLastDoneAt: null },
+        ])
+      ).status,
+    ).toBe(404)
     await t.ctx.models.CareTask.update({ active: false }, { where: { id: ids[1]! } })
-    const off = await tick('keeper', [{ id: ids[0]!, seenLastDoneAt: null }, { id: ids[1]!, seenLastDoneAt: null }])
+    const off = await tick('keeper', [
+      { id: ids[0]!, seenLastDoneAt: null },
+      { id: ids[1]!, seenLastDoneAt: null },
+    ])
     expect(badFields(off)).toEqual(['tasks.1.id'])
     expect(await logCount(tankId)).toBe(0)
     expect((await t.ctx.models.CareTask.findByPk(ids[0]!))!.lastDoneAt).toBeNull()
@@ -76,7 +95,14 @@ describe('ticking off several care tasks at once', () => {
   it('checks its input and its callers', async () => {
     const { ids } = await freshTasks()
     expect(badFields(await tick('keeper', []))).toEqual(['tasks'])
-    expect(badFields(await tick('keeper', [{ id: ids[0]!, seenLastDoneAt: null }, { id: ids[0]!, seenLastDoneAt: null }]))).toEqual(['tasks'])
+    expect(
+      badFields(
+        await tick('keeper', [
+          { id: ids[0]!, seenLastDoneAt: null },
+          { id: ids[0]!, seenLastDoneAt: null },
+        ]),
+      ),
+    ).toEqual(['tasks'])
     expect(badFields(await tick('keeper', [{ id: ids[0]!, seenLastDoneAt: 'yesterday' }]))).toEqual(['tasks.0.seenLastDoneAt'])
     expect((await tick('viewer', [{ id: ids[0]!, seenLastDoneAt: null }])).status).toBe(403)
   })

@@ -27,7 +27,14 @@ async function tankWithDefaults(siteId = org.siteIds[0] as number) {
 type TaskRow = { id: number; kind: string; recurrence: { everyDays?: number }; due: { status: string }; defaultValues: unknown }
 const tasksOf = async (tankId: number) => (await t.api().get(`/api/v1/tanks/${tankId}/care-tasks`).set(as(org, 'viewer'))).body as TaskRow[]
 const setLastDone = (taskId: number, at: Date | null) => t.ctx.models.CareTask.update({ lastDoneAt: at }, { where: { id: taskId } })
-const actorFor = (role: 'owner' | 'keeper'): UserActor => ({ kind: 'user', userId: org.users[role].id, organizationId: org.organizationId, role, siteIds: null, sessionId: 'test' })
+const actorFor = (role: 'owner' | 'keeper'): UserActor => ({
+  kind: 'user',
+  userId: org.users[role].id,
+  organizationId: org.organizationId,
+  role,
+  siteIds: null,
+  sessionId: 'test',
+})
 
 describe('care tasks of a tank', () => {
   it('creates the default routine, due on the day it was created', async () => {
@@ -69,13 +76,20 @@ describe('done and snooze', () => {
     const tankId = await tankWithDefaults()
     const [change] = await tasksOf(tankId)
     expect((await t.api().post(`/api/v1/care-tasks/${change!.id}/done`).set(as(org, 'viewer')).send({})).status).toBe(403)
-    const res = await t.api().post(`/api/v1/care-tasks/${change!.id}/done`).set(as(org, 'keeper')).send({ notes: 'Gravel vac too', values: { percent: 15 } })
+    const res = await t
+      .api()
+      .post(`/api/v1/care-tasks/${change!.id}/done`)
+      .set(as(org, 'keeper'))
+      .send({ notes: 'Gravel vac too', values: { percent: 15 } })
     expect(res.status, JSON.stringify(res.body)).toBe(200)
     expect(res.body.task.due).toMatchObject({ status: 'later', daysUntilDue: 7 })
     expect(res.body.task.lastDoneBy).toBe(org.users.keeper.id)
     expect(res.body.logEntry).toMatchObject({
-      kind: 'task_done', text: 'Partial water change: Gravel vac too', values: { taskKind: 'water_change', percent: 15 },
-      by: { id: org.users.keeper.id }, careTaskId: change!.id,
+      kind: 'task_done',
+      text: 'Partial water change: Gravel vac too',
+      values: { taskKind: 'water_change', percent: 15 },
+      by: { id: org.users.keeper.id },
+      careTaskId: change!.id,
     })
     const log = await t.api().get(`/api/v1/tanks/${tankId}/care-log`).set(as(org, 'viewer'))
     expect(log.body.map((e: { kind: string }) => e.kind)).toEqual(['task_done'])
@@ -125,8 +139,13 @@ describe('today lists and the site summary', () => {
     expect(before.body).toMatchObject({ siteIds: [...org.siteIds].sort((a, b) => a - b), onDuty: false })
     expect(before.body.tasks.filter((x: { tankId: number }) => x.tankId === tankId)).toHaveLength(5)
     await t.ctx.models.DutyOverride.create({
-      organizationId: org.organizationId, siteId, userId: org.users.keeper.id, kind: 'add',
-      startsAt: new Date(Date.now() - 3600_000), endsAt: new Date(Date.now() + 3600_000), createdBy: org.users.owner.id,
+      organizationId: org.organizationId,
+      siteId,
+      userId: org.users.keeper.id,
+      kind: 'add',
+      startsAt: new Date(Date.now() - 3600_000),
+      endsAt: new Date(Date.now() + 3600_000),
+      createdBy: org.users.owner.id,
     })
     const after = await mine()
     expect(after.body).toMatchObject({ siteIds: [siteId], onDuty: true })
@@ -137,7 +156,15 @@ describe('today lists and the site summary', () => {
   it('keeps a viewer on duty nowhere to the sites they may see', async () => {
     const [own, elsewhere] = [org.siteIds[1] as number, org.siteIds[0] as number]
     const [ownTank, otherTank] = [await tankWithDefaults(own), await tankWithDefaults(elsewhere)]
-    expect((await t.api().patch(`/api/v1/users/${org.users.viewer.id}`).set(as(org, 'owner')).send({ siteIds: [own] })).status).toBe(200)
+    expect(
+      (
+        await t
+          .api()
+          .patch(`/api/v1/users/${org.users.viewer.id}`)
+          .set(as(org, 'owner'))
+          .send({ siteIds: [own] })
+      ).status,
+    ).toBe(200)
     try {
       const res = await t.api().get('/api/v1/care/today?mine=true').set(as(org, 'viewer'))
       expect(res.body).toMatchObject({ siteIds: [own], onDuty: false })

@@ -21,7 +21,9 @@ afterAll(() => t.close())
 const start = (tankId: number, body: object) => t.api().post(`/api/v1/tanks/${tankId}/water-changes`).set(as(org, 'keeper')).send(body)
 const cancel = (id: number, body: object, who = as(org, 'keeper')) => t.api().post(`/api/v1/water-changes/${id}/cancel`).set(who).send(body)
 const rulesNamed = async (tankId: number) =>
-  ((await t.api().get(`/api/v1/tanks/${tankId}/rules`).set(as(org, 'viewer'))).body as Array<{ id: number; name: string }>).filter((r) => r.name === TEMPORARY_RULE_NAME)
+  ((await t.api().get(`/api/v1/tanks/${tankId}/rules`).set(as(org, 'viewer'))).body as Array<{ id: number; name: string }>).filter(
+    (r) => r.name === TEMPORARY_RULE_NAME,
+  )
 
 describe('cancelling a water change', () => {
   it('disarms the heater-line rule, logs the cancellation and leaves the task due', async () => {
@@ -40,7 +42,14 @@ describe('cancelling a water change', () => {
 
     const res = await cancel(started.body.id, { reason: 'Bucket cracked' })
     expect(res.status, JSON.stringify(res.body)).toBe(200)
-    expect(res.body).toMatchObject({ status: 'cancelled', cancelReason: 'Bucket cracked', cancelledBy: org.users.keeper.id, finishedAt: null, temporaryRuleId: null, litresReplaced: null })
+    expect(res.body).toMatchObject({
+      status: 'cancelled',
+      cancelReason: 'Bucket cracked',
+      cancelledBy: org.users.keeper.id,
+      finishedAt: null,
+      temporaryRuleId: null,
+      litresReplaced: null,
+    })
     expect(res.body.cautions).toEqual([CANCEL_CAUTION, UNPLUG_CAUTION])
     expect(res.body.logEntry).toMatchObject({ kind: 'note', text: 'Water change cancelled (not done): Bucket cracked', waterChangeId: started.body.id })
     expect(await rulesNamed(tankId)).toEqual([])

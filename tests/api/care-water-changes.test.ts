@@ -30,7 +30,10 @@ const finish = (id: number, body: object, role: 'owner' | 'keeper' | 'viewer' = 
 const rulesNamed = async (tankId: number) =>
   ((await t.api().get(`/api/v1/tanks/${tankId}/rules`).set(as(org, 'viewer'))).body as Array<{ name: string }>).filter((r) => r.name === TEMPORARY_RULE_NAME)
 const levelReading = (tankId: number, cm: number) =>
-  t.ctx.sequelize.query(`INSERT INTO readings (source_key, metric, time, tank_id, value, source) VALUES ('i:care-test', 'water_level', now(), $1, $2, 'import')`, { bind: [tankId, cm] })
+  t.ctx.sequelize.query(
+    `INSERT INTO readings (source_key, metric, time, tank_id, value, source) VALUES ('i:care-test', 'water_level', now(), $1, $2, 'import')`,
+    { bind: [tankId, cm] },
+  )
 
 describe('water-change plan', () => {
   it('plans 12 % of an assumed 45 cm fill: 21.6 L out, level 39.6 cm, heater covered', async () => {
@@ -120,7 +123,11 @@ describe('starting and finishing a water change', () => {
     expect(done.status, JSON.stringify(done.body)).toBe(200)
     // 21 L of the plan's 180 L is 11.7 %.
     expect(done.body).toMatchObject({ status: 'finished', litresReplaced: 21, temporaryRuleId: null })
-    expect(done.body.logEntry).toMatchObject({ kind: 'water_change', values: { litres: 21, percent: 11.7, dechlorinatorMl: 10.5, newWaterTempC: 25.5 }, waterChangeId: started.body.id })
+    expect(done.body.logEntry).toMatchObject({
+      kind: 'water_change',
+      values: { litres: 21, percent: 11.7, dechlorinatorMl: 10.5, newWaterTempC: 25.5 },
+      waterChangeId: started.body.id,
+    })
     expect(await rulesNamed(tankId)).toEqual([])
     const tasks = (await t.api().get(`/api/v1/tanks/${tankId}/care-tasks`).set(as(org, 'viewer'))).body
     expect(tasks.find((x: { kind: string }) => x.kind === 'water_change').due).toMatchObject({ status: 'later', daysUntilDue: 7 })

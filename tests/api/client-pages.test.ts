@@ -49,11 +49,15 @@ describe('the built client behind the API', () => {
     ['br, gzip, deflate', 'br'],
     ['gzip, deflate', 'gzip'],
   ])('sends a built file compressed to a browser that accepts %s: Content-Encoding %s', async (accept, encoding) => {
-    const res = await request(app).get('/assets/app-2.js').set('Accept-Encoding', accept).buffer(true).parse((r, done) => {
-      const chunks: Buffer[] = []
-      r.on('data', (c: Buffer) => chunks.push(c))
-      r.on('end', () => done(null, Buffer.concat(chunks)))
-    })
+    const res = await request(app)
+      .get('/assets/app-2.js')
+      .set('Accept-Encoding', accept)
+      .buffer(true)
+      .parse((r, done) => {
+        const chunks: Buffer[] = []
+        r.on('data', (c: Buffer) => chunks.push(c))
+        r.on('end', () => done(null, Buffer.concat(chunks)))
+      })
     expect(res.status).toBe(200)
     expect(res.headers['content-encoding']).toBe(encoding)
     expect(res.headers['content-type']).toMatch(/^(text|application)\/javascript/)

@@ -41,13 +41,19 @@ describe('CLUSTER_FANOUT=false, one instance alone on its database', () => {
     const res = await fetch(`http://127.0.0.1:${lone.port}/api/v1/readings`, {
       method: 'POST',
       headers: { 'content-type': 'application/json', authorization: `Bearer ${node.token}` },
-      body: JSON.stringify({ v: 1, readings: Array.from({ length: 50 }, (_, i) => ({ metric: 'temperature', value: 25, time: new Date(t0 + i * 1000).toISOString() })) }),
+      body: JSON.stringify({
+        v: 1,
+        readings: Array.from({ length: 50 }, (_, i) => ({ metric: 'temperature', value: 25, time: new Date(t0 + i * 1000).toISOString() })),
+      }),
     })
     expect(res.status).toBe(200)
     expect(((await res.json()) as { accepted: number }).accepted).toBe(50)
     const pushed = await live.next((m) => m.type === 'readings')
     expect(pushed.type === 'readings' && pushed.readings[0]).toMatchObject({ tankId: node.tankId, metric: 'temperature', value: 25 })
-    const [row] = await lone.ctx.sequelize.query<{ n: number }>('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1', { bind: [node.tankId], type: QueryTypes.SELECT })
+    const [row] = await lone.ctx.sequelize.query<{ n: number }>('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1', {
+      bind: [node.tankId],
+      type: QueryTypes.SELECT,
+    })
     expect(row!.n).toBe(50)
     await new Promise((r) => setTimeout(r, 500))
     expect(heard).toEqual([])

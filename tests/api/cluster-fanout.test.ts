@@ -12,11 +12,13 @@ let b: RunningServer
 let org: TestOrg
 
 const start = (instanceId: string) =>
-  startServer(testConfig({ databaseUrl: db.url, instanceId, mqtt: { host: '127.0.0.1', port: 0 }, mail: { fakeSmtpPort: 0, from: 'fanout@tankwarden.invalid' } }))
+  startServer(
+    testConfig({ databaseUrl: db.url, instanceId, mqtt: { host: '127.0.0.1', port: 0 }, mail: { fakeSmtpPort: 0, from: 'fanout@tankwarden.invalid' } }),
+  )
 const base = (s: RunningServer) => `http://127.0.0.1:${s.port}`
 
 async function until(check: () => boolean | Promise<boolean>, ms = 15_000) {
-  for (const end = Date.now() + ms; Date.now() < end; ) {
+  for (const end = Date.now() + ms; Date.now() < end;) {
     if (await check()) return true
     await new Promise((r) => setTimeout(r, 100))
   }
@@ -24,7 +26,11 @@ async function until(check: () => boolean | Promise<boolean>, ms = 15_000) {
 }
 
 const post = (s: RunningServer, path: string, token: string, body: unknown) =>
-  fetch(`${base(s)}/api/v1${path}`, { method: 'POST', headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` }, body: JSON.stringify(body) })
+  fetch(`${base(s)}/api/v1${path}`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` },
+    body: JSON.stringify(body),
+  })
 
 const batch = (t0: number, count: number, value: (i: number) => number) => ({
   v: 1,
@@ -53,10 +59,19 @@ describe('live fan-out across instances over LISTEN/NOTIFY', () => {
     const t0 = Date.now() - 2 * 3600_000
     // Three full messages: 3,000 rows, far more than one 8,000-byte NOTIFY payload holds.
     for (let k = 0; k < 3; k++) {
-      const res = await post(a, '/readings', node.token, batch(t0 + k * 1000_000, 1000, (i) => 24 + (i % 50) / 100))
+      const res = await post(
+        a,
+        '/readings',
+        node.token,
+        batch(t0 + k * 1000_000, 1000, (i) => 24 + (i % 50) / 100),
+      )
       expect(((await res.json()) as { accepted: number }).accepted).toBe(1000)
     }
-    const keys = (c: typeof onA) => c.liveReadings().filter((r) => r.tankId === node.tankId).map((r) => `${r.metric}@${r.time}`)
+    const keys = (c: typeof onA) =>
+      c
+        .liveReadings()
+        .filter((r) => r.tankId === node.tankId)
+        .map((r) => `${r.metric}@${r.time}`)
     expect(await until(() => keys(onB).length >= 3000)).toBe(true)
     expect(await until(() => keys(onA).length >= 3000)).toBe(true)
     await new Promise((r) => setTimeout(r, 500))
@@ -86,12 +101,17 @@ describe('live fan-out across instances over LISTEN/NOTIFY', () => {
 
     // The rule is made on the follower; the leader hears of it through the fan-out.
     const rule = await post(follower, `/tanks/${node.tankId}/rules`, org.users.owner.token, {
-      name: 'Above 28 °C for 10 min', severity: 'alarm', spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 },
+      name: 'Above 28 °C for 10 min',
+      severity: 'alarm',
+      spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 },
     })
     expect(rule.status).toBe(201)
     await new Promise((r) => setTimeout(r, 1000))
     const t0 = Date.now() - 30 * MIN
-    const res = await post(follower, '/readings', node.token, { v: 1, readings: Array.from({ length: 12 }, (_, i) => ({ metric: 'temperature', value: 29, time: new Date(t0 + i * MIN).toISOString() })) })
+    const res = await post(follower, '/readings', node.token, {
+      v: 1,
+      readings: Array.from({ length: 12 }, (_, i) => ({ metric: 'temperature', value: 29, time: new Date(t0 + i * MIN).toISOString() })),
+    })
     expect(((await res.json()) as { accepted: number }).accepted).toBe(12)
 
     const opened = await watcher.next((m) => m.type === 'incident' && m.tankId === node.tankId, 10_000)
@@ -104,7 +124,9 @@ describe('live fan-out across instances over LISTEN/NOTIFY', () => {
     // Acknowledged through the leader; the client on the follower hears it.
     const ack = await post(leader, `/incidents/${incidentId}/acknowledge`, org.users.keeper.token, { note: 'Heater checked' })
     expect(ack.status).toBe(200)
-    expect(await watcher.next((m) => m.type === 'incident' && m.incidentId === incidentId && m.state === 'acknowledged')).toMatchObject({ state: 'acknowledged' })
+    expect(await watcher.next((m) => m.type === 'incident' && m.incidentId === incidentId && m.state === 'acknowledged')).toMatchObject({
+      state: 'acknowledged',
+    })
     await watcher.close()
   })
 })

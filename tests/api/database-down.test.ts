@@ -51,7 +51,11 @@ describe('when PostgreSQL is unavailable', () => {
     expect(writer.healthy).toBe(false)
     await expect(writer.write([row(4)], { hold: false })).rejects.toBeInstanceOf(DatabaseUnavailableError)
 
-    const res = await t.api().post('/api/v1/readings').set(bearer(node.token)).send({ v: 1, readings: [{ metric: 'ph', value: 7, time: new Date().toISOString() }] })
+    const res = await t
+      .api()
+      .post('/api/v1/readings')
+      .set(bearer(node.token))
+      .send({ v: 1, readings: [{ metric: 'ph', value: 7, time: new Date().toISOString() }] })
     expect(res.status).toBe(503)
     expect(res.body.error.code).toBe('unavailable')
     expect(Number(res.headers['retry-after'])).toBeGreaterThan(0)

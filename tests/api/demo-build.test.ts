@@ -21,13 +21,20 @@ describe('the demo tank mid-build', () => {
     expect(await seedDemoBuild(t.ctx, { actor, siteId })).toBeNull()
     const build = (await t.api().get(`/api/v1/tanks/${tankId}/build`).set(as(org, 'viewer'))).body
     expect(build).toMatchObject({ day: 9, aboutDays: 28, cycled: false, finishedAt: null })
-    expect(build.steps.filter((s: { doneAt: string | null }) => s.doneAt).map((s: { key: string }) => s.key)).toEqual(['conditioner', 'heater_check', 'ph', 'plants'])
+    expect(build.steps.filter((s: { doneAt: string | null }) => s.doneAt).map((s: { key: string }) => s.key)).toEqual([
+      'conditioner',
+      'heater_check',
+      'ph',
+      'plants',
+    ])
     const tank = (await t.api().get(`/api/v1/tanks/${tankId}`).set(as(org, 'viewer'))).body
     expect(tank).toMatchObject({ name: DEMO_BUILD_TANK, stage: 'cycling', substrateDepthCm: 6 })
     const cycling = (await t.api().get(`/api/v1/tanks/${tankId}/cycling`).set(as(org, 'viewer'))).body
     expect(cycling.phase).toBe('nitrite')
     expect(cycling.ammoniaPeak).toMatchObject({ value: 1.5, passed: true })
-    const cyclingTask = (await t.api().get(`/api/v1/tanks/${tankId}/care-tasks`).set(as(org, 'viewer'))).body.find((x: { title: string }) => x.title.includes('Cycling tests'))
+    const cyclingTask = (await t.api().get(`/api/v1/tanks/${tankId}/care-tasks`).set(as(org, 'viewer'))).body.find((x: { title: string }) =>
+      x.title.includes('Cycling tests'),
+    )
     expect(cyclingTask.due.status).not.toBe('overdue')
     const wall = (await t.api().get(`/api/v1/sites/${siteId}/wall`).set(as(org, 'viewer'))).body
     expect(wall.tanks.find((x: { id: number }) => x.id === tankId).buildDay).toEqual({ day: 9, aboutDays: 28 })

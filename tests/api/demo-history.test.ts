@@ -154,7 +154,16 @@ describe('the demo seed', () => {
   })
 
   it('has past incidents acknowledged with notes and resolved, with their timelines', async () => {
-    const incidents = await select<{ id: number; tank: string; rule_kind: string; state: string; acknowledge_note: string | null; resolve_note: string | null; resolved_by: number | null; kinds: string[] }>(
+    const incidents = await select<{
+      id: number
+      tank: string
+      rule_kind: string
+      state: string
+      acknowledge_note: string | null
+      resolve_note: string | null
+      resolved_by: number | null
+      kinds: string[]
+    }>(
       `SELECT i.id, t.name AS tank, i.rule_kind, i.state, i.acknowledge_note, i.resolve_note, i.resolved_by,
               array_agg(e.kind ORDER BY e.at, e.id) AS kinds
        FROM incidents i JOIN tanks t ON t.id = i.tank_id JOIN incident_events e ON e.incident_id = i.id GROUP BY i.id, t.name`,

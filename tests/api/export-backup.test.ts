@@ -15,40 +15,195 @@ async function buildOrganization() {
   const org = await t.ctx.models.Organization.create({ name: 'Marrowfen Aquatics' })
   const o = org.id
   const owner = await signedInUser(t.ctx, o, 'owner', ownerEmail)
-  const keeper = await insertRow(t.ctx, 'users', { organization_id: o, email: `ash@marrowfen-${stamp}.example`, name: 'Ash Keeper', role: 'keeper', password_hash: 'x', unit_preferences: JSON.stringify({ temperature: 'F' }) })
-  const viewer = await insertRow(t.ctx, 'users', { organization_id: o, email: `client@marrowfen-${stamp}.example`, name: 'Tank client', role: 'viewer', password_hash: 'x' })
+  const keeper = await insertRow(t.ctx, 'users', {
+    organization_id: o,
+    email: `ash@marrowfen-${stamp}.example`,
+    name: 'Ash Keeper',
+    role: 'keeper',
+    password_hash: 'x',
+    unit_preferences: JSON.stringify({ temperature: 'F' }),
+  })
+  const viewer = await insertRow(t.ctx, 'users', {
+    organization_id: o,
+    email: `client@marrowfen-${stamp}.example`,
+    name: 'Tank client',
+    role: 'viewer',
+    password_hash: 'x',
+  })
   const site = await insertRow(t.ctx, 'sites', { organization_id: o, name: 'Riverside shop', time_zone: 'Europe/London', backup_user_id: keeper })
-  const room = await insertRow(t.ctx, 'sites', { organization_id: o, name: 'Fish room', time_zone: 'Europe/Berlin', archived_at: '2026-06-01T10:00:00.123456Z' })
+  const room = await insertRow(t.ctx, 'sites', {
+    organization_id: o,
+    name: 'Fish room',
+    time_zone: 'Europe/Berlin',
+    archived_at: '2026-06-01T10:00:00.123456Z',
+  })
   await insertRow(t.ctx, 'user_sites', { user_id: viewer, site_id: site })
   const tank = await insertRow(t.ctx, 'tanks', { ...tankValues(o, site, 'Display 1'), heater: JSON.stringify({ watts: 150, setPointC: 25, topCm: 30 }) })
   const tank2 = await insertRow(t.ctx, 'tanks', tankValues(o, room, 'Quarantine'))
-  const device = await insertRow(t.ctx, 'devices', { organization_id: o, tank_id: tank, name: 'Display probe', metrics: ['temperature', 'ph'], interval_seconds: 60, token_hash: 'secret-hash' })
-  const siteRule = await insertRow(t.ctx, 'watch_rules', { organization_id: o, site_id: site, name: 'Warm', severity: 'alarm', spec: JSON.stringify({ kind: 'above', metric: 'temperature', limit: 28 }), created_by: owner.id })
-  const override = await insertRow(t.ctx, 'watch_rules', { organization_id: o, site_id: site, tank_id: tank, overrides_rule_id: siteRule, name: 'Warm (display)', severity: 'warning', spec: JSON.stringify({ kind: 'above', metric: 'temperature', limit: 29 }) })
+  const device = await insertRow(t.ctx, 'devices', {
+    organization_id: o,
+    tank_id: tank,
+    name: 'Display probe',
+    metrics: ['temperature', 'ph'],
+    interval_seconds: 60,
+    token_hash: 'secret-hash',
+  })
+  const siteRule = await insertRow(t.ctx, 'watch_rules', {
+    organization_id: o,
+    site_id: site,
+    name: 'Warm',
+    severity: 'alarm',
+    spec: JSON.stringify({ kind: 'above', metric: 'temperature', limit: 28 }),
+    created_by: owner.id,
+  })
+  const override = await insertRow(t.ctx, 'watch_rules', {
+    organization_id: o,
+    site_id: site,
+    tank_id: tank,
+    overrides_rule_id: siteRule,
+    name: 'Warm (display)',
+    severity: 'warning',
+    spec: JSON.stringify({ kind: 'above', metric: 'temperature', limit: 29 }),
+  })
   const siteIncident = await insertRow(t.ctx, 'site_incidents', {
-    organization_id: o, site_id: site, cause: 'heat', severity: 'warning', title: 'Warm across the shop', state: 'acknowledged',
-    opened_at: '2026-07-01T12:05:00Z', acknowledged_at: '2026-07-01T12:10:00Z', acknowledged_by: keeper,
+    organization_id: o,
+    site_id: site,
+    cause: 'heat',
+    severity: 'warning',
+    title: 'Warm across the shop',
+    state: 'acknowledged',
+    opened_at: '2026-07-01T12:05:00Z',
+    acknowledged_at: '2026-07-01T12:10:00Z',
+    acknowledged_by: keeper,
   })
   const incident = await insertRow(t.ctx, 'incidents', {
-    organization_id: o, site_id: site, tank_id: tank, rule_id: override, rule_kind: 'above', metric: 'temperature', severity: 'warning',
-    title: 'Warm', state: 'acknowledged', condition_since: '2026-07-01T12:00:00Z', opened_at: '2026-07-01T12:05:00Z', first_value: 29.2,
-    acknowledged_at: '2026-07-01T12:10:00Z', acknowledged_by: keeper, flap_count: 2, last_flap_at: '2026-07-01T12:30:00Z',
-    cause: 'heat', site_incident_id: siteIncident,
+    organization_id: o,
+    site_id: site,
+    tank_id: tank,
+    rule_id: override,
+    rule_kind: 'above',
+    metric: 'temperature',
+    severity: 'warning',
+    title: 'Warm',
+    state: 'acknowledged',
+    condition_since: '2026-07-01T12:00:00Z',
+    opened_at: '2026-07-01T12:05:00Z',
+    first_value: 29.2,
+    acknowledged_at: '2026-07-01T12:10:00Z',
+    acknowledged_by: keeper,
+    flap_count: 2,
+    last_flap_at: '2026-07-01T12:30:00Z',
+    cause: 'heat',
+    site_incident_id: siteIncident,
   })
-  await insertRow(t.ctx, 'maintenance_windows', { organization_id: o, site_id: site, tank_id: tank, reason: 'Tuesday glass day', weekday: 1, start_minute: 540, duration_minutes: 90, created_by: keeper })
-  await insertRow(t.ctx, 'incident_events', { incident_id: incident, kind: 'acknowledged', user_id: keeper, at: '2026-07-01T12:10:00Z', detail: JSON.stringify({ note: 'fan on' }) })
-  await insertRow(t.ctx, 'snoozes', { organization_id: o, tank_id: tank, reason: 'Water change', starts_at: '2026-07-02T09:00:00Z', ends_at: '2026-07-02T10:00:00Z', created_by: keeper })
+  await insertRow(t.ctx, 'maintenance_windows', {
+    organization_id: o,
+    site_id: site,
+    tank_id: tank,
+    reason: 'Tuesday glass day',
+    weekday: 1,
+    start_minute: 540,
+    duration_minutes: 90,
+    created_by: keeper,
+  })
+  await insertRow(t.ctx, 'incident_events', {
+    incident_id: incident,
+    kind: 'acknowledged',
+    user_id: keeper,
+    at: '2026-07-01T12:10:00Z',
+    detail: JSON.stringify({ note: 'fan on' }),
+  })
+  await insertRow(t.ctx, 'snoozes', {
+    organization_id: o,
+    tank_id: tank,
+    reason: 'Water change',
+    starts_at: '2026-07-02T09:00:00Z',
+    ends_at: '2026-07-02T10:00:00Z',
+    created_by: keeper,
+  })
   await insertRow(t.ctx, 'duty_shifts', { organization_id: o, site_id: site, user_id: keeper, weekday: 0, start_time: '08:00', end_time: '16:00' })
-  await insertRow(t.ctx, 'duty_overrides', { organization_id: o, site_id: site, user_id: owner.id, kind: 'add', starts_at: '2026-07-03T08:00:00Z', ends_at: '2026-07-03T16:00:00Z', note: 'covering' })
-  const task = await insertRow(t.ctx, 'care_tasks', { organization_id: o, tank_id: tank, kind: 'water_change', title: 'Weekly change', recurrence: JSON.stringify({ kind: 'interval', everyDays: 7 }), starts_on: '2026-07-01', last_done_by: keeper })
-  const build = await insertRow(t.ctx, 'tank_builds', { organization_id: o, tank_id: tank, plan: JSON.stringify({ fillHeightCm: 34, substrate: [] }), filled_on: '2026-06-20', created_by: keeper })
-  await insertRow(t.ctx, 'build_steps', { build_id: build, tank_id: tank, key: 'conditioner', title: 'Conditioner', day: 1, due_on: '2026-06-20', care_task_id: task, done_at: '2026-06-20T09:00:00Z', done_by: keeper })
-  const change = await insertRow(t.ctx, 'water_changes', { organization_id: o, tank_id: tank, status: 'finished', plan: JSON.stringify({ percent: 25 }), heater_off_confirmed: true, temporary_rule_id: siteRule, started_at: '2026-07-02T09:00:00Z', finished_at: '2026-07-02T09:40:00Z', litres_replaced: 30 })
-  const log = await insertRow(t.ctx, 'care_log', { organization_id: o, tank_id: tank, kind: 'water_change', at: '2026-07-02T09:40:00Z', user_id: keeper, text: '25 %', values: JSON.stringify({ litres: 30 }), care_task_id: task, water_change_id: change })
+  await insertRow(t.ctx, 'duty_overrides', {
+    organization_id: o,
+    site_id: site,
+    user_id: owner.id,
+    kind: 'add',
+    starts_at: '2026-07-03T08:00:00Z',
+    ends_at: '2026-07-03T16:00:00Z',
+    note: 'covering',
+  })
+  const task = await insertRow(t.ctx, 'care_tasks', {
+    organization_id: o,
+    tank_id: tank,
+    kind: 'water_change',
+    title: 'Weekly change',
+    recurrence: JSON.stringify({ kind: 'interval', everyDays: 7 }),
+    starts_on: '2026-07-01',
+    last_done_by: keeper,
+  })
+  const build = await insertRow(t.ctx, 'tank_builds', {
+    organization_id: o,
+    tank_id: tank,
+    plan: JSON.stringify({ fillHeightCm: 34, substrate: [] }),
+    filled_on: '2026-06-20',
+    created_by: keeper,
+  })
+  await insertRow(t.ctx, 'build_steps', {
+    build_id: build,
+    tank_id: tank,
+    key: 'conditioner',
+    title: 'Conditioner',
+    day: 1,
+    due_on: '2026-06-20',
+    care_task_id: task,
+    done_at: '2026-06-20T09:00:00Z',
+    done_by: keeper,
+  })
+  const change = await insertRow(t.ctx, 'water_changes', {
+    organization_id: o,
+    tank_id: tank,
+    status: 'finished',
+    plan: JSON.stringify({ percent: 25 }),
+    heater_off_confirmed: true,
+    temporary_rule_id: siteRule,
+    started_at: '2026-07-02T09:00:00Z',
+    finished_at: '2026-07-02T09:40:00Z',
+    litres_replaced: 30,
+  })
+  const log = await insertRow(t.ctx, 'care_log', {
+    organization_id: o,
+    tank_id: tank,
+    kind: 'water_change',
+    at: '2026-07-02T09:40:00Z',
+    user_id: keeper,
+    text: '25 %',
+    values: JSON.stringify({ litres: 30 }),
+    care_task_id: task,
+    water_change_id: change,
+  })
   await t.ctx.sequelize.query('UPDATE water_changes SET care_log_entry_id = $1 WHERE id = $2', { bind: [log, change] })
-  await insertRow(t.ctx, 'livestock', { organization_id: o, tank_id: tank2, species_key: 'zebra_danio', name: 'Zebra danio', category: 'fish', count: 8, added_at: '2026-06-20T10:00:00Z', created_by: keeper })
-  const entry = await insertRow(t.ctx, 'test_kit_entries', { organization_id: o, tank_id: tank, entered_by: keeper, taken_at: '2026-07-01T08:00:00Z', values: JSON.stringify([{ metric: 'ph', value: 7.1 }]) })
-  await insertRow(t.ctx, 'test_kit_entry_revisions', { entry_id: entry, action: 'edit', changed_by: keeper, snapshot: JSON.stringify({ values: [{ metric: 'ph', value: 7.2 }] }) })
+  await insertRow(t.ctx, 'livestock', {
+    organization_id: o,
+    tank_id: tank2,
+    species_key: 'zebra_danio',
+    name: 'Zebra danio',
+    category: 'fish',
+    count: 8,
+    added_at: '2026-06-20T10:00:00Z',
+    created_by: keeper,
+  })
+  const entry = await insertRow(t.ctx, 'test_kit_entries', {
+    organization_id: o,
+    tank_id: tank,
+    entered_by: keeper,
+    taken_at: '2026-07-01T08:00:00Z',
+    values: JSON.stringify([{ metric: 'ph', value: 7.1 }]),
+  })
+  await insertRow(t.ctx, 'test_kit_entry_revisions', {
+    entry_id: entry,
+    action: 'edit',
+    changed_by: keeper,
+    snapshot: JSON.stringify({ values: [{ metric: 'ph', value: 7.2 }] }),
+  })
   // An hour whose raw rows retention has deleted: raw rows are kept from 1 July on.
   await t.ctx.sequelize.query("UPDATE readings_rollup_state SET raw_kept_from = '2026-07-01T00:00:00Z'")
   await insertRow(t.ctx, 'readings_hourly', { tank_id: tank, metric: 'temperature', hour: '2026-06-30T12:00:00Z', min: 25, max: 29.2, sum: 1620.4, count: 60 })
@@ -93,9 +248,18 @@ function withoutIds(backup: Backup) {
       ),
     ]),
   )
-  const sourceKey = (key: string) => key.replace(/^d:(\d+)$/, (_, id) => `device#${rank.get('devices')!.get(Number(id))}`)
-    .replace(/^k:(\d+)$/, (_, id) => `entry#${rank.get('test_kit_entries')!.get(Number(id))}`)
-  const readings = backup.readings.map(([tank, metric, time, value, source, key]) => [rank.get('tanks')!.get(tank), metric, time, value, source, sourceKey(key as string)])
+  const sourceKey = (key: string) =>
+    key
+      .replace(/^d:(\d+)$/, (_, id) => `device#${rank.get('devices')!.get(Number(id))}`)
+      .replace(/^k:(\d+)$/, (_, id) => `entry#${rank.get('test_kit_entries')!.get(Number(id))}`)
+  const readings = backup.readings.map(([tank, metric, time, value, source, key]) => [
+    rank.get('tanks')!.get(tank),
+    metric,
+    time,
+    value,
+    source,
+    sourceKey(key as string),
+  ])
   return { ...backup, exportedAt: 'ignored', tables, readings }
 }
 
@@ -138,7 +302,9 @@ describe('organization backup', () => {
     expect(keeper).not.toBeNull()
     const signIn = await t.api().post('/api/v1/auth/sign-in').send({ email: keeper!.email, password: TEST_PASSWORD })
     expect(signIn.status).toBe(401)
-    const [device] = (await t.ctx.sequelize.query("SELECT token_hash FROM devices WHERE name = 'Display probe'", { type: QueryTypes.SELECT })) as Array<{ token_hash: string }>
+    const [device] = (await t.ctx.sequelize.query("SELECT token_hash FROM devices WHERE name = 'Display probe'", { type: QueryTypes.SELECT })) as Array<{
+      token_hash: string
+    }>
     expect(device!.token_hash).toMatch(/^[0-9a-f]{64}$/)
     expect(device!.token_hash).not.toBe('secret-hash')
   })
@@ -189,12 +355,54 @@ describe('a malformed backup', () => {
 
   const cases: Array<[string, (b: Backup) => unknown, string]> = [
     ['a wrong format version', (b) => ({ ...b, formatVersion: 2 }), 'formatVersion'],
-    ['a text where a number belongs', (b) => { b.tables.tanks![0]!.volume_litres = 'large'; return b }, 'tables.tanks.0.volume_litres'],
-    ['an unknown column', (b) => { b.tables.sites![0]!.password_hash = 'x'; return b }, 'tables.sites.0'],
-    ['a reference to a row that is not there', (b) => { b.tables.tanks![0]!.site_id = 999999; return b }, 'tables.tanks.0.site_id'],
-    ['a reading of an unknown tank', (b) => { b.readings[0]![0] = 999999; return b }, 'readings.0.0'],
-    ['a value the database refuses (negative volume)', (b) => { b.tables.tanks![0]!.volume_litres = -5; return b }, 'tables.tanks'],
-    ['a reading twice', (b) => { b.readings.push([...b.readings[0]!]); return b }, 'readings'],
+    [
+      'a text where a number belongs',
+      (b) => {
+        b.tables.tanks![0]!.volume_litres = 'large'
+        return b
+      },
+      'tables.tanks.0.volume_litres',
+    ],
+    [
+      'an unknown column',
+      (b) => {
+        b.tables.sites![0]!.password_hash = 'x'
+        return b
+      },
+      'tables.sites.0',
+    ],
+    [
+      'a reference to a row that is not there',
+      (b) => {
+        b.tables.tanks![0]!.site_id = 999999
+        return b
+      },
+      'tables.tanks.0.site_id',
+    ],
+    [
+      'a reading of an unknown tank',
+      (b) => {
+        b.readings[0]![0] = 999999
+        return b
+      },
+      'readings.0.0',
+    ],
+    [
+      'a value the database refuses (negative volume)',
+      (b) => {
+        b.tables.tanks![0]!.volume_litres = -5
+        return b
+      },
+      'tables.tanks',
+    ],
+    [
+      'a reading twice',
+      (b) => {
+        b.readings.push([...b.readings[0]!])
+        return b
+      },
+      'readings',
+    ],
   ]
 
   it.each(cases)('with %s → 400 naming the field, nothing written', async (_name, spoil, field) => {

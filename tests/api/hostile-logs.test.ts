@@ -45,10 +45,15 @@ describe('secrets in URLs never reach the log', () => {
     await api().get(`/reset-password?token=${RESET_TOKEN}`)
     await api().get(`/ack?token=${ACK_TOKEN}&x=1`)
     await api().get(`/api/v1/auth/me?access_token=${jwt}`)
-    await api().get(`/api/v1/tanks/${encodeURIComponent(WALL_KEY)}`).set(bearer(jwt))
+    await api()
+      .get(`/api/v1/tanks/${encodeURIComponent(WALL_KEY)}`)
+      .set(bearer(jwt))
     const text = lines.join('\n')
     for (const secret of [WALL_KEY, ACK_TOKEN, INVITE_TOKEN, RESET_TOKEN, jwt, jwt.split('.')[2]!]) expect(text).not.toContain(secret)
-    const urls = lines.map((l) => JSON.parse(l)).filter((l) => l.req).map((l) => l.req.url)
+    const urls = lines
+      .map((l) => JSON.parse(l))
+      .filter((l) => l.req)
+      .map((l) => l.req.url)
     expect(urls).toEqual([
       '/wall/7?key=[redacted]',
       '/api/v1/ack-links/[redacted]',

@@ -32,7 +32,14 @@ describe('sign-in limit', () => {
     const email = org.users.keeper.email
     const tries = []
     for (let i = 0; i < 5; i++) {
-      tries.push((await api().post('/api/v1/auth/sign-in').set('X-Forwarded-For', `203.0.113.${i + 1}`).send({ email, password: 'wrong password' })).status)
+      tries.push(
+        (
+          await api()
+            .post('/api/v1/auth/sign-in')
+            .set('X-Forwarded-For', `203.0.113.${i + 1}`)
+            .send({ email, password: 'wrong password' })
+        ).status,
+      )
     }
     expect(tries).toEqual([401, 401, 401, 429, 429])
   })
@@ -44,12 +51,21 @@ describe('sign-in limit', () => {
     const email = org.users.viewer.email
     const statuses: number[] = []
     for (let i = 0; i < 3 * ACCOUNT_LIMIT_FACTOR + 2; i++) {
-      statuses.push((await request(proxied).post('/api/v1/auth/sign-in').set('X-Forwarded-For', `198.51.100.${i + 1}`).send({ email, password: 'wrong password' })).status)
+      statuses.push(
+        (
+          await request(proxied)
+            .post('/api/v1/auth/sign-in')
+            .set('X-Forwarded-For', `198.51.100.${i + 1}`)
+            .send({ email, password: 'wrong password' })
+        ).status,
+      )
     }
     expect(statuses.filter((x) => x === 401)).toHaveLength(3 * ACCOUNT_LIMIT_FACTOR)
     expect(statuses.slice(-2)).toEqual([429, 429])
     // The right password is refused too until the window ends: the limit is on attempts, not failures.
-    expect((await request(proxied).post('/api/v1/auth/sign-in').set('X-Forwarded-For', '198.51.100.250').send({ email, password: TEST_PASSWORD })).status).toBe(429)
+    expect((await request(proxied).post('/api/v1/auth/sign-in').set('X-Forwarded-For', '198.51.100.250').send({ email, password: TEST_PASSWORD })).status).toBe(
+      429,
+    )
   })
 })
 
@@ -80,13 +96,21 @@ describe('one time schema for every instant', () => {
       [`/api/v1/tanks/${tankId}/care-log`, 'at', { kind: 'note', text: 'x', at: '2026-01-01T00:00:00+23:59' }, OFFSET_RANGE_MESSAGE],
       [`/api/v1/tanks/${tankId}/livestock`, 'addedAt', { name: 'Snails', count: 3, addedAt: '9999-12-31T00:00:00Z' }, INSTANT_RANGE_MESSAGE],
       [`/api/v1/tanks/${tankId}/snoozes`, 'startsAt', { reason: 'Maintenance', startsAt: YEAR_ZERO, endsAt: '0000-01-01T01:00:00Z' }, INSTANT_RANGE_MESSAGE],
-      [`/api/v1/sites/${org.siteIds[0]}/roster/overrides`, 'startsAt', { userId: org.users.keeper.id, kind: 'add', startsAt: YEAR_ZERO, endsAt: '2026-01-01T00:00:00Z' }, INSTANT_RANGE_MESSAGE],
+      [
+        `/api/v1/sites/${org.siteIds[0]}/roster/overrides`,
+        'startsAt',
+        { userId: org.users.keeper.id, kind: 'add', startsAt: YEAR_ZERO, endsAt: '2026-01-01T00:00:00Z' },
+        INSTANT_RANGE_MESSAGE,
+      ],
       [`/api/v1/tanks/${tankId}/care-log`, 'at', { kind: 'note', text: 'x', at: '2026-06-30T23:59:60Z' }, INSTANT_FORMAT_MESSAGE],
     ]
-    const counts = async () => Promise.all(['test_kit_entries', 'care_log', 'livestock', 'snoozes', 'duty_overrides'].map(async (table) => {
-      const [rows] = await s.ctx.sequelize.query(`SELECT count(*)::int AS n FROM ${table}`)
-      return (rows as Array<{ n: number }>)[0]!.n
-    }))
+    const counts = async () =>
+      Promise.all(
+        ['test_kit_entries', 'care_log', 'livestock', 'snoozes', 'duty_overrides'].map(async (table) => {
+          const [rows] = await s.ctx.sequelize.query(`SELECT count(*)::int AS n FROM ${table}`)
+          return (rows as Array<{ n: number }>)[0]!.n
+        }),
+      )
     const before = await counts()
     for (const [path, field, body, message] of bodies) {
       const res = await api().post(path).set(owner()).send(body)
@@ -123,17 +147,30 @@ describe('one time schema for every instant', () => {
 
 describe('races on a unique index answer 409', () => {
   it('four concurrent starts of a water change: one 201, three 409s saying why', async () => {
-    const answers = await Promise.all(Array.from({ length: 4 }, () => api().post(`/api/v1/tanks/${tankId}/water-changes`).set(owner()).send({ percent: 10, heaterOffConfirmed: true })))
+    const answers = await Promise.all(
+      Array.from({ length: 4 }, () => api().post(`/api/v1/tanks/${tankId}/water-changes`).set(owner()).send({ percent: 10, heaterOffConfirmed: true })),
+    )
     expect(answers.map((a) => a.status).sort()).toEqual([201, 409, 409, 409])
-    for (const a of answers.filter((x) => x.status === 409)) expect(a.body.error).toMatchObject({ code: 'water_change_in_progress', message: expect.stringMatching(/already in progress/) })
+    for (const a of answers.filter((x) => x.status === 409))
+      expect(a.body.error).toMatchObject({ code: 'water_change_in_progress', message: expect.stringMatching(/already in progress/) })
     const [rows] = await s.ctx.sequelize.query(`SELECT count(*)::int AS n FROM water_changes WHERE tank_id = ${tankId} AND status = 'in_progress'`)
     expect((rows as Array<{ n: number }>)[0]!.n).toBe(1)
   })
 
   it('four concurrent overrides of one site rule on one tank: one succeeds, the rest are 409s', async () => {
-    const rule = await api().post(`/api/v1/sites/${org.siteIds[0]}/rules`).set(owner()).send({ name: 'pH below 6.2', severity: 'warning', spec: { kind: 'below', metric: 'ph', limit: 6.2, holdMinutes: 30 } })
+    const rule = await api()
+      .post(`/api/v1/sites/${org.siteIds[0]}/rules`)
+      .set(owner())
+      .send({ name: 'pH below 6.2', severity: 'warning', spec: { kind: 'below', metric: 'ph', limit: 6.2, holdMinutes: 30 } })
     expect(rule.status).toBe(201)
-    const answers = await Promise.all(Array.from({ length: 4 }, () => api().put(`/api/v1/tanks/${tankId}/rules/${rule.body.id}/override`).set(owner()).send({ spec: { kind: 'below', metric: 'ph', limit: 6.0, holdMinutes: 30 } })))
+    const answers = await Promise.all(
+      Array.from({ length: 4 }, () =>
+        api()
+          .put(`/api/v1/tanks/${tankId}/rules/${rule.body.id}/override`)
+          .set(owner())
+          .send({ spec: { kind: 'below', metric: 'ph', limit: 6.0, holdMinutes: 30 } }),
+      ),
+    )
     const statuses = answers.map((a) => a.status)
     expect(statuses.filter((x) => x >= 500)).toEqual([])
     expect(statuses.filter((x) => x === 200 || x === 201).length).toBeGreaterThanOrEqual(1)
@@ -174,7 +211,10 @@ describe('POST /readings', () => {
   it('a 400 names the field, as every 400 does', async () => {
     const wrongVersion = await api().post('/api/v1/readings').set(bearer(deviceToken)).send({ v: 2, readings: [] })
     expect([wrongVersion.status, Object.keys(wrongVersion.body.error.fields ?? {})]).toEqual([400, ['v']])
-    const tooMany = await api().post('/api/v1/readings').set(bearer(deviceToken)).send({ v: 1, readings: Array.from({ length: 1001 }, () => ({})) })
+    const tooMany = await api()
+      .post('/api/v1/readings')
+      .set(bearer(deviceToken))
+      .send({ v: 1, readings: Array.from({ length: 1001 }, () => ({})) })
     expect([tooMany.status, Object.keys(tooMany.body.error.fields ?? {})]).toEqual([400, ['readings']])
     const notJson = await api().post('/api/v1/readings').set(bearer(deviceToken)).set('Content-Type', 'application/json').send('{"v":1,')
     expect([notJson.status, notJson.body.error.fields]).toEqual([400, { body: 'not valid JSON' }])

@@ -36,14 +36,32 @@ const routes = () => [
 
 describe('a malformed multipart body is a 400 on every upload route, and nothing is kept', () => {
   const cases: Array<[string, (field: string) => { contentType: string; body: Buffer }, string]> = [
-    ['truncated before the closing boundary', (field) => {
-      const whole = multipartBody('readings.csv', 'time,temp\n2026-01-01T00:00:00Z,25\n'.repeat(50), field)
-      return { contentType: `multipart/form-data; boundary=${BOUNDARY}`, body: whole.subarray(0, whole.length - 200) }
-    }, 'body'],
+    [
+      'truncated before the closing boundary',
+      (field) => {
+        const whole = multipartBody('readings.csv', 'time,temp\n2026-01-01T00:00:00Z,25\n'.repeat(50), field)
+        return { contentType: `multipart/form-data; boundary=${BOUNDARY}`, body: whole.subarray(0, whole.length - 200) }
+      },
+      'body',
+    ],
     ['no boundary in the Content-Type', (field) => ({ contentType: 'multipart/form-data', body: multipartBody('readings.csv', 'time,temp\n', field) }), 'body'],
-    ['a control character in the part header', (field) => ({ contentType: `multipart/form-data; boundary=${BOUNDARY}`, body: multipartBody('read\u0001ings.csv', 'time,temp\n2026-01-01T00:00:00Z,25\n', field) }), 'body'],
+    [
+      'a control character in the part header',
+      (field) => ({
+        contentType: `multipart/form-data; boundary=${BOUNDARY}`,
+        body: multipartBody('read\u0001ings.csv', 'time,temp\n2026-01-01T00:00:00Z,25\n', field),
+      }),
+      'body',
+    ],
     // RFC 7578 allows a percent-encoded name; decoded, it holds the control character (and would reach the database).
-    ['a control character in an encoded file name', (field) => ({ contentType: `multipart/form-data; boundary=${BOUNDARY}`, body: multipartBody('', 'time,temp\n2026-01-01T00:00:00Z,25\n', field, "filename*=utf-8''read%00ings%01.csv") }), 'field'],
+    [
+      'a control character in an encoded file name',
+      (field) => ({
+        contentType: `multipart/form-data; boundary=${BOUNDARY}`,
+        body: multipartBody('', 'time,temp\n2026-01-01T00:00:00Z,25\n', field, "filename*=utf-8''read%00ings%01.csv"),
+      }),
+      'field',
+    ],
   ]
   it.each(cases)('%s', async (_what, make, named) => {
     for (const { path, field } of routes()) {
@@ -76,7 +94,10 @@ describe('badly quoted CSV', () => {
     expect((await readingsOf(t.ctx, tank)).map((r) => r.value)).toEqual([25.0, 25.2, 25.4])
     const report = await t.api().get(`/api/v1/imports/${uploaded.body.id}/rejections`).set(bearer(owner()))
     const rows = parse(report.text, { columns: true }) as Array<Record<string, string>>
-    expect(rows.map((r) => [r.line, r.reason])).toEqual([['3', 'invalid'], ['5', 'invalid']])
+    expect(rows.map((r) => [r.line, r.reason])).toEqual([
+      ['3', 'invalid'],
+      ['5', 'invalid'],
+    ])
     expect(rows[0]!.detail).toMatch(/unexpected text after the closing quote/)
     expect(rows[1]!.detail).toMatch(/never closed/)
   })

@@ -66,8 +66,18 @@ export async function upload(t: ImportTestApp, token: string, path: string, csv:
 }
 
 /** Starts an uploaded file with its suggested mapping (plus overrides) and waits for the job to end. */
-export async function runImport(t: ImportTestApp, token: string, job: PublicImportJob, mapping: Record<string, unknown> = {}, sourceName?: string): Promise<PublicImportJob> {
-  const res = await t.api().post(`/api/v1/imports/${job.id}/start`).set(bearer(token)).send({ mapping: { ...job.preview!.suggested, ...mapping }, ...(sourceName ? { sourceName } : {}) })
+export async function runImport(
+  t: ImportTestApp,
+  token: string,
+  job: PublicImportJob,
+  mapping: Record<string, unknown> = {},
+  sourceName?: string,
+): Promise<PublicImportJob> {
+  const res = await t
+    .api()
+    .post(`/api/v1/imports/${job.id}/start`)
+    .set(bearer(token))
+    .send({ mapping: { ...job.preview!.suggested, ...mapping }, ...(sourceName ? { sourceName } : {}) })
   expect(res.status, JSON.stringify(res.body)).toBe(202)
   await importRunnerFor(t.ctx).idle()
   const done = await t.api().get(`/api/v1/imports/${job.id}`).set(bearer(token))
@@ -82,6 +92,8 @@ export function minuteTimes(count: number, endMs = Date.now() - 3600_000): strin
 }
 
 export async function readingsOf(ctx: AppContext, tankId: number) {
-  const [rows] = (await ctx.sequelize.query(`SELECT metric, time, value, source, source_key FROM readings WHERE tank_id = $1 ORDER BY time, metric`, { bind: [tankId] })) as [Array<{ metric: string; time: Date; value: number; source: string; source_key: string }>, unknown]
+  const [rows] = (await ctx.sequelize.query(`SELECT metric, time, value, source, source_key FROM readings WHERE tank_id = $1 ORDER BY time, metric`, {
+    bind: [tankId],
+  })) as [Array<{ metric: string; time: Date; value: number; source: string; source_key: string }>, unknown]
   return rows
 }

@@ -33,29 +33,63 @@ async function finishedJobWithReport() {
   return job
 }
 
-type Case = { method: 'get' | 'post'; route: string; expected: [number, number, number, number]; send: (token: string | null) => Promise<{ status: number; body: unknown }> }
+type Case = {
+  method: 'get' | 'post'
+  route: string
+  expected: [number, number, number, number]
+  send: (token: string | null) => Promise<{ status: number; body: unknown }>
+}
 const withToken = <R extends { set: (h: Record<string, string>) => R }>(req: R, token: string | null) => (token ? req.set(bearer(token)) : req)
 
 const CASES: Case[] = [
-  { method: 'post', route: '/tanks/:id/imports', expected: [201, 201, 403, 404], send: async (token) => {
-    const tankId = await newTank(t.ctx, org)
-    return withToken(t.api().post(`/api/v1/tanks/${tankId}/imports`), token).attach('file', Buffer.from(csv()), 'r.csv')
-  } },
-  { method: 'post', route: '/sites/:id/imports', expected: [201, 201, 403, 404], send: (token) =>
-    withToken(t.api().post(`/api/v1/sites/${org.siteIds[0]}/imports`), token).attach('file', Buffer.from(csv()), 'r.csv') },
-  { method: 'get', route: '/imports/:id', expected: [200, 200, 403, 404], send: async (token) => withToken(t.api().get(`/api/v1/imports/${(await uploadedJob()).id}`), token) },
-  { method: 'post', route: '/imports/:id/start', expected: [202, 202, 403, 404], send: async (token) => {
-    const job = await uploadedJob()
-    return withToken(t.api().post(`/api/v1/imports/${job.id}/start`), token).send({ mapping: job.preview.suggested })
-  } },
-  { method: 'post', route: '/imports/:id/cancel', expected: [200, 200, 403, 404], send: async (token) => withToken(t.api().post(`/api/v1/imports/${(await uploadedJob()).id}/cancel`), token) },
-  { method: 'get', route: '/imports/:id/rejections', expected: [200, 200, 403, 404], send: async (token) => {
-    const job = await finishedJobWithReport()
-    const file = await import('node:fs/promises')
-    const row = (await t.ctx.models.ImportJob.findByPk(job.id))!
-    await file.writeFile(`${t.dataDir}/imports/${row.fileKey}.rejected.csv`, 'line,reason\n2,bad_number\n')
-    return withToken(t.api().get(`/api/v1/imports/${job.id}/rejections`), token)
-  } },
+  {
+    method: 'post',
+    route: '/tanks/:id/imports',
+    expected: [201, 201, 403, 404],
+    send: async (token) => {
+      const tankId = await newTank(t.ctx, org)
+      return withToken(t.api().post(`/api/v1/tanks/${tankId}/imports`), token).attach('file', Buffer.from(csv()), 'r.csv')
+    },
+  },
+  {
+    method: 'post',
+    route: '/sites/:id/imports',
+    expected: [201, 201, 403, 404],
+    send: (token) => withToken(t.api().post(`/api/v1/sites/${org.siteIds[0]}/imports`), token).attach('file', Buffer.from(csv()), 'r.csv'),
+  },
+  {
+    method: 'get',
+    route: '/imports/:id',
+    expected: [200, 200, 403, 404],
+    send: async (token) => withToken(t.api().get(`/api/v1/imports/${(await uploadedJob()).id}`), token),
+  },
+  {
+    method: 'post',
+    route: '/imports/:id/start',
+    expected: [202, 202, 403, 404],
+    send: async (token) => {
+      const job = await uploadedJob()
+      return withToken(t.api().post(`/api/v1/imports/${job.id}/start`), token).send({ mapping: job.preview.suggested })
+    },
+  },
+  {
+    method: 'post',
+    route: '/imports/:id/cancel',
+    expected: [200, 200, 403, 404],
+    send: async (token) => withToken(t.api().post(`/api/v1/imports/${(await uploadedJob()).id}/cancel`), token),
+  },
+  {
+    method: 'get',
+    route: '/imports/:id/rejections',
+    expected: [200, 200, 403, 404],
+    send: async (token) => {
+      const job = await finishedJobWithReport()
+      const file = await import('node:fs/promises')
+      const row = (await t.ctx.models.ImportJob.findByPk(job.id))!
+      await file.writeFile(`${t.dataDir}/imports/${row.fileKey}.rejected.csv`, 'line,reason\n2,bad_number\n')
+      return withToken(t.api().get(`/api/v1/imports/${job.id}/rejections`), token)
+    },
+  },
   { method: 'get', route: '/import-sources', expected: [200, 200, 403, 200], send: (token) => withToken(t.api().get('/api/v1/import-sources'), token) },
 ]
 
@@ -68,7 +102,7 @@ describe('import route roles', () => {
     await importRunnerFor(t.ctx).idle()
   })
 
-  it('a viewer\'s refused upload leaves no file behind', async () => {
+  it("a viewer's refused upload leaves no file behind", async () => {
     const before = t.importFilesLeft().length
     const tankId = await newTank(t.ctx, org)
     const res = await upload(t, org.users.viewer.token, `/tanks/${tankId}/imports`, csv())

@@ -56,8 +56,13 @@ describe('a good file', () => {
     const tankId = await newTank(t.ctx, org)
     const res = await upload(t, owner(), `/tanks/${tankId}/imports`, 'Zeit;Temperatur;pH\n2026-11-30 10:00;25,5;7,1\n2026-11-30 10:01:30;25,6;7,2\n')
     const job = await runImport(t, owner(), res.body, {
-      timeColumn: 'Zeit', timeFormat: 'local_ymd', timeZone: 'Asia/Tokyo',
-      metrics: [{ column: 'Temperatur', metric: 'temperature', unit: 'C' }, { column: 'pH', metric: 'ph', unit: 'pH' }],
+      timeColumn: 'Zeit',
+      timeFormat: 'local_ymd',
+      timeZone: 'Asia/Tokyo',
+      metrics: [
+        { column: 'Temperatur', metric: 'temperature', unit: 'C' },
+        { column: 'pH', metric: 'ph', unit: 'pH' },
+      ],
     })
     expect(job).toMatchObject({ status: 'done', rowsAccepted: 2 })
     const stored = await readingsOf(t.ctx, tankId)
@@ -142,7 +147,9 @@ describe('job control', () => {
     const final = (await t.api().get(`/api/v1/imports/${job.id}`).set(bearer(owner()))).body as PublicImportJob
     expect(final.status).toBe('cancelled')
     expect(final.rowsRead).toBeLessThan(60_000)
-    const [{ n }] = (await t.ctx.sequelize.query('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1', { bind: [tankId], plain: false }))[0] as Array<{ n: number }>
+    const [{ n }] = (await t.ctx.sequelize.query('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1', { bind: [tankId], plain: false }))[0] as Array<{
+      n: number
+    }>
     expect(n).toBe(final.rowsAccepted)
     expect(n).toBeLessThan(60_000)
     const again = await t.api().post(`/api/v1/imports/${job.id}/cancel`).set(bearer(owner()))
@@ -161,7 +168,10 @@ describe('job control', () => {
   it('a job left running by a stopped instance is marked failed, never left running', async () => {
     const tankId = await newTank(t.ctx, org)
     const res = await upload(t, owner(), `/tanks/${tankId}/imports`, `time,temp\n${minuteTimes(1)[0]},25\n`)
-    await t.ctx.sequelize.query(`UPDATE import_jobs SET status = 'running', started_at = now() - interval '5 minutes', updated_at = now() - interval '5 minutes' WHERE id = $1`, { bind: [res.body.id] })
+    await t.ctx.sequelize.query(
+      `UPDATE import_jobs SET status = 'running', started_at = now() - interval '5 minutes', updated_at = now() - interval '5 minutes' WHERE id = $1`,
+      { bind: [res.body.id] },
+    )
     const fresh = await upload(t, owner(), `/tanks/${tankId}/imports`, `time,temp\n${minuteTimes(1)[0]},25\n`)
     await t.ctx.sequelize.query(`UPDATE import_jobs SET status = 'running' WHERE id = $1`, { bind: [fresh.body.id] })
     expect(await importRunnerFor(t.ctx).markInterrupted()).toBe(1)

@@ -28,7 +28,10 @@ describe('upload and preview', () => {
     const p = res.body.preview
     expect(p.delimiter).toBe(',')
     expect(p.header).toEqual(['Time', 'Water temp (°F)', 'pH'])
-    expect(p.rows).toEqual([['2026-11-30T10:00:00+01:00', '77.0', '7.10'], ['2026-11-30T10:01:00+01:00', '77.2', '7.11']])
+    expect(p.rows).toEqual([
+      ['2026-11-30T10:00:00+01:00', '77.0', '7.10'],
+      ['2026-11-30T10:01:00+01:00', '77.2', '7.11'],
+    ])
     expect(p.timeColumn).toBe('Time')
     expect(p.time.candidates).toEqual(['iso_offset'])
     expect(p.time.example).toEqual({ raw: '2026-11-30T10:00:00+01:00', parsed: '2026-11-30T09:00:00.000Z' })
@@ -38,7 +41,7 @@ describe('upload and preview', () => {
     ])
   })
 
-  it('reads a semicolon file with local times and asks for the zone, defaulting to the site\'s', async () => {
+  it("reads a semicolon file with local times and asks for the zone, defaulting to the site's", async () => {
     const csv = 'Datum;Temperature;KH\n2026-11-30 10:00;25,5;6\n2026-11-30 10:05:30;25,6;6\n'
     const res = await upload(t, owner(), `/tanks/${tankId}/imports`, csv)
     expect(res.status).toBe(201)
@@ -116,7 +119,7 @@ describe('refused uploads store nothing', () => {
     expect(t.importFilesLeft().some((f) => f.includes('evil'))).toBe(false)
   })
 
-  it('stores nothing for another organization\'s tank or site', async () => {
+  it("stores nothing for another organization's tank or site", async () => {
     const other = await t.createOrg('Other Import Org')
     const filesBefore = t.importFilesLeft().length
     const res = await upload(t, other.users.owner.token, `/tanks/${tankId}/imports`, 'time,temp\n2026-11-30T10:00:00Z,25\n')
@@ -131,7 +134,12 @@ describe('the mapping', () => {
   it('refuses a mapping naming a column the file lacks, a local format without a zone, or a context unit', async () => {
     const res = await upload(t, owner(), `/tanks/${tankId}/imports`, 'time,temp,light\n2026-11-30 10:00,25,80\n')
     const start = (mapping: object) => t.api().post(`/api/v1/imports/${res.body.id}/start`).set(bearer(owner())).send({ mapping })
-    const missing = await start({ timeColumn: 'time', timeFormat: 'local_ymd', timeZone: 'UTC', metrics: [{ column: 'tmp', metric: 'temperature', unit: 'C' }] })
+    const missing = await start({
+      timeColumn: 'time',
+      timeFormat: 'local_ymd',
+      timeZone: 'UTC',
+      metrics: [{ column: 'tmp', metric: 'temperature', unit: 'C' }],
+    })
     expect(missing.status).toBe(400)
     expect(missing.body.error.fields).toEqual({ 'mapping.metrics.0.column': 'the file has no column "tmp"' })
     const noZone = await start({ timeColumn: 'time', timeFormat: 'local_ymd', metrics: [{ column: 'temp', metric: 'temperature', unit: 'C' }] })
@@ -140,7 +148,12 @@ describe('the mapping', () => {
     const pct = await start({ timeColumn: 'time', timeFormat: 'local_ymd', timeZone: 'UTC', metrics: [{ column: 'light', metric: 'light', unit: 'pct' }] })
     expect(pct.status).toBe(400)
     expect(pct.body.error.fields['mapping.metrics.0.unit']).toMatch(/needs the tank's context/)
-    const badUnit = await start({ timeColumn: 'time', timeFormat: 'local_ymd', timeZone: 'UTC', metrics: [{ column: 'temp', metric: 'temperature', unit: 'K' }] })
+    const badUnit = await start({
+      timeColumn: 'time',
+      timeFormat: 'local_ymd',
+      timeZone: 'UTC',
+      metrics: [{ column: 'temp', metric: 'temperature', unit: 'K' }],
+    })
     expect(badUnit.body.error.fields['mapping.metrics.0.unit']).toBe('temperature has no unit "K"')
     expect((await t.ctx.models.ImportJob.findByPk(res.body.id))!.status).toBe('uploaded')
   })
@@ -149,7 +162,15 @@ describe('the mapping', () => {
     const csv = 'stamp,probe A,probe B\n2026-11-30 10:00,25.1,7.0\n'
     const first = await upload(t, owner(), `/tanks/${tankId}/imports`, csv, 'a.csv', 'Logger in fish room')
     expect(first.body.preview.suggestedFrom).toBe('headers')
-    const mapping = { timeColumn: 'stamp', timeFormat: 'local_ymd', timeZone: 'America/New_York', metrics: [{ column: 'probe A', metric: 'temperature', unit: 'C' }, { column: 'probe B', metric: 'ph', unit: 'pH' }] }
+    const mapping = {
+      timeColumn: 'stamp',
+      timeFormat: 'local_ymd',
+      timeZone: 'America/New_York',
+      metrics: [
+        { column: 'probe A', metric: 'temperature', unit: 'C' },
+        { column: 'probe B', metric: 'ph', unit: 'pH' },
+      ],
+    }
     const done = await runImport(t, owner(), first.body, mapping, 'Logger in fish room')
     expect(done.error).toBeNull()
     expect(done.status).toBe('done')

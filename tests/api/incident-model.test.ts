@@ -58,13 +58,21 @@ async function onDutyAroundTheClock(org: TestOrg, userIds: number[]) {
 }
 
 const outbox = (where: string, bind: unknown[]) =>
-  t.ctx.sequelize.query<{ kind: string; to_address: string; subject: string; text_body: string }>(`SELECT kind, to_address, subject, text_body FROM mail_outbox WHERE ${where} ORDER BY id`, { bind, type: QueryTypes.SELECT })
+  t.ctx.sequelize.query<{ kind: string; to_address: string; subject: string; text_body: string }>(
+    `SELECT kind, to_address, subject, text_body FROM mail_outbox WHERE ${where} ORDER BY id`,
+    { bind, type: QueryTypes.SELECT },
+  )
 
 describe('one fault is one incident', () => {
   it('a heater-line fault passing warning to alarm is one incident with two severities and at most two mails', async () => {
     const org = await t.createOrg('Ladder Org')
     const tank = await createTankWithDevice(t.ctx, org, 'Ladder tank') // heater top at 30 cm
-    await addRule(org, tank.tankId, 'Water level within 2 cm of the heater top', 'warning', { kind: 'heater_line', marginCm: 2, holdMinutes: 0, clearMargin: 0.5 })
+    await addRule(org, tank.tankId, 'Water level within 2 cm of the heater top', 'warning', {
+      kind: 'heater_line',
+      marginCm: 2,
+      holdMinutes: 0,
+      clearMargin: 0.5,
+    })
     await addRule(org, tank.tankId, 'Water level at or below the heater top', 'alarm', { kind: 'heater_line', marginCm: 0, holdMinutes: 0, clearMargin: 0.5 })
     const t0 = Date.now() - 6 * 3600_000
     const engine = engineAt(t0)
@@ -96,7 +104,10 @@ describe('one fault is one incident', () => {
     const engine = engineAt(t0)
     await engine.start()
     for (let flap = 0; flap < 10; flap++) {
-      for (const [offset, value] of [[0, 28.6], [1.5 * MIN, 27.2]] as const) {
+      for (const [offset, value] of [
+        [0, 28.6],
+        [1.5 * MIN, 27.2],
+      ] as const) {
         clock = t0 + flap * 3 * MIN + offset
         await store(tank.tankId, tank.deviceId, 'temperature', [[clock, value]])
         await engine.settle()
@@ -128,10 +139,20 @@ describe('one fault is one incident', () => {
     const t0 = Date.now() - 30 * MIN
     const engine = engineAt(t0)
     await engine.start()
-    await store(tank.tankId, tank.deviceId, 'ph', [[t0, 6.4], [t0 + MIN, 6.3]])
+    await store(tank.tankId, tank.deviceId, 'ph', [
+      [t0, 6.4],
+      [t0 + MIN, 6.3],
+    ])
     await engine.settle()
     const [incident] = await incidentsOf(tank.tankId)
-    const keeper = { kind: 'user' as const, userId: org.users.keeper.id, organizationId: org.organizationId, role: 'keeper' as const, siteIds: null, sessionId: 'x' }
+    const keeper = {
+      kind: 'user' as const,
+      userId: org.users.keeper.id,
+      organizationId: org.organizationId,
+      role: 'keeper' as const,
+      siteIds: null,
+      sessionId: 'x',
+    }
     const answer = await incidentsService(t.ctx, recorder, timing).get(keeper, incident.id)
     expect(answer.conditionHolds).toBe(true) // the dialog warns on this
     await incidentsService(t.ctx, recorder, timing).resolveByHand(keeper, incident.id, 'Did a water change')
@@ -158,7 +179,11 @@ describe('one fault is one incident', () => {
     await engine.settle()
     const [incident] = await incidentsOf(tank.tankId)
     const started = performance.now()
-    const res = await t.api().post(`/api/v1/incidents/${incident.id}/acknowledge`).set({ Authorization: `Bearer ${org.users.keeper.token}` }).send({ note: 'On it' })
+    const res = await t
+      .api()
+      .post(`/api/v1/incidents/${incident.id}/acknowledge`)
+      .set({ Authorization: `Bearer ${org.users.keeper.token}` })
+      .send({ note: 'On it' })
     expect(res.status).toBe(200)
     await engine.tick(t0 + 16 * MIN) // past the 15-minute escalation
     const stoppedMs = performance.now() - started
@@ -184,7 +209,13 @@ describe('site incidents and maintenance windows, with the real mail notifier', 
     const t0 = Date.now() - 90 * MIN
     const engine = engineAt(t0, createMailNotifier(t.ctx), { siteGroupWaitSeconds: 60 })
     await engine.start()
-    for (const tank of tanks) await store(tank.tankId, tank.deviceId, 'temperature', Array.from({ length: 10 }, (_, i) => [t0 + i * MIN + tank.tankId * 1000, 25.5] as [number, number]))
+    for (const tank of tanks)
+      await store(
+        tank.tankId,
+        tank.deviceId,
+        'temperature',
+        Array.from({ length: 10 }, (_, i) => [t0 + i * MIN + tank.tankId * 1000, 25.5] as [number, number]),
+      )
     await engine.settle()
     // The power goes at t0 + 10 min: every node falls silent; quiet rules trip 15 minutes later.
     for (let m = 11; m <= 30; m++) await engine.tick(t0 + m * MIN)
@@ -203,9 +234,14 @@ describe('site incidents and maintenance windows, with the real mail notifier', 
     expect(mails[0].subject).toBe('Warning: 10 tanks at Power Org shop at once')
     for (let i = 1; i <= 10; i++) expect(mails[0].text_body).toMatch(new RegExp(`^- Row B${i}: no temperature reading for 1[56] min$`, 'm'))
     // The wall shows the one site incident over the ten tiles, each still with its own incident.
-    const wall = await t.api().get(`/api/v1/sites/${org.siteIds[0]}/wall`).set({ Authorization: `Bearer ${org.users.keeper.token}` })
+    const wall = await t
+      .api()
+      .get(`/api/v1/sites/${org.siteIds[0]}/wall`)
+      .set({ Authorization: `Bearer ${org.users.keeper.token}` })
     expect(wall.status).toBe(200)
-    expect(wall.body.siteIncidents).toEqual([{ id: sites[0].id, title: 'Several tanks cooling or silent at once: a power cut?', severity: 'warning', state: 'open', tanks: 10 }])
+    expect(wall.body.siteIncidents).toEqual([
+      { id: sites[0].id, title: 'Several tanks cooling or silent at once: a power cut?', severity: 'warning', state: 'open', tanks: 10 },
+    ])
     expect(wall.body.tanks.filter((x: { openIncident: { siteIncidentId: number } | null }) => x.openIncident?.siteIncidentId === sites[0].id)).toHaveLength(10)
     await engine.stop()
   })
@@ -217,8 +253,17 @@ describe('site incidents and maintenance windows, with the real mail notifier', 
     await addRule(org, tank.tankId, 'Temperature above 28 °C', 'alarm', { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 0, clearMargin: 0.5 })
     const t0 = Date.now() - 3 * 3600_000
     await t.ctx.models.MaintenanceWindow.create({
-      organizationId: org.organizationId, siteId: org.siteIds[0], tankId: tank.tankId, ruleId: null, reason: 'Heater swap',
-      startsAt: new Date(t0), endsAt: new Date(t0 + 30 * MIN), weekday: null, startMinute: null, durationMinutes: null, createdBy: org.users.owner.id,
+      organizationId: org.organizationId,
+      siteId: org.siteIds[0],
+      tankId: tank.tankId,
+      ruleId: null,
+      reason: 'Heater swap',
+      startsAt: new Date(t0),
+      endsAt: new Date(t0 + 30 * MIN),
+      weekday: null,
+      startMinute: null,
+      durationMinutes: null,
+      createdBy: org.users.owner.id,
     })
     const engine = engineAt(t0, createMailNotifier(t.ctx))
     await engine.start()

@@ -27,11 +27,20 @@ afterAll(() => t.close())
 const service = () => incidentsService(t.ctx, notifier, timing)
 const as = (role: 'owner' | 'keeper' | 'viewer', of = org) => bearer(of.users[role].token)
 const actor = (of: TestOrg, role: 'owner' | 'keeper'): UserActor => ({
-  kind: 'user', userId: of.users[role].id, organizationId: of.organizationId, role, siteIds: null, sessionId: 'test',
+  kind: 'user',
+  userId: of.users[role].id,
+  organizationId: of.organizationId,
+  role,
+  siteIds: null,
+  sessionId: 'test',
 })
 
 async function newTank(of = org, siteId = of.siteIds[0]) {
-  const res = await t.api().post('/api/v1/tanks').set(as('owner', of)).send(sampleTank(siteId, { name: `Tank ${Math.random().toString(36).slice(2, 7)}` }))
+  const res = await t
+    .api()
+    .post('/api/v1/tanks')
+    .set(as('owner', of))
+    .send(sampleTank(siteId, { name: `Tank ${Math.random().toString(36).slice(2, 7)}` }))
   expect(res.status).toBe(201)
   return res.body.id as number
 }
@@ -42,7 +51,11 @@ async function openIncident(tankId: number, ruleName = ABOVE, at = Date.now()) {
   const rule = (await t.ctx.models.WatchRule.findOne({ where: { tankId, name: ruleName } }))!
   const incident = await service().trip({
     rule: { id: rule.id, name: rule.name, severity: rule.severity, spec: rule.spec, metric: metricOfSpec(rule.spec) },
-    tank: { id: tank.id, siteId: tank.siteId, organizationId: tank.organizationId }, at, since: at - 10 * MIN, value: 28.7, snoozed: false,
+    tank: { id: tank.id, siteId: tank.siteId, organizationId: tank.organizationId },
+    at,
+    since: at - 10 * MIN,
+    value: 28.7,
+    snoozed: false,
   })
   return incident!.id
 }
@@ -100,7 +113,12 @@ describe('acknowledging and resolving in the app', () => {
     const res = await acknowledge(id, { note: 'Heater stuck on, unplugged it' })
     expect(res.status).toBe(200)
     expect(res.body).toMatchObject({
-      id, state: 'acknowledged', acknowledgedBy: org.users.keeper.id, acknowledgeNote: 'Heater stuck on, unplugged it', nextEscalationAt: null, nextRepeatAt: null,
+      id,
+      state: 'acknowledged',
+      acknowledgedBy: org.users.keeper.id,
+      acknowledgeNote: 'Heater stuck on, unplugged it',
+      nextEscalationAt: null,
+      nextRepeatAt: null,
       siteName: 'Incident Org shop',
     })
     expect(res.body.tankName).toMatch(/^Tank /)
@@ -137,8 +155,18 @@ describe('acknowledging and resolving in the app', () => {
     expect((await detail(id)).state).toBe('open')
     const res = await resolve(id, { note: 'Replaced the heater' })
     expect(res.status).toBe(200)
-    expect(res.body).toMatchObject({ state: 'resolved', resolvedBy: org.users.keeper.id, resolveNote: 'Replaced the heater', nextEscalationAt: null, nextRepeatAt: null })
-    expect((await detail(id)).timeline.at(-1)).toMatchObject({ kind: 'resolved', userId: org.users.keeper.id, detail: { automatic: false, note: 'Replaced the heater' } })
+    expect(res.body).toMatchObject({
+      state: 'resolved',
+      resolvedBy: org.users.keeper.id,
+      resolveNote: 'Replaced the heater',
+      nextEscalationAt: null,
+      nextRepeatAt: null,
+    })
+    expect((await detail(id)).timeline.at(-1)).toMatchObject({
+      kind: 'resolved',
+      userId: org.users.keeper.id,
+      detail: { automatic: false, note: 'Replaced the heater' },
+    })
     const again = await resolve(id, { note: 'twice' })
     expect([again.status, again.body.error.code]).toEqual([409, 'not_open'])
   })
@@ -150,7 +178,11 @@ describe('acknowledging and resolving in the app', () => {
       expect([res.status, res.body.error.code]).toEqual([403, 'forbidden'])
     }
     const stranger = as('owner', other)
-    const attempts = [await t.api().get(`/api/v1/incidents/${id}`).set(stranger), await acknowledge(id, {}, stranger), await resolve(id, { note: 'done' }, stranger)]
+    const attempts = [
+      await t.api().get(`/api/v1/incidents/${id}`).set(stranger),
+      await acknowledge(id, {}, stranger),
+      await resolve(id, { note: 'done' }, stranger),
+    ]
     expect(attempts.map((r) => [r.status, r.body.error.code])).toEqual(Array(3).fill([404, 'not_found']))
     expect((await detail(id)).state).toBe('open')
   })
@@ -159,7 +191,11 @@ describe('acknowledging and resolving in the app', () => {
 describe('acknowledge links', () => {
   const tokenOf = (link: string) => new URL(link).searchParams.get('token')!
   const describeLink = (token: string) => t.api().get(`/api/v1/ack-links/${token}`)
-  const useLink = (token: string, note?: string) => t.api().post('/api/v1/ack-links/use').send({ token, ...(note ? { note } : {}) })
+  const useLink = (token: string, note?: string) =>
+    t
+      .api()
+      .post('/api/v1/ack-links/use')
+      .send({ token, ...(note ? { note } : {}) })
 
   it('describes the incident and acknowledges it once, with no session', async () => {
     const tankId = await newTank()
@@ -181,9 +217,18 @@ describe('acknowledge links', () => {
 
     const used = await useLink(token, 'Seen on the phone, on my way')
     expect(used.status).toBe(200)
-    expect(used.body).toMatchObject({ state: 'acknowledged', alreadyHandled: false, incident: { id, state: 'acknowledged', acknowledgedBy: { name: 'keeper of Incident Org' } } })
+    expect(used.body).toMatchObject({
+      state: 'acknowledged',
+      alreadyHandled: false,
+      incident: { id, state: 'acknowledged', acknowledgedBy: { name: 'keeper of Incident Org' } },
+    })
     expect(Date.parse(used.body.incident.acknowledgedAt)).toBeGreaterThanOrEqual(before)
-    expect(await detail(id)).toMatchObject({ state: 'acknowledged', acknowledgedBy: org.users.keeper.id, acknowledgeNote: 'Seen on the phone, on my way', nextEscalationAt: null })
+    expect(await detail(id)).toMatchObject({
+      state: 'acknowledged',
+      acknowledgedBy: org.users.keeper.id,
+      acknowledgeNote: 'Seen on the phone, on my way',
+      nextEscalationAt: null,
+    })
     expect((await detail(id)).timeline.at(-1)).toMatchObject({ kind: 'acknowledged', userId: org.users.keeper.id, detail: { via: 'link' } })
 
     const usedAt = (await describeLink(token)).body.usedAt as string

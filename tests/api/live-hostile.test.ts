@@ -42,7 +42,7 @@ async function liveSocket(token: string) {
   const closed = new Promise<number>((resolve) => ws.once('close', (code) => resolve(code)))
   await new Promise((resolve, reject) => ws.once('open', resolve).once('error', reject))
   const until = async (check: () => boolean, ms = 5000) => {
-    for (const end = Date.now() + ms; Date.now() < end && !check(); ) await new Promise((r) => setTimeout(r, 20))
+    for (const end = Date.now() + ms; Date.now() < end && !check();) await new Promise((r) => setTimeout(r, 20))
     return check()
   }
   const send = (m: unknown) => ws.send(JSON.stringify(m))
@@ -93,7 +93,13 @@ describe('a client that does not read', () => {
     ;(c.ws as unknown as { _socket: { pause: () => void } })._socket.pause()
     const t0 = Date.now() - HOUR
     for (let batch = 0; batch < 300 && s.hub.peerCount() === peers; batch++) {
-      const rows = Array.from({ length: 1000 }, (_, i) => ({ tankId: node.tankId, metric: 'temperature', time: new Date(t0 + batch * 1000 + i), value: 25.1, source: 'device' as const }))
+      const rows = Array.from({ length: 1000 }, (_, i) => ({
+        tankId: node.tankId,
+        metric: 'temperature',
+        time: new Date(t0 + batch * 1000 + i),
+        value: 25.1,
+        source: 'device' as const,
+      }))
       s.ctx.events.emit('readings.stored', rows)
       await new Promise((r) => setTimeout(r, 60)) // let the 50 ms coalescing flush it
     }

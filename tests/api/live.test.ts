@@ -27,10 +27,11 @@ async function openSocket() {
   ws.on('message', (data) => {
     const message = JSON.parse(data.toString()) as LiveServerMessage
     frames.push(message)
-    for (const w of [...waiters]) if (w.match(message)) {
-      waiters.splice(waiters.indexOf(w), 1)
-      w.resolve(message)
-    }
+    for (const w of [...waiters])
+      if (w.match(message)) {
+        waiters.splice(waiters.indexOf(w), 1)
+        w.resolve(message)
+      }
   })
   await new Promise((resolve, reject) => ws.once('open', resolve).once('error', reject))
   const next = (match: (m: LiveServerMessage) => boolean, timeoutMs = 5000) =>

@@ -14,7 +14,12 @@ let t: Awaited<ReturnType<typeof startTestApp>>
 let org: TestOrg
 let overview: Overview
 const actorOf = (o: TestOrg, role: 'owner' | 'keeper'): UserActor => ({
-  kind: 'user', userId: o.users[role].id, organizationId: o.organizationId, role, siteIds: null, sessionId: 'test',
+  kind: 'user',
+  userId: o.users[role].id,
+  organizationId: o.organizationId,
+  role,
+  siteIds: null,
+  sessionId: 'test',
 })
 
 beforeAll(async () => {
@@ -29,8 +34,8 @@ afterAll(async () => {
 
 const site = () => overview.sites.find((s) => s.site.id === org.siteIds[0])!
 
-describe('the owner\'s overview after an injected night', () => {
-  it('counts from 18:00 yesterday on the site\'s clock, and says the hour is assumed', () => {
+describe("the owner's overview after an injected night", () => {
+  it("counts from 18:00 yesterday on the site's clock, and says the hour is assumed", () => {
     expect(site().since).toBe('2026-03-09T17:00:00.000Z')
     expect(site()).toMatchObject({ workdayEnd: '18:00', workdayEndAssumed: true })
   })
@@ -54,7 +59,9 @@ describe('the owner\'s overview after an injected night', () => {
   it('lists care that was due and not done, test-kit checks overdue, and water changes done', () => {
     expect(site().overnight.careMissed.map((c) => [c.title, c.tank.name, c.dueOn])).toEqual([[NIGHT.care.missed, NIGHT.tanks.reef1, '2026-03-08']])
     expect(site().overnight.kitOverdue.map((c) => [c.title, c.tank.name, c.dueOn])).toEqual([[NIGHT.care.kit, NIGHT.tanks.reef2, '2026-03-09']])
-    expect(site().overnight.waterChanges.map((w) => [w.tank.name, w.at, w.by])).toEqual([[NIGHT.tanks.reef2, '2026-03-09T17:30:00.000Z', 'keeper of Overview Org']])
+    expect(site().overnight.waterChanges.map((w) => [w.tank.name, w.at, w.by])).toEqual([
+      [NIGHT.tanks.reef2, '2026-03-09T17:30:00.000Z', 'keeper of Overview Org'],
+    ])
   })
 
   it('says who is on duty today, what care is due and which tanks are in quarantine with their day', () => {

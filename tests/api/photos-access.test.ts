@@ -45,7 +45,9 @@ const ROWS: Array<[string, string, number[], () => Promise<{ path: string; attac
 ]
 
 describe('photo route roles', () => {
-  const cases = ROWS.flatMap(([method, route, expected, prepare]) => CALLERS.map((caller, i) => ({ method, route, caller, status: expected[i] as number, prepare })))
+  const cases = ROWS.flatMap(([method, route, expected, prepare]) =>
+    CALLERS.map((caller, i) => ({ method, route, caller, status: expected[i] as number, prepare })),
+  )
   it.each(cases)('$method $route as $caller → $status', async ({ method, caller, status, prepare }) => {
     const { path, attach } = await prepare()
     const token = tokenOf(caller)
@@ -58,7 +60,7 @@ describe('photo route roles', () => {
 })
 
 describe('a wall display key', () => {
-  it('opens no photo route, not even of its own site\'s tank', async () => {
+  it("opens no photo route, not even of its own site's tank", async () => {
     const owner: UserActor = { kind: 'user', userId: org.users.owner.id, organizationId: org.organizationId, role: 'owner', siteIds: null, sessionId: 'probe' }
     const { link } = await wallService(t.ctx).createCredential(owner, org.siteIds[0] as number, 'Photo probe wall')
     const key = new URL(link, 'http://localhost').searchParams.get('key')!
@@ -78,14 +80,18 @@ describe('a viewer limited to one site', () => {
   beforeAll(async () => {
     own = await freshPhoto(org.siteIds[0])
     elsewhere = await freshPhoto(org.siteIds[1])
-    const res = await t.api().patch(`/api/v1/users/${org.users.viewer.id}`).set(as(org, 'owner')).send({ siteIds: [org.siteIds[0]] })
+    const res = await t
+      .api()
+      .patch(`/api/v1/users/${org.users.viewer.id}`)
+      .set(as(org, 'owner'))
+      .send({ siteIds: [org.siteIds[0]] })
     expect(res.status).toBe(200)
   })
   afterAll(async () => {
     await t.api().patch(`/api/v1/users/${org.users.viewer.id}`).set(as(org, 'owner')).send({ siteIds: [] })
   })
 
-  it('fetches its own site\'s photo and gets 404 for every view of another site\'s', async () => {
+  it("fetches its own site's photo and gets 404 for every view of another site's", async () => {
     for (const suffix of ['', '/image', '/thumbnail']) {
       expect((await t.api().get(`/api/v1/photos/${own.photoId}${suffix}`).set(as(org, 'viewer'))).status).toBe(200)
       const res = await t.api().get(`/api/v1/photos/${elsewhere.photoId}${suffix}`).set(as(org, 'viewer'))
@@ -97,7 +103,14 @@ describe('a viewer limited to one site', () => {
   })
 
   it('the exported listing applies the same scope', async () => {
-    const viewer: UserActor = { kind: 'user', userId: org.users.viewer.id, organizationId: org.organizationId, role: 'viewer', siteIds: [org.siteIds[0] as number], sessionId: 'probe' }
+    const viewer: UserActor = {
+      kind: 'user',
+      userId: org.users.viewer.id,
+      organizationId: org.organizationId,
+      role: 'viewer',
+      siteIds: [org.siteIds[0] as number],
+      sessionId: 'probe',
+    }
     const range = [new Date(Date.now() - 3600_000), new Date(Date.now() + 3600_000)] as const
     expect((await listTankPhotos(t.ctx, viewer, own.tankId, ...range)).map((p) => p.id)).toEqual([own.photoId])
     await expect(listTankPhotos(t.ctx, viewer, elsewhere.tankId, ...range)).rejects.toMatchObject({ status: 404 })
@@ -112,10 +125,22 @@ describe('serving', () => {
     expect(res.headers['content-type']).toBe('image/jpeg')
     expect(res.headers['cache-control']).toBe('private, max-age=86400, immutable')
     expect(res.headers['x-content-type-options']).toBe('nosniff')
-    const again = await t.api().get(`/api/v1/photos/${photoId}/thumbnail`).set(as(org, 'viewer')).set('If-None-Match', res.headers.etag as string)
+    const again = await t
+      .api()
+      .get(`/api/v1/photos/${photoId}/thumbnail`)
+      .set(as(org, 'viewer'))
+      .set('If-None-Match', res.headers.etag as string)
     expect(again.status).toBe(304)
     // Another caller's ETag does not open the image without permission.
-    expect((await t.api().get(`/api/v1/photos/${photoId}/thumbnail`).set(bearer(other.users.owner.token)).set('If-None-Match', res.headers.etag as string)).status).toBe(404)
+    expect(
+      (
+        await t
+          .api()
+          .get(`/api/v1/photos/${photoId}/thumbnail`)
+          .set(bearer(other.users.owner.token))
+          .set('If-None-Match', res.headers.etag as string)
+      ).status,
+    ).toBe(404)
   })
 
   it('a photo whose stored image went missing answers 404 with a message, not 500', async () => {
@@ -132,7 +157,13 @@ describe('serving', () => {
     const tankId = await newTank(t, org)
     const ids: number[] = []
     for (const takenAt of ['2026-11-02T10:00:00Z', '2026-11-05T10:00:00Z', '2026-11-09T10:00:00Z']) {
-      const res = await t.api().post(`/api/v1/tanks/${tankId}/photos`).set(as(org, 'owner')).field('takenAt', takenAt).field('caption', takenAt.slice(0, 10)).attach('photo', image, 'x.jpg')
+      const res = await t
+        .api()
+        .post(`/api/v1/tanks/${tankId}/photos`)
+        .set(as(org, 'owner'))
+        .field('takenAt', takenAt)
+        .field('caption', takenAt.slice(0, 10))
+        .attach('photo', image, 'x.jpg')
       ids.push(res.body.id)
     }
     const list = await t.api().get(`/api/v1/tanks/${tankId}/photos`).set(as(org, 'viewer'))

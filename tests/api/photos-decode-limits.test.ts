@@ -23,11 +23,17 @@ const upload = (image: Buffer, contentType: string) =>
 
 describe('photo decoding', () => {
   it('refuses a 79-megapixel PNG of about a megabyte with a 413 naming the limit, storing nothing', async () => {
-    const bomb = await sharp({ create: { width: 8900, height: 8900, channels: 3, background: '#2a6f5b' } }).png({ compressionLevel: 9 }).toBuffer()
+    const bomb = await sharp({ create: { width: 8900, height: 8900, channels: 3, background: '#2a6f5b' } })
+      .png({ compressionLevel: 9 })
+      .toBuffer()
     expect(bomb.length).toBeLessThan(2 * 1024 * 1024)
     const res = await upload(bomb, 'image/png')
     expect(res.status).toBe(413)
-    expect(res.body.error).toMatchObject({ code: 'too_large', message: 'photo: 79 megapixels is more than the 50 accepted', fields: { photo: 'at most 50 megapixels' } })
+    expect(res.body.error).toMatchObject({
+      code: 'too_large',
+      message: 'photo: 79 megapixels is more than the 50 accepted',
+      fields: { photo: 'at most 50 megapixels' },
+    })
     expect(await t.ctx.models.Photo.count()).toBe(0)
     expect(filesUnder(t.photoDir)).toEqual([])
   })

@@ -25,7 +25,11 @@ export type PhotoTestApp = Awaited<ReturnType<typeof startPhotoTestApp>>
 export const as = (org: TestOrg, role: 'owner' | 'keeper' | 'viewer') => bearer(org.users[role].token)
 
 export async function newTank(t: PhotoTestApp, org: TestOrg, siteId = org.siteIds[0] as number) {
-  const res = await t.api().post('/api/v1/tanks').set(as(org, 'owner')).send(sampleTank(siteId, { name: `Photo tank ${Math.random().toString(36).slice(2, 8)}` }))
+  const res = await t
+    .api()
+    .post('/api/v1/tanks')
+    .set(as(org, 'owner'))
+    .send(sampleTank(siteId, { name: `Photo tank ${Math.random().toString(36).slice(2, 8)}` }))
   expect(res.status, JSON.stringify(res.body)).toBe(201)
   return res.body.id as number
 }
@@ -61,12 +65,16 @@ export async function makeImage(format: 'jpeg' | 'png' | 'webp' | 'gif' | 'tiff'
       raw[i + 2] = 90
     }
   }
-  return sharp(raw, { raw: { width, height, channels: 3 } }).toFormat(format).toBuffer()
+  return sharp(raw, { raw: { width, height, channels: 3 } })
+    .toFormat(format)
+    .toBuffer()
 }
 
 /** Random pixels barely compress: a PNG of them is about width × height × 3 bytes. */
 export function noisePng(width: number, height: number) {
   const raw = Buffer.alloc(width * height * 3)
   for (let i = 0; i < raw.length; i++) raw[i] = (i * 2654435761) >>> 24
-  return sharp(raw, { raw: { width, height, channels: 3 } }).png({ compressionLevel: 0 }).toBuffer()
+  return sharp(raw, { raw: { width, height, channels: 3 } })
+    .png({ compressionLevel: 0 })
+    .toBuffer()
 }

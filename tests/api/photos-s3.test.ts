@@ -78,17 +78,27 @@ describe('the app with PHOTO_STORE=s3', () => {
   it('stores both images in the bucket, nothing in the data folder, serves them, and deletes them', async () => {
     const tankId = await newTank(t, org)
     const before = await bucketKeys()
-    const res = await t.api().post(`/api/v1/tanks/${tankId}/photos`).set(as(org, 'keeper')).field('caption', 'Bucket test').attach('photo', await makeImage('webp', 2000, 1000), 'x.webp')
+    const res = await t
+      .api()
+      .post(`/api/v1/tanks/${tankId}/photos`)
+      .set(as(org, 'keeper'))
+      .field('caption', 'Bucket test')
+      .attach('photo', await makeImage('webp', 2000, 1000), 'x.webp')
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     const row = (await t.ctx.models.Photo.findByPk(res.body.id))!
     expect((await bucketKeys()).filter((k) => !before.includes(k))).toEqual([row.displayKey, row.thumbnailKey].sort())
     expect(filesUnder(t.photoDir)).toEqual([])
 
-    const image = await t.api().get(res.body.display.url).set(as(org, 'viewer')).buffer(true).parse((r, done) => {
-      const chunks: Buffer[] = []
-      r.on('data', (c: Buffer) => chunks.push(c))
-      r.on('end', () => done(null, Buffer.concat(chunks)))
-    })
+    const image = await t
+      .api()
+      .get(res.body.display.url)
+      .set(as(org, 'viewer'))
+      .buffer(true)
+      .parse((r, done) => {
+        const chunks: Buffer[] = []
+        r.on('data', (c: Buffer) => chunks.push(c))
+        r.on('end', () => done(null, Buffer.concat(chunks)))
+      })
     expect(image.status).toBe(200)
     expect(image.headers['content-type']).toBe('image/jpeg')
     const meta = await sharp(image.body as Buffer).metadata()
@@ -101,7 +111,11 @@ describe('the app with PHOTO_STORE=s3', () => {
   it('a refused upload leaves the bucket as it was', async () => {
     const tankId = await newTank(t, org)
     const before = await bucketKeys()
-    const res = await t.api().post(`/api/v1/tanks/${tankId}/photos`).set(as(org, 'keeper')).attach('photo', Buffer.from('%PDF-1.4 not an image'), { filename: 'x.png', contentType: 'image/png' })
+    const res = await t
+      .api()
+      .post(`/api/v1/tanks/${tankId}/photos`)
+      .set(as(org, 'keeper'))
+      .attach('photo', Buffer.from('%PDF-1.4 not an image'), { filename: 'x.png', contentType: 'image/png' })
     expect(res.status).toBe(400)
     expect(await bucketKeys()).toEqual(before)
     expect(await t.ctx.models.Photo.count({ where: { tankId } })).toBe(0)

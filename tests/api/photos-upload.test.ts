@@ -18,17 +18,25 @@ beforeAll(async () => {
 afterAll(() => t.close())
 
 const upload = (image: Buffer, options: { filename?: string; contentType?: string; fields?: Record<string, string>; tank?: number } = {}) => {
-  let req = t.api().post(`/api/v1/tanks/${options.tank ?? tankId}/photos`).set(as(org, 'keeper'))
+  let req = t
+    .api()
+    .post(`/api/v1/tanks/${options.tank ?? tankId}/photos`)
+    .set(as(org, 'keeper'))
   for (const [name, value] of Object.entries(options.fields ?? {})) req = req.field(name, value)
   return req.attach('photo', image, { filename: options.filename ?? 'tank.jpg', contentType: options.contentType ?? 'image/jpeg' })
 }
 const rowCount = () => t.ctx.models.Photo.count()
 const fetchBytes = async (url: string) => {
-  const res = await t.api().get(url).set(as(org, 'viewer')).buffer(true).parse((r, done) => {
-    const chunks: Buffer[] = []
-    r.on('data', (c: Buffer) => chunks.push(c))
-    r.on('end', () => done(null, Buffer.concat(chunks)))
-  })
+  const res = await t
+    .api()
+    .get(url)
+    .set(as(org, 'viewer'))
+    .buffer(true)
+    .parse((r, done) => {
+      const chunks: Buffer[] = []
+      r.on('data', (c: Buffer) => chunks.push(c))
+      r.on('end', () => done(null, Buffer.concat(chunks)))
+    })
   return res
 }
 
@@ -44,7 +52,10 @@ describe('uploading JPEG, PNG and WebP', () => {
 
     const row = await t.ctx.models.Photo.findByPk(res.body.id)
     expect(row!.originalFormat).toBe(format)
-    for (const [key, width, height] of [[row!.displayKey, 1600, 800], [row!.thumbnailKey, 320, 160]] as const) {
+    for (const [key, width, height] of [
+      [row!.displayKey, 1600, 800],
+      [row!.thumbnailKey, 320, 160],
+    ] as const) {
       expect(key).toMatch(new RegExp(`^${org.organizationId}/${tankId}/[0-9a-f-]{36}-(display|thumb)\\.jpg$`))
       const meta = await sharp(join(t.photoDir, key)).metadata()
       expect([meta.format, meta.width, meta.height]).toEqual(['jpeg', width, height])
@@ -108,7 +119,12 @@ describe('uploading JPEG, PNG and WebP', () => {
 })
 
 describe('refused uploads store nothing', () => {
-  async function expectRefused(send: () => Promise<{ status: number; body: { error?: { code: string; message: string; fields?: Record<string, string> } } }>, status: number, field: string, message: RegExp) {
+  async function expectRefused(
+    send: () => Promise<{ status: number; body: { error?: { code: string; message: string; fields?: Record<string, string> } } }>,
+    status: number,
+    field: string,
+    message: RegExp,
+  ) {
     const rows = await rowCount()
     const files = filesUnder(t.photoDir)
     const res = await send()
@@ -120,11 +136,26 @@ describe('refused uploads store nothing', () => {
   }
 
   it('a text file renamed .jpg and sent as image/jpeg is refused', async () => {
-    await expectRefused(() => upload(Buffer.from('just some notes about the tank\n'.repeat(20)), { filename: 'notes.jpg' }), 400, 'photo', /not a readable image/)
+    await expectRefused(
+      () => upload(Buffer.from('just some notes about the tank\n'.repeat(20)), { filename: 'notes.jpg' }),
+      400,
+      'photo',
+      /not a readable image/,
+    )
   })
   it('a real GIF and a real TIFF are refused by content, whatever they are called', async () => {
-    await expectRefused(async () => upload(await makeImage('gif', 64, 64), { filename: 'fish.png', contentType: 'image/png' }), 400, 'photo', /gif images are not accepted/)
-    await expectRefused(async () => upload(await makeImage('tiff', 64, 64), { filename: 'fish.webp', contentType: 'image/webp' }), 400, 'photo', /tiff images are not accepted/)
+    await expectRefused(
+      async () => upload(await makeImage('gif', 64, 64), { filename: 'fish.png', contentType: 'image/png' }),
+      400,
+      'photo',
+      /gif images are not accepted/,
+    )
+    await expectRefused(
+      async () => upload(await makeImage('tiff', 64, 64), { filename: 'fish.webp', contentType: 'image/webp' }),
+      400,
+      'photo',
+      /tiff images are not accepted/,
+    )
   })
   it('a truncated JPEG is refused as damaged', async () => {
     const whole = await makeImage('jpeg', 800, 800)
@@ -136,8 +167,23 @@ describe('refused uploads store nothing', () => {
     await expectRefused(() => upload(big, { contentType: 'image/png' }), 413, 'photo', /larger than the 0\.4 MB limit/)
   })
   it('no file, or the file under another field name, is a 400 naming photo', async () => {
-    await expectRefused(() => t.api().post(`/api/v1/tanks/${tankId}/photos`).set(as(org, 'keeper')).field('caption', 'nothing attached'), 400, 'photo', /attach a JPEG, PNG or WebP/)
-    await expectRefused(async () => t.api().post(`/api/v1/tanks/${tankId}/photos`).set(as(org, 'keeper')).attach('file', await makeImage('jpeg', 50, 50), 'a.jpg'), 400, 'photo', /field named "photo"/)
+    await expectRefused(
+      () => t.api().post(`/api/v1/tanks/${tankId}/photos`).set(as(org, 'keeper')).field('caption', 'nothing attached'),
+      400,
+      'photo',
+      /attach a JPEG, PNG or WebP/,
+    )
+    await expectRefused(
+      async () =>
+        t
+          .api()
+          .post(`/api/v1/tanks/${tankId}/photos`)
+          .set(as(org, 'keeper'))
+          .attach('file', await makeImage('jpeg', 50, 50), 'a.jpg'),
+      400,
+      'photo',
+      /field named "photo"/,
+    )
   })
   it('bad fields are 400s naming them', async () => {
     const image = await makeImage('jpeg', 100, 100)
@@ -150,7 +196,12 @@ describe('refused uploads store nothing', () => {
   it('a care-log entry of another tank cannot be linked', async () => {
     const otherTank = await newTank(t, org)
     const entry = await t.api().post(`/api/v1/tanks/${otherTank}/care-log`).set(as(org, 'keeper')).send({ kind: 'note', text: 'Other tank' })
-    await expectRefused(async () => upload(await makeImage('jpeg', 100, 100), { fields: { careLogEntryId: String(entry.body.id) } }), 400, 'careLogEntryId', /no such care-log entry/)
+    await expectRefused(
+      async () => upload(await makeImage('jpeg', 100, 100), { fields: { careLogEntryId: String(entry.body.id) } }),
+      400,
+      'careLogEntryId',
+      /no such care-log entry/,
+    )
   })
 })
 

@@ -15,7 +15,12 @@ beforeAll(async () => {
 })
 afterAll(() => t.close())
 
-const post = (body: unknown, token = node.token) => t.api().post('/api/v1/readings').set(bearer(token)).send(body as object)
+const post = (body: unknown, token = node.token) =>
+  t
+    .api()
+    .post('/api/v1/readings')
+    .set(bearer(token))
+    .send(body as object)
 const iso = (msAgo: number) => new Date(Date.now() - msAgo).toISOString()
 
 describe('POST /api/v1/readings', () => {
@@ -44,7 +49,13 @@ describe('POST /api/v1/readings', () => {
   })
 
   it('stores a retried batch once and says which readings were duplicates', async () => {
-    const body = { v: 1, readings: [{ metric: 'ph', value: 7.2, time: iso(90_000) }, { metric: 'ph', value: 7.25, time: iso(80_000) }] }
+    const body = {
+      v: 1,
+      readings: [
+        { metric: 'ph', value: 7.2, time: iso(90_000) },
+        { metric: 'ph', value: 7.25, time: iso(80_000) },
+      ],
+    }
     expect((await post(body)).body).toMatchObject({ accepted: 2, duplicates: 0 })
     const again = await post({ ...body, readings: [...body.readings, { metric: 'ph', value: 7.3, time: iso(70_000) }] })
     expect(again.body).toMatchObject({ accepted: 1, duplicates: 2, rejected: 0 })
@@ -104,11 +115,22 @@ describe('POST /api/v1/readings', () => {
 
   it('lets an owner register a device, shows its token once, rotates and revokes it', async () => {
     const tank = await t.api().post('/api/v1/tanks').set(bearer(org.users.owner.token)).send({
-      name: 'Device tank', siteId: org.siteIds[0], kind: 'marine', stage: 'established', volumeLitres: 300,
+      name: 'Device tank',
+      siteId: org.siteIds[0],
+      kind: 'marine',
+      stage: 'established',
+      volumeLitres: 300,
     })
-    const created = await t.api().post('/api/v1/devices').set(bearer(org.users.owner.token)).send({
-      tankId: tank.body.id, name: 'Probe A', metrics: ['temperature', 'ph'], intervalSeconds: 30,
-    })
+    const created = await t
+      .api()
+      .post('/api/v1/devices')
+      .set(bearer(org.users.owner.token))
+      .send({
+        tankId: tank.body.id,
+        name: 'Probe A',
+        metrics: ['temperature', 'ph'],
+        intervalSeconds: 30,
+      })
     expect(created.status).toBe(201)
     expect(created.body.token).toMatch(/^twd_\d+_/)
     const deviceRow = await t.ctx.models.Device.findByPk(created.body.device.id)

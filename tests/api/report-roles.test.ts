@@ -23,7 +23,13 @@ const readable = [200, 200, 200, 404]
 const ownerOnly = (ok: number) => [ok, 403, 403, 404]
 
 async function freshSchedule() {
-  const row = await t.ctx.models.ReportSchedule.create({ organizationId: org.organizationId, tankId, siteId: null, period: 'week', emails: ['client@marrowfen.example'] })
+  const row = await t.ctx.models.ReportSchedule.create({
+    organizationId: org.organizationId,
+    tankId,
+    siteId: null,
+    period: 'week',
+    emails: ['client@marrowfen.example'],
+  })
   return row.id
 }
 
@@ -33,7 +39,12 @@ const ROWS: Array<[string, string, number[], () => Promise<Prepared>]> = [
   ['get', '/sites/:id/report', readable, async () => ({ path: `/sites/${org.siteIds[0]}/report?date=${WEEK.date}` })],
   ['get', '/sites/:id/report/pdf', readable, async () => ({ path: `/sites/${org.siteIds[0]}/report/pdf?date=${WEEK.date}` })],
   ['get', '/report-schedules', [200, 403, 403, 200], async () => ({ path: '/report-schedules' })],
-  ['post', '/report-schedules', [201, 403, 403, 400], async () => ({ path: '/report-schedules', body: { tankId, period: 'week', emails: ['client@marrowfen.example'] } })],
+  [
+    'post',
+    '/report-schedules',
+    [201, 403, 403, 400],
+    async () => ({ path: '/report-schedules', body: { tankId, period: 'week', emails: ['client@marrowfen.example'] } }),
+  ],
   ['patch', '/report-schedules/:id', ownerOnly(200), async () => ({ path: `/report-schedules/${await freshSchedule()}`, body: { period: 'month' } })],
   ['delete', '/report-schedules/:id', ownerOnly(204), async () => ({ path: `/report-schedules/${await freshSchedule()}` })],
   ['post', '/report-schedules/:id/send-now', ownerOnly(200), async () => ({ path: `/report-schedules/${await freshSchedule()}/send-now` })],
@@ -58,7 +69,11 @@ describe('report route roles', () => {
   it("another organization's owner sees only its own schedules, and cannot schedule our tank", async () => {
     const theirs = await t.api().get('/api/v1/report-schedules').set(bearer(other.users.owner.token))
     expect(theirs.body).toEqual([])
-    const res = await t.api().post('/api/v1/report-schedules').set(bearer(other.users.owner.token)).send({ tankId, period: 'week', emails: ['x@example.com'] })
+    const res = await t
+      .api()
+      .post('/api/v1/report-schedules')
+      .set(bearer(other.users.owner.token))
+      .send({ tankId, period: 'week', emails: ['x@example.com'] })
     expect(res.status).toBe(400)
     expect(res.body.error.fields).toEqual({ tankId: 'no such tank' })
   })
@@ -82,9 +97,20 @@ describe('report schedules', () => {
   })
 
   it('creates, lists, changes and deletes a schedule', async () => {
-    const created = await t.api().post('/api/v1/report-schedules').set(owner()).send({ tankId, period: 'week', emails: ['Client@Marrowfen.example'], userIds: [org.users.viewer.id] })
+    const created = await t
+      .api()
+      .post('/api/v1/report-schedules')
+      .set(owner())
+      .send({ tankId, period: 'week', emails: ['Client@Marrowfen.example'], userIds: [org.users.viewer.id] })
     expect(created.status, JSON.stringify(created.body)).toBe(201)
-    expect(created.body).toMatchObject({ tankId, siteId: null, subjectName: 'Marrowfen display', period: 'week', userIds: [org.users.viewer.id], enabled: true })
+    expect(created.body).toMatchObject({
+      tankId,
+      siteId: null,
+      subjectName: 'Marrowfen display',
+      period: 'week',
+      userIds: [org.users.viewer.id],
+      enabled: true,
+    })
     // Made now, after this week's Monday 08:00: it starts with the next period instead of sending late.
     expect(created.body.lastSentPeriod).toMatch(/^\d{4}-\d{2}-\d{2}$/)
     const changed = await t.api().patch(`/api/v1/report-schedules/${created.body.id}`).set(owner()).send({ period: 'month', enabled: false })

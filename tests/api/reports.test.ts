@@ -28,7 +28,15 @@ describe('the weekly report of a tank, from seeded records', () => {
 
   it('covers the ISO week on the site calendar', () => {
     expect(report.subject).toMatchObject({ kind: 'tank', id: tankId, name: 'Marrowfen display', timeZone: 'Europe/Berlin' })
-    expect(report.period).toMatchObject({ kind: 'week', startDate: WEEK.startDate, endDate: WEEK.endDate, from: new Date(WEEK.from).toISOString(), inProgress: false, previousDate: '2026-11-01', nextDate: '2026-11-09' })
+    expect(report.period).toMatchObject({
+      kind: 'week',
+      startDate: WEEK.startDate,
+      endDate: WEEK.endDate,
+      from: new Date(WEEK.from).toISOString(),
+      inProgress: false,
+      previousDate: '2026-11-01',
+      nextDate: '2026-11-09',
+    })
     expect(report.tanks).toHaveLength(1)
   })
 
@@ -56,13 +64,19 @@ describe('the weekly report of a tank, from seeded records', () => {
   it('incidents opened in the week with time to acknowledge and resolve', () => {
     const tank = report.tanks[0]!
     expect(tank.incidentSummary).toEqual(EXPECTED.incidents)
-    expect(tank.incidents.map((i) => [i.timeToAcknowledgeMs, i.timeToResolveMs])).toEqual([[600_000, 4_200_000], [1_800_000, null]])
+    expect(tank.incidents.map((i) => [i.timeToAcknowledgeMs, i.timeToResolveMs])).toEqual([
+      [600_000, 4_200_000],
+      [1_800_000, null],
+    ])
   })
 
   it('care done versus due, water changed, livestock changes, photos', () => {
     const tank = report.tanks[0]!
     expect({ due: tank.care.due, done: tank.care.done }).toEqual(EXPECTED.care)
-    expect(tank.care.tasks.map((c) => [c.title, c.due, c.done])).toEqual([['Clean the glass', 2, 1], ['Weekly water change', 1, 1]])
+    expect(tank.care.tasks.map((c) => [c.title, c.due, c.done])).toEqual([
+      ['Clean the glass', 2, 1],
+      ['Weekly water change', 1, 1],
+    ])
     expect(tank.water).toEqual(EXPECTED.water)
     expect(tank.livestock).toMatchObject(EXPECTED.livestock)
     expect(tank.livestock.changes.map((c) => c.kind)).toEqual(['added', 'lost', 'removed'])
@@ -82,11 +96,13 @@ describe('the weekly report of a tank, from seeded records', () => {
   })
 
   it('the PDF parses: one A4 page with the tank, its figures and the units', async () => {
-    const res = await get(`/tanks/${tankId}/report/pdf?period=week&date=${WEEK.date}`).buffer(true).parse((r, cb) => {
-      const chunks: Buffer[] = []
-      r.on('data', (c: Buffer) => chunks.push(c))
-      r.on('end', () => cb(null, Buffer.concat(chunks)))
-    })
+    const res = await get(`/tanks/${tankId}/report/pdf?period=week&date=${WEEK.date}`)
+      .buffer(true)
+      .parse((r, cb) => {
+        const chunks: Buffer[] = []
+        r.on('data', (c: Buffer) => chunks.push(c))
+        r.on('end', () => cb(null, Buffer.concat(chunks)))
+      })
     expect(res.status).toBe(200)
     expect(res.headers['content-type']).toBe('application/pdf')
     expect(res.headers['content-disposition']).toBe('attachment; filename="tankwarden-report-marrowfen-display-week-2026-11-02.pdf"')
@@ -137,7 +153,13 @@ describe('report input and scope', () => {
   it('keepers and viewers read it; a viewer limited to another site, and another organization, get 404', async () => {
     expect((await get(`/tanks/${tankId}/report?date=${WEEK.date}`, org.users.keeper.token)).status).toBe(200)
     expect((await get(`/tanks/${tankId}/report?date=${WEEK.date}`, org.users.viewer.token)).status).toBe(200)
-    const client = await t.ctx.models.User.create({ organizationId: org.organizationId, email: `client-${process.pid}@marrowfen.example`, name: 'Site B client', role: 'viewer', passwordHash: 'x' })
+    const client = await t.ctx.models.User.create({
+      organizationId: org.organizationId,
+      email: `client-${process.pid}@marrowfen.example`,
+      name: 'Site B client',
+      role: 'viewer',
+      passwordHash: 'x',
+    })
     await t.ctx.models.UserSite.create({ userId: client.id, siteId: org.siteIds[1]! })
     await client.reload({ include: [{ association: 'sites' }] })
     const { token } = await authService(t.ctx).openSession(client)

@@ -27,8 +27,7 @@ function aggregate(rows: Row[], keyOf: (r: Row) => string) {
   return new Map([...groups.entries()].sort(([a], [b]) => a.localeCompare(b)))
 }
 const hourKey = (r: Row) => `${r.tankId}|${r.metric}|${at(Math.floor(r.t / HOUR_MS) * HOUR_MS)}`
-const bucketKey = (stepSeconds: number) => (r: Row) =>
-  at(ORIGIN_MS + Math.floor((r.t - ORIGIN_MS) / (stepSeconds * 1000)) * stepSeconds * 1000)
+const bucketKey = (stepSeconds: number) => (r: Row) => at(ORIGIN_MS + Math.floor((r.t - ORIGIN_MS) / (stepSeconds * 1000)) * stepSeconds * 1000)
 
 function expectSameAggregates(actual: Map<string, Aggregate>, expected: Map<string, Aggregate>) {
   expect([...actual.keys()]).toEqual([...expected.keys()])
@@ -63,10 +62,9 @@ async function rollups(): Promise<Map<string, Aggregate>> {
 }
 
 const insertRow = (source: string, metric: string, time: string, tank: number, value: number) =>
-  t.ctx.sequelize.query(
-    `INSERT INTO readings (source_key, metric, time, tank_id, value, source) VALUES ($1, $2, $3, $4, $5, 'test_kit')`,
-    { bind: [source, metric, time, tank, value] },
-  )
+  t.ctx.sequelize.query(`INSERT INTO readings (source_key, metric, time, tank_id, value, source) VALUES ($1, $2, $3, $4, $5, 'test_kit')`, {
+    bind: [source, metric, time, tank, value],
+  })
 
 const series = (metric: string, from: string, to: string, points: number) =>
   seriesService(t.ctx).series(tankId, seriesQuerySchema.parse({ metric, from, to, points }))
@@ -145,7 +143,11 @@ describe('series across pruned and kept readings', () => {
   const temperatures = () => original.filter((r) => r.tankId === tankId && r.metric === 'temperature')
 
   it('answers the same buckets as over the readings before pruning, in hours or longer', async () => {
-    for (const [points, step] of [[500, 3600], [5000, 3600], [100, 3 * 3600]]) {
+    for (const [points, step] of [
+      [500, 3600],
+      [5000, 3600],
+      [100, 3 * 3600],
+    ]) {
       // Without rollups 500 points would give 30-minute buckets; rolled-up hours cannot be split.
       const res = await series('temperature', START, NOW.toISOString(), points)
       expect(res.bucketSeconds).toBe(step)

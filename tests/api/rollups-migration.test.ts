@@ -25,13 +25,19 @@ function aggregate(rows: Array<{ t: number; value: number }>, unit: number) {
     const a = out.get(key) ?? { min: Infinity, max: -Infinity, sum: 0, count: 0 }
     out.set(key, { min: Math.min(a.min, value), max: Math.max(a.max, value), sum: a.sum + value, count: a.count + 1 })
   }
-  return [...out.entries()].sort(([a], [b]) => a - b).map(([at, a]) => ({ at: new Date(at).toISOString(), min: a.min, max: a.max, count: a.count, sum: Math.round(a.sum * 1e6) / 1e6 }))
+  return [...out.entries()]
+    .sort(([a], [b]) => a - b)
+    .map(([at, a]) => ({ at: new Date(at).toISOString(), min: a.min, max: a.max, count: a.count, sum: Math.round(a.sum * 1e6) / 1e6 }))
 }
 
 beforeAll(async () => {
   t = await startTestApp()
   const org = await t.createOrg('Migration Org')
-  const res = await t.api().post('/api/v1/tanks').set(bearer(org.users.owner.token)).send(sampleTank(org.siteIds[0], { name: 'Frag tank' }))
+  const res = await t
+    .api()
+    .post('/api/v1/tanks')
+    .set(bearer(org.users.owner.token))
+    .send(sampleTank(org.siteIds[0], { name: 'Frag tank' }))
   tankId = res.body.id
 })
 afterAll(() => t.close())
@@ -43,10 +49,9 @@ describe('the daily rollups migration', () => {
     // As retention left things before: one hour of pruned readings, raw rows from later on.
     const now = Date.now()
     const prunedHour = floorTo(now - 5 * DAY, HOUR)
-    await t.ctx.sequelize.query(
-      `INSERT INTO readings_hourly (tank_id, metric, hour, min, max, sum, count) VALUES ($1, 'ph', $2, 6.9, 7.4, 429, 60)`,
-      { bind: [tankId, new Date(prunedHour)] },
-    )
+    await t.ctx.sequelize.query(`INSERT INTO readings_hourly (tank_id, metric, hour, min, max, sum, count) VALUES ($1, 'ph', $2, 6.9, 7.4, 429, 60)`, {
+      bind: [tankId, new Date(prunedHour)],
+    })
     const raw: Array<{ t: number; value: number }> = []
     for (let time = floorTo(now - 3 * DAY, HOUR) + 90_000, i = 0; time < now; time += 10 * 60_000, i++) raw.push({ t: time, value: 7 + ((i * 37) % 23) / 100 })
     await t.ctx.sequelize.query(

@@ -48,7 +48,14 @@ const onDutyAt = async (siteId: number, at: string) => {
 const onDutyIds = async (siteId: number, at: string) => (await onDutyAt(siteId, at)).onDuty.map((p: { userId: number }) => p.userId)
 async function newUser(role: 'owner' | 'keeper' | 'viewer', of = org, active = true) {
   const n = Math.random().toString(36).slice(2, 8)
-  return t.ctx.models.User.create({ organizationId: of.organizationId, email: `${role}-${n}@roster.example`, name: `${role} ${n}`, role, passwordHash: 'x', active })
+  return t.ctx.models.User.create({
+    organizationId: of.organizationId,
+    email: `${role}-${n}@roster.example`,
+    name: `${role} ${n}`,
+    role,
+    passwordHash: 'x',
+    active,
+  })
 }
 
 beforeAll(async () => {
@@ -67,18 +74,38 @@ describe('weekly shifts', () => {
     const created = await addShift(siteId, { userId: org.users.keeper.id, weekday: MON, start: '22:00', end: '06:00' })
     expect(created.status).toBe(201)
     expect(created.body).toEqual({
-      id: expect.any(Number), siteId, userId: org.users.keeper.id, userName: 'keeper of Roster Org', weekday: MON, start: '22:00', end: '06:00',
+      id: expect.any(Number),
+      siteId,
+      userId: org.users.keeper.id,
+      userName: 'keeper of Roster Org',
+      weekday: MON,
+      start: '22:00',
+      end: '06:00',
     })
     const early = (await addShift(siteId, { userId: org.users.owner.id, weekday: MON, start: '06:00', end: '14:00' })).body
     const listed = await api().get(path(siteId, 'shifts')).set(owner)
     expect(listed.body.map((s: { id: number }) => s.id)).toEqual([early.id, created.body.id])
-    const patched = await api().patch(path(siteId, `shifts/${created.body.id}`)).set(owner).send({ end: '07:00' })
+    const patched = await api()
+      .patch(path(siteId, `shifts/${created.body.id}`))
+      .set(owner)
+      .send({ end: '07:00' })
     expect(patched.body).toEqual({ ...created.body, end: '07:00' })
-    expect((await api().delete(path(siteId, `shifts/${created.body.id}`)).set(owner)).status).toBe(204)
+    expect(
+      (
+        await api()
+          .delete(path(siteId, `shifts/${created.body.id}`))
+          .set(owner)
+      ).status,
+    ).toBe(204)
     expect((await api().get(path(siteId, 'shifts')).set(owner)).body.map((s: { id: number }) => s.id)).toEqual([early.id])
-    const gone = await api().patch(path(siteId, `shifts/${created.body.id}`)).set(owner).send({ end: '08:00' })
+    const gone = await api()
+      .patch(path(siteId, `shifts/${created.body.id}`))
+      .set(owner)
+      .send({ end: '08:00' })
     expect([gone.status, gone.body.error.code]).toEqual([404, 'not_found'])
-    const elsewhere = await api().delete(path(await freshSite(), `shifts/${early.id}`)).set(owner)
+    const elsewhere = await api()
+      .delete(path(await freshSite(), `shifts/${early.id}`))
+      .set(owner)
     expect(elsewhere.status).toBe(404)
   })
 
@@ -108,7 +135,10 @@ describe('weekly shifts', () => {
       const res = await shift(userId)
       expect([res.status, res.body.error.fields]).toEqual([400, { userId: message }])
     }
-    const patch = await api().patch(path(siteId, `shifts/${(await shift(org.users.keeper.id)).body.id}`)).set(owner).send({ userId: org.users.viewer.id })
+    const patch = await api()
+      .patch(path(siteId, `shifts/${(await shift(org.users.keeper.id)).body.id}`))
+      .set(owner)
+      .send({ userId: org.users.viewer.id })
     expect([patch.status, patch.body.error.fields]).toEqual([400, { userId: 'a viewer cannot be on duty' }])
   })
 
@@ -131,7 +161,13 @@ describe('roles and tenancy', () => {
     const shiftId = (await addShift(siteId, body)).body.id
     for (const role of ['keeper', 'viewer'] as const) {
       const auth = bearer(org.users[role].token)
-      expect((await api().delete(path(siteId, `shifts/${shiftId}`)).set(auth)).status).toBe(403)
+      expect(
+        (
+          await api()
+            .delete(path(siteId, `shifts/${shiftId}`))
+            .set(auth)
+        ).status,
+      ).toBe(403)
       const read = await api().get(path(siteId, 'shifts')).set(auth)
       expect([read.status, read.body.map((s: { id: number }) => s.id)]).toEqual([200, [shiftId]])
       expect((await api().get(path(siteId, 'on-duty')).set(auth)).status).toBe(200)
@@ -158,7 +194,9 @@ describe('on duty now', () => {
     await addShift(siteId, { userId: org.users.keeper.id, weekday: MON, start: '22:00', end: '06:00' })
     const monday = await onDutyAt(siteId, '2026-01-05T23:30:00+01:00')
     expect(monday).toEqual({
-      siteId, at: '2026-01-05T22:30:00.000Z', timeZone: 'Europe/Berlin',
+      siteId,
+      at: '2026-01-05T22:30:00.000Z',
+      timeZone: 'Europe/Berlin',
       onDuty: [{ userId: org.users.keeper.id, name: 'keeper of Roster Org', email: org.users.keeper.email }],
       backup: { userId: org.users.owner.id, name: 'owner of Roster Org', email: org.users.owner.email },
       usingBackup: false,
@@ -187,7 +225,10 @@ describe('on duty now', () => {
   })
 
   it('refuses an instant without an offset', async () => {
-    const res = await api().get(path(await freshSite(), 'on-duty')).query({ at: '2026-01-05T10:00:00' }).set(owner)
+    const res = await api()
+      .get(path(await freshSite(), 'on-duty'))
+      .query({ at: '2026-01-05T10:00:00' })
+      .set(owner)
     expect([res.status, Object.keys(res.body.error.fields)]).toEqual([400, ['at']])
   })
 })
@@ -197,17 +238,32 @@ describe('overrides', () => {
     const siteId = await freshSite()
     const stand = await newUser('keeper')
     await addShift(siteId, { userId: org.users.keeper.id, weekday: MON, start: '09:00', end: '17:00' })
-    const off = await addOverride(siteId, { userId: org.users.keeper.id, kind: 'remove', startsAt: '2026-01-05T12:00:00+01:00', endsAt: '2026-01-05T13:00:00+01:00', note: ' dentist ' })
+    const off = await addOverride(siteId, {
+      userId: org.users.keeper.id,
+      kind: 'remove',
+      startsAt: '2026-01-05T12:00:00+01:00',
+      endsAt: '2026-01-05T13:00:00+01:00',
+      note: ' dentist ',
+    })
     expect(off.status).toBe(201)
     expect(off.body).toEqual({
-      id: expect.any(Number), siteId, userId: org.users.keeper.id, userName: 'keeper of Roster Org', kind: 'remove',
-      startsAt: '2026-01-05T11:00:00.000Z', endsAt: '2026-01-05T12:00:00.000Z', note: 'dentist', createdBy: org.users.owner.id,
+      id: expect.any(Number),
+      siteId,
+      userId: org.users.keeper.id,
+      userName: 'keeper of Roster Org',
+      kind: 'remove',
+      startsAt: '2026-01-05T11:00:00.000Z',
+      endsAt: '2026-01-05T12:00:00.000Z',
+      note: 'dentist',
+      createdBy: org.users.owner.id,
     })
     expect((await onDutyAt(siteId, '2026-01-05T12:30:00+01:00')).usingBackup).toBe(true)
     const cover = (await addOverride(siteId, { userId: stand.id, kind: 'add', startsAt: '2026-01-05T11:00:00Z', endsAt: '2026-01-05T12:00:00Z' })).body
     expect(await onDutyIds(siteId, '2026-01-05T12:30:00+01:00')).toEqual([stand.id])
     expect(await onDutyIds(siteId, '2026-01-05T13:00:00+01:00')).toEqual([org.users.keeper.id])
-    const tuesday = (await addOverride(siteId, { userId: org.users.owner.id, kind: 'add', startsAt: '2026-01-06T10:00:00+01:00', endsAt: '2026-01-06T11:00:00+01:00' })).body
+    const tuesday = (
+      await addOverride(siteId, { userId: org.users.owner.id, kind: 'add', startsAt: '2026-01-06T10:00:00+01:00', endsAt: '2026-01-06T11:00:00+01:00' })
+    ).body
     expect(await onDutyIds(siteId, '2026-01-06T10:30:00+01:00')).toEqual([org.users.owner.id])
 
     const list = (query: object) => api().get(path(siteId, 'overrides')).query(query).set(owner)
@@ -216,9 +272,21 @@ describe('overrides', () => {
     expect((await list({ from: '2026-01-06T00:00:00+01:00' })).body.map((o: { id: number }) => o.id)).toEqual([tuesday.id])
     expect((await list({})).body).toEqual([])
 
-    expect((await api().delete(path(siteId, `overrides/${cover.id}`)).set(owner)).status).toBe(204)
+    expect(
+      (
+        await api()
+          .delete(path(siteId, `overrides/${cover.id}`))
+          .set(owner)
+      ).status,
+    ).toBe(204)
     expect((await onDutyAt(siteId, '2026-01-05T12:30:00+01:00')).onDuty).toEqual([])
-    expect((await api().delete(path(siteId, `overrides/${cover.id}`)).set(owner)).status).toBe(404)
+    expect(
+      (
+        await api()
+          .delete(path(siteId, `overrides/${cover.id}`))
+          .set(owner)
+      ).status,
+    ).toBe(404)
   })
 
   it.each([
@@ -232,7 +300,12 @@ describe('overrides', () => {
   })
 
   it('refuses a viewer as the person added', async () => {
-    const res = await addOverride(await freshSite(), { userId: org.users.viewer.id, kind: 'add', startsAt: '2026-01-05T09:00:00Z', endsAt: '2026-01-05T10:00:00Z' })
+    const res = await addOverride(await freshSite(), {
+      userId: org.users.viewer.id,
+      kind: 'add',
+      startsAt: '2026-01-05T09:00:00Z',
+      endsAt: '2026-01-05T10:00:00Z',
+    })
     expect([res.status, res.body.error.fields]).toEqual([400, { userId: 'a viewer cannot be on duty' }])
   })
 })
@@ -244,8 +317,7 @@ describe('backup contact and recipients', () => {
     const siteId = own.siteIds[0] as number
     const laterOwner = await newUser('owner', own)
     // Asked as the keeper: deactivating the first owner also ends that owner's sessions.
-    const ask = async () =>
-      (await api().get(path(siteId, 'on-duty')).query({ at: '2026-01-05T10:00:00+01:00' }).set(bearer(own.users.keeper.token))).body
+    const ask = async () => (await api().get(path(siteId, 'on-duty')).query({ at: '2026-01-05T10:00:00+01:00' }).set(bearer(own.users.keeper.token))).body
     expect((await ask()).backup.userId).toBe(own.users.owner.id)
     await t.ctx.models.User.update({ active: false }, { where: { id: own.users.owner.id } })
     expect((await ask()).backup.userId).toBe(laterOwner.id)
@@ -253,7 +325,9 @@ describe('backup contact and recipients', () => {
 
     const set = await api().put(path(siteId, 'backup')).set(ownerAuth).send({ userId: own.users.keeper.id })
     expect(set.body).toEqual({
-      siteId, backupUserId: own.users.keeper.id, backup: { userId: own.users.keeper.id, name: 'keeper of Backup Org', email: own.users.keeper.email },
+      siteId,
+      backupUserId: own.users.keeper.id,
+      backup: { userId: own.users.keeper.id, name: 'keeper of Backup Org', email: own.users.keeper.email },
     })
     expect(await ask()).toMatchObject({ onDuty: [], usingBackup: true, backup: { userId: own.users.keeper.id } })
     expect(await dutyRecipients(t.ctx, siteId, new Date('2026-01-05T09:00:00Z'))).toEqual([set.body.backup])
@@ -296,7 +370,13 @@ describe('week view', () => {
     await addOverride(siteId, { userId: keeper.id, kind: 'add', startsAt: '2026-01-05T16:00:00+01:00', endsAt: '2026-01-05T19:00:00+01:00' })
     await addOverride(siteId, { userId: second.id, kind: 'remove', startsAt: '2026-01-07T11:00:00+01:00', endsAt: '2026-01-07T12:00:00+01:00' })
     const res = await api().get(path(siteId, 'week')).query({ start: '2026-01-05' }).set(owner)
-    const span = (who: { id: number }, name: string, startsAt: string, endsAt: string, source = 'pattern') => ({ userId: who.id, name, startsAt, endsAt, source })
+    const span = (who: { id: number }, name: string, startsAt: string, endsAt: string, source = 'pattern') => ({
+      userId: who.id,
+      name,
+      startsAt,
+      endsAt,
+      source,
+    })
     expect(res.body).toEqual({
       weekStart: '2026-01-05',
       timeZone: 'Europe/Berlin',
@@ -321,7 +401,10 @@ describe('week view', () => {
   })
 
   it('refuses a start that is not a calendar date', async () => {
-    const res = await api().get(path(await freshSite(), 'week')).query({ start: '2026-02-30' }).set(owner)
+    const res = await api()
+      .get(path(await freshSite(), 'week'))
+      .query({ start: '2026-02-30' })
+      .set(owner)
     expect([res.status, res.body.error.fields]).toEqual([400, { start: LOCAL_DATE_FORMAT_MESSAGE }])
   })
 })

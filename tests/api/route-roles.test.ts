@@ -48,10 +48,21 @@ type RouteCase = { method: Method; route: string; expected: Expected; prepare: (
 const everyone = (status: number) => Object.fromEntries(CALLERS.map((c) => [c, status])) as Expected
 /** `otherOrg` is the owner of another organization: the strongest role, so only tenancy can stop it. */
 const signedIn = (owner: number, keeper: number, viewer: number, otherOrg: number): Expected => ({
-  owner, keeper, viewer, otherOrg, noToken: 401, expired: 401, tampered: 401, algNone: 401, wall: 401,
+  owner,
+  keeper,
+  viewer,
+  otherOrg,
+  noToken: 401,
+  expired: 401,
+  tampered: 401,
+  algNone: 401,
+  wall: 401,
 })
 const row = (method: Method, route: string, expected: Expected, prepare: RouteCase['prepare'] = () => ({})): RouteCase => ({
-  method, route, expected, prepare,
+  method,
+  route,
+  expected,
+  prepare,
 })
 const ownerOnly = signedIn(200, 403, 403, 404)
 const ownerCreates = signedIn(201, 403, 403, 404)
@@ -78,32 +89,68 @@ async function keepersEntry(w: World) {
 
 /** The care routes have their role matrix in care-roles.test.ts (owner, keeper, viewer, other org, no token). */
 const CHECKED_IN_CARE_ROLES = [
-  'GET /tanks/:id/care-tasks', 'POST /tanks/:id/care-tasks', 'GET /tanks/:id/care-log', 'POST /tanks/:id/care-log',
-  'GET /tanks/:id/water-changes', 'POST /tanks/:id/water-changes/plan', 'POST /tanks/:id/water-changes',
-  'GET /tanks/:id/livestock', 'POST /tanks/:id/livestock', 'PATCH /tanks/:id/livestock/:entryId', 'GET /tanks/:id/cycling',
-  'PATCH /care-tasks/:id', 'POST /care-tasks/done', 'POST /care-tasks/:id/done', 'POST /care-tasks/:id/snooze', 'POST /water-changes/:id/finish', 'POST /water-changes/:id/cancel',
-  'GET /care/today', 'GET /care/species', 'GET /sites/:id/care-summary',
+  'GET /tanks/:id/care-tasks',
+  'POST /tanks/:id/care-tasks',
+  'GET /tanks/:id/care-log',
+  'POST /tanks/:id/care-log',
+  'GET /tanks/:id/water-changes',
+  'POST /tanks/:id/water-changes/plan',
+  'POST /tanks/:id/water-changes',
+  'GET /tanks/:id/livestock',
+  'POST /tanks/:id/livestock',
+  'PATCH /tanks/:id/livestock/:entryId',
+  'GET /tanks/:id/cycling',
+  'PATCH /care-tasks/:id',
+  'POST /care-tasks/done',
+  'POST /care-tasks/:id/done',
+  'POST /care-tasks/:id/snooze',
+  'POST /water-changes/:id/finish',
+  'POST /water-changes/:id/cancel',
+  'GET /care/today',
+  'GET /care/species',
+  'GET /sites/:id/care-summary',
 ]
 
 /** The photo routes have their role matrix in photos-access.test.ts (owner, keeper, viewer, other org, no token). */
 const CHECKED_IN_PHOTO_ROLES = [
-  'GET /tanks/:id/photos', 'POST /tanks/:id/photos', 'GET /photos/:id', 'GET /photos/:id/image', 'GET /photos/:id/thumbnail', 'DELETE /photos/:id',
+  'GET /tanks/:id/photos',
+  'POST /tanks/:id/photos',
+  'GET /photos/:id',
+  'GET /photos/:id/image',
+  'GET /photos/:id/thumbnail',
+  'DELETE /photos/:id',
 ]
 /** The report routes have their role matrix in report-roles.test.ts (owner, keeper, viewer, other org, no token). */
 const CHECKED_IN_REPORT_ROLES = [
-  'GET /tanks/:id/report', 'GET /tanks/:id/report/pdf', 'GET /sites/:id/report', 'GET /sites/:id/report/pdf',
-  'GET /report-schedules', 'POST /report-schedules', 'PATCH /report-schedules/:id', 'DELETE /report-schedules/:id',
+  'GET /tanks/:id/report',
+  'GET /tanks/:id/report/pdf',
+  'GET /sites/:id/report',
+  'GET /sites/:id/report/pdf',
+  'GET /report-schedules',
+  'POST /report-schedules',
+  'PATCH /report-schedules/:id',
+  'DELETE /report-schedules/:id',
   'POST /report-schedules/:id/send-now',
 ]
 /** The build routes have their role matrix in build-roles.test.ts (a plan, a fill and a step need their own set-up). */
 const CHECKED_IN_BUILD_ROLES = [
-  'GET /tanks/:id/build', 'PUT /tanks/:id/build/plan', 'POST /tanks/:id/build/start', 'POST /tanks/:id/build/steps/:key/done',
-  'GET /tanks/:id/build/templates', 'GET /tanks/:id/build/report/pdf', 'POST /tanks/:id/build/report/mail',
+  'GET /tanks/:id/build',
+  'PUT /tanks/:id/build/plan',
+  'POST /tanks/:id/build/start',
+  'POST /tanks/:id/build/steps/:key/done',
+  'GET /tanks/:id/build/templates',
+  'GET /tanks/:id/build/report/pdf',
+  'POST /tanks/:id/build/report/mail',
 ]
 /** The CSV import routes have their role matrix in import-roles.test.ts (multipart uploads need their own set-up). */
 const CHECKED_IN_IMPORT_ROLES = [
-  'POST /tanks/:id/imports', 'POST /sites/:id/imports', 'GET /imports/:id', 'POST /imports/:id/start',
-  'POST /imports/:id/cancel', 'GET /imports/:id/rejections', 'GET /import-sources',
+  'POST /tanks/:id/imports',
+  'POST /sites/:id/imports',
+  'GET /imports/:id',
+  'POST /imports/:id/start',
+  'POST /imports/:id/cancel',
+  'GET /imports/:id/rejections',
+  'GET /import-sources',
 ]
 
 /** One row per route the API serves. A new route adds a row here; the coverage test below insists. */
@@ -174,7 +221,8 @@ const ROUTES: RouteCase[] = [
   row('get', '/tanks/:id/rules', readable, async (w) => ({ param: await w.freshTank() })),
   row('post', '/tanks/:id/rules', ownerCreates, async (w) => ({ param: await w.freshTank(), body: ruleBody })),
   row('put', '/tanks/:id/rules/:ruleId/override', ownerOnly, async (w) => ({
-    param: [await w.freshTank(), await w.freshSiteRule()], body: { enabled: false },
+    param: [await w.freshTank(), await w.freshSiteRule()],
+    body: { enabled: false },
   })),
   row('get', '/sites/:id/rules', readable, async (w) => ({ param: await w.freshSite() })),
   row('post', '/sites/:id/rules', ownerCreates, async (w) => ({ param: await w.freshSite(), body: ruleBody })),
@@ -194,7 +242,8 @@ const ROUTES: RouteCase[] = [
   row('post', '/ack-links/use', everyone(200), async (w) => ({ body: { token: await w.freshAckToken() } })),
   row('get', '/sites/:id/roster/shifts', readable, async (w) => ({ param: await w.freshSite() })),
   row('post', '/sites/:id/roster/shifts', ownerCreates, async (w) => ({
-    param: await w.freshSite(), body: { userId: w.org.users.keeper.id, weekday: 0, start: '08:00', end: '16:00' },
+    param: await w.freshSite(),
+    body: { userId: w.org.users.keeper.id, weekday: 0, start: '08:00', end: '16:00' },
   })),
   row('patch', '/sites/:id/roster/shifts/:shiftId', ownerOnly, async (w) => {
     const site = await w.freshSite()
@@ -206,7 +255,8 @@ const ROUTES: RouteCase[] = [
   }),
   row('get', '/sites/:id/roster/overrides', readable, async (w) => ({ param: await w.freshSite() })),
   row('post', '/sites/:id/roster/overrides', ownerCreates, async (w) => ({
-    param: await w.freshSite(), body: { userId: w.org.users.keeper.id, kind: 'add', startsAt: inHours(1), endsAt: inHours(5) },
+    param: await w.freshSite(),
+    body: { userId: w.org.users.keeper.id, kind: 'add', startsAt: inHours(1), endsAt: inHours(5) },
   })),
   row('delete', '/sites/:id/roster/overrides/:overrideId', ownerDeletes, async (w) => {
     const site = await w.freshSite()
@@ -246,7 +296,12 @@ let world: World
 let emailCounter = 0
 
 const ownerActor = (o: TestOrg): UserActor => ({
-  kind: 'user', userId: o.users.owner.id, organizationId: o.organizationId, role: 'owner', siteIds: null, sessionId: randomUUID(),
+  kind: 'user',
+  userId: o.users.owner.id,
+  organizationId: o.organizationId,
+  role: 'owner',
+  siteIds: null,
+  sessionId: randomUUID(),
 })
 
 async function freshToken(userId: number) {
@@ -317,7 +372,10 @@ beforeAll(async () => {
     },
     async freshSite(archived = false) {
       const site = await models.Site.create({
-        organizationId: org.organizationId, name: 'Fresh site', timeZone: 'Europe/Berlin', archivedAt: archived ? new Date() : null,
+        organizationId: org.organizationId,
+        name: 'Fresh site',
+        timeZone: 'Europe/Berlin',
+        archivedAt: archived ? new Date() : null,
       })
       return site.id
     },
@@ -328,7 +386,11 @@ beforeAll(async () => {
     },
     async freshUser() {
       const user = await models.User.create({
-        organizationId: org.organizationId, email: world.freshEmail(), name: 'Target', role: 'keeper', passwordHash: 'unused',
+        organizationId: org.organizationId,
+        email: world.freshEmail(),
+        name: 'Target',
+        role: 'keeper',
+        passwordHash: 'unused',
       })
       return user.id
     },
@@ -350,14 +412,28 @@ beforeAll(async () => {
       const tankId = await world.freshTank()
       const s = snoozeBody()
       const snooze = await models.Snooze.create({
-        organizationId: org.organizationId, tankId, reason: s.reason, startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt), createdBy: org.users.keeper.id,
+        organizationId: org.organizationId,
+        tankId,
+        reason: s.reason,
+        startsAt: new Date(s.startsAt),
+        endsAt: new Date(s.endsAt),
+        createdBy: org.users.keeper.id,
       })
       return snooze.id
     },
     async freshMaintenanceWindow() {
       const row = await models.MaintenanceWindow.create({
-        organizationId: org.organizationId, siteId: org.siteIds[0], tankId: null, ruleId: null, reason: 'Glass polish', startsAt: null, endsAt: null,
-        weekday: 1, startMinute: 540, durationMinutes: 90, createdBy: org.users.owner.id,
+        organizationId: org.organizationId,
+        siteId: org.siteIds[0],
+        tankId: null,
+        ruleId: null,
+        reason: 'Glass polish',
+        startsAt: null,
+        endsAt: null,
+        weekday: 1,
+        startMinute: 540,
+        durationMinutes: 90,
+        createdBy: org.users.owner.id,
       })
       return row.id
     },
@@ -365,8 +441,21 @@ beforeAll(async () => {
       const tankId = await world.freshTank()
       const at = new Date()
       const incident = await models.Incident.create({
-        organizationId: org.organizationId, siteId: org.siteIds[0], tankId, ruleId: null, ruleKind: 'above', metric: 'temperature', severity: 'alarm',
-        title: 'Temperature above 28 °C for 10 min', state: 'open', conditionSince: at, openedAt: at, firstValue: 28.6, peakValue: 28.6, latestValue: 28.6, latestAt: at,
+        organizationId: org.organizationId,
+        siteId: org.siteIds[0],
+        tankId,
+        ruleId: null,
+        ruleKind: 'above',
+        metric: 'temperature',
+        severity: 'alarm',
+        title: 'Temperature above 28 °C for 10 min',
+        state: 'open',
+        conditionSince: at,
+        openedAt: at,
+        firstValue: 28.6,
+        peakValue: 28.6,
+        latestValue: 28.6,
+        latestAt: at,
       })
       return incident.id
     },
@@ -388,8 +477,15 @@ beforeAll(async () => {
     },
     async freshMail() {
       const mail = await models.FakeMailboxMessage.create({
-        organizationId: org.organizationId, envelopeFrom: 'alerts@tankwarden.invalid', envelopeTo: [org.users.owner.email],
-        subject: 'Alarm: Temperature above 28 °C', textBody: 'Check the heater', htmlBody: null, headers: {}, attachments: [], rawSize: 120,
+        organizationId: org.organizationId,
+        envelopeFrom: 'alerts@tankwarden.invalid',
+        envelopeTo: [org.users.owner.email],
+        subject: 'Alarm: Temperature above 28 °C',
+        textBody: 'Check the heater',
+        htmlBody: null,
+        headers: {},
+        attachments: [],
+        rawSize: 120,
       })
       return mail.id
     },
@@ -426,19 +522,35 @@ describe('the table itself', () => {
     const served = walk((t.app as unknown as { router: { stack: Layer[] } }).router.stack, '')
       .map((r) => r.replace(' /api/v1', ' '))
       .sort()
-    const listed = [...ROUTES.map((r) => `${r.method.toUpperCase()} ${r.route}`), ...CHECKED_IN_CARE_ROLES, ...CHECKED_IN_PHOTO_ROLES, ...CHECKED_IN_REPORT_ROLES, ...CHECKED_IN_IMPORT_ROLES, ...CHECKED_IN_BUILD_ROLES].sort()
+    const listed = [
+      ...ROUTES.map((r) => `${r.method.toUpperCase()} ${r.route}`),
+      ...CHECKED_IN_CARE_ROLES,
+      ...CHECKED_IN_PHOTO_ROLES,
+      ...CHECKED_IN_REPORT_ROLES,
+      ...CHECKED_IN_IMPORT_ROLES,
+      ...CHECKED_IN_BUILD_ROLES,
+    ].sort()
     const notInTable = served.filter((r) => !listed.includes(r))
     const notServed = listed.filter((r) => !served.includes(r))
     expect({ notInTable, notServed }).toEqual({ notInTable: [], notServed: [] })
     expect(listed).toEqual(served)
   })
 
-  it('no wall key can write anything: it opens its own site\'s wall, and elsewhere gets what no token gets', async () => {
+  it("no wall key can write anything: it opens its own site's wall, and elsewhere gets what no token gets", async () => {
     const name = (r: RouteCase) => `${r.method.toUpperCase()} ${r.route}`
     expect(ROUTES.filter((r) => r.expected.wall !== r.expected.noToken).map(name)).toEqual(['GET /sites/:id/wall'])
     expect(ROUTES.filter((r) => r.expected.wall !== 401).map(name)).toEqual([
-      'GET /health', 'POST /auth/sign-in', 'POST /auth/password-reset', 'POST /auth/password-reset/confirm',
-      'GET /setup', 'POST /setup', 'GET /invitations/:token', 'POST /invitations/accept', 'GET /ack-links/:token', 'POST /ack-links/use', 'GET /sites/:id/wall',
+      'GET /health',
+      'POST /auth/sign-in',
+      'POST /auth/password-reset',
+      'POST /auth/password-reset/confirm',
+      'GET /setup',
+      'POST /setup',
+      'GET /invitations/:token',
+      'POST /invitations/accept',
+      'GET /ack-links/:token',
+      'POST /ack-links/use',
+      'GET /sites/:id/wall',
     ])
     const { key } = await world.freshWallKey()
     for (const siteId of [org.siteIds[1], other.siteIds[0]]) expect((await send('get', `/sites/${siteId}/wall`, key)).status).toBe(404)

@@ -39,14 +39,25 @@ function engineAt(start: number): RuleEngine {
 async function tankWithHeatRule(name: string) {
   const node = await createTankWithDevice(t.ctx, org, name)
   const rule = await t.ctx.models.WatchRule.create({
-    organizationId: org.organizationId, siteId: org.siteIds[0], tankId: node.tankId, name: 'Temperature above 28 °C for 10 min',
-    severity: 'alarm', spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 },
+    organizationId: org.organizationId,
+    siteId: org.siteIds[0],
+    tankId: node.tankId,
+    name: 'Temperature above 28 °C for 10 min',
+    severity: 'alarm',
+    spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 },
   })
   return { ...node, ruleId: rule.id }
 }
 
 async function store(tankId: number, deviceId: number, points: Array<[number, number]>) {
-  const rows: ReadingRow[] = points.map(([at, value]) => ({ sourceKey: `d:${deviceId}`, metric: 'temperature', time: new Date(at), tankId, value, source: 'device' }))
+  const rows: ReadingRow[] = points.map(([at, value]) => ({
+    sourceKey: `d:${deviceId}`,
+    metric: 'temperature',
+    time: new Date(at),
+    tankId,
+    value,
+    source: 'device',
+  }))
   await t.ctx.readings.writer.write(rows)
 }
 
@@ -58,13 +69,21 @@ describe('the watch-rule engine over real PostgreSQL', () => {
     const t0 = Date.now() - 3 * 3600_000
     const engine = engineAt(t0)
     await engine.start()
-    await store(tank.tankId, tank.deviceId, Array.from({ length: 9 }, (_, i) => [t0 + i * MIN, 28.6] as [number, number]))
+    await store(
+      tank.tankId,
+      tank.deviceId,
+      Array.from({ length: 9 }, (_, i) => [t0 + i * MIN, 28.6] as [number, number]),
+    )
     await engine.settle()
     clock = t0 + 9 * MIN
     await engine.tick()
     expect(await incidentsOf(tank.tankId)).toHaveLength(0) // held 9 minutes: not yet
 
-    await store(tank.tankId, tank.deviceId, [[t0 + 10 * MIN, 28.9], [t0 + 11 * MIN, 29.4], [t0 + 12 * MIN, 27.8]])
+    await store(tank.tankId, tank.deviceId, [
+      [t0 + 10 * MIN, 28.9],
+      [t0 + 11 * MIN, 29.4],
+      [t0 + 12 * MIN, 27.8],
+    ])
     await engine.settle()
     const open = await incidentsOf(tank.tankId)
     expect(open).toHaveLength(1)
@@ -74,7 +93,10 @@ describe('the watch-rule engine over real PostgreSQL', () => {
     expect(told).toEqual([{ kind: 'opened', incidentId: open[0].id }])
 
     // 27.8 is under the limit but inside the clear margin: the incident stays open (no flapping).
-    await store(tank.tankId, tank.deviceId, [[t0 + 13 * MIN, 28.2], [t0 + 14 * MIN, 27.4]])
+    await store(tank.tankId, tank.deviceId, [
+      [t0 + 13 * MIN, 28.2],
+      [t0 + 14 * MIN, 27.4],
+    ])
     await engine.settle()
     const [resolved] = await incidentsOf(tank.tankId)
     expect(resolved.state).toBe('resolved')
@@ -95,14 +117,22 @@ describe('the watch-rule engine over real PostgreSQL', () => {
     const t0 = Date.now() - 2 * 3600_000
     const first = engineAt(t0)
     await first.start()
-    await store(tank.tankId, tank.deviceId, Array.from({ length: 6 }, (_, i) => [t0 + i * MIN, 28.5] as [number, number]))
+    await store(
+      tank.tankId,
+      tank.deviceId,
+      Array.from({ length: 6 }, (_, i) => [t0 + i * MIN, 28.5] as [number, number]),
+    )
     await first.settle()
     await first.stop()
 
     const second = engineAt(t0 + 6 * MIN)
     await second.start()
     expect(second.stateOf(tank.ruleId, tank.tankId)).toMatchObject({ status: 'holding', since: t0 })
-    await store(tank.tankId, tank.deviceId, Array.from({ length: 6 }, (_, i) => [t0 + (6 + i) * MIN, 28.7] as [number, number]))
+    await store(
+      tank.tankId,
+      tank.deviceId,
+      Array.from({ length: 6 }, (_, i) => [t0 + (6 + i) * MIN, 28.7] as [number, number]),
+    )
     await second.settle()
     const incidents = await incidentsOf(tank.tankId)
     expect(incidents).toHaveLength(1)
@@ -121,7 +151,11 @@ describe('the watch-rule engine over real PostgreSQL', () => {
   it('opens an incident that tripped while the engine was stopped, at its trip time', async () => {
     const tank = await tankWithHeatRule('Downtime tank')
     const t0 = Date.now() - 3600_000
-    await store(tank.tankId, tank.deviceId, Array.from({ length: 13 }, (_, i) => [t0 + i * MIN, 29] as [number, number]))
+    await store(
+      tank.tankId,
+      tank.deviceId,
+      Array.from({ length: 13 }, (_, i) => [t0 + i * MIN, 29] as [number, number]),
+    )
     const engine = engineAt(t0 + 14 * MIN)
     await engine.start()
     const incidents = await incidentsOf(tank.tankId)
@@ -135,7 +169,11 @@ describe('the watch-rule engine over real PostgreSQL', () => {
     const t0 = Date.now() - 4 * 3600_000
     const engine = engineAt(t0)
     await engine.start()
-    await store(tank.tankId, tank.deviceId, Array.from({ length: 12 }, (_, i) => [t0 + i * MIN, 29.5] as [number, number]))
+    await store(
+      tank.tankId,
+      tank.deviceId,
+      Array.from({ length: 12 }, (_, i) => [t0 + i * MIN, 29.5] as [number, number]),
+    )
     await engine.settle()
     const [incident] = await incidentsOf(tank.tankId)
     expect(incident.nextEscalationAt!.getTime()).toBe(t0 + 25 * MIN)
@@ -148,13 +186,26 @@ describe('the watch-rule engine over real PostgreSQL', () => {
     await engine.tick(t0 + 55 * MIN)
     expect(mine()).toEqual(['opened', 'escalated', 'repeated'])
 
-    const keeper = { kind: 'user' as const, userId: org.users.keeper.id, organizationId: org.organizationId, role: 'keeper' as const, siteIds: null, sessionId: 'x' }
+    const keeper = {
+      kind: 'user' as const,
+      userId: org.users.keeper.id,
+      organizationId: org.organizationId,
+      role: 'keeper' as const,
+      siteIds: null,
+      sessionId: 'x',
+    }
     await incidentsService(t.ctx, notifier, timing).acknowledge(keeper, incident.id, 'Heater unplugged, fan on')
     await engine.tick(t0 + 90 * MIN)
     await engine.tick(t0 + 200 * MIN)
     expect(mine()).toEqual(['opened', 'escalated', 'repeated'])
     const after = (await incidentsOf(tank.tankId))[0]
-    expect(after).toMatchObject({ state: 'acknowledged', acknowledgedBy: org.users.keeper.id, acknowledgeNote: 'Heater unplugged, fan on', nextEscalationAt: null, nextRepeatAt: null })
+    expect(after).toMatchObject({
+      state: 'acknowledged',
+      acknowledgedBy: org.users.keeper.id,
+      acknowledgeNote: 'Heater unplugged, fan on',
+      nextEscalationAt: null,
+      nextRepeatAt: null,
+    })
     // Across a restart too: the stopped timers are columns, so a new engine sends nothing more.
     await engine.stop()
     const restarted = engineAt(t0 + 210 * MIN)
@@ -172,11 +223,20 @@ describe('the watch-rule engine over real PostgreSQL', () => {
     const tank = await tankWithHeatRule('Snoozed tank')
     const t0 = Date.now() - 5 * 3600_000
     await t.ctx.models.Snooze.create({
-      organizationId: org.organizationId, tankId: tank.tankId, reason: 'Glass cleaning', startsAt: new Date(t0 - MIN), endsAt: new Date(t0 + 60 * MIN), createdBy: org.users.keeper.id,
+      organizationId: org.organizationId,
+      tankId: tank.tankId,
+      reason: 'Glass cleaning',
+      startsAt: new Date(t0 - MIN),
+      endsAt: new Date(t0 + 60 * MIN),
+      createdBy: org.users.keeper.id,
     })
     const engine = engineAt(t0)
     await engine.start()
-    await store(tank.tankId, tank.deviceId, Array.from({ length: 12 }, (_, i) => [t0 + i * MIN, 29] as [number, number]))
+    await store(
+      tank.tankId,
+      tank.deviceId,
+      Array.from({ length: 12 }, (_, i) => [t0 + i * MIN, 29] as [number, number]),
+    )
     await engine.settle()
     const [incident] = await incidentsOf(tank.tankId)
     expect(incident.snoozed).toBe(true)

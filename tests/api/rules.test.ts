@@ -18,7 +18,11 @@ afterAll(() => t.close())
 
 const as = (role: 'owner' | 'keeper' | 'viewer', of = org) => bearer(of.users[role].token)
 async function newTank(siteId = org.siteIds[0], overrides: Record<string, unknown> = {}) {
-  const res = await t.api().post('/api/v1/tanks').set(owner).send(sampleTank(siteId, { name: `Tank ${Math.random()}`, ...overrides }))
+  const res = await t
+    .api()
+    .post('/api/v1/tanks')
+    .set(owner)
+    .send(sampleTank(siteId, { name: `Tank ${Math.random()}`, ...overrides }))
   expect(res.status, JSON.stringify(res.body)).toBe(201)
   return res.body.id as number
 }
@@ -34,7 +38,15 @@ const override = (tankId: number, ruleId: number, body: object, auth = owner) =>
 /** Which rule ids the engine would watch each tank with. */
 async function effective(tankIds: number[]) {
   const rows = await rulesService(t.ctx).effectiveRules({ tankIds })
-  return Object.fromEntries(tankIds.map((id) => [id, rows.filter((r) => r.tankId === id).map((r) => r.rule.id).sort((a, b) => a - b)]))
+  return Object.fromEntries(
+    tankIds.map((id) => [
+      id,
+      rows
+        .filter((r) => r.tankId === id)
+        .map((r) => r.rule.id)
+        .sort((a, b) => a - b),
+    ]),
+  )
 }
 const phLow = { name: 'pH below 6.4', severity: 'warning', spec: { kind: 'below', metric: 'ph', limit: 6.4, holdMinutes: 30 } }
 
@@ -81,8 +93,15 @@ describe('tank rules', () => {
     const created = await addTankRule(tankId, phLow)
     expect(created.status).toBe(201)
     expect(created.body).toEqual({
-      id: expect.any(Number), scope: 'tank', siteId: org.siteIds[0], tankId, overridesRuleId: null, name: 'pH below 6.4', severity: 'warning',
-      spec: { kind: 'below', metric: 'ph', limit: 6.4, holdMinutes: 30, clearMargin: 0 }, enabled: true,
+      id: expect.any(Number),
+      scope: 'tank',
+      siteId: org.siteIds[0],
+      tankId,
+      overridesRuleId: null,
+      name: 'pH below 6.4',
+      severity: 'warning',
+      spec: { kind: 'below', metric: 'ph', limit: 6.4, holdMinutes: 30, clearMargin: 0 },
+      enabled: true,
     })
     const id = created.body.id as number
     expect((await effective([tankId]))[tankId]).toEqual([...defaults, id])
@@ -129,8 +148,15 @@ describe('site-wide rules and tank overrides', () => {
     const res = await override(a, siteRule.id, { spec: { kind: 'below', metric: 'ph', limit: 6.0, holdMinutes: 60 } })
     expect(res.status).toBe(200)
     expect(res.body).toEqual({
-      id: expect.any(Number), scope: 'tank', siteId, tankId: a, overridesRuleId: siteRule.id, name: 'pH below 6.4', severity: 'warning',
-      spec: { kind: 'below', metric: 'ph', limit: 6.0, holdMinutes: 60, clearMargin: 0 }, enabled: true,
+      id: expect.any(Number),
+      scope: 'tank',
+      siteId,
+      tankId: a,
+      overridesRuleId: siteRule.id,
+      name: 'pH below 6.4',
+      severity: 'warning',
+      spec: { kind: 'below', metric: 'ph', limit: 6.0, holdMinutes: 60, clearMargin: 0 },
+      enabled: true,
     })
     const own = res.body.id as number
     const onA = await tankRules(a)
@@ -175,7 +201,11 @@ describe('rule validation', () => {
       expect([res.status, res.body.error.code]).toEqual([400, 'invalid_input'])
       expect(Object.keys(res.body.error.fields)).toEqual([field])
     }
-    const patched = await t.api().patch(`/api/v1/rules/${(await tankRules(tankId))[0].id}`).set(owner).send({ spec })
+    const patched = await t
+      .api()
+      .patch(`/api/v1/rules/${(await tankRules(tankId))[0].id}`)
+      .set(owner)
+      .send({ spec })
     expect(Object.keys(patched.body.error.fields)).toEqual([field])
     expect((await tankRules(tankId)).length).toBe(before)
   })

@@ -26,14 +26,20 @@ describe('bodies the fuzzer broke, answered with a 400 naming the field', () => 
 
   it('an unpaired surrogate in a jsonb value (was a 500 from PostgreSQL) stores nothing', async () => {
     const before = await t.ctx.models.CareTask.count()
-    const res = await raw(`/tanks/${tankId}/care-tasks`, '{"kind":"other","title":"T","recurrence":{"kind":"interval","everyDays":1},"defaultValues":{"note":"\\udfff\\ud800"}}')
+    const res = await raw(
+      `/tanks/${tankId}/care-tasks`,
+      '{"kind":"other","title":"T","recurrence":{"kind":"interval","everyDays":1},"defaultValues":{"note":"\\udfff\\ud800"}}',
+    )
     expect(res.status).toBe(400)
     expect(res.body.error.fields).toEqual({ 'defaultValues.note': 'contains an unpaired UTF-16 surrogate (not valid Unicode text)' })
     expect(await t.ctx.models.CareTask.count()).toBe(before)
   })
 
   it('NUL in a record key is refused, and the path names the field', async () => {
-    const res = await raw(`/tanks/${tankId}/care-tasks`, '{"kind":"other","title":"T","recurrence":{"kind":"interval","everyDays":1},"defaultValues":{"a\\u0000b":1}}')
+    const res = await raw(
+      `/tanks/${tankId}/care-tasks`,
+      '{"kind":"other","title":"T","recurrence":{"kind":"interval","everyDays":1},"defaultValues":{"a\\u0000b":1}}',
+    )
     expect(res.status).toBe(400)
     expect(Object.keys(res.body.error.fields)).toEqual(['defaultValues.a?b'])
   })

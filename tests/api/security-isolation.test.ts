@@ -13,13 +13,31 @@ let beta: TestOrg
 const rows = { betaTank: 0, betaDevice: 0, betaIncident: 0, betaMail: 0, alphaTank: 0, alphaIncident: 0 }
 
 const get = (path: string, token: string) => t.api().get(`/api/v1${path}`).set(bearer(token))
-const post = (path: string, token: string, body: unknown) => t.api().post(`/api/v1${path}`).set(bearer(token)).send(body as object)
+const post = (path: string, token: string, body: unknown) =>
+  t
+    .api()
+    .post(`/api/v1${path}`)
+    .set(bearer(token))
+    .send(body as object)
 
 async function incidentOn(org: TestOrg, tankId: number, title: string) {
   const at = new Date()
   const incident = await t.ctx.models.Incident.create({
-    organizationId: org.organizationId, siteId: org.siteIds[0], tankId, ruleId: null, ruleKind: 'above', metric: 'temperature', severity: 'alarm',
-    title, state: 'open', conditionSince: at, openedAt: at, firstValue: 29, peakValue: 29, latestValue: 29, latestAt: at,
+    organizationId: org.organizationId,
+    siteId: org.siteIds[0],
+    tankId,
+    ruleId: null,
+    ruleKind: 'above',
+    metric: 'temperature',
+    severity: 'alarm',
+    title,
+    state: 'open',
+    conditionSince: at,
+    openedAt: at,
+    firstValue: 29,
+    peakValue: 29,
+    latestValue: 29,
+    latestAt: at,
   })
   return incident.id
 }
@@ -36,11 +54,20 @@ beforeAll(async () => {
   rows.alphaIncident = await incidentOn(alpha, a.tankId, 'Alpha too warm')
   rows.betaIncident = await incidentOn(beta, b.tankId, 'Beta too warm')
   const mail = await t.ctx.models.FakeMailboxMessage.create({
-    organizationId: beta.organizationId, envelopeFrom: 'alerts@tankwarden.invalid', envelopeTo: [beta.users.owner.email],
-    subject: 'Beta alarm', textBody: 'Beta only', htmlBody: null, headers: {}, attachments: [], rawSize: 50,
+    organizationId: beta.organizationId,
+    envelopeFrom: 'alerts@tankwarden.invalid',
+    envelopeTo: [beta.users.owner.email],
+    subject: 'Beta alarm',
+    textBody: 'Beta only',
+    htmlBody: null,
+    headers: {},
+    attachments: [],
+    rawSize: 50,
   })
   rows.betaMail = mail.id
-  expect((await post(`/tanks/${b.tankId}/care-tasks`, beta.users.owner.token, { kind: 'glass_clean', recurrence: { kind: 'interval', everyDays: 1 } })).status).toBe(201)
+  expect(
+    (await post(`/tanks/${b.tankId}/care-tasks`, beta.users.owner.token, { kind: 'glass_clean', recurrence: { kind: 'interval', everyDays: 1 } })).status,
+  ).toBe(201)
   expect((await post(`/tanks/${b.tankId}/test-kit-entries`, beta.users.keeper.token, { values: [{ metric: 'ph', value: 7, unit: 'pH' }] })).status).toBe(201)
 })
 afterAll(() => t?.close())
@@ -89,7 +116,12 @@ describe('list routes never show another organization’s rows, whatever the fil
   })
 
   it('the other organization’s tank in a live list or series filter is not found', async () => {
-    for (const path of [`/tanks/${rows.betaTank}/latest`, `/tanks/${rows.betaTank}/care-tasks`, `/tanks/${rows.betaTank}/test-kit-entries`, `/tanks/${rows.betaTank}/livestock`]) {
+    for (const path of [
+      `/tanks/${rows.betaTank}/latest`,
+      `/tanks/${rows.betaTank}/care-tasks`,
+      `/tanks/${rows.betaTank}/test-kit-entries`,
+      `/tanks/${rows.betaTank}/livestock`,
+    ]) {
       const res = await get(path, alpha.users.owner.token)
       expect(res.status, path).toBe(404)
     }
@@ -100,10 +132,10 @@ const INJECTIONS = [
   "Robert'); DROP TABLE tanks;--",
   "' OR '1'='1",
   '"; DELETE FROM users WHERE ""="',
-  "1; SELECT pg_sleep(5)--",
+  '1; SELECT pg_sleep(5)--',
   "x' UNION SELECT password_hash FROM users--",
   '$1 $$ :name ?',
-  '\\\'; --',
+  "\\'; --",
   '%_%',
 ]
 

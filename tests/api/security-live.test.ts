@@ -24,9 +24,22 @@ beforeAll(async () => {
   other = await s.createOrg('Other Live Security')
   shopTank = await createTankWithDevice(s.ctx, org, 'Shop tank')
   const room = await s.ctx.models.Tank.create({
-    organizationId: org.organizationId, siteId: org.siteIds[1], name: 'Fish room tank', kind: 'coldwater', stage: 'established',
-    dimensions: null, volumeLitres: 120, volumeSource: 'entered', substrateDepthCm: 0, heater: null, filter: '', media: '',
-    lightSchedule: null, targets: {}, notes: '', sortOrder: 0,
+    organizationId: org.organizationId,
+    siteId: org.siteIds[1],
+    name: 'Fish room tank',
+    kind: 'coldwater',
+    stage: 'established',
+    dimensions: null,
+    volumeLitres: 120,
+    volumeSource: 'entered',
+    substrateDepthCm: 0,
+    heater: null,
+    filter: '',
+    media: '',
+    lightSchedule: null,
+    targets: {},
+    notes: '',
+    sortOrder: 0,
   })
   roomTankId = room.id
 })
@@ -104,7 +117,10 @@ describe('revoking a token cuts the live connections it opened', () => {
 
   it('deactivating a user closes their sockets', async () => {
     const user = await s.ctx.models.User.create({
-      organizationId: org.organizationId, email: 'leaver@live-security.example', name: 'Leaver', role: 'keeper',
+      organizationId: org.organizationId,
+      email: 'leaver@live-security.example',
+      name: 'Leaver',
+      role: 'keeper',
       passwordHash: (await s.ctx.models.User.findByPk(org.users.keeper.id))!.passwordHash,
     })
     const c = await liveSocket(await signIn(user.email))
@@ -115,7 +131,12 @@ describe('revoking a token cuts the live connections it opened', () => {
 
   it('revoking a device through the API closes its MQTT connection and its token is refused afterwards', async () => {
     const node = await createTankWithDevice(s.ctx, org, 'Revoked by API')
-    const client = await mqtt.connectAsync(s.mqttUrl, { username: String(node.deviceId), password: node.token, reconnectPeriod: 0, clientId: `sec-${Math.random()}` })
+    const client = await mqtt.connectAsync(s.mqttUrl, {
+      username: String(node.deviceId),
+      password: node.token,
+      reconnectPeriod: 0,
+      clientId: `sec-${Math.random()}`,
+    })
     const closed = new Promise<void>((resolve) => client.once('close', () => resolve()))
     expect((await api('POST', `/devices/${node.deviceId}/revoke`, org.users.owner.token)).status).toBe(200)
     await withTimeout(closed, 10_000, 'closing the MQTT connection after revocation')
@@ -129,7 +150,12 @@ describe('revoking a token cuts the live connections it opened', () => {
 
   it('rotating a device token cuts the connection that used the old one', async () => {
     const node = await createTankWithDevice(s.ctx, org, 'Rotated by API')
-    const client = await mqtt.connectAsync(s.mqttUrl, { username: String(node.deviceId), password: node.token, reconnectPeriod: 0, clientId: `sec-${Math.random()}` })
+    const client = await mqtt.connectAsync(s.mqttUrl, {
+      username: String(node.deviceId),
+      password: node.token,
+      reconnectPeriod: 0,
+      clientId: `sec-${Math.random()}`,
+    })
     const closed = new Promise<void>((resolve) => client.once('close', () => resolve()))
     const rotated = await api('POST', `/devices/${node.deviceId}/rotate`, org.users.owner.token)
     expect(rotated.status).toBe(200)
@@ -144,16 +170,28 @@ describe('revoking a token cuts the live connections it opened', () => {
 describe('MQTT credentials and topic ACLs', () => {
   it('a person’s token or a wall key is no device password', async () => {
     for (const password of [org.users.owner.token, 'tww_1_' + 'x'.repeat(40)]) {
-      await expect(
-        mqtt.connectAsync(s.mqttUrl, { username: String(shopTank.deviceId), password, reconnectPeriod: 0, connectTimeout: 5000 }),
-      ).rejects.toThrow(/Bad username or password|Not authorized/i)
+      await expect(mqtt.connectAsync(s.mqttUrl, { username: String(shopTank.deviceId), password, reconnectPeriod: 0, connectTimeout: 5000 })).rejects.toThrow(
+        /Bad username or password|Not authorized/i,
+      )
     }
   })
 
   it('a device may subscribe to no other device’s commands and to no wildcard', async () => {
     const neighbour = await createTankWithDevice(s.ctx, org, 'Neighbour tank')
-    const client = await mqtt.connectAsync(s.mqttUrl, { username: String(shopTank.deviceId), password: shopTank.token, reconnectPeriod: 0, clientId: `sec-${Math.random()}` })
-    for (const topic of [commandsTopic(neighbour.deviceId), '#', 'tankwarden/#', 'tankwarden/v1/devices/+/commands', '$SYS/#', readingsTopic(shopTank.deviceId)]) {
+    const client = await mqtt.connectAsync(s.mqttUrl, {
+      username: String(shopTank.deviceId),
+      password: shopTank.token,
+      reconnectPeriod: 0,
+      clientId: `sec-${Math.random()}`,
+    })
+    for (const topic of [
+      commandsTopic(neighbour.deviceId),
+      '#',
+      'tankwarden/#',
+      'tankwarden/v1/devices/+/commands',
+      '$SYS/#',
+      readingsTopic(shopTank.deviceId),
+    ]) {
       await expect(client.subscribeAsync(topic, { qos: 1 }), topic).rejects.toThrow(/Subscribe error/)
     }
     expect((await client.subscribeAsync(commandsTopic(shopTank.deviceId), { qos: 1 }))[0].qos).toBe(1)

@@ -46,56 +46,91 @@ describe('forged and confused JWTs are refused', () => {
   })
 
   it.each([
-    ['RS256 with an attacker’s RSA key', async () => {
-      const { privateKey } = generateKeyPairSync('rsa', { modulusLength: 2048 })
-      const { sub, jti, ...rest } = await liveClaims()
-      return jwt.sign(rest, privateKey, { algorithm: 'RS256', subject: sub, jwtid: jti, expiresIn: 60 })
-    }],
-    ['HS256 keyed with an RSA public key (the RS→HS swap)', async () => {
-      const { publicKey } = generateKeyPairSync('rsa', { modulusLength: 2048 })
-      const pem = publicKey.export({ type: 'spki', format: 'pem' }).toString()
-      const claims = await liveClaims()
-      const header = b64({ alg: 'HS256', typ: 'JWT' })
-      const body = b64({ ...claims, iat: Math.floor(Date.now() / 1000), exp: Math.floor(Date.now() / 1000) + 60 })
-      const { createHmac } = await import('node:crypto')
-      return `${header}.${body}.${createHmac('sha256', pem).update(`${header}.${body}`).digest('base64url')}`
-    }],
-    ['HS512 with the real secret (only HS256 is allowed)', async () => {
-      const { sub, jti, ...rest } = await liveClaims()
-      return jwt.sign(rest, JWT_SECRET, { algorithm: 'HS512', subject: sub, jwtid: jti, expiresIn: 60 })
-    }],
-    ['HS384 with the real secret', async () => {
-      const { sub, jti, ...rest } = await liveClaims()
-      return jwt.sign(rest, JWT_SECRET, { algorithm: 'HS384', subject: sub, jwtid: jti, expiresIn: 60 })
-    }],
-    ['alg "None" in other casing, no signature', async () => {
-      const now = Math.floor(Date.now() / 1000)
-      return `${b64({ alg: 'None', typ: 'JWT' })}.${b64({ ...(await liveClaims()), iat: now, exp: now + 60 })}.`
-    }],
-    ['alg "none" keeping a genuine signature', async () => {
-      const { sub, jti, ...rest } = await liveClaims()
-      const genuine = jwt.sign(rest, JWT_SECRET, { algorithm: 'HS256', subject: sub, jwtid: jti, expiresIn: 60 })
-      const [, payload, signature] = genuine.split('.')
-      return `${b64({ alg: 'none', typ: 'JWT' })}.${payload}.${signature}`
-    }],
-    ['a kid and jku header pointing elsewhere, signed with another secret', async () => {
-      const { sub, jti, ...rest } = await liveClaims()
-      return jwt.sign(rest, 'attacker-secret-attacker-secret-attacker', {
-        algorithm: 'HS256', subject: sub, jwtid: jti, expiresIn: 60, keyid: '../../dev/null', header: { alg: 'HS256', jku: 'http://attacker.invalid/jwks' } as never,
-      })
-    }],
-    ['genuine signature, but a wall token’s type', async () => {
-      const { sub, jti, org: o } = await liveClaims()
-      return jwt.sign({ org: o, typ: 'wall' }, JWT_SECRET, { algorithm: 'HS256', subject: sub, jwtid: jti, expiresIn: 60 })
-    }],
-    ['genuine signature, but a session id that is not a session', async () => {
-      const { sub, org: o } = await liveClaims()
-      return jwt.sign({ org: o, typ: 'user' }, JWT_SECRET, { algorithm: 'HS256', subject: sub, jwtid: "' OR 1=1 --", expiresIn: 60 })
-    }],
-    ['genuine signature, not valid yet (nbf an hour ahead)', async () => {
-      const { sub, jti, ...rest } = await liveClaims()
-      return jwt.sign(rest, JWT_SECRET, { algorithm: 'HS256', subject: sub, jwtid: jti, expiresIn: 7200, notBefore: 3600 })
-    }],
+    [
+      'RS256 with an attacker’s RSA key',
+      async () => {
+        const { privateKey } = generateKeyPairSync('rsa', { modulusLength: 2048 })
+        const { sub, jti, ...rest } = await liveClaims()
+        return jwt.sign(rest, privateKey, { algorithm: 'RS256', subject: sub, jwtid: jti, expiresIn: 60 })
+      },
+    ],
+    [
+      'HS256 keyed with an RSA public key (the RS→HS swap)',
+      async () => {
+        const { publicKey } = generateKeyPairSync('rsa', { modulusLength: 2048 })
+        const pem = publicKey.export({ type: 'spki', format: 'pem' }).toString()
+        const claims = await liveClaims()
+        const header = b64({ alg: 'HS256', typ: 'JWT' })
+        const body = b64({ ...claims, iat: Math.floor(Date.now() / 1000), exp: Math.floor(Date.now() / 1000) + 60 })
+        const { createHmac } = await import('node:crypto')
+        return `${header}.${body}.${createHmac('sha256', pem).update(`${header}.${body}`).digest('base64url')}`
+      },
+    ],
+    [
+      'HS512 with the real secret (only HS256 is allowed)',
+      async () => {
+        const { sub, jti, ...rest } = await liveClaims()
+        return jwt.sign(rest, JWT_SECRET, { algorithm: 'HS512', subject: sub, jwtid: jti, expiresIn: 60 })
+      },
+    ],
+    [
+      'HS384 with the real secret',
+      async () => {
+        const { sub, jti, ...rest } = await liveClaims()
+        return jwt.sign(rest, JWT_SECRET, { algorithm: 'HS384', subject: sub, jwtid: jti, expiresIn: 60 })
+      },
+    ],
+    [
+      'alg "None" in other casing, no signature',
+      async () => {
+        const now = Math.floor(Date.now() / 1000)
+        return `${b64({ alg: 'None', typ: 'JWT' })}.${b64({ ...(await liveClaims()), iat: now, exp: now + 60 })}.`
+      },
+    ],
+    [
+      'alg "none" keeping a genuine signature',
+      async () => {
+        const { sub, jti, ...rest } = await liveClaims()
+        const genuine = jwt.sign(rest, JWT_SECRET, { algorithm: 'HS256', subject: sub, jwtid: jti, expiresIn: 60 })
+        const [, payload, signature] = genuine.split('.')
+        return `${b64({ alg: 'none', typ: 'JWT' })}.${payload}.${signature}`
+      },
+    ],
+    [
+      'a kid and jku header pointing elsewhere, signed with another secret',
+      async () => {
+        const { sub, jti, ...rest } = await liveClaims()
+        return jwt.sign(rest, 'attacker-secret-attacker-secret-attacker', {
+          algorithm: 'HS256',
+          subject: sub,
+          jwtid: jti,
+          expiresIn: 60,
+          keyid: '../../dev/null',
+          header: { alg: 'HS256', jku: 'http://attacker.invalid/jwks' } as never,
+        })
+      },
+    ],
+    [
+      'genuine signature, but a wall token’s type',
+      async () => {
+        const { sub, jti, org: o } = await liveClaims()
+        return jwt.sign({ org: o, typ: 'wall' }, JWT_SECRET, { algorithm: 'HS256', subject: sub, jwtid: jti, expiresIn: 60 })
+      },
+    ],
+    [
+      'genuine signature, but a session id that is not a session',
+      async () => {
+        const { sub, org: o } = await liveClaims()
+        return jwt.sign({ org: o, typ: 'user' }, JWT_SECRET, { algorithm: 'HS256', subject: sub, jwtid: "' OR 1=1 --", expiresIn: 60 })
+      },
+    ],
+    [
+      'genuine signature, not valid yet (nbf an hour ahead)',
+      async () => {
+        const { sub, jti, ...rest } = await liveClaims()
+        return jwt.sign(rest, JWT_SECRET, { algorithm: 'HS256', subject: sub, jwtid: jti, expiresIn: 7200, notBefore: 3600 })
+      },
+    ],
   ] as const)('%s → 401', async (_name, forge) => {
     const token = await forge()
     const res = await call('GET', '/auth/me', token)

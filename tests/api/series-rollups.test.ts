@@ -45,7 +45,11 @@ let now: number
 let rawKeptFrom: number
 let rolledUpBefore: number
 /** Days hold the readings before the last rolled-up hour; later ones are raw rows only. */
-const writtenDays = () => aggregateBy(written.filter((r) => r.t < rolledUpBefore), (time) => floorTo(time, DAY))
+const writtenDays = () =>
+  aggregateBy(
+    written.filter((r) => r.t < rolledUpBefore),
+    (time) => floorTo(time, DAY),
+  )
 
 const series = async (from: number, to: number, points: number) => {
   const res = await t
@@ -84,7 +88,11 @@ function expectSameDays(actual: Map<number, Aggregate>, expected: Map<number, Ag
 beforeAll(async () => {
   t = await startTestApp()
   org = await t.createOrg('Rollup Org')
-  const res = await t.api().post('/api/v1/tanks').set(bearer(org.users.owner.token)).send(sampleTank(org.siteIds[0], { name: 'Reef display' }))
+  const res = await t
+    .api()
+    .post('/api/v1/tanks')
+    .set(bearer(org.users.owner.token))
+    .send(sampleTank(org.siteIds[0], { name: 'Reef display' }))
   tankId = res.body.id
   // A year and a day of readings every 10 minutes up to the real clock, at odd seconds, with a wobble
   // and a few spikes, so that min, max and mean all differ from bucket to bucket.
@@ -176,7 +184,11 @@ describe('series from rollups', () => {
 
     await t.ctx.sequelize.query("DELETE FROM readings WHERE source_key = 'k:1'")
     const after = await series(day, day + DAY, 24)
-    expectPointsMatch(after.points, written.filter((r) => r.t >= day && r.t < day + DAY), HOUR)
+    expectPointsMatch(
+      after.points,
+      written.filter((r) => r.t >= day && r.t < day + DAY),
+      HOUR,
+    )
     expectSameDays(await dailyRows(), writtenDays())
   })
 
@@ -185,10 +197,10 @@ describe('series from rollups', () => {
     const first = { t: day + 3 * HOUR + 5 * MINUTE, value: 6.1 }
     const second = { t: day + 20 * HOUR + 5 * MINUTE, value: 8.3 }
     const insertIn = (transaction: Awaited<ReturnType<typeof t.ctx.sequelize.transaction>>, row: Row, key: string) =>
-      t.ctx.sequelize.query(
-        `INSERT INTO readings (source_key, metric, time, tank_id, value, source) VALUES ($1, 'ph', $2, $3, $4, 'test_kit')`,
-        { bind: [key, at(row.t), tankId, row.value], transaction },
-      )
+      t.ctx.sequelize.query(`INSERT INTO readings (source_key, metric, time, tank_id, value, source) VALUES ($1, 'ph', $2, $3, $4, 'test_kit')`, {
+        bind: [key, at(row.t), tankId, row.value],
+        transaction,
+      })
     const one = await t.ctx.sequelize.transaction()
     const two = await t.ctx.sequelize.transaction()
     await insertIn(one, first, 'k:2')

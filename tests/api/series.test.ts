@@ -29,9 +29,7 @@ function naiveBuckets(rows: Row[], from: string, to: string, stepSeconds: number
     const b = buckets.get(key) ?? { min: Infinity, max: -Infinity, sum: 0, count: 0 }
     buckets.set(key, { min: Math.min(b.min, value), max: Math.max(b.max, value), sum: b.sum + value, count: b.count + 1 })
   }
-  return [...buckets.entries()]
-    .sort(([a], [b]) => a - b)
-    .map(([key, b]) => ({ t: at(key), min: b.min, mean: b.sum / b.count, max: b.max, count: b.count }))
+  return [...buckets.entries()].sort(([a], [b]) => a - b).map(([key, b]) => ({ t: at(key), min: b.min, mean: b.sum / b.count, max: b.max, count: b.count }))
 }
 
 function expectBucketsEqual(actual: SeriesResponse['points'], expected: ReturnType<typeof naiveBuckets>) {

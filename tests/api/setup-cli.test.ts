@@ -8,7 +8,18 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { adminUrl, databaseUrl } from '../helpers/db-urls'
 
 const root = join(__dirname, '..', '..')
-const BUSINESS = ['--business', 'Tidepool Rentals', '--owner', 'Oren Lusk', '--email', 'oren@tidepool.example', '--site', 'Workshop', '--time-zone', 'Europe/Vienna']
+const BUSINESS = [
+  '--business',
+  'Tidepool Rentals',
+  '--owner',
+  'Oren Lusk',
+  '--email',
+  'oren@tidepool.example',
+  '--site',
+  'Workshop',
+  '--time-zone',
+  'Europe/Vienna',
+]
 const runSetup = (args: string[], env: Record<string, string | undefined>, input?: string) =>
   spawnSync(process.execPath, ['--import', 'tsx', join(root, 'server/setup/setup-cli.ts'), ...args], {
     cwd: root,

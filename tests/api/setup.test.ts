@@ -7,8 +7,13 @@ let t: Awaited<ReturnType<typeof startTestApp>>
 const STRANGER = '203.0.113.9'
 const from = (address: string) => ({ 'X-Forwarded-For': address })
 const business = (overrides: Record<string, unknown> = {}) => ({
-  businessName: 'Reef and Stream', ownerName: 'Mara Quell', email: 'Mara@Reef-Stream.example', password: 'a-long-enough-password',
-  siteName: 'Main shop', timeZone: 'Europe/Lisbon', ...overrides,
+  businessName: 'Reef and Stream',
+  ownerName: 'Mara Quell',
+  email: 'Mara@Reef-Stream.example',
+  password: 'a-long-enough-password',
+  siteName: 'Main shop',
+  timeZone: 'Europe/Lisbon',
+  ...overrides,
 })
 
 beforeAll(async () => {
@@ -25,7 +30,10 @@ describe('setting up an empty installation', () => {
   })
 
   it('refuses bad input with the fields named, and writes nothing', async () => {
-    const res = await t.api().post('/api/v1/setup').send(business({ email: 'not-an-address', password: 'short', timeZone: 'Mars/Olympus', businessName: ' ' }))
+    const res = await t
+      .api()
+      .post('/api/v1/setup')
+      .send(business({ email: 'not-an-address', password: 'short', timeZone: 'Mars/Olympus', businessName: ' ' }))
     expect(res.status).toBe(400)
     expect(Object.keys(res.body.error.fields).sort()).toEqual(['businessName', 'email', 'password', 'timeZone'])
     expect(await t.ctx.models.Organization.count()).toBe(0)
@@ -35,7 +43,11 @@ describe('setting up an empty installation', () => {
     const none = await t.api().post('/api/v1/setup').set(from(STRANGER)).send(business())
     expect(none.status).toBe(403)
     expect(none.body.error.code).toBe('setup_code')
-    const wrong = await t.api().post('/api/v1/setup').set(from(STRANGER)).send(business({ code: 'AAAA-AAAA' }))
+    const wrong = await t
+      .api()
+      .post('/api/v1/setup')
+      .set(from(STRANGER))
+      .send(business({ code: 'AAAA-AAAA' }))
     expect(wrong.status).toBe(403)
     expect(await t.ctx.models.Organization.count()).toBe(0)
   })
@@ -53,10 +65,21 @@ describe('setting up an empty installation', () => {
   })
 
   it('is refused (409) once a business exists, from anywhere, and says setup is no longer needed', async () => {
-    const local = await t.api().post('/api/v1/setup').send(business({ email: 'second@reef-stream.example' }))
+    const local = await t
+      .api()
+      .post('/api/v1/setup')
+      .send(business({ email: 'second@reef-stream.example' }))
     expect(local.status).toBe(409)
     expect(local.body.error.code).toBe('already_set_up')
-    expect((await t.api().post('/api/v1/setup').set(from(STRANGER)).send(business({ code: setupCodeFor(t.ctx) }))).status).toBe(409)
+    expect(
+      (
+        await t
+          .api()
+          .post('/api/v1/setup')
+          .set(from(STRANGER))
+          .send(business({ code: setupCodeFor(t.ctx) }))
+      ).status,
+    ).toBe(409)
     expect((await t.api().get('/api/v1/setup')).body.needed).toBe(false)
     expect(await t.ctx.models.Organization.count()).toBe(1)
     expect(await t.ctx.models.User.count()).toBe(1)
@@ -64,7 +87,16 @@ describe('setting up an empty installation', () => {
 
   it('limits attempts per address (429 after the sign-in allowance)', async () => {
     const statuses: number[] = []
-    for (let i = 0; i < 11; i++) statuses.push((await t.api().post('/api/v1/setup').set(from('198.51.100.7')).send(business({ code: 'BBBB-BBBB' }))).status)
+    for (let i = 0; i < 11; i++)
+      statuses.push(
+        (
+          await t
+            .api()
+            .post('/api/v1/setup')
+            .set(from('198.51.100.7'))
+            .send(business({ code: 'BBBB-BBBB' }))
+        ).status,
+      )
     expect(statuses.slice(0, 10).every((s) => s === 409)).toBe(true)
     expect(statuses[10]).toBe(429)
   })
@@ -76,7 +108,8 @@ describe('the first-steps checklist', () => {
     org = await t.createOrg('Checklist Org')
   })
   const owner = () => bearer(org.users.owner.token)
-  const steps = async () => (await t.api().get('/api/v1/setup/checklist').set(owner())).body.items.map((i: { step: string; done: boolean }) => `${i.step}:${i.done}`)
+  const steps = async () =>
+    (await t.api().get('/api/v1/setup/checklist').set(owner())).body.items.map((i: { step: string; done: boolean }) => `${i.step}:${i.done}`)
 
   it('is computed from the data and drops the steps the owner dismisses', async () => {
     // The fixture organisation has a keeper and a viewer already: the people step is done.
@@ -101,10 +134,26 @@ describe('copies of a tank', () => {
   beforeAll(async () => {
     org = await t.createOrg('Copy Org')
     const owner = bearer(org.users.owner.token)
-    sourceId = (await t.api().post('/api/v1/tanks').set(owner).send(sampleTank(org.siteIds[0], { name: 'Rack 1' }))).body.id
-    await t.api().post('/api/v1/tanks').set(owner).send(sampleTank(org.siteIds[0], { name: 'Rack 3' }))
+    sourceId = (
+      await t
+        .api()
+        .post('/api/v1/tanks')
+        .set(owner)
+        .send(sampleTank(org.siteIds[0], { name: 'Rack 1' }))
+    ).body.id
+    await t
+      .api()
+      .post('/api/v1/tanks')
+      .set(owner)
+      .send(sampleTank(org.siteIds[0], { name: 'Rack 3' }))
     // A rule and a care task of the tank's own, beyond its starter set, travel with the copies.
-    await t.ctx.models.CareTask.create({ organizationId: org.organizationId, tankId: sourceId, kind: 'other', title: 'Check the auto top-off', recurrence: { kind: 'interval', everyDays: 3 } })
+    await t.ctx.models.CareTask.create({
+      organizationId: org.organizationId,
+      tankId: sourceId,
+      kind: 'other',
+      title: 'Check the auto top-off',
+      recurrence: { kind: 'interval', everyDays: 3 },
+    })
   })
 
   it('makes numbered copies with the same kind, size, equipment, targets, rules and care tasks, skipping taken names', async () => {

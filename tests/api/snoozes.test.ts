@@ -40,7 +40,11 @@ beforeEach(() => {
 const as = (role: 'owner' | 'keeper' | 'viewer', of = org) => bearer(of.users[role].token)
 const iso = (ms: number) => new Date(ms).toISOString()
 async function newTank() {
-  const res = await t.api().post('/api/v1/tanks').set(as('owner')).send(sampleTank(org.siteIds[0], { name: `Snooze tank ${Math.random()}` }))
+  const res = await t
+    .api()
+    .post('/api/v1/tanks')
+    .set(as('owner'))
+    .send(sampleTank(org.siteIds[0], { name: `Snooze tank ${Math.random()}` }))
   expect(res.status).toBe(201)
   return res.body.id as number
 }
@@ -64,8 +68,17 @@ describe('creating snoozes', () => {
     const res = await snooze(tankId, { reason: 'Glass cleaning', ...span })
     expect(res.status).toBe(201)
     expect(res.body).toEqual({
-      id: expect.any(Number), tankId, reason: 'Glass cleaning', startsAt: span.startsAt, endsAt: span.endsAt, weekly: false, repeatUntil: null,
-      includeHeaterLine: false, createdBy: org.users.keeper.id, cancelledAt: null, suppresses: [MAILS_ONLY, STILL_SENT],
+      id: expect.any(Number),
+      tankId,
+      reason: 'Glass cleaning',
+      startsAt: span.startsAt,
+      endsAt: span.endsAt,
+      weekly: false,
+      repeatUntil: null,
+      includeHeaterLine: false,
+      createdBy: org.users.keeper.id,
+      cancelledAt: null,
+      suppresses: [MAILS_ONLY, STILL_SENT],
     })
     const withHeater = await snooze(tankId, { reason: 'Heater swap', ...span, includeHeaterLine: true }, as('owner'))
     expect([withHeater.status, withHeater.body.includeHeaterLine, withHeater.body.suppresses]).toEqual([201, true, [MAILS_ONLY, ALSO_HEATER]])
@@ -86,9 +99,14 @@ describe('creating snoozes', () => {
     ['an end equal to the start', { reason: 'Water change', ...timeSpan(HOUR, 0) }, { endsAt: 'must end after it starts' }],
     ['more than seven days', { reason: 'Long holiday', ...timeSpan(0, 7 * DAY + MIN) }, { endsAt: 'at most 7 days at a time' }],
     ['weekly without an end date', { reason: 'Sunday maintenance', ...timeSpan(0, HOUR), weekly: true }, { repeatUntil: 'a weekly snooze needs an end date' }],
-    ['a time without an offset', { reason: 'Water change', startsAt: '2026-03-02T10:00:00', endsAt: '2026-03-02T11:00:00' }, {
-      startsAt: INSTANT_FORMAT_MESSAGE, endsAt: INSTANT_FORMAT_MESSAGE,
-    }],
+    [
+      'a time without an offset',
+      { reason: 'Water change', startsAt: '2026-03-02T10:00:00', endsAt: '2026-03-02T11:00:00' },
+      {
+        startsAt: INSTANT_FORMAT_MESSAGE,
+        endsAt: INSTANT_FORMAT_MESSAGE,
+      },
+    ],
   ])('answers 400 with the field for %s', async (_what, body, fields) => {
     const tankId = await newTank()
     const res = await snooze(tankId, body)
@@ -102,9 +120,15 @@ describe('listing and cancelling', () => {
     const tankId = await newTank()
     const later = (await snooze(tankId, { reason: 'Evening feed trial', ...timeSpan(5 * HOUR, HOUR) })).body.id
     const now = (await snooze(tankId, { reason: 'Water change', ...timeSpan(-MIN, HOUR) })).body.id
-    const weekly = (await snooze(tankId, { reason: 'Weekly maintenance', ...timeSpan(-2 * DAY, HOUR), weekly: true, repeatUntil: iso(Date.now() + 20 * DAY) })).body.id
+    const weekly = (await snooze(tankId, { reason: 'Weekly maintenance', ...timeSpan(-2 * DAY, HOUR), weekly: true, repeatUntil: iso(Date.now() + 20 * DAY) }))
+      .body.id
     await t.ctx.models.Snooze.create({
-      organizationId: org.organizationId, tankId, reason: 'Yesterday', startsAt: new Date(Date.now() - DAY), endsAt: new Date(Date.now() - DAY + HOUR), createdBy: null,
+      organizationId: org.organizationId,
+      tankId,
+      reason: 'Yesterday',
+      startsAt: new Date(Date.now() - DAY),
+      endsAt: new Date(Date.now() - DAY + HOUR),
+      createdBy: null,
     })
     expect(await listed(tankId)).toEqual([weekly, now, later])
 
@@ -123,7 +147,10 @@ describe('who may snooze', () => {
     const tankId = await newTank()
     const id = (await snooze(tankId, { reason: 'Water change', ...timeSpan(0, HOUR) }, as('owner'))).body.id as number
     const viewerTries = [await snooze(tankId, { reason: 'Water change', ...timeSpan(0, HOUR) }, as('viewer')), await cancel(id, as('viewer'))]
-    expect(viewerTries.map((r) => [r.status, r.body.error.code])).toEqual([[403, 'forbidden'], [403, 'forbidden']])
+    expect(viewerTries.map((r) => [r.status, r.body.error.code])).toEqual([
+      [403, 'forbidden'],
+      [403, 'forbidden'],
+    ])
     const stranger = as('owner', other)
     const strangerTries = [
       await t.api().get(`/api/v1/tanks/${tankId}/snoozes`).set(stranger),
@@ -142,10 +169,16 @@ describe('snoozes and the heater line, with the engine', () => {
     const node = await createTankWithDevice(t.ctx, org, name)
     const base = { organizationId: org.organizationId, siteId: org.siteIds[0], tankId: node.tankId }
     const warning = await t.ctx.models.WatchRule.create({
-      ...base, name: 'Water level within 2 cm of the heater top', severity: 'warning', spec: { kind: 'heater_line', marginCm: 2, holdMinutes: 0, clearMargin: 0.5 },
+      ...base,
+      name: 'Water level within 2 cm of the heater top',
+      severity: 'warning',
+      spec: { kind: 'heater_line', marginCm: 2, holdMinutes: 0, clearMargin: 0.5 },
     })
     const alarm = await t.ctx.models.WatchRule.create({
-      ...base, name: 'Water level at or below the heater top', severity: 'alarm', spec: { kind: 'heater_line', marginCm: 0, holdMinutes: 0, clearMargin: 0.5 },
+      ...base,
+      name: 'Water level at or below the heater top',
+      severity: 'alarm',
+      spec: { kind: 'heater_line', marginCm: 0, holdMinutes: 0, clearMargin: 0.5 },
     })
     return { ...node, warningId: warning.id, alarmId: alarm.id }
   }
@@ -159,8 +192,16 @@ describe('snoozes and the heater line, with the engine', () => {
     let clock = t0
     const engine = createRuleEngine(t.ctx, incidentsService(t.ctx, notifier, timing), { now: () => clock })
     await engine.start()
-    const rows: ReadingRow[] = [[t0, 45], [t0 + MIN, 29.5]].map(([at, value]) => ({
-      sourceKey: `d:${tank.deviceId}`, metric: 'water_level', time: new Date(at), tankId: tank.tankId, value, source: 'device',
+    const rows: ReadingRow[] = [
+      [t0, 45],
+      [t0 + MIN, 29.5],
+    ].map(([at, value]) => ({
+      sourceKey: `d:${tank.deviceId}`,
+      metric: 'water_level',
+      time: new Date(at),
+      tankId: tank.tankId,
+      value,
+      source: 'device',
     }))
     await t.ctx.readings.writer.write(rows)
     await engine.settle()

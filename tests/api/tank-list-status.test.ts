@@ -11,28 +11,50 @@ let org: TestOrg
 const MINUTE_MS = 60_000
 
 async function tank(name: string, overrides: Record<string, unknown> = {}) {
-  const res = await t.api().post('/api/v1/tanks').set(bearer(org.users.keeper.token)).send(sampleTank(org.siteIds[0], { name, ...overrides }))
+  const res = await t
+    .api()
+    .post('/api/v1/tanks')
+    .set(bearer(org.users.keeper.token))
+    .send(sampleTank(org.siteIds[0], { name, ...overrides }))
   expect(res.status, JSON.stringify(res.body)).toBe(201)
   return res.body.id as number
 }
 
 async function device(tankId: number, name: string, lastSeenAt: Date) {
   await t.ctx.models.Device.create({
-    organizationId: org.organizationId, tankId, name, metrics: ['temperature', 'ph'], intervalSeconds: 60, tokenHash: `unused-${name}`, lastSeenAt,
+    organizationId: org.organizationId,
+    tankId,
+    name,
+    metrics: ['temperature', 'ph'],
+    intervalSeconds: 60,
+    tokenHash: `unused-${name}`,
+    lastSeenAt,
   })
 }
 
 async function reading(tankId: number, metric: string, value: number, at: Date) {
-  await t.ctx.sequelize.query(
-    `INSERT INTO readings (source_key, metric, time, tank_id, value, source) VALUES ($1, $2, $3, $4, $5, 'test_kit')`,
-    { bind: [`k:${tankId}-${metric}-${at.getTime()}`, metric, at, tankId, value] },
-  )
+  await t.ctx.sequelize.query(`INSERT INTO readings (source_key, metric, time, tank_id, value, source) VALUES ($1, $2, $3, $4, $5, 'test_kit')`, {
+    bind: [`k:${tankId}-${metric}-${at.getTime()}`, metric, at, tankId, value],
+  })
 }
 
 async function incident(tankId: number, severity: 'warning' | 'alarm', title: string, state = 'open') {
   const row = await t.ctx.models.Incident.create({
-    organizationId: org.organizationId, siteId: org.siteIds[0], tankId, ruleId: null, ruleKind: 'above', metric: 'temperature', severity,
-    title, state, conditionSince: new Date(), openedAt: new Date(), firstValue: 28.4, peakValue: 28.4, latestValue: 28.4, latestAt: new Date(),
+    organizationId: org.organizationId,
+    siteId: org.siteIds[0],
+    tankId,
+    ruleId: null,
+    ruleKind: 'above',
+    metric: 'temperature',
+    severity,
+    title,
+    state,
+    conditionSince: new Date(),
+    openedAt: new Date(),
+    firstValue: 28.4,
+    peakValue: 28.4,
+    latestValue: 28.4,
+    latestAt: new Date(),
   } as never)
   return row.id
 }
@@ -71,7 +93,11 @@ describe('GET /tanks: each row says how the tank is now', () => {
   it('gives the wall state of each tank', async () => {
     const rows = await listed()
     expect(Object.fromEntries([...rows].map(([name, row]) => [name, row.status.state]))).toEqual({
-      'Steady tank': 'steady', 'Watch tank': 'watch', 'Alarm tank': 'alarm', 'Quiet tank': 'quiet', 'Empty tank': 'steady',
+      'Steady tank': 'steady',
+      'Watch tank': 'watch',
+      'Alarm tank': 'alarm',
+      'Quiet tank': 'quiet',
+      'Empty tank': 'steady',
     })
     // 27.8 °C is within a tenth of the 24–28 °C band's width of its top.
     expect(rows.get('Watch tank')!.status.stateReasons).toEqual(['temperature 27.8 near the edge of 24–28'])

@@ -92,7 +92,12 @@ describe('create: validation names the field', () => {
     ['a light time of 25:00', { lightSchedule: { on: '25:00', off: '20:00' } }, 'lightSchedule.on', 'use HH:MM (24-hour)'],
     ['an unknown site', { siteId: 999_999 }, 'siteId', 'no such site'],
     ['an empty name', { name: '   ' }, 'name', 'required'],
-    ['a bow deeper than half the length', { dimensions: { shape: 'bow_front', lengthCm: 60, widthCm: 30, bowCm: 40, heightCm: 50 } }, 'dimensions.bowCm', 'bowCm must not exceed half of lengthCm (got 40 for length 60)'],
+    [
+      'a bow deeper than half the length',
+      { dimensions: { shape: 'bow_front', lengthCm: 60, widthCm: 30, bowCm: 40, heightCm: 50 } },
+      'dimensions.bowCm',
+      'bowCm must not exceed half of lengthCm (got 40 for length 60)',
+    ],
     ['a tank too small to hold 0.05 L', { dimensions: rect({ lengthCm: 1, widthCm: 1, heightCm: 1 }), heater: null }, 'dimensions', 'holds less than 0.05 L'],
   ])('%s', async (_name, over, field, message) => {
     const res = await create(sampleTank(org.siteIds[0], over))

@@ -37,7 +37,10 @@ afterAll(() => t.close())
 
 describe('lists never carry another organization’s rows', () => {
   it.each(['owner', 'keeper', 'viewer'] as const)('sites and tanks as %s', async (role) => {
-    for (const [org, own] of [[alpha, 'alpha'], [beta, 'beta']] as const) {
+    for (const [org, own] of [
+      [alpha, 'alpha'],
+      [beta, 'beta'],
+    ] as const) {
       const sites = await get('/sites?includeArchived=true', org.users[role].token)
       expect(sites.status).toBe(200)
       expect(ids(sites.body)).toEqual(sorted(org.siteIds))
@@ -108,11 +111,18 @@ describe('another organization’s row answers 404, and stays untouched', () => 
     const move = await t.api().patch(`/api/v1/tanks/${tanks.alpha[0]}`).set(bearer(token)).send({ siteId: beta.siteIds[0] })
     expect(move.status).toBe(400)
     expect(move.body.error.fields).toEqual({ siteId: 'no such site' })
-    const inviteViewer = await t.api().post('/api/v1/users/invitations').set(bearer(token))
+    const inviteViewer = await t
+      .api()
+      .post('/api/v1/users/invitations')
+      .set(bearer(token))
       .send({ email: 'spy@alpha.example', name: 'Spy', role: 'viewer', siteIds: [beta.siteIds[0]] })
     expect(inviteViewer.status).toBe(400)
     expect(inviteViewer.body.error.fields).toEqual({ siteIds: 'unknown site' })
-    const limit = await t.api().patch(`/api/v1/users/${alpha.users.viewer.id}`).set(bearer(token)).send({ siteIds: [beta.siteIds[1]] })
+    const limit = await t
+      .api()
+      .patch(`/api/v1/users/${alpha.users.viewer.id}`)
+      .set(bearer(token))
+      .send({ siteIds: [beta.siteIds[1]] })
     expect(limit.status).toBe(400)
     expect(limit.body.error.fields).toEqual({ siteIds: 'unknown site' })
   })
@@ -126,7 +136,11 @@ describe('a viewer limited to one site', () => {
   beforeAll(async () => {
     ;[ownSite, otherSite] = alpha.siteIds
     viewerToken = alpha.users.viewer.token
-    const res = await t.api().patch(`/api/v1/users/${alpha.users.viewer.id}`).set(bearer(alpha.users.owner.token)).send({ siteIds: [ownSite] })
+    const res = await t
+      .api()
+      .patch(`/api/v1/users/${alpha.users.viewer.id}`)
+      .set(bearer(alpha.users.owner.token))
+      .send({ siteIds: [ownSite] })
     expect(res.status).toBe(200)
     expect(res.body.siteIds).toEqual([ownSite])
   })

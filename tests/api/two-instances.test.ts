@@ -13,7 +13,7 @@ const start = () =>
   startServer(testConfig({ databaseUrl: db.url, mqtt: { host: '127.0.0.1', port: 0 }, mail: { fakeSmtpPort: 0, from: 'two@tankwarden.invalid' } }))
 
 async function until(check: () => boolean, ms = 15_000) {
-  for (const end = Date.now() + ms; Date.now() < end; ) {
+  for (const end = Date.now() + ms; Date.now() < end;) {
     if (check()) return true
     await new Promise((r) => setTimeout(r, 100))
   }
@@ -41,15 +41,22 @@ describe('two app instances on one database', () => {
     const org = await createOrgIn(follower.ctx, 'Two Instance Org')
     const node = await createTankWithDevice(follower.ctx, org, 'Shared tank')
     await follower.ctx.models.WatchRule.create({
-      organizationId: org.organizationId, siteId: org.siteIds[0], tankId: node.tankId, name: 'Temperature above 28 °C for 10 min',
-      severity: 'alarm', spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 },
+      organizationId: org.organizationId,
+      siteId: org.siteIds[0],
+      tankId: node.tankId,
+      name: 'Temperature above 28 °C for 10 min',
+      severity: 'alarm',
+      spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 },
     })
     // The readings arrive at the follower while the leader goes away.
     const t0 = Date.now() - 30 * MIN
     const res = await fetch(`http://127.0.0.1:${follower.port}/api/v1/readings`, {
       method: 'POST',
       headers: { 'content-type': 'application/json', authorization: `Bearer ${node.token}` },
-      body: JSON.stringify({ v: 1, readings: Array.from({ length: 12 }, (_, i) => ({ metric: 'temperature', value: 29, time: new Date(t0 + i * MIN).toISOString() })) }),
+      body: JSON.stringify({
+        v: 1,
+        readings: Array.from({ length: 12 }, (_, i) => ({ metric: 'temperature', value: 29, time: new Date(t0 + i * MIN).toISOString() })),
+      }),
     })
     expect(((await res.json()) as { accepted: number }).accepted).toBe(12)
     await leader.stop()

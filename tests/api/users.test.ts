@@ -45,13 +45,22 @@ describe('invitation → description → acceptance', () => {
     const described = await describeInvite(token)
     expect(described.status).toBe(200)
     expect(described.body).toEqual({
-      email: 'vera.viewer@example.com', name: 'Vera', role: 'viewer', organizationName: 'Users Org', expiresAt: inv.expiresAt,
+      email: 'vera.viewer@example.com',
+      name: 'Vera',
+      role: 'viewer',
+      organizationName: 'Users Org',
+      expiresAt: inv.expiresAt,
     })
 
     const session = await accept({ token, password: NEW_PASSWORD, name: 'Vera V.' })
     expect(session.status).toBe(201)
     expect(session.body.user).toMatchObject({
-      email: 'vera.viewer@example.com', name: 'Vera V.', role: 'viewer', active: true, siteIds: [org.siteIds[0]], organizationId: org.organizationId,
+      email: 'vera.viewer@example.com',
+      name: 'Vera V.',
+      role: 'viewer',
+      active: true,
+      siteIds: [org.siteIds[0]],
+      organizationId: org.organizationId,
     })
     expect(session.body.organization).toEqual({ id: org.organizationId, name: 'Users Org' })
     expect((await me(session.body.token)).body.user.email).toBe('vera.viewer@example.com')

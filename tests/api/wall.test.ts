@@ -29,12 +29,37 @@ describe('the wall and wall displays', () => {
     await s.ctx.models.Tank.update({ sortOrder: 1 }, { where: { id: calm.tankId } })
     await s.ctx.models.Tank.update({ sortOrder: 2 }, { where: { id: hot.tankId } })
     const now = new Date().toISOString()
-    for (const [token, value] of [[calm.token, 26], [hot.token, 26.1]] as const) {
-      await api('/readings', token, { method: 'POST', body: JSON.stringify({ v: 1, readings: [{ metric: 'temperature', value, time: now }, { metric: 'light', value: 8000, time: now }] }) })
+    for (const [token, value] of [
+      [calm.token, 26],
+      [hot.token, 26.1],
+    ] as const) {
+      await api('/readings', token, {
+        method: 'POST',
+        body: JSON.stringify({
+          v: 1,
+          readings: [
+            { metric: 'temperature', value, time: now },
+            { metric: 'light', value: 8000, time: now },
+          ],
+        }),
+      })
     }
     await s.ctx.models.Incident.create({
-      organizationId: org.organizationId, siteId: site, tankId: hot.tankId, ruleId: null, ruleKind: 'above', metric: 'temperature', severity: 'alarm',
-      title: 'Temperature above 28 °C for 10 min', state: 'open', conditionSince: new Date(), openedAt: new Date(), firstValue: 28.4, peakValue: 28.4, latestValue: 28.4, latestAt: new Date(),
+      organizationId: org.organizationId,
+      siteId: site,
+      tankId: hot.tankId,
+      ruleId: null,
+      ruleKind: 'above',
+      metric: 'temperature',
+      severity: 'alarm',
+      title: 'Temperature above 28 °C for 10 min',
+      state: 'open',
+      conditionSince: new Date(),
+      openedAt: new Date(),
+      firstValue: 28.4,
+      peakValue: 28.4,
+      latestValue: 28.4,
+      latestAt: new Date(),
     })
     const res = await api(`/sites/${site}/wall`, org.users.viewer.token)
     expect(res.status).toBe(200)
@@ -62,9 +87,14 @@ describe('the wall and wall displays', () => {
     expect((await api(`/sites/${other.siteIds[0]}/wall`, key)).status).toBe(404)
     // Nothing else, and no writes.
     for (const [method, path, body] of [
-      ['GET', '/tanks', undefined], ['GET', `/sites/${site}`, undefined], ['GET', '/auth/me', undefined], ['GET', '/incidents', undefined],
-      ['POST', '/tanks', JSON.stringify(sampleTank(site))], ['POST', `/sites/${site}/wall-credentials`, JSON.stringify({ name: 'x' })],
-      ['PATCH', `/sites/${site}`, JSON.stringify({ name: 'x' })], ['POST', '/readings', JSON.stringify({ v: 1, readings: [] })],
+      ['GET', '/tanks', undefined],
+      ['GET', `/sites/${site}`, undefined],
+      ['GET', '/auth/me', undefined],
+      ['GET', '/incidents', undefined],
+      ['POST', '/tanks', JSON.stringify(sampleTank(site))],
+      ['POST', `/sites/${site}/wall-credentials`, JSON.stringify({ name: 'x' })],
+      ['PATCH', `/sites/${site}`, JSON.stringify({ name: 'x' })],
+      ['POST', '/readings', JSON.stringify({ v: 1, readings: [] })],
     ] as const) {
       const res = await api(path, key, { method, body })
       expect(res.status, `${method} ${path}`).toBe(401)
@@ -99,15 +129,25 @@ describe('the wall data itself', () => {
     for (const name of ['Second tank', 'Third tank']) await createTankWithDevice(s.ctx, trendOrg, name)
     const QUARTER = 15 * 60_000
     const base = Math.floor(Date.now() / QUARTER) * QUARTER - 4 * QUARTER
-    const readings = [[base + 60_000, 25.0], [base + 120_000, 25.4], [base + QUARTER + 60_000, 26.0]].map(([at, value]) => ({ metric: 'temperature', value, time: new Date(at).toISOString() }))
+    const readings = [
+      [base + 60_000, 25.0],
+      [base + 120_000, 25.4],
+      [base + QUARTER + 60_000, 26.0],
+    ].map(([at, value]) => ({ metric: 'temperature', value, time: new Date(at).toISOString() }))
     expect((await api('/readings', tank.token, { method: 'POST', body: JSON.stringify({ v: 1, readings }) })).status).toBe(200)
 
-    const res = await request(`${s.baseUrl}/api/v1/sites/${trendOrg.siteIds[0]}/wall`, { 'accept-encoding': 'gzip', authorization: `Bearer ${trendOrg.users.viewer.token}` })
+    const res = await request(`${s.baseUrl}/api/v1/sites/${trendOrg.siteIds[0]}/wall`, {
+      'accept-encoding': 'gzip',
+      authorization: `Bearer ${trendOrg.users.viewer.token}`,
+    })
     expect(res.status).toBe(200)
     expect(res.headers['content-encoding']).toBe('gzip')
     const wall = JSON.parse(gunzipSync(res.body).toString('utf8')) as WallResponse
     expect(Object.fromEntries(wall.tanks.map((t) => [t.name, t.trend]))).toEqual({
-      'Trend tank': [{ t: new Date(base).toISOString(), value: 25.2 }, { t: new Date(base + QUARTER).toISOString(), value: 26 }],
+      'Trend tank': [
+        { t: new Date(base).toISOString(), value: 25.2 },
+        { t: new Date(base + QUARTER).toISOString(), value: 26 },
+      ],
       'Second tank': [],
       'Third tank': [],
     })

@@ -12,8 +12,18 @@ import { mountView } from './mount'
 const TOKEN = 'ack_abcdefghijklmnopqrstuvwxyz0123'
 const fresh: AckLinkInfo = {
   incident: {
-    id: 55, title: 'Temperature above 28 °C for 10 min', severity: 'alarm', state: 'open', tankName: 'Reef display', siteName: 'Front shop',
-    timeZone: 'Europe/Berlin', openedAt: '2026-03-03T02:10:00.000Z', acknowledgedAt: null, acknowledgedBy: null, resolvedAt: null, resolvedBy: null,
+    id: 55,
+    title: 'Temperature above 28 °C for 10 min',
+    severity: 'alarm',
+    state: 'open',
+    tankName: 'Reef display',
+    siteName: 'Front shop',
+    timeZone: 'Europe/Berlin',
+    openedAt: '2026-03-03T02:10:00.000Z',
+    acknowledgedAt: null,
+    acknowledgedBy: null,
+    resolvedAt: null,
+    resolvedBy: null,
   },
   usedAt: null,
   expiresAt: '2026-03-05T02:10:00.000Z',
@@ -50,7 +60,8 @@ describe('acknowledge link page', () => {
 
   it('acknowledges on the button, with the note', async () => {
     vi.mocked(redeemAckLink).mockResolvedValue({
-      state: 'acknowledged', alreadyHandled: false,
+      state: 'acknowledged',
+      alreadyHandled: false,
       incident: { ...fresh.incident, state: 'acknowledged', acknowledgedAt: '2026-03-03T02:12:00.000Z', acknowledgedBy: { name: 'Robin Keeper' } },
     })
     const wrapper = await openLink()
@@ -66,7 +77,9 @@ describe('acknowledge link page', () => {
   })
 
   it('says the link was already used when the server answers 409', async () => {
-    vi.mocked(redeemAckLink).mockRejectedValue(new ApiError({ status: 409, code: 'link_used', message: 'This link was already used on 2026-03-03T02:20:00.000Z' }))
+    vi.mocked(redeemAckLink).mockRejectedValue(
+      new ApiError({ status: 409, code: 'link_used', message: 'This link was already used on 2026-03-03T02:20:00.000Z' }),
+    )
     const wrapper = await openLink()
     await wrapper.find('form').trigger('submit')
     await flushPromises()

@@ -118,8 +118,20 @@ describe('display units', () => {
 describe('withGaps', () => {
   it('breaks the line where readings stop for longer than three steps', () => {
     const minute = 60_000
-    const out = withGaps([[0, 1], [minute, 2], [10 * minute, 3]], minute)
-    expect(out).toEqual([[0, 1], [minute, 2], [minute + 1, null], [10 * minute, 3]])
+    const out = withGaps(
+      [
+        [0, 1],
+        [minute, 2],
+        [10 * minute, 3],
+      ],
+      minute,
+    )
+    expect(out).toEqual([
+      [0, 1],
+      [minute, 2],
+      [minute + 1, null],
+      [10 * minute, 3],
+    ])
   })
 })
 
@@ -127,10 +139,10 @@ describe('y axis', () => {
   type MinFn = (extent: { min: number }) => number
   it('keeps the band in view and never goes below the floor', () => {
     const withBand = build({})
-    expect(((withBand.yAxis as { min: MinFn }).min)({ min: 24.5 })).toBe(24)
+    expect((withBand.yAxis as { min: MinFn }).min({ min: 24.5 })).toBe(24)
     const light = build({ band: null, floor: 0 })
-    expect(((light.yAxis as { min: MinFn }).min)({ min: -0.5 })).toBe(0)
-    expect(((light.yAxis as { min: MinFn }).min)({ min: 12 })).toBe(12)
+    expect((light.yAxis as { min: MinFn }).min({ min: -0.5 })).toBe(0)
+    expect((light.yAxis as { min: MinFn }).min({ min: 12 })).toBe(12)
     expect((build({ band: null }).yAxis as { min?: MinFn }).min).toBeUndefined()
   })
 })

@@ -13,7 +13,12 @@ import { mountView } from './mount'
 const FROM = '2026-03-02T12:00:00.000Z'
 const TO = '2026-03-03T12:00:00.000Z'
 const raw: SeriesResponse = {
-  metric: 'temperature', unit: '°C', from: FROM, to: TO, bucketSeconds: 0, points: [],
+  metric: 'temperature',
+  unit: '°C',
+  from: FROM,
+  to: TO,
+  bucketSeconds: 0,
+  points: [],
   raw: [
     { t: '2026-03-03T10:00:00.000Z', value: 25.4, source: 'device' },
     { t: '2026-03-03T10:30:00.000Z', value: 24.9, source: 'test_kit' },
@@ -29,9 +34,7 @@ beforeEach(() => {
 describe('a chart in words', () => {
   it('says the latest value, the lowest and highest shown and the time span, on the site clock', () => {
     const text = { subject: 'Temperature', timeZone: 'Europe/Berlin', format, ...metricChartRows({ series: raw }) }
-    expect(describeChart(text)).toBe(
-      'Temperature: latest 25.8 °C at 3 Mar, 12:00 CET. Shown 24.9 °C to 25.8 °C, from 2 Mar, 13:00 CET to 3 Mar, 13:00 CET.',
-    )
+    expect(describeChart(text)).toBe('Temperature: latest 25.8 °C at 3 Mar, 12:00 CET. Shown 24.9 °C to 25.8 °C, from 2 Mar, 13:00 CET to 3 Mar, 13:00 CET.')
   })
 
   it('says so once when every value shown is the same', () => {
@@ -46,7 +49,12 @@ describe('a chart in words', () => {
   })
 
   it('gives bucketed series their mean, lowest and highest, and test-kit readings as rows of their own', () => {
-    const bucketed: SeriesResponse = { ...raw, bucketSeconds: 3600, raw: [], points: [{ t: '2026-03-03T10:00:00.000Z', mean: 25.5, min: 25.1, max: 25.9, count: 12 }] }
+    const bucketed: SeriesResponse = {
+      ...raw,
+      bucketSeconds: 3600,
+      raw: [],
+      points: [{ t: '2026-03-03T10:00:00.000Z', mean: 25.5, min: 25.1, max: 25.9, count: 12 }],
+    }
     const rows = metricChartRows({ series: bucketed, kitPoints: [{ t: '2026-03-03T11:10:00.000Z', value: 24.8 }] })
     expect(rows.columns).toEqual(['Value', 'Lowest', 'Highest'])
     expect(rows.rows).toEqual([
@@ -99,11 +107,29 @@ describe('the report chart', () => {
     const hour = 3_600_000
     const from = Date.parse('2026-03-02T00:00:00.000Z')
     const metric = {
-      metric: 'temperature' as const, label: 'Temperature', unitLabel: '°C', band: { min: 24, max: 27 }, readings: 3, coveragePercent: 50,
-      timeInBandPercent: 100, belowMs: 0, aboveMs: 0, min: 25.1, max: 25.9, mean: 25.5, gapLimitMs: hour, gaps: [],
-      series: [[from + hour / 2, 25.1], [from + 1.5 * hour, null], [from + 2.5 * hour, 25.9]] as Array<[number, number | null]>,
+      metric: 'temperature' as const,
+      label: 'Temperature',
+      unitLabel: '°C',
+      band: { min: 24, max: 27 },
+      readings: 3,
+      coveragePercent: 50,
+      timeInBandPercent: 100,
+      belowMs: 0,
+      aboveMs: 0,
+      min: 25.1,
+      max: 25.9,
+      mean: 25.5,
+      gapLimitMs: hour,
+      gaps: [],
+      series: [
+        [from + hour / 2, 25.1],
+        [from + 1.5 * hour, null],
+        [from + 2.5 * hour, 25.9],
+      ] as Array<[number, number | null]>,
     }
-    const { wrapper } = await mountView(ReportMetricCard, { props: { metric, from: '2026-03-02T00:00:00.000Z', to: '2026-03-02T03:00:00.000Z', timeZone: 'UTC' } })
+    const { wrapper } = await mountView(ReportMetricCard, {
+      props: { metric, from: '2026-03-02T00:00:00.000Z', to: '2026-03-02T03:00:00.000Z', timeZone: 'UTC' },
+    })
     expect(wrapper.find('[data-test=chart-description]').text()).toBe(
       'Temperature: latest 25.9 °C at 2 Mar, 02:30 UTC. Shown 25.1 °C to 25.9 °C, from 2 Mar, 00:00 UTC to 2 Mar, 03:00 UTC.',
     )

@@ -3,7 +3,9 @@ import { beforeEach, describe, expect, it, vi } from 'vitest'
 import type { MailMessage } from '@shared/schemas/dev-mail'
 
 vi.mock('@/api/dev-mail', () => ({ listMail: vi.fn(), getMail: vi.fn(), emptyMailbox: vi.fn() }))
-vi.mock('@/api/sites', () => ({ listSites: vi.fn(async () => [{ id: 3, name: 'Front shop', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 1 }]) }))
+vi.mock('@/api/sites', () => ({
+  listSites: vi.fn(async () => [{ id: 3, name: 'Front shop', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 1 }]),
+}))
 
 import { emptyMailbox, getMail, listMail } from '@/api/dev-mail'
 import AppShell from '@/components/layout/AppShell.vue'
@@ -11,9 +13,17 @@ import DevMailView from '@/views/DevMailView.vue'
 import { mountView } from './mount'
 
 const message: MailMessage = {
-  id: 4, receivedAt: '2026-03-03T02:10:05.000Z', organizationId: 1, envelopeFrom: 'alerts@tankwarden.test', envelopeTo: ['sam@example.test'],
-  subject: '[Alarm] Reef display: temperature above 28 °C', attachments: [], rawSize: 2048,
-  textBody: 'Temperature 28.6 °C since 03:00.', htmlBody: '<p>Temperature <b>28.6 °C</b></p><script>window.parent.hacked = true</script>', headers: {},
+  id: 4,
+  receivedAt: '2026-03-03T02:10:05.000Z',
+  organizationId: 1,
+  envelopeFrom: 'alerts@tankwarden.test',
+  envelopeTo: ['sam@example.test'],
+  subject: '[Alarm] Reef display: temperature above 28 °C',
+  attachments: [],
+  rawSize: 2048,
+  textBody: 'Temperature 28.6 °C since 03:00.',
+  htmlBody: '<p>Temperature <b>28.6 °C</b></p><script>window.parent.hacked = true</script>',
+  headers: {},
 }
 
 beforeEach(() => {

@@ -10,9 +10,21 @@ import { mosquittoPubExample } from '@/components/devices/device-help'
 import { mountView } from './mount'
 
 const device: PublicDevice = {
-  id: 41, tankId: 12, tankName: 'Quarantine A', siteId: 3, name: 'Probe node 4', metrics: ['temperature', 'ph'], intervalSeconds: 60,
-  lastSeenAt: '2026-03-03T11:58:00.000Z', lastError: 'ph 15 is outside 0–14', lastErrorAt: '2026-03-03T11:00:00.000Z',
-  rejectedCount: 3, readingsToday: 1320, quiet: false, revokedAt: null, createdAt: '2026-01-01T00:00:00.000Z',
+  id: 41,
+  tankId: 12,
+  tankName: 'Quarantine A',
+  siteId: 3,
+  name: 'Probe node 4',
+  metrics: ['temperature', 'ph'],
+  intervalSeconds: 60,
+  lastSeenAt: '2026-03-03T11:58:00.000Z',
+  lastError: 'ph 15 is outside 0–14',
+  lastErrorAt: '2026-03-03T11:00:00.000Z',
+  rejectedCount: 3,
+  readingsToday: 1320,
+  quiet: false,
+  revokedAt: null,
+  createdAt: '2026-01-01T00:00:00.000Z',
 }
 
 beforeEach(() => {

@@ -5,7 +5,10 @@ import { ApiError } from '@/api/errors'
 import { useEditableList } from '@/composables/useEditableList'
 import { useFieldErrors, type FieldErrors } from '@/composables/useFieldErrors'
 
-interface Row { id: number; name: string }
+interface Row {
+  id: number
+  name: string
+}
 
 /** Runs the composable inside a component, so its watchers live and die with one. */
 function withList(options: Parameters<typeof useEditableList<Row>>[0]) {
@@ -37,7 +40,9 @@ describe('useEditableList', () => {
   })
 
   it('reports a failed load and loads again on retry', async () => {
-    const load = vi.fn<() => Promise<Row[]>>().mockRejectedValueOnce(new ApiError({ status: 503, code: 'unavailable', message: 'The database is not answering.' }))
+    const load = vi
+      .fn<() => Promise<Row[]>>()
+      .mockRejectedValueOnce(new ApiError({ status: 503, code: 'unavailable', message: 'The database is not answering.' }))
     load.mockResolvedValueOnce([{ id: 1, name: 'Reef' }])
     const { list } = withList({ load, source: () => 0 })
     await flushPromises()
@@ -98,7 +103,10 @@ describe('useEditableList', () => {
   })
 
   it('marks the row busy during an action, refreshes after it and reports its failure', async () => {
-    const rows: Row[] = [{ id: 1, name: 'Reef' }, { id: 2, name: 'Quarantine' }]
+    const rows: Row[] = [
+      { id: 1, name: 'Reef' },
+      { id: 2, name: 'Quarantine' },
+    ]
     const { list } = withList({ load: async () => [...rows], source: () => 0 })
     await flushPromises()
     const removing = list.act(2, async () => {

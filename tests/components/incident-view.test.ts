@@ -4,7 +4,9 @@ import type { Role } from '@shared/schemas/auth'
 import type { IncidentDetail } from '@shared/schemas/incidents'
 
 vi.mock('@/api/incidents', () => ({ getIncident: vi.fn(), acknowledgeIncident: vi.fn(), resolveIncident: vi.fn() }))
-vi.mock('@/api/roster', () => ({ listShifts: vi.fn(async () => [{ id: 1, siteId: 3, userId: 21, userName: 'Sam Keeper', weekday: 0, start: '22:00', end: '06:00' }]) }))
+vi.mock('@/api/roster', () => ({
+  listShifts: vi.fn(async () => [{ id: 1, siteId: 3, userId: 21, userName: 'Sam Keeper', weekday: 0, start: '22:00', end: '06:00' }]),
+}))
 vi.mock('@/api/users', () => ({ listUsers: vi.fn(async () => []), listInvitations: vi.fn(async () => []) }))
 vi.mock('@/api/sites', () => ({
   listSites: vi.fn(async () => [{ id: 3, name: 'Back fish room', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 1 }]),
@@ -17,17 +19,50 @@ import { mountView } from './mount'
 
 // Berlin is UTC+1 in early March (before the last Sunday of March, Directive 2000/84/EC), so 02:10 UTC reads 03:10.
 const incident: IncidentDetail = {
-  id: 55, siteId: 3, tankId: 12, tankName: 'Reef display', siteName: 'Back fish room', ruleId: 9, ruleKind: 'above', metric: 'temperature',
-  severity: 'alarm', title: 'Temperature above 28 °C for 10 min', state: 'open', conditionSince: '2026-03-03T02:00:00.000Z',
-  openedAt: '2026-03-03T02:10:00.000Z', firstValue: 28.3, peakValue: 29.1, latestValue: 28.8, latestAt: '2026-03-03T02:40:00.000Z',
-  snoozed: false, acknowledgedAt: null, acknowledgedBy: null, acknowledgeNote: null, resolvedAt: null, resolvedBy: null, resolveNote: null,
-  escalationLevel: 1, nextEscalationAt: null, nextRepeatAt: '2026-03-03T03:10:00.000Z',
-  topSeverity: 'alarm', flapCount: 0, lastFlapAt: null, settleUntil: null, maintenance: false, siteIncidentId: null, conditionHolds: true,
+  id: 55,
+  siteId: 3,
+  tankId: 12,
+  tankName: 'Reef display',
+  siteName: 'Back fish room',
+  ruleId: 9,
+  ruleKind: 'above',
+  metric: 'temperature',
+  severity: 'alarm',
+  title: 'Temperature above 28 °C for 10 min',
+  state: 'open',
+  conditionSince: '2026-03-03T02:00:00.000Z',
+  openedAt: '2026-03-03T02:10:00.000Z',
+  firstValue: 28.3,
+  peakValue: 29.1,
+  latestValue: 28.8,
+  latestAt: '2026-03-03T02:40:00.000Z',
+  snoozed: false,
+  acknowledgedAt: null,
+  acknowledgedBy: null,
+  acknowledgeNote: null,
+  resolvedAt: null,
+  resolvedBy: null,
+  resolveNote: null,
+  escalationLevel: 1,
+  nextEscalationAt: null,
+  nextRepeatAt: '2026-03-03T03:10:00.000Z',
+  topSeverity: 'alarm',
+  flapCount: 0,
+  lastFlapAt: null,
+  settleUntil: null,
+  maintenance: false,
+  siteIncidentId: null,
+  conditionHolds: true,
   timeline: [
     { at: '2026-03-03T02:10:00.000Z', kind: 'opened', userId: null, detail: { value: 28.3, since: '2026-03-03T02:00:00.000Z', snoozed: false } },
     { at: '2026-03-03T02:10:00.000Z', kind: 'mail_queued', userId: null, detail: { kind: 'opened', recipients: ['sam@example.test'] } },
     { at: '2026-03-03T02:40:00.000Z', kind: 'escalated', userId: null, detail: { level: 1 } },
-    { at: '2026-03-03T02:40:00.000Z', kind: 'mail_queued', userId: null, detail: { kind: 'escalated', recipients: ['sam@example.test', 'owner@example.test'] } },
+    {
+      at: '2026-03-03T02:40:00.000Z',
+      kind: 'mail_queued',
+      userId: null,
+      detail: { kind: 'escalated', recipients: ['sam@example.test', 'owner@example.test'] },
+    },
     { at: '2026-03-03T03:10:00.000Z', kind: 'repeated', userId: null, detail: {} },
     { at: '2026-03-03T03:12:00.000Z', kind: 'acknowledged', userId: 21, detail: { note: 'Heater unplugged, fan on', via: 'link' } },
     { at: '2026-03-03T04:30:00.000Z', kind: 'resolved', userId: null, detail: { automatic: true, reason: 'The rule cleared', value: 26.9 } },
@@ -122,9 +157,19 @@ describe('incident detail', () => {
     vi.mocked(getIncident).mockResolvedValue({
       ...incident,
       timeline: [
-        { at: '2026-03-03T02:20:00.000Z', kind: 'severity_raised', userId: null, detail: { from: 'warning', to: 'alarm', value: 29.4, rule: 'Temperature above 29 °C' } },
+        {
+          at: '2026-03-03T02:20:00.000Z',
+          kind: 'severity_raised',
+          userId: null,
+          detail: { from: 'warning', to: 'alarm', value: 29.4, rule: 'Temperature above 29 °C' },
+        },
         { at: '2026-03-03T02:30:00.000Z', kind: 'flapped', userId: null, detail: { value: 28.6, count: 2 } },
-        { at: '2026-03-03T02:31:00.000Z', kind: 'reopened', userId: null, detail: { reason: 'still_holding', note: 'Reopened: the condition still held after it was resolved', resolvedBy: 21 } },
+        {
+          at: '2026-03-03T02:31:00.000Z',
+          kind: 'reopened',
+          userId: null,
+          detail: { reason: 'still_holding', note: 'Reopened: the condition still held after it was resolved', resolvedBy: 21 },
+        },
       ],
     })
     const entries = (await pageAs('viewer')).findAll('[data-test="timeline-entry"]').map((e) => e.text())

@@ -31,11 +31,40 @@ import { wallPayload, wallTank } from './fixtures/wall'
 import { mountView } from './mount'
 
 const incident = (id: number, state: PublicIncident['state'], title: string): PublicIncident => ({
-  id, siteId: 3, tankId: 12, tankName: 'Reef display', siteName: 'Back fish room', ruleId: 9, ruleKind: 'above', metric: 'temperature',
-  severity: 'alarm', title, state, conditionSince: '2026-03-03T02:00:00.000Z', openedAt: '2026-03-03T02:10:00.000Z', firstValue: 28.4, peakValue: 28.6,
-  latestValue: 28.5, latestAt: '2026-03-03T02:40:00.000Z', snoozed: false, acknowledgedAt: null, acknowledgedBy: null, acknowledgeNote: null,
-  resolvedAt: null, resolvedBy: null, resolveNote: null, escalationLevel: 0, nextEscalationAt: null, nextRepeatAt: null, topSeverity: 'alarm',
-  flapCount: 0, lastFlapAt: null, settleUntil: null, maintenance: false, siteIncidentId: null, conditionHolds: true,
+  id,
+  siteId: 3,
+  tankId: 12,
+  tankName: 'Reef display',
+  siteName: 'Back fish room',
+  ruleId: 9,
+  ruleKind: 'above',
+  metric: 'temperature',
+  severity: 'alarm',
+  title,
+  state,
+  conditionSince: '2026-03-03T02:00:00.000Z',
+  openedAt: '2026-03-03T02:10:00.000Z',
+  firstValue: 28.4,
+  peakValue: 28.6,
+  latestValue: 28.5,
+  latestAt: '2026-03-03T02:40:00.000Z',
+  snoozed: false,
+  acknowledgedAt: null,
+  acknowledgedBy: null,
+  acknowledgeNote: null,
+  resolvedAt: null,
+  resolvedBy: null,
+  resolveNote: null,
+  escalationLevel: 0,
+  nextEscalationAt: null,
+  nextRepeatAt: null,
+  topSeverity: 'alarm',
+  flapCount: 0,
+  lastFlapAt: null,
+  settleUntil: null,
+  maintenance: false,
+  siteIncidentId: null,
+  conditionHolds: true,
 })
 const page = (...items: PublicIncident[]) => ({ items, total: items.length, page: 1, pageSize: 25 })
 const gathered = () => new Promise((resolve) => setTimeout(resolve, ANNOUNCE_GATHER_MS + 50))
@@ -192,7 +221,9 @@ describe('the wall says nothing', () => {
     await gathered()
     try {
       vi.mocked(getWall).mockResolvedValue(
-        wallPayload(2, { siteIncidents: [{ id: 4, title: 'Power cut', severity: 'alarm', state: 'open', tanks: 2, openedAt: '2026-03-03T11:00:00.000Z' }] as never }),
+        wallPayload(2, {
+          siteIncidents: [{ id: 4, title: 'Power cut', severity: 'alarm', state: 'open', tanks: 2, openedAt: '2026-03-03T11:00:00.000Z' }] as never,
+        }),
       )
       const { wrapper } = await mountView(WallView, { props: { siteId: 3 } })
       await flushPromises()

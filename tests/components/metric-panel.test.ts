@@ -10,10 +10,20 @@ import MetricPanel from '@/components/charts/MetricPanel.vue'
 import { presetRange } from '@/components/charts/ranges'
 import { mountView } from './mount'
 
-const empty: SeriesResponse = { metric: 'ph', unit: 'pH', from: '2026-03-02T12:00:00.000Z', to: '2026-03-03T12:00:00.000Z', bucketSeconds: 0, points: [], raw: [] }
+const empty: SeriesResponse = {
+  metric: 'ph',
+  unit: 'pH',
+  from: '2026-03-02T12:00:00.000Z',
+  to: '2026-03-03T12:00:00.000Z',
+  bucketSeconds: 0,
+  points: [],
+  raw: [],
+}
 
 function mountPanel() {
-  return mountView(MetricPanel, { props: { tankId: 12, metric: 'ph', range: presetRange('24h', Date.parse('2026-03-03T12:00:00.000Z')), band: { min: 6.5, max: 7.5 }, timeZone: 'UTC' } })
+  return mountView(MetricPanel, {
+    props: { tankId: 12, metric: 'ph', range: presetRange('24h', Date.parse('2026-03-03T12:00:00.000Z')), band: { min: 6.5, max: 7.5 }, timeZone: 'UTC' },
+  })
 }
 
 beforeEach(() => vi.mocked(getSeries).mockReset())
@@ -37,8 +47,17 @@ describe('MetricPanel', () => {
     await flushPromises()
     expect(wrapper.text()).toContain('The database is not answering')
 
-    vi.mocked(getSeries).mockResolvedValueOnce({ ...empty, raw: [{ t: '2026-03-03T11:00:00.000Z', value: 7.1, source: 'device' }, { t: '2026-03-03T11:05:00.000Z', value: 7.2, source: 'device' }] })
-    await wrapper.findAll('button').find((b) => b.text() === 'Retry')!.trigger('click')
+    vi.mocked(getSeries).mockResolvedValueOnce({
+      ...empty,
+      raw: [
+        { t: '2026-03-03T11:00:00.000Z', value: 7.1, source: 'device' },
+        { t: '2026-03-03T11:05:00.000Z', value: 7.2, source: 'device' },
+      ],
+    })
+    await wrapper
+      .findAll('button')
+      .find((b) => b.text() === 'Retry')!
+      .trigger('click')
     await flushPromises()
     expect(wrapper.find('[aria-label="pH chart"]').exists()).toBe(true)
     expect(wrapper.text()).toContain('every reading')

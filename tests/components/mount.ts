@@ -12,7 +12,32 @@ const Blank = defineComponent({ render: () => h('div') })
 
 /** Same route names as the app, with blank pages, so links resolve and pushes can be checked. */
 export function testRouter(): Router {
-  const names = ['sign-in', 'tanks', 'tank-new', 'tank', 'tank-edit', 'tank-test-kit', 'tank-build', 'sites', 'users', 'account', 'wall', 'incidents', 'incident', 'roster', 'ack', 'dev-mail', 'care-today', 'report', 'import', 'backup', 'forgot-password', 'reset-password', 'overview', 'setup']
+  const names = [
+    'sign-in',
+    'tanks',
+    'tank-new',
+    'tank',
+    'tank-edit',
+    'tank-test-kit',
+    'tank-build',
+    'sites',
+    'users',
+    'account',
+    'wall',
+    'incidents',
+    'incident',
+    'roster',
+    'ack',
+    'dev-mail',
+    'care-today',
+    'report',
+    'import',
+    'backup',
+    'forgot-password',
+    'reset-password',
+    'overview',
+    'setup',
+  ]
   const paths: Record<string, string> = {
     'sign-in': '/sign-in',
     tanks: '/tanks',

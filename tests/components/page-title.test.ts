@@ -4,7 +4,14 @@ import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest'
 import { defineComponent, h, nextTick, ref } from 'vue'
 import { createMemoryHistory, createRouter, RouterView, type RouteRecordRaw } from 'vue-router'
 
-vi.mock('@/api/auth', () => ({ signIn: vi.fn(), signOut: vi.fn(), fetchMe: vi.fn(), changePassword: vi.fn(), fetchInvitation: vi.fn(), acceptInvitation: vi.fn() }))
+vi.mock('@/api/auth', () => ({
+  signIn: vi.fn(),
+  signOut: vi.fn(),
+  fetchMe: vi.fn(),
+  changePassword: vi.fn(),
+  fetchInvitation: vi.fn(),
+  acceptInvitation: vi.fn(),
+}))
 
 import { installGuards } from '@/router'
 import { routes } from '@/router/routes'

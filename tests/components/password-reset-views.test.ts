@@ -2,8 +2,14 @@ import { flushPromises } from '@vue/test-utils'
 import { beforeEach, describe, expect, it, vi } from 'vitest'
 
 vi.mock('@/api/auth', () => ({
-  signIn: vi.fn(), signOut: vi.fn(), fetchMe: vi.fn(), changePassword: vi.fn(), fetchInvitation: vi.fn(), acceptInvitation: vi.fn(),
-  requestPasswordReset: vi.fn(), confirmPasswordReset: vi.fn(),
+  signIn: vi.fn(),
+  signOut: vi.fn(),
+  fetchMe: vi.fn(),
+  changePassword: vi.fn(),
+  fetchInvitation: vi.fn(),
+  acceptInvitation: vi.fn(),
+  requestPasswordReset: vi.fn(),
+  confirmPasswordReset: vi.fn(),
 }))
 
 import { confirmPasswordReset, requestPasswordReset } from '@/api/auth'
@@ -70,7 +76,12 @@ describe('forgotten password pages', () => {
 
   it('says in the server’s words when the link has expired, and offers a new one instead of the form', async () => {
     vi.mocked(confirmPasswordReset).mockRejectedValue(
-      new ApiError({ status: 400, code: 'invalid_input', message: 'This reset link has expired (they last 60 minutes); ask for a new one', fields: { token: 'expired' } }),
+      new ApiError({
+        status: 400,
+        code: 'invalid_input',
+        message: 'This reset link has expired (they last 60 minutes); ask for a new one',
+        fields: { token: 'expired' },
+      }),
     )
     const wrapper = await resetPage()
     await choose(wrapper, 'long-enough-password')

@@ -21,7 +21,12 @@ vi.mock('@/api/sites', () => ({
 
 vi.mock('@/api/series', () => ({ getSeries: vi.fn(), getLatest: vi.fn(async () => ({})) }))
 vi.mock('@/api/devices', () => ({ listDevices: vi.fn(async () => []), createDevice: vi.fn(), rotateDeviceToken: vi.fn(), revokeDevice: vi.fn() }))
-vi.mock('@/api/test-kit', () => ({ listTestKitEntries: vi.fn(async () => []), createTestKitEntry: vi.fn(), updateTestKitEntry: vi.fn(), deleteTestKitEntry: vi.fn() }))
+vi.mock('@/api/test-kit', () => ({
+  listTestKitEntries: vi.fn(async () => []),
+  createTestKitEntry: vi.fn(),
+  updateTestKitEntry: vi.fn(),
+  deleteTestKitEntry: vi.fn(),
+}))
 vi.mock('@/api/rules', () => ({
   listTankRules: vi.fn(async () => []),
   createTankRule: vi.fn(),
@@ -42,8 +47,19 @@ vi.mock('@/api/care', () => ({
   listLivestock: vi.fn(async () => ({ entries: [], watchUntil: null, quarantine: null })),
   listSpecies: vi.fn(async () => []),
   getCycling: vi.fn(async () => ({
-    tankId: 1, stage: 'established', phase: 'no_data', cycled: false, ammoniaPeak: null, nitritePeak: null, nitrateRising: false,
-    zeroSince: null, zeroDays: 0, daysToGo: null, rule: 'Cycled when ammonia and nitrite stay at zero for 7 days', newPlants: null, suggestion: null,
+    tankId: 1,
+    stage: 'established',
+    phase: 'no_data',
+    cycled: false,
+    ammoniaPeak: null,
+    nitritePeak: null,
+    nitrateRising: false,
+    zeroSince: null,
+    zeroDays: 0,
+    daysToGo: null,
+    rule: 'Cycled when ammonia and nitrite stay at zero for 7 days',
+    newPlants: null,
+    suggestion: null,
   })),
 }))
 vi.mock('@/api/wall', () => ({
@@ -86,13 +102,10 @@ const tank: PublicTank = {
 
 beforeEach(() => {
   vi.mocked(getTank).mockResolvedValue(tank)
-  vi.mocked(listSites).mockResolvedValue([
-    { id: 3, name: 'Back fish room', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 1 },
-  ])
+  vi.mocked(listSites).mockResolvedValue([{ id: 3, name: 'Back fish room', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 1 }])
 })
 
-const buttonTexts = (wrapper: { findAll: (s: string) => { text: () => string }[] }) =>
-  wrapper.findAll('a, button').map((el) => el.text())
+const buttonTexts = (wrapper: { findAll: (s: string) => { text: () => string }[] }) => wrapper.findAll('a, button').map((el) => el.text())
 
 async function tankPageAs(role: Role) {
   const { wrapper } = await mountView(TankView, { role, props: { id: 12 } })
@@ -111,8 +124,13 @@ describe('tank page', () => {
     expect(text).toMatch(/Temperature\s24\.0 – 27\.0 °C/)
     expect(text).toMatch(/pH\s8\.00 – 8\.40/)
     for (const empty of [
-      'No readings yet.', 'No devices on this tank yet.', 'No watch rules yet.', 'No snoozes: every alert is sent.', 'No incidents on this tank yet.',
-      'No care tasks on this tank.', 'No livestock or plants recorded.',
+      'No readings yet.',
+      'No devices on this tank yet.',
+      'No watch rules yet.',
+      'No snoozes: every alert is sent.',
+      'No incidents on this tank yet.',
+      'No care tasks on this tank.',
+      'No livestock or plants recorded.',
     ]) {
       expect(text).toContain(empty)
     }

@@ -92,7 +92,12 @@ describe('rule form validation', () => {
   it('turns a good draft into the input the server takes, with only the kind’s fields', () => {
     expect(parseRuleDraft(aboveDraft())).toEqual({
       ok: true,
-      input: { name: 'Too warm', severity: 'alarm', enabled: true, spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 } },
+      input: {
+        name: 'Too warm',
+        severity: 'alarm',
+        enabled: true,
+        spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 },
+      },
     })
   })
 
@@ -132,7 +137,9 @@ describe('rule form validation', () => {
     expect(wrapper.findComponent(RuleDialog).emitted('save')).toBeUndefined()
 
     await inDocument('input[name="holdMinutes"]').setValue('10')
-    expect(document.querySelector('[data-test="rule-preview"]')!.textContent).toContain('Warning when temperature is above 28.0 °C for 10 min; clears below 27.5 °C')
+    expect(document.querySelector('[data-test="rule-preview"]')!.textContent).toContain(
+      'Warning when temperature is above 28.0 °C for 10 min; clears below 27.5 °C',
+    )
     await inDocument('.v-dialog form').trigger('submit')
     expect(wrapper.findComponent(RuleDialog).emitted('save')![0]).toEqual([
       { name: 'Too warm', severity: 'warning', enabled: true, spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 } },

@@ -30,18 +30,14 @@ beforeEach(() => {
 
 describe('SignInView', () => {
   it('tells how long to wait when the server rate-limits sign-in', async () => {
-    vi.mocked(signIn).mockRejectedValue(
-      new ApiError({ status: 429, code: 'rate_limited', message: 'Too many requests', retryAfterSeconds: 90 }),
-    )
+    vi.mocked(signIn).mockRejectedValue(new ApiError({ status: 429, code: 'rate_limited', message: 'Too many requests', retryAfterSeconds: 90 }))
     const { wrapper } = await attempt('sam@example.test', 'wrong-password')
 
     expect(wrapper.find('[data-test="sign-in-error"]').text()).toBe('Too many sign-in attempts. Try again in 2 minutes.')
   })
 
   it('counts seconds when the wait is under a minute', async () => {
-    vi.mocked(signIn).mockRejectedValue(
-      new ApiError({ status: 429, code: 'rate_limited', message: 'Too many requests', retryAfterSeconds: 45 }),
-    )
+    vi.mocked(signIn).mockRejectedValue(new ApiError({ status: 429, code: 'rate_limited', message: 'Too many requests', retryAfterSeconds: 45 }))
     const { wrapper } = await attempt('sam@example.test', 'wrong-password')
 
     expect(wrapper.find('[data-test="sign-in-error"]').text()).toBe('Too many sign-in attempts. Try again in 45 seconds.')
@@ -61,7 +57,7 @@ describe('SignInView', () => {
     expect(wrapper.text()).toContain('not an e-mail address')
   })
 
-  it('signs in and goes to the overview (a keeper\'s home)', async () => {
+  it("signs in and goes to the overview (a keeper's home)", async () => {
     vi.mocked(signIn).mockResolvedValue({
       token: 'jwt-token',
       expiresAt: '2030-01-01T00:00:00.000Z',

@@ -17,8 +17,17 @@ const messageUnder = (input: string) =>
   (document.querySelector(`input[name="${input}"]`)?.closest('.v-input')?.querySelector('.v-messages')?.textContent ?? '').trim()
 
 const snooze: PublicSnooze = {
-  id: 31, tankId: 12, reason: 'Moving the tank to the new stand', startsAt: '2026-01-10T09:00:00.000Z', endsAt: '2026-01-10T17:00:00.000Z',
-  weekly: false, repeatUntil: null, includeHeaterLine: false, createdBy: 7, cancelledAt: null, suppresses: ['Temperature alerts'],
+  id: 31,
+  tankId: 12,
+  reason: 'Moving the tank to the new stand',
+  startsAt: '2026-01-10T09:00:00.000Z',
+  endsAt: '2026-01-10T17:00:00.000Z',
+  weekly: false,
+  repeatUntil: null,
+  includeHeaterLine: false,
+  createdBy: 7,
+  cancelledAt: null,
+  suppresses: ['Temperature alerts'],
 }
 
 beforeEach(() => {
@@ -43,7 +52,9 @@ describe('snoozes panel', { timeout: 30_000 }, () => {
   it('shows the server’s message under its field, drops it once the field is edited, then saves and lists again', async () => {
     vi.mocked(listSnoozes).mockResolvedValueOnce([]).mockResolvedValueOnce([snooze])
     vi.mocked(createSnooze)
-      .mockRejectedValueOnce(new ApiError({ status: 400, code: 'invalid_input', message: 'endsAt: overlaps', fields: { endsAt: 'overlaps the snooze already set' } }))
+      .mockRejectedValueOnce(
+        new ApiError({ status: 400, code: 'invalid_input', message: 'endsAt: overlaps', fields: { endsAt: 'overlaps the snooze already set' } }),
+      )
       .mockResolvedValueOnce(snooze)
     const wrapper = await openPanelAndDialog()
     expect(wrapper.text()).toContain('No snoozes: every alert is sent.')

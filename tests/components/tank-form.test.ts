@@ -25,8 +25,7 @@ async function mountForm() {
     await wrapper.find('form').trigger('submit')
     await flushPromises()
   }
-  const messagesFor = (name: string) =>
-    wrapper.find(`input[name="${name}"]`).element.closest('.v-input')?.querySelector('.v-messages')?.textContent?.trim()
+  const messagesFor = (name: string) => wrapper.find(`input[name="${name}"]`).element.closest('.v-input')?.querySelector('.v-messages')?.textContent?.trim()
   return { wrapper, form, fill, submit, messagesFor }
 }
 

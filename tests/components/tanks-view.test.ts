@@ -11,9 +11,7 @@ vi.mock('@/api/tanks', () => ({
   unarchiveTank: vi.fn(),
 }))
 vi.mock('@/api/sites', () => ({
-  listSites: vi.fn(async () => [
-    { id: 3, name: 'Back fish room', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 1 },
-  ]),
+  listSites: vi.fn(async () => [{ id: 3, name: 'Back fish room', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 1 }]),
   createSite: vi.fn(),
   updateSite: vi.fn(),
   archiveSite: vi.fn(),
@@ -68,7 +66,16 @@ function viewportWidth(width: number) {
       const min = px(query, 'min-width')
       const max = px(query, 'max-width')
       const matches = (Number.isNaN(min) || width >= min) && (Number.isNaN(max) || width <= max)
-      return { matches, media: query, onchange: null, addListener: vi.fn(), removeListener: vi.fn(), addEventListener: vi.fn(), removeEventListener: vi.fn(), dispatchEvent: () => false }
+      return {
+        matches,
+        media: query,
+        onchange: null,
+        addListener: vi.fn(),
+        removeListener: vi.fn(),
+        addEventListener: vi.fn(),
+        removeEventListener: vi.fn(),
+        dispatchEvent: () => false,
+      }
     },
   })
 }
@@ -129,8 +136,30 @@ describe('TanksView', () => {
 
   it('shows each open incident with a link to it, and an alarm incident makes the tank an alarm', async () => {
     vi.mocked(listTanks).mockResolvedValue({
-      items: [{ ...tank, status: { ...tank.status, state: 'alarm', openIncidents: [{ id: 9, title: 'Temperature above 30 °C for 10 min', severity: 'alarm', openedAt: readAt, state: 'open', maintenance: false, siteIncidentId: null, flapCount: 0 }] } }],
-      total: 1, page: 1, pageSize: 25,
+      items: [
+        {
+          ...tank,
+          status: {
+            ...tank.status,
+            state: 'alarm',
+            openIncidents: [
+              {
+                id: 9,
+                title: 'Temperature above 30 °C for 10 min',
+                severity: 'alarm',
+                openedAt: readAt,
+                state: 'open',
+                maintenance: false,
+                siteIncidentId: null,
+                flapCount: 0,
+              },
+            ],
+          },
+        },
+      ],
+      total: 1,
+      page: 1,
+      pageSize: 25,
     })
     const { wrapper } = await mountView(TanksView, { role: 'viewer' })
     await flushPromises()

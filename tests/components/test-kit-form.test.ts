@@ -16,8 +16,7 @@ async function mountForm(userId = 7) {
     await wrapper.find('form').trigger('submit')
     await flushPromises()
   }
-  const messagesFor = (name: string) =>
-    wrapper.find(`input[name="${name}"]`).element.closest('.v-input')?.querySelector('.v-messages')?.textContent?.trim()
+  const messagesFor = (name: string) => wrapper.find(`input[name="${name}"]`).element.closest('.v-input')?.querySelector('.v-messages')?.textContent?.trim()
   const noteFor = (metric: string) => wrapper.find(`[data-test="kit-note-${metric}"]`).text()
   return { wrapper, form, fill, submit, messagesFor, noteFor }
 }

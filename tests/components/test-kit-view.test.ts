@@ -5,7 +5,12 @@ import type { PublicTank } from '@shared/schemas/tanks'
 vi.mock('@/api/tanks', () => ({ listTanks: vi.fn(), getTank: vi.fn(), createTank: vi.fn(), updateTank: vi.fn(), archiveTank: vi.fn(), unarchiveTank: vi.fn() }))
 vi.mock('@/api/sites', () => ({ listSites: vi.fn(async () => []), createSite: vi.fn(), updateSite: vi.fn(), archiveSite: vi.fn(), unarchiveSite: vi.fn() }))
 vi.mock('@/api/series', () => ({ getSeries: vi.fn(), getLatest: vi.fn() }))
-vi.mock('@/api/test-kit', () => ({ listTestKitEntries: vi.fn(async () => []), createTestKitEntry: vi.fn(), updateTestKitEntry: vi.fn(), deleteTestKitEntry: vi.fn() }))
+vi.mock('@/api/test-kit', () => ({
+  listTestKitEntries: vi.fn(async () => []),
+  createTestKitEntry: vi.fn(),
+  updateTestKitEntry: vi.fn(),
+  deleteTestKitEntry: vi.fn(),
+}))
 
 import { getLatest } from '@/api/series'
 import { getTank } from '@/api/tanks'
@@ -15,9 +20,26 @@ import TestKitView from '@/views/TestKitView.vue'
 import { mountView } from './mount'
 
 const tank = {
-  id: 12, name: 'Quarantine A', siteId: 3, siteName: 'Back fish room', kind: 'tropical_freshwater', stage: 'quarantine', dimensions: null,
-  volumeLitres: 80, volumeSource: 'entered', substrateDepthCm: 0, heater: null, filter: '', media: '', lightSchedule: null,
-  targets: { ammonia: { min: 0, max: 0.02 }, ph: { min: 6.5, max: 8.5 } }, notes: '', sortOrder: 0, archivedAt: null, createdAt: '2026-01-01T00:00:00.000Z', updatedAt: '2026-01-01T00:00:00.000Z',
+  id: 12,
+  name: 'Quarantine A',
+  siteId: 3,
+  siteName: 'Back fish room',
+  kind: 'tropical_freshwater',
+  stage: 'quarantine',
+  dimensions: null,
+  volumeLitres: 80,
+  volumeSource: 'entered',
+  substrateDepthCm: 0,
+  heater: null,
+  filter: '',
+  media: '',
+  lightSchedule: null,
+  targets: { ammonia: { min: 0, max: 0.02 }, ph: { min: 6.5, max: 8.5 } },
+  notes: '',
+  sortOrder: 0,
+  archivedAt: null,
+  createdAt: '2026-01-01T00:00:00.000Z',
+  updatedAt: '2026-01-01T00:00:00.000Z',
 } as PublicTank
 
 const scrolled = vi.fn()
@@ -46,7 +68,15 @@ describe('TestKitView', () => {
     await wrapper.find('form').trigger('submit')
     await flushPromises()
 
-    expect(createTestKitEntry).toHaveBeenCalledWith(12, expect.objectContaining({ values: [{ metric: 'ph', value: 8, unit: 'pH' }, { metric: 'ammonia', value: 2, unit: 'mg/L' }] }))
+    expect(createTestKitEntry).toHaveBeenCalledWith(
+      12,
+      expect.objectContaining({
+        values: [
+          { metric: 'ph', value: 8, unit: 'pH' },
+          { metric: 'ammonia', value: 2, unit: 'mg/L' },
+        ],
+      }),
+    )
     // 2 mg/L total at pH 8.0 and 20 °C is 3.82 % NH3 = 0.076 mg/L (Emerson et al. 1975 table; from memory).
     const ammonia = wrapper.find('[data-test="insight-ammonia"]').text()
     expect(ammonia).toContain('0.076 mg/L NH₃')
@@ -65,7 +95,12 @@ describe('TestKitView', () => {
 
   it("puts the server's complaint on the right field", async () => {
     vi.mocked(createTestKitEntry).mockRejectedValue(
-      new ApiError({ status: 400, code: 'invalid_input', message: 'Check the values', fields: { 'values.1.value': 'nitrite 40 is above what this kit reads' } }),
+      new ApiError({
+        status: 400,
+        code: 'invalid_input',
+        message: 'Check the values',
+        fields: { 'values.1.value': 'nitrite 40 is above what this kit reads' },
+      }),
     )
     const wrapper = await page()
     await wrapper.find('input[name="ph"]').setValue('7')

@@ -49,7 +49,10 @@ describe('WallDisplaysPanel', () => {
     vi.mocked(revokeWallCredential).mockResolvedValue({ ...tv, revokedAt: '2026-03-03T12:00:00.000Z' })
     const { wrapper } = await mountView(WallDisplaysPanel, { props: { sites: [site] } })
     await flushPromises()
-    await wrapper.findAll('button').find((b) => b.text() === 'Revoke')!.trigger('click')
+    await wrapper
+      .findAll('button')
+      .find((b) => b.text() === 'Revoke')!
+      .trigger('click')
     await flushPromises()
     expect(revokeWallCredential).toHaveBeenCalledWith(5)
     expect(wrapper.find('[data-test="wall-credentials"]').exists()).toBe(false)

@@ -11,7 +11,15 @@ import { mountView } from './mount'
 
 const alarm = wallTank(1, {
   state: 'alarm',
-  openIncident: { id: 9, title: 'Temperature above 30 °C', severity: 'alarm', openedAt: '2026-03-03T11:50:00.000Z', state: 'open', maintenance: false, siteIncidentId: null },
+  openIncident: {
+    id: 9,
+    title: 'Temperature above 30 °C',
+    severity: 'alarm',
+    openedAt: '2026-03-03T11:50:00.000Z',
+    state: 'open',
+    maintenance: false,
+    siteIncidentId: null,
+  },
 })
 let plays = 0
 

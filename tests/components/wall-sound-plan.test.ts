@@ -5,7 +5,10 @@ import { NOW, wallTank } from './fixtures/wall'
 import { mountView } from './mount'
 
 const alarm = (id: number, state: 'open' | 'acknowledged' = 'open', maintenance = false) =>
-  wallTank(id, { state: 'alarm', openIncident: { id: 100 + id, title: 'Too warm', severity: 'alarm', openedAt: new Date(NOW).toISOString(), state, maintenance, siteIncidentId: null } })
+  wallTank(id, {
+    state: 'alarm',
+    openIncident: { id: 100 + id, title: 'Too warm', severity: 'alarm', openedAt: new Date(NOW).toISOString(), state, maintenance, siteIncidentId: null },
+  })
 
 describe('when the wall chimes', () => {
   it('rings for alarms nobody has acknowledged, not for acknowledged ones or ones during maintenance', () => {
@@ -29,8 +32,14 @@ describe('the tile says when it flaps or is in maintenance', () => {
   it('shows the flap count and the maintenance window in the site zone', async () => {
     const { wrapper } = await mountView(WallTile, {
       props: {
-        tank: wallTank(7, { state: 'watch', flapping: { count: 4, title: 'Temperature above 28 °C' }, maintenanceUntil: '2026-03-03T13:30:00.000Z', maintenanceReason: 'Heater swap' }),
-        now: NOW, timeZone: 'Europe/Berlin',
+        tank: wallTank(7, {
+          state: 'watch',
+          flapping: { count: 4, title: 'Temperature above 28 °C' },
+          maintenanceUntil: '2026-03-03T13:30:00.000Z',
+          maintenanceReason: 'Heater swap',
+        }),
+        now: NOW,
+        timeZone: 'Europe/Berlin',
       },
     })
     expect(wrapper.find('[data-test="tile-flapping"]').text()).toBe('Flapping: cleared and came back 4 times')

@@ -56,7 +56,15 @@ describe('WallTile', () => {
   it('shows the open incident and the snooze in the site zone', async () => {
     const wrapper = await tile({
       state: 'alarm',
-      openIncident: { id: 9, title: 'Temperature above 28 °C', severity: 'alarm', openedAt: '2026-03-03T11:40:00.000Z', state: 'open', maintenance: false, siteIncidentId: null },
+      openIncident: {
+        id: 9,
+        title: 'Temperature above 28 °C',
+        severity: 'alarm',
+        openedAt: '2026-03-03T11:40:00.000Z',
+        state: 'open',
+        maintenance: false,
+        siteIncidentId: null,
+      },
       snoozedUntil: '2026-03-03T13:30:00.000Z',
     })
     expect(wrapper.find('[data-test="tile-incident"]').text()).toBe('Temperature above 28 °C')

@@ -50,11 +50,7 @@ describe('WallView', () => {
 
   it('keeps the order the server sent', async () => {
     const payload = wallPayload(3)
-    payload.tanks = [
-      { ...payload.tanks[2]!, state: 'alarm' },
-      { ...payload.tanks[0]!, state: 'watch' },
-      payload.tanks[1]!,
-    ]
+    payload.tanks = [{ ...payload.tanks[2]!, state: 'alarm' }, { ...payload.tanks[0]!, state: 'watch' }, payload.tanks[1]!]
     vi.mocked(getWall).mockResolvedValue(payload)
     const { wrapper } = await mountView(WallView, { props: { siteId: 3 } })
     await flushPromises()

@@ -8,7 +8,12 @@ import { FIRST_LOAD_MS } from './keeper-setup'
 export const SIZES = { desktop: { width: 1280, height: 800 }, phone: { width: 390, height: 844 } }
 export type Size = keyof typeof SIZES
 export type Theme = 'light' | 'dark'
-export const SIZE_THEMES: Array<[Size, Theme]> = [['desktop', 'light'], ['phone', 'light'], ['desktop', 'dark'], ['phone', 'dark']]
+export const SIZE_THEMES: Array<[Size, Theme]> = [
+  ['desktop', 'light'],
+  ['phone', 'light'],
+  ['desktop', 'dark'],
+  ['phone', 'dark'],
+]
 
 export async function newContext(browser: Browser, size: Size, theme: Theme): Promise<BrowserContext> {
   // The app follows the device's colour scheme until someone picks a theme. The page's CSP allows

@@ -32,16 +32,44 @@ beforeAll(async () => {
   const probe = await tankWithProbe(s, owner, siteId, 'Reef display')
   tankId = probe.tankId
   const now = Date.now()
-  expect(await postTemperatures(s, probe.token, [[now - 20 * 60_000, 25.4], [now - 10 * 60_000, 25.6], [now, 25.5]])).toBe(3)
-  expect((await post(`/tanks/${tankId}/care-tasks`, { kind: 'other', title: 'Rinse the filter sponge', recurrence: { kind: 'interval', everyDays: 1 } })).status).toBe(201)
+  expect(
+    await postTemperatures(s, probe.token, [
+      [now - 20 * 60_000, 25.4],
+      [now - 10 * 60_000, 25.6],
+      [now, 25.5],
+    ]),
+  ).toBe(3)
+  expect(
+    (await post(`/tanks/${tankId}/care-tasks`, { kind: 'other', title: 'Rinse the filter sponge', recurrence: { kind: 'interval', everyDays: 1 } })).status,
+  ).toBe(201)
   expect((await post(`/sites/${siteId}/roster/shifts`, { userId: org.users.keeper.id, weekday: 0, start: '00:00', end: '00:00' })).status).toBe(201)
   const at = new Date()
   const incident = await s.ctx.models.Incident.create({
-    organizationId: org.organizationId, siteId, tankId, ruleId: null, ruleKind: 'below', metric: 'ph', severity: 'warning',
-    title: 'pH below 6.0', state: 'open', conditionSince: at, openedAt: at, firstValue: 5.9, peakValue: 5.9, latestValue: 5.9, latestAt: at,
+    organizationId: org.organizationId,
+    siteId,
+    tankId,
+    ruleId: null,
+    ruleKind: 'below',
+    metric: 'ph',
+    severity: 'warning',
+    title: 'pH below 6.0',
+    state: 'open',
+    conditionSince: at,
+    openedAt: at,
+    firstValue: 5.9,
+    peakValue: 5.9,
+    latestValue: 5.9,
+    latestAt: at,
   })
   incidentId = incident.id
-  const ownerActor = { kind: 'user' as const, userId: org.users.owner.id, organizationId: org.organizationId, role: 'owner' as const, siteIds: null, sessionId: 'a11y' }
+  const ownerActor = {
+    kind: 'user' as const,
+    userId: org.users.owner.id,
+    organizationId: org.organizationId,
+    role: 'owner' as const,
+    siteIds: null,
+    sessionId: 'a11y',
+  }
   wallLink = (await wallService(s.ctx).createCredential(ownerActor, siteId, 'Shop wall')).link
 })
 afterAll(async () => {
@@ -86,23 +114,27 @@ describe('every screen meets WCAG 2.1 AA as axe-core checks it', () => {
   })
 
   const visited = new Set<string | null>()
-  it.each(SIZE_THEMES)('at %s size in the %s theme', async (size, theme) => {
-    const found: string[] = []
-    const label = `${size}-${theme}`
-    const context = await newContext(browser, size, theme)
-    const page = await context.newPage()
-    for (const path of SIGNED_OUT) visited.add(await audit(page, label, `${s.baseUrl}${path}`, found))
-    await signIn(page, s.baseUrl, org.users.owner.email)
-    await page.evaluate(`localStorage.setItem('tw.careTodayScope', '${org.siteIds[0]}')`)
-    for (const path of signedInScreens()) visited.add(await audit(page, label, `${s.baseUrl}${path}`, found))
-    await context.close()
+  it.each(SIZE_THEMES)(
+    'at %s size in the %s theme',
+    async (size, theme) => {
+      const found: string[] = []
+      const label = `${size}-${theme}`
+      const context = await newContext(browser, size, theme)
+      const page = await context.newPage()
+      for (const path of SIGNED_OUT) visited.add(await audit(page, label, `${s.baseUrl}${path}`, found))
+      await signIn(page, s.baseUrl, org.users.owner.email)
+      await page.evaluate(`localStorage.setItem('tw.careTodayScope', '${org.siteIds[0]}')`)
+      for (const path of signedInScreens()) visited.add(await audit(page, label, `${s.baseUrl}${path}`, found))
+      await context.close()
 
-    const wallContext = await newContext(browser, size, theme)
-    visited.add(await audit(await wallContext.newPage(), label, new URL(wallLink, s.baseUrl).toString(), found))
-    await wallContext.close()
+      const wallContext = await newContext(browser, size, theme)
+      visited.add(await audit(await wallContext.newPage(), label, new URL(wallLink, s.baseUrl).toString(), found))
+      await wallContext.close()
 
-    expect(found, found.join('\n\n')).toEqual([])
-  }, 240_000)
+      expect(found, found.join('\n\n')).toEqual([])
+    },
+    240_000,
+  )
 
   it('opened every route this file is listed as auditing', () => {
     expect([...visited].sort()).toEqual([...AUDITED_ROUTES['accessibility.test.ts']!].sort())

@@ -4,12 +4,22 @@
 
 export const AUDITED_ROUTES: Record<string, readonly string[]> = {
   'accessibility.test.ts': [
-    'sign-in', 'forgot-password', 'tanks', 'tank', 'tank-test-kit', 'incidents', 'incident', 'care-today', 'roster', 'report', 'sites',
-    'users', 'account', 'wall',
+    'sign-in',
+    'forgot-password',
+    'tanks',
+    'tank',
+    'tank-test-kit',
+    'incidents',
+    'incident',
+    'care-today',
+    'roster',
+    'report',
+    'sites',
+    'users',
+    'account',
+    'wall',
   ],
-  'accessibility-forms.test.ts': [
-    'tank-new', 'tank-edit', 'tank-build', 'import', 'backup', 'dev-mail', 'accept-invite', 'reset-password', 'ack', 'not-found',
-  ],
+  'accessibility-forms.test.ts': ['tank-new', 'tank-edit', 'tank-build', 'import', 'backup', 'dev-mail', 'accept-invite', 'reset-password', 'ack', 'not-found'],
 }
 
 /** Routes no audit opens, each with the reason. Empty: every screen is audited. */

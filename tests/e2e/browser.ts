@@ -13,8 +13,14 @@ export async function launchBrowser(): Promise<{ browser: Browser; close: () => 
     executablePath: process.env.CHROMIUM_PATH || '/usr/bin/chromium',
     headless: true,
     args: [
-      '--no-sandbox', '--disable-gpu', '--disable-dev-shm-usage', '--disable-background-networking', '--disable-component-update',
-      '--disable-sync', '--no-first-run', '--disable-quic',
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-dev-shm-usage',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+      '--no-first-run',
+      '--disable-quic',
     ],
   })
   return {
@@ -55,7 +61,10 @@ export async function signIn(page: Page, baseUrl: string, email: string, passwor
       return
     } catch (error) {
       if (attempt < 2 && !page.isClosed()) continue
-      const alert = await page.locator('[data-test="sign-in-error"]').textContent({ timeout: 1000 }).catch(() => null)
+      const alert = await page
+        .locator('[data-test="sign-in-error"]')
+        .textContent({ timeout: 1000 })
+        .catch(() => null)
       const name = `sign-in-failed-${Date.now()}`
       await shot(page, name).catch(() => undefined)
       throw new Error(

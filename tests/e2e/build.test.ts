@@ -43,13 +43,17 @@ async function addLayer(page: Page, index: number, material: RegExp | null, dept
 const kit = (tankId: number, daysAgo: number, values: Record<string, number>) =>
   api(s, `/tanks/${tankId}/test-kit-entries`, org.users.keeper.token, {
     method: 'POST',
-    body: JSON.stringify({ takenAt: new Date(Date.now() - daysAgo * DAY_MS).toISOString(), values: Object.entries(values).map(([metric, value]) => ({ metric, value, unit: 'mg/L' })) }),
+    body: JSON.stringify({
+      takenAt: new Date(Date.now() - daysAgo * DAY_MS).toISOString(),
+      values: Object.entries(values).map(([metric, value]) => ({ metric, value, unit: 'mg/L' })),
+    }),
   })
 
 describe('building a tank', () => {
   it('plans a 60 × 30 × 36 cm tank, ticks the timeline through cycling and adds the first fish with acclimation', async () => {
     const res = await api(s, '/tanks', org.users.owner.token, {
-      method: 'POST', body: JSON.stringify(sampleTank(org.siteIds[0] as number, { name: 'Lounge 60', kind: 'planted', stage: 'empty', dimensions: TANK_60, heater: null })),
+      method: 'POST',
+      body: JSON.stringify(sampleTank(org.siteIds[0] as number, { name: 'Lounge 60', kind: 'planted', stage: 'empty', dimensions: TANK_60, heater: null })),
     })
     const tankId = res.body.id as number
     const page = await browser.newPage({ viewport: { width: 1280, height: 800 } })
@@ -139,7 +143,10 @@ describe('building a tank', () => {
 
     // The only stage is in, so the build is finished: the next tank of the same size starts from its plan.
     const next = await api(s, '/tanks', org.users.owner.token, {
-      method: 'POST', body: JSON.stringify(sampleTank(org.siteIds[0] as number, { name: 'Lounge 60 (second)', kind: 'planted', stage: 'empty', dimensions: TANK_60, heater: null })),
+      method: 'POST',
+      body: JSON.stringify(
+        sampleTank(org.siteIds[0] as number, { name: 'Lounge 60 (second)', kind: 'planted', stage: 'empty', dimensions: TANK_60, heater: null }),
+      ),
     })
     await page.goto(`${s.baseUrl}/tanks/${next.body.id}/build`)
     await page.locator('[data-test=use-template]').click({ timeout: FIRST_LOAD_MS })

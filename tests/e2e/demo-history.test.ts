@@ -33,7 +33,10 @@ afterAll(async () => {
 
 describe('the seeded demo shop', () => {
   it('charts a month of a demo tank’s readings and lists the week’s incidents', async () => {
-    for (const [name, viewport] of [['desktop', { width: 1280, height: 800 }], ['phone', { width: 390, height: 844 }]] as const) {
+    for (const [name, viewport] of [
+      ['desktop', { width: 1280, height: 800 }],
+      ['phone', { width: 390, height: 844 }],
+    ] as const) {
       const page = await browser.newPage({ viewport })
       await signIn(page, s.baseUrl, DEMO_USERS[0].email, DEMO_PASSWORD)
       await page.goto(`${s.baseUrl}/tanks/${tankId}`)

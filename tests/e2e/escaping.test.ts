@@ -37,11 +37,31 @@ beforeAll(async () => {
   expect((await post(`/sites/${siteId}/roster/shifts`, { userId: org.users.keeper.id, weekday: 0, start: '00:00', end: '00:00' })).status).toBe(201)
   const at = new Date()
   const incident = await s.ctx.models.Incident.create({
-    organizationId: org.organizationId, siteId, tankId, ruleId: null, ruleKind: 'below', metric: 'ph', severity: 'warning',
-    title: named('Incident'), state: 'open', conditionSince: at, openedAt: at, firstValue: 5.9, peakValue: 5.9, latestValue: 5.9, latestAt: at,
+    organizationId: org.organizationId,
+    siteId,
+    tankId,
+    ruleId: null,
+    ruleKind: 'below',
+    metric: 'ph',
+    severity: 'warning',
+    title: named('Incident'),
+    state: 'open',
+    conditionSince: at,
+    openedAt: at,
+    firstValue: 5.9,
+    peakValue: 5.9,
+    latestValue: 5.9,
+    latestAt: at,
   })
   incidentId = incident.id
-  const ownerActor = { kind: 'user' as const, userId: org.users.owner.id, organizationId: org.organizationId, role: 'owner' as const, siteIds: null, sessionId: 'escaping' }
+  const ownerActor = {
+    kind: 'user' as const,
+    userId: org.users.owner.id,
+    organizationId: org.organizationId,
+    role: 'owner' as const,
+    siteIds: null,
+    sessionId: 'escaping',
+  }
   wallLink = (await wallService(s.ctx).createCredential(ownerActor, siteId, named('Wall'))).link
 })
 afterAll(async () => {

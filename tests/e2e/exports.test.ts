@@ -23,10 +23,9 @@ beforeAll(async () => {
   org = await s.createOrg('Backup Org')
   ;({ tankId, deviceId } = await createTankWithDevice(s.ctx, org, 'Plant tank'))
   const twoDaysAgo = new Date(Math.floor((Date.now() - 2 * 86_400_000) / 60_000) * 60_000)
-  await s.ctx.sequelize.query(
-    "INSERT INTO readings (source_key, metric, time, tank_id, value, source) VALUES ($1, 'temperature', $2, $3, 25.25, 'device')",
-    { bind: [`d:${deviceId}`, twoDaysAgo.toISOString(), tankId] },
-  )
+  await s.ctx.sequelize.query("INSERT INTO readings (source_key, metric, time, tank_id, value, source) VALUES ($1, 'temperature', $2, $3, 25.25, 'device')", {
+    bind: [`d:${deviceId}`, twoDaysAgo.toISOString(), tankId],
+  })
 })
 afterAll(async () => {
   rmSync(downloads, { recursive: true, force: true })
@@ -43,7 +42,9 @@ describe('downloads and restore in the browser', () => {
     await page.getByRole('button', { name: 'Last 7 days' }).or(page.getByText('Last 7 days')).first().click()
     const [download] = await Promise.all([page.waitForEvent('download'), page.locator('[data-test="export-download"]').click()])
     expect(download.suggestedFilename()).toMatch(/^tankwarden-readings-plant-tank-\d{4}-\d{2}-\d{2}-to-\d{4}-\d{2}-\d{2}\.csv$/)
-    const lines = readFileSync((await download.path())!, 'utf8').trimEnd().split('\r\n')
+    const lines = readFileSync((await download.path())!, 'utf8')
+      .trimEnd()
+      .split('\r\n')
     expect(lines[0]).toBe('time,tank,metric,value,unit,source')
     expect(lines).toHaveLength(2)
     // The fixture's site is in Europe/Berlin: +01:00 in winter, +02:00 in summer.
@@ -72,7 +73,13 @@ describe('downloads and restore in the browser', () => {
     await s.ctx.models.Organization.destroy({ where: { id: org.organizationId } })
     const fresh = await s.ctx.models.Organization.create({ name: 'Empty org' })
     const email = `restorer-${process.pid}@backup-org.example`
-    await s.ctx.models.User.create({ organizationId: fresh.id, email, name: 'Restoring owner', role: 'owner', passwordHash: await bcrypt.hash(TEST_PASSWORD, 4) })
+    await s.ctx.models.User.create({
+      organizationId: fresh.id,
+      email,
+      name: 'Restoring owner',
+      role: 'owner',
+      passwordHash: await bcrypt.hash(TEST_PASSWORD, 4),
+    })
 
     const restorer = await browser.newPage({ viewport: { width: 1440, height: 1000 } })
     await signIn(restorer, s.baseUrl, email)

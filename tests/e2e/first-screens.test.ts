@@ -30,7 +30,9 @@ async function newTank(name: string, siteId = org.siteIds[0] as number) {
 type Task = { id: number; title: string; lastDoneAt: string | null }
 const tasksOf = async (tankId: number) => (await api(s, `/tanks/${tankId}/care-tasks`, org.users.owner.token)).body as Task[]
 const taskDoneLogs = async (tankId: number) =>
-  ((await api(s, `/tanks/${tankId}/care-log`, org.users.owner.token)).body as Array<{ kind: string; careTaskId: number | null }>).filter((e) => e.kind === 'task_done')
+  ((await api(s, `/tanks/${tankId}/care-log`, org.users.owner.token)).body as Array<{ kind: string; careTaskId: number | null }>).filter(
+    (e) => e.kind === 'task_done',
+  )
 
 /** Where an element sits in the page's viewport (boundingBox is relative to it). */
 async function inViewport(page: Page, selector: string) {
@@ -72,7 +74,9 @@ describe('Care today for someone on duty nowhere', () => {
     await button.click()
     const notice = await page.locator('[data-test=care-today-notice]').innerText()
     expect(notice).toContain('1 task done.')
-    expect(notice).toMatch(new RegExp(`${first.title} on Room tank 1 was already done by owner of First Screens Org at \\d{1,2} \\w{3}, \\d{2}:\\d{2} (EST|EDT|GMT-[45])`))
+    expect(notice).toMatch(
+      new RegExp(`${first.title} on Room tank 1 was already done by owner of First Screens Org at \\d{1,2} \\w{3}, \\d{2}:\\d{2} (EST|EDT|GMT-[45])`),
+    )
     expect(await page.locator(`[data-test=care-task-${first.id}]`).count()).toBe(0)
     expect(await page.locator(`[data-test=care-task-${second.id}]`).count()).toBe(0)
     expect(await page.locator('[data-test=care-task-place]').count()).toBe(places.length - 2)

@@ -15,7 +15,14 @@ beforeAll(async () => {
   b = await launchBrowser()
   browser = b.browser
   org = await s.createOrg('Browser Org')
-  const owner = { kind: 'user' as const, userId: org.users.owner.id, organizationId: org.organizationId, role: 'owner' as const, siteIds: null, sessionId: 'seed' }
+  const owner = {
+    kind: 'user' as const,
+    userId: org.users.owner.id,
+    organizationId: org.organizationId,
+    role: 'owner' as const,
+    siteIds: null,
+    sessionId: 'seed',
+  }
   for (const name of ['Display tank', 'Quarantine tub']) {
     await tanksService(s.ctx).create(owner, sampleTank(org.siteIds[0], { name }) as never)
   }
@@ -32,7 +39,12 @@ describe('signing in and the tanks table, in Chromium', () => {
     await page.goto(`${s.baseUrl}/tanks`)
     await expect.poll(() => page.getByText('Display tank').count()).toBeGreaterThan(0)
     expect(await page.getByText('Quarantine tub').count()).toBeGreaterThan(0)
-    expect(await page.getByRole('link', { name: /New tank/ }).or(page.getByRole('button', { name: /New tank/ })).count()).toBeGreaterThan(0)
+    expect(
+      await page
+        .getByRole('link', { name: /New tank/ })
+        .or(page.getByRole('button', { name: /New tank/ }))
+        .count(),
+    ).toBeGreaterThan(0)
     await shot(page, 'tanks-owner')
     await page.close()
   })
@@ -45,7 +57,11 @@ describe('signing in and the tanks table, in Chromium', () => {
     expect(await page.getByText('New tank').count()).toBe(0)
     const status = await page.evaluate(async (siteId) => {
       const token = (globalThis as unknown as { localStorage: { getItem(k: string): string | null } }).localStorage.getItem('tw.token')
-      const res = await fetch('/api/v1/tanks', { method: 'POST', headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` }, body: JSON.stringify({ name: 'x', siteId, kind: 'marine', stage: 'established', volumeLitres: 10 }) })
+      const res = await fetch('/api/v1/tanks', {
+        method: 'POST',
+        headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` },
+        body: JSON.stringify({ name: 'x', siteId, kind: 'marine', stage: 'established', volumeLitres: 10 }),
+      })
       return res.status
     }, org.siteIds[0])
     expect(status).toBe(403)

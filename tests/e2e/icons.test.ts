@@ -41,9 +41,9 @@ afterAll(async () => {
 
 /** Every Vuetify icon on the page whose SVG path is missing or empty, by its classes. */
 function iconsWithoutPath(page: Page): Promise<string[]> {
-  return page.locator('.v-icon').evaluateAll((icons) =>
-    icons.filter((icon) => (icon.querySelector('svg path')?.getAttribute('d') ?? '').length < 10).map((icon) => icon.className),
-  )
+  return page
+    .locator('.v-icon')
+    .evaluateAll((icons) => icons.filter((icon) => (icon.querySelector('svg path')?.getAttribute('d') ?? '').length < 10).map((icon) => icon.className))
 }
 
 describe('icons drawn as SVG paths', () => {

@@ -50,7 +50,10 @@ describe('importing a CSV file in the browser', () => {
     expect(await page.locator('[data-test=time-format]').textContent()).toContain('ISO 8601 with offset')
     expect(await page.locator('[data-test=import-expiry]').textContent()).toContain('not started within 24 hours is deleted')
     await shot(page, 'import-mapping')
-    for (const [name, viewport] of [['import-expiry-desktop', { width: 1280, height: 800 }], ['import-expiry-phone', { width: 390, height: 844 }]] as const) {
+    for (const [name, viewport] of [
+      ['import-expiry-desktop', { width: 1280, height: 800 }],
+      ['import-expiry-phone', { width: 390, height: 844 }],
+    ] as const) {
       await page.setViewportSize(viewport)
       await page.locator('[data-test=import-expiry]').scrollIntoViewIfNeeded()
       await shot(page, name)
@@ -85,7 +88,9 @@ describe('importing a CSV file in the browser', () => {
     expect(text.split('\n')[1]).toMatch(/^12,bad_number,"""n\/a"" is not a number",Water temp \(°F\),n\/a,/)
     expect(await page.locator('[data-test=import-error]').count()).toBe(0)
 
-    const [{ n }] = (await s.ctx.sequelize.query('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1 AND source = $2', { bind: [tankId, 'import'] }))[0] as Array<{ n: number }>
+    const [{ n }] = (
+      await s.ctx.sequelize.query('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1 AND source = $2', { bind: [tankId, 'import'] })
+    )[0] as Array<{ n: number }>
     expect(n).toBe(ROWS - 1)
     await page.close()
   }, 180_000)

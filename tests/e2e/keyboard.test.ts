@@ -24,8 +24,21 @@ beforeAll(async () => {
   tankId = (await tankWithProbe(s, org.users.owner.token, org.siteIds[0], 'Planted nano')).tankId
   const at = new Date()
   const incident = await s.ctx.models.Incident.create({
-    organizationId: org.organizationId, siteId: org.siteIds[0], tankId, ruleId: null, ruleKind: 'below', metric: 'ph', severity: 'warning',
-    title: 'pH below 6.0', state: 'open', conditionSince: at, openedAt: at, firstValue: 5.9, peakValue: 5.9, latestValue: 5.9, latestAt: at,
+    organizationId: org.organizationId,
+    siteId: org.siteIds[0],
+    tankId,
+    ruleId: null,
+    ruleKind: 'below',
+    metric: 'ph',
+    severity: 'warning',
+    title: 'pH below 6.0',
+    state: 'open',
+    conditionSince: at,
+    openedAt: at,
+    firstValue: 5.9,
+    peakValue: 5.9,
+    latestValue: 5.9,
+    latestAt: at,
   })
   incidentId = incident.id
   const task = await api(s, `/tanks/${tankId}/care-tasks`, org.users.owner.token, {
@@ -75,7 +88,10 @@ async function tabTo(page: Page, name: string, maxStops = 80) {
   }
   const last = stops.at(-1)
   expect(last?.name, `Tab never reached "${name}"; stops: ${stops.map((f) => f.name).join(' → ')}`).toBe(name)
-  expect(stops.filter((f) => !f.visible).map((f) => `${f.tag} "${f.name}"`), 'controls without a visible focus').toEqual([])
+  expect(
+    stops.filter((f) => !f.visible).map((f) => `${f.tag} "${f.name}"`),
+    'controls without a visible focus',
+  ).toEqual([])
 }
 
 async function signInByKeyboard(page: Page, email: string) {

@@ -121,13 +121,20 @@ describe('the acknowledge link of an alert mail', () => {
     const site = org.siteIds[0] as number
     for (let weekday = 0; weekday < 7; weekday++) {
       const shift = await api(s, `/sites/${site}/roster/shifts`, org.users.owner.token, {
-        method: 'POST', body: JSON.stringify({ userId: org.users.keeper.id, weekday, start: '00:00', end: '00:00' }),
+        method: 'POST',
+        body: JSON.stringify({ userId: org.users.keeper.id, weekday, start: '00:00', end: '00:00' }),
       })
       expect(shift.status).toBe(201)
     }
     const probe = await tankWithProbe(s, org.users.owner.token, site, 'Reef display')
     const t0 = Date.now() - 20 * MIN
-    expect(await postTemperatures(s, probe.token, Array.from({ length: 13 }, (_, i) => [t0 + i * MIN, 28.4 + i * 0.1]))).toBe(13)
+    expect(
+      await postTemperatures(
+        s,
+        probe.token,
+        Array.from({ length: 13 }, (_, i) => [t0 + i * MIN, 28.4 + i * 0.1]),
+      ),
+    ).toBe(13)
     await s.rules.engine.settle()
     const mail = await waitForMailTo(org.users.keeper.email, /^Alarm: temperature/)
     const link = atApp(/(http:\/\/\S+\/ack\?token=[\w-]+)/.exec(mail.text_body)![1]!)

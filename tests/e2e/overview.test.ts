@@ -37,8 +37,8 @@ async function openOverview(width: number, height: number) {
   return page
 }
 
-describe('the owner\'s overview', () => {
-  it('is the owner\'s home after sign-in and tells the night, today and the tank states', async () => {
+describe("the owner's overview", () => {
+  it("is the owner's home after sign-in and tells the night, today and the tank states", async () => {
     const page = await openOverview(1280, 800)
     await shot(page, 'overview-desktop')
     await card(page).scrollIntoViewIfNeeded()
@@ -77,24 +77,25 @@ describe('the owner\'s overview', () => {
     await page.close()
   })
 
-  it('follows an acknowledgement live, and its strip opens the site\'s wall', async () => {
+  it("follows an acknowledgement live, and its strip opens the site's wall", async () => {
     const page = await openOverview(390, 844)
     await shot(page, 'overview-phone')
     await card(page).scrollIntoViewIfNeeded()
     await shot(page, 'overview-site-phone')
     const open = await api(s, `/incidents?tankId=${night.tankIds.reef2}`, org.users.keeper.token)
     const incidentId = open.body.items[0].id as number
-    const ack = await api(s, `/incidents/${incidentId}/acknowledge`, org.users.keeper.token, { method: 'POST', body: JSON.stringify({ note: 'Dosing buffer' }) })
+    const ack = await api(s, `/incidents/${incidentId}/acknowledge`, org.users.keeper.token, {
+      method: 'POST',
+      body: JSON.stringify({ note: 'Dosing buffer' }),
+    })
     expect(ack.status).toBe(200)
-    await expect
-      .poll(async () => (await lines(page, 'overview-incident'))[2], { timeout: 20_000 })
-      .toContain(`acknowledged by ${KEEPER} after`)
+    await expect.poll(async () => (await lines(page, 'overview-incident'))[2], { timeout: 20_000 }).toContain(`acknowledged by ${KEEPER} after`)
     await card(page).locator('[data-test="overview-strip"]').click()
     await page.waitForURL((url) => url.pathname === `/wall/${org.siteIds[0]}`, { timeout: FIRST_LOAD_MS })
     await page.close()
   })
 
-  it('is not a viewer\'s home: a viewer still lands on the tanks', async () => {
+  it("is not a viewer's home: a viewer still lands on the tanks", async () => {
     const page = await browser.newPage({ viewport: { width: 1280, height: 800 } })
     await signIn(page, s.baseUrl, org.users.viewer.email)
     await page.waitForURL((url) => url.pathname === '/tanks', { timeout: FIRST_LOAD_MS })

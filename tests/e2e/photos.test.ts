@@ -24,7 +24,9 @@ const WAIT = { timeout: 30_000 }
 
 /** A JPEG with a coloured band, big enough that the display size is a real downscale. */
 const picture = (width: number, height: number, rgb: [number, number, number]) =>
-  sharp({ create: { width, height, channels: 3, background: { r: rgb[0], g: rgb[1], b: rgb[2] } } }).jpeg().toBuffer()
+  sharp({ create: { width, height, channels: 3, background: { r: rgb[0], g: rgb[1], b: rgb[2] } } })
+    .jpeg()
+    .toBuffer()
 
 async function uploadThroughApi(token: string, image: Buffer, fields: Record<string, string>) {
   const form = new FormData()
@@ -69,7 +71,10 @@ beforeAll(async () => {
   })
   expect(tank.status).toBe(201)
   tankId = ((await tank.json()) as { id: number }).id
-  await uploadThroughApi(org.users.owner.token, await picture(1200, 900, [30, 120, 90]), { caption: 'Before the trim', takenAt: new Date(Date.now() - 3 * 86_400_000).toISOString() })
+  await uploadThroughApi(org.users.owner.token, await picture(1200, 900, [30, 120, 90]), {
+    caption: 'Before the trim',
+    takenAt: new Date(Date.now() - 3 * 86_400_000).toISOString(),
+  })
 })
 afterAll(async () => {
   await b?.close()
@@ -98,7 +103,9 @@ describe('the photo timeline on the tank page', () => {
 
     // Upload from the timeline.
     await page.locator('[data-test=photo-add]').click()
-    await page.locator('.v-dialog [data-test=photo-input]').setInputFiles({ name: 'whatever.png', mimeType: 'image/png', buffer: await picture(2000, 1000, [200, 80, 40]) })
+    await page
+      .locator('.v-dialog [data-test=photo-input]')
+      .setInputFiles({ name: 'whatever.png', mimeType: 'image/png', buffer: await picture(2000, 1000, [200, 80, 40]) })
     await page.locator('.v-dialog [data-test=photo-caption] input').fill('New driftwood')
     await page.locator('[data-test=photo-upload-save]').click()
     await expect.poll(async () => (await rows()).length, WAIT).toBe(2)
@@ -109,7 +116,9 @@ describe('the photo timeline on the tank page', () => {
     // A care-log entry with a photo: linked, and the viewer names the entry.
     await page.locator('[data-test=care-log-add]').click()
     await page.locator('.v-dialog textarea[name=text]').fill('Cleaned the front glass')
-    await page.locator('.v-dialog [data-test=photo-input]').setInputFiles({ name: 'glass.jpg', mimeType: 'image/jpeg', buffer: await picture(800, 600, [10, 40, 160]) })
+    await page
+      .locator('.v-dialog [data-test=photo-input]')
+      .setInputFiles({ name: 'glass.jpg', mimeType: 'image/jpeg', buffer: await picture(800, 600, [10, 40, 160]) })
     await page.locator('[data-test=log-save]').click()
     await expect.poll(async () => (await rows()).length, WAIT).toBe(3)
     const logged = (await rows())[2]!
@@ -123,7 +132,13 @@ describe('the photo timeline on the tank page', () => {
 
     // Marking a care task done, with a photo.
     await page.locator('[data-test=care-task-done-notes]').first().click()
-    await page.locator('.v-dialog [data-test=photo-input]').setInputFiles({ name: 'done.webp', mimeType: 'image/webp', buffer: await sharp(await picture(640, 480, [90, 90, 20])).webp().toBuffer() })
+    await page.locator('.v-dialog [data-test=photo-input]').setInputFiles({
+      name: 'done.webp',
+      mimeType: 'image/webp',
+      buffer: await sharp(await picture(640, 480, [90, 90, 20]))
+        .webp()
+        .toBuffer(),
+    })
     await page.locator('[data-test=done-save]').click()
     await expect.poll(async () => (await rows()).length, WAIT).toBe(4)
     const done = (await rows())[3]!

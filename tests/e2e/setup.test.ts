@@ -119,7 +119,14 @@ describe('a business starting for real', () => {
     const res = await fetch(`${s.baseUrl}/api/v1/setup`, {
       method: 'POST',
       headers: { 'content-type': 'application/json' },
-      body: JSON.stringify({ businessName: 'Intruder', ownerName: 'X', email: 'x@intruder.example', password: 'another-long-password', siteName: 'Y', timeZone: 'UTC' }),
+      body: JSON.stringify({
+        businessName: 'Intruder',
+        ownerName: 'X',
+        email: 'x@intruder.example',
+        password: 'another-long-password',
+        siteName: 'Y',
+        timeZone: 'UTC',
+      }),
     })
     expect(res.status).toBe(409)
     const stranger = await browser.newPage({ viewport: { width: 390, height: 844 } })

@@ -30,7 +30,10 @@ beforeAll(async () => {
        FROM generate_series(0, ${2 * DAY_MINUTES - 1}) AS m`,
     { bind: [tankId, tank.deviceId] },
   )
-  const [row] = await s.ctx.sequelize.query<{ n: number }>('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1', { bind: [tankId], type: QueryTypes.SELECT })
+  const [row] = await s.ctx.sequelize.query<{ n: number }>('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1', {
+    bind: [tankId],
+    type: QueryTypes.SELECT,
+  })
   stored = row!.n
   expect(stored).toBe(2 * DAY_MINUTES)
 })
@@ -115,7 +118,10 @@ describe('the tank page and the test kit, for a keeper', () => {
     const answer = await saved
     expect(answer.status()).toBe(201)
     const entry = (await answer.json()) as { id: number; values: Array<{ metric: string; value: number; unit: string }> }
-    expect(entry.values.map((v) => [v.metric, v.value, v.unit]).sort()).toEqual([['ammonia', 0.25, 'mg/L'], ['ph', 7.1, 'pH']])
+    expect(entry.values.map((v) => [v.metric, v.value, v.unit]).sort()).toEqual([
+      ['ammonia', 0.25, 'mg/L'],
+      ['ph', 7.1, 'pH'],
+    ])
 
     await page.locator('[data-test=kit-saved]').waitFor()
     const insights = page.locator('[data-test=kit-insights]')

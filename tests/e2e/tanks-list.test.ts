@@ -59,10 +59,16 @@ beforeAll(async () => {
   await tankWithNode('Quiet tank', 5)
   await post('Quiet tank', [[now, 'temperature', 25.2]])
   await tankWithNode('Steady tank', 600)
-  await post('Steady tank', [[now - 3 * MINUTE_MS, 'temperature', 25.5], [now - 3 * MINUTE_MS, 'ph', 7.0]])
+  await post('Steady tank', [
+    [now - 3 * MINUTE_MS, 'temperature', 25.5],
+    [now - 3 * MINUTE_MS, 'ph', 7.0],
+  ])
   await tankWithNode('Watch tank', 600)
   // Ten minutes old: within the starter rule's 15 minutes of allowed silence.
-  await post('Watch tank', [[now - 10 * MINUTE_MS, 'temperature', 27.8], [now - 10 * MINUTE_MS, 'ph', 7.1]])
+  await post('Watch tank', [
+    [now - 10 * MINUTE_MS, 'temperature', 27.8],
+    [now - 10 * MINUTE_MS, 'ph', 7.1],
+  ])
   await tankWithNode('Alarm tank', 600)
   await post('Alarm tank', heaterStuckOn(now - 8 * MINUTE_MS))
   await s.rules.engine.settle()
@@ -81,7 +87,8 @@ afterAll(async () => {
 
 const row = (page: Page, name: string) => page.locator('tbody tr', { has: page.locator(`[data-tank="${name}"]`) })
 // textContent: the state word is drawn in capitals by CSS, and innerText would report them.
-const text = async (page: Page, name: string, test: string) => ((await row(page, name).locator(`[data-test=${test}]`).first().textContent()) ?? '').replace(/\s+/g, ' ').trim()
+const text = async (page: Page, name: string, test: string) =>
+  ((await row(page, name).locator(`[data-test=${test}]`).first().textContent()) ?? '').replace(/\s+/g, ' ').trim()
 const iconOf = (page: Page, name: string) => row(page, name).locator('[data-test=tank-state-icon]').getAttribute('class')
 
 /** How wide the page's content is: wider than the window means scrolling sideways. */
@@ -208,7 +215,10 @@ describe('the tanks list, for a keeper', () => {
     await panel.locator('input[name=amount]').waitFor({ timeout: FIRST_LOAD_MS })
     // 100 × 40 × 50 cm inside holds 200 L to the rim; with no water-level reading the planner assumes
     // 90 % of the height, 45 cm, so 100 × 40 × 45 cm = 180 L of water over a bare floor.
-    const fact = page.locator('div', { has: page.getByText('Tank volume', { exact: true }) }).filter({ hasText: 'to the rim' }).last()
+    const fact = page
+      .locator('div', { has: page.getByText('Tank volume', { exact: true }) })
+      .filter({ hasText: 'to the rim' })
+      .last()
     expect((await fact.innerText()).replace(/\s+/g, ' ').trim()).toBe('Tank volume 200 L to the rim, from inside dimensions')
     await panel.locator('input[name=amount]').fill('12')
     await panel.locator('[data-test=water-change-plan-button]').click()

@@ -91,10 +91,12 @@ describe('a wall display signed in with its own key', () => {
     await page.close()
     await display.close()
 
-    await expect.poll(async () => {
-      const list = await api(s, `/sites/${shopId}/wall-credentials`, org.users.owner.token)
-      return list.body.find((c: { name: string }) => c.name === 'Shop TV')?.lastUsedAt ?? null
-    }).not.toBeNull()
+    await expect
+      .poll(async () => {
+        const list = await api(s, `/sites/${shopId}/wall-credentials`, org.users.owner.token)
+        return list.body.find((c: { name: string }) => c.name === 'Shop TV')?.lastUsedAt ?? null
+      })
+      .not.toBeNull()
   })
 
   it('answers 401 to the key everywhere but its own wall', async () => {

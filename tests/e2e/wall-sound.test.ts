@@ -50,7 +50,13 @@ describe('the wall can be heard', () => {
 
     // A heater stuck on: above 28 °C for 12 minutes trips the starter alarm rule.
     const t0 = Date.now() - 14 * MINUTE_MS
-    expect(await postTemperatures(s, hot.token, Array.from({ length: 13 }, (_, i): [number, number] => [t0 + i * MINUTE_MS, 28.6 + i * 0.1]))).toBe(13)
+    expect(
+      await postTemperatures(
+        s,
+        hot.token,
+        Array.from({ length: 13 }, (_, i): [number, number] => [t0 + i * MINUTE_MS, 28.6 + i * 0.1]),
+      ),
+    ).toBe(13)
     await s.rules.engine.settle()
     await expect.poll(plays, { timeout: 15_000, interval: 200 }).toBe(1)
     expect(await page.locator('article[data-state=alarm]').count()).toBe(1)
@@ -77,11 +83,18 @@ describe('planned quiet on the roster and the wall', () => {
     const owner = org.users.owner.token
     const now = Date.now()
     const created = await api(s, `/sites/${siteId}/maintenance-windows`, owner, {
-      method: 'POST', body: JSON.stringify({ reason: 'Filter service', repeat: 'once', startsAt: new Date(now - 10 * MINUTE_MS).toISOString(), endsAt: new Date(now + 50 * MINUTE_MS).toISOString() }),
+      method: 'POST',
+      body: JSON.stringify({
+        reason: 'Filter service',
+        repeat: 'once',
+        startsAt: new Date(now - 10 * MINUTE_MS).toISOString(),
+        endsAt: new Date(now + 50 * MINUTE_MS).toISOString(),
+      }),
     })
     expect(created.status).toBe(201)
     const weekly = await api(s, `/sites/${siteId}/maintenance-windows`, owner, {
-      method: 'POST', body: JSON.stringify({ reason: 'Weekly glass polish', repeat: 'weekly', weekday: 1, start: '09:00', durationMinutes: 90 }),
+      method: 'POST',
+      body: JSON.stringify({ reason: 'Weekly glass polish', repeat: 'weekly', weekday: 1, start: '09:00', durationMinutes: 90 }),
     })
     expect(weekly.status).toBe(201)
     const page = await browser.newPage({ viewport: { width: 1280, height: 800 } })
@@ -108,7 +121,10 @@ describe('planned quiet on the roster and the wall', () => {
 describe('the rule dialog', () => {
   it('sets the settle window and says in plain words what a missing reading means', async () => {
     const tank = await tankWithProbe(s, org.users.owner.token, siteId, 'Rule dialog tank', 5)
-    for (const viewport of [{ width: 1280, height: 800 }, { width: 390, height: 844 }]) {
+    for (const viewport of [
+      { width: 1280, height: 800 },
+      { width: 390, height: 844 },
+    ]) {
       const page = await browser.newPage({ viewport })
       await signIn(page, s.baseUrl, org.users.owner.email)
       await page.goto(`${s.baseUrl}/tanks/${tank.tankId}`)

@@ -4,7 +4,18 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { readingsTopic } from '@shared/ingest/contract'
 import type { TestOrg } from '../helpers/fixtures'
 import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'
-import { api, backgroundOf, FIRST_LOAD_MS, liveSubscribed, MINUTE_MS, postTemperatures, tankWithProbe, waitForRuleLeader, writeStorage, type App } from './keeper-setup'
+import {
+  api,
+  backgroundOf,
+  FIRST_LOAD_MS,
+  liveSubscribed,
+  MINUTE_MS,
+  postTemperatures,
+  tankWithProbe,
+  waitForRuleLeader,
+  writeStorage,
+  type App,
+} from './keeper-setup'
 
 let s: App
 let b: Awaited<ReturnType<typeof launchBrowser>>
@@ -98,7 +109,11 @@ describe('the wall of a site, for a keeper at a 1920×1080 screen', () => {
 
     const probe = probes.get('Betta row')!
     const client = await mqtt.connectAsync(s.mqttUrl, {
-      username: String(probe.deviceId), password: probe.token, reconnectPeriod: 0, connectTimeout: 5000, clientId: `wall-e2e-${process.pid}`,
+      username: String(probe.deviceId),
+      password: probe.token,
+      reconnectPeriod: 0,
+      connectTimeout: 5000,
+      clientId: `wall-e2e-${process.pid}`,
     })
     try {
       const started = Date.now()

@@ -28,7 +28,10 @@ afterAll(async () => {
 })
 
 async function newTank(name: string, overrides: Record<string, unknown> = {}) {
-  const res = await api(s, '/tanks', org.users.owner.token, { method: 'POST', body: JSON.stringify(sampleTank(org.siteIds[0] as number, { name, ...overrides })) })
+  const res = await api(s, '/tanks', org.users.owner.token, {
+    method: 'POST',
+    body: JSON.stringify(sampleTank(org.siteIds[0] as number, { name, ...overrides })),
+  })
   if (res.status !== 201) throw new Error(`tank ${name}: ${res.status} ${JSON.stringify(res.body)}`)
   return res.body.id as number
 }
@@ -40,9 +43,13 @@ const temperatures = (tankId: number) =>
     { bind: [tankId] },
   )
 const temporaryRules = async (tankId: number) =>
-  ((await api(s, `/tanks/${tankId}/rules`, org.users.keeper.token)).body as Array<{ id: number; name: string; enabled: boolean; spec: { kind: string } }>).filter((r) => r.name === TEMPORARY_RULE_NAME)
+  (
+    (await api(s, `/tanks/${tankId}/rules`, org.users.keeper.token)).body as Array<{ id: number; name: string; enabled: boolean; spec: { kind: string } }>
+  ).filter((r) => r.name === TEMPORARY_RULE_NAME)
 const waterTask = async (tankId: number) =>
-  ((await api(s, `/tanks/${tankId}/care-tasks`, org.users.keeper.token)).body as Array<{ kind: string; lastDoneAt: string | null; due: { status: string } }>).find((t) => t.kind === 'water_change')!
+  (
+    (await api(s, `/tanks/${tankId}/care-tasks`, org.users.keeper.token)).body as Array<{ kind: string; lastDoneAt: string | null; due: { status: string } }>
+  ).find((t) => t.kind === 'water_change')!
 
 async function plan(page: Page, percent: string) {
   const panel = page.locator('[data-test=water-change-panel]')
@@ -94,7 +101,11 @@ describe('a water change from the tank page', () => {
     await panel.locator('[data-test=water-change-notice]').waitFor()
     expect(await panel.locator('[data-test=water-change-notice]').innerText()).toContain('70 L replaced')
 
-    const log = (await api(s, `/tanks/${tankId}/care-log`, org.users.keeper.token)).body as Array<{ kind: string; values: Record<string, number>; waterChangeId: number | null }>
+    const log = (await api(s, `/tanks/${tankId}/care-log`, org.users.keeper.token)).body as Array<{
+      kind: string
+      values: Record<string, number>
+      waterChangeId: number | null
+    }>
     expect(log.filter((e) => e.kind === 'water_change')).toMatchObject([{ values: { litres: 70, dechlorinatorMl: 14 }, waterChangeId: change.id }])
     const task = await waterTask(tankId)
     expect(task.lastDoneAt).not.toBeNull()
@@ -157,17 +168,37 @@ describe('care screens with real data', () => {
     const showTank = await newTank('Care today show tank')
     const cycling = await newTank('Cycling tank C1', { stage: 'cycling' })
     const quarantine = await newTank('Quarantine Q3', { stage: 'quarantine' })
-    await s.ctx.sequelize.query('UPDATE tanks SET stage_changed_at = now() - interval \'5 days 1 hour\' WHERE id = $1', { bind: [quarantine] })
+    await s.ctx.sequelize.query("UPDATE tanks SET stage_changed_at = now() - interval '5 days 1 hour' WHERE id = $1", { bind: [quarantine] })
     // A month of kit tests, one every second day: ammonia peaks, then nitrite, then both read zero
     // for the last 10 days with nitrate present (the 7-day rule of shared/care/cycling, common practice).
     const tests: Array<[number, number, number, number]> = [
-      [30, 1, 0, 0], [28, 3, 0.25, 0], [26, 4, 1, 2], [24, 2, 3, 5], [22, 0.5, 4, 10], [20, 0.25, 2, 15],
-      [18, 0, 1, 20], [16, 0, 0.5, 20], [14, 0, 0.25, 25], [10, 0, 0, 25], [8, 0, 0, 30], [6, 0, 0, 30], [4, 0, 0, 30], [2, 0, 0, 35], [0, 0, 0, 35],
+      [30, 1, 0, 0],
+      [28, 3, 0.25, 0],
+      [26, 4, 1, 2],
+      [24, 2, 3, 5],
+      [22, 0.5, 4, 10],
+      [20, 0.25, 2, 15],
+      [18, 0, 1, 20],
+      [16, 0, 0.5, 20],
+      [14, 0, 0.25, 25],
+      [10, 0, 0, 25],
+      [8, 0, 0, 30],
+      [6, 0, 0, 30],
+      [4, 0, 0, 30],
+      [2, 0, 0, 35],
+      [0, 0, 0, 35],
     ]
     for (const [daysAgo, nh3, no2, no3] of tests) {
       const at = new Date(Date.now() - daysAgo * DAY_MS - 3_600_000)
-      for (const [metric, value] of [['ammonia', nh3], ['nitrite', no2], ['nitrate', no3]] as const) {
-        await s.ctx.sequelize.query(`INSERT INTO readings (source_key, metric, time, tank_id, value, source) VALUES ('i:e2e-cycle', $1, $2, $3, $4, 'import')`, { bind: [metric, at, cycling, value] })
+      for (const [metric, value] of [
+        ['ammonia', nh3],
+        ['nitrite', no2],
+        ['nitrate', no3],
+      ] as const) {
+        await s.ctx.sequelize.query(
+          `INSERT INTO readings (source_key, metric, time, tank_id, value, source) VALUES ('i:e2e-cycle', $1, $2, $3, $4, 'import')`,
+          { bind: [metric, at, cycling, value] },
+        )
       }
     }
 

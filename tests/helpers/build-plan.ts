@@ -16,8 +16,17 @@ export const PLAN_60 = {
     { material: 'nutrient_soil', depthCm: 4, bagLitres: 3 },
     { material: 'gravel', depthCm: 1, bagLitres: 2 },
   ],
-  hardscape: [{ kind: 'rock', kg: 5, label: 'Grey stone' }, { kind: 'wood', litres: 1, label: 'Root' }],
-  water: { conditioner: 'Tap-water conditioner', labelRate: { amount: 5, unit: 'mL', per: '10L' }, startPh: 7.6, temperature: { min: 24, max: 26 }, ph: { min: 6.8, max: 7.2 } },
+  hardscape: [
+    { kind: 'rock', kg: 5, label: 'Grey stone' },
+    { kind: 'wood', litres: 1, label: 'Root' },
+  ],
+  water: {
+    conditioner: 'Tap-water conditioner',
+    labelRate: { amount: 5, unit: 'mL', per: '10L' },
+    startPh: 7.6,
+    temperature: { min: 24, max: 26 },
+    ph: { min: 6.8, max: 7.2 },
+  },
   plants: true,
   stocking: [
     { label: 'Harlequin rasboras', settleDays: 14, groups: [{ speciesKey: 'harlequin_rasbora', count: 6 }] },

@@ -32,16 +32,13 @@ const ERROR_CODES_400 = ['invalid_input', 'invalid_json', 'invalid_message', 'ba
  */
 export async function tableSnapshot(sequelize: Sequelize, skip: string[] = []) {
   const tables = (
-    await sequelize.query<{ name: string }>(
-      `SELECT tablename AS name FROM pg_tables WHERE schemaname = 'public' ORDER BY tablename`,
-      { type: QueryTypes.SELECT },
-    )
+    await sequelize.query<{ name: string }>(`SELECT tablename AS name FROM pg_tables WHERE schemaname = 'public' ORDER BY tablename`, {
+      type: QueryTypes.SELECT,
+    })
   )
     .map((r) => r.name)
     .filter((name) => !skip.includes(name))
-  const parts = tables.map(
-    (name) => `'${name}', (SELECT count(*) || ':' || coalesce(max(x.xmin::text::bigint), 0) FROM "${name}" x)`,
-  )
+  const parts = tables.map((name) => `'${name}', (SELECT count(*) || ':' || coalesce(max(x.xmin::text::bigint), 0) FROM "${name}" x)`)
   return async () => {
     const [row] = await sequelize.query<{ s: Record<string, string> }>(`SELECT json_build_object(${parts.join(', ')}) AS s`, {
       type: QueryTypes.SELECT,
@@ -50,8 +47,7 @@ export async function tableSnapshot(sequelize: Sequelize, skip: string[] = []) {
   }
 }
 
-const changedTables = (before: Record<string, string>, after: Record<string, string>) =>
-  Object.keys(before).filter((k) => before[k] !== after[k])
+const changedTables = (before: Record<string, string>, after: Record<string, string>) => Object.keys(before).filter((k) => before[k] !== after[k])
 
 /** What is wrong with one answer, or null when it is one the contract allows. */
 export function judgeAnswer(route: FuzzRoute, sent: FuzzBody, status: number, body: unknown): string | null {
@@ -67,21 +63,21 @@ export function judgeAnswer(route: FuzzRoute, sent: FuzzBody, status: number, bo
   if (!fields.length) return 'a 400 without fields'
   let sentKeys: string[] = []
   try {
-      const parsed = sent.json === undefined ? {} : JSON.parse(sent.json)
-      if (parsed && typeof parsed === 'object' && !Array.isArray(parsed)) sentKeys = Object.keys(parsed)
-    } catch {
-      /* not JSON: covered by invalid_json */
-    }
-    const baseKeys = route.base && typeof route.base === 'object' ? Object.keys(route.base) : []
-    const known = new Set(['body', ...sentKeys, ...baseKeys, ...(route.knownFields ?? [])])
-    const unnamed = fields.filter((f) => !known.has(f.split('.')[0]))
-    if (unnamed.length) return `400 names fields the body does not have: ${unnamed.join(', ')}`
-      return null
+    const parsed = sent.json === undefined ? {} : JSON.parse(sent.json)
+    if (parsed && typeof parsed === 'object' && !Array.isArray(parsed)) sentKeys = Object.keys(parsed)
+  } catch {
+    /* not JSON: covered by invalid_json */
   }
+  const baseKeys = route.base && typeof route.base === 'object' ? Object.keys(route.base) : []
+  const known = new Set(['body', ...sentKeys, ...baseKeys, ...(route.knownFields ?? [])])
+  const unnamed = fields.filter((f) => !known.has(f.split('.')[0]))
+  if (unnamed.length) return `400 names fields the body does not have: ${unnamed.join(', ')}`
+  return null
+}
 
-  export type FuzzOutcome = { route: string; cases: number; failures: string[]; statuses: Record<number, number>; ms: number }
+export type FuzzOutcome = { route: string; cases: number; failures: string[]; statuses: Record<number, number>; ms: number }
 
-  /** Sends `numRuns` hostile bodies to one route and checks every answer and the tables after each rejection. */
+/** Sends `numRuns` hostile bodies to one route and checks every answer and the tables after each rejection. */
 export async function fuzzRoute(
   app: Express,
   sequelize: Sequelize,
@@ -132,7 +128,12 @@ export async function fuzzRoute(
 
 /** One line per route for the test output: cases tried, failures, and the statuses seen. */
 export function reportLine(o: FuzzOutcome) {
-  const statuses = Object.entries(o.statuses).map(([s, n]) => `${s}×${n}`).join(' ')
-  const first = o.failures.slice(0, 3).map((f) => `\n  ✗ ${f}`).join('')
+  const statuses = Object.entries(o.statuses)
+    .map(([s, n]) => `${s}×${n}`)
+    .join(' ')
+  const first = o.failures
+    .slice(0, 3)
+    .map((f) => `\n  ✗ ${f}`)
+    .join('')
   return `fuzz ${o.route}: ${o.cases} cases, ${o.failures.length} failures (${statuses}) in ${(o.ms / 1000).toFixed(1)} s${first}`
 }

@@ -5,12 +5,46 @@ export const PROTOTYPE_KEYS = ['__proto__', 'constructor', 'prototype', 'toStrin
 
 /** Strings a hostile or broken client sends: number look-alikes, injection, markup, odd unicode, NUL. */
 export const NASTY_STRINGS = [
-  '', ' ', '0', '-0', '1e309', '-1e309', 'NaN', 'Infinity', '-Infinity', 'null', 'true', '[]', '{}',
-  "'; DROP TABLE tanks; --", "1' OR '1'='1", '$1', '%s%s%s', '${7*7}', '{{7*7}}',
-  '<img src=x onerror=window.__x=1>', '<script>alert(1)</script>',
-  '\u0000', 'a\u0000b', '\ud800', '\udfff\ud800', '\u202e\u2066', '\ufeff', '\r\n\r\n', '😀'.repeat(50), 'Ωmega ß ǅ İ',
-  '__proto__', 'constructor', '2026-02-30T25:61:00Z', '2026-12-02T10:00:00', '+275760-09-13T00:00:00.000Z', '99:99', '24:00',
-  'x'.repeat(121), 'x'.repeat(5000), 'y'.repeat(70_000),
+  '',
+  ' ',
+  '0',
+  '-0',
+  '1e309',
+  '-1e309',
+  'NaN',
+  'Infinity',
+  '-Infinity',
+  'null',
+  'true',
+  '[]',
+  '{}',
+  "'; DROP TABLE tanks; --",
+  "1' OR '1'='1",
+  '$1',
+  '%s%s%s',
+  '${7*7}',
+  '{{7*7}}',
+  '<img src=x onerror=window.__x=1>',
+  '<script>alert(1)</script>',
+  '\u0000',
+  'a\u0000b',
+  '\ud800',
+  '\udfff\ud800',
+  '\u202e\u2066',
+  '\ufeff',
+  '\r\n\r\n',
+  '😀'.repeat(50),
+  'Ωmega ß ǅ İ',
+  '__proto__',
+  'constructor',
+  '2026-02-30T25:61:00Z',
+  '2026-12-02T10:00:00',
+  '+275760-09-13T00:00:00.000Z',
+  '99:99',
+  '24:00',
+  'x'.repeat(121),
+  'x'.repeat(5000),
+  'y'.repeat(70_000),
 ] as const
 
 /**
@@ -19,15 +53,51 @@ export const NASTY_STRINGS = [
  * real offsets (+14:00, -12:00) and one beyond them, dates before 1970 and far ahead.
  */
 export const EDGE_TIMES = [
-  '0000-01-01T00:00:00Z', '0000-12-31T23:59:59+14:00', '-000001-01-01T00:00:00Z', '+275760-09-13T00:00:00Z', '275760-09-13T00:00:00Z',
-  '+275760-09-13T00:00:00.001Z', '2016-12-31T23:59:60Z', '2026-06-30T23:59:60+14:00', '2026-03-01T12:00:00+14:00', '2026-03-01T12:00:00-12:00',
-  '2026-03-01T12:00:00+23:59', '2026-03-01T12:00:00-23:59', '2026-03-01T12:00:00+14:01', '1969-12-31T23:59:59.999Z', '1900-01-01T00:00:00Z',
-  '9999-12-31T23:59:59.999999999Z', '2199-12-31T23:59:59.999Z', '2200-01-01T00:00:00Z', '2024-02-29T00:00:00Z', '2026-02-29T00:00:00Z',
-  '0000-01-01', '0100-02-29', '1970-01-01', '2200-01-01', '9999-12-31', '275760-09-13',
+  '0000-01-01T00:00:00Z',
+  '0000-12-31T23:59:59+14:00',
+  '-000001-01-01T00:00:00Z',
+  '+275760-09-13T00:00:00Z',
+  '275760-09-13T00:00:00Z',
+  '+275760-09-13T00:00:00.001Z',
+  '2016-12-31T23:59:60Z',
+  '2026-06-30T23:59:60+14:00',
+  '2026-03-01T12:00:00+14:00',
+  '2026-03-01T12:00:00-12:00',
+  '2026-03-01T12:00:00+23:59',
+  '2026-03-01T12:00:00-23:59',
+  '2026-03-01T12:00:00+14:01',
+  '1969-12-31T23:59:59.999Z',
+  '1900-01-01T00:00:00Z',
+  '9999-12-31T23:59:59.999999999Z',
+  '2199-12-31T23:59:59.999Z',
+  '2200-01-01T00:00:00Z',
+  '2024-02-29T00:00:00Z',
+  '2026-02-29T00:00:00Z',
+  '0000-01-01',
+  '0100-02-29',
+  '1970-01-01',
+  '2200-01-01',
+  '9999-12-31',
+  '275760-09-13',
 ] as const
 
 export const NASTY_NUMBERS = [
-  0, -0, -1, 1, 0.1, 1e308, -1e308, 5e-324, 2 ** 31, 2 ** 31 - 1, -(2 ** 31), 2 ** 53 + 2, 2 ** 63, -(2 ** 63), 1e21, 123456789012,
+  0,
+  -0,
+  -1,
+  1,
+  0.1,
+  1e308,
+  -1e308,
+  5e-324,
+  2 ** 31,
+  2 ** 31 - 1,
+  -(2 ** 31),
+  2 ** 53 + 2,
+  2 ** 63,
+  -(2 ** 63),
+  1e21,
+  123456789012,
 ] as const
 
 const scalar: fc.Arbitrary<unknown> = fc.oneof(
@@ -45,13 +115,11 @@ const scalar: fc.Arbitrary<unknown> = fc.oneof(
 const hostileKey = fc.oneof(fc.constantFrom<string>(...PROTOTYPE_KEYS), fc.string({ maxLength: 12 }), fc.constantFrom('', ' ', '\u0000', 'a.b', '0'))
 
 /** Arrays or objects nested far deeper than any body of ours, down to a hostile leaf. */
-export const deepNesting = fc
-  .tuple(fc.integer({ min: 30, max: 3000 }), fc.boolean(), scalar)
-  .map(([depth, asArray, leaf]) => {
-    let value: unknown = leaf
-    for (let i = 0; i < depth; i++) value = asArray ? [value] : withOwnKey({}, 'a', value)
-    return value
-  })
+export const deepNesting = fc.tuple(fc.integer({ min: 30, max: 3000 }), fc.boolean(), scalar).map(([depth, asArray, leaf]) => {
+  let value: unknown = leaf
+  for (let i = 0; i < depth; i++) value = asArray ? [value] : withOwnKey({}, 'a', value)
+  return value
+})
 
 /** Sets `key` as an own enumerable property, so even `__proto__` is serialised as a plain key. */
 export function withOwnKey<T extends object>(target: T, key: string, value: unknown): T {
@@ -105,9 +173,7 @@ type Mutation = { kind: 'replace' | 'remove'; path: Array<string | number>; valu
 
 function mutation(base: unknown): fc.Arbitrary<Mutation> {
   const paths = pathsOf(base)
-  const options: Array<fc.Arbitrary<Mutation>> = [
-    fc.record({ kind: fc.constant('extra' as const), key: hostileKey, value: hostileValue }),
-  ]
+  const options: Array<fc.Arbitrary<Mutation>> = [fc.record({ kind: fc.constant('extra' as const), key: hostileKey, value: hostileValue })]
   if (paths.length) {
     options.push(
       fc.record({ kind: fc.constant('replace' as const), path: fc.constantFrom(...paths), value: hostileValue }),
@@ -126,8 +192,7 @@ function apply(base: unknown, m: Mutation): unknown {
 /** What one fuzz case sends: JSON text (so odd keys survive) and how it was made, for the report. */
 export type FuzzBody = { json: string | undefined; how: string }
 
-const describeMutation = (m: Mutation) =>
-  m.kind === 'extra' ? `extra ${JSON.stringify(m.key)}` : `${m.kind} ${m.path.join('.') || '(root)'}`
+const describeMutation = (m: Mutation) => (m.kind === 'extra' ? `extra ${JSON.stringify(m.key)}` : `${m.kind} ${m.path.join('.') || '(root)'}`)
 
 /**
  * Hostile bodies around a valid one: most change one to three fields of `base` (replace with a

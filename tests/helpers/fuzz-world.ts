@@ -14,7 +14,11 @@ export async function buildFuzzWorld() {
   const keeper = org.users.keeper.token
   const siteId = org.siteIds[0]
   const api = (method: 'post' | 'put' | 'patch', path: string, body: unknown, token = owner) =>
-    t.api()[method](`/api/v1${path}`).set(bearer(token)).send(body as object)
+    t
+      .api()
+      [method](`/api/v1${path}`)
+      .set(bearer(token))
+      .send(body as object)
   const created = async (method: 'post' | 'put', path: string, body: unknown, token = owner) => {
     const res = await api(method, path, body, token)
     expect(res.status, `${path}: ${JSON.stringify(res.body)}`).toBeLessThan(300)
@@ -26,17 +30,38 @@ export async function buildFuzzWorld() {
   const device = (await created('post', '/devices', { tankId, name: 'Fuzz probe', metrics: ['temperature', 'ph'], intervalSeconds: 60 })).device
   const sensor = await createTankWithDevice(t.ctx, org, 'Fuzz sensor tank')
   const target = await t.ctx.models.User.create({
-    organizationId: org.organizationId, email: 'target@fuzz.example', name: 'Fuzz target', role: 'keeper', passwordHash: 'unused',
+    organizationId: org.organizationId,
+    email: 'target@fuzz.example',
+    name: 'Fuzz target',
+    role: 'keeper',
+    passwordHash: 'unused',
   })
   const kitEntry = await created('post', `/tanks/${tankId}/test-kit-entries`, { values: [{ metric: 'ph', value: 7.1, unit: 'pH' }] }, keeper)
   const siteRule = await created('post', `/sites/${siteId}/rules`, { name: 'pH low', severity: 'warning', spec: { kind: 'below', metric: 'ph', limit: 6.5 } })
-  const tankRule = await created('post', `/tanks/${tankId}/rules`, { name: 'Warm', severity: 'alarm', spec: { kind: 'above', metric: 'temperature', limit: 29 } })
+  const tankRule = await created('post', `/tanks/${tankId}/rules`, {
+    name: 'Warm',
+    severity: 'alarm',
+    spec: { kind: 'above', metric: 'temperature', limit: 29 },
+  })
   const shift = await created('post', `/sites/${siteId}/roster/shifts`, { userId: org.users.keeper.id, weekday: 1, start: '08:00', end: '16:00' })
   const at = new Date()
   const incidentRow = () =>
     t.ctx.models.Incident.create({
-      organizationId: org.organizationId, siteId, tankId, ruleId: null, ruleKind: 'above', metric: 'temperature', severity: 'alarm',
-      title: 'Temperature above 28 °C for 10 min', state: 'open', conditionSince: at, openedAt: at, firstValue: 28.6, peakValue: 28.6, latestValue: 28.6, latestAt: at,
+      organizationId: org.organizationId,
+      siteId,
+      tankId,
+      ruleId: null,
+      ruleKind: 'above',
+      metric: 'temperature',
+      severity: 'alarm',
+      title: 'Temperature above 28 °C for 10 min',
+      state: 'open',
+      conditionSince: at,
+      openedAt: at,
+      firstValue: 28.6,
+      peakValue: 28.6,
+      latestValue: 28.6,
+      latestAt: at,
     })
   const ackIncident = await incidentRow()
   const resolveIncident = await incidentRow()
@@ -48,11 +73,27 @@ export async function buildFuzzWorld() {
   const fish = await created('post', `/tanks/${careTankId}/livestock`, { name: 'Harlequin rasbora', category: 'fish', count: 12 })
 
   return {
-    t, org, owner, keeper, siteId, tankId, careTankId, password: TEST_PASSWORD,
-    deviceId: device.id as number, sensor, targetUserId: target.id, kitEntryId: kitEntry.id as number,
-    siteRuleId: siteRule.id as number, tankRuleId: tankRule.id as number, shiftId: shift.id as number,
-    ackIncidentId: ackIncident.id, resolveIncidentId: resolveIncident.id, ackToken,
-    careTaskId: careTask.id as number, waterChangeId: (waterChange.id ?? waterChange.waterChange?.id) as number, livestockId: (fish.entry?.id ?? fish.id) as number,
+    t,
+    org,
+    owner,
+    keeper,
+    siteId,
+    tankId,
+    careTankId,
+    password: TEST_PASSWORD,
+    deviceId: device.id as number,
+    sensor,
+    targetUserId: target.id,
+    kitEntryId: kitEntry.id as number,
+    siteRuleId: siteRule.id as number,
+    tankRuleId: tankRule.id as number,
+    shiftId: shift.id as number,
+    ackIncidentId: ackIncident.id,
+    resolveIncidentId: resolveIncident.id,
+    ackToken,
+    careTaskId: careTask.id as number,
+    waterChangeId: (waterChange.id ?? waterChange.waterChange?.id) as number,
+    livestockId: (fish.entry?.id ?? fish.id) as number,
   }
 }
 

@@ -58,7 +58,7 @@ export async function startMosquitto(options: { users?: MosquittoUser[]; acl?: s
   const child: ChildProcess = spawn(MOSQUITTO, ['-c', join(dir, 'mosquitto.conf')], { stdio: ['ignore', 'pipe', 'pipe'] })
   child.stdout?.on('data', (d) => (output += d))
   child.stderr?.on('data', (d) => (output += d))
-  for (const end = Date.now() + 10_000; !(await accepts(port)); ) {
+  for (const end = Date.now() + 10_000; !(await accepts(port));) {
     if (Date.now() > end || child.exitCode !== null) throw new Error(`mosquitto did not start: ${output}`)
     await new Promise((r) => setTimeout(r, 50))
   }

@@ -27,8 +27,22 @@ export async function seedNight(ctx: AppContext, org: TestOrg, now: Date) {
   const at = (offsetMs: number) => new Date(cutoff + offsetMs)
   const tank = (name: string, stage: 'established' | 'quarantine' = 'established') =>
     models.Tank.create({
-      organizationId: org.organizationId, siteId, name, kind: 'marine', stage, dimensions: null, volumeLitres: 300, volumeSource: 'entered',
-      substrateDepthCm: 0, heater: null, filter: '', media: '', lightSchedule: null, targets: {}, notes: '', sortOrder: 0,
+      organizationId: org.organizationId,
+      siteId,
+      name,
+      kind: 'marine',
+      stage,
+      dimensions: null,
+      volumeLitres: 300,
+      volumeSource: 'entered',
+      substrateDepthCm: 0,
+      heater: null,
+      filter: '',
+      media: '',
+      lightSchedule: null,
+      targets: {},
+      notes: '',
+      sortOrder: 0,
     })
   const reef1 = await tank(NIGHT.tanks.reef1)
   const reef2 = await tank(NIGHT.tanks.reef2)
@@ -38,30 +52,64 @@ export async function seedNight(ctx: AppContext, org: TestOrg, now: Date) {
 
   const incident = (tankId: number, fields: Record<string, unknown>) =>
     models.Incident.create({
-      organizationId: org.organizationId, siteId, tankId, ruleKind: 'above', metric: 'temperature', severity: 'warning',
-      title: '', state: 'open', conditionSince: fields.openedAt as Date, openedAt: fields.openedAt as Date, firstValue: null, peakValue: null, latestValue: null, latestAt: null,
+      organizationId: org.organizationId,
+      siteId,
+      tankId,
+      ruleKind: 'above',
+      metric: 'temperature',
+      severity: 'warning',
+      title: '',
+      state: 'open',
+      conditionSince: fields.openedAt as Date,
+      openedAt: fields.openedAt as Date,
+      firstValue: null,
+      peakValue: null,
+      latestValue: null,
+      latestAt: null,
       ...fields,
     })
   const { keeper, owner } = org.users
   await incident(reef1.id, { title: NIGHT.titles.old, metric: 'nitrate', openedAt: at(-6 * HOUR), state: 'resolved', resolvedAt: at(-5 * HOUR) })
   await incident(reef1.id, {
-    title: NIGHT.titles.heater, openedAt: at(HOUR), state: 'resolved',
-    acknowledgedAt: at(HOUR + NIGHT.ackMinutes.heater * MIN), acknowledgedBy: keeper.id, resolvedAt: at(2 * HOUR),
+    title: NIGHT.titles.heater,
+    openedAt: at(HOUR),
+    state: 'resolved',
+    acknowledgedAt: at(HOUR + NIGHT.ackMinutes.heater * MIN),
+    acknowledgedBy: keeper.id,
+    resolvedAt: at(2 * HOUR),
   })
   await incident(reef1.id, {
-    title: NIGHT.titles.quiet, ruleKind: 'quiet', metric: 'temperature', openedAt: at(3 * HOUR), state: 'acknowledged',
-    acknowledgedAt: at(3 * HOUR + NIGHT.ackMinutes.quiet * MIN), acknowledgedBy: owner.id,
+    title: NIGHT.titles.quiet,
+    ruleKind: 'quiet',
+    metric: 'temperature',
+    openedAt: at(3 * HOUR),
+    state: 'acknowledged',
+    acknowledgedAt: at(3 * HOUR + NIGHT.ackMinutes.quiet * MIN),
+    acknowledgedBy: owner.id,
   })
   await incident(reef2.id, { title: NIGHT.titles.ph, ruleKind: 'below', metric: 'ph', severity: 'alarm', openedAt: at(5 * HOUR) })
 
   // Reef row 3's probe last spoke half an hour before the earliest possible `now`: quiet now.
   await models.Device.create({
-    organizationId: org.organizationId, tankId: reef3.id, name: 'Reef 3 probe', metrics: ['temperature'], intervalSeconds: 60, tokenHash: 'unused', lastSeenAt: at(5.5 * HOUR),
+    organizationId: org.organizationId,
+    tankId: reef3.id,
+    name: 'Reef 3 probe',
+    metrics: ['temperature'],
+    intervalSeconds: 60,
+    tokenHash: 'unused',
+    lastSeenAt: at(5.5 * HOUR),
   })
 
   // Due dates count from the day a task was last done, on the site's calendar.
   const task = (tankId: number, kind: string, title: string, lastDoneAt: Date, everyDays: number) =>
-    models.CareTask.create({ organizationId: org.organizationId, tankId, kind: kind as 'other', title, recurrence: { kind: 'interval', everyDays }, lastDoneAt })
+    models.CareTask.create({
+      organizationId: org.organizationId,
+      tankId,
+      kind: kind as 'other',
+      title,
+      recurrence: { kind: 'interval', everyDays },
+      lastDoneAt,
+    })
   await task(reef1.id, 'water_change', NIGHT.care.missed, at(-8 * DAY), 7) // due the day before yesterday
   await task(reef2.id, 'test_kit_check', NIGHT.care.kit, at(-7 * DAY), 7) // due yesterday
   await task(reef2.id, 'glass_clean', NIGHT.care.today, at(-6 * DAY), 7) // due today

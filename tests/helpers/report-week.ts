@@ -37,39 +37,103 @@ export async function seedReportWeek(ctx: AppContext, org: TestOrg, name = 'Marr
   const organizationId = org.organizationId
   const siteId = org.siteIds[0]!
   const tank = await models.Tank.create({
-    organizationId, siteId, name, kind: 'tropical_freshwater', stage: 'established', dimensions: null, volumeLitres: 200,
-    volumeSource: 'entered', substrateDepthCm: 0, heater: { watts: 200, setPointC: 26, topCm: 30 }, filter: '', media: '',
-    lightSchedule: null, targets: { temperature: { min: 24, max: 28 }, ph: { min: 6.8, max: 7.6 } }, notes: '', sortOrder: 0,
+    organizationId,
+    siteId,
+    name,
+    kind: 'tropical_freshwater',
+    stage: 'established',
+    dimensions: null,
+    volumeLitres: 200,
+    volumeSource: 'entered',
+    substrateDepthCm: 0,
+    heater: { watts: 200, setPointC: 26, topCm: 30 },
+    filter: '',
+    media: '',
+    lightSchedule: null,
+    targets: { temperature: { min: 24, max: 28 }, ph: { min: 6.8, max: 7.6 } },
+    notes: '',
+    sortOrder: 0,
   })
   const from = new Date(WEEK.from).toISOString()
-  await sequelize.query(`
+  await sequelize.query(
+    `
     INSERT INTO readings (source_key, metric, time, tank_id, value, source)
     SELECT 'd:report-week', 'temperature', $1::timestamptz + n * interval '10 minutes', $2,
            CASE WHEN n >= 600 AND n < 612 THEN 29 ELSE 26 END, 'device'
-    FROM generate_series(0, 1008) n WHERE NOT (n > 288 AND n < 360)`, { bind: [from, tank.id] })
-  await sequelize.query(`
+    FROM generate_series(0, 1008) n WHERE NOT (n > 288 AND n < 360)`,
+    { bind: [from, tank.id] },
+  )
+  await sequelize.query(
+    `
     INSERT INTO readings (source_key, metric, time, tank_id, value, source)
-    SELECT 'd:report-week', 'ph', $1::timestamptz + n * interval '1 hour', $2, 7.2, 'device' FROM generate_series(0, 168) n`, { bind: [from, tank.id] })
+    SELECT 'd:report-week', 'ph', $1::timestamptz + n * interval '1 hour', $2, 7.2, 'device' FROM generate_series(0, 168) n`,
+    { bind: [from, tank.id] },
+  )
 
   const at = (iso: string) => new Date(iso)
   const incident = (openedAt: string, ack: string | null, resolved: string | null, title: string) =>
     models.Incident.create({
-      organizationId, siteId, tankId: tank.id, ruleId: null, ruleKind: 'above', metric: 'temperature', severity: 'alarm', title,
-      state: resolved ? 'resolved' : ack ? 'acknowledged' : 'open', conditionSince: at(openedAt), openedAt: at(openedAt),
-      firstValue: 28.6, peakValue: 29, latestValue: 28.6, latestAt: at(openedAt),
-      acknowledgedAt: ack ? at(ack) : null, resolvedAt: resolved ? at(resolved) : null,
+      organizationId,
+      siteId,
+      tankId: tank.id,
+      ruleId: null,
+      ruleKind: 'above',
+      metric: 'temperature',
+      severity: 'alarm',
+      title,
+      state: resolved ? 'resolved' : ack ? 'acknowledged' : 'open',
+      conditionSince: at(openedAt),
+      openedAt: at(openedAt),
+      firstValue: 28.6,
+      peakValue: 29,
+      latestValue: 28.6,
+      latestAt: at(openedAt),
+      acknowledgedAt: ack ? at(ack) : null,
+      resolvedAt: resolved ? at(resolved) : null,
     })
   await incident('2026-11-03T10:00:00Z', '2026-11-03T10:10:00Z', '2026-11-03T11:10:00Z', 'Temperature above 28 °C for 10 min')
   await incident('2026-11-06T08:00:00Z', '2026-11-06T08:30:00Z', null, 'Temperature above 28 °C <b>again</b>')
   await incident('2026-10-30T08:00:00Z', null, null, 'Before the week')
 
-  const glass = await models.CareTask.create({ organizationId, tankId: tank.id, kind: 'glass_clean', title: 'Clean the glass', recurrence: { kind: 'weekdays', weekdays: [0, 3] }, startsOn: '2026-10-01' })
-  const water = await models.CareTask.create({ organizationId, tankId: tank.id, kind: 'water_change', title: 'Weekly water change', recurrence: { kind: 'interval', everyDays: 7 }, startsOn: '2026-10-19' })
+  const glass = await models.CareTask.create({
+    organizationId,
+    tankId: tank.id,
+    kind: 'glass_clean',
+    title: 'Clean the glass',
+    recurrence: { kind: 'weekdays', weekdays: [0, 3] },
+    startsOn: '2026-10-01',
+  })
+  const water = await models.CareTask.create({
+    organizationId,
+    tankId: tank.id,
+    kind: 'water_change',
+    title: 'Weekly water change',
+    recurrence: { kind: 'interval', everyDays: 7 },
+    startsOn: '2026-10-19',
+  })
   // Tasks made before the week: created_at is set by the database, so it is moved back here.
   await sequelize.query(`UPDATE care_tasks SET created_at = '2026-10-01T08:00:00Z' WHERE id IN ($1, $2)`, { bind: [glass.id, water.id] })
-  await models.CareLogEntry.create({ organizationId, tankId: tank.id, kind: 'task_done', at: at('2026-11-02T10:00:00Z'), userId: null, text: 'Clean the glass', careTaskId: glass.id })
+  await models.CareLogEntry.create({
+    organizationId,
+    tankId: tank.id,
+    kind: 'task_done',
+    at: at('2026-11-02T10:00:00Z'),
+    userId: null,
+    text: 'Clean the glass',
+    careTaskId: glass.id,
+  })
   const change = (finishedAt: string, litres: number) =>
-    models.WaterChange.create({ organizationId, tankId: tank.id, status: 'finished', plan: {}, heaterOffConfirmed: true, startedAt: at(finishedAt), startedBy: null, finishedAt: at(finishedAt), litresReplaced: litres })
+    models.WaterChange.create({
+      organizationId,
+      tankId: tank.id,
+      status: 'finished',
+      plan: {},
+      heaterOffConfirmed: true,
+      startedAt: at(finishedAt),
+      startedBy: null,
+      finishedAt: at(finishedAt),
+      litresReplaced: litres,
+    })
   await change('2026-10-26T10:00:00Z', 30)
   await change('2026-11-04T10:00:00Z', 40)
 

@@ -19,7 +19,11 @@ const outbox = (to: string) =>
 
 describe('invitations and password resets go out through the mail outbox', () => {
   it('mails an invitation with the same link the owner sees', async () => {
-    const res = await t.api().post('/api/v1/users/invitations').set(bearer(org.users.owner.token)).send({ email: 'new.keeper@mail.example', name: 'New Keeper', role: 'keeper' })
+    const res = await t
+      .api()
+      .post('/api/v1/users/invitations')
+      .set(bearer(org.users.owner.token))
+      .send({ email: 'new.keeper@mail.example', name: 'New Keeper', role: 'keeper' })
     expect(res.status).toBe(201)
     const [mail] = await outbox('new.keeper@mail.example')
     expect(mail).toMatchObject({ kind: 'invitation', organization_id: org.organizationId })
@@ -50,7 +54,10 @@ describe('invitations and password resets go out through the mail outbox', () =>
     expect(again.status).toBe(400)
     expect(again.body.error).toMatchObject({ code: 'invalid_input', fields: { token: 'already used' } })
     expect((await t.api().post('/api/v1/auth/sign-in').send({ email: org.users.keeper.email, password: 'another-new-password' })).status).toBe(401)
-    const made = await t.api().post('/api/v1/auth/password-reset/confirm').send({ token: 'x'.repeat(43), password: 'another-new-password' })
+    const made = await t
+      .api()
+      .post('/api/v1/auth/password-reset/confirm')
+      .send({ token: 'x'.repeat(43), password: 'another-new-password' })
     expect(made.body.error).toMatchObject({ code: 'invalid_input', fields: { token: 'unknown' } })
   })
 

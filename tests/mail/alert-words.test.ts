@@ -5,9 +5,19 @@ import { renderTrendSvg } from '../../server/mail/trend-chart'
 import { firstStep } from '../../server/incidents/what-to-check'
 
 const input = (over: Partial<IncidentMailInput>): IncidentMailInput => ({
-  organizationName: 'Riverside Aquatics', siteName: 'Fish room', tankName: 'Breeding cylinder C1', ruleName: 'No temperature reading for 15 min',
-  severity: 'warning', metricLabel: 'Temperature', value: 15.15, unitLabel: '°C', since: '2026-12-05T01:00:00Z', siteTimeZone: 'Europe/London',
-  whatToCheck: [], incidentUrl: 'https://tw.example/incidents/3', ...over,
+  organizationName: 'Riverside Aquatics',
+  siteName: 'Fish room',
+  tankName: 'Breeding cylinder C1',
+  ruleName: 'No temperature reading for 15 min',
+  severity: 'warning',
+  metricLabel: 'Temperature',
+  value: 15.15,
+  unitLabel: '°C',
+  since: '2026-12-05T01:00:00Z',
+  siteTimeZone: 'Europe/London',
+  whatToCheck: [],
+  incidentUrl: 'https://tw.example/incidents/3',
+  ...over,
 })
 
 /** The text of every time-axis label in a rendered chart, left to right as drawn. */
@@ -29,7 +39,16 @@ describe('alert mails say what was measured, in its unit', () => {
     const rate = { kind: 'rate' as const, metric: 'ph' as const, maxChange: 0.3, windowMinutes: 1440 }
     const measurement = describeMeasurement({ spec: rate, metric: 'ph', value: -0.3125 })
     expect(measurement).toBe('pH fell 0.31 in 24 h')
-    const mail = incidentOpened(input({ ruleName: 'pH changed by more than 0.3 in 24 h', metricLabel: 'pH', unitLabel: 'pH', value: -0.3125, measurement, firstStep: firstStep(rate, 'ph', -0.3125) }))
+    const mail = incidentOpened(
+      input({
+        ruleName: 'pH changed by more than 0.3 in 24 h',
+        metricLabel: 'pH',
+        unitLabel: 'pH',
+        value: -0.3125,
+        measurement,
+        firstStep: firstStep(rate, 'ph', -0.3125),
+      }),
+    )
     expect(mail.subject).toBe('Warning: pH fell 0.31 in 24 h on Breeding cylinder C1 · Fish room')
     expect(mail.text.split('\n')[0]).toBe('First: test pH and KH with a test kit before dosing or changing water.')
     expect(mail.text).not.toContain('-0.31 pH')
@@ -40,12 +59,16 @@ describe('alert mails say what was measured, in its unit', () => {
     expect(describeMeasurement({ spec: band, metric: 'temperature', value: 23.502 })).toBe('temperature 23.5 °C, above 10–22 °C')
     expect(describeMeasurement({ spec: band, metric: 'temperature', value: 9 })).toBe('temperature 9.0 °C, below 10–22 °C')
     const heater = { kind: 'heater_line' as const, marginCm: 0, holdMinutes: 0, clearMargin: 0.5 }
-    expect(describeMeasurement({ spec: heater, metric: 'water_level', value: 29.04, heaterTopCm: 30 })).toBe('water level 29.0 cm, at or below the heater top (30 cm)')
+    expect(describeMeasurement({ spec: heater, metric: 'water_level', value: 29.04, heaterTopCm: 30 })).toBe(
+      'water level 29.0 cm, at or below the heater top (30 cm)',
+    )
   })
 
   it('a heater alarm starts with switching the heater off at the socket', () => {
     const hot = { kind: 'above' as const, metric: 'temperature' as const, limit: 28, holdMinutes: 10, clearMargin: 0.5 }
-    expect(firstStep(hot, 'temperature', 29.4)).toBe('First: if the heater is stuck on, switch it off at the socket (dry hands) and check it is fully submerged.')
+    expect(firstStep(hot, 'temperature', 29.4)).toBe(
+      'First: if the heater is stuck on, switch it off at the socket (dry hands) and check it is fully submerged.',
+    )
   })
 })
 

@@ -39,13 +39,15 @@ describe('a heater stuck on, from reading to mail', () => {
     // The keeper is on duty around the clock this week.
     for (let weekday = 0; weekday < 7; weekday++) {
       const shift = await api(`/sites/${site}/roster/shifts`, org.users.owner.token, {
-        method: 'POST', body: JSON.stringify({ userId: org.users.keeper.id, weekday, start: '00:00', end: '00:00' }),
+        method: 'POST',
+        body: JSON.stringify({ userId: org.users.keeper.id, weekday, start: '00:00', end: '00:00' }),
       })
       expect(shift.status).toBe(201)
     }
     const tank = await api('/tanks', org.users.owner.token, { method: 'POST', body: JSON.stringify(sampleTank(site, { name: 'Sales row <b>A1</b>' })) })
     const device = await api('/devices', org.users.owner.token, {
-      method: 'POST', body: JSON.stringify({ tankId: tank.body.id, name: 'Probe', metrics: ['temperature', 'water_level'], intervalSeconds: 60 }),
+      method: 'POST',
+      body: JSON.stringify({ tankId: tank.body.id, name: 'Probe', metrics: ['temperature', 'water_level'], intervalSeconds: 60 }),
     })
     const post = (points: Array<[number, number]>) =>
       api('/readings', device.body.token, {
@@ -76,14 +78,27 @@ describe('a heater stuck on, from reading to mail', () => {
     // Unacknowledged for 15 minutes: the escalation goes to the keeper on duty and the owner.
     await s.rules.engine.tick(t0 + 26 * MIN)
     mails = await waitForMail(3)
-    expect(mails.slice(1).map((m) => m.envelope_to[0]).sort()).toEqual([org.users.keeper.email, org.users.owner.email].sort())
+    expect(
+      mails
+        .slice(1)
+        .map((m) => m.envelope_to[0])
+        .sort(),
+    ).toEqual([org.users.keeper.email, org.users.owner.email].sort())
     expect(mails.slice(1).every((m) => /escalat/i.test(m.subject))).toBe(true)
 
     // The keeper acknowledges from the mail, with no session: it works once.
     const token = new URL(ackUrl).searchParams.get('token')!
-    const used = await fetch(`${s.baseUrl}/api/v1/ack-links/use`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ token, note: 'Heater unplugged' }) })
+    const used = await fetch(`${s.baseUrl}/api/v1/ack-links/use`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: JSON.stringify({ token, note: 'Heater unplugged' }),
+    })
     expect(used.status).toBe(200)
-    const again = await fetch(`${s.baseUrl}/api/v1/ack-links/use`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ token }) })
+    const again = await fetch(`${s.baseUrl}/api/v1/ack-links/use`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: JSON.stringify({ token }),
+    })
     expect(again.status).toBe(409)
     expect(((await again.json()) as { error: { message: string } }).error.message).toMatch(/already used/)
 
@@ -102,17 +117,33 @@ describe('a heater stuck on, from reading to mail', () => {
     await s.rules.engine.tick(Date.now() + 30 * MIN)
     mails = await waitForMail(5)
     expect(mails).toHaveLength(5)
-    expect(mails.slice(3).map((m) => m.envelope_to[0]).sort()).toEqual([org.users.keeper.email, org.users.owner.email].sort())
+    expect(
+      mails
+        .slice(3)
+        .map((m) => m.envelope_to[0])
+        .sort(),
+    ).toEqual([org.users.keeper.email, org.users.owner.email].sort())
     const detail = await api(`/incidents/${incident.id}`, org.users.viewer.token)
     expect(detail.body.state).toBe('resolved')
     expect(detail.body.acknowledgedBy).toBe(org.users.keeper.id)
     const timeline = detail.body.timeline as Array<{ kind: string; detail: { to?: string } }>
-    expect(timeline.filter((e) => e.kind !== 'mail_sent').map((e) => e.kind)).toEqual(['opened', 'mail_queued', 'escalated', 'mail_queued', 'acknowledged', 'resolved', 'mail_queued'])
+    expect(timeline.filter((e) => e.kind !== 'mail_sent').map((e) => e.kind)).toEqual([
+      'opened',
+      'mail_queued',
+      'escalated',
+      'mail_queued',
+      'acknowledged',
+      'resolved',
+      'mail_queued',
+    ])
     // Every delivery is on the timeline with its result: five mails, each sent.
     await new Promise((r) => setTimeout(r, 300))
     const later = (await api(`/incidents/${incident.id}`, org.users.viewer.token)).body.timeline as typeof timeline
-    expect(later.filter((e) => e.kind === 'mail_sent').map((e) => e.detail.to).sort()).toEqual(
-      [org.users.keeper.email, org.users.keeper.email, org.users.owner.email, org.users.keeper.email, org.users.owner.email].sort(),
-    )
+    expect(
+      later
+        .filter((e) => e.kind === 'mail_sent')
+        .map((e) => e.detail.to)
+        .sort(),
+    ).toEqual([org.users.keeper.email, org.users.keeper.email, org.users.owner.email, org.users.keeper.email, org.users.owner.email].sort())
   })
 })

@@ -29,19 +29,41 @@ afterAll(async () => {
 
 async function tank(o: TestOrg, siteId: number, name: string, stage = 'established') {
   return bed.ctx.models.Tank.create({
-    organizationId: o.organizationId, siteId, name, kind: 'tropical_freshwater', stage: stage as 'established', dimensions: null, volumeLitres: 120,
-    volumeSource: 'entered', substrateDepthCm: 0, heater: null, filter: '', media: '', lightSchedule: null, targets: {}, notes: '', sortOrder: 0,
+    organizationId: o.organizationId,
+    siteId,
+    name,
+    kind: 'tropical_freshwater',
+    stage: stage as 'established',
+    dimensions: null,
+    volumeLitres: 120,
+    volumeSource: 'entered',
+    substrateDepthCm: 0,
+    heater: null,
+    filter: '',
+    media: '',
+    lightSchedule: null,
+    targets: {},
+    notes: '',
+    sortOrder: 0,
   })
 }
 async function task(o: TestOrg, tankId: number, title: string, lastDoneAt: string, everyDays = 7) {
   return bed.ctx.models.CareTask.create({
-    organizationId: o.organizationId, tankId, kind: 'other', title, recurrence: { kind: 'interval', everyDays }, lastDoneAt: new Date(lastDoneAt),
+    organizationId: o.organizationId,
+    tankId,
+    kind: 'other',
+    title,
+    recurrence: { kind: 'interval', everyDays },
+    lastDoneAt: new Date(lastDoneAt),
   })
 }
 const onDuty = (o: TestOrg, siteId: number, role: 'owner' | 'keeper', weekday: number, start: string, end: string) =>
   bed.ctx.models.DutyShift.create({ organizationId: o.organizationId, siteId, userId: o.users[role].id, weekday, startTime: start, endTime: end })
 const digestRows = () =>
-  bed.ctx.sequelize.query<{ to_address: string; dedupe_key: string; subject: string }>(`SELECT to_address, dedupe_key, subject FROM mail_outbox WHERE kind = 'care_digest' ORDER BY id`, { type: QueryTypes.SELECT })
+  bed.ctx.sequelize.query<{ to_address: string; dedupe_key: string; subject: string }>(
+    `SELECT to_address, dedupe_key, subject FROM mail_outbox WHERE kind = 'care_digest' ORDER BY id`,
+    { type: QueryTypes.SELECT },
+  )
 
 describe('the digest window', () => {
   it('reads the hour on the site clock, including across a DST change', () => {
@@ -63,7 +85,9 @@ describe('the morning care digest', () => {
     const show = await tank(org, shop, 'Show <b>tank</b> & co')
     const back = await tank(org, shop, 'Back rack')
     const holding = await tank(org, shop, 'Holding Q2', 'quarantine')
-    await bed.ctx.sequelize.query('UPDATE tanks SET stage_changed_at = $2 WHERE id = $1', { bind: [holding.id, new Date(Date.parse('2026-03-04T06:30:00Z') - 10 * DAY_MS - 3_600_000)] })
+    await bed.ctx.sequelize.query('UPDATE tanks SET stage_changed_at = $2 WHERE id = $1', {
+      bind: [holding.id, new Date(Date.parse('2026-03-04T06:30:00Z') - 10 * DAY_MS - 3_600_000)],
+    })
     // Done 22 Feb, every 7 days → due 1 Mar: overdue by 3. Done 25 Feb → due today. 27 Feb → due 6 Mar, in 2 days. 3 Mar → later.
     await task(org, show.id, 'Water change 10–15 %', '2026-02-22T10:00:00Z')
     await task(org, show.id, 'Glass <clean>', '2026-02-25T10:00:00Z')
@@ -151,8 +175,16 @@ describe('the morning care digest', () => {
 describe('the digest template', () => {
   it('escapes every name in the HTML and keeps the subject on one line', () => {
     const mail = careDigest({
-      siteName: 'Shop "A"\nfront', dayLabel: 'Wednesday 4 March 2026', careTodayUrl: 'http://127.0.0.1:8080/care/today',
-      tanks: [{ name: "O'Brien's <tank>", url: 'http://127.0.0.1:8080/tanks/3', tasks: [{ title: '<script>x</script>', status: 'due_soon', dueOn: '2026-03-05', daysUntilDue: 1 }] }],
+      siteName: 'Shop "A"\nfront',
+      dayLabel: 'Wednesday 4 March 2026',
+      careTodayUrl: 'http://127.0.0.1:8080/care/today',
+      tanks: [
+        {
+          name: "O'Brien's <tank>",
+          url: 'http://127.0.0.1:8080/tanks/3',
+          tasks: [{ title: '<script>x</script>', status: 'due_soon', dueOn: '2026-03-05', daysUntilDue: 1 }],
+        },
+      ],
       watch: [],
     })
     expect(mail.subject).toBe('Care today at Shop "A" front: 1 due soon')

@@ -77,7 +77,16 @@ describe('development mailbox routes', () => {
     const res = await api().get('/dev/mail').set(bearer(orgA.users.owner.token))
     expect(res.status).toBe(200)
     expect(res.body.items.map((m: { subject: string }) => m.subject)).toEqual(['Reset for A keeper', 'Alarm for A'])
-    expect(Object.keys(res.body.items[0]).sort()).toEqual(['attachments', 'envelopeFrom', 'envelopeTo', 'id', 'organizationId', 'rawSize', 'receivedAt', 'subject'])
+    expect(Object.keys(res.body.items[0]).sort()).toEqual([
+      'attachments',
+      'envelopeFrom',
+      'envelopeTo',
+      'id',
+      'organizationId',
+      'rawSize',
+      'receivedAt',
+      'subject',
+    ])
     const resB = await api().get('/dev/mail').set(bearer(orgB.users.owner.token))
     expect(resB.body.items.map((m: { subject: string }) => m.subject)).toEqual(['Alarm for B'])
   })
@@ -109,7 +118,10 @@ describe('startMail', () => {
     const mail = await startMail(bed.ctx, { pollMs: 30 })
     expect(mail.fakeSmtp?.isRunning()).toBe(true)
     await enqueueMail(bed.ctx, sampleMail({ subject: 'Through startMail' }))
-    await waitFor(() => bed.mailbox(), (rows) => rows.some((m) => m.subject === 'Through startMail'))
+    await waitFor(
+      () => bed.mailbox(),
+      (rows) => rows.some((m) => m.subject === 'Through startMail'),
+    )
     await mail.stop()
     expect(mail.fakeSmtp?.isRunning()).toBe(false)
   })

@@ -23,15 +23,28 @@ export async function startMailBed() {
       bed.fake = await startFakeSmtp(ctx, { host: '127.0.0.1', port: bed.fake.port })
     },
     mailbox: () =>
-      ctx.sequelize.query<{ id: number; subject: string; envelope_from: string | null; envelope_to: string[]; attachments: Array<{ filename: string; contentType: string; size: number; cid: string | null }>; html_body: string | null; text_body: string | null; headers: Record<string, string>; organization_id: number | null }>(
-        'SELECT * FROM fake_mailbox ORDER BY id',
-        { type: QueryTypes.SELECT },
-      ),
+      ctx.sequelize.query<{
+        id: number
+        subject: string
+        envelope_from: string | null
+        envelope_to: string[]
+        attachments: Array<{ filename: string; contentType: string; size: number; cid: string | null }>
+        html_body: string | null
+        text_body: string | null
+        headers: Record<string, string>
+        organization_id: number | null
+      }>('SELECT * FROM fake_mailbox ORDER BY id', { type: QueryTypes.SELECT }),
     outbox: () =>
-      ctx.sequelize.query<{ id: number; status: string; attempts: number; next_attempt_at: Date; last_error: string | null; sent_at: Date | null; smtp_message_id: string | null; subject: string }>(
-        'SELECT * FROM mail_outbox ORDER BY id',
-        { type: QueryTypes.SELECT },
-      ),
+      ctx.sequelize.query<{
+        id: number
+        status: string
+        attempts: number
+        next_attempt_at: Date
+        last_error: string | null
+        sent_at: Date | null
+        smtp_message_id: string | null
+        subject: string
+      }>('SELECT * FROM mail_outbox ORDER BY id', { type: QueryTypes.SELECT }),
     /** Makes every pending row due now, instead of waiting out the backoff in real time. */
     makeDue: () => ctx.sequelize.query(`UPDATE mail_outbox SET next_attempt_at = now() WHERE status = 'pending'`),
     async close() {

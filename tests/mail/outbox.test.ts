@@ -13,12 +13,15 @@ afterAll(async () => {
 describe('enqueueMail', () => {
   it('stores a pending row that is due now, with attachments and links to organization and incident', async () => {
     const org = await bed.ctx.models.Organization.create({ name: 'Outbox org' })
-    const id = await enqueueMail(bed.ctx, sampleMail({
-      subject: 'Alarm: temperature',
-      organizationId: org.id,
-      incidentId: 4242,
-      attachments: [{ filename: 'trend.png', cid: 'trend@tankwarden', contentType: 'image/png', base64: 'iVBORw0KGgo=' }],
-    }))
+    const id = await enqueueMail(
+      bed.ctx,
+      sampleMail({
+        subject: 'Alarm: temperature',
+        organizationId: org.id,
+        incidentId: 4242,
+        attachments: [{ filename: 'trend.png', cid: 'trend@tankwarden', contentType: 'image/png', base64: 'iVBORw0KGgo=' }],
+      }),
+    )
     expect(id).toBeGreaterThan(0)
     const row = await bed.ctx.models.OutboxMessage.findByPk(id!)
     expect(row).toMatchObject({ status: 'pending', attempts: 0, organizationId: org.id, incidentId: 4242, subject: 'Alarm: temperature', lastError: null })
@@ -67,8 +70,6 @@ describe('enqueueMail', () => {
   it('rejects an unknown kind, a bad address and non-base64 attachments', async () => {
     await expect(enqueueMail(bed.ctx, sampleMail({ kind: 'newsletter' as never }))).rejects.toThrow()
     await expect(enqueueMail(bed.ctx, sampleMail({ to: 'not an address' }))).rejects.toThrow()
-    await expect(
-      enqueueMail(bed.ctx, sampleMail({ attachments: [{ filename: 'x.png', contentType: 'image/png', base64: 'not base64!' }] })),
-    ).rejects.toThrow()
+    await expect(enqueueMail(bed.ctx, sampleMail({ attachments: [{ filename: 'x.png', contentType: 'image/png', base64: 'not base64!' }] }))).rejects.toThrow()
   })
 })

@@ -21,7 +21,14 @@ beforeAll(async () => {
 })
 afterAll(() => s?.close())
 
-type Mail = { id: number; subject: string; envelope_to: string[]; text_body: string; html_body: string; attachments: Array<{ filename: string; contentType: string; size: number }> }
+type Mail = {
+  id: number
+  subject: string
+  envelope_to: string[]
+  text_body: string
+  html_body: string
+  attachments: Array<{ filename: string; contentType: string; size: number }>
+}
 const mailbox = () => s.ctx.sequelize.query<Mail>('SELECT * FROM fake_mailbox ORDER BY id', { type: QueryTypes.SELECT })
 async function deliver() {
   for (let i = 0; i < 5; i++) await s.mail.sender.runOnce()
@@ -31,8 +38,12 @@ async function deliver() {
 describe('scheduled client reports by mail', () => {
   it('sends the week just ended at Monday 08:00 site time, once, with the PDF attached', async () => {
     const schedule = await s.ctx.models.ReportSchedule.create({
-      organizationId: org.organizationId, tankId, siteId: null, period: 'week',
-      emails: ['client@marrowfen.example'], userIds: [org.users.viewer.id],
+      organizationId: org.organizationId,
+      tankId,
+      siteId: null,
+      period: 'week',
+      emails: ['client@marrowfen.example'],
+      userIds: [org.users.viewer.id],
     })
     expect(await runReportSchedules(s.ctx, new Date('2026-11-09T06:59:00Z'))).toBe(0)
     expect(await deliver()).toHaveLength(0)
@@ -59,7 +70,13 @@ describe('scheduled client reports by mail', () => {
 
   it('a monthly site report follows the site zone: 1 December 08:00 in New York is 13:00 UTC', async () => {
     const before = (await mailbox()).length
-    const monthly = await s.ctx.models.ReportSchedule.create({ organizationId: org.organizationId, tankId: null, siteId: org.siteIds[1]!, period: 'month', emails: ['fishroom@marrowfen.example'] })
+    const monthly = await s.ctx.models.ReportSchedule.create({
+      organizationId: org.organizationId,
+      tankId: null,
+      siteId: org.siteIds[1]!,
+      period: 'month',
+      emails: ['fishroom@marrowfen.example'],
+    })
     expect(await runReportSchedules(s.ctx, new Date('2026-12-01T12:59:00Z'))).toBe(0)
     expect(await runReportSchedules(s.ctx, new Date('2026-12-01T13:00:00Z'))).toBe(1)
     const mails = (await deliver()).slice(before)
@@ -70,7 +87,14 @@ describe('scheduled client reports by mail', () => {
   })
 
   it('a disabled schedule sends nothing; "send now" sends the last ended period at once', async () => {
-    const row = await s.ctx.models.ReportSchedule.create({ organizationId: org.organizationId, tankId, siteId: null, period: 'week', emails: ['now@marrowfen.example'], enabled: false })
+    const row = await s.ctx.models.ReportSchedule.create({
+      organizationId: org.organizationId,
+      tankId,
+      siteId: null,
+      period: 'week',
+      emails: ['now@marrowfen.example'],
+      enabled: false,
+    })
     expect(await runReportSchedules(s.ctx, new Date('2026-11-16T08:00:00Z'))).toBe(0)
     const before = (await mailbox()).length
     const res = await fetch(`${s.baseUrl}/api/v1/report-schedules/${row.id}/send-now`, { method: 'POST', headers: bearer(org.users.owner.token) })

@@ -51,15 +51,25 @@ describe('several senders on one outbox', () => {
     const second = createMailTransport(bed.ctx.config, { fakeSmtpPort: bed.fake.port })
     const b = startOutboxSender(bed.ctx, { transport: second, pollMs: 20, batch: 3, retry })
 
-    await waitFor(() => bed.mailbox(), (rows) => rows.length >= 5)
+    await waitFor(
+      () => bed.mailbox(),
+      (rows) => rows.length >= 5,
+    )
     await bed.stopSmtp()
     // Attempts fail while the server is away; the failed rows wait and are retried.
-    await waitFor(() => bed.outbox(), (rows) => rows.some((r) => r.status === 'pending' && r.attempts > 0))
+    await waitFor(
+      () => bed.outbox(),
+      (rows) => rows.some((r) => r.status === 'pending' && r.attempts > 0),
+    )
     const whileDown = (await bed.mailbox()).length
     expect(whileDown).toBeLessThan(30)
     await bed.restartSmtp()
 
-    await waitFor(() => bed.outbox(), (rows) => rows.every((r) => r.status === 'sent'), 15_000)
+    await waitFor(
+      () => bed.outbox(),
+      (rows) => rows.every((r) => r.status === 'sent'),
+      15_000,
+    )
     await Promise.all([a.stop(), b.stop()])
     second.close()
     expect(await subjectsReceived()).toEqual(subjects)

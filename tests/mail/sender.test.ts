@@ -24,8 +24,7 @@ afterAll(async () => {
 })
 
 // A 1-pixel PNG, so the attachment arrives as real image data.
-const PIXEL_PNG =
-  'iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNk+M9QDwADhgGAWjR9awAAAABJRU5ErkJggg=='
+const PIXEL_PNG = 'iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNk+M9QDwADhgGAWjR9awAAAABJRU5ErkJggg=='
 
 describe('retry delay', () => {
   it('doubles from 15 s and stops at 5 min', () => {
@@ -37,15 +36,18 @@ describe('retry delay', () => {
 describe('outbox sender over real SMTP', () => {
   it('delivers a mail with its HTML and inline attachment into the fake mailbox and marks it sent', async () => {
     const org = await bed.ctx.models.Organization.create({ name: 'Sender org' })
-    const id = await enqueueMail(bed.ctx, sampleMail({
-      to: 'Night.Keeper@Shop.example',
-      subject: 'Alarm: temperature 31.4 °C on Reef 2',
-      text: 'Temperature is 31.4 °C',
-      html: '<p>Temperature is 31.4 °C</p><img src="cid:trend@tankwarden">',
-      organizationId: org.id,
-      incidentId: 77,
-      attachments: [{ filename: 'trend.png', cid: 'trend@tankwarden', contentType: 'image/png', base64: PIXEL_PNG }],
-    }))
+    const id = await enqueueMail(
+      bed.ctx,
+      sampleMail({
+        to: 'Night.Keeper@Shop.example',
+        subject: 'Alarm: temperature 31.4 °C on Reef 2',
+        text: 'Temperature is 31.4 °C',
+        html: '<p>Temperature is 31.4 °C</p><img src="cid:trend@tankwarden">',
+        organizationId: org.id,
+        incidentId: 77,
+        attachments: [{ filename: 'trend.png', cid: 'trend@tankwarden', contentType: 'image/png', base64: PIXEL_PNG }],
+      }),
+    )
     const sender = startOutboxSender(bed.ctx, { transport: bed.transport, manual: true })
     const result = await sender.runOnce()
     await sender.stop()
@@ -53,9 +55,16 @@ describe('outbox sender over real SMTP', () => {
 
     const [received] = await bed.mailbox()
     // The domain part of an address is case-insensitive; nodemailer lowercases it, the local part stays.
-    expect(received).toMatchObject({ subject: 'Alarm: temperature 31.4 °C on Reef 2', envelope_from: 'alerts@tankwarden.invalid', envelope_to: ['Night.Keeper@shop.example'], organization_id: org.id })
+    expect(received).toMatchObject({
+      subject: 'Alarm: temperature 31.4 °C on Reef 2',
+      envelope_from: 'alerts@tankwarden.invalid',
+      envelope_to: ['Night.Keeper@shop.example'],
+      organization_id: org.id,
+    })
     expect(received!.text_body?.trim()).toBe('Temperature is 31.4 °C')
-    expect(received!.attachments).toEqual([{ filename: 'trend.png', contentType: 'image/png', size: Buffer.from(PIXEL_PNG, 'base64').length, cid: 'trend@tankwarden' }])
+    expect(received!.attachments).toEqual([
+      { filename: 'trend.png', contentType: 'image/png', size: Buffer.from(PIXEL_PNG, 'base64').length, cid: 'trend@tankwarden' },
+    ])
     expect(received!.headers['auto-submitted']).toBe('auto-generated')
     // mailparser quotes the display name when it formats the address back to text.
     expect(received!.headers.from).toBe('"Tankwarden" <alerts@tankwarden.invalid>')
@@ -76,7 +85,11 @@ describe('outbox sender over real SMTP', () => {
 
     expect(await sender.runOnce()).toMatchObject({ claimed: 3, sent: 0, retried: 3 })
     let rows = await bed.outbox()
-    expect(rows.map((r) => [r.status, r.attempts])).toEqual([['pending', 1], ['pending', 1], ['pending', 1]])
+    expect(rows.map((r) => [r.status, r.attempts])).toEqual([
+      ['pending', 1],
+      ['pending', 1],
+      ['pending', 1],
+    ])
     expect(rows.every((r) => r.last_error && r.last_error.length > 0)).toBe(true)
     // First failure waits baseMs (60 s here): nothing is due, the next run claims nothing.
     for (const r of rows) expect(r.next_attempt_at.getTime() - Date.now()).toBeGreaterThan(50_000)
@@ -126,14 +139,20 @@ describe('outbox sender over real SMTP', () => {
     const sender = startOutboxSender(bed.ctx, { transport: bed.transport, manual: true })
     expect(await sender.runOnce()).toMatchObject({ claimed: 1, sent: 1 })
     await sender.stop()
-    expect((await bed.outbox()).map((r) => [r.id, r.status])).toEqual([[id, 'sent'], [fresh, 'sending']])
+    expect((await bed.outbox()).map((r) => [r.id, r.status])).toEqual([
+      [id, 'sent'],
+      [fresh, 'sending'],
+    ])
     expect((await bed.mailbox()).map((m) => m.subject)).toEqual(['Left mid-send'])
   })
 
   it('polls on its own and sends what is enqueued later', async () => {
     const sender = startOutboxSender(bed.ctx, { transport: bed.transport, pollMs: 50 })
     await enqueueMail(bed.ctx, sampleMail({ subject: 'Found by polling' }))
-    const received = await waitFor(() => bed.mailbox(), (rows) => rows.length === 1)
+    const received = await waitFor(
+      () => bed.mailbox(),
+      (rows) => rows.length === 1,
+    )
     await sender.stop()
     expect(received[0]!.subject).toBe('Found by polling')
   })

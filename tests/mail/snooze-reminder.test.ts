@@ -25,7 +25,12 @@ describe('the snooze reminder', () => {
     const node = await createTankWithDevice(t.ctx, org, 'Tank <i>7</i>')
     const now = Date.now()
     await t.ctx.models.Snooze.create({
-      organizationId: org.organizationId, tankId: node.tankId, reason: 'Glass cleaning', startsAt: new Date(now - 60 * MIN), endsAt: new Date(now + 30 * MIN), createdBy: org.users.keeper.id,
+      organizationId: org.organizationId,
+      tankId: node.tankId,
+      reason: 'Glass cleaning',
+      startsAt: new Date(now - 60 * MIN),
+      endsAt: new Date(now + 30 * MIN),
+      createdBy: org.users.keeper.id,
     })
     expect(await remindEndingSnoozes(t.ctx, now)).toBe(0) // 30 min to go: not yet
     expect(await remindEndingSnoozes(t.ctx, now + 16 * MIN)).toBe(1)

@@ -44,15 +44,17 @@ describe('HTML escaping', () => {
 
   for (const [name, template] of Object.entries(ALL)) {
     it(`${name}: names with markup appear escaped, never as markup`, () => {
-      const mail = template(input({
-        organizationName: HOSTILE,
-        siteName: HOSTILE,
-        tankName: HOSTILE,
-        ruleName: HOSTILE,
-        metricLabel: HOSTILE,
-        whatToCheck: [HOSTILE],
-        safetyCaution: HOSTILE,
-      }))
+      const mail = template(
+        input({
+          organizationName: HOSTILE,
+          siteName: HOSTILE,
+          tankName: HOSTILE,
+          ruleName: HOSTILE,
+          metricLabel: HOSTILE,
+          whatToCheck: [HOSTILE],
+          safetyCaution: HOSTILE,
+        }),
+      )
       expect(mail.html).not.toContain('<script>')
       expect(mail.html).toContain(ESCAPED)
       // The plain text part is not HTML: it keeps the names as they are.

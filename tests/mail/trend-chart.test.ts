@@ -24,7 +24,15 @@ describe('trend chart', () => {
 
   it('labels the time axis in the site zone (06:00–10:00 UTC is 08:00–12:00 in Berlin in July)', async () => {
     // IANA tz database, file `europe`: Europe/Berlin observes UTC+2 in July.
-    const svg = await renderTrendSvg({ points: [[start, 25], [start + 4 * HOUR, 26]], title: 'T', unitLabel: '°C', timeZone: 'Europe/Berlin' })
+    const svg = await renderTrendSvg({
+      points: [
+        [start, 25],
+        [start + 4 * HOUR, 26],
+      ],
+      title: 'T',
+      unitLabel: '°C',
+      timeZone: 'Europe/Berlin',
+    })
     const labels = [...svg.matchAll(/>(\d\d:\d\d)</g)].map((m) => m[1])
     expect(labels).toContain('08:00')
     expect(labels).toContain('12:00')

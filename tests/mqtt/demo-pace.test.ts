@@ -39,8 +39,7 @@ let nodes: SimulatedNode[] = []
 let clock = Date.now()
 let startedAt = 0
 
-const count = async (sql: string, bind: unknown[] = []) =>
-  (await ctx.sequelize.query<{ n: number }>(sql, { bind, type: QueryTypes.SELECT }))[0]!.n
+const count = async (sql: string, bind: unknown[] = []) => (await ctx.sequelize.query<{ n: number }>(sql, { bind, type: QueryTypes.SELECT }))[0]!.n
 
 beforeAll(async () => {
   db = await createTestDatabase()
@@ -121,7 +120,14 @@ async function playUntil(untilMs: number) {
 }
 
 async function since(label: string) {
-  const incidents = await ctx.sequelize.query<{ tank: string; title: string; state: string; escalation_level: number; opened_at: Date; resolved_at: Date | null }>(
+  const incidents = await ctx.sequelize.query<{
+    tank: string
+    title: string
+    state: string
+    escalation_level: number
+    opened_at: Date
+    resolved_at: Date | null
+  }>(
     `SELECT t.name AS tank, i.title, i.state, i.escalation_level, i.opened_at, i.resolved_at FROM incidents i JOIN tanks t ON t.id = i.tank_id
      WHERE i.opened_at >= $1 ORDER BY i.opened_at`,
     { bind: [new Date(startedAt)], type: QueryTypes.SELECT },

@@ -20,8 +20,7 @@ afterAll(() => s.close())
 const connect = (node: { deviceId: number; token: string }, options: mqtt.IClientOptions = {}) =>
   mqtt.connectAsync(s.mqttUrl, { username: String(node.deviceId), password: node.token, reconnectPeriod: 0, clientId: `cut-${Math.random()}`, ...options })
 
-const owner = (method: string, path: string) =>
-  fetch(`${s.baseUrl}/api/v1${path}`, { method, headers: { authorization: `Bearer ${org.users.owner.token}` } })
+const owner = (method: string, path: string) => fetch(`${s.baseUrl}/api/v1${path}`, { method, headers: { authorization: `Bearer ${org.users.owner.token}` } })
 
 async function storedCount(tankId: number) {
   const [row] = await s.ctx.sequelize.query<{ n: number }>('SELECT count(*)::int AS n FROM readings WHERE tank_id = $1', {
@@ -35,7 +34,7 @@ const reading = (value: number) => JSON.stringify({ v: 1, readings: [{ metric: '
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms))
 
 describe('a device that loses its grant', () => {
-  it("does not have its will message stored once it is revoked", async () => {
+  it('does not have its will message stored once it is revoked', async () => {
     const node = await createTankWithDevice(s.ctx, org, 'Will tank')
     const client = await connect(node, { will: { topic: readingsTopic(node.deviceId), payload: Buffer.from(reading(6.6)), qos: 1, retain: false } })
     const closed = new Promise<void>((resolve) => client.once('close', () => resolve()))

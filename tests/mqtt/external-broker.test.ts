@@ -25,7 +25,12 @@ const running: RunningServer[] = []
 
 async function start(instanceId: string) {
   const server = await startServer(
-    testConfig({ databaseUrl: db.url, instanceId, mqtt: { url: broker.url(APP), host: '127.0.0.1', port: 0 }, mail: { fakeSmtpPort: 0, from: 'ext@tankwarden.invalid' } }),
+    testConfig({
+      databaseUrl: db.url,
+      instanceId,
+      mqtt: { url: broker.url(APP), host: '127.0.0.1', port: 0 },
+      mail: { fakeSmtpPort: 0, from: 'ext@tankwarden.invalid' },
+    }),
   )
   running.push(server)
   return server
@@ -36,16 +41,22 @@ async function stop(server: RunningServer) {
 }
 
 const rowsOf = (tankId: number) =>
-  ctx.sequelize.query<{ value: number; time: Date }>(`SELECT value, time FROM readings WHERE tank_id = $1 ORDER BY time`, { bind: [tankId], type: QueryTypes.SELECT })
+  ctx.sequelize.query<{ value: number; time: Date }>(`SELECT value, time FROM readings WHERE tank_id = $1 ORDER BY time`, {
+    bind: [tankId],
+    type: QueryTypes.SELECT,
+  })
 
 // Model classes are bound to the last Sequelize that initialised them (a running instance's), so the test reads with SQL.
 const deviceStatus = async (deviceId: number) =>
-  (await ctx.sequelize.query<{ rejected_count: string; last_error: string | null }>(`SELECT rejected_count, last_error FROM devices WHERE id = $1`, {
-    bind: [deviceId], type: QueryTypes.SELECT,
-  }))[0]
+  (
+    await ctx.sequelize.query<{ rejected_count: string; last_error: string | null }>(`SELECT rejected_count, last_error FROM devices WHERE id = $1`, {
+      bind: [deviceId],
+      type: QueryTypes.SELECT,
+    })
+  )[0]
 
 async function until(check: () => Promise<boolean> | boolean, ms = 15_000) {
-  for (const end = Date.now() + ms; Date.now() < end; ) {
+  for (const end = Date.now() + ms; Date.now() < end;) {
     if (await check()) return true
     await new Promise((r) => setTimeout(r, 100))
   }
@@ -54,16 +65,24 @@ async function until(check: () => Promise<boolean> | boolean, ms = 15_000) {
 
 /** Debian's mosquitto_pub with a device's credentials, as the deployment notes show it. */
 const mosquittoPub = (user: number, token: string, topic: string, message: string) =>
-  run('mosquitto_pub', ['-h', '127.0.0.1', '-p', String(broker.port), '-V', 'mqttv311', '-u', String(user), '-P', token, '-q', '1', '-t', topic, '-m', message], {
-    timeout: 10_000,
-  })
+  run(
+    'mosquitto_pub',
+    ['-h', '127.0.0.1', '-p', String(broker.port), '-V', 'mqttv311', '-u', String(user), '-P', token, '-q', '1', '-t', topic, '-m', message],
+    {
+      timeout: 10_000,
+    },
+  )
     .then(() => ({ ok: true, stderr: '' }))
     .catch((error: { stderr?: string }) => ({ ok: false, stderr: error.stderr ?? '' }))
 
-const message = (value: number, time: number, metric = 'temperature') => JSON.stringify({ v: 1, readings: [{ metric, value, time: new Date(time).toISOString() }] })
+const message = (value: number, time: number, metric = 'temperature') =>
+  JSON.stringify({ v: 1, readings: [{ metric, value, time: new Date(time).toISOString() }] })
 
 async function deviceClient(device: { deviceId: number; token: string }): Promise<MqttClient> {
-  return mqtt.connectAsync(broker.url({ username: String(device.deviceId), password: device.token }), { clientId: `device-${device.deviceId}-${Date.now()}`, reconnectPeriod: 0 })
+  return mqtt.connectAsync(broker.url({ username: String(device.deviceId), password: device.token }), {
+    clientId: `device-${device.deviceId}-${Date.now()}`,
+    reconnectPeriod: 0,
+  })
 }
 
 beforeAll(async () => {
@@ -131,7 +150,10 @@ describe('MQTT_URL mode against mosquitto', () => {
   it('splits the shared subscription between two instances: every message stored once', async () => {
     const a = await start('ext-a')
     const b = await start('ext-b')
-    const stored = new Map<RunningServer, number>([[a, 0], [b, 0]])
+    const stored = new Map<RunningServer, number>([
+      [a, 0],
+      [b, 0],
+    ])
     // Counted where stored: each bus also hears the other instance's readings through the fan-out.
     for (const s of [a, b]) {
       s.ctx.events.on('readings.stored', (rows) => {
@@ -165,7 +187,11 @@ describe('MQTT_URL mode against mosquitto', () => {
     const doomed = await Promise.all(
       clientIds.map(async (clientId) => {
         const c = await mqtt.connectAsync(broker.url(APP), {
-          clientId, protocolVersion: 5, clean: false, properties: { sessionExpiryInterval: 3600 }, reconnectPeriod: 0,
+          clientId,
+          protocolVersion: 5,
+          clean: false,
+          properties: { sessionExpiryInterval: 3600 },
+          reconnectPeriod: 0,
           customHandleAcks: (_topic, payload) => void received.push(payload.toString()), // never acknowledged
         })
         await c.subscribeAsync(SHARED_READINGS_FILTER, { qos: 1 })

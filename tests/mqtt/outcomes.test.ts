@@ -47,7 +47,13 @@ describe('the device outcomes topic', () => {
     const again = await send(body)
     expect(again.messageId).not.toBe(first.messageId)
     expect(again.outcome).toEqual({
-      v: 1, messageId: again.messageId, outcome: 'duplicate', accepted: 0, duplicates: 1, rejected: 0, results: [{ index: 0, outcome: 'duplicate' }],
+      v: 1,
+      messageId: again.messageId,
+      outcome: 'duplicate',
+      accepted: 0,
+      duplicates: 1,
+      rejected: 0,
+      results: [{ index: 0, outcome: 'duplicate' }],
     })
   })
 

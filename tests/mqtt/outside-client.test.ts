@@ -22,17 +22,25 @@ afterAll(() => s.close())
 
 /** Debian's mosquitto_pub, exactly as the README shows it. */
 const mosquittoPub = (user: number, token: string, topic: string, message: string) =>
-  run('mosquitto_pub', ['-h', '127.0.0.1', '-p', String(s.mqttPort), '-u', String(user), '-P', token, '-q', '1', '-t', topic, '-m', message], { timeout: 10_000 })
+  run('mosquitto_pub', ['-h', '127.0.0.1', '-p', String(s.mqttPort), '-u', String(user), '-P', token, '-q', '1', '-t', topic, '-m', message], {
+    timeout: 10_000,
+  })
     .then(() => ({ ok: true, stderr: '' }))
     .catch((error: { stderr?: string }) => ({ ok: false, stderr: error.stderr ?? '' }))
 
 describe('a device speaking through mosquitto_pub', () => {
   it('publishes a reading that appears on the tank series', async () => {
     const time = new Date(Date.now() - 60_000).toISOString()
-    const result = await mosquittoPub(node.deviceId, node.token, readingsTopic(node.deviceId), JSON.stringify({ v: 1, readings: [{ metric: 'temperature', value: 25.8, unit: 'C', time }] }))
+    const result = await mosquittoPub(
+      node.deviceId,
+      node.token,
+      readingsTopic(node.deviceId),
+      JSON.stringify({ v: 1, readings: [{ metric: 'temperature', value: 25.8, unit: 'C', time }] }),
+    )
     expect(result.ok).toBe(true)
     const series = await s.ctx.sequelize.query<{ value: number }>(`SELECT value FROM readings WHERE tank_id = $1 AND metric = 'temperature' AND time = $2`, {
-      bind: [node.tankId, time], type: QueryTypes.SELECT,
+      bind: [node.tankId, time],
+      type: QueryTypes.SELECT,
     })
     expect(series).toEqual([{ value: 25.8 }])
   })

@@ -14,7 +14,14 @@ let org: TestOrg
 beforeAll(async () => {
   s = await startTestServer()
   org = await s.createOrg('Simulated Shop')
-  const owner = { kind: 'user' as const, userId: org.users.owner.id, organizationId: org.organizationId, role: 'owner' as const, siteIds: null, sessionId: 'seed' }
+  const owner = {
+    kind: 'user' as const,
+    userId: org.users.owner.id,
+    organizationId: org.organizationId,
+    role: 'owner' as const,
+    siteIds: null,
+    sessionId: 'seed',
+  }
   await tanksService(s.ctx).create(owner, sampleTank(org.siteIds[0], { name: 'Sim A' }) as never)
   await tanksService(s.ctx).create(owner, sampleTank(org.siteIds[0], { name: 'Sim B', kind: 'planted' }) as never)
   await tanksService(s.ctx).create(owner, sampleTank(org.siteIds[1], { name: 'Sim empty', stage: 'empty' }) as never)
@@ -23,9 +30,26 @@ afterAll(() => s.close())
 
 /** The simulator as its own program, speaking only the public API and MQTT. */
 const simulate = (...args: string[]) =>
-  run(process.execPath, ['--import', 'tsx', 'simulator/index.ts', '--url', s.baseUrl, '--email', org.users.owner.email, '--password', TEST_PASSWORD, '--mqtt-url', s.mqttUrl, ...args], {
-    timeout: 60_000,
-  })
+  run(
+    process.execPath,
+    [
+      '--import',
+      'tsx',
+      'simulator/index.ts',
+      '--url',
+      s.baseUrl,
+      '--email',
+      org.users.owner.email,
+      '--password',
+      TEST_PASSWORD,
+      '--mqtt-url',
+      s.mqttUrl,
+      ...args,
+    ],
+    {
+      timeout: 60_000,
+    },
+  )
 
 describe('the simulator against a running app', () => {
   it('provisions a device per non-empty tank and delivers plausible readings over MQTT', async () => {

@@ -62,7 +62,9 @@ describe('device connection dropped mid-batch (embedded broker)', () => {
     expect(load.reconnects).toBeGreaterThanOrEqual(drops)
     // Messages the broker took in: more than were stored means some arrived twice and were deduplicated.
     const received = s.broker!.stats().messages
-    console.log(`[faults] connection drops: ${drops} drops, ${load.reconnects} reconnects, ${load.published.size} published, ${load.acked.size} acknowledged, ${received} messages received, ${stored.size} stored, ${load.failures.length} given up by the client (${[...new Set(load.failures)].join('; ')})`)
+    console.log(
+      `[faults] connection drops: ${drops} drops, ${load.reconnects} reconnects, ${load.published.size} published, ${load.acked.size} acknowledged, ${received} messages received, ${stored.size} stored, ${load.failures.length} given up by the client (${[...new Set(load.failures)].join('; ')})`,
+    )
     expect(received).toBeGreaterThan(stored.size)
   })
 })
@@ -107,7 +109,9 @@ describe('app process with its embedded broker killed and restarted', () => {
     for (const [k, node] of nodes.entries()) {
       const stored = await expectStoredOnce(ctx, node.deviceId, loads[k])
       expect(loads[k].reconnects).toBeGreaterThanOrEqual(2)
-      console.log(`[faults] app restarts, device ${k + 1}: ${loads[k].published.size} published, ${loads[k].acked.size} acknowledged, ${stored.size} stored, ${loads[k].reconnects} reconnects, ${loads[k].failures.length} given up by the client (${[...new Set(loads[k].failures)].join('; ')})`)
+      console.log(
+        `[faults] app restarts, device ${k + 1}: ${loads[k].published.size} published, ${loads[k].acked.size} acknowledged, ${stored.size} stored, ${loads[k].reconnects} reconnects, ${loads[k].failures.length} given up by the client (${[...new Set(loads[k].failures)].join('; ')})`,
+      )
     }
     expect(app.starts).toBe(3)
   })

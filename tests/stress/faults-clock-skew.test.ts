@@ -33,8 +33,12 @@ const temperature = (at: number, value: number): Reading => ({ metric: 'temperat
 async function withHeatRule(name: string) {
   const node = await createTankWithDevice(s.ctx, org, name)
   await s.ctx.models.WatchRule.create({
-    organizationId: org.organizationId, siteId: org.siteIds[0], tankId: node.tankId, name: 'Temperature above 28 °C for 10 min',
-    severity: 'alarm', spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 },
+    organizationId: org.organizationId,
+    siteId: org.siteIds[0],
+    tankId: node.tankId,
+    name: 'Temperature above 28 °C for 10 min',
+    severity: 'alarm',
+    spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 },
   })
   s.ctx.events.emit('rules.changed', { tankIds: [node.tankId] })
   await s.rules.engine.settle()
@@ -53,13 +57,22 @@ describe('a device clock running ahead', () => {
     ])
     expect(res.status).toBe(200)
     expect(res.body).toMatchObject({ accepted: 1, duplicates: 0, rejected: 2 })
-    expect(res.body.results[0]).toEqual({ index: 0, outcome: 'rejected', field: 'readings.0.time', reason: expect.stringMatching(new RegExp(`more than ${MAX_FUTURE_SECONDS} s in the future \\(check the device clock\\)`)) })
+    expect(res.body.results[0]).toEqual({
+      index: 0,
+      outcome: 'rejected',
+      field: 'readings.0.time',
+      reason: expect.stringMatching(new RegExp(`more than ${MAX_FUTURE_SECONDS} s in the future \\(check the device clock\\)`)),
+    })
     expect(res.body.results[1]).toEqual({ index: 1, outcome: 'accepted' })
     expect(res.body.results[2].outcome).toBe('rejected')
 
     // The same over MQTT, where the device hears nothing back: the count on the device tells.
     const client = await mqtt.connectAsync(s.mqttUrl, { username: String(node.deviceId), password: node.token, reconnectPeriod: 0 })
-    await client.publishAsync(readingsTopic(node.deviceId), JSON.stringify({ v: 1, readings: [temperature(Date.now() + 10 * MIN, 25.3), temperature(Date.now() - MIN, 25.4)] }), { qos: 1 })
+    await client.publishAsync(
+      readingsTopic(node.deviceId),
+      JSON.stringify({ v: 1, readings: [temperature(Date.now() + 10 * MIN, 25.3), temperature(Date.now() - MIN, 25.4)] }),
+      { qos: 1 },
+    )
     await client.endAsync()
 
     await s.ctx.readings.status.flush()
@@ -68,7 +81,10 @@ describe('a device clock running ahead', () => {
     expect(device.body.rejectedCount).toBe(3)
     expect(device.body.lastError).toMatch(/in the future \(check the device clock\)/)
 
-    const series = await api(`/tanks/${node.tankId}/series?metric=temperature&from=${new Date(now - 2 * MIN).toISOString()}&to=${new Date(now + 3600_000).toISOString()}`, org.users.viewer.token)
+    const series = await api(
+      `/tanks/${node.tankId}/series?metric=temperature&from=${new Date(now - 2 * MIN).toISOString()}&to=${new Date(now + 3600_000).toISOString()}`,
+      org.users.viewer.token,
+    )
     expect(series.body.raw.map((p: { value: number }) => p.value)).toEqual([25.4, 25.2])
   })
 })
@@ -81,7 +97,10 @@ describe('out-of-order readings', () => {
     const order = [17, 3, 29, 0, 11, 25, 8, 21, 14, 5, 27, 1, 19, 10, 23, 6, 28, 13, 2, 16, 24, 9, 20, 4, 26, 12, 18, 7, 22, 15]
     // One reading per request, in a scrambled order; then the whole backlog again (a device resending it).
     for (const i of order) expect((await postReadings(node.token, [temperature(values[i].at, values[i].value)])).body.accepted).toBe(1)
-    const again = await postReadings(node.token, order.map((i) => temperature(values[i].at, values[i].value)))
+    const again = await postReadings(
+      node.token,
+      order.map((i) => temperature(values[i].at, values[i].value)),
+    )
     expect(again.body).toMatchObject({ accepted: 0, duplicates: 30, rejected: 0 })
     const series = await api(`/tanks/${node.tankId}/series?metric=temperature&from=${new Date(t0 - MIN).toISOString()}`, org.users.viewer.token)
     expect(series.body.raw.map((p: { t: string; value: number }) => [new Date(p.t).getTime(), p.value])).toEqual(values.map((v) => [v.at, v.value]))
@@ -102,7 +121,10 @@ describe('out-of-order readings', () => {
   it('does not resolve an incident because of a late low reading, nor open one because of a late high reading', async () => {
     const node = await withHeatRule('Late reading tank')
     const t0 = Date.now() - 40 * MIN
-    await postReadings(node.token, Array.from({ length: 12 }, (_, i) => temperature(t0 + i * MIN, 28.8)))
+    await postReadings(
+      node.token,
+      Array.from({ length: 12 }, (_, i) => temperature(t0 + i * MIN, 28.8)),
+    )
     await s.rules.engine.settle()
     const [open] = await incidentsOf(node.tankId)
     expect(open.state).toBe('open')
@@ -121,7 +143,10 @@ describe('out-of-order readings', () => {
     expect(open.resolvedAt?.getTime()).toBe(t0 + 14 * MIN)
 
     // Late hot readings from before the cooling (a second path catching up) open nothing new.
-    await postReadings(node.token, Array.from({ length: 2 }, (_, i) => temperature(t0 + (12 + i) * MIN + 30_000, 29.5)))
+    await postReadings(
+      node.token,
+      Array.from({ length: 2 }, (_, i) => temperature(t0 + (12 + i) * MIN + 30_000, 29.5)),
+    )
     await s.rules.engine.settle()
     await s.rules.engine.tick(Date.now() + 15 * MIN)
     const after = await incidentsOf(node.tankId)

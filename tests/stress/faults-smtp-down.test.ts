@@ -48,22 +48,31 @@ async function api(path: string, token: string, init: RequestInit = {}): Promise
   return { status: res.status, body: res.status === 204 ? null : await res.json() }
 }
 type OutboxRow = { id: number; status: string; attempts: number; last_error: string | null; to_address: string; kind: string }
-const outbox = () => s.ctx.sequelize.query<OutboxRow>('SELECT id, status, attempts, last_error, to_address, kind FROM mail_outbox ORDER BY id', { type: QueryTypes.SELECT })
+const outbox = () =>
+  s.ctx.sequelize.query<OutboxRow>('SELECT id, status, attempts, last_error, to_address, kind FROM mail_outbox ORDER BY id', { type: QueryTypes.SELECT })
 const mailbox = () =>
-  s.ctx.sequelize.query<{ id: number; headers: Record<string, string>; envelope_to: string[] }>('SELECT id, headers, envelope_to FROM fake_mailbox ORDER BY id', { type: QueryTypes.SELECT })
+  s.ctx.sequelize.query<{ id: number; headers: Record<string, string>; envelope_to: string[] }>(
+    'SELECT id, headers, envelope_to FROM fake_mailbox ORDER BY id',
+    { type: QueryTypes.SELECT },
+  )
 
 describe('SMTP down for ten minutes during an incident', () => {
   it('retries with backoff, sends every mail once SMTP returns, none twice, and records every attempt', async () => {
     for (let weekday = 0; weekday < 7; weekday++) {
       const shift = await api(`/sites/${org.siteIds[0]}/roster/shifts`, org.users.owner.token, {
-        method: 'POST', body: JSON.stringify({ userId: org.users.keeper.id, weekday, start: '00:00', end: '00:00' }),
+        method: 'POST',
+        body: JSON.stringify({ userId: org.users.keeper.id, weekday, start: '00:00', end: '00:00' }),
       })
       expect(shift.status).toBe(201)
     }
     const node = await createTankWithDevice(s.ctx, org, 'Coral grow-out 2')
     await s.ctx.models.WatchRule.create({
-      organizationId: org.organizationId, siteId: org.siteIds[0], tankId: node.tankId, name: 'Temperature above 28 °C for 10 min',
-      severity: 'alarm', spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 },
+      organizationId: org.organizationId,
+      siteId: org.siteIds[0],
+      tankId: node.tankId,
+      name: 'Temperature above 28 °C for 10 min',
+      severity: 'alarm',
+      spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 },
     })
     s.ctx.events.emit('rules.changed', { tankIds: [node.tankId] })
 
@@ -73,7 +82,10 @@ describe('SMTP down for ten minutes during an incident', () => {
     const t0 = Date.now() - 12 * MIN
     const post = await api('/readings', node.token, {
       method: 'POST',
-      body: JSON.stringify({ v: 1, readings: Array.from({ length: 13 }, (_, i) => ({ metric: 'temperature', value: 28.6, time: new Date(t0 + i * MIN).toISOString() })) }),
+      body: JSON.stringify({
+        v: 1,
+        readings: Array.from({ length: 13 }, (_, i) => ({ metric: 'temperature', value: 28.6, time: new Date(t0 + i * MIN).toISOString() })),
+      }),
     })
     expect(post.body.accepted).toBe(13)
     await s.rules.engine.settle()
@@ -126,6 +138,8 @@ describe('SMTP down for ten minutes during an incident', () => {
     const ofIncident = attempts.filter((a) => a.incidentId === incident.id)
     expect(timeline.filter((e) => e.kind === 'mail_failed')).toHaveLength(ofIncident.filter((a) => !a.ok).length)
     expect(timeline.filter((e) => e.kind === 'mail_sent')).toHaveLength(rows.length)
-    console.log(`[faults] SMTP outage: ${rows.length} mails, ${attempts.length} attempts (${attempts.filter((a) => !a.ok).length} refused), each delivered once`)
+    console.log(
+      `[faults] SMTP outage: ${rows.length} mails, ${attempts.length} attempts (${attempts.filter((a) => !a.ok).length} refused), each delivered once`,
+    )
   })
 })

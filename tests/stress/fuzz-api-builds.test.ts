@@ -15,23 +15,61 @@ let filled: number
 beforeAll(async () => {
   w = await buildFuzzWorld()
   const make = async (name: string) => {
-    const res = await w.t.api().post('/api/v1/tanks').set(bearer(w.owner)).send(sampleTank(w.siteId, { name, dimensions: TANK_60, heater: null }))
+    const res = await w.t
+      .api()
+      .post('/api/v1/tanks')
+      .set(bearer(w.owner))
+      .send(sampleTank(w.siteId, { name, dimensions: TANK_60, heater: null }))
     expect(res.status).toBe(201)
     expect((await w.t.api().put(`/api/v1/tanks/${res.body.id}/build/plan`).set(bearer(w.owner)).send(PLAN_60)).status).toBe(200)
     return res.body.id as number
   }
   planned = await make('Fuzz planned build')
   filled = await make('Fuzz filled build')
-  expect((await w.t.api().post(`/api/v1/tanks/${filled}/build/start`).set(bearer(w.owner)).send({ filledOn: localDaysAgo('Europe/Berlin', 3) })).status).toBe(200)
+  expect(
+    (
+      await w.t
+        .api()
+        .post(`/api/v1/tanks/${filled}/build/start`)
+        .set(bearer(w.owner))
+        .send({ filledOn: localDaysAgo('Europe/Berlin', 3) })
+    ).status,
+  ).toBe(200)
 })
 afterAll(() => w?.t.close())
 
 describe('hostile JSON bodies: builds', () => {
   it('answers each with a documented status and a clear error, and writes nothing when it refuses', { timeout: 600_000 }, async () => {
     const routes: FuzzRoute[] = [
-      { method: 'put', path: `/tanks/${w.careTankId}/build/plan`, token: w.keeper, base: PLAN_60, knownFields: ['material', 'depthCm', 'fillHeightCm', 'substrateDepthCm', 'hardscapeLitres', 'heater.topCm', 'setPointC', 'roomC', 'glassThicknessMm', 'densityKgPerL', 'bagLitres', 'kg', 'litres', 'labelRate.amount'] },
+      {
+        method: 'put',
+        path: `/tanks/${w.careTankId}/build/plan`,
+        token: w.keeper,
+        base: PLAN_60,
+        knownFields: [
+          'material',
+          'depthCm',
+          'fillHeightCm',
+          'substrateDepthCm',
+          'hardscapeLitres',
+          'heater.topCm',
+          'setPointC',
+          'roomC',
+          'glassThicknessMm',
+          'densityKgPerL',
+          'bagLitres',
+          'kg',
+          'litres',
+          'labelRate.amount',
+        ],
+      },
       { method: 'post', path: `/tanks/${planned}/build/start`, token: w.keeper, base: { filledOn: localDaysAgo('Europe/Berlin', 2) } },
-      { method: 'post', path: `/tanks/${filled}/build/steps/conditioner/done`, token: w.keeper, base: { notes: 'conditioner in', at: new Date(Date.now() - 60_000).toISOString() } },
+      {
+        method: 'post',
+        path: `/tanks/${filled}/build/steps/conditioner/done`,
+        token: w.keeper,
+        base: { notes: 'conditioner in', at: new Date(Date.now() - 60_000).toISOString() },
+      },
       { method: 'post', path: `/tanks/${planned}/build/report/mail`, token: w.keeper, base: { emails: ['client@fuzz.example'] } },
     ]
     const failures: string[] = []

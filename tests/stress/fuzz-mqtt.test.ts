@@ -38,7 +38,8 @@ const connect = (username: string, password: string) =>
 
 const rowsOf = (tankId: number) =>
   s.ctx.sequelize.query<{ metric: string; value: number; time: Date }>('SELECT metric, value, time FROM readings WHERE tank_id = $1', {
-    bind: [tankId], type: QueryTypes.SELECT,
+    bind: [tankId],
+    type: QueryTypes.SELECT,
   })
 
 /** What the contract says about an envelope, judged independently of the server's code. */
@@ -57,7 +58,13 @@ function envelopeReadable(payload: string): { ok: false } | { ok: true; readings
 
 const basePayload = fc.integer({ min: 2, max: 3000 }).map((minutesAgo) => {
   const time = new Date(Date.now() - minutesAgo * 60_000).toISOString()
-  return { v: 1, readings: [{ metric: 'temperature', value: 25.1, unit: 'C', time }, { metric: 'ph', value: 7, time }] }
+  return {
+    v: 1,
+    readings: [
+      { metric: 'temperature', value: 25.1, unit: 'C', time },
+      { metric: 'ph', value: 7, time },
+    ],
+  }
 })
 
 describe('hostile readings payloads over MQTT', () => {
@@ -79,7 +86,8 @@ describe('hostile readings payloads over MQTT', () => {
           const oversize = await connect(String(node.deviceId), node.token)
           const cut = new Promise<'closed'>((resolve) => oversize.once('close', () => resolve('closed')))
           oversize.publish(readingsTopic(node.deviceId), bytes, { qos: 1 }, () => {})
-          if ((await Promise.race([cut, new Promise<'open'>((r) => setTimeout(() => r('open'), 5000))])) === 'open') failures.push(`[${how}] ${bytes.length} bytes: connection kept`)
+          if ((await Promise.race([cut, new Promise<'open'>((r) => setTimeout(() => r('open'), 5000))])) === 'open')
+            failures.push(`[${how}] ${bytes.length} bytes: connection kept`)
           oversize.end(true)
           if ((await rowsOf(node.tankId)).length !== before) failures.push(`[${how}] ${bytes.length} bytes: rows stored`)
           return
@@ -104,7 +112,9 @@ describe('hostile readings payloads over MQTT', () => {
     const implausible = rows.filter((r) => !METRIC_KEYS.includes(r.metric as never) || !Number.isFinite(r.value) || r.time.getTime() > Date.now() + 5 * 60_000)
     await s.ctx.readings.status.flush()
     const device = await s.ctx.models.Device.findByPk(node.deviceId)
-    console.log(`fuzz MQTT readings payload: ${cases} cases, ${failures.length} failures, ${rows.length} rows stored, ${device!.rejectedCount} rejections recorded, ${unexpected.length} unhandled errors`)
+    console.log(
+      `fuzz MQTT readings payload: ${cases} cases, ${failures.length} failures, ${rows.length} rows stored, ${device!.rejectedCount} rejections recorded, ${unexpected.length} unhandled errors`,
+    )
     expect(failures.slice(0, 10)).toEqual([])
     expect(implausible).toEqual([])
     expect(Number(device!.rejectedCount)).toBeGreaterThan(0)
@@ -116,9 +126,16 @@ describe('hostile readings payloads over MQTT', () => {
     const other = await createTankWithDevice(s.ctx, org, 'Fuzz neighbour tank')
     const topics = fc.oneof(
       fc.constantFrom(
-        readingsTopic(other.deviceId), `tankwarden/v1/devices/${node.deviceId}/commands`, `tankwarden/v1/devices/${node.deviceId}/readings/x`,
-        `tankwarden/v1/devices/0${node.deviceId}/readings`, `tankwarden/v1/devices/${node.deviceId}`, 'tankwarden/v1/devices/+/readings',
-        `TANKWARDEN/v1/devices/${node.deviceId}/readings`, `tankwarden/v1/devices/${node.deviceId}/readings\u0000`, '$SYS/broker', '',
+        readingsTopic(other.deviceId),
+        `tankwarden/v1/devices/${node.deviceId}/commands`,
+        `tankwarden/v1/devices/${node.deviceId}/readings/x`,
+        `tankwarden/v1/devices/0${node.deviceId}/readings`,
+        `tankwarden/v1/devices/${node.deviceId}`,
+        'tankwarden/v1/devices/+/readings',
+        `TANKWARDEN/v1/devices/${node.deviceId}/readings`,
+        `tankwarden/v1/devices/${node.deviceId}/readings\u0000`,
+        '$SYS/broker',
+        '',
       ),
       fc.string({ minLength: 1, maxLength: 60 }).filter((t) => t !== readingsTopic(node.deviceId)),
     )

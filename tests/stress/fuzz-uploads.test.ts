@@ -46,7 +46,11 @@ function judge(status: number, body: { error?: { code?: string; message?: string
 
 describe('malformed multipart bodies', () => {
   it('every upload route answers 400 (or 413/415), never a 500, and keeps nothing it refused', { timeout: 600_000 }, async () => {
-    const csv = Buffer.from(`time,temperature\n${minuteTimes(3).map((time) => `${time},25.0`).join('\n')}\n`)
+    const csv = Buffer.from(
+      `time,temperature\n${minuteTimes(3)
+        .map((time) => `${time},25.0`)
+        .join('\n')}\n`,
+    )
     const routes = [
       { path: `/api/v1/tanks/${tankId}/imports`, field: 'file' },
       { path: '/api/v1/backup/restore', field: 'file' },
@@ -70,7 +74,11 @@ describe('malformed multipart bodies', () => {
         }),
         { numRuns: NUM_RUNS, seed: SEED },
       )
-      console.log(`fuzz multipart ${route.path}: ${Object.entries(statuses).map(([s, n]) => `${s}×${n}`).join(' ')}`)
+      console.log(
+        `fuzz multipart ${route.path}: ${Object.entries(statuses)
+          .map(([s, n]) => `${s}×${n}`)
+          .join(' ')}`,
+      )
     }
     console.log(`fuzz uploads multipart: ${routes.length} routes, ${cases} cases, ${failures.length} failures, ${unexpected.length} unhandled errors`)
     expect(failures.slice(0, 10)).toEqual([])
@@ -105,9 +113,13 @@ describe('malformed CSV', () => {
         if (job.status !== 'done') return void failures.push(`job [${how}] ended ${job.status}: ${job.error}`)
         if (job.rowsRead !== job.rowsAccepted + job.rowsDuplicate + job.rowsRejected) failures.push(`job [${how}] counts ${JSON.stringify(job)}`)
         if (job.hasReport) {
-          const report = parse((await t.api().get(`/api/v1/imports/${res.body.id}/rejections`).set(owner())).text, { columns: true }) as Array<{ line: string; reason: string }>
+          const report = parse((await t.api().get(`/api/v1/imports/${res.body.id}/rejections`).set(owner())).text, { columns: true }) as Array<{
+            line: string
+            reason: string
+          }>
           const refusedLines = report.filter((r) => r.reason !== 'duplicate').map((r) => r.line)
-          if (new Set(refusedLines).size > job.rowsRejected) failures.push(`job [${how}] reported ${new Set(refusedLines).size} refused lines for ${job.rowsRejected} refused rows`)
+          if (new Set(refusedLines).size > job.rowsRejected)
+            failures.push(`job [${how}] reported ${new Set(refusedLines).size} refused lines for ${job.rowsRejected} refused rows`)
         }
       }),
       { numRuns: NUM_RUNS, seed: SEED },
@@ -119,8 +131,17 @@ describe('malformed CSV', () => {
   })
 
   it('a well-formed body still uploads (the fuzz base is valid)', async () => {
-    const csv = Buffer.from(`time,temperature\n${minuteTimes(2).map((time) => `${time},25.0`).join('\n')}\n`)
-    const res = await t.api().post(`/api/v1/tanks/${tankId}/imports`).set(owner()).set('Content-Type', 'multipart/form-data; boundary=fuzzBoundary7MA4YWxkTrZu0gW').send(multipart('file', 'ok.csv', csv))
+    const csv = Buffer.from(
+      `time,temperature\n${minuteTimes(2)
+        .map((time) => `${time},25.0`)
+        .join('\n')}\n`,
+    )
+    const res = await t
+      .api()
+      .post(`/api/v1/tanks/${tankId}/imports`)
+      .set(owner())
+      .set('Content-Type', 'multipart/form-data; boundary=fuzzBoundary7MA4YWxkTrZu0gW')
+      .send(multipart('file', 'ok.csv', csv))
     expect(res.status, JSON.stringify(res.body)).toBe(201)
   })
 })

@@ -47,8 +47,12 @@ describe('hostile load against the compiled app', () => {
        SELECT 'd:' || $2::text, 'ph', now() - make_interval(secs => i * 4), $1::int, 7, 'device' FROM generate_series(1, 20000) i`,
       { bind: [honest.tankId, honest.deviceId] },
     )
-    const bomb = await sharp({ create: { width: 8900, height: 8900, channels: 3, background: '#2a6f5b' } }).png({ compressionLevel: 9 }).toBuffer()
-    const bigPhoto = await sharp({ create: { width: 6000, height: 4000, channels: 3, background: '#000', noise: { type: 'gaussian', mean: 128, sigma: 30 } } }).jpeg().toBuffer()
+    const bomb = await sharp({ create: { width: 8900, height: 8900, channels: 3, background: '#2a6f5b' } })
+      .png({ compressionLevel: 9 })
+      .toBuffer()
+    const bigPhoto = await sharp({ create: { width: 6000, height: 4000, channels: 3, background: '#000', noise: { type: 'gaussian', mean: 128, sigma: 30 } } })
+      .jpeg()
+      .toBuffer()
     const uploadUrl = `${app.baseUrl}/api/v1/tanks/${honest.tankId}/photos`
     const upload = async (bytes: Buffer) => {
       const form = new FormData()
@@ -90,7 +94,9 @@ describe('hostile load against the compiled app', () => {
     const latencies = probe.samples.map((s) => s.ms)
     const stored = await storedTimes(ctx.sequelize, honest.deviceId, 'temperature')
     console.log(
-      `[hostile] ${ATTACK_MS / 1000} s: ${Object.entries(attacks).map(([name, a]) => `${name} ×${a.rounds} (${a.errors} failed)`).join(', ')}; ` +
+      `[hostile] ${ATTACK_MS / 1000} s: ${Object.entries(attacks)
+        .map(([name, a]) => `${name} ×${a.rounds} (${a.errors} failed)`)
+        .join(', ')}; ` +
         `photos ${JSON.stringify(Object.fromEntries(photoStatuses))}; RSS ${baseline.toFixed(0)} → peak ${peak.toFixed(0)} → ${after.toFixed(0)} MB ` +
         `${((Date.now() - settleStarted) / 1000).toFixed(0)} s after; GET /tanks ×${latencies.length} p50 ${percentile(latencies, 50).toFixed(0)} ms, ` +
         `p99 ${percentile(latencies, 99).toFixed(0)} ms; device ${device.published.size} published, ${device.acked.size} acknowledged, ${stored.size} stored`,

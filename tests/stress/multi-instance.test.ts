@@ -41,7 +41,7 @@ let T = Date.now()
 const mark = (what: string) => console.log(`[multi] ${((Date.now() - T) / 1000).toFixed(1)} s ${what}`)
 
 async function until(check: () => boolean | Promise<boolean>, ms = 20_000) {
-  for (const end = Date.now() + ms; Date.now() < end; ) {
+  for (const end = Date.now() + ms; Date.now() < end;) {
     if (await check()) return true
     await new Promise((r) => setTimeout(r, 100))
   }
@@ -100,13 +100,22 @@ beforeAll(async () => {
   org = await createOrgIn(ctx, 'Marrowfen Aquatics multi')
   node = await createTankWithDevice(ctx, org, 'Show tank 4')
   await ctx.models.WatchRule.create({
-    organizationId: org.organizationId, siteId: org.siteIds[0], tankId: node.tankId, name: 'Temperature above 28 °C for 1 min',
-    severity: 'alarm', spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 1, clearMargin: 0.5 },
+    organizationId: org.organizationId,
+    siteId: org.siteIds[0],
+    tankId: node.tankId,
+    name: 'Temperature above 28 °C for 1 min',
+    severity: 'alarm',
+    spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 1, clearMargin: 0.5 },
   })
   // The keeper is on duty for the whole run, so the opened incident mails exactly one person.
   await ctx.models.DutyOverride.create({
-    organizationId: org.organizationId, siteId: org.siteIds[0], userId: org.users.keeper.id, kind: 'add',
-    startsAt: new Date(Date.now() - 86400_000), endsAt: new Date(Date.now() + 86400_000), createdBy: null,
+    organizationId: org.organizationId,
+    siteId: org.siteIds[0],
+    userId: org.users.keeper.id,
+    kind: 'add',
+    startsAt: new Date(Date.now() - 86400_000),
+    endsAt: new Date(Date.now() + 86400_000),
+    createdBy: null,
   })
   broker = await startMosquitto({ users: [APP, { username: String(node.deviceId), password: node.token }], acl: DEPLOYMENT_ACL(APP.username) })
 }, 120_000)
@@ -132,7 +141,10 @@ describe('three instances on one PostgreSQL and one mosquitto, one killed mid-st
     let client: LiveClient = await openLiveClient(`http://127.0.0.1:${watched.port}`)
     await client.subscribe(org.users.viewer.token, [node.tankId])
 
-    const device = await mqtt.connectAsync(broker.url({ username: String(node.deviceId), password: node.token }), { clientId: `device-${node.deviceId}`, reconnectPeriod: 0 })
+    const device = await mqtt.connectAsync(broker.url({ username: String(node.deviceId), password: node.token }), {
+      clientId: `device-${node.deviceId}`,
+      reconnectPeriod: 0,
+    })
     const t0 = Date.now() - 20 * 60_000
     const value = (i: number) => (i >= TRIP_AT ? 29 : 25 + (i % 10) / 10)
     let killedAt = -1
@@ -149,7 +161,7 @@ describe('three instances on one PostgreSQL and one mosquitto, one killed mid-st
     await device.endAsync()
     mark('published')
     expect(killedAt).toBe(200)
-    await new Promise((r) => victim.child.exitCode !== null || victim.child.signalCode !== null ? r(null) : victim.child.once('exit', r))
+    await new Promise((r) => (victim.child.exitCode !== null || victim.child.signalCode !== null ? r(null) : victim.child.once('exit', r)))
     instances.splice(instances.indexOf(victim), 1)
 
     // One of the survivors takes over the engine; the messages routed to the dead instance wait in its session.
@@ -166,7 +178,10 @@ describe('three instances on one PostgreSQL and one mosquitto, one killed mid-st
     await new Promise((r) => setTimeout(r, 1500))
 
     // Every reading stored exactly once, with its own value.
-    const rows = await ctx.sequelize.query<{ time: Date; value: number }>(`SELECT time, value FROM readings WHERE tank_id = $1 ORDER BY time`, { bind: [node.tankId], type: QueryTypes.SELECT })
+    const rows = await ctx.sequelize.query<{ time: Date; value: number }>(`SELECT time, value FROM readings WHERE tank_id = $1 ORDER BY time`, {
+      bind: [node.tankId],
+      type: QueryTypes.SELECT,
+    })
     expect(rows).toHaveLength(N)
     expect(rows.map((r) => [r.time.getTime(), r.value])).toEqual(Array.from({ length: N }, (_, i) => [t0 + i * STEP_MS, value(i)]))
     // Spread over the instances: each survivor and the restarted one stored a share.
@@ -175,7 +190,10 @@ describe('three instances on one PostgreSQL and one mosquitto, one killed mid-st
 
     // The incident opened once, at the first minute above the limit the engine saw.
     expect(await until(async () => (await count(`SELECT count(*) AS n FROM incidents WHERE tank_id = $1`, [node.tankId])) >= 1)).toBe(true)
-    const incidents = await ctx.sequelize.query<{ id: number; opened_at: Date }>(`SELECT id, opened_at FROM incidents WHERE tank_id = $1`, { bind: [node.tankId], type: QueryTypes.SELECT })
+    const incidents = await ctx.sequelize.query<{ id: number; opened_at: Date }>(`SELECT id, opened_at FROM incidents WHERE tank_id = $1`, {
+      bind: [node.tankId],
+      type: QueryTypes.SELECT,
+    })
     expect(incidents).toHaveLength(1)
     mark('incident')
     const openedAfterTrip = incidents[0].opened_at.getTime() - (t0 + TRIP_AT * STEP_MS)
@@ -183,17 +201,25 @@ describe('three instances on one PostgreSQL and one mosquitto, one killed mid-st
     expect(openedAfterTrip).toBeLessThan(60_000 + 15 * STEP_MS)
 
     // Each mail once: every sent outbox row arrived at the fake SMTP exactly once.
-    expect(await until(async () => (await count(`SELECT count(*) AS n FROM mail_outbox WHERE incident_id = $1 AND status = 'sent'`, [incidents[0].id])) >= 1)).toBe(true)
+    expect(
+      await until(async () => (await count(`SELECT count(*) AS n FROM mail_outbox WHERE incident_id = $1 AND status = 'sent'`, [incidents[0].id])) >= 1),
+    ).toBe(true)
     await new Promise((r) => setTimeout(r, 2000))
     const outbox = await ctx.sequelize.query<{ smtp_message_id: string; to_address: string; kind: string }>(
-      `SELECT smtp_message_id, to_address, kind FROM mail_outbox WHERE incident_id = $1`, { bind: [incidents[0].id], type: QueryTypes.SELECT },
+      `SELECT smtp_message_id, to_address, kind FROM mail_outbox WHERE incident_id = $1`,
+      { bind: [incidents[0].id], type: QueryTypes.SELECT },
     )
     expect(outbox).toEqual([{ smtp_message_id: expect.any(String), to_address: org.users.keeper.email, kind: 'incident_opened' }])
-    const received = await ctx.sequelize.query<{ message_id: string }>(`SELECT headers->>'message-id' AS message_id FROM fake_mailbox`, { type: QueryTypes.SELECT })
+    const received = await ctx.sequelize.query<{ message_id: string }>(`SELECT headers->>'message-id' AS message_id FROM fake_mailbox`, {
+      type: QueryTypes.SELECT,
+    })
     expect(received.map((r) => r.message_id)).toEqual([outbox[0].smtp_message_id])
 
     // The ws client on a survivor saw, live and once each, the readings the other instances stored.
-    const seen = client.liveReadings().filter((r) => r.tankId === node.tankId).map((r) => new Date(r.time).getTime())
+    const seen = client
+      .liveReadings()
+      .filter((r) => r.tankId === node.tankId)
+      .map((r) => new Date(r.time).getTime())
     expect(new Set(seen).size).toBe(seen.length)
     const storedElsewhere = [...survivors.filter((i) => i !== watched), restarted].flatMap((i) => [...i.stored])
     expect(storedElsewhere.length).toBeGreaterThan(50)
@@ -201,7 +227,9 @@ describe('three instances on one PostgreSQL and one mosquitto, one killed mid-st
     expect(storedElsewhere.filter((t) => !seenSet.has(t))).toEqual([])
     for (const t of watched.stored) expect(seenSet.has(t)).toBe(true)
     const shares = [...survivors, restarted].map((i) => `${i.id}${i === restarted ? ' (restarted)' : ''} ${i.stored.size}`).join(', ')
-    mark(`stored by instance: ${shares}; ${N - [...survivors, restarted].reduce((n, i) => n + i.stored.size, 0)} before the kill by ${victim.id}; ws client on ${watched.id} saw ${seen.length}`)
+    mark(
+      `stored by instance: ${shares}; ${N - [...survivors, restarted].reduce((n, i) => n + i.stored.size, 0)} before the kill by ${victim.id}; ws client on ${watched.id} saw ${seen.length}`,
+    )
     await client.close()
 
     mark('ws checked')

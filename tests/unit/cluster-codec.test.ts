@@ -3,7 +3,13 @@ import { MAX_PAYLOAD_BYTES, decodeEvent, encodeEvent } from '../../server/platfo
 import type { StoredReading } from '../../server/platform/events'
 
 const rows = (n: number): StoredReading[] =>
-  Array.from({ length: n }, (_, i) => ({ tankId: 1000 + (i % 7), metric: i % 2 ? 'temperature' : 'water_level', time: new Date(1_796_000_000_000 + i * 1000), value: 20 + i / 1000, source: i % 3 ? 'device' : 'test_kit' }))
+  Array.from({ length: n }, (_, i) => ({
+    tankId: 1000 + (i % 7),
+    metric: i % 2 ? 'temperature' : 'water_level',
+    time: new Date(1_796_000_000_000 + i * 1000),
+    value: 20 + i / 1000,
+    source: i % 3 ? 'device' : 'test_kit',
+  }))
 
 describe('cluster event codec', () => {
   it('splits a large batch of readings into payloads under the NOTIFY limit and reads every row back', () => {

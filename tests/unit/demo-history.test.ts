@@ -17,8 +17,14 @@ const FROM = localToInstant(ZONE, { year: 2026, month: 11, day: 2 }, 0)
 
 type Spec = Parameters<typeof tankHistory>[0]
 const community: Spec = {
-  name: 'Community', kind: 'tropical_freshwater', dimensions: { shape: 'rectangular', lengthCm: 60, widthCm: 40, heightCm: 40 },
-  volumeLitres: 96, heater: { watts: 100, setPointC: 25.5, topCm: 22 }, lightSchedule: { on: '09:00', off: '19:00' }, timeZone: ZONE, substrateDepthCm: 5,
+  name: 'Community',
+  kind: 'tropical_freshwater',
+  dimensions: { shape: 'rectangular', lengthCm: 60, widthCm: 40, heightCm: 40 },
+  volumeLitres: 96,
+  heater: { watts: 100, setPointC: 25.5, topCm: 22 },
+  lightSchedule: { on: '09:00', off: '19:00' },
+  timeZone: ZONE,
+  substrateDepthCm: 5,
 }
 const planted: Spec = { ...community, name: 'Planted', kind: 'planted', lightSchedule: { on: '10:00', off: '18:00' } }
 const week = (spec: Spec, episodes: Episode[] = [], seed = 1) =>
@@ -126,14 +132,22 @@ describe('replaying a rule over the history', () => {
   it('trips after the hold, follows the peak, and clears past the margin', () => {
     const times = Array.from({ length: 12 }, (_, i) => i * 5 * 60_000)
     const values = [26, 26, 28.5, 28.8, 29.2, 29, 28.2, 27.8, 27.4, 27, 26.5, 26]
-    const trips = replayTrips({ kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 }, { times, values }, { fromMs: 0, toMs: 60 * 60_000, tickMs: 60_000 })
+    const trips = replayTrips(
+      { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 },
+      { times, values },
+      { fromMs: 0, toMs: 60 * 60_000, tickMs: 60_000 },
+    )
     expect(trips).toHaveLength(1)
     expect(trips[0]).toMatchObject({ since: 10 * 60_000, at: 20 * 60_000, value: 29.2, peak: 29.2, clearedAt: 40 * 60_000, clearValue: 27.4 })
   })
 
   it('trips a quiet rule on the timer during a silence', () => {
     const times = [0, 5, 10, 40, 45].map((m) => m * 60_000)
-    const trips = replayTrips({ kind: 'quiet', metric: 'temperature', quietMinutes: 15 }, { times, values: times.map(() => 26) }, { fromMs: 0, toMs: 50 * 60_000, tickMs: 60_000 })
+    const trips = replayTrips(
+      { kind: 'quiet', metric: 'temperature', quietMinutes: 15 },
+      { times, values: times.map(() => 26) },
+      { fromMs: 0, toMs: 50 * 60_000, tickMs: 60_000 },
+    )
     expect(trips).toHaveLength(1)
     expect(trips[0]).toMatchObject({ since: 10 * 60_000, at: 25 * 60_000, clearedAt: 40 * 60_000 })
   })

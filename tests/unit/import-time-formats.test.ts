@@ -52,7 +52,7 @@ describe('detection', () => {
 })
 
 describe('report reasons', () => {
-  it('sorts the ingest checker\'s reasons into report codes', () => {
+  it("sorts the ingest checker's reasons into report codes", () => {
     const limits = { maxFutureSeconds: 300, maxAgeDays: 400 }
     const now = Date.parse('2026-12-01T00:00:00Z')
     const reason = (r: object) => {

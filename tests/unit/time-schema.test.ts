@@ -1,5 +1,14 @@
 import { describe, expect, it } from 'vitest'
-import { INSTANT_FORMAT_MESSAGE, INSTANT_RANGE_MESSAGE, LOCAL_DATE_FORMAT_MESSAGE, LOCAL_DATE_RANGE_MESSAGE, OFFSET_RANGE_MESSAGE, instantDateSchema, instantSchema, localDateSchema } from '@shared/schemas/time'
+import {
+  INSTANT_FORMAT_MESSAGE,
+  INSTANT_RANGE_MESSAGE,
+  LOCAL_DATE_FORMAT_MESSAGE,
+  LOCAL_DATE_RANGE_MESSAGE,
+  OFFSET_RANGE_MESSAGE,
+  instantDateSchema,
+  instantSchema,
+  localDateSchema,
+} from '@shared/schemas/time'
 
 const problem = (value: string) => {
   const result = instantSchema.safeParse(value)
@@ -47,6 +56,10 @@ describe('localDateSchema', () => {
   it('accepts calendar dates from 1970 to 2199 and names what is wrong otherwise', () => {
     expect([dateProblem('2026-12-07'), dateProblem('1970-01-01'), dateProblem('2199-12-31')]).toEqual([null, null, null])
     expect([dateProblem('0100-02-28'), dateProblem('2200-01-01')]).toEqual([LOCAL_DATE_RANGE_MESSAGE, LOCAL_DATE_RANGE_MESSAGE])
-    expect([dateProblem('0000-01-01'), dateProblem('2026-02-30'), dateProblem('7 Dec')]).toEqual([LOCAL_DATE_FORMAT_MESSAGE, LOCAL_DATE_FORMAT_MESSAGE, LOCAL_DATE_FORMAT_MESSAGE])
+    expect([dateProblem('0000-01-01'), dateProblem('2026-02-30'), dateProblem('7 Dec')]).toEqual([
+      LOCAL_DATE_FORMAT_MESSAGE,
+      LOCAL_DATE_FORMAT_MESSAGE,
+      LOCAL_DATE_FORMAT_MESSAGE,
+    ])
   })
 })

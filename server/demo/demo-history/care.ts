@@ -31,19 +31,42 @@ async function writeWaterChange(ctx: AppContext, tank: Tank, done: CareDone, use
   await ctx.sequelize.transaction(async (transaction) => {
     const change = await ctx.models.WaterChange.create(
       {
-        organizationId: tank.organizationId, tankId: tank.id, status: 'in_progress', plan, heaterOffConfirmed: false,
-        temporaryRuleId: null, startedAt: new Date(done.at), startedBy: userId,
+        organizationId: tank.organizationId,
+        tankId: tank.id,
+        status: 'in_progress',
+        plan,
+        heaterOffConfirmed: false,
+        temporaryRuleId: null,
+        startedAt: new Date(done.at),
+        startedBy: userId,
       },
       { transaction },
     )
     const newWaterTempC = tank.heater ? tank.heater.setPointC - 0.5 : 20
-    const entry = await writeCareLog(ctx, {
-      organizationId: tank.organizationId, tankId: tank.id, kind: 'water_change', at: finishedAt, userId,
-      text: done.daysLate ? `Water change (${done.daysLate} days late: short-staffed)` : 'Water change',
-      values: { litres, percent: WATER_CHANGE_PERCENT, dechlorinatorMl: Math.round(litres / 10), newWaterTempC }, waterChangeId: change.id,
-    }, transaction)
+    const entry = await writeCareLog(
+      ctx,
+      {
+        organizationId: tank.organizationId,
+        tankId: tank.id,
+        kind: 'water_change',
+        at: finishedAt,
+        userId,
+        text: done.daysLate ? `Water change (${done.daysLate} days late: short-staffed)` : 'Water change',
+        values: { litres, percent: WATER_CHANGE_PERCENT, dechlorinatorMl: Math.round(litres / 10), newWaterTempC },
+        waterChangeId: change.id,
+      },
+      transaction,
+    )
     await change.update(
-      { status: 'finished', finishedAt, finishedBy: userId, litresReplaced: litres, dechlorinatorMl: Math.round(litres / 10), newWaterTempC, careLogEntryId: entry.id },
+      {
+        status: 'finished',
+        finishedAt,
+        finishedBy: userId,
+        litresReplaced: litres,
+        dechlorinatorMl: Math.round(litres / 10),
+        newWaterTempC,
+        careLogEntryId: entry.id,
+      },
       { transaction },
     )
     await markTasksOfKindDone(ctx, tank.id, 'water_change', finishedAt, userId, transaction)
@@ -75,7 +98,11 @@ export async function seedCare(ctx: AppContext, story: DemoStory, tanks: Map<str
   if (q) {
     const { arrival } = story
     await livestockService(ctx).add(actorFor(arrival.by), q.id, {
-      speciesKey: arrival.speciesKey, count: arrival.count, addedAt: iso(arrival.at), source: arrival.source, notes: arrival.notes,
+      speciesKey: arrival.speciesKey,
+      count: arrival.count,
+      addedAt: iso(arrival.at),
+      source: arrival.source,
+      notes: arrival.notes,
     })
     // The quarantine started with the arrival.
     await ctx.sequelize.query('UPDATE tanks SET stage_changed_at = $1 WHERE id = $2', { bind: [new Date(arrival.at), q.id] })

@@ -9,7 +9,15 @@ import type { TankHistory } from './readings'
 import { replayTrips, type Trip } from './rule-replay'
 import type { IncidentNotes } from './story'
 
-type SeedTank = { id: number; name: string; siteId: number; organizationId: number; heater: { topCm: number } | null; lightSchedule: { on: string; off: string } | null; timeZone: string }
+type SeedTank = {
+  id: number
+  name: string
+  siteId: number
+  organizationId: number
+  heater: { topCm: number } | null
+  lightSchedule: { on: string; off: string } | null
+  timeZone: string
+}
 
 /** The engine's timer runs every few seconds; a minute is fine grain for a month gone by. */
 const TICK_MS = 60_000
@@ -23,7 +31,14 @@ function notesFor(notes: readonly IncidentNotes[], tank: string, trip: Trip, epi
 
 export async function seedIncidents(
   ctx: AppContext,
-  input: { tanks: SeedTank[]; histories: Map<number, TankHistory>; episodes: Map<string, ReadonlyArray<{ kind: string; fromMs: number; toMs?: number }>>; notes: readonly IncidentNotes[]; fromMs: number; toMs: number },
+  input: {
+    tanks: SeedTank[]
+    histories: Map<number, TankHistory>
+    episodes: Map<string, ReadonlyArray<{ kind: string; fromMs: number; toMs?: number }>>
+    notes: readonly IncidentNotes[]
+    fromMs: number
+    toMs: number
+  },
 ): Promise<number> {
   const { models, config } = ctx
   const effective = await rulesService(ctx).effectiveRules()
@@ -41,7 +56,15 @@ export async function seedIncidents(
       const trips = replayTrips(rule.spec, { times: history.times, values }, { fromMs: input.fromMs, toMs: input.toMs, tickMs: TICK_MS }, ruleCtx)
       for (const trip of trips) {
         const notes = notesFor(input.notes, tank.name, trip, input.episodes.get(tank.name) ?? [])
-        await writeIncident(ctx, { tank, rule: { id: rule.id, name: rule.name, severity: rule.severity, kind: rule.spec.kind, metric }, trip, notes, owners: owners.map((o) => o.email), users, timing: config.incidentTiming })
+        await writeIncident(ctx, {
+          tank,
+          rule: { id: rule.id, name: rule.name, severity: rule.severity, kind: rule.spec.kind, metric },
+          trip,
+          notes,
+          owners: owners.map((o) => o.email),
+          users,
+          timing: config.incidentTiming,
+        })
         count++
       }
     }
@@ -78,7 +101,10 @@ async function writeIncident(
   ]
   const escalatedTo = escalated ? [...new Set([...(await duty(escalateAt)), ...p.owners])] : []
   if (escalated) {
-    events.push({ at: escalateAt, kind: 'escalated', detail: { level: 1 } }, { at: escalateAt, kind: 'mail_queued', detail: { kind: 'escalated', recipients: escalatedTo } })
+    events.push(
+      { at: escalateAt, kind: 'escalated', detail: { level: 1 } },
+      { at: escalateAt, kind: 'mail_queued', detail: { kind: 'escalated', recipients: escalatedTo } },
+    )
   }
   const ackNote = notes?.ackNote ?? FALLBACK_NOTE
   if (acknowledged) events.push({ at: ackAt, kind: 'acknowledged', userId: p.users.get(acker) ?? null, detail: { note: ackNote, via: 'app' } })
@@ -93,20 +119,39 @@ async function writeIncident(
   await sequelize.transaction(async (transaction) => {
     const incident = await models.Incident.create(
       {
-        organizationId: tank.organizationId, siteId: tank.siteId, tankId: tank.id, ruleId: rule.id, ruleKind: rule.kind, metric: rule.metric,
-        severity: rule.severity, title: rule.name, state: resolvedAt !== null ? 'resolved' : acknowledged ? 'acknowledged' : 'open',
-        conditionSince: new Date(trip.since), openedAt: new Date(trip.at), firstValue: trip.value, peakValue: trip.peak,
-        latestValue: trip.clearValue ?? trip.latest, latestAt: new Date(trip.clearedAt ?? trip.latestAt),
-        acknowledgedAt: acknowledged ? new Date(ackAt) : null, acknowledgedBy: acknowledged ? (p.users.get(acker) ?? null) : null, acknowledgeNote: acknowledged ? ackNote : null,
-        resolvedAt: resolvedAt !== null ? new Date(resolvedAt) : null, resolvedBy: handAt ? (p.users.get(acker) ?? null) : null,
+        organizationId: tank.organizationId,
+        siteId: tank.siteId,
+        tankId: tank.id,
+        ruleId: rule.id,
+        ruleKind: rule.kind,
+        metric: rule.metric,
+        severity: rule.severity,
+        title: rule.name,
+        state: resolvedAt !== null ? 'resolved' : acknowledged ? 'acknowledged' : 'open',
+        conditionSince: new Date(trip.since),
+        openedAt: new Date(trip.at),
+        firstValue: trip.value,
+        peakValue: trip.peak,
+        latestValue: trip.clearValue ?? trip.latest,
+        latestAt: new Date(trip.clearedAt ?? trip.latestAt),
+        acknowledgedAt: acknowledged ? new Date(ackAt) : null,
+        acknowledgedBy: acknowledged ? (p.users.get(acker) ?? null) : null,
+        acknowledgeNote: acknowledged ? ackNote : null,
+        resolvedAt: resolvedAt !== null ? new Date(resolvedAt) : null,
+        resolvedBy: handAt ? (p.users.get(acker) ?? null) : null,
         resolveNote: handAt ? handAt.note : resolvedAt !== null ? 'The rule cleared' : null,
-        escalationLevel: escalated ? 1 : 0, nextEscalationAt: null, nextRepeatAt: null,
-        createdAt: new Date(trip.at), updatedAt: new Date(resolvedAt ?? trip.at),
+        escalationLevel: escalated ? 1 : 0,
+        nextEscalationAt: null,
+        nextRepeatAt: null,
+        createdAt: new Date(trip.at),
+        updatedAt: new Date(resolvedAt ?? trip.at),
       },
       { transaction, silent: true },
     )
     await models.IncidentEvent.bulkCreate(
-      events.sort((a, b) => a.at - b.at).map((e) => ({ incidentId: incident.id, at: new Date(e.at), kind: e.kind, userId: e.userId ?? null, detail: e.detail })),
+      events
+        .sort((a, b) => a.at - b.at)
+        .map((e) => ({ incidentId: incident.id, at: new Date(e.at), kind: e.kind, userId: e.userId ?? null, detail: e.detail })),
       { transaction },
     )
   })

@@ -52,7 +52,10 @@ export async function seedDemoHistory(ctx: AppContext, now = Date.now()): Promis
   const tanks = (await models.Tank.findAll({ include: [{ association: 'site', attributes: ['timeZone'] }], order: [['id', 'ASC']] })) as TankWithSite[]
   const live = tanks.filter((t) => t.stage !== 'empty')
   const zoneOf = (t: TankWithSite) => t.site?.timeZone ?? 'UTC'
-  const story = demoStory(live.map((t) => ({ name: t.name, kind: t.kind, stage: t.stage, timeZone: zoneOf(t) })), now)
+  const story = demoStory(
+    live.map((t) => ({ name: t.name, kind: t.kind, stage: t.stage, timeZone: zoneOf(t) })),
+    now,
+  )
   const from = new Date(story.fromMs)
 
   // The shop has been running all month: tanks, their rules and care tasks date from its start.
@@ -67,15 +70,29 @@ export async function seedDemoHistory(ctx: AppContext, now = Date.now()): Promis
   const inserts: Array<Promise<number>> = []
   for (const tank of live) {
     const { device } = await devices.create(actorFor(owner.email), {
-      tankId: tank.id, name: DEMO_NODE_NAME, metrics: [...HISTORY_METRICS], intervalSeconds: DEMO_NODE_INTERVAL_SECONDS,
+      tankId: tank.id,
+      name: DEMO_NODE_NAME,
+      metrics: [...HISTORY_METRICS],
+      intervalSeconds: DEMO_NODE_INTERVAL_SECONDS,
     })
     const history = tankHistory(
-      { name: tank.name, kind: tank.kind, dimensions: tank.dimensions, volumeLitres: tank.volumeLitres, heater: tank.heater, lightSchedule: tank.lightSchedule, timeZone: zoneOf(tank), substrateDepthCm: tank.substrateDepthCm },
+      {
+        name: tank.name,
+        kind: tank.kind,
+        dimensions: tank.dimensions,
+        volumeLitres: tank.volumeLitres,
+        heater: tank.heater,
+        lightSchedule: tank.lightSchedule,
+        timeZone: zoneOf(tank),
+        substrateDepthCm: tank.substrateDepthCm,
+      },
       { fromMs: story.fromMs, toMs: now, reportEveryMs: HISTORY_REPORT_EVERY_MS, seed: seedFrom(1, tank.name), episodes: story.episodes.get(tank.name) ?? [] },
     )
     histories.set(tank.id, history)
     inserts.push(insertHistory(ctx, tank.id, device.id, history))
-    await sequelize.query('UPDATE devices SET created_at = $1, last_seen_at = $2 WHERE id = $3', { bind: [from, new Date(history.times.at(-1) ?? now), device.id] })
+    await sequelize.query('UPDATE devices SET created_at = $1, last_seen_at = $2 WHERE id = $3', {
+      bind: [from, new Date(history.times.at(-1) ?? now), device.id],
+    })
   }
   const readings = (await Promise.all(inserts)).reduce((a, b) => a + b, 0)
 
@@ -88,7 +105,15 @@ export async function seedDemoHistory(ctx: AppContext, now = Date.now()): Promis
     await photos.upload(actorFor(photo.by), tank.id, png, { caption: photo.caption, takenAt: new Date(photo.at).toISOString() })
   }
   const incidents = await seedIncidents(ctx, {
-    tanks: live.map((t) => ({ id: t.id, name: t.name, siteId: t.siteId, organizationId: t.organizationId, heater: t.heater, lightSchedule: t.lightSchedule, timeZone: zoneOf(t) })),
+    tanks: live.map((t) => ({
+      id: t.id,
+      name: t.name,
+      siteId: t.siteId,
+      organizationId: t.organizationId,
+      heater: t.heater,
+      lightSchedule: t.lightSchedule,
+      timeZone: zoneOf(t),
+    })),
     histories,
     episodes: story.episodes,
     notes: story.incidentNotes,

@@ -72,5 +72,7 @@ ${fishes}
 /** The scene as PNG bytes, for the photo service (which re-encodes to JPEG like any upload). */
 export async function tankScenePng(kind: TankKind, seedText: string): Promise<Buffer> {
   const sharp = (await import('sharp')).default
-  return sharp(Buffer.from(tankSceneSvg(kind, seedText))).png().toBuffer()
+  return sharp(Buffer.from(tankSceneSvg(kind, seedText)))
+    .png()
+    .toBuffer()
 }

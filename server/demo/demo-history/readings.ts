@@ -48,7 +48,7 @@ export function localClock(timeZone: string): (epochMs: number) => number {
     let offset = offsets.get(hour)
     if (offset === undefined) offsets.set(hour, (offset = offsetAt(timeZone, hour * HOUR_MS)))
     const local = epochMs + offset
-    return ((local % 86_400_000) + 86_400_000) % 86_400_000 / 60_000
+    return (((local % 86_400_000) + 86_400_000) % 86_400_000) / 60_000
   }
 }
 
@@ -63,8 +63,7 @@ function heaterModeAt(episodes: readonly Episode[], at: number): HeaterMode {
   return 'normal'
 }
 
-const isQuiet = (episodes: readonly Episode[], at: number) =>
-  episodes.some((e) => e.kind === 'sensor_quiet' && at >= e.fromMs && at < e.toMs)
+const isQuiet = (episodes: readonly Episode[], at: number) => episodes.some((e) => e.kind === 'sensor_quiet' && at >= e.fromMs && at < e.toMs)
 
 /** The level a water change holds the tank at, or null outside it. */
 function waterChangeLevel(episodes: readonly Episode[], at: number, fullCm: number, floorCm: number): number | null {

@@ -56,7 +56,16 @@ function ticksMatter(spec: WatchRuleSpec, status: string) {
 
 function onEvent(event: RuleEvent, open: Trip | null, trips: Trip[]): Trip | null {
   if (event.type === 'trip') {
-    const trip: Trip = { since: event.since, at: event.at, value: event.value, peak: event.value, latest: event.value, latestAt: event.at, clearedAt: null, clearValue: undefined }
+    const trip: Trip = {
+      since: event.since,
+      at: event.at,
+      value: event.value,
+      peak: event.value,
+      latest: event.value,
+      latestAt: event.at,
+      clearedAt: null,
+      clearValue: undefined,
+    }
     trips.push(trip)
     return trip
   }

@@ -137,8 +137,7 @@ export function demoStory(tanks: readonly StoryTank[], now: number, seed = 1): D
   const firstDay = addDays(localDateAt(zone, now), -HISTORY_DAYS)
   const fromMs = localToInstant(zone, firstDay, 0)
   const lastWeek = lastEndedPeriod('week', now, zone)
-  const dayOfLastWeek = (days: number, minutes: number) =>
-    localToInstant(zone, addDays(localDateAt(zone, lastWeek.from + 12 * HOUR_MS), days), minutes)
+  const dayOfLastWeek = (days: number, minutes: number) => localToInstant(zone, addDays(localDateAt(zone, lastWeek.from + 12 * HOUR_MS), days), minutes)
   const live = tanks.filter((t) => t.stage !== 'empty')
 
   const care = live.flatMap((tank, index) => careFor(tank, index, firstDay, now))
@@ -160,19 +159,28 @@ export function demoStory(tanks: readonly StoryTank[], now: number, seed = 1): D
 
   const incidentNotes: IncidentNotes[] = [
     {
-      tank: 'Breeding cylinder C1', episode: 'heater_stuck_on', ackAfterMs: 22 * MINUTE_MS,
-      ackNote: 'Heater stuck on, element glowing with the water at 28 °C. Unplugged it at the wall before touching the tank, lid off and a fan on the surface. Spare heater goes in after it has cooled.',
+      tank: 'Breeding cylinder C1',
+      episode: 'heater_stuck_on',
+      ackAfterMs: 22 * MINUTE_MS,
+      ackNote:
+        'Heater stuck on, element glowing with the water at 28 °C. Unplugged it at the wall before touching the tank, lid off and a fan on the surface. Spare heater goes in after it has cooled.',
     },
     {
-      tank: 'Brackish B1', episode: 'sensor_quiet', ackAfterMs: 6 * MINUTE_MS,
+      tank: 'Brackish B1',
+      episode: 'sensor_quiet',
+      ackAfterMs: 6 * MINUTE_MS,
       ackNote: 'Node unplugged while the canister was serviced; plugging it back in.',
     },
     {
-      tank: 'Reef display', episode: 'sensor_quiet', ackAfterMs: 4 * MINUTE_MS,
+      tank: 'Reef display',
+      episode: 'sensor_quiet',
+      ackAfterMs: 4 * MINUTE_MS,
       ackNote: 'Node’s plug knocked out of the power strip during feeding; back in, readings should resume.',
     },
     {
-      tank: 'Display 1 — community', episode: 'heater_failed', ackAfterMs: 8 * MINUTE_MS,
+      tank: 'Display 1 — community',
+      episode: 'heater_failed',
+      ackAfterMs: 8 * MINUTE_MS,
       ackNote: 'Heater cold, indicator off. Lid closed and a blanket over the back; a new 300 W heater goes in when the shop opens.',
       resolveByHand: {
         at: replacedAt + 75 * MINUTE_MS,
@@ -192,8 +200,13 @@ export function demoStory(tanks: readonly StoryTank[], now: number, seed = 1): D
 
   const arrivalDay = addDays(localDateAt(zone, now), -2)
   const arrival = {
-    tank: 'Quarantine Q1', at: localToInstant(zone, arrivalDay, 11 * 60), speciesKey: 'harlequin_rasbora', count: 15,
-    source: 'Weekly wholesaler delivery (invented)', notes: 'Bagged 5 h; drip-acclimated over 45 minutes. Two thin, watching them.', by: workerOn(arrivalDay),
+    tank: 'Quarantine Q1',
+    at: localToInstant(zone, arrivalDay, 11 * 60),
+    speciesKey: 'harlequin_rasbora',
+    count: 15,
+    source: 'Weekly wholesaler delivery (invented)',
+    notes: 'Bagged 5 h; drip-acclimated over 45 minutes. Two thin, watching them.',
+    by: workerOn(arrivalDay),
   }
   const photoAt = (daysAgo: number, minutes: number) => localToInstant(zone, addDays(localDateAt(zone, now), -daysAgo), minutes)
   const photos = [

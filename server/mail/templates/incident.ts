@@ -60,7 +60,10 @@ const VARIANTS = {
   opened: {
     heading: (i) => `${SEVERITY[i.severity]}: ${i.metricLabel} on ${i.tankName}`,
     subject: (i) => `${SEVERITY[i.severity]}: ${what(i)} on ${where(i)}`,
-    lead: (i) => (i.measurement ? `The watch rule "${i.ruleName}" opened an incident: ${what(i)}.` : `The watch rule "${i.ruleName}" opened an incident: ${i.metricLabel} is ${reading(i)}.`),
+    lead: (i) =>
+      i.measurement
+        ? `The watch rule "${i.ruleName}" opened an incident: ${what(i)}.`
+        : `The watch rule "${i.ruleName}" opened an incident: ${i.metricLabel} is ${reading(i)}.`,
     sinceLabel: 'Opened',
     accent: (i) => ACCENT[i.severity],
     actionable: true,

@@ -1,4 +1,15 @@
-export { deviceBack, incidentEscalated, incidentOpened, incidentRaised, incidentReopened, incidentReopenedToResolver, incidentRepeat, incidentResolved, TREND_CID, type IncidentMailInput } from './incident'
+export {
+  deviceBack,
+  incidentEscalated,
+  incidentOpened,
+  incidentRaised,
+  incidentReopened,
+  incidentReopenedToResolver,
+  incidentRepeat,
+  incidentResolved,
+  TREND_CID,
+  type IncidentMailInput,
+} from './incident'
 export { invitation, passwordReset, type InvitationInput, type PasswordResetInput } from './account'
 export { ELECTRICAL_SAFETY_CAUTION, READINGS_ARE_AIDS } from './safety'
 export { button, escapeHtml, factsTable, layout, oneLine } from './html'

@@ -28,7 +28,9 @@ export function siteIncidentMail(i: SiteIncidentMailInput): RenderedMail {
   const lead = `${count} of ${i.siteName} tripped within a few minutes of each other on the same kind of cause, from ${formatInZone(i.openedAt, i.siteTimeZone)}. Each tank keeps its own incident; this is the one mail for all of them.`
   const footer = `Sent by Tankwarden for ${i.organizationName}. ${READINGS_ARE_AIDS}`
   const html = layout({
-    heading, accent: ACCENT[i.severity], footer,
+    heading,
+    accent: ACCENT[i.severity],
+    footer,
     body: [
       `<p style="margin:0 0 8px;font-weight:bold">${escapeHtml(i.firstStep)}</p>`,
       `<p style="margin:0 0 8px">${escapeHtml(lead)}</p>`,
@@ -36,13 +38,16 @@ export function siteIncidentMail(i: SiteIncidentMailInput): RenderedMail {
       `<p style="margin:16px 0 0">${button('Open the incidents', i.incidentsUrl)}</p>`,
     ].join(''),
   })
-  const text = [i.firstStep, '', heading, '', lead, '', ...i.tanks.map((t) => `- ${t}`), '', `Open the incidents: ${i.incidentsUrl}`, '', '-- ', footer].join('\n')
+  const text = [i.firstStep, '', heading, '', lead, '', ...i.tanks.map((t) => `- ${t}`), '', `Open the incidents: ${i.incidentsUrl}`, '', '-- ', footer].join(
+    '\n',
+  )
   return { subject, text, html }
 }
 
 /** The first thing to do for each kind of site-wide cause (`common practice`). */
 export const SITE_FIRST_STEPS: Record<string, string> = {
-  power: 'First: check the site’s power (the fuse board and the supply) before anything else; keep tank lids closed to hold heat. Leave electrical faults to a licensed electrician.',
+  power:
+    'First: check the site’s power (the fuse board and the supply) before anything else; keep tank lids closed to hold heat. Leave electrical faults to a licensed electrician.',
   heat: 'First: check the room’s temperature and ventilation, and whether heaters are stuck on.',
   water: 'First: stop further water changes and test the tap water and a tank with a test kit.',
   water_level: 'First: look for a leak or a running drain, and switch heaters off at the socket before the water falls below them.',

@@ -55,7 +55,11 @@ export function decodeEvent(payload: string): DecodedEvent | null {
   if (envelope.e !== 'readings.stored') return { origin: envelope.o, event: envelope.e, args: [envelope.d] }
   if (!Array.isArray(envelope.d)) return null
   const rows: StoredReading[] = (envelope.d as CompactReading[]).map(([tankId, metric, timeMs, value, source]) => ({
-    tankId, metric, time: new Date(timeMs), value, source: SOURCES[source],
+    tankId,
+    metric,
+    time: new Date(timeMs),
+    value,
+    source: SOURCES[source],
   }))
   return { origin: envelope.o, event: 'readings.stored', args: [rows] }
 }

@@ -50,7 +50,11 @@ export async function startClusterFanout(ctx: FanoutContext, options: { reconnec
   // Sent in order, one statement at a time, without holding up whoever emitted the event.
   function publish(payloads: string[]) {
     sending = sending
-      .then(() => sequelize.query('SELECT pg_notify($1, payload) FROM unnest($2::text[]) WITH ORDINALITY AS p(payload, n) ORDER BY n', { bind: [FANOUT_CHANNEL, payloads] }))
+      .then(() =>
+        sequelize.query('SELECT pg_notify($1, payload) FROM unnest($2::text[]) WITH ORDINALITY AS p(payload, n) ORDER BY n', {
+          bind: [FANOUT_CHANNEL, payloads],
+        }),
+      )
       .catch((error) => logger.warn({ err: error, payloads: payloads.length }, 'live fan-out to other instances failed'))
   }
 

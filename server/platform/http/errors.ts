@@ -48,7 +48,9 @@ export function isDatabaseUnavailable(error: unknown): boolean {
   const code = e.original?.code ?? e.parent?.code ?? e.code ?? ''
   if (/^(08|57P0)/.test(code) || ['ECONNREFUSED', 'ECONNRESET', 'EPIPE', 'ETIMEDOUT'].includes(code)) return true
   // A connection the server dropped mid-query (a restart) carries no SQLSTATE, only pg's own message.
-  return /Connection terminated|connection is closed|Client has encountered a connection error|Connection ended unexpectedly|Client was closed and is not queryable|timeout exceeded when trying to connect/i.test(e.original?.message ?? e.message ?? '')
+  return /Connection terminated|connection is closed|Client has encountered a connection error|Connection ended unexpectedly|Client was closed and is not queryable|timeout exceeded when trying to connect/i.test(
+    e.original?.message ?? e.message ?? '',
+  )
 }
 
 /** A unique index refused a row: two requests raced to make the same thing (the service's own check ran before either wrote). */

@@ -6,7 +6,22 @@
 export const REDACTED = '[redacted]'
 
 /** Query parameters whose value is a credential, whatever the path. */
-const SECRET_PARAMS = new Set(['key', 'token', 'access_token', 'accesstoken', 'refresh_token', 'code', 'secret', 'password', 'signature', 'sig', 'auth', 'authorization', 'api_key', 'apikey'])
+const SECRET_PARAMS = new Set([
+  'key',
+  'token',
+  'access_token',
+  'accesstoken',
+  'refresh_token',
+  'code',
+  'secret',
+  'password',
+  'signature',
+  'sig',
+  'auth',
+  'authorization',
+  'api_key',
+  'apikey',
+])
 
 /** API paths whose last segment is a secret, with the few literal segments that are not. */
 const SECRET_SEGMENT_AFTER: Record<string, Set<string>> = {

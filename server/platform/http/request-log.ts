@@ -29,4 +29,3 @@ export function requestLogger(logger: Logger) {
     },
   })
 }
-

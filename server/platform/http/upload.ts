@@ -32,7 +32,8 @@ export function multipartUpload(options: UploadOptions): RequestHandler {
     storage: options.storage,
     limits: { fileSize: options.maxBytes, files: 1, fields: options.fields ?? 5, fieldSize: options.fieldSize ?? 4096, parts: (options.fields ?? 5) + 2 },
     fileFilter: (_req, file, accept) => {
-      if (CONTROL_CHARACTER.test(file.originalname)) return accept(badRequest(`${field}: the file name contains a control character`, { [field]: 'the file name contains a control character' }))
+      if (CONTROL_CHARACTER.test(file.originalname))
+        return accept(badRequest(`${field}: the file name contains a control character`, { [field]: 'the file name contains a control character' }))
       accept(null, true)
     },
   }).single(field)

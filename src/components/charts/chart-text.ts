@@ -48,7 +48,9 @@ const ms = (iso: string) => Date.parse(iso)
  * The rows of a tank-page chart: per bucket its mean as the value with its lowest and highest, or each
  * reading; test-kit readings are rows of their own, with their source.
  */
-export function metricChartRows(input: Pick<MetricChartInput, 'series' | 'kitPoints' | 'livePoints' | 'convert'>): Pick<ChartText, 'columns' | 'rows' | 'from' | 'to'> {
+export function metricChartRows(
+  input: Pick<MetricChartInput, 'series' | 'kitPoints' | 'livePoints' | 'convert'>,
+): Pick<ChartText, 'columns' | 'rows' | 'from' | 'to'> {
   const convert = input.convert ?? ((v: number) => v)
   const { series } = input
   const live = input.livePoints ?? []
@@ -61,8 +63,13 @@ export function metricChartRows(input: Pick<MetricChartInput, 'series' | 'kitPoi
     const last = series.points.length ? ms(series.points[series.points.length - 1]!.t) : from
     const rows: ChartRow[] = [
       ...series.points.map((b) => ({ t: ms(b.t), values: [convert(b.mean), convert(b.min), convert(b.max)], source: SERIES_NAMES.sensor })),
-      ...live.filter((p) => ms(p.t) > last && p.source !== 'test_kit').map((p) => ({ t: ms(p.t), values: [convert(p.value), null, null], source: SERIES_NAMES.sensor })),
-      ...kitRows((input.kitPoints ?? []).filter((p) => ms(p.t) >= from), 3),
+      ...live
+        .filter((p) => ms(p.t) > last && p.source !== 'test_kit')
+        .map((p) => ({ t: ms(p.t), values: [convert(p.value), null, null], source: SERIES_NAMES.sensor })),
+      ...kitRows(
+        (input.kitPoints ?? []).filter((p) => ms(p.t) >= from),
+        3,
+      ),
     ]
     return { from, to, columns: ['Value', 'Lowest', 'Highest'], rows: rows.sort((a, b) => a.t - b.t) }
   }

@@ -46,7 +46,11 @@ export function scheduledHours(schedule: { on: string; off: string }): number {
 }
 
 function medianStepMs(times: number[]): number {
-  const steps = times.slice(1).map((t, i) => t - times[i]!).filter((s) => s > 0).sort((a, b) => a - b)
+  const steps = times
+    .slice(1)
+    .map((t, i) => t - times[i]!)
+    .filter((s) => s > 0)
+    .sort((a, b) => a - b)
   return steps.length ? steps[Math.floor(steps.length / 2)]! : 5 * MINUTE_MS
 }
 
@@ -73,9 +77,7 @@ function spans(samples: LightSample[], holdMs: number, untilMs: number): Array<P
 }
 
 function clip(periods: Period[], startMs: number, endMs: number): Period[] {
-  return periods
-    .map((p) => ({ startMs: Math.max(p.startMs, startMs), endMs: Math.min(p.endMs, endMs) }))
-    .filter((p) => p.endMs > p.startMs)
+  return periods.map((p) => ({ startMs: Math.max(p.startMs, startMs), endMs: Math.min(p.endMs, endMs) })).filter((p) => p.endMs > p.startMs)
 }
 
 const hours = (periods: Period[]) => periods.reduce((sum, p) => sum + (p.endMs - p.startMs), 0) / HOUR_MS
@@ -96,7 +98,10 @@ function scheduleOn(schedule: { on: string; off: string }, timeZone: string, dat
 
 /** Each local day (in the site's zone) that the readings touch, oldest first. */
 export function lightDays(samples: LightSample[], options: LightCycleOptions): LightDay[] {
-  const times = samples.map((s) => Date.parse(s.t)).filter(Number.isFinite).sort((a, b) => a - b)
+  const times = samples
+    .map((s) => Date.parse(s.t))
+    .filter(Number.isFinite)
+    .sort((a, b) => a - b)
   if (!times.length) return []
   const holdMs = options.holdMs ?? Math.max(3 * medianStepMs(times), 15 * MINUTE_MS)
   const untilMs = options.untilMs ?? times[times.length - 1]! + holdMs

@@ -124,9 +124,7 @@ function bandArea(band: MetricChartInput['band'], convert: (v: number) => number
 }
 
 function liveAfter(live: TimedValue[] | undefined, lastMs: number, kit: boolean): Array<[number, number]> {
-  return (live ?? [])
-    .filter((p) => ms(p.t) > lastMs && (p.source === 'test_kit') === kit)
-    .map((p) => [ms(p.t), p.value] as [number, number])
+  return (live ?? []).filter((p) => ms(p.t) > lastMs && (p.source === 'test_kit') === kit).map((p) => [ms(p.t), p.value] as [number, number])
 }
 
 function kitScatter(points: Array<[number, number]>, color: string): ScatterSeriesOption {
@@ -142,8 +140,14 @@ function kitScatter(points: Array<[number, number]>, color: string): ScatterSeri
 }
 
 function envelopeSeries(buckets: SeriesBucket[], step: number, convert: (v: number) => number, colors: ChartColors): LineSeriesOption[] {
-  const base = withGaps(buckets.map((b) => [ms(b.t), convert(b.min)]), step)
-  const spread = withGaps(buckets.map((b) => [ms(b.t), convert(b.max) - convert(b.min)]), step)
+  const base = withGaps(
+    buckets.map((b) => [ms(b.t), convert(b.min)]),
+    step,
+  )
+  const spread = withGaps(
+    buckets.map((b) => [ms(b.t), convert(b.max) - convert(b.min)]),
+    step,
+  )
   const common = { type: 'line' as const, stack: STACK_ENVELOPE, symbol: 'none', connectNulls: false, silent: true }
   return [
     { ...common, name: SERIES_NAMES.envelopeBase, lineStyle: { opacity: 0 }, data: base },
@@ -213,7 +217,15 @@ export function buildMetricOption(input: MetricChartInput): MetricChartOption {
     const mean: Array<[number, number]> = series.points.map((b) => [ms(b.t), convert(b.mean)])
     const live = liveAfter(input.livePoints, lastMs, false).map(([t, v]) => [t, convert(v)] as [number, number])
     seriesList.push(...envelopeSeries(series.points, step, convert, colors))
-    main = { name: SERIES_NAMES.mean, type: 'line', symbol: 'none', connectNulls: false, lineStyle: { width: 2, color: colors.line }, itemStyle: { color: colors.line }, data: withGaps([...mean, ...live], step) }
+    main = {
+      name: SERIES_NAMES.mean,
+      type: 'line',
+      symbol: 'none',
+      connectNulls: false,
+      lineStyle: { width: 2, color: colors.line },
+      itemStyle: { color: colors.line },
+      data: withGaps([...mean, ...live], step),
+    }
     kit = (input.kitPoints ?? []).filter((p) => ms(p.t) >= fromMs).map((p) => [ms(p.t), convert(p.value)])
   } else {
     const sensorRaw = series.raw.filter((r) => r.source !== 'test_kit')

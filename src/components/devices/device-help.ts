@@ -8,7 +8,13 @@ export const DEFAULT_MQTT_PORT = 1883
 const EXAMPLE_VALUES: Partial<Record<MetricKey, number>> = { temperature: 25.2, ph: 7.1, light: 800, water_level: 38.5 }
 
 /** A ready-to-run line that publishes one reading, so a keeper can test the device's setup. */
-export function mosquittoPubExample(device: Pick<PublicDevice, 'id' | 'metrics'>, token: string, host: string, port = DEFAULT_MQTT_PORT, now = new Date()): string {
+export function mosquittoPubExample(
+  device: Pick<PublicDevice, 'id' | 'metrics'>,
+  token: string,
+  host: string,
+  port = DEFAULT_MQTT_PORT,
+  now = new Date(),
+): string {
   const metric = device.metrics[0] ?? 'temperature'
   const payload = JSON.stringify({
     v: CONTRACT_VERSION,

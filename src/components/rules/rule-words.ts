@@ -64,4 +64,5 @@ export function missingReadingItems() {
 }
 
 /** The select's hint: when a reading counts as missing. */
-export const missingReadingHint = (metric: string, afterMinutes: number) => `When no ${metricInSentence(metric)} reading has come for ${formatMinutes(afterMinutes)}`
+export const missingReadingHint = (metric: string, afterMinutes: number) =>
+  `When no ${metricInSentence(metric)} reading has come for ${formatMinutes(afterMinutes)}`

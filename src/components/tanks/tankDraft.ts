@@ -161,9 +161,7 @@ export function candidateFromDraft(draft: TankDraft): Record<string, unknown> {
     dimensions: byDimensions ? shapeFromDraft(draft) : null,
     volumeLitres: byDimensions ? null : (num(draft.volumeLitres) ?? null),
     substrateDepthCm: num(draft.substrateDepthCm) ?? 0,
-    heater: draft.hasHeater
-      ? { watts: num(draft.heaterWatts), setPointC: num(draft.setPointC), topCm: num(draft.heaterTopCm) }
-      : null,
+    heater: draft.hasHeater ? { watts: num(draft.heaterWatts), setPointC: num(draft.setPointC), topCm: num(draft.heaterTopCm) } : null,
     filter: draft.filter,
     media: draft.media,
     lightSchedule: draft.hasLightSchedule ? { on: draft.lightOn, off: draft.lightOff } : null,

@@ -29,7 +29,13 @@ describe('BuildFiguresCard', () => {
   })
 
   it('says what is wrong instead of figures when the plan cannot be worked out', async () => {
-    const wrapper = await mountCard({ ...PLAN_60, substrate: [{ material: 'sand', depthCm: 20 }, { material: 'gravel', depthCm: 20 }] })
+    const wrapper = await mountCard({
+      ...PLAN_60,
+      substrate: [
+        { material: 'sand', depthCm: 20 },
+        { material: 'gravel', depthCm: 20 },
+      ],
+    })
     expect(wrapper.text()).toContain('the layers add up to 40 cm')
     expect(wrapper.find('[data-test="figure-water"]').exists()).toBe(false)
     wrapper.unmount()

@@ -17,9 +17,23 @@ const messagesOf = (root: { find: (s: string) => { element: Element } }, input: 
   (root.find(`input[name="${input}"]`).element.closest('.v-input')?.querySelector('.v-messages')?.textContent ?? '').trim()
 
 const open: PublicWaterChange = {
-  id: 55, tankId: 12, status: 'in_progress', plan: heaterExposingPlan, heaterOffConfirmed: true, temporaryRuleId: 9,
-  startedAt: '2026-03-03T10:00:00.000Z', startedBy: 7, finishedAt: null, finishedBy: null, litresReplaced: null, dechlorinatorMl: null,
-  newWaterTempC: null, careLogEntryId: null, cancelledAt: null, cancelledBy: null, cancelReason: null,
+  id: 55,
+  tankId: 12,
+  status: 'in_progress',
+  plan: heaterExposingPlan,
+  heaterOffConfirmed: true,
+  temporaryRuleId: 9,
+  startedAt: '2026-03-03T10:00:00.000Z',
+  startedBy: 7,
+  finishedAt: null,
+  finishedBy: null,
+  litresReplaced: null,
+  dechlorinatorMl: null,
+  newWaterTempC: null,
+  careLogEntryId: null,
+  cancelledAt: null,
+  cancelledBy: null,
+  cancelReason: null,
 }
 
 beforeEach(() => {
@@ -38,7 +52,11 @@ async function mountPanel() {
 describe('care forms show field errors', () => {
   it('refuses a zero, a negative and an over-100 % amount in the plan form without asking the server', async () => {
     const wrapper = await mountPanel()
-    for (const [value, message] of [['0', 'must be above zero'], ['-5', 'must be above zero'], ['101', 'at most 100 %']] as const) {
+    for (const [value, message] of [
+      ['0', 'must be above zero'],
+      ['-5', 'must be above zero'],
+      ['101', 'at most 100 %'],
+    ] as const) {
       await wrapper.find('input[name="amount"]').setValue(value)
       await wrapper.find('form').trigger('submit')
       await flushPromises()
@@ -54,7 +72,12 @@ describe('care forms show field errors', () => {
 
   it('shows the server’s field error under the amount when the litres exceed the tank', async () => {
     vi.mocked(planWaterChange).mockRejectedValue(
-      new ApiError({ status: 400, code: 'invalid_input', message: 'litres: more than the 180 L in the tank', fields: { litres: 'more than the 180 L in the tank' } }),
+      new ApiError({
+        status: 400,
+        code: 'invalid_input',
+        message: 'litres: more than the 180 L in the tank',
+        fields: { litres: 'more than the 180 L in the tank' },
+      }),
     )
     const wrapper = await mountPanel()
     await wrapper.find('[data-test="mode-litres"]').trigger('click')

@@ -13,8 +13,15 @@ import { mountView } from '../mount'
 const inDocument = (selector: string) => new DOMWrapper(document.querySelector(selector)!)
 
 const waterChange: PublicCareLogEntry = {
-  id: 4, tankId: 12, kind: 'water_change', at: '2026-03-03T09:30:00.000Z', by: { id: 7, name: 'Pat keeper' }, text: 'Water change',
-  values: { litres: 20, percent: 11.1, dechlorinatorMl: 4 }, careTaskId: null, waterChangeId: 55,
+  id: 4,
+  tankId: 12,
+  kind: 'water_change',
+  at: '2026-03-03T09:30:00.000Z',
+  by: { id: 7, name: 'Pat keeper' },
+  text: 'Water change',
+  values: { litres: 20, percent: 11.1, dechlorinatorMl: 4 },
+  careTaskId: null,
+  waterChangeId: 55,
 }
 
 beforeEach(() => {
@@ -35,7 +42,14 @@ describe('CareLogPanel', () => {
   })
 
   it('adds a dosing entry with product and amount', async () => {
-    const dosing: PublicCareLogEntry = { ...waterChange, id: 5, kind: 'dosing', text: '', values: { product: 'Plant food', amount: 5, unit: 'mL' }, waterChangeId: null }
+    const dosing: PublicCareLogEntry = {
+      ...waterChange,
+      id: 5,
+      kind: 'dosing',
+      text: '',
+      values: { product: 'Plant food', amount: 5, unit: 'mL' },
+      waterChangeId: null,
+    }
     vi.mocked(addCareLogEntry).mockResolvedValue(dosing)
     const { wrapper } = await mountView(CareLogPanel, { role: 'keeper', props: { tankId: 12, canWrite: true, timeZone: 'UTC' } })
     await flushPromises()
@@ -47,7 +61,12 @@ describe('CareLogPanel', () => {
     await inDocument('input[name="amount"]').setValue('5')
     await inDocument('.v-dialog form').trigger('submit')
     await flushPromises()
-    expect(addCareLogEntry).toHaveBeenCalledWith(12, { kind: 'dosing', text: '', values: { product: 'Plant food', amount: 5, unit: 'mL' }, at: expect.stringMatching(/Z$/) })
+    expect(addCareLogEntry).toHaveBeenCalledWith(12, {
+      kind: 'dosing',
+      text: '',
+      values: { product: 'Plant food', amount: 5, unit: 'mL' },
+      at: expect.stringMatching(/Z$/),
+    })
     expect(wrapper.find('[data-test="care-log-5"]').text()).toContain('Plant food · 5 mL')
   })
 })
@@ -55,11 +74,23 @@ describe('CareLogPanel', () => {
 describe('CyclingPanel', () => {
   it('shows the peaks, nitrate, the stated rule and the new-plants note', async () => {
     vi.mocked(getCycling).mockResolvedValue({
-      tankId: 12, stage: 'cycling', phase: 'nitrate', cycled: false,
+      tankId: 12,
+      stage: 'cycling',
+      phase: 'nitrate',
+      cycled: false,
       ammoniaPeak: { value: 2, at: '2026-02-10T08:00:00.000Z', passed: true },
       nitritePeak: { value: 1.5, at: '2026-02-20T08:00:00.000Z', passed: true },
-      nitrateRising: true, zeroSince: '2026-03-01T08:00:00.000Z', zeroDays: 2, daysToGo: 5, rule: CYCLED_RULE,
-      newPlants: { addedAt: '2026-02-25T08:00:00.000Z', daysSince: 6, message: 'New plants can shed leaves and melt back in their first 14–21 days, adding ammonia: test more often and remove dying leaves (common practice)' },
+      nitrateRising: true,
+      zeroSince: '2026-03-01T08:00:00.000Z',
+      zeroDays: 2,
+      daysToGo: 5,
+      rule: CYCLED_RULE,
+      newPlants: {
+        addedAt: '2026-02-25T08:00:00.000Z',
+        daysSince: 6,
+        message:
+          'New plants can shed leaves and melt back in their first 14–21 days, adding ammonia: test more often and remove dying leaves (common practice)',
+      },
       suggestion: null,
     })
     const { wrapper } = await mountView(CyclingPanel, { role: 'viewer', props: { tankId: 12, timeZone: 'UTC' } })

@@ -44,7 +44,11 @@ describe('care task status words', () => {
     expect(chips[0]!.find('.mdi-alert-circle').exists()).toBe(true)
     expect(chips[1]!.find('.mdi-calendar-today').exists()).toBe(true)
     expect(wrapper.findAll('[data-test="care-task-title"]').map((t) => t.text())).toEqual([
-      'Rinse the filter sponge', 'Partial water change', 'Test-kit check', 'Clean the glass', 'Clean the substrate',
+      'Rinse the filter sponge',
+      'Partial water change',
+      'Test-kit check',
+      'Clean the glass',
+      'Clean the substrate',
     ])
     // A viewer gets no buttons.
     expect(wrapper.find('[data-test="care-task-done"]').exists()).toBe(false)
@@ -64,10 +68,24 @@ describe('care task status words', () => {
 
 describe('CareTasksPanel actions', () => {
   it('marks a task done with one tap and shows it done', async () => {
-    const done = careTask(2, { title: 'Rinse the filter sponge', lastDoneAt: '2026-03-03T10:00:00.000Z', due: { dueOn: '2026-03-17', status: 'later', daysUntilDue: 14, snoozed: false, today: '2026-03-03' } })
+    const done = careTask(2, {
+      title: 'Rinse the filter sponge',
+      lastDoneAt: '2026-03-03T10:00:00.000Z',
+      due: { dueOn: '2026-03-17', status: 'later', daysUntilDue: 14, snoozed: false, today: '2026-03-03' },
+    })
     vi.mocked(markCareTaskDone).mockResolvedValue({
       task: done,
-      logEntry: { id: 9, tankId: 12, kind: 'task_done', at: '2026-03-03T10:00:00.000Z', by: { id: 7, name: 'Pat' }, text: 'Rinse the filter sponge', values: {}, careTaskId: 2, waterChangeId: null },
+      logEntry: {
+        id: 9,
+        tankId: 12,
+        kind: 'task_done',
+        at: '2026-03-03T10:00:00.000Z',
+        by: { id: 7, name: 'Pat' },
+        text: 'Rinse the filter sponge',
+        values: {},
+        careTaskId: 2,
+        waterChangeId: null,
+      },
     })
     const wrapper = await mountPanel('keeper')
     await wrapper.find('[data-test="care-task-2"] [data-test="care-task-done"]').trigger('click')
@@ -97,7 +115,9 @@ describe('CareTasksPanel actions', () => {
   })
 
   it('lets the owner add a task that repeats on weekdays', async () => {
-    vi.mocked(createCareTask).mockResolvedValue(careTask(6, { kind: 'test_kit_check', title: 'Test-kit check', recurrence: { kind: 'weekdays', weekdays: [0, 3] } }))
+    vi.mocked(createCareTask).mockResolvedValue(
+      careTask(6, { kind: 'test_kit_check', title: 'Test-kit check', recurrence: { kind: 'weekdays', weekdays: [0, 3] } }),
+    )
     const wrapper = await mountPanel('owner')
     await wrapper.find('[data-test="care-task-add"]').trigger('click')
     await flushPromises()

@@ -43,7 +43,9 @@ describe('CareTodayView', () => {
   })
 
   it('marks a task done with one tap and takes it off the list', async () => {
-    vi.mocked(markCareTasksDone).mockResolvedValue([{ id: 2, outcome: 'done', doneAt: '2026-03-03T09:00:00.000Z', doneBy: { id: 7, name: 'Pat' }, task: careTask(2) }])
+    vi.mocked(markCareTasksDone).mockResolvedValue([
+      { id: 2, outcome: 'done', doneAt: '2026-03-03T09:00:00.000Z', doneBy: { id: 7, name: 'Pat' }, task: careTask(2) },
+    ])
     const wrapper = await mountToday()
     await wrapper.find('[data-test="care-task-2"] [data-test="care-task-done"]').trigger('click')
     await flushPromises()
@@ -55,7 +57,9 @@ describe('CareTodayView', () => {
 
   it('says who had ticked a task meanwhile instead of logging it twice', async () => {
     // 08:12 UTC is 09:12 in Berlin in March (CET, UTC+1).
-    vi.mocked(markCareTasksDone).mockResolvedValue([{ id: 2, outcome: 'already_done', doneAt: '2026-03-03T08:12:00.000Z', doneBy: { id: 8, name: 'Sam' }, task: careTask(2) }])
+    vi.mocked(markCareTasksDone).mockResolvedValue([
+      { id: 2, outcome: 'already_done', doneAt: '2026-03-03T08:12:00.000Z', doneBy: { id: 8, name: 'Sam' }, task: careTask(2) },
+    ])
     const wrapper = await mountToday()
     await wrapper.find('[data-test="care-task-2"] [data-test="care-task-done"]').trigger('click')
     await flushPromises()
@@ -93,18 +97,35 @@ describe('CareTodayView', () => {
     await flushPromises()
     // In list order, each with the "last done" the list showed.
     const seen = '2026-03-01T09:00:00.000Z'
-    expect(markCareTasksDone).toHaveBeenCalledWith([{ id: 3, seenLastDoneAt: seen }, { id: 1, seenLastDoneAt: seen }], '')
+    expect(markCareTasksDone).toHaveBeenCalledWith(
+      [
+        { id: 3, seenLastDoneAt: seen },
+        { id: 1, seenLastDoneAt: seen },
+      ],
+      '',
+    )
     expect(wrapper.findAll('[data-test="care-task-place"]').map((p) => p.text())).toEqual(['Front shop · Show tank 2'])
     expect(wrapper.find('[data-test="care-today-notice"]').text()).toBe('1 task done. Task 3 on Breeding rack B was already done by Sam at 3 Mar, 09:12 CET.')
   })
 
   it('lists tanks in quarantine and under an arrival watch, with the quarantine day and days remaining', async () => {
     vi.mocked(getCareToday).mockResolvedValue({
-      siteIds: [3], onDuty: true, tasks: [],
+      siteIds: [3],
+      onDuty: true,
+      tasks: [],
       watch: [
-        { tank: { id: 21, name: 'Quarantine Q1' }, site: { id: 3, name: 'Front shop', timeZone: 'Europe/Berlin' }, watchUntil: null,
-          quarantine: { startedAt: '2026-02-24T09:00:00.000Z', endsAt: '2026-03-24T09:00:00.000Z', daysIn: 7, daysRemaining: 21, days: 28 } },
-        { tank: { id: 22, name: 'Show tank 1' }, site: { id: 3, name: 'Front shop', timeZone: 'Europe/Berlin' }, quarantine: null, watchUntil: '2026-03-05T09:00:00.000Z' },
+        {
+          tank: { id: 21, name: 'Quarantine Q1' },
+          site: { id: 3, name: 'Front shop', timeZone: 'Europe/Berlin' },
+          watchUntil: null,
+          quarantine: { startedAt: '2026-02-24T09:00:00.000Z', endsAt: '2026-03-24T09:00:00.000Z', daysIn: 7, daysRemaining: 21, days: 28 },
+        },
+        {
+          tank: { id: 22, name: 'Show tank 1' },
+          site: { id: 3, name: 'Front shop', timeZone: 'Europe/Berlin' },
+          quarantine: null,
+          watchUntil: '2026-03-05T09:00:00.000Z',
+        },
       ],
     })
     const wrapper = await mountToday()

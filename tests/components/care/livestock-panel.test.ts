@@ -14,8 +14,19 @@ import { careTank } from './fixtures'
 const inDocument = (selector: string) => new DOMWrapper(document.querySelector(selector)!)
 
 const neon: PublicLivestockEntry = {
-  id: 31, tankId: 12, speciesKey: 'neon_tetra', species: speciesByKey('neon_tetra') ?? null, name: 'Neon tetra', category: 'fish', count: 12, losses: 1,
-  addedAt: '2026-03-03T09:00:00.000Z', source: 'Harbour wholesale', notes: '', removedAt: null, watchUntil: '2026-03-06T09:00:00.000Z',
+  id: 31,
+  tankId: 12,
+  speciesKey: 'neon_tetra',
+  species: speciesByKey('neon_tetra') ?? null,
+  name: 'Neon tetra',
+  category: 'fish',
+  count: 12,
+  losses: 1,
+  addedAt: '2026-03-03T09:00:00.000Z',
+  source: 'Harbour wholesale',
+  notes: '',
+  removedAt: null,
+  watchUntil: '2026-03-06T09:00:00.000Z',
 }
 const cyclingWarning = 'The tank is still cycling: ammonia and nitrite can harm animals until it is cycled'
 
@@ -60,7 +71,11 @@ describe('LivestockPanel', () => {
     await flushPromises()
 
     expect(addLivestock).toHaveBeenCalledWith(12, {
-      speciesKey: 'neon_tetra', count: 12, source: 'Harbour wholesale', notes: '', acclimation: { bagLitres: 0.5, intervalMinutes: 5 },
+      speciesKey: 'neon_tetra',
+      count: 12,
+      source: 'Harbour wholesale',
+      notes: '',
+      acclimation: { bagLitres: 0.5, intervalMinutes: 5 },
     })
     expect(wrapper.find('[data-test="livestock-warning"]').text()).toBe(cyclingWarning)
     const timer = wrapper.find('[data-test="acclimation-timer"]')
@@ -73,14 +88,18 @@ describe('LivestockPanel', () => {
 
   it('records a loss as a new running total', async () => {
     vi.mocked(listLivestock).mockResolvedValue({
-      entries: [neon], watchUntil: null,
+      entries: [neon],
+      watchUntil: null,
       quarantine: { startedAt: '2026-03-03T09:00:00.000Z', endsAt: '2026-03-31T09:00:00.000Z', daysIn: 0, daysRemaining: 28, days: 28 },
     })
     vi.mocked(updateLivestock).mockResolvedValue({ ...neon, losses: 3 })
     const wrapper = await mountPanel()
     expect(wrapper.find('[data-test="livestock-31"]').text()).toContain('11 in the tank · 1 lost of 12')
     expect(wrapper.find('[data-test="livestock-periods"]').text()).toContain('Quarantine day 1 of 28: 28 days remaining')
-    await wrapper.findAll('[data-test="livestock-31"] button').find((b) => b.text() === 'Record loss')!.trigger('click')
+    await wrapper
+      .findAll('[data-test="livestock-31"] button')
+      .find((b) => b.text() === 'Record loss')!
+      .trigger('click')
     await flushPromises()
     await inDocument('input[name="lost"]').setValue('2')
     await inDocument('.v-dialog form').trigger('submit')

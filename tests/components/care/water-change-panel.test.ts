@@ -15,9 +15,24 @@ const inDocument = (selector: string) => new DOMWrapper(document.querySelector(s
 
 function startedChange(plan = heaterExposingPlan, heaterOffConfirmed = true): PublicWaterChange & { cautions: string[] } {
   return {
-    id: 55, tankId: 12, status: 'in_progress', plan, heaterOffConfirmed, temporaryRuleId: 9,
-    startedAt: '2026-03-03T10:00:00.000Z', startedBy: 7, finishedAt: null, finishedBy: null,
-    litresReplaced: null, dechlorinatorMl: null, newWaterTempC: null, careLogEntryId: null, cancelledAt: null, cancelledBy: null, cancelReason: null, cautions: plan.cautions,
+    id: 55,
+    tankId: 12,
+    status: 'in_progress',
+    plan,
+    heaterOffConfirmed,
+    temporaryRuleId: 9,
+    startedAt: '2026-03-03T10:00:00.000Z',
+    startedBy: 7,
+    finishedAt: null,
+    finishedBy: null,
+    litresReplaced: null,
+    dechlorinatorMl: null,
+    newWaterTempC: null,
+    careLogEntryId: null,
+    cancelledAt: null,
+    cancelledBy: null,
+    cancelReason: null,
+    cautions: plan.cautions,
   }
 }
 
@@ -107,8 +122,23 @@ describe('WaterChangePanel', () => {
     const { cautions: _c, ...open } = startedChange()
     vi.mocked(listWaterChanges).mockResolvedValue([open])
     vi.mocked(finishWaterChange).mockResolvedValue({
-      ...open, status: 'finished', finishedAt: '2026-03-03T11:00:00.000Z', finishedBy: 7, litresReplaced: 70, cautions: [HEATER_OFF_CAUTION, UNPLUG_CAUTION],
-      logEntry: { id: 1, tankId: 12, kind: 'water_change', at: '2026-03-03T11:00:00.000Z', by: { id: 7, name: 'Pat' }, text: 'Water change', values: { litres: 70 }, careTaskId: null, waterChangeId: 55 },
+      ...open,
+      status: 'finished',
+      finishedAt: '2026-03-03T11:00:00.000Z',
+      finishedBy: 7,
+      litresReplaced: 70,
+      cautions: [HEATER_OFF_CAUTION, UNPLUG_CAUTION],
+      logEntry: {
+        id: 1,
+        tankId: 12,
+        kind: 'water_change',
+        at: '2026-03-03T11:00:00.000Z',
+        by: { id: 7, name: 'Pat' },
+        text: 'Water change',
+        values: { litres: 70 },
+        careTaskId: null,
+        waterChangeId: 55,
+      },
     })
     const wrapper = await mountPanel()
     // Reopened later, the change in progress still shows the plan's cautions.
@@ -130,9 +160,24 @@ describe('WaterChangePanel', () => {
     const { cautions: _c, ...open } = startedChange()
     vi.mocked(listWaterChanges).mockResolvedValue([open])
     vi.mocked(cancelWaterChange).mockResolvedValue({
-      ...open, status: 'cancelled', cancelledAt: '2026-03-03T10:20:00.000Z', cancelledBy: 7, cancelReason: 'Bucket cracked', temporaryRuleId: null,
+      ...open,
+      status: 'cancelled',
+      cancelledAt: '2026-03-03T10:20:00.000Z',
+      cancelledBy: 7,
+      cancelReason: 'Bucket cracked',
+      temporaryRuleId: null,
       cautions: ['Top the tank back up to its usual level before switching the heater on again', UNPLUG_CAUTION],
-      logEntry: { id: 2, tankId: 12, kind: 'note', at: '2026-03-03T10:20:00.000Z', by: { id: 7, name: 'Pat' }, text: 'Water change cancelled (not done): Bucket cracked', values: {}, careTaskId: null, waterChangeId: 55 },
+      logEntry: {
+        id: 2,
+        tankId: 12,
+        kind: 'note',
+        at: '2026-03-03T10:20:00.000Z',
+        by: { id: 7, name: 'Pat' },
+        text: 'Water change cancelled (not done): Bucket cracked',
+        values: {},
+        careTaskId: null,
+        waterChangeId: 55,
+      },
     })
     const wrapper = await mountPanel()
     await wrapper.find('[data-test="water-change-cancel"]').trigger('click')

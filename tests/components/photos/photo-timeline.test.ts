@@ -12,18 +12,36 @@ import { photosByDay, takenAtGuess } from '@/components/photos/photo-timeline'
 import { mountView } from '../mount'
 
 const photo = (id: number, takenAt: string, caption = '', careLogEntryId: number | null = null): PublicPhoto => ({
-  id, tankId: 12, careLogEntryId, caption, takenAt, uploadedBy: { id: 7, name: 'Pat keeper' }, createdAt: takenAt, contentType: 'image/jpeg',
+  id,
+  tankId: 12,
+  careLogEntryId,
+  caption,
+  takenAt,
+  uploadedBy: { id: 7, name: 'Pat keeper' },
+  createdAt: takenAt,
+  contentType: 'image/jpeg',
   display: { url: `/api/v1/photos/${id}/image`, width: 1600, height: 1200, bytes: 1000 },
   thumbnail: { url: `/api/v1/photos/${id}/thumbnail`, width: 320, height: 240 },
 })
 // 23:30 UTC on 3 March is already 4 March in Auckland (UTC+13 in its summer time; NZ Time Act 1974, from memory).
-const PHOTOS = [photo(1, '2026-03-02T08:00:00.000Z', 'Day one'), photo(2, '2026-03-03T23:30:00.000Z', 'Late', 9), photo(3, '2026-03-03T10:00:00.000Z', 'Morning')]
+const PHOTOS = [
+  photo(1, '2026-03-02T08:00:00.000Z', 'Day one'),
+  photo(2, '2026-03-03T23:30:00.000Z', 'Late', 9),
+  photo(3, '2026-03-03T10:00:00.000Z', 'Morning'),
+]
 
 describe('photosByDay', () => {
   it('groups by the calendar day in the given zone, newest first', () => {
     const label = (iso: string) => iso.slice(0, 10)
-    expect(photosByDay(PHOTOS, 'UTC', label).map((d) => [d.day, d.photos.map((p) => p.id)])).toEqual([['2026-03-03', [2, 3]], ['2026-03-02', [1]]])
-    expect(photosByDay(PHOTOS, 'Pacific/Auckland', label).map((d) => [d.day, d.photos.map((p) => p.id)])).toEqual([['2026-03-04', [2]], ['2026-03-03', [3]], ['2026-03-02', [1]]])
+    expect(photosByDay(PHOTOS, 'UTC', label).map((d) => [d.day, d.photos.map((p) => p.id)])).toEqual([
+      ['2026-03-03', [2, 3]],
+      ['2026-03-02', [1]],
+    ])
+    expect(photosByDay(PHOTOS, 'Pacific/Auckland', label).map((d) => [d.day, d.photos.map((p) => p.id)])).toEqual([
+      ['2026-03-04', [2]],
+      ['2026-03-03', [3]],
+      ['2026-03-02', [1]],
+    ])
   })
   it('guesses taken-at from the file time, never in the future', () => {
     const now = Date.parse('2026-03-05T12:00:00Z')
@@ -59,7 +77,12 @@ describe('PhotoTimeline', () => {
     expect(days[0]!.find('h3').text()).toBe('Tue 3 Mar 2026')
     expect(days[0]!.findAll('button').map((b) => b.text())).toEqual(['23:30 · Late', '10:00 · Morning'])
     expect(wrapper.find('[data-test="photo-2"] [aria-label="linked to the care log"]').exists()).toBe(true)
-    expect(vi.mocked(fetchPhotoBlob).mock.calls.map((c) => c[0]).sort()).toEqual(['/api/v1/photos/1/thumbnail', '/api/v1/photos/2/thumbnail', '/api/v1/photos/3/thumbnail'])
+    expect(
+      vi
+        .mocked(fetchPhotoBlob)
+        .mock.calls.map((c) => c[0])
+        .sort(),
+    ).toEqual(['/api/v1/photos/1/thumbnail', '/api/v1/photos/2/thumbnail', '/api/v1/photos/3/thumbnail'])
     expect(wrapper.findAll('[data-test="photo-img"]').map((img) => img.attributes('src'))).toEqual(['blob:probe', 'blob:probe', 'blob:probe'])
     expect(wrapper.find('[data-test="photo-add"]').exists()).toBe(false)
   })

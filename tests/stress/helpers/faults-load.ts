@@ -5,7 +5,7 @@ import { readingsTopic } from '@shared/ingest/contract'
 export const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms))
 
 export async function until(check: () => boolean | Promise<boolean>, timeoutMs = 20_000, everyMs = 100) {
-  for (const end = Date.now() + timeoutMs; Date.now() < end; ) {
+  for (const end = Date.now() + timeoutMs; Date.now() < end;) {
     if (await check()) return true
     await sleep(everyMs)
   }
@@ -54,7 +54,10 @@ export function mqttPublisher(url: string | (() => string), device: Device, opti
       const i = seq++
       const at = timeOf(i)
       published.add(at)
-      const payload = JSON.stringify({ v: 1, readings: [{ metric: options.metric, value: options.value ?? 25 + (i % 10) / 10, time: new Date(at).toISOString() }] })
+      const payload = JSON.stringify({
+        v: 1,
+        readings: [{ metric: options.metric, value: options.value ?? 25 + (i % 10) / 10, time: new Date(at).toISOString() }],
+      })
       const p = client.publishAsync(readingsTopic(device.deviceId), payload, { qos: 1 }).then(
         () => acked.add(at),
         (error: Error) => void failures.push(error.message),
@@ -108,7 +111,10 @@ export function httpPoster(baseUrl: string, device: Device, options: { metric: s
   const loop = (async () => {
     while (!stopped) {
       const at = options.firstAt + seq++ * 1000
-      const body = JSON.stringify({ v: 1, readings: [{ metric: options.metric, value: options.value ?? 7 + (seq % 10) / 100, time: new Date(at).toISOString() }] })
+      const body = JSON.stringify({
+        v: 1,
+        readings: [{ metric: options.metric, value: options.value ?? 7 + (seq % 10) / 100, time: new Date(at).toISOString() }],
+      })
       try {
         const res = await fetch(`${baseUrl}/api/v1/readings`, {
           method: 'POST',

@@ -49,7 +49,10 @@ describe('substrate layers (footprint × depth; densities from memory)', () => {
 describe('hardscape and the water left', () => {
   it('turns weight into displaced litres and litres into weight', () => {
     // Rock 5 kg / 2.6 kg/L (from memory) = 1.923 L; wood 1 L × 1.1 kg/L (from memory) = 1.1 kg.
-    const scape = hardscapeFigures([{ kind: 'rock', kg: 5 }, { kind: 'wood', litres: 1, label: 'Root' }])
+    const scape = hardscapeFigures([
+      { kind: 'rock', kg: 5 },
+      { kind: 'wood', litres: 1, label: 'Root' },
+    ])
     expectWithin(scape.items[0]!.litres, 1.92308, 1e-5)
     expectWithin(scape.items[1]!.kg, 1.1, 1e-9)
     expect(scape.items[1]!.label).toBe('Root')

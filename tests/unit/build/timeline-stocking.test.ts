@@ -63,7 +63,12 @@ describe('cycling ends on consecutive zero tests (common practice: two in a row)
     expect(zeroOnConsecutiveTests([...ok, { at: 4 * day, ammonia: 0, nitrite: 0.1 }])).toBe(false)
     expect(zeroOnConsecutiveTests([{ at: day, ammonia: 0, nitrite: 0 }])).toBe(false)
     // A test of ammonia alone does not count towards the pair.
-    expect(zeroOnConsecutiveTests([{ at: day, ammonia: 0, nitrite: 0 }, { at: 2 * day, ammonia: 0 }])).toBe(false)
+    expect(
+      zeroOnConsecutiveTests([
+        { at: day, ammonia: 0, nitrite: 0 },
+        { at: 2 * day, ammonia: 0 },
+      ]),
+    ).toBe(false)
   })
 })
 
@@ -78,8 +83,12 @@ describe('stocking plan checks (hints from memory, checks common practice)', () 
     ])
     const codes = checks.map((c) => `${c.speciesKey}:${c.code}`)
     expect(codes).toEqual([
-      'neon_tetra:tank_too_small', 'guppy:ph_outside_range', 'guppy:livebearer_sexes',
-      'harlequin_rasbora:tank_too_small', 'harlequin_rasbora:group_too_small', 'undefined:overstocked',
+      'neon_tetra:tank_too_small',
+      'guppy:ph_outside_range',
+      'guppy:livebearer_sexes',
+      'harlequin_rasbora:tank_too_small',
+      'harlequin_rasbora:group_too_small',
+      'undefined:overstocked',
     ])
     expect(checks[0]!.message).toBe('Neon tetra usually needs a tank of at least 54 L; this one is about 50 L')
     // 8 × 3.5 + 3 × 5 + 4 × 4.5 = 61 cm of adult fish for 47.5 L.
@@ -95,11 +104,24 @@ describe('stocking plan checks (hints from memory, checks common practice)', () 
 
   it('takes the overlap of the planned species bands as the target', () => {
     // Neon 20–26 °C, pH 6–7.5; bronze corydoras 22–28 °C, pH 6–8 (species table, from memory).
-    expect(livestockBands([{ speciesKey: 'neon_tetra', count: 8 }, { speciesKey: 'bronze_corydoras', count: 6 }])).toEqual({
-      temperature: { min: 22, max: 26 }, ph: { min: 6, max: 7.5 }, conflict: false,
+    expect(
+      livestockBands([
+        { speciesKey: 'neon_tetra', count: 8 },
+        { speciesKey: 'bronze_corydoras', count: 6 },
+      ]),
+    ).toEqual({
+      temperature: { min: 22, max: 26 },
+      ph: { min: 6, max: 7.5 },
+      conflict: false,
     })
     // Goldfish (10–24 °C), White Cloud (14–22 °C) and angelfish (24–30 °C) share no temperature.
-    expect(livestockBands([{ speciesKey: 'goldfish', count: 1 }, { speciesKey: 'white_cloud', count: 6 }, { speciesKey: 'angelfish', count: 1 }]).conflict).toBe(true)
+    expect(
+      livestockBands([
+        { speciesKey: 'goldfish', count: 1 },
+        { speciesKey: 'white_cloud', count: 6 },
+        { speciesKey: 'angelfish', count: 1 },
+      ]).conflict,
+    ).toBe(true)
   })
 })
 
@@ -112,8 +134,15 @@ describe('all figures of one plan', () => {
       glassThicknessMm: 6,
       roomC: 20,
       setPointC: 26,
-      substrate: [{ material: 'mineral_base', depthCm: 1 }, { material: 'nutrient_soil', depthCm: 4, bagLitres: 3 }, { material: 'gravel', depthCm: 1, bagLitres: 2 }],
-      hardscape: [{ kind: 'rock', kg: 5 }, { kind: 'wood', litres: 1 }],
+      substrate: [
+        { material: 'mineral_base', depthCm: 1 },
+        { material: 'nutrient_soil', depthCm: 4, bagLitres: 3 },
+        { material: 'gravel', depthCm: 1, bagLitres: 2 },
+      ],
+      hardscape: [
+        { kind: 'rock', kg: 5 },
+        { kind: 'wood', litres: 1 },
+      ],
       labelRate: { amount: 5, unit: 'mL', per: '10L' },
       targets: {},
       groups: [],

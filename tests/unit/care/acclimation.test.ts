@@ -40,7 +40,11 @@ describe('acclimation plan', () => {
 
   it('spaces additions every 10 minutes when asked', () => {
     const plan = acclimationPlan({ bagLitres: 0.9, intervalMinutes: 10 })
-    expect(plan.steps.map((s) => [s.minute, s.addLitres])).toEqual([[0, 0.3], [10, 0.3], [20, 0.3]])
+    expect(plan.steps.map((s) => [s.minute, s.addLitres])).toEqual([
+      [0, 0.3],
+      [10, 0.3],
+      [20, 0.3],
+    ])
     expect(plan.steps[0]?.estimatedTempC).toBeNull()
   })
 

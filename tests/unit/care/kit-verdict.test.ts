@@ -36,7 +36,11 @@ describe('test-kit verdicts against the tank’s target band', () => {
 
   it('gives one verdict per value in the order given, and says when a tank has no band for it', () => {
     const verdicts = kitVerdicts({ temperature: 25, nitrate: 60, kh: 4 }, tropical, 'established', units)
-    expect(verdicts.map((v) => [v.metric, v.verdict])).toEqual([['temperature', 'in_band'], ['nitrate', 'high'], ['kh', 'no_band']])
+    expect(verdicts.map((v) => [v.metric, v.verdict])).toEqual([
+      ['temperature', 'in_band'],
+      ['nitrate', 'high'],
+      ['kh', 'no_band'],
+    ])
     expect(verdicts[2]!.summary).toBe('4: this tank has no target band for it.')
     expect(verdicts[1]!.advice.join(' ')).toContain('Test the tap water too')
   })

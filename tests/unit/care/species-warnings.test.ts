@@ -62,7 +62,11 @@ describe('watch period and quarantine', () => {
   it('counts 28 quarantine days from the start, rounding part days up', () => {
     const start = new Date('2026-05-01T10:00:00Z')
     expect(quarantineStatus(start, new Date('2026-05-11T10:00:00Z'))).toEqual({
-      startedAt: '2026-05-01T10:00:00.000Z', endsAt: '2026-05-29T10:00:00.000Z', daysIn: 10, daysRemaining: 18, days: 28,
+      startedAt: '2026-05-01T10:00:00.000Z',
+      endsAt: '2026-05-29T10:00:00.000Z',
+      daysIn: 10,
+      daysRemaining: 18,
+      days: 28,
     })
     expect(quarantineStatus(start, new Date('2026-05-11T12:00:00Z'))).toMatchObject({ daysIn: 10, daysRemaining: 18 })
     expect(quarantineStatus(start, new Date('2026-05-01T10:01:00Z'))).toMatchObject({ daysIn: 0, daysRemaining: 28 })

@@ -1,9 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import {
-  ammoniumPKa,
-  unionisedAmmoniaFraction,
-  unionisedAmmoniaMgL,
-} from '@shared/chemistry/ammonia'
+import { ammoniumPKa, unionisedAmmoniaFraction, unionisedAmmoniaMgL } from '@shared/chemistry/ammonia'
 import { expectRelative, expectWithin } from './helpers'
 
 describe('unionisedAmmoniaFraction', () => {

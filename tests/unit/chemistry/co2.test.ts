@@ -1,10 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import {
-  MEQ_PER_L_PER_DKH,
-  carbonicAcidPK1,
-  co2FromPhKh,
-  co2RuleOfThumb,
-} from '@shared/chemistry/co2'
+import { MEQ_PER_L_PER_DKH, carbonicAcidPK1, co2FromPhKh, co2RuleOfThumb } from '@shared/chemistry/co2'
 import { expectWithin } from './helpers'
 
 describe('carbonicAcidPK1 (Plummer & Busenberg 1982)', () => {

@@ -2,9 +2,7 @@ import { expect } from 'vitest'
 
 /** Asserts |actual − expected| ≤ tolerance, with the tolerance stated in the table row. */
 export function expectWithin(actual: number, expected: number, tolerance: number): void {
-  expect(Math.abs(actual - expected), `expected ${actual} to be within ${tolerance} of ${expected}`).toBeLessThanOrEqual(
-    tolerance,
-  )
+  expect(Math.abs(actual - expected), `expected ${actual} to be within ${tolerance} of ${expected}`).toBeLessThanOrEqual(tolerance)
 }
 
 /** Relative version: |actual/expected − 1| ≤ fraction. */

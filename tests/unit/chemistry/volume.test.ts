@@ -1,11 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import {
-  filledWeightKg,
-  footprintCm2,
-  grossVolumeLitres,
-  waterVolumeLitres,
-  type TankShape,
-} from '@shared/chemistry/volume'
+import { filledWeightKg, footprintCm2, grossVolumeLitres, waterVolumeLitres, type TankShape } from '@shared/chemistry/volume'
 import { expectWithin } from './helpers'
 
 const rect: TankShape = { shape: 'rectangular', lengthCm: 60, widthCm: 30, heightCm: 36 }

@@ -20,20 +20,27 @@ const base = { shape: tank, fillHeightCm: 45, substrateDepthCm: 5 }
 describe('planWaterChange (hand-worked geometry)', () => {
   it.each<[string, WaterChangeInput, { litresOut: number; percent: number; levelAfterCm: number; exposed: boolean; maxL: number; maxPct: number }]>([
     // 25 % of 160 L = 40 L = 10 cm; heater top at 38 cm is above 35 cm; covered until 45 − 38 = 7 cm = 28 L.
-    ['25 % with heater top at 38 cm', { ...base, heaterTopCm: 38, percent: 25 },
-      { litresOut: 40, percent: 25, levelAfterCm: 35, exposed: true, maxL: 28, maxPct: 17.5 }],
+    [
+      '25 % with heater top at 38 cm',
+      { ...base, heaterTopCm: 38, percent: 25 },
+      { litresOut: 40, percent: 25, levelAfterCm: 35, exposed: true, maxL: 28, maxPct: 17.5 },
+    ],
     // 40 L again, heater top at 30 cm stays 5 cm under; 15 cm × 4 L = 60 L = 37.5 %.
-    ['25 % with heater top at 30 cm', { ...base, heaterTopCm: 30, percent: 25 },
-      { litresOut: 40, percent: 25, levelAfterCm: 35, exposed: false, maxL: 60, maxPct: 37.5 }],
+    [
+      '25 % with heater top at 30 cm',
+      { ...base, heaterTopCm: 30, percent: 25 },
+      { litresOut: 40, percent: 25, levelAfterCm: 35, exposed: false, maxL: 60, maxPct: 37.5 },
+    ],
     // 20 L = 5 cm = 12.5 %.
-    ['20 L by volume', { ...base, heaterTopCm: 38, litres: 20 },
-      { litresOut: 20, percent: 12.5, levelAfterCm: 40, exposed: false, maxL: 28, maxPct: 17.5 }],
+    ['20 L by volume', { ...base, heaterTopCm: 38, litres: 20 }, { litresOut: 20, percent: 12.5, levelAfterCm: 40, exposed: false, maxL: 28, maxPct: 17.5 }],
     // A heater lying in the substrate can never be uncovered by draining.
-    ['heater below the substrate surface', { ...base, heaterTopCm: 3, percent: 90 },
-      { litresOut: 144, percent: 90, levelAfterCm: 9, exposed: false, maxL: 160, maxPct: 100 }],
+    [
+      'heater below the substrate surface',
+      { ...base, heaterTopCm: 3, percent: 90 },
+      { litresOut: 144, percent: 90, levelAfterCm: 9, exposed: false, maxL: 160, maxPct: 100 },
+    ],
     // Without a heater position the whole water column is available.
-    ['no heater given', { ...base, percent: 10 },
-      { litresOut: 16, percent: 10, levelAfterCm: 41, exposed: false, maxL: 160, maxPct: 100 }],
+    ['no heater given', { ...base, percent: 10 }, { litresOut: 16, percent: 10, levelAfterCm: 41, exposed: false, maxL: 160, maxPct: 100 }],
   ])('%s', (_label, input, want) => {
     const plan = planWaterChange(input)
     expectWithin(plan.litresOut, want.litresOut, 1e-9)
@@ -47,9 +54,7 @@ describe('planWaterChange (hand-worked geometry)', () => {
 
   it('names the heater step exactly when the heater would be exposed (common practice)', () => {
     const plan = planWaterChange({ ...base, heaterTopCm: 38, percent: 25 })
-    expect(plan.cautions).toContain(
-      'Switch the heater off about 30 minutes before draining and back on only once it is covered again',
-    )
+    expect(plan.cautions).toContain('Switch the heater off about 30 minutes before draining and back on only once it is covered again')
   })
 
   it('always reminds to unplug, flags large changes and a heater already out of water', () => {

@@ -1,28 +1,10 @@
 import { describe, expect, it } from 'vitest'
-import {
-  displayPrecision,
-  isMetricKey,
-  METRIC_KEYS,
-  METRICS,
-  supportedUnits,
-} from '@shared/metrics'
+import { displayPrecision, isMetricKey, METRIC_KEYS, METRICS, supportedUnits } from '@shared/metrics'
 
 describe('metric registry', () => {
   it('lists the eleven metrics of the product, each defined once', () => {
     expect([...METRIC_KEYS].sort()).toEqual(
-      [
-        'ammonia',
-        'conductivity',
-        'gh',
-        'kh',
-        'light',
-        'nitrate',
-        'nitrite',
-        'oxygen',
-        'ph',
-        'temperature',
-        'water_level',
-      ].sort(),
+      ['ammonia', 'conductivity', 'gh', 'kh', 'light', 'nitrate', 'nitrite', 'oxygen', 'ph', 'temperature', 'water_level'].sort(),
     )
     expect(Object.keys(METRICS).sort()).toEqual([...METRIC_KEYS].sort())
   })
@@ -61,9 +43,7 @@ describe('metric registry', () => {
 
   it('marks the test-kit metrics', () => {
     const kit = METRIC_KEYS.filter((k) => METRICS[k].kitMetric)
-    expect(kit.sort()).toEqual(
-      ['temperature', 'ph', 'ammonia', 'nitrite', 'nitrate', 'kh', 'gh', 'conductivity', 'oxygen'].sort(),
-    )
+    expect(kit.sort()).toEqual(['temperature', 'ph', 'ammonia', 'nitrite', 'nitrate', 'kh', 'gh', 'conductivity', 'oxygen'].sort())
   })
 
   it('keeps plausibility bounds physically sensible', () => {
@@ -86,10 +66,7 @@ describe('isMetricKey', () => {
     expect(isMetricKey(key)).toBe(true)
   })
 
-  it.each(['Temperature', 'pH', 'waterLevel', 'toString', '', 1, null, undefined, {}])(
-    'rejects %j',
-    (x) => {
-      expect(isMetricKey(x)).toBe(false)
-    },
-  )
+  it.each(['Temperature', 'pH', 'waterLevel', 'toString', '', 1, null, undefined, {}])('rejects %j', (x) => {
+    expect(isMetricKey(x)).toBe(false)
+  })
 })

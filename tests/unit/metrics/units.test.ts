@@ -144,13 +144,10 @@ describe('rejections', () => {
     expect(toCanonical('ph', value, 'pH').ok).toBe(false)
   })
 
-  it.each([{}, { fullScaleLux: 0 }, { fullScaleLux: -100 }, { fullScaleLux: Number.NaN }])(
-    'rejects light in pct with context %j',
-    (ctx) => {
-      expect(reasonOf(toCanonical('light', 50, 'pct', ctx))).toContain('fullScaleLux')
-      expect(fromCanonical('light', 500, 'pct', ctx).ok).toBe(false)
-    },
-  )
+  it.each([{}, { fullScaleLux: 0 }, { fullScaleLux: -100 }, { fullScaleLux: Number.NaN }])('rejects light in pct with context %j', (ctx) => {
+    expect(reasonOf(toCanonical('light', 50, 'pct', ctx))).toContain('fullScaleLux')
+    expect(fromCanonical('light', 500, 'pct', ctx).ok).toBe(false)
+  })
 
   it('rejects oxygen in pct_sat without a temperature', () => {
     expect(reasonOf(toCanonical('oxygen', 95, 'pct_sat'))).toContain('temperatureC')

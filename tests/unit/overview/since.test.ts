@@ -5,13 +5,13 @@ import { numberedNames } from '@shared/tank-names'
 // Offsets: Directive 2000/84/EC (European Parliament and Council, 2001) Art. 2–3 puts the 2026
 // change to summer time at 01:00 UTC on 29 March; Berlin is UTC+01:00 before it and UTC+02:00 after
 // (EinhZeitG § 4). New York moves on the second Sunday of March, 8 March 2026 (15 U.S.C. § 260a).
-describe('the end of yesterday\'s working day', () => {
-  it('is 18:00 yesterday on the site\'s clock', () => {
+describe("the end of yesterday's working day", () => {
+  it("is 18:00 yesterday on the site's clock", () => {
     expect(new Date(endOfYesterdaysWorkday('Europe/Berlin', Date.parse('2026-03-10T07:00:00Z'))).toISOString()).toBe('2026-03-09T17:00:00.000Z')
     expect(new Date(endOfYesterdaysWorkday('America/New_York', Date.parse('2026-03-10T12:00:00Z'))).toISOString()).toBe('2026-03-09T22:00:00.000Z')
   })
 
-  it('follows the site\'s date, not UTC\'s: 23:30 UTC is already tomorrow in Berlin', () => {
+  it("follows the site's date, not UTC's: 23:30 UTC is already tomorrow in Berlin", () => {
     expect(new Date(endOfYesterdaysWorkday('Europe/Berlin', Date.parse('2026-03-09T23:30:00Z'))).toISOString()).toBe('2026-03-09T17:00:00.000Z')
   })
 

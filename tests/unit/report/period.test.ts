@@ -63,10 +63,20 @@ describe('care tasks due versus done in a period', () => {
 
   it('interval tasks: due again N days after each time done', () => {
     // Every 3 days, done 31 October → due 3 November, done then → due 6 November, not done → 2 due, 1 done.
-    const task = { recurrence: { kind: 'interval' as const, everyDays: 3 }, startsOn: '2026-10-31', createdAt: created, doneAt: [Date.parse('2026-10-31T10:00:00Z'), localNoon(3)] }
+    const task = {
+      recurrence: { kind: 'interval' as const, everyDays: 3 },
+      startsOn: '2026-10-31',
+      createdAt: created,
+      doneAt: [Date.parse('2026-10-31T10:00:00Z'), localNoon(3)],
+    }
     expect(tallyCareTask(task, week)).toEqual({ due: 2, done: 1 })
     // Weekly, done 26 October → due 2 November; never done again → one due occurrence, however late.
-    const weekly = { recurrence: { kind: 'interval' as const, everyDays: 7 }, startsOn: '2026-10-19', createdAt: created, doneAt: [Date.parse('2026-10-19T10:00:00Z'), Date.parse('2026-10-26T10:00:00Z')] }
+    const weekly = {
+      recurrence: { kind: 'interval' as const, everyDays: 7 },
+      startsOn: '2026-10-19',
+      createdAt: created,
+      doneAt: [Date.parse('2026-10-19T10:00:00Z'), Date.parse('2026-10-26T10:00:00Z')],
+    }
     expect(tallyCareTask(weekly, week)).toEqual({ due: 1, done: 0 })
     // A task whose first day is after the week is not due in it.
     expect(tallyCareTask({ ...weekly, startsOn: '2026-11-20', doneAt: [] }, week)).toEqual({ due: 0, done: 0 })

@@ -65,16 +65,20 @@ group('overrides', () => {
     ['and puts them back after it', [remove('ana', '2026-01-05T08:00+01:00', '2026-01-05T12:00+01:00')], '2026-01-05T12:00', ['ana']],
     ['add puts someone on duty on a day with no shifts', [add('eve', '2026-01-06T09:00+01:00', '2026-01-06T17:00+01:00')], '2026-01-06T10:00', ['eve']],
     ['add alongside a regular shift lists both, sorted', [add('abe', '2026-01-05T20:00+01:00', '2026-01-05T23:00+01:00')], '2026-01-05T21:00', ['abe', 'ben']],
-    ['remove wins where it overlaps an add', [
-      add('eve', '2026-01-06T09:00+01:00', '2026-01-06T17:00+01:00'),
-      remove('eve', '2026-01-06T12:00+01:00', '2026-01-06T13:00+01:00'),
-    ], '2026-01-06T12:30', []],
+    [
+      'remove wins where it overlaps an add',
+      [add('eve', '2026-01-06T09:00+01:00', '2026-01-06T17:00+01:00'), remove('eve', '2026-01-06T12:00+01:00', '2026-01-06T13:00+01:00')],
+      '2026-01-06T12:30',
+      [],
+    ],
     ['remove for someone else changes nothing', [remove('ben', '2026-01-05T08:00+01:00', '2026-01-05T12:00+01:00')], '2026-01-05T10:00', ['ana']],
     ['overrides given in UTC', [remove('ana', '2026-01-05T07:00:00Z', '2026-01-05T11:00:00Z')], '2026-01-05T10:00', []],
-    ['a swap: one off, another on', [
-      remove('cai', '2026-01-05T22:00+01:00', '2026-01-06T06:00+01:00'),
-      add('eve', '2026-01-05T22:00+01:00', '2026-01-06T06:00+01:00'),
-    ], '2026-01-06T02:00', ['eve']],
+    [
+      'a swap: one off, another on',
+      [remove('cai', '2026-01-05T22:00+01:00', '2026-01-06T06:00+01:00'), add('eve', '2026-01-05T22:00+01:00', '2026-01-06T06:00+01:00')],
+      '2026-01-06T02:00',
+      ['eve'],
+    ],
   ]
   it.each(cases)('%s', (_title, overrides, local, expected) => {
     expect(onDutyAt(pattern, overrides, BERLIN, cet(local))).toEqual(expected)

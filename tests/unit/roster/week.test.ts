@@ -22,11 +22,7 @@ group('shiftsInWeek', () => {
 
   it('Berlin, week of the spring change: real instants and real lengths', () => {
     const spans = shiftsInWeek(pattern, [], BERLIN, '2026-03-23')
-    expect(spans.map(iso)).toEqual([
-      'ana 2026-03-23T05:00:00.000Z 8h',
-      'oto 2026-03-28T21:00:00.000Z 7h',
-      'nia 2026-03-29T00:00:00.000Z 3h',
-    ])
+    expect(spans.map(iso)).toEqual(['ana 2026-03-23T05:00:00.000Z 8h', 'oto 2026-03-28T21:00:00.000Z 7h', 'nia 2026-03-29T00:00:00.000Z 3h'])
     expect(spans[0]?.startsAt).toBe(wallAt('2026-03-23T06:00', CET))
     expect(spans[1]?.endsAt).toBe(wallAt('2026-03-29T06:00', CEST))
   })
@@ -51,10 +47,7 @@ group('shiftsInWeek', () => {
 
   it('includes a shift from the evening before that runs into the week, unclipped', () => {
     const sundayNight: WeeklyShift[] = [{ userId: 'dee', weekday: SUN, start: '22:00', end: '06:00' }]
-    expect(shiftsInWeek(sundayNight, [], BERLIN, '2026-01-05').map(iso)).toEqual([
-      'dee 2026-01-04T21:00:00.000Z 8h',
-      'dee 2026-01-11T21:00:00.000Z 8h',
-    ])
+    expect(shiftsInWeek(sundayNight, [], BERLIN, '2026-01-05').map(iso)).toEqual(['dee 2026-01-04T21:00:00.000Z 8h', 'dee 2026-01-11T21:00:00.000Z 8h'])
   })
 
   it('applies overrides: a remove splits a shift, an add appears, spans outside the week drop', () => {
@@ -71,7 +64,7 @@ group('shiftsInWeek', () => {
     ])
   })
 
-  it('merges an add that overlaps the same person\'s shift', () => {
+  it("merges an add that overlaps the same person's shift", () => {
     const overrides: RosterOverride[] = [{ userId: 'ana', kind: 'add', startsAt: '2026-01-05T12:00+01:00', endsAt: '2026-01-05T16:00+01:00' }]
     const monday: WeeklyShift[] = [{ userId: 'ana', weekday: MON, start: '06:00', end: '14:00' }]
     expect(shiftsInWeek(monday, overrides, BERLIN, '2026-01-05').map(iso)).toEqual(['ana 2026-01-05T05:00:00.000Z 10h'])

@@ -9,8 +9,7 @@ export const at = (minute: number): number => T0 + minute * MIN
 /** `['r', minute, value]` is a reading, `['t', minute]` a tick. */
 export type Step = ['r', number, number] | ['t', number]
 
-export const toInput = (step: Step): RuleInput =>
-  step[0] === 'r' ? { type: 'reading', at: at(step[1]), value: step[2] } : { type: 'tick', at: at(step[1]) }
+export const toInput = (step: Step): RuleInput => (step[0] === 'r' ? { type: 'reading', at: at(step[1]), value: step[2] } : { type: 'tick', at: at(step[1]) })
 
 const num = (value: number): string => String(Number(value.toFixed(4)))
 const minute = (ms: number): string => num((ms - T0) / MIN)

@@ -26,7 +26,9 @@ function formSpec(kind: string): WatchRuleSpec {
 
 /** The spec's durations: every `…Minutes` field but the settle window, which is about after a clear. */
 const durationsOf = (spec: WatchRuleSpec) =>
-  Object.entries(spec).filter(([key, value]) => key.endsWith('Minutes') && key !== 'settleMinutes' && typeof value === 'number').map(([, value]) => value as number)
+  Object.entries(spec)
+    .filter(([key, value]) => key.endsWith('Minutes') && key !== 'settleMinutes' && typeof value === 'number')
+    .map(([, value]) => value as number)
 
 describe('the kinds table', () => {
   it('lists the schema’s kinds, no more and no fewer', () => {
@@ -45,7 +47,9 @@ describe('the kinds table', () => {
     it('has a label and a form field for every field of its spec', () => {
       expect(entry.label.trim()).not.toBe('')
       const shape = watchRuleSpecSchema.options.find((o) => o.shape.kind.value === kind)!.shape
-      const specFields = Object.keys(shape).filter((key) => !COMMON.has(key)).sort()
+      const specFields = Object.keys(shape)
+        .filter((key) => !COMMON.has(key))
+        .sort()
       expect(entry.fields.map((f) => f.key).sort()).toEqual(specFields)
       expect(!entry.fixedMetric).toBe('metric' in shape)
     })
@@ -66,7 +70,13 @@ describe('the kinds table', () => {
       const words = entry.describe(spec, plainWords)
       expect(words).not.toMatch(/undefined|NaN/)
       expect(words.length).toBeGreaterThan(10)
-      const measured = entry.measure(spec, 'temperature', 12.5, { metric: (m) => m, measured: (m, v) => `${v} ${m}`, limit: (m, v) => `${v} ${m}`, number: String, minutes: (n) => `${n} min` }, 10)
+      const measured = entry.measure(
+        spec,
+        'temperature',
+        12.5,
+        { metric: (m) => m, measured: (m, v) => `${v} ${m}`, limit: (m, v) => `${v} ${m}`, number: String, minutes: (n) => `${n} min` },
+        10,
+      )
       expect(measured).not.toMatch(/undefined|NaN/)
       expect(measured).toMatch(/12\.5|2\.5/)
     })

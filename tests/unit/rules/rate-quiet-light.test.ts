@@ -12,31 +12,109 @@ group('rate', () => {
   const phRate = spec({ kind: 'rate', metric: 'ph', maxChange: 0.3, windowMinutes: 24 * 60 })
 
   const temperatureCases: Case[] = [
-    ['a change of exactly maxChange does not trip', [['r', 0, 25], ['r', 30, 26], ['r', 60, 27]], []],
-    ['trips when the change exceeds maxChange; updates; clears as the window slides', [['r', 0, 25], ['r', 30, 26], ['r', 45, 27.25], ['r', 50, 27.5], ['r', 90, 27.5]],
-      ['trip@45 2.25 since@45', 'update@50 2.5 peak 2.5', 'clear@90 1.5']],
-    ['a falling temperature trips with a negative change', [['r', 0, 26], ['r', 20, 23.75]], ['trip@20 -2.25 since@20']],
-    ['ticks neither trip nor clear', [['r', 0, 25], ['r', 10, 27.5], ['t', 30], ['t', 300]], ['trip@10 2.5 since@10']],
-    ['readings older than the window drop out', [['r', 0, 25], ['r', 61, 27.5]], []],
-    ['a lone reading after a gap clears with no measured change', [['r', 0, 25], ['r', 10, 27.5], ['r', 200, 27.5]],
-      ['trip@10 2.5 since@10', 'clear@200']],
-    ['a late reading inside the window counts from the next reading on', [['r', 30, 25], ['r', 50, 26], ['r', 10, 23.5], ['r', 55, 26]],
-      ['trip@55 2.5 since@55']],
-    ['a late reading older than the window is dropped', [['r', 30, 25], ['r', 50, 26], ['r', -20, 23.5], ['r', 55, 26]], []],
+    [
+      'a change of exactly maxChange does not trip',
+      [
+        ['r', 0, 25],
+        ['r', 30, 26],
+        ['r', 60, 27],
+      ],
+      [],
+    ],
+    [
+      'trips when the change exceeds maxChange; updates; clears as the window slides',
+      [
+        ['r', 0, 25],
+        ['r', 30, 26],
+        ['r', 45, 27.25],
+        ['r', 50, 27.5],
+        ['r', 90, 27.5],
+      ],
+      ['trip@45 2.25 since@45', 'update@50 2.5 peak 2.5', 'clear@90 1.5'],
+    ],
+    [
+      'a falling temperature trips with a negative change',
+      [
+        ['r', 0, 26],
+        ['r', 20, 23.75],
+      ],
+      ['trip@20 -2.25 since@20'],
+    ],
+    [
+      'ticks neither trip nor clear',
+      [
+        ['r', 0, 25],
+        ['r', 10, 27.5],
+        ['t', 30],
+        ['t', 300],
+      ],
+      ['trip@10 2.5 since@10'],
+    ],
+    [
+      'readings older than the window drop out',
+      [
+        ['r', 0, 25],
+        ['r', 61, 27.5],
+      ],
+      [],
+    ],
+    [
+      'a lone reading after a gap clears with no measured change',
+      [
+        ['r', 0, 25],
+        ['r', 10, 27.5],
+        ['r', 200, 27.5],
+      ],
+      ['trip@10 2.5 since@10', 'clear@200'],
+    ],
+    [
+      'a late reading inside the window counts from the next reading on',
+      [
+        ['r', 30, 25],
+        ['r', 50, 26],
+        ['r', 10, 23.5],
+        ['r', 55, 26],
+      ],
+      ['trip@55 2.5 since@55'],
+    ],
+    [
+      'a late reading older than the window is dropped',
+      [
+        ['r', 30, 25],
+        ['r', 50, 26],
+        ['r', -20, 23.5],
+        ['r', 55, 26],
+      ],
+      [],
+    ],
   ]
   it.each(temperatureCases)('temperature 2 °C in 60 min: %s', (_title, steps, expected) => {
     expect(run(temperatureRate, steps).events).toEqual(expected)
   })
 
   it('pH 0.3 in 24 h: counts a reading exactly 24 h old, then lets it go', () => {
-    const steps: Step[] = [['r', 0, 7.0], ['r', 600, 6.9], ['r', 1200, 6.75], ['r', 1440, 6.69], ['r', 1500, 6.68]]
+    const steps: Step[] = [
+      ['r', 0, 7.0],
+      ['r', 600, 6.9],
+      ['r', 1200, 6.75],
+      ['r', 1440, 6.69],
+      ['r', 1500, 6.68],
+    ]
     expect(run(phRate, steps).events).toEqual(['trip@1440 -0.31 since@1440', 'clear@1500 -0.22'])
   })
 
   it('a late reading changes the window but not the status', () => {
-    const result = run(temperatureRate, [['r', 30, 25], ['r', 50, 26], ['r', 10, 23.5]])
+    const result = run(temperatureRate, [
+      ['r', 30, 25],
+      ['r', 50, 26],
+      ['r', 10, 23.5],
+    ])
     expect(result.state.status).toBe('clear')
-    expect(result.state.window).toEqual([[at(10), 23.5], [at(30), 25], [at(50), 26]])
+    expect(result.state.window).toEqual([
+      [at(10), 23.5],
+      [at(30), 25],
+      [at(50), 26],
+    ])
     expect(result.state.lastReadingAt).toBe(at(50))
   })
 
@@ -54,16 +132,84 @@ group('rate', () => {
 group('quiet', () => {
   const quiet = spec({ kind: 'quiet', metric: 'temperature', quietMinutes: 15 })
   const cases: Case[] = [
-    ['trips on the tick 15 min after the last reading, not before', [['r', 0, 25], ['t', 14], ['t', 14.99], ['t', 15]], ['trip@15 15 since@0']],
-    ['a late tick reports the whole silence', [['r', 0, 25], ['t', 22.5]], ['trip@22.5 22.5 since@0']],
-    ['no second trip on later ticks; the next reading clears', [['r', 0, 25], ['t', 15], ['t', 20], ['t', 60], ['r', 61, 25.1]],
-      ['trip@15 15 since@0', 'clear@61 25.1']],
-    ['silence is counted again from the reading that cleared it', [['r', 0, 25], ['t', 15], ['r', 21, 25.1], ['t', 35], ['t', 36]],
-      ['trip@15 15 since@0', 'clear@21 25.1', 'trip@36 15 since@21']],
-    ['readings alone never trip it', [['r', 0, 25], ['r', 60, 25]], []],
-    ['regular readings keep it clear', [['r', 0, 25], ['t', 10], ['r', 12, 25], ['t', 20], ['r', 25, 25], ['t', 39]], []],
-    ['a sensor that never reports trips 15 min after watching began', [['t', 0], ['t', 14], ['t', 15]], ['trip@15 15 since@0']],
-    ['a late reading does not end the silence', [['r', 0, 25], ['t', 15], ['r', -5, 24]], ['trip@15 15 since@0']],
+    [
+      'trips on the tick 15 min after the last reading, not before',
+      [
+        ['r', 0, 25],
+        ['t', 14],
+        ['t', 14.99],
+        ['t', 15],
+      ],
+      ['trip@15 15 since@0'],
+    ],
+    [
+      'a late tick reports the whole silence',
+      [
+        ['r', 0, 25],
+        ['t', 22.5],
+      ],
+      ['trip@22.5 22.5 since@0'],
+    ],
+    [
+      'no second trip on later ticks; the next reading clears',
+      [
+        ['r', 0, 25],
+        ['t', 15],
+        ['t', 20],
+        ['t', 60],
+        ['r', 61, 25.1],
+      ],
+      ['trip@15 15 since@0', 'clear@61 25.1'],
+    ],
+    [
+      'silence is counted again from the reading that cleared it',
+      [
+        ['r', 0, 25],
+        ['t', 15],
+        ['r', 21, 25.1],
+        ['t', 35],
+        ['t', 36],
+      ],
+      ['trip@15 15 since@0', 'clear@21 25.1', 'trip@36 15 since@21'],
+    ],
+    [
+      'readings alone never trip it',
+      [
+        ['r', 0, 25],
+        ['r', 60, 25],
+      ],
+      [],
+    ],
+    [
+      'regular readings keep it clear',
+      [
+        ['r', 0, 25],
+        ['t', 10],
+        ['r', 12, 25],
+        ['t', 20],
+        ['r', 25, 25],
+        ['t', 39],
+      ],
+      [],
+    ],
+    [
+      'a sensor that never reports trips 15 min after watching began',
+      [
+        ['t', 0],
+        ['t', 14],
+        ['t', 15],
+      ],
+      ['trip@15 15 since@0'],
+    ],
+    [
+      'a late reading does not end the silence',
+      [
+        ['r', 0, 25],
+        ['t', 15],
+        ['r', -5, 24],
+      ],
+      ['trip@15 15 since@0'],
+    ],
   ]
   it.each(cases)('%s', (_title, steps, expected) => {
     expect(run(quiet, steps).events).toEqual(expected)
@@ -78,15 +224,74 @@ group('light_schedule', () => {
   }
   const light = spec({ kind: 'light_schedule', holdMinutes: 15 })
   const cases: Case[] = [
-    ['lights that stay off when due on trip 15 min after the schedule turned on', [['r', 0, 5], ['t', 30], ['t', 61], ['t', 74], ['t', 75], ['r', 80, 400]],
-      ['trip@75 5 since@60', 'clear@80 400']],
-    ['the hold starts at the schedule change even if the first tick is late', [['r', 0, 5], ['t', 70], ['t', 74.9], ['t', 75]], ['trip@75 5 since@60']],
-    ['lights on outside the schedule trip', [['r', 0, 300], ['t', 14], ['t', 15]], ['trip@15 300 since@0']],
-    ['exactly onLux counts as on', [['r', 0, 50], ['t', 15]], ['trip@15 50 since@0']],
-    ['a reading that agrees resets the hold', [['r', 0, 300], ['r', 10, 2], ['t', 15], ['t', 30]], []],
-    ['an agreeing schedule change clears while tripped', [['r', 40, 300], ['t', 55], ['t', 60]], ['trip@55 300 since@40', 'clear@60 300']],
-    ['peak is the reading farthest from the threshold', [['r', 61, 10], ['t', 76], ['r', 77, 0], ['r', 78, 20]],
-      ['trip@76 10 since@61', 'update@77 0 peak 0', 'update@78 20 peak 0']],
+    [
+      'lights that stay off when due on trip 15 min after the schedule turned on',
+      [
+        ['r', 0, 5],
+        ['t', 30],
+        ['t', 61],
+        ['t', 74],
+        ['t', 75],
+        ['r', 80, 400],
+      ],
+      ['trip@75 5 since@60', 'clear@80 400'],
+    ],
+    [
+      'the hold starts at the schedule change even if the first tick is late',
+      [
+        ['r', 0, 5],
+        ['t', 70],
+        ['t', 74.9],
+        ['t', 75],
+      ],
+      ['trip@75 5 since@60'],
+    ],
+    [
+      'lights on outside the schedule trip',
+      [
+        ['r', 0, 300],
+        ['t', 14],
+        ['t', 15],
+      ],
+      ['trip@15 300 since@0'],
+    ],
+    [
+      'exactly onLux counts as on',
+      [
+        ['r', 0, 50],
+        ['t', 15],
+      ],
+      ['trip@15 50 since@0'],
+    ],
+    [
+      'a reading that agrees resets the hold',
+      [
+        ['r', 0, 300],
+        ['r', 10, 2],
+        ['t', 15],
+        ['t', 30],
+      ],
+      [],
+    ],
+    [
+      'an agreeing schedule change clears while tripped',
+      [
+        ['r', 40, 300],
+        ['t', 55],
+        ['t', 60],
+      ],
+      ['trip@55 300 since@40', 'clear@60 300'],
+    ],
+    [
+      'peak is the reading farthest from the threshold',
+      [
+        ['r', 61, 10],
+        ['t', 76],
+        ['r', 77, 0],
+        ['r', 78, 20],
+      ],
+      ['trip@76 10 since@61', 'update@77 0 peak 0', 'update@78 20 peak 0'],
+    ],
   ]
   it.each(cases)('%s', (_title, steps, expected) => {
     expect(run(light, steps, { isScheduledOn }).events).toEqual(expected)
@@ -94,10 +299,28 @@ group('light_schedule', () => {
 
   it('uses a custom onLux', () => {
     const dim = spec({ kind: 'light_schedule', holdMinutes: 0, onLux: 200 })
-    expect(run(dim, [['r', 61, 150], ['r', 62, 250]], { isScheduledOn }).events).toEqual(['trip@61 150 since@61', 'clear@62 250'])
+    expect(
+      run(
+        dim,
+        [
+          ['r', 61, 150],
+          ['r', 62, 250],
+        ],
+        { isScheduledOn },
+      ).events,
+    ).toEqual(['trip@61 150 since@61', 'clear@62 250'])
   })
 
   it('stays inert without a schedule in the context', () => {
-    expect(run(light, [['r', 0, 300], ['t', 60]], {}).events).toEqual([])
+    expect(
+      run(
+        light,
+        [
+          ['r', 0, 300],
+          ['t', 60],
+        ],
+        {},
+      ).events,
+    ).toEqual([])
   })
 })

@@ -4,10 +4,15 @@ import { defaultRulesForTank, metricOfSpec, watchRuleDraftSchema, watchRuleSpecS
 group('watchRuleSpecSchema', () => {
   it('fills the documented defaults', () => {
     expect(watchRuleSpecSchema.parse({ kind: 'heater_line', marginCm: 2 })).toEqual({
-      kind: 'heater_line', marginCm: 2, holdMinutes: 0, clearMargin: 0.5,
+      kind: 'heater_line',
+      marginCm: 2,
+      holdMinutes: 0,
+      clearMargin: 0.5,
     })
     expect(watchRuleSpecSchema.parse({ kind: 'light_schedule', holdMinutes: 20 })).toEqual({
-      kind: 'light_schedule', holdMinutes: 20, onLux: 50,
+      kind: 'light_schedule',
+      holdMinutes: 20,
+      onLux: 50,
     })
   })
 
@@ -75,9 +80,6 @@ group('defaultRulesForTank', () => {
 
   it('writes fractional targets without trailing zeros', () => {
     const rules = defaultRulesForTank({ kind: 'freshwater', targets: { temperature: { min: 23.5, max: 26.25 } } })
-    expect(rules.slice(0, 2).map((rule) => rule.name)).toEqual([
-      'Temperature above 26.25 °C for 10 min',
-      'Temperature below 23.5 °C for 10 min',
-    ])
+    expect(rules.slice(0, 2).map((rule) => rule.name)).toEqual(['Temperature above 26.25 °C for 10 min', 'Temperature below 23.5 °C for 10 min'])
   })
 })

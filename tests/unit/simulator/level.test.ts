@@ -1,14 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { footprintCm2 } from '@shared/chemistry/volume'
 import { DEFAULT_HEIGHT_CM, litresAtLevel, tankGeometry } from '../../../simulator/model/geometry'
-import {
-  EVAPORATION_FRACTION_PER_DAY,
-  initialLevelState,
-  stepLevel,
-  TOP_UP_TRIGGER_CM,
-  WATER_CHANGE,
-  waterChangeLevelCm,
-} from '../../../simulator/model/level'
+import { EVAPORATION_FRACTION_PER_DAY, initialLevelState, stepLevel, TOP_UP_TRIGGER_CM, WATER_CHANGE, waterChangeLevelCm } from '../../../simulator/model/level'
 import { HOUR_S, sample, simulate, spec } from './fixtures'
 
 const display2 = {

@@ -35,7 +35,12 @@ describe('scenario lists', () => {
     for (const speed of [1, 20]) {
       const plans = demoScenarios(speed)
       expect([...plans.keys()].sort()).toEqual(['Breeding cylinder C1', 'Display 2 — planted scape', 'Quarantine Q1', 'Sales row A1'])
-      expect(plans.get('Quarantine Q1')).toEqual({ scenario: 'heater_stuck_on', startAfterS: 300 * speed, repeatEveryS: 3600 * speed, activeForS: 2100 * speed })
+      expect(plans.get('Quarantine Q1')).toEqual({
+        scenario: 'heater_stuck_on',
+        startAfterS: 300 * speed,
+        repeatEveryS: 3600 * speed,
+        activeForS: 2100 * speed,
+      })
       expect(plans.get('Display 2 — planted scape')?.scenario).toBe('large_water_change')
       expect(plans.get('Breeding cylinder C1')?.scenario).toBe('sensor_quiet')
       expect(plans.get('Sales row A1')?.scenario).toBe('ph_crash')
@@ -99,7 +104,20 @@ describe('command-line options', () => {
 
   it('reads flags, environment fallbacks, and merges --scenario over --demo-scenarios', () => {
     const options = parseOptions(
-      ['--transport', 'http', '--tanks', '3', '--interval', '2', '--speed', '60', '--demo-scenarios', '--scenario', 'Display 2 — planted scape=malformed', '--once'],
+      [
+        '--transport',
+        'http',
+        '--tanks',
+        '3',
+        '--interval',
+        '2',
+        '--speed',
+        '60',
+        '--demo-scenarios',
+        '--scenario',
+        'Display 2 — planted scape=malformed',
+        '--once',
+      ],
       { SIMULATOR_EMAIL: 'boss@example.test', MQTT_URL: 'mqtt://broker:1884' },
     )
     if (options === 'help') throw new Error('unexpected help')

@@ -49,7 +49,14 @@ describe('tank temperature', () => {
   })
 
   it('settles at T_room + P/(U·A) with the heater stuck on and a constant room', () => {
-    const inputs = { waterLitres: 60, exposedAreaM2: 0.82, roomC: 21, heater: { watts: 100, setPointC: 26 }, heaterMode: 'stuck_on' as const, heaterSubmerged: true }
+    const inputs = {
+      waterLitres: 60,
+      exposedAreaM2: 0.82,
+      roomC: 21,
+      heater: { watts: 100, setPointC: 26 },
+      heaterMode: 'stuck_on' as const,
+      heaterSubmerged: true,
+    }
     let state = { waterC: 26, heaterOn: true }
     for (let t = 0; t < 10 * 24 * HOUR_S; t += 30) state = stepTemperature(state, inputs, 30)
     const expected = 21 + 100 / lossConductanceWPerK(0.82)

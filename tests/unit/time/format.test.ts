@@ -1,6 +1,15 @@
 import { describe, expect, it } from 'vitest'
 import {
-  formatAge, formatCalendarDay, formatClock, formatDateTime, formatDay, formatDuration, formatInZone, formatZonedClock, formatZonedDateTime, zoneAbbreviation,
+  formatAge,
+  formatCalendarDay,
+  formatClock,
+  formatDateTime,
+  formatDay,
+  formatDuration,
+  formatInZone,
+  formatZonedClock,
+  formatZonedDateTime,
+  zoneAbbreviation,
 } from '@shared/time'
 
 // Directive 2000/84/EC of the European Parliament and of the Council on summer-time arrangements

@@ -1,8 +1,6 @@
 import { describe as group, expect, it } from 'vitest'
 import { isValidTimeZone, localToInstant, offsetAt, parseLocalDate } from '@shared/time/zoned'
-import {
-  CEST, CET, EDT, EST, easternDaylightEnds, easternDaylightStarts, euSummerEnds, euSummerStarts, lastSunday, nthSunday, wallAt,
-} from '../roster/sources'
+import { CEST, CET, EDT, EST, easternDaylightEnds, easternDaylightStarts, euSummerEnds, euSummerStarts, lastSunday, nthSunday, wallAt } from '../roster/sources'
 
 const BERLIN = 'Europe/Berlin'
 const NEW_YORK = 'America/New_York'

@@ -1,6 +1,17 @@
 import type { Migration } from './migration'
 
-const OLD_MAIL_KINDS = ['incident_opened', 'incident_escalated', 'incident_repeat', 'incident_resolved', 'device_back', 'invitation', 'password_reset', 'care_digest', 'report', 'snooze_ending']
+const OLD_MAIL_KINDS = [
+  'incident_opened',
+  'incident_escalated',
+  'incident_repeat',
+  'incident_resolved',
+  'device_back',
+  'invitation',
+  'password_reset',
+  'care_digest',
+  'report',
+  'snooze_ending',
+]
 const NEW_MAIL_KINDS = ['incident_raised', 'incident_reopened', 'site_incident_opened', 'site_incident_escalated']
 const kindCheck = (kinds: string[]) =>
   `ALTER TABLE mail_outbox DROP CONSTRAINT mail_outbox_kind_check, ADD CONSTRAINT mail_outbox_kind_check CHECK (kind IN (${kinds.map((k) => `'${k}'`).join(', ')}));`
