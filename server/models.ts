@@ -54,43 +54,45 @@ export {
   MaintenanceWindow,
 }
 
+/** Every model, in the order they are bound. */
+const ALL_MODELS = {
+  Organization,
+  User,
+  UserSite,
+  Session,
+  Invitation,
+  Site,
+  Tank,
+  Device,
+  TestKitEntry,
+  TestKitEntryRevision,
+  OutboxMessage,
+  FakeMailboxMessage,
+  WallCredential,
+  DutyShift,
+  DutyOverride,
+  WatchRule,
+  Incident,
+  IncidentEvent,
+  Snooze,
+  IncidentAckLink,
+  CareTask,
+  CareLogEntry,
+  LivestockEntry,
+  WaterChange,
+  Photo,
+  ReportSchedule,
+  ImportJob,
+  ImportSource,
+  TankBuild,
+  BuildStep,
+  SiteIncident,
+  MaintenanceWindow,
+}
+
 /** Binds every model to this Sequelize instance and declares the associations, in one place. */
 export function initModels(sequelize: Sequelize) {
-  for (const model of [
-    Organization,
-    User,
-    UserSite,
-    Session,
-    Invitation,
-    Site,
-    Tank,
-    Device,
-    TestKitEntry,
-    TestKitEntryRevision,
-    OutboxMessage,
-    FakeMailboxMessage,
-    WallCredential,
-    DutyShift,
-    DutyOverride,
-    WatchRule,
-    Incident,
-    IncidentEvent,
-    Snooze,
-    IncidentAckLink,
-    CareTask,
-    CareLogEntry,
-    LivestockEntry,
-    WaterChange,
-    Photo,
-    ReportSchedule,
-    ImportJob,
-    ImportSource,
-    TankBuild,
-    BuildStep,
-    SiteIncident,
-    MaintenanceWindow,
-  ])
-    model.initModel(sequelize)
+  for (const model of Object.values(ALL_MODELS)) model.initModel(sequelize)
   User.belongsToMany(Site, { through: UserSite, as: 'sites', foreignKey: 'userId', otherKey: 'siteId' })
   Tank.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
   Site.hasMany(Tank, { as: 'tanks', foreignKey: 'siteId' })
@@ -101,39 +103,6 @@ export function initModels(sequelize: Sequelize) {
   Incident.belongsTo(Tank, { as: 'tank', foreignKey: 'tankId' })
   Incident.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
   ImportJob.belongsTo(ImportSource, { as: 'source', foreignKey: 'sourceId' })
-  return {
-    Organization,
-    User,
-    UserSite,
-    Session,
-    Invitation,
-    Site,
-    Tank,
-    Device,
-    TestKitEntry,
-    TestKitEntryRevision,
-    OutboxMessage,
-    FakeMailboxMessage,
-    WallCredential,
-    DutyShift,
-    DutyOverride,
-    WatchRule,
-    Incident,
-    IncidentEvent,
-    Snooze,
-    IncidentAckLink,
-    CareTask,
-    CareLogEntry,
-    LivestockEntry,
-    WaterChange,
-    Photo,
-    ReportSchedule,
-    ImportJob,
-    ImportSource,
-    TankBuild,
-    BuildStep,
-    SiteIncident,
-    MaintenanceWindow,
-  }
+  return ALL_MODELS
 }
 export type Models = ReturnType<typeof initModels>
