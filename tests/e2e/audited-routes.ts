@@ -6,6 +6,7 @@ export const AUDITED_ROUTES: Record<string, readonly string[]> = {
   'accessibility.test.ts': [
     'sign-in',
     'forgot-password',
+    'overview',
     'tanks',
     'tank',
     'tank-test-kit',
@@ -19,6 +20,7 @@ export const AUDITED_ROUTES: Record<string, readonly string[]> = {
     'account',
     'wall',
   ],
+  'setup.test.ts': ['setup'],
   'accessibility-forms.test.ts': ['tank-new', 'tank-edit', 'tank-build', 'import', 'backup', 'dev-mail', 'accept-invite', 'reset-password', 'ack', 'not-found'],
 }
 

@@ -2,6 +2,7 @@ import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { launchBrowser, shot, startAppForBrowser } from './browser'
 import { FIRST_LOAD_MS, type App } from './keeper-setup'
+import { audit, newContext, SIZE_THEMES } from './a11y-pages'
 
 // A fresh installation: an empty database, no demo. Everything below goes through the screens,
 // except the device's reading, which arrives over HTTP with the device's own token as a sensor's would.
@@ -27,6 +28,18 @@ afterAll(async () => {
 const checklistStep = (step: string) => page.locator(`[data-test="checklist-${step}"]`)
 
 describe('a business starting for real', () => {
+  // The setup page exists only before a business does, so it is audited here (tests/e2e/audited-routes.ts).
+  it('shows a setup page that meets WCAG 2.1 AA, light and dark, desktop and phone', async () => {
+    const found: string[] = []
+    for (const [size, theme] of SIZE_THEMES) {
+      const context = await newContext(browser, size, theme)
+      const audited = await context.newPage()
+      expect(await audit(audited, `${size}-${theme}`, `${s.baseUrl}/setup`, found)).toBe('setup')
+      await context.close()
+    }
+    expect(found).toEqual([])
+  })
+
   it('opens the setup page on an empty installation and signs the owner in', async () => {
     await page.goto(`${s.baseUrl}/`, { timeout: FIRST_LOAD_MS })
     await page.waitForURL((url) => url.pathname === '/setup', { timeout: FIRST_LOAD_MS })
