@@ -86,9 +86,10 @@ describe('building a tank', () => {
     expect(await figures.locator('[data-test=caution-electric]').innerText()).toContain('RCD/GFCI')
     expect(await figures.locator('[data-test=caution-label]').innerText()).toContain('follow the product label')
     // The planted tank's default target (22–28 °C) reaches past the harlequin's usual range (species table, from memory).
-    expect(await figures.locator('[data-test=stocking-check]').allInnerTexts()).toEqual([
-      "The tank's target 22–28 °C reaches outside the usual 22–27 °C for Harlequin rasbora",
-    ])
+    // The figures follow the form after a short pause: wait for the chosen species to reach them.
+    await expect
+      .poll(() => figures.locator('[data-test=stocking-check]').allInnerTexts(), { timeout: 15_000 })
+      .toEqual(["The tank's target 22–28 °C reaches outside the usual 22–27 °C for Harlequin rasbora"])
 
     await page.locator('[data-test=save-plan]').click()
     await page.locator('[data-test=build-notice]').waitFor()

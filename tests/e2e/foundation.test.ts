@@ -37,7 +37,7 @@ describe('signing in and the tanks table, in Chromium', () => {
     const page = await browser.newPage({ viewport: { width: 1920, height: 1080 } })
     await signIn(page, s.baseUrl, org.users.owner.email)
     await page.goto(`${s.baseUrl}/tanks`)
-    await expect.poll(() => page.getByText('Display tank').count()).toBeGreaterThan(0)
+    await expect.poll(() => page.getByText('Display tank').count(), { timeout: 20_000 }).toBeGreaterThan(0)
     expect(await page.getByText('Quarantine tub').count()).toBeGreaterThan(0)
     expect(
       await page
@@ -53,7 +53,7 @@ describe('signing in and the tanks table, in Chromium', () => {
     const page = await browser.newPage({ viewport: { width: 1280, height: 800 } })
     await signIn(page, s.baseUrl, org.users.viewer.email)
     await page.goto(`${s.baseUrl}/tanks`)
-    await expect.poll(() => page.getByText('Display tank').count()).toBeGreaterThan(0)
+    await expect.poll(() => page.getByText('Display tank').count(), { timeout: 20_000 }).toBeGreaterThan(0)
     expect(await page.getByText('New tank').count()).toBe(0)
     const status = await page.evaluate(async (siteId) => {
       const token = (globalThis as unknown as { localStorage: { getItem(k: string): string | null } }).localStorage.getItem('tw.token')
