@@ -89,7 +89,9 @@ async function tabTo(page: Page, name: string, maxStops = 80) {
   const last = stops.at(-1)
   expect(last?.name, `Tab never reached "${name}"; stops: ${stops.map((f) => f.name).join(' → ')}`).toBe(name)
   expect(
-    stops.filter((f) => !f.visible).map((f) => `${f.tag} "${f.name}"`),
+    // Focus on the page itself (body) is no control: Tab passes through it when the focused element
+    // is replaced while the page updates.
+    stops.filter((f) => !f.visible && f.tag !== 'body').map((f) => `${f.tag} "${f.name}"`),
     'controls without a visible focus',
   ).toEqual([])
 }
