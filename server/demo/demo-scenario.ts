@@ -1,4 +1,5 @@
 import type { TankInput } from '@shared/schemas/tanks'
+import { defaultTargetsFor } from '@shared/schemas/tank-defaults'
 
 /**
  * An invented business for the demo: Marrowfen Aquatics, a shop with a fish room across town.
@@ -93,6 +94,9 @@ export const DEMO_TANKS: DemoTank[] = [
     heater: null,
     lightSchedule: { on: '09:00', off: '19:00' },
     filter: 'Hang-on-back',
+    // Unheated, it follows the shop's room (up to 23 °C of an afternoon): its band is its fancy goldfish's, not the kind's default.
+    targets: { ...defaultTargetsFor('coldwater'), temperature: { min: 10, max: 24 } },
+    notes: 'Unheated; follows the room. Fancy goldfish, kept up to 24 °C.',
     sortOrder: 5,
   },
   {
