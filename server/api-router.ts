@@ -26,6 +26,7 @@ import { maintenanceRouter, siteMaintenanceRoutes } from './incidents/maintenanc
 import { setupRouter } from './setup/routes'
 import { overviewRouter } from './overview/routes'
 import { clientsRouter } from './clients/routes'
+import { roundsRouter, visitsRouter } from './visits/routes'
 import { importSourcesRouter, importsRouter, siteImportRoutes, tankImportRoutes } from './imports/routes'
 
 export const API_VERSION = '0.1.0'
@@ -85,6 +86,8 @@ export function apiRouter(ctx: AppContext) {
   router.use('/tanks', requireUser, reportRoutes(ctx, 'tank'))
   router.use('/sites', requireUser, reportRoutes(ctx, 'site'))
   router.use('/clients', requireUser, clientsRouter(ctx), reportRoutes(ctx, 'client'))
+  router.use('/visits', requireUser, visitsRouter(ctx))
+  router.use('/rounds', requireUser, roundsRouter(ctx))
   router.use('/report-schedules', requireUser, reportSchedulesRouter(ctx))
   router.use('/devices', requireUser, devicesRouter(ctx))
   router.use('/photos', requireUser, photosRouter(ctx))

@@ -40,6 +40,7 @@ type World = {
   freshWallKey(): Promise<{ id: number; key: string }>
   freshMail(): Promise<number>
   freshClient(): Promise<number>
+  freshVisit(): Promise<number>
 }
 
 /** What one case sends: the values for the route's `:params` (in order) and the body, all made fresh per case. */
@@ -300,6 +301,22 @@ const ROUTES: RouteCase[] = [
   // A client's report: anyone who may read reports and see every site; another client's person is told it does not exist.
   row('get', '/clients/:id/report', readable, async (w) => ({ param: await w.freshClient() })),
   row('get', '/clients/:id/report/pdf', readable, async (w) => ({ param: await w.freshClient() })),
+  // Visits: owners plan, the technician (here the keeper) works them; viewers read closed ones only, so a planned one is not there for them.
+  row('get', '/visits', signedIn(200, 200, 200, 200)),
+  row('post', '/visits', signedIn(201, 403, 403, 400), async (w) => {
+    const clientId = await w.freshClient()
+    const tank = await t.ctx.models.Tank.findOne({ where: { clientId } })
+    return {
+      body: { clientId, siteId: tank!.siteId, technicianId: w.org.users.keeper.id, startsAt: inHours(1), endsAt: inHours(2), tankIds: [tank!.id] },
+    }
+  }),
+  row('get', '/visits/:id', signedIn(200, 200, 404, 404), async (w) => ({ param: await w.freshVisit() })),
+  row('patch', '/visits/:id', ownerOnly, async (w) => ({ param: await w.freshVisit(), body: { notes: 'Bring a spare heater' } })),
+  row('delete', '/visits/:id', ownerDeletes, async (w) => ({ param: await w.freshVisit() })),
+  row('post', '/visits/:id/start', handlers, async (w) => ({ param: await w.freshVisit() })),
+  row('post', '/visits/:id/close', handlers, async (w) => ({ param: await w.freshVisit(), body: {} })),
+  row('get', '/visits/:id/report/pdf', signedIn(200, 200, 404, 404), async (w) => ({ param: await w.freshVisit() })),
+  row('get', '/rounds', signedIn(200, 200, 403, 200)),
   row('get', '/backup', signedIn(200, 403, 403, 200)),
   // No file sent: an owner reaches the upload check (400), others stop at the role.
   row('post', '/backup/restore', signedIn(400, 403, 403, 400)),
@@ -503,6 +520,20 @@ beforeAll(async () => {
       const client = await models.Client.create({ organizationId: org.organizationId, kind: 'company', name: 'Fresh client' })
       await models.Tank.update({ clientId: client.id }, { where: { id: await world.freshTank() } })
       return client.id
+    },
+    async freshVisit() {
+      const clientId = await world.freshClient()
+      const tank = await models.Tank.findOne({ where: { clientId } })
+      const visit = await models.Visit.create({
+        organizationId: org.organizationId,
+        clientId,
+        siteId: tank!.siteId,
+        technicianId: org.users.keeper.id,
+        startsAt: new Date(),
+        endsAt: new Date(Date.now() + HOUR),
+        tankIds: [tank!.id],
+      })
+      return visit.id
     },
     async freshMail() {
       const mail = await models.FakeMailboxMessage.create({
