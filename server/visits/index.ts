@@ -1,2 +1,2 @@
 // What other features may use of visits/; everything else in the folder is its own.
-export { visitsService, visitScope } from './visits'
+export { visitsLeftOpen, visitsService, visitScope } from './visits'

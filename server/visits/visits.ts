@@ -154,3 +154,17 @@ export const visitsService = perContext((ctx: AppContext) => {
     },
   }
 })
+
+/** Visits at a site still not closed after their day ended on the site's clock, oldest first (for the overview). */
+export async function visitsLeftOpen(ctx: AppContext, site: { id: number; timeZone: string }, now: Date) {
+  const visits = await ctx.models.Visit.findAll({
+    where: { siteId: site.id, state: { [Op.ne]: 'closed' }, endsAt: { [Op.lt]: now } },
+    include: VISIT_INCLUDE,
+    order: [['startsAt', 'ASC']],
+    limit: 50,
+  })
+  const today = localDay(site.timeZone, now)
+  return visits
+    .filter((v) => localDay(site.timeZone, v.endsAt) < today)
+    .map((v) => ({ id: v.id, clientName: v.client?.name ?? '', technician: v.technician?.name ?? 'former user', startsAt: v.startsAt.toISOString() }))
+}

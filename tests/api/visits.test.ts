@@ -178,4 +178,13 @@ describe('service visits', () => {
     expect((await api('get', `/visits/${id}`, relisted.body.token)).status).toBe(404)
     await t.ctx.models.User.update({ clientId }, { where: { email: 'lindqvist@harbour.example' } })
   })
+
+  it("a visit not closed by the end of its day shows on the next morning's overview", async () => {
+    const day = 24 * HOUR
+    const late = await planVisit({ startsAt: new Date(Date.now() - 2 * day).toISOString(), endsAt: new Date(Date.now() - 2 * day + HOUR).toISOString() })
+    const overview = await api('get', '/overview', owner())
+    const site = overview.body.sites.find((x: { site: { id: number } }) => x.site.id === org.siteIds[0])
+    expect(site.overnight.visitsLeftOpen).toEqual([expect.objectContaining({ id: late.id, clientName: 'Harbour Dental', technician: 'keeper of Visit Org' })])
+    expect((await api('get', `/visits/${late.id}`, owner())).body.overdue).toBe(true)
+  })
 })
