@@ -78,6 +78,7 @@ export function userWithRole(role: Role): PublicUser {
     role,
     active: true,
     siteIds: [],
+    clientId: null,
     organizationId: 1,
     createdAt: '2025-01-01T00:00:00.000Z',
   }
