@@ -1,4 +1,4 @@
-import { formatZonedDateTime, formatDuration } from '@shared/time'
+import { formatDay, formatZonedDateTime, formatDuration } from '@shared/time'
 import type { PublicVisit, VisitTankWork } from '@shared/schemas/visits'
 
 /** The words of a visit report, shared by its mail and its PDF so both say the same. */
@@ -8,6 +8,9 @@ export const VERDICT_WORDS: Record<VisitTankWork['readings'][number]['verdict'],
   high: 'above band',
   no_band: 'no band set',
 }
+
+/** A site calendar date (`YYYY-MM-DD`) as "Sat 5 Dec"; noon UTC keeps it on its own day. */
+export const dueDay = (date: string) => formatDay(`${date}T12:00:00Z`, 'UTC')
 
 export function visitHeadline(visit: PublicVisit) {
   return `Service visit at ${visit.siteName}, ${formatZonedDateTime(visit.leftAt ?? visit.startsAt, visit.timeZone)}`
@@ -29,5 +32,5 @@ export function materialLines(visit: PublicVisit) {
 }
 
 export function nextLine(w: VisitTankWork) {
-  return w.next.map((n) => `${n.title} on ${n.dueDate}`).join('; ') || 'nothing scheduled'
+  return w.next.map((n) => `${n.title} on ${dueDay(n.dueDate)}`).join('; ') || 'nothing scheduled'
 }
