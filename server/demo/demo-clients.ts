@@ -43,12 +43,12 @@ type Stop = { site: string; tanks: string[]; client: DemoClientKey; hour: number
 /** Yesterday's visits, both closed, and today's round, in order. */
 const YESTERDAY: Stop[] = [
   { site: 'Harbourlight — Quay Road surgery', tanks: ['Waiting room reef'], client: 'harbour', hour: 8 },
-  { site: 'Palesworth home', tanks: ['Living room planted'], client: 'alder', hour: 14 },
+  { site: 'Palesworth home', tanks: ['Living room community tank'], client: 'alder', hour: 14 },
 ]
 const TODAY: Stop[] = [
   { site: 'Harbourlight — Quay Road surgery', tanks: ['Waiting room reef'], client: 'harbour', hour: 8 },
   { site: 'Harbourlight — Mill Lane clinic', tanks: ['Mill Lane lobby tank'], client: 'harbour', hour: 11 },
-  { site: 'Palesworth home', tanks: ['Living room planted'], client: 'alder', hour: 15 },
+  { site: 'Palesworth home', tanks: ['Living room community tank'], client: 'alder', hour: 15 },
 ]
 
 /** Seeds the visits once the month's history is in: yesterday's are closed as a technician would have. */
