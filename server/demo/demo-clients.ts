@@ -109,7 +109,14 @@ export async function seedDemoVisits(ctx: AppContext, clientIds: Map<DemoClientK
     const done = await ctx.sequelize.query<{ id: number; title: string }>(
       `SELECT c.id, c.title FROM care_log l JOIN care_tasks c ON c.id = l.care_task_id
        WHERE l.tank_id = $1 AND l.kind = 'task_done' AND l.at >= $2 AND l.at < $3 ORDER BY l.at`,
-      { bind: [tank.id, new Date(localToInstant(zone, localDateAt(zone, visit.startsAt.getTime()), 0)), new Date(localToInstant(zone, addDays(localDateAt(zone, visit.startsAt.getTime()), 1), 0))], type: QueryTypes.SELECT },
+      {
+        bind: [
+          tank.id,
+          new Date(localToInstant(zone, localDateAt(zone, visit.startsAt.getTime()), 0)),
+          new Date(localToInstant(zone, addDays(localDateAt(zone, visit.startsAt.getTime()), 1), 0)),
+        ],
+        type: QueryTypes.SELECT,
+      },
     )
     const closed = (await models.Visit.findByPk(visit.id))!
     await closed.update({ work: closed.work.map((w) => (w.tankId === tank.id ? { ...w, doneTasks: done.map((d) => ({ id: d.id, title: d.title })) } : w)) })

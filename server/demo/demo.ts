@@ -63,4 +63,8 @@ export async function seedDemoIfEmpty(ctx: AppContext): Promise<boolean> {
   return true
 }
 
-export const DEMO_SIGN_INS = [...DEMO_USERS, { ...DEMO_CLIENT_USER, role: 'viewer' as const }].map((u) => ({ email: u.email, role: u.role, password: DEMO_PASSWORD }))
+export const DEMO_SIGN_INS = [...DEMO_USERS, { ...DEMO_CLIENT_USER, role: 'viewer' as const }].map((u) => ({
+  email: u.email,
+  role: u.role,
+  password: DEMO_PASSWORD,
+}))

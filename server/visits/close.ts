@@ -119,7 +119,11 @@ export async function closeVisit(
         )
       }
       const note = [w.notes, input.notes, materialsText && `Used: ${materialsText}`].filter(Boolean).join(' · ')
-      await writeCareLog(ctx, { organizationId: visit.organizationId, tankId: w.tankId, kind: 'note', at: leftAt, userId: actor.userId, text: `Service visit. ${note}`.trim() }, transaction)
+      await writeCareLog(
+        ctx,
+        { organizationId: visit.organizationId, tankId: w.tankId, kind: 'note', at: leftAt, userId: actor.userId, text: `Service visit. ${note}`.trim() },
+        transaction,
+      )
       w.next = nextCare(
         tasks.filter((t) => t.tankId === w.tankId),
         timeZone,
@@ -127,7 +131,17 @@ export async function closeVisit(
       )
     }
     await locked.update(
-      { state: 'closed', arrivedAt, leftAt, notes: input.notes, materials: input.materials, photoIds: input.photoIds, work, closedAt: now, closedBy: actor.userId },
+      {
+        state: 'closed',
+        arrivedAt,
+        leftAt,
+        notes: input.notes,
+        materials: input.materials,
+        photoIds: input.photoIds,
+        work,
+        closedAt: now,
+        closedBy: actor.userId,
+      },
       { transaction },
     )
     if (options.sendReport === false) return

@@ -39,7 +39,18 @@ export function visitReportMail(visit: PublicVisit, pdf: Buffer, link: string): 
     .join('')
   return {
     subject,
-    text: [headline, '', ...facts.map(([k, v]) => `${k}: ${v}`), '', ...tankText, ...(visit.notes ? ['', visit.notes] : []), '', `Open it in Tankwarden: ${link}`, '', READINGS_ARE_AIDS].join('\n'),
+    text: [
+      headline,
+      '',
+      ...facts.map(([k, v]) => `${k}: ${v}`),
+      '',
+      ...tankText,
+      ...(visit.notes ? ['', visit.notes] : []),
+      '',
+      `Open it in Tankwarden: ${link}`,
+      '',
+      READINGS_ARE_AIDS,
+    ].join('\n'),
     html: layout({
       heading: headline,
       accent: ACCENT,

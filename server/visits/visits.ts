@@ -52,7 +52,8 @@ export const visitsService = perContext((ctx: AppContext) => {
     const site = await models.Site.findByPk(plan.siteId)
     if (!canSeeSite(actor, site)) throw badRequest('siteId: no such site', { siteId: 'no such site' })
     const technician = await models.User.findOne({ where: { id: plan.technicianId, organizationId: actor.organizationId, active: true } })
-    if (!technician || technician.role === 'viewer') throw badRequest('technicianId: not an active owner or keeper', { technicianId: 'not an active owner or keeper' })
+    if (!technician || technician.role === 'viewer')
+      throw badRequest('technicianId: not an active owner or keeper', { technicianId: 'not an active owner or keeper' })
     const ids = [...new Set(plan.tankIds)]
     const tanks = await models.Tank.count({ where: { id: ids, clientId: client.id, siteId: plan.siteId, archivedAt: null } })
     if (tanks !== ids.length) throw badRequest("tankIds: choose the client's tanks at this site", { tankIds: "choose the client's tanks at this site" })

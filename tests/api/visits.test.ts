@@ -43,7 +43,14 @@ beforeAll(async () => {
     ['reef', 'Waiting room reef'],
     ['lobby', 'Lobby planted'],
   ] as const) {
-    tanks[key] = (await api('post', '/tanks', owner(), sampleTank(org.siteIds[0], { name, clientId, targets: { ph: { min: 6.8, max: 7.6 }, nitrate: { min: 0, max: 20 } } }))).body.id
+    tanks[key] = (
+      await api(
+        'post',
+        '/tanks',
+        owner(),
+        sampleTank(org.siteIds[0], { name, clientId, targets: { ph: { min: 6.8, max: 7.6 }, nitrate: { min: 0, max: 20 } } }),
+      )
+    ).body.id
   }
   tanks.other = (await api('post', '/tanks', owner(), sampleTank(org.siteIds[0], { name: 'Shop display' }))).body.id
   const invite = await api('post', '/users/invitations', owner(), { email: 'lindqvist@harbour.example', name: 'Dr Lindqvist', role: 'viewer', clientId })
@@ -143,7 +150,12 @@ describe('service visits', () => {
     const tasks = await t.ctx.models.CareTask.findAll({ where: { id: [water.id, glass.id] } })
     for (const task of tasks) expect(task.lastDoneAt).not.toBeNull()
     const log = await t.ctx.models.CareLogEntry.findAll({ where: { tankId: tanks.reef }, order: [['id', 'ASC']] })
-    expect(log.filter((e) => e.kind === 'task_done').map((e) => e.careTaskId).sort()).toEqual([water.id, glass.id].sort())
+    expect(
+      log
+        .filter((e) => e.kind === 'task_done')
+        .map((e) => e.careTaskId)
+        .sort(),
+    ).toEqual([water.id, glass.id].sort())
     expect(log.find((e) => e.kind === 'note')!.text).toContain('40 L water changed')
 
     const mails = await t.ctx.models.OutboxMessage.findAll({ where: { kind: 'visit_report' } })

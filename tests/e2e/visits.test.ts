@@ -29,7 +29,9 @@ type Mail = { subject: string; envelope_to: string[]; html_body: string; attachm
 async function waitForMailTo(address: string, subject: RegExp): Promise<Mail[]> {
   for (let i = 0; i < 150; i++) {
     await s.mail.sender.runOnce()
-    const mails = await s.ctx.sequelize.query<Mail>('SELECT subject, envelope_to, html_body, attachments FROM fake_mailbox ORDER BY id', { type: QueryTypes.SELECT })
+    const mails = await s.ctx.sequelize.query<Mail>('SELECT subject, envelope_to, html_body, attachments FROM fake_mailbox ORDER BY id', {
+      type: QueryTypes.SELECT,
+    })
     const found = mails.filter((m) => m.envelope_to.includes(address) && subject.test(m.subject))
     if (found.length) return found
     await new Promise((r) => setTimeout(r, 100))
@@ -44,7 +46,9 @@ beforeAll(async () => {
   org = await s.createOrg('Round Org')
   await s.ctx.models.Site.update({ timeZone: ZONE, address: 'Kaistraße 4, 10115 Berlin' }, { where: { id: org.siteIds[0] } })
   await s.ctx.models.Site.update({ timeZone: ZONE, address: 'Bergmannstraße 12, 10961 Berlin' }, { where: { id: org.siteIds[1] } })
-  clients.dental = (await post('/clients', { kind: 'company', name: 'Harbour Dental', contactName: 'Dr Lindqvist', email: 'front@harbour.example', phone: '+49 30 555 0101' })).id
+  clients.dental = (
+    await post('/clients', { kind: 'company', name: 'Harbour Dental', contactName: 'Dr Lindqvist', email: 'front@harbour.example', phone: '+49 30 555 0101' })
+  ).id
   clients.bakery = (await post('/clients', { kind: 'company', name: 'Corner Bakery', email: 'hello@corner-bakery.example' })).id
   const tank = async (siteId: number, name: string, clientId: number) => (await post('/tanks', sampleTank(siteId, { name, clientId }))).id as number
   const reef = await tank(org.siteIds[0], 'Waiting room reef', clients.dental)
@@ -140,7 +144,9 @@ describe('a service round on a phone', () => {
         visited.add(await audit(page, size, `${s.baseUrl}${path}`, found))
         await shot(page, `${path.replace(/\W+/g, '-').replace(/^-/, '')}-${size}`)
       }
-      const keeper = await context.browser()!.newContext({ viewport: size === 'phone' ? { width: 390, height: 844 } : { width: 1280, height: 800 }, bypassCSP: true })
+      const keeper = await context
+        .browser()!
+        .newContext({ viewport: size === 'phone' ? { width: 390, height: 844 } : { width: 1280, height: 800 }, bypassCSP: true })
       const keeperPage = await keeper.newPage()
       await signIn(keeperPage, s.baseUrl, org.users.keeper.email)
       visited.add(await audit(keeperPage, `${size}-keeper`, `${s.baseUrl}/round`, found))

@@ -72,9 +72,10 @@ DROP TABLE clients;
  * itself, so branches that each add a kind of mail compose in either order.
  */
 async function setMailKind(qi: Parameters<Migration['up']>[0], kind: string, present: boolean) {
-  const [rows] = (await qi.sequelize.query(
-    "SELECT pg_get_constraintdef(oid) AS def FROM pg_constraint WHERE conname = 'mail_outbox_kind_check'",
-  )) as [Array<{ def: string }>, unknown]
+  const [rows] = (await qi.sequelize.query("SELECT pg_get_constraintdef(oid) AS def FROM pg_constraint WHERE conname = 'mail_outbox_kind_check'")) as [
+    Array<{ def: string }>,
+    unknown,
+  ]
   const kinds = new Set([...(rows[0]?.def ?? '').matchAll(/'([a-z_]+)'/g)].map((m) => m[1]))
   if (present) kinds.add(kind)
   else kinds.delete(kind)
