@@ -37,6 +37,11 @@ export function testRouter(): Router {
     'reset-password',
     'overview',
     'setup',
+    'clients',
+    'client',
+    'round',
+    'visits',
+    'visit',
   ]
   const paths: Record<string, string> = {
     'sign-in': '/sign-in',
@@ -63,6 +68,11 @@ export function testRouter(): Router {
     'reset-password': '/reset-password',
     overview: '/',
     setup: '/setup',
+    clients: '/clients',
+    client: '/clients/:id',
+    round: '/round',
+    visits: '/visits',
+    visit: '/visits/:id',
   }
   return createRouter({
     history: createMemoryHistory(),
