@@ -168,7 +168,9 @@ export const reportSchedulesService = perContext((ctx: AppContext) => {
       const kind = input.clientId !== null ? 'client' : input.tankId !== null ? 'tank' : 'site'
       const field = `${kind}Id`
       const subject = await reports.subjectFor(actor, kind, (input.clientId ?? input.tankId ?? input.siteId)!).catch(() => {
-        throw badRequest(`${field}: no such ${kind}, or it has no tanks`, { [field]: `no such ${kind}, or it has no tanks` })
+        // A client's report needs at least one live tank to keep its calendar.
+        const message = kind === 'client' ? 'no such client, or it has no tanks' : `no such ${kind}`
+        throw badRequest(`${field}: ${message}`, { [field]: message })
       })
       await assertUsers(actor, input.userIds, { siteId: subject.site.id, clientId: input.clientId })
       // A schedule made after this period's send time starts with the next period, not a late send.
