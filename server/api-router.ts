@@ -25,6 +25,8 @@ import { buildRoutes } from './builds/routes'
 import { maintenanceRouter, siteMaintenanceRoutes } from './incidents/maintenance-routes'
 import { setupRouter } from './setup/routes'
 import { overviewRouter } from './overview/routes'
+import { clientsRouter } from './clients/routes'
+import { roundsRouter, visitsRouter } from './visits/routes'
 import { importSourcesRouter, importsRouter, siteImportRoutes, tankImportRoutes } from './imports/routes'
 
 export const API_VERSION = '0.1.0'
@@ -83,6 +85,9 @@ export function apiRouter(ctx: AppContext) {
   router.use('/ack-links', ackLinksRouter(ctx))
   router.use('/tanks', requireUser, reportRoutes(ctx, 'tank'))
   router.use('/sites', requireUser, reportRoutes(ctx, 'site'))
+  router.use('/clients', requireUser, clientsRouter(ctx), reportRoutes(ctx, 'client'))
+  router.use('/visits', requireUser, visitsRouter(ctx))
+  router.use('/rounds', requireUser, roundsRouter(ctx))
   router.use('/report-schedules', requireUser, reportSchedulesRouter(ctx))
   router.use('/devices', requireUser, devicesRouter(ctx))
   router.use('/photos', requireUser, photosRouter(ctx))

@@ -18,6 +18,8 @@ import { Photo } from './photos/model'
 import { ReportSchedule } from './reports/schedule-model'
 import { ImportJob, ImportSource } from './imports/models'
 import { BuildStep, TankBuild } from './builds/models'
+import { Client } from './clients/client-model'
+import { Visit } from './visits/visit-model'
 
 export {
   Organization,
@@ -52,6 +54,8 @@ export {
   BuildStep,
   SiteIncident,
   MaintenanceWindow,
+  Client,
+  Visit,
 }
 
 /** Every model, in the order they are bound. */
@@ -88,6 +92,8 @@ const ALL_MODELS = {
   BuildStep,
   SiteIncident,
   MaintenanceWindow,
+  Client,
+  Visit,
 }
 
 /** Binds every model to this Sequelize instance and declares the associations, in one place. */
@@ -103,6 +109,10 @@ export function initModels(sequelize: Sequelize) {
   Incident.belongsTo(Tank, { as: 'tank', foreignKey: 'tankId' })
   Incident.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
   ImportJob.belongsTo(ImportSource, { as: 'source', foreignKey: 'sourceId' })
+  Tank.belongsTo(Client, { as: 'client', foreignKey: 'clientId' })
+  Visit.belongsTo(Client, { as: 'client', foreignKey: 'clientId' })
+  Visit.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
+  Visit.belongsTo(User, { as: 'technician', foreignKey: 'technicianId' })
   return ALL_MODELS
 }
 export type Models = ReturnType<typeof initModels>

@@ -8,6 +8,9 @@ export type UserActor = {
   role: Role
   /** Sites this actor may see; null means every site of the organization. */
   siteIds: number[] | null
+  /** A client's viewer: the client and exactly its tanks (`siteIds` is then empty); absent for everyone else. */
+  clientId?: number
+  tankIds?: number[]
   sessionId: string
 }
 

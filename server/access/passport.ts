@@ -71,13 +71,11 @@ export async function userActorOfSession(models: Models, sessionId: string, user
     include: [{ association: 'sites', attributes: ['id'] }],
   })
   if (!user || !user.active || session.userId !== user.id) return null
-  const siteIds = user.role === 'viewer' && user.sites?.length ? user.sites.map((s) => s.id) : null
-  return {
-    kind: 'user',
-    userId: user.id,
-    organizationId: user.organizationId,
-    role: user.role,
-    siteIds,
-    sessionId: session.id,
+  const base = { kind: 'user' as const, userId: user.id, organizationId: user.organizationId, role: user.role, sessionId: session.id }
+  if (user.role === 'viewer' && user.clientId) {
+    const tanks = await models.Tank.findAll({ where: { clientId: user.clientId, organizationId: user.organizationId }, attributes: ['id'] })
+    return { ...base, siteIds: [], clientId: user.clientId, tankIds: tanks.map((t) => t.id) }
   }
+  const siteIds = user.role === 'viewer' && user.sites?.length ? user.sites.map((s) => s.id) : null
+  return { ...base, siteIds }
 }

@@ -29,6 +29,13 @@ export const PERMISSIONS = {
   'builds.write': ['owner', 'keeper'],
   'org.setup': ['owner'],
   'overview.read': ['owner', 'keeper'],
+  'clients.read': ['owner', 'keeper'],
+  'clients.manage': ['owner'],
+  /** Rounds and visits: a keeper works their own, an owner plans everyone's. */
+  'visits.work': ['owner', 'keeper'],
+  'visits.manage': ['owner'],
+  /** Closed visits' reports: a client's people read their own. */
+  'visits.read': ['owner', 'keeper', 'viewer'],
 } as const satisfies Record<string, readonly Caller[]>
 
 export type Permission = keyof typeof PERMISSIONS

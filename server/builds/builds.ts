@@ -12,7 +12,7 @@ import type { BuildStep, Tank, TankBuild } from '../models'
 import { groupTests, livestockService } from '../care'
 import { instantNotAhead, writeCareLog } from '../care'
 import { nitrogenReadings } from '../care'
-import { siteScope, visibleTank } from '../access/scope'
+import { tankScope, visibleTank } from '../access/scope'
 import { perContext } from '../platform/per-context'
 
 const DAY_MS = 86_400_000
@@ -374,7 +374,7 @@ export const buildsService = perContext((ctx: AppContext) => {
         order: [['finishedAt', 'DESC']],
         limit: 50,
       })
-      const others = new Map((await models.Tank.findAll({ where: { id: builds.map((b) => b.tankId), ...siteScope(actor, 'siteId') } })).map((o) => [o.id, o]))
+      const others = new Map((await models.Tank.findAll({ where: { id: builds.map((b) => b.tankId), ...tankScope(actor) } })).map((o) => [o.id, o]))
       return builds.flatMap((b) => {
         const other = others.get(b.tankId)
         return other && JSON.stringify(other.dimensions) === same

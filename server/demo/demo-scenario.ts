@@ -12,6 +12,10 @@ export const DEMO_ORGANIZATION = 'Marrowfen Aquatics'
 export const DEMO_SITES = [
   { key: 'shop', name: 'Marrowfen shop floor', timeZone: 'Europe/Berlin', address: '12 Pike Street (invented)' },
   { key: 'fishroom', name: 'Cedar Row fish room', timeZone: 'Europe/Berlin', address: 'Unit 4, Cedar Row (invented)' },
+  // Clients' own sites, where the business looks after their tanks (see demo-clients.ts).
+  { key: 'quay', name: 'Harbourlight — Quay Road surgery', timeZone: 'Europe/Berlin', address: '3 Quay Road (invented)' },
+  { key: 'mill', name: 'Harbourlight — Mill Lane clinic', timeZone: 'Europe/Berlin', address: '41 Mill Lane (invented)' },
+  { key: 'alder', name: 'Palesworth home', timeZone: 'Europe/Berlin', address: '27 Alder Close (invented)' },
 ] as const
 
 export const DEMO_USERS = [
@@ -26,7 +30,7 @@ export const DEMO_NODE_NAME = 'Simulated node'
 /** What the simulator reports at by default (its --interval). */
 export const DEMO_NODE_INTERVAL_SECONDS = 10
 
-type DemoTank = Omit<TankInput, 'siteId'> & { site: 'shop' | 'fishroom' }
+type DemoTank = Omit<TankInput, 'siteId' | 'clientId'> & { site: (typeof DEMO_SITES)[number]['key']; client?: 'harbour' | 'alder' }
 
 const rect = (lengthCm: number, widthCm: number, heightCm: number) => ({ shape: 'rectangular', lengthCm, widthCm, heightCm }) as const
 
@@ -161,6 +165,48 @@ export const DEMO_TANKS: DemoTank[] = [
     lightSchedule: null,
     notes: 'Dry; kept for overflow stock.',
     sortOrder: 4,
+  },
+  {
+    ...base,
+    site: 'quay',
+    client: 'harbour',
+    name: 'Waiting room reef',
+    kind: 'marine',
+    stage: 'established',
+    dimensions: rect(100, 50, 50),
+    heater: { watts: 250, setPointC: 25.5, topCm: 30 },
+    lightSchedule: { on: '08:00', off: '19:00' },
+    filter: 'Sump with skimmer',
+    media: 'Live rock, filter floss',
+    sortOrder: 1,
+  },
+  {
+    ...base,
+    site: 'mill',
+    client: 'harbour',
+    name: 'Mill Lane lobby tank',
+    kind: 'tropical_freshwater',
+    stage: 'established',
+    dimensions: rect(80, 35, 45),
+    heater: { watts: 150, setPointC: 25, topCm: 25 },
+    lightSchedule: { on: '08:00', off: '18:00' },
+    filter: 'Hang-on-back',
+    media: 'Sponge, carbon',
+    sortOrder: 1,
+  },
+  {
+    ...base,
+    site: 'alder',
+    client: 'alder',
+    name: 'Living room community tank',
+    kind: 'tropical_freshwater',
+    stage: 'established',
+    dimensions: rect(60, 30, 36),
+    heater: { watts: 75, setPointC: 24.5, topCm: 20 },
+    lightSchedule: { on: '11:00', off: '19:00' },
+    filter: 'External canister',
+    media: 'Sponge, sintered glass',
+    sortOrder: 1,
   },
 ]
 

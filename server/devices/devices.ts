@@ -1,4 +1,3 @@
-import { Op } from 'sequelize'
 import { isDeviceQuiet, type DeviceInput, type PublicDevice } from '@shared/schemas/devices'
 import type { MetricKey } from '@shared/metrics/registry'
 import type { Actor } from '../access/actor'
@@ -7,7 +6,7 @@ import type { AppContext } from '../context'
 import { notFound } from '../platform/errors'
 import type { Device } from '../models'
 import { newDeviceToken } from './device-tokens'
-import { visibleTank } from '../access/scope'
+import { tankScope, visibleTank } from '../access/scope'
 import { perContext } from '../platform/per-context'
 import { countsBySourceKey } from '../readings'
 
@@ -66,7 +65,7 @@ export const devicesService = perContext((ctx: AppContext) => {
       const where: Record<string, unknown> = { organizationId: actor.organizationId }
       if (tankId) where.tankId = (await visibleTank(ctx, actor, tankId)).id
       else if (actor.siteIds) {
-        const visible = await models.Tank.findAll({ where: { siteId: { [Op.in]: actor.siteIds } }, attributes: ['id'] })
+        const visible = await models.Tank.findAll({ where: tankScope(actor), attributes: ['id'] })
         where.tankId = visible.map((t) => t.id)
       }
       const devices = await models.Device.findAll({

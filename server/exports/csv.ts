@@ -3,7 +3,7 @@ import type { AppContext } from '../context'
 import { notFound } from '../platform/errors'
 import { METRICS, isMetricKey } from '@shared/metrics'
 import type { ExportKind, ExportRangeQuery } from '@shared/schemas/exports'
-import { canSeeSite } from '../access/scope'
+import { canSeeSite, visibleTank } from '../access/scope'
 import { readingsCsvSql, type ReadingCsvRow } from '../readings'
 import { eachBatch, snapshot } from './cursor'
 import { exportFileName, zonedFormatter } from './format'
@@ -126,10 +126,8 @@ export const exportCsvService = perContext((ctx: AppContext) => {
   /** The tank or site an actor asks for; another organization's or another site's answers 404. */
   async function targetOf(actor: Actor, scope: ExportScope): Promise<Target> {
     if (scope.kind === 'tank') {
-      const tank = await models.Tank.findOne({ where: { id: scope.id, organizationId: actor.organizationId } })
-      const site = tank ? await models.Site.findByPk(tank.siteId) : null
-      if (!tank || !canSeeSite(actor, site)) throw notFound('Tank not found')
-      return { organizationId: actor.organizationId, timeZone: site!.timeZone, label: tank.name, where: 't.id = :scopeId', scopeId: tank.id }
+      const tank = await visibleTank(ctx, actor, scope.id)
+      return { organizationId: actor.organizationId, timeZone: tank.site!.timeZone, label: tank.name, where: 't.id = :scopeId', scopeId: tank.id }
     }
     const site = await models.Site.findByPk(scope.id)
     if (!canSeeSite(actor, site)) throw notFound('Site not found')

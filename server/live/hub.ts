@@ -8,7 +8,7 @@ import { userActorFromToken, userActorOfSession } from '../access/passport'
 import { wallFromToken, wallStillValid } from '../sites'
 import type { AppContext } from '../context'
 import type { StoredReading } from '../platform/events'
-import { canSeeSite, siteScope } from '../access/scope'
+import { canSeeSite, siteFilter, tankScope } from '../access/scope'
 import { catchUpPages } from './catch-up'
 
 const AUTH_TIMEOUT_MS = 5000
@@ -51,10 +51,10 @@ export function attachLiveHub(ctx: AppContext, server: Server, options: LiveHubO
   }
 
   async function visibleTanks(actor: Actor, tankIds?: number[], siteId?: number) {
-    const where: Record<string | symbol, unknown> = { ...(siteScope(actor, 'siteId') as object), archivedAt: null }
+    const where: Record<string | symbol, unknown> = { ...(tankScope(actor) as object), archivedAt: null }
     if (tankIds) where.id = { [Op.in]: tankIds }
     // Keep the actor's own site limit: a site filter must narrow it, never replace it.
-    if (siteId) where.siteId = actor.siteIds && !actor.siteIds.includes(siteId) ? -1 : siteId
+    if (siteId) where.siteId = siteFilter(actor, siteId)
     const rows = await ctx.models.Tank.findAll({ where, attributes: ['id'] })
     return rows.map((t) => t.id)
   }

@@ -14,6 +14,7 @@ export const MAIL_KINDS = [
   'incident_reopened',
   'site_incident_opened',
   'site_incident_escalated',
+  'visit_report',
 ] as const
 export type MailKind = (typeof MAIL_KINDS)[number]
 

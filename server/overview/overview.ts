@@ -9,6 +9,7 @@ import { dueItems, tanksToWatch } from '../care'
 import { whoIsOnDuty } from '../roster'
 import { checklistService } from '../setup'
 import { tankStatuses } from '../tanks'
+import { visitsLeftOpen } from '../visits'
 
 type SiteRow = { id: number; name: string; timeZone: string }
 type IncidentRow = {
@@ -65,13 +66,14 @@ export function overviewService(ctx: AppContext) {
         ['id', 'ASC'],
       ],
     })
-    const [statuses, incidents, care, waterChanges, duty, watch] = await Promise.all([
+    const [statuses, incidents, care, waterChanges, duty, watch, openVisits] = await Promise.all([
       tankStatuses(ctx, tanks, now.getTime()),
       incidentsSince(site.id, since, now),
       dueItems(ctx, { siteIds: [site.id] }, now),
       waterChangesSince(site.id, since, now),
       whoIsOnDuty(ctx, site.id, now),
       tanksToWatch(ctx, [site.id], now),
+      visitsLeftOpen(ctx, site, now),
     ])
     const states = Object.fromEntries(TANK_STATES.map((s) => [s, 0])) as OverviewSite['states']
     for (const status of statuses.values()) states[status.state]++
@@ -119,6 +121,7 @@ export function overviewService(ctx: AppContext) {
         careMissed: overdue.filter((c) => c.task.kind !== 'test_kit_check').map(task),
         kitOverdue: overdue.filter((c) => c.task.kind === 'test_kit_check').map(task),
         waterChanges: waterChanges.map((w) => ({ tank: { id: w.tankId, name: w.tankName }, at: new Date(w.at).toISOString(), by: w.by })),
+        visitsLeftOpen: openVisits,
       },
       today: {
         onDuty: duty.onDuty.map((p) => ({ id: p.userId, name: p.name })),

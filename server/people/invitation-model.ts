@@ -8,6 +8,7 @@ export class Invitation extends Model<InferAttributes<Invitation>, InferCreation
   declare name: string
   declare role: Role
   declare siteIds: CreationOptional<number[]>
+  declare clientId: CreationOptional<number | null>
   declare tokenHash: string
   declare invitedBy: number | null
   declare expiresAt: Date
@@ -24,6 +25,7 @@ export class Invitation extends Model<InferAttributes<Invitation>, InferCreation
         name: { type: DataTypes.TEXT, allowNull: false },
         role: { type: DataTypes.TEXT, allowNull: false },
         siteIds: { type: DataTypes.ARRAY(DataTypes.INTEGER), allowNull: false, defaultValue: [] },
+        clientId: { type: DataTypes.INTEGER, allowNull: true },
         tokenHash: { type: DataTypes.TEXT, allowNull: false },
         invitedBy: { type: DataTypes.INTEGER, allowNull: true },
         expiresAt: { type: DataTypes.DATE, allowNull: false },

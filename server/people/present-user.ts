@@ -10,6 +10,7 @@ export function presentUser(user: User): PublicUser {
     role: user.role,
     active: user.active,
     siteIds: (user.sites ?? []).map((s) => s.id).sort((a, b) => a - b),
+    clientId: user.clientId ?? null,
     organizationId: user.organizationId,
     createdAt: user.createdAt.toISOString(),
   }

@@ -9,6 +9,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare name: string
   declare passwordHash: string
   declare role: Role
+  /** A client's person: a viewer of exactly that client's tanks. */
+  declare clientId: CreationOptional<number | null>
   declare active: CreationOptional<boolean>
   declare unitPreferences: CreationOptional<Record<string, string>>
   declare createdAt: CreationOptional<Date>
@@ -24,6 +26,7 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
         name: { type: DataTypes.TEXT, allowNull: false },
         passwordHash: { type: DataTypes.TEXT, allowNull: false },
         role: { type: DataTypes.TEXT, allowNull: false },
+        clientId: { type: DataTypes.INTEGER, allowNull: true },
         active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
         unitPreferences: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
         createdAt: DataTypes.DATE,

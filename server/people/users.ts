@@ -30,6 +30,7 @@ export const usersService = perContext((ctx: AppContext) => {
       name: inv.name,
       role: inv.role,
       siteIds: inv.siteIds,
+      clientId: inv.clientId ?? null,
       expiresAt: inv.expiresAt.toISOString(),
       createdAt: inv.createdAt.toISOString(),
     }
@@ -70,7 +71,8 @@ export const usersService = perContext((ctx: AppContext) => {
         if (changes.siteIds) await assertSitesInOrganization(actor.organizationId, changes.siteIds)
         const { siteIds, ...fields } = changes
         const roleChanged = changes.role !== undefined && changes.role !== user.role
-        await user.update(fields, { transaction })
+        // A client's person is a viewer; any other role is staff and no longer speaks for the client.
+        await user.update({ ...fields, ...(fields.role && fields.role !== 'viewer' ? { clientId: null } : {}) }, { transaction })
         if (siteIds) {
           await models.UserSite.destroy({ where: { userId: user.id }, transaction })
           await models.UserSite.bulkCreate(
@@ -104,7 +106,13 @@ export const usersService = perContext((ctx: AppContext) => {
       if (await models.User.findOne({ where: { email: input.email } })) {
         throw conflict('email_taken', 'Someone already uses this e-mail address', { email: 'already in use' })
       }
-      const siteIds = input.role === 'viewer' ? (input.siteIds ?? []) : []
+      const clientId = input.role === 'viewer' ? (input.clientId ?? null) : null
+      if (input.clientId && input.role !== 'viewer') throw badRequest('clientId: only a viewer can sign in for a client', { clientId: 'only for viewers' })
+      if (clientId && !(await models.Client.findOne({ where: { id: clientId, organizationId: actor.organizationId, archivedAt: null } }))) {
+        throw badRequest('clientId: no such client', { clientId: 'no such client' })
+      }
+      // A client's person sees the client's tanks, never a whole site.
+      const siteIds = input.role === 'viewer' && !clientId ? (input.siteIds ?? []) : []
       await assertSitesInOrganization(actor.organizationId, siteIds)
       const { token, hash } = newSecretToken()
       const link = `/accept-invite?token=${token}`
@@ -117,6 +125,7 @@ export const usersService = perContext((ctx: AppContext) => {
             name: input.name,
             role: input.role,
             siteIds,
+            clientId,
             tokenHash: hash,
             invitedBy: actor.userId,
             expiresAt: new Date(Date.now() + INVITATION_DAYS * 86400_000),
@@ -173,6 +182,7 @@ export const usersService = perContext((ctx: AppContext) => {
             email: inv.email,
             name: name ?? inv.name,
             role: inv.role,
+            clientId: inv.clientId ?? null,
             passwordHash: await auth.hashPassword(password),
           },
           { transaction },

@@ -196,7 +196,7 @@ export async function renderReportPdf(report: Report, options: { compress?: bool
   report.tanks.forEach((tank, i) => {
     if (i > 0) doc.addPage()
     doc.fillColor(COLOURS.muted)
-    write(doc, `Tankwarden report · ${report.subject.kind === 'site' ? report.subject.name : `${report.subject.siteName}`}`, 'body', 9)
+    write(doc, `Tankwarden report · ${report.subject.kind !== 'tank' ? report.subject.name : `${report.subject.siteName}`}`, 'body', 9)
     doc.fillColor(COLOURS.ink)
     write(doc, report.period.label, 'bold', 13)
     doc.fillColor(COLOURS.muted)

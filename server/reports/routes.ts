@@ -6,13 +6,13 @@ import type { AppContext } from '../context'
 import { parse, parseChanges } from '../platform/http/validate'
 import { reportFileName } from './mail'
 import { renderReportPdf } from './pdf'
-import { reportService } from './report'
+import { reportService, type ReportKind } from './report'
 import { reportSchedulesService } from './schedules'
 
 const id = (req: Request) => parse(idParamsSchema, req, 'params').id
 
-/** GET /:id/report and /:id/report/pdf for a tank (under /tanks) or a site (under /sites). */
-export function reportRoutes(ctx: AppContext, kind: 'tank' | 'site') {
+/** GET /:id/report and /:id/report/pdf for a tank (under /tanks), a site (under /sites) or a client (under /clients). */
+export function reportRoutes(ctx: AppContext, kind: ReportKind) {
   const router = Router()
   const reports = reportService(ctx)
   const build = (req: Request) => reports.report(actorOf(req), kind, id(req), parse(reportQuerySchema, req, 'query'))

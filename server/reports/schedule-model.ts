@@ -7,6 +7,7 @@ export class ReportSchedule extends Model<InferAttributes<ReportSchedule>, Infer
   declare organizationId: number
   declare tankId: number | null
   declare siteId: number | null
+  declare clientId: CreationOptional<number | null>
   declare period: ReportPeriodKind
   declare emails: CreationOptional<string[]>
   declare userIds: CreationOptional<number[]>
@@ -23,6 +24,7 @@ export class ReportSchedule extends Model<InferAttributes<ReportSchedule>, Infer
         organizationId: { type: DataTypes.INTEGER, allowNull: false },
         tankId: { type: DataTypes.INTEGER, allowNull: true },
         siteId: { type: DataTypes.INTEGER, allowNull: true },
+        clientId: { type: DataTypes.INTEGER, allowNull: true },
         period: { type: DataTypes.TEXT, allowNull: false },
         emails: { type: DataTypes.ARRAY(DataTypes.TEXT), allowNull: false, defaultValue: [] },
         userIds: { type: DataTypes.ARRAY(DataTypes.INTEGER), allowNull: false, defaultValue: [] },

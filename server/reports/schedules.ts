@@ -9,7 +9,7 @@ import { enqueueMail } from '../mail'
 import type { ReportSchedule, Site, User } from '../models'
 import { reportMail } from './mail'
 import { renderReportPdf } from './pdf'
-import { buildReport, loadSubject, reportService } from './report'
+import { buildReport, loadSubject, reportService, type ReportTarget } from './report'
 import { perContext } from '../platform/per-context'
 
 /** Scheduled reports go out at 08:00 on the site's clock, on the first day after the period. */
@@ -26,31 +26,36 @@ export function periodDue(kind: ReportSchedule['period'], timeZone: string, now:
   return sendTimeOf(period) <= now ? period : null
 }
 
-function canSee(user: User, siteId: number) {
-  if (user.role !== 'viewer' || !user.sites?.length) return true
-  return user.sites.some((s) => s.id === siteId)
+/** Whether a person may receive the report of a subject: a client's people only their client's, a site's viewer only their site's. */
+function canSee(user: User, subject: { siteId: number; clientId: number | null }) {
+  if (user.role !== 'viewer') return true
+  if (user.clientId) return user.clientId === subject.clientId
+  if (!user.sites?.length) return true
+  return subject.clientId === null && user.sites.some((s) => s.id === subject.siteId)
 }
 
 /** Addresses a schedule sends to: its own plus active users of the organization who may see the site. */
 export async function recipientsOf(ctx: AppContext, schedule: ReportSchedule, siteId: number): Promise<string[]> {
+  const subject = { siteId, clientId: schedule.clientId ?? null }
   const users = schedule.userIds.length
     ? await ctx.models.User.findAll({
         where: { id: { [Op.in]: schedule.userIds }, organizationId: schedule.organizationId, active: true },
         include: [{ association: 'sites', attributes: ['id'] }],
       })
     : []
-  const all = [...schedule.emails, ...users.filter((u) => canSee(u, siteId)).map((u) => u.email)]
+  const all = [...schedule.emails, ...users.filter((u) => canSee(u, subject)).map((u) => u.email)]
   return [...new Set(all.map((a) => a.trim().toLowerCase()))]
 }
 
-async function siteOf(ctx: AppContext, schedule: Pick<ReportSchedule, 'tankId' | 'siteId'>): Promise<Site | null> {
+async function siteOf(ctx: AppContext, schedule: ReportTarget): Promise<Site | null> {
+  if (schedule.clientId) return (await loadSubject(ctx, schedule))?.site ?? null
   if (schedule.siteId !== null) return ctx.models.Site.findByPk(schedule.siteId)
   const tank = schedule.tankId !== null ? await ctx.models.Tank.findByPk(schedule.tankId) : null
   return tank ? ctx.models.Site.findByPk(tank.siteId) : null
 }
 
-export function reportLink(ctx: AppContext, target: { tankId: number | null; siteId: number | null }, period: ReportPeriod) {
-  const subject = target.tankId !== null ? `tank=${target.tankId}` : `site=${target.siteId}`
+export function reportLink(ctx: AppContext, target: ReportTarget, period: ReportPeriod) {
+  const subject = target.clientId ? `client=${target.clientId}` : target.tankId !== null ? `tank=${target.tankId}` : `site=${target.siteId}`
   return new URL(`/reports?${subject}&period=${period.kind}&date=${period.startDate}`, ctx.config.publicUrl).toString()
 }
 
@@ -103,7 +108,8 @@ function present(s: ReportSchedule, names: Map<string, string>): PublicSchedule 
     id: s.id,
     tankId: s.tankId,
     siteId: s.siteId,
-    subjectName: names.get(s.tankId !== null ? `t${s.tankId}` : `s${s.siteId}`) ?? '',
+    clientId: s.clientId ?? null,
+    subjectName: names.get(s.clientId ? `c${s.clientId}` : s.tankId !== null ? `t${s.tankId}` : `s${s.siteId}`) ?? '',
     period: s.period,
     emails: s.emails,
     userIds: s.userIds,
@@ -122,7 +128,13 @@ export const reportSchedulesService = perContext((ctx: AppContext) => {
     const siteIds = rows.map((r) => r.siteId).filter((v): v is number => v !== null)
     const tanks = tankIds.length ? await models.Tank.findAll({ where: { id: tankIds }, attributes: ['id', 'name'] }) : []
     const sites = siteIds.length ? await models.Site.findAll({ where: { id: siteIds }, attributes: ['id', 'name'] }) : []
-    return new Map([...tanks.map((t) => [`t${t.id}`, t.name] as const), ...sites.map((s) => [`s${s.id}`, s.name] as const)])
+    const clientIds = rows.map((r) => r.clientId).filter((v): v is number => !!v)
+    const clients = clientIds.length ? await models.Client.findAll({ where: { id: clientIds }, attributes: ['id', 'name'] }) : []
+    return new Map([
+      ...tanks.map((t) => [`t${t.id}`, t.name] as const),
+      ...sites.map((s) => [`s${s.id}`, s.name] as const),
+      ...clients.map((c) => [`c${c.id}`, c.name] as const),
+    ])
   }
 
   async function find(actor: UserActor, id: number) {
@@ -131,13 +143,13 @@ export const reportSchedulesService = perContext((ctx: AppContext) => {
     return row
   }
 
-  async function assertUsers(actor: UserActor, userIds: number[], siteId: number) {
+  async function assertUsers(actor: UserActor, userIds: number[], subject: { siteId: number; clientId: number | null }) {
     if (!userIds.length) return
     const users = await models.User.findAll({
       where: { id: { [Op.in]: userIds }, organizationId: actor.organizationId, active: true },
       include: [{ association: 'sites', attributes: ['id'] }],
     })
-    const usable = new Set(users.filter((u) => canSee(u, siteId)).map((u) => u.id))
+    const usable = new Set(users.filter((u) => canSee(u, subject)).map((u) => u.id))
     const bad = userIds.filter((id) => !usable.has(id))
     if (bad.length)
       throw badRequest(`userIds: ${bad.join(', ')} cannot receive this report (unknown, inactive, or without access to the site)`, {
@@ -153,19 +165,21 @@ export const reportSchedulesService = perContext((ctx: AppContext) => {
     },
 
     async create(actor: UserActor, input: ReportScheduleInput, now = new Date()) {
-      const subject = await reports.subjectFor(actor, input.tankId !== null ? 'tank' : 'site', (input.tankId ?? input.siteId)!).catch(() => {
-        throw badRequest(
-          input.tankId !== null ? 'tankId: no such tank' : 'siteId: no such site',
-          input.tankId !== null ? { tankId: 'no such tank' } : { siteId: 'no such site' },
-        )
+      const kind = input.clientId !== null ? 'client' : input.tankId !== null ? 'tank' : 'site'
+      const field = `${kind}Id`
+      const subject = await reports.subjectFor(actor, kind, (input.clientId ?? input.tankId ?? input.siteId)!).catch(() => {
+        // A client's report needs at least one live tank to keep its calendar.
+        const message = kind === 'client' ? 'no such client, or it has no tanks' : `no such ${kind}`
+        throw badRequest(`${field}: ${message}`, { [field]: message })
       })
-      await assertUsers(actor, input.userIds, subject.site.id)
+      await assertUsers(actor, input.userIds, { siteId: subject.site.id, clientId: input.clientId })
       // A schedule made after this period's send time starts with the next period, not a late send.
       const due = periodDue(input.period, subject.site.timeZone, now.getTime())
       const row = await models.ReportSchedule.create({
         organizationId: actor.organizationId,
         tankId: input.tankId,
         siteId: input.siteId,
+        clientId: input.clientId,
         period: input.period,
         emails: input.emails,
         userIds: input.userIds,
@@ -179,7 +193,7 @@ export const reportSchedulesService = perContext((ctx: AppContext) => {
     async update(actor: UserActor, id: number, changes: Partial<ReportScheduleUpdate>) {
       const row = await find(actor, id)
       const site = await siteOf(ctx, row)
-      if (changes.userIds && site) await assertUsers(actor, changes.userIds, site.id)
+      if (changes.userIds && site) await assertUsers(actor, changes.userIds, { siteId: site.id, clientId: row.clientId ?? null })
       const emails = changes.emails ?? row.emails
       const userIds = changes.userIds ?? row.userIds
       if (!emails.length && !userIds.length) throw badRequest('emails: add at least one recipient', { emails: 'add at least one recipient' })

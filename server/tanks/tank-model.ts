@@ -9,6 +9,7 @@ export class Tank extends Model<InferAttributes<Tank>, InferCreationAttributes<T
   declare id: CreationOptional<number>
   declare organizationId: number
   declare siteId: number
+  declare clientId: CreationOptional<number | null>
   declare name: string
   declare kind: TankKind
   declare stage: TankStage
@@ -27,6 +28,7 @@ export class Tank extends Model<InferAttributes<Tank>, InferCreationAttributes<T
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
   declare site?: NonAttribute<Site>
+  declare client?: NonAttribute<{ id: number; name: string } | null>
 
   static initModel(sequelize: Sequelize) {
     Tank.init(
@@ -34,6 +36,7 @@ export class Tank extends Model<InferAttributes<Tank>, InferCreationAttributes<T
         id: { type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true },
         organizationId: { type: DataTypes.INTEGER, allowNull: false },
         siteId: { type: DataTypes.INTEGER, allowNull: false },
+        clientId: { type: DataTypes.INTEGER, allowNull: true },
         name: { type: DataTypes.TEXT, allowNull: false },
         kind: { type: DataTypes.TEXT, allowNull: false },
         stage: { type: DataTypes.TEXT, allowNull: false },

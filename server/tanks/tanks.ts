@@ -7,7 +7,7 @@ import type { TankListItem } from '@shared/schemas/tanks'
 import type { Actor } from '../access/actor'
 import type { AppContext } from '../context'
 import { badRequest, fromZod } from '../platform/errors'
-import { canSeeSite, siteScope, visibleTank } from '../access/scope'
+import { canSeeSite, siteFilter, tankScope, visibleTank } from '../access/scope'
 import { tankStatuses } from './tank-status'
 import { perContext } from '../platform/per-context'
 import type { Tank } from '../models'
@@ -75,6 +75,8 @@ export function presentTank(tank: Tank): PublicTank {
     name: tank.name,
     siteId: tank.siteId,
     siteName: tank.site?.name ?? '',
+    clientId: tank.clientId ?? null,
+    clientName: tank.client?.name ?? null,
     kind: tank.kind,
     stage: tank.stage,
     dimensions: tank.dimensions,
@@ -96,7 +98,10 @@ export function presentTank(tank: Tank): PublicTank {
 
 export const tanksService = perContext((ctx: AppContext) => {
   const { models } = ctx
-  const include = [{ association: 'site', attributes: ['id', 'name', 'timeZone'] }]
+  const include = [
+    { association: 'site', attributes: ['id', 'name', 'timeZone'] },
+    { association: 'client', attributes: ['id', 'name'] },
+  ]
 
   const find = (actor: Actor, id: number) => visibleTank(ctx, actor, id)
 
@@ -106,14 +111,21 @@ export const tanksService = perContext((ctx: AppContext) => {
     if (site!.archivedAt) throw badRequest('siteId: the site is archived', { siteId: 'the site is archived' })
   }
 
+  async function assertClientUsable(actor: Actor, clientId: number | null | undefined) {
+    if (!clientId) return
+    const client = await models.Client.findOne({ where: { id: clientId, organizationId: actor.organizationId, archivedAt: null } })
+    if (!client) throw badRequest('clientId: no such client', { clientId: 'no such client' })
+  }
+
   return {
     find,
 
     /** A page of tanks, each with its state, latest values and open incidents. */
     async list(actor: Actor, q: TankListQuery): Promise<Page<TankListItem>> {
-      const where: Record<string | symbol, unknown> = { ...(siteScope(actor, 'siteId') as object) }
+      const where: Record<string | symbol, unknown> = { ...(tankScope(actor) as object) }
       if (!q.includeArchived) where.archivedAt = null
-      if (q.siteId) where.siteId = actor.siteIds && !actor.siteIds.includes(q.siteId) ? -1 : q.siteId
+      if (q.siteId) where.siteId = siteFilter(actor, q.siteId)
+      if (q.clientId) where.clientId = q.clientId
       if (q.stage) where.stage = q.stage
       if (q.kind) where.kind = q.kind
       if (q.search) {
@@ -145,6 +157,7 @@ export const tanksService = perContext((ctx: AppContext) => {
 
     async create(actor: Actor, input: TankInput) {
       await assertSiteUsable(actor, input.siteId)
+      await assertClientUsable(actor, input.clientId)
       const tank = await models.Tank.create({
         ...input,
         ...volumeOf(input),
@@ -162,6 +175,7 @@ export const tanksService = perContext((ctx: AppContext) => {
       const merged = tankInputSchema.safeParse({ ...current, ...changes })
       if (!merged.success) throw fromZod(merged.error, 'body')
       if (changes.siteId && changes.siteId !== tank.siteId) await assertSiteUsable(actor, changes.siteId)
+      if (changes.clientId && changes.clientId !== tank.clientId) await assertClientUsable(actor, changes.clientId)
       const next = merged.data
       const stageChanges = next.stage !== tank.stage
       await ctx.sequelize.transaction(async (transaction) => {
@@ -169,6 +183,8 @@ export const tanksService = perContext((ctx: AppContext) => {
         // The quarantine clock starts here; the column belongs to care, the Tank model does not declare it.
         if (stageChanges) await ctx.sequelize.query('UPDATE tanks SET stage_changed_at = now() WHERE id = $1', { bind: [tank.id], transaction })
       })
+      // A client's people see exactly the client's tanks: their open sockets follow the change.
+      if (next.clientId !== current.clientId) ctx.events.emit('access.changed', { organizationId: tank.organizationId })
       return presentTank(await find(actor, id))
     },
 

@@ -24,6 +24,8 @@ export const inviteSchema = z.object({
   role: roleSchema,
   /** For viewers: the sites they may see; empty or absent means every site. */
   siteIds: z.array(z.number().int().positive()).max(500).optional(),
+  /** For a client's person: a viewer of exactly that client's tanks (then no sites). */
+  clientId: z.number().int().positive().nullable().optional(),
 })
 export type InviteInput = z.infer<typeof inviteSchema>
 
@@ -50,6 +52,8 @@ export interface PublicUser {
   role: Role
   active: boolean
   siteIds: number[]
+  /** A client's person: sees exactly that client's tanks. */
+  clientId: number | null
   organizationId: number
   createdAt: string
 }
@@ -88,6 +92,7 @@ export interface Invitation {
   name: string
   role: Role
   siteIds: number[]
+  clientId: number | null
   expiresAt: string
   createdAt: string
 }

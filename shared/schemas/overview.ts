@@ -40,6 +40,8 @@ export interface OverviewSite {
     careMissed: OverviewTask[]
     kitOverdue: OverviewTask[]
     waterChanges: Array<{ tank: Named; at: string; by: string | null }>
+    /** Service visits here not closed by the end of their day. */
+    visitsLeftOpen: Array<{ id: number; clientName: string; technician: string; startsAt: string }>
   }
   today: {
     onDuty: Named[]

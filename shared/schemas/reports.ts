@@ -21,6 +21,8 @@ const recipientsFields = {
 const scheduleFields = {
   tankId: z.number().int().positive().nullable().default(null),
   siteId: z.number().int().positive().nullable().default(null),
+  /** All of one client's tanks in one mail. */
+  clientId: z.number().int().positive().nullable().default(null),
   period: z.enum(REPORT_PERIOD_KINDS),
   ...recipientsFields,
   enabled: z.boolean().default(true),
@@ -28,7 +30,7 @@ const scheduleFields = {
 
 export const reportScheduleInputSchema = z
   .object(scheduleFields)
-  .refine((s) => (s.tankId === null) !== (s.siteId === null), { message: 'choose either a tank or a site', path: ['tankId'] })
+  .refine((s) => [s.tankId, s.siteId, s.clientId].filter((v) => v !== null).length === 1, { message: 'choose one tank, site or client', path: ['tankId'] })
   .refine((s) => s.emails.length + s.userIds.length > 0, { message: 'add at least one recipient', path: ['emails'] })
 export type ReportScheduleInput = z.infer<typeof reportScheduleInputSchema>
 /** The body as a client sends it, before the defaults are filled in. */
@@ -49,7 +51,8 @@ export type ReportSchedule = {
   id: number
   tankId: number | null
   siteId: number | null
-  /** The tank's or the site's name. */
+  clientId: number | null
+  /** The tank's, the site's or the client's name. */
   subjectName: string
   period: ReportPeriodKind
   emails: string[]
@@ -112,7 +115,7 @@ export type TankReport = {
 }
 
 export type Report = {
-  subject: { kind: 'tank' | 'site'; id: number; name: string; siteId: number; siteName: string; timeZone: string }
+  subject: { kind: 'tank' | 'site' | 'client'; id: number; name: string; siteId: number; siteName: string; timeZone: string }
   period: {
     kind: ReportPeriodKind
     label: string

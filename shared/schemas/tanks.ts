@@ -57,6 +57,8 @@ export type Targets = z.infer<typeof targetsSchema>
 const tankFields = {
   name: z.string().trim().min(1, 'required').max(120),
   siteId: z.number().int().positive('choose a site'),
+  /** The client who owns the tank, for a tank-care business; none for the business's own tanks. */
+  clientId: z.number().int().positive().nullable().optional(),
   kind: z.enum(TANK_KINDS),
   stage: z.enum(TANK_STAGES),
   dimensions: tankShapeSchema.nullable().default(null),
@@ -90,6 +92,7 @@ export type TankUpdate = z.infer<typeof tankUpdateSchema>
 export const TANK_SORT_KEYS = ['name', 'site', 'kind', 'stage', 'volume', 'updated'] as const
 export const tankListQuerySchema = pageQuerySchema.extend({
   siteId: z.coerce.number().int().positive().optional(),
+  clientId: z.coerce.number().int().positive().optional(),
   stage: z.enum(TANK_STAGES).optional(),
   kind: z.enum(TANK_KINDS).optional(),
   sortBy: z.enum(TANK_SORT_KEYS).default('name'),
@@ -109,6 +112,8 @@ export interface PublicTank {
   name: string
   siteId: number
   siteName: string
+  clientId: number | null
+  clientName: string | null
   kind: TankKind
   stage: TankStage
   dimensions: TankShapeInput | null

@@ -2,10 +2,10 @@ import type { ReportPeriodKind } from '@shared/report/period'
 import type { Report, ReportSchedule, ReportScheduleBody, ReportScheduleUpdateBody } from '@shared/schemas/reports'
 import { http } from './client'
 
-export type ReportSubjectKind = 'tank' | 'site'
+export type ReportSubjectKind = 'tank' | 'site' | 'client'
 export type ReportRequest = { kind: ReportSubjectKind; id: number; period: ReportPeriodKind; date?: string }
 
-const base = (r: ReportRequest) => `/${r.kind === 'tank' ? 'tanks' : 'sites'}/${r.id}/report`
+const base = (r: ReportRequest) => `/${r.kind === 'tank' ? 'tanks' : r.kind === 'site' ? 'sites' : 'clients'}/${r.id}/report`
 const query = (r: ReportRequest) => ({ period: r.period, ...(r.date ? { date: r.date } : {}) })
 
 export async function getReport(r: ReportRequest): Promise<Report> {

@@ -110,6 +110,23 @@ export const routes: RouteRecordRaw[] = [
         component: () => import('@/views/ImportView.vue'),
         meta: { title: 'Import readings', roles: EDITORS },
       },
+      { path: 'clients', name: 'clients', component: () => import('@/views/ClientsView.vue'), meta: { title: 'Clients', roles: EDITORS } },
+      {
+        path: 'clients/:id(\\d+)',
+        name: 'client',
+        component: () => import('@/views/ClientView.vue'),
+        props: (route) => ({ id: Number(route.params.id) }),
+        meta: { title: 'Client', roles: EDITORS },
+      },
+      { path: 'round', name: 'round', component: () => import('@/views/RoundView.vue'), meta: { title: 'My round', roles: EDITORS } },
+      { path: 'visits', name: 'visits', component: () => import('@/views/VisitsView.vue'), meta: { title: 'Visits' } },
+      {
+        path: 'visits/:id(\\d+)',
+        name: 'visit',
+        component: () => import('@/views/VisitView.vue'),
+        props: (route) => ({ id: Number(route.params.id) }),
+        meta: { title: 'Visit' },
+      },
       { path: 'sites', name: 'sites', component: () => import('@/views/SitesView.vue'), meta: { title: 'Sites' } },
       {
         path: 'sites/:id(\\d+)/roster',

@@ -17,6 +17,8 @@ export const useAuthStore = defineStore('auth', () => {
   const isSignedIn = computed(() => token.value != null && user.value != null)
   const isOwner = computed(() => role.value === 'owner')
   const canEdit = computed(() => role.value === 'owner' || role.value === 'keeper')
+  /** A client's person: sees exactly the client's tanks and visit reports. */
+  const clientId = computed(() => user.value?.clientId ?? null)
 
   function applySession(session: SessionInfo) {
     token.value = session.token
@@ -82,6 +84,7 @@ export const useAuthStore = defineStore('auth', () => {
     isSignedIn,
     isOwner,
     canEdit,
+    clientId,
     signIn,
     signOut,
     acceptInvitation,

@@ -15,6 +15,8 @@ import { retentionCutoff } from '../../server/readings/retention'
 import { startTestApp } from '../helpers/app'
 
 const RAW_RETENTION_DAYS = 14
+/** The shop's and fish room's nine live tanks and the three of the clients the business looks after. */
+const LIVE_TANKS = 12
 const DAY_MS = 86_400_000
 const ZONE = 'Europe/Berlin'
 
@@ -54,7 +56,7 @@ describe('the demo seed', () => {
        WHERE t.stage <> 'empty' AND t.name <> $1 ORDER BY t.id, m.metric`,
       [DEMO_BUILD_TANK],
     )
-    expect(rows).toHaveLength(9 * 4)
+    expect(rows).toHaveLength(LIVE_TANKS * 4)
     for (const r of rows) {
       const label = `${r.name} ${r.metric}`
       expect(r.hour_first.getTime(), label).toBeLessThanOrEqual(now - HISTORY_DAYS * DAY_MS)
@@ -80,7 +82,7 @@ describe('the demo seed', () => {
          GROUP BY 1, 2, 3) d GROUP BY 1, 2`,
       [ZONE, new Date(now - 6 * DAY_MS), new Date(now - DAY_MS)],
     )
-    expect(amplitudes).toHaveLength(9)
+    expect(amplitudes).toHaveLength(LIVE_TANKS)
     for (const a of amplitudes) {
       // Heated: the thermostat's ±0.3 K switching band plus sensor noise (common practice for
       // aquarium thermostats: about half a degree). Unheated: the room's ±2 K, damped by the water.
@@ -109,7 +111,7 @@ describe('the demo seed', () => {
       `SELECT t.name, array_agg(k.taken_at ORDER BY k.taken_at) AS times FROM test_kit_entries k JOIN tanks t ON t.id = k.tank_id WHERE t.name <> $1 GROUP BY t.name`,
       [DEMO_BUILD_TANK],
     )
-    expect(rows).toHaveLength(9)
+    expect(rows).toHaveLength(LIVE_TANKS)
     for (const r of rows) {
       expect(r.times.length, r.name).toBeGreaterThanOrEqual(4)
       r.times.slice(1).forEach((time, i) => expect(Math.round((time.getTime() - r.times[i]!.getTime()) / DAY_MS), r.name).toBe(7))
@@ -148,7 +150,7 @@ describe('the demo seed', () => {
               count(*) FILTER (WHERE w.litres_replaced IS NULL OR (l.values->>'litres')::float8 <> w.litres_replaced)::int AS bad
        FROM water_changes w LEFT JOIN care_log l ON l.id = w.care_log_entry_id AND l.kind = 'water_change'`,
     )
-    expect(row!.changes).toBeGreaterThanOrEqual(9 * 4)
+    expect(row!.changes).toBeGreaterThanOrEqual(LIVE_TANKS * 4)
     expect(row!.logged).toBe(row!.changes)
     expect(row!.bad).toBe(0)
   })
@@ -212,5 +214,35 @@ describe('the demo seed', () => {
     expect(temperature.timeInBandPercent).toBeGreaterThan(90)
     expect(report.tanks[0]!.incidents.length).toBeGreaterThanOrEqual(1)
     expect(report.tanks[0]!.care.done).toBeGreaterThan(0)
+  })
+
+  it("has two clients with tanks at their own sites, yesterday's visits closed with their reports, and today's round", async () => {
+    const clients = await select<{ name: string; sites: string[]; tanks: number }>(
+      `SELECT c.name, array_agg(DISTINCT s.name ORDER BY s.name) AS sites, count(t.id)::int AS tanks
+       FROM clients c JOIN tanks t ON t.client_id = c.id JOIN sites s ON s.id = t.site_id GROUP BY c.name ORDER BY c.name`,
+    )
+    expect(clients).toEqual([
+      { name: 'Harbourlight Dental Practice', sites: ['Harbourlight — Mill Lane clinic', 'Harbourlight — Quay Road surgery'], tanks: 2 },
+      { name: 'Ingrid Palesworth', sites: ['Palesworth home'], tanks: 1 },
+    ])
+    // No client's tank stands at the business's own sites.
+    const mixed = await select<{ n: number }>(
+      `SELECT count(*)::int AS n FROM tanks t JOIN tanks o ON o.site_id = t.site_id AND o.client_id IS DISTINCT FROM t.client_id WHERE t.client_id IS NOT NULL`,
+    )
+    expect(mixed[0]!.n).toBe(0)
+    const day = (at: Date) => formatLocalDate(localDateAt(ZONE, at.getTime()))
+    const today = formatLocalDate(localDateAt(ZONE, now))
+    const visits = await select<{ state: string; starts_at: Date; work: Array<{ readings: unknown[] }>; photo_ids: number[] }>(
+      'SELECT state, starts_at, work, photo_ids FROM visits ORDER BY starts_at',
+    )
+    const closed = visits.filter((v) => v.state === 'closed')
+    expect(closed.map((v) => day(v.starts_at))).toHaveLength(2)
+    for (const v of closed) {
+      expect(day(v.starts_at) < today).toBe(true)
+      expect(v.photo_ids).toHaveLength(1)
+    }
+    expect(visits.filter((v) => v.state === 'planned').map((v) => day(v.starts_at))).toEqual([today, today, today])
+    // The demo's past sends no mail: its history was mailed at the time.
+    expect((await select<{ n: number }>('SELECT count(*)::int AS n FROM mail_outbox'))[0]!.n).toBe(0)
   })
 })

@@ -13,8 +13,9 @@ import { tankInputSchema } from '@shared/schemas/tanks'
 import { bearer, sampleTank, startTestApp, TEST_PASSWORD, type TestOrg } from '../helpers/app'
 
 const JWT_SECRET = 'test-secret-that-is-long-enough-for-hs256-signing'
-// `wall` holds a valid wall display key for the organization's first site.
-const CALLERS = ['owner', 'keeper', 'viewer', 'noToken', 'expired', 'tampered', 'algNone', 'otherOrg', 'wall'] as const
+// `wall` holds a valid wall display key for the organization's first site; `clientViewer` is a
+// client's person, a viewer of exactly that client's one tank (never the fresh rows a case makes).
+const CALLERS = ['owner', 'keeper', 'viewer', 'clientViewer', 'noToken', 'expired', 'tampered', 'algNone', 'otherOrg', 'wall'] as const
 type Caller = (typeof CALLERS)[number]
 type Expected = Record<Caller, number>
 type Method = 'get' | 'post' | 'put' | 'patch' | 'delete'
@@ -38,6 +39,8 @@ type World = {
   freshOverride(siteId: number): Promise<number>
   freshWallKey(): Promise<{ id: number; key: string }>
   freshMail(): Promise<number>
+  freshClient(): Promise<number>
+  freshVisit(): Promise<number>
 }
 
 /** What one case sends: the values for the route's `:params` (in order) and the body, all made fresh per case. */
@@ -46,11 +49,15 @@ type RouteCase = { method: Method; route: string; expected: Expected; prepare: (
 
 /** Open routes: the secret is in the path or body, so any token (a wall key too) changes nothing. */
 const everyone = (status: number) => Object.fromEntries(CALLERS.map((c) => [c, status])) as Expected
-/** `otherOrg` is the owner of another organization: the strongest role, so only tenancy can stop it. */
-const signedIn = (owner: number, keeper: number, viewer: number, otherOrg: number): Expected => ({
+/**
+ * `otherOrg` is the owner of another organization: the strongest role, so only tenancy can stop it.
+ * `clientViewer` defaults from the viewer (see `row`) unless given.
+ */
+const signedIn = (owner: number, keeper: number, viewer: number, otherOrg: number, clientViewer = NaN): Expected => ({
   owner,
   keeper,
   viewer,
+  clientViewer,
   otherOrg,
   noToken: 401,
   expired: 401,
@@ -58,10 +65,15 @@ const signedIn = (owner: number, keeper: number, viewer: number, otherOrg: numbe
   algNone: 401,
   wall: 401,
 })
+/**
+ * A client's viewer has the viewer's permissions over fewer rows: where a viewer reads a row a case
+ * made fresh (a tank, a site, an incident…), the client's viewer is told it does not exist.
+ */
+const clientViewerOf = (route: string, viewer: number) => (viewer === 200 && route.includes('/:') ? 404 : viewer)
 const row = (method: Method, route: string, expected: Expected, prepare: RouteCase['prepare'] = () => ({})): RouteCase => ({
   method,
   route,
-  expected,
+  expected: Number.isNaN(expected.clientViewer) ? { ...expected, clientViewer: clientViewerOf(route, expected.viewer) } : expected,
   prepare,
 })
 const ownerOnly = signedIn(200, 403, 403, 404)
@@ -279,6 +291,32 @@ const ROUTES: RouteCase[] = [
     row('get', `/tanks/:id/exports/${kind}.csv`, readable, async (w) => ({ param: await w.freshTank(), query: EXPORT_RANGE })),
     row('get', `/sites/:id/exports/${kind}.csv`, readable, async (w) => ({ param: await w.freshSite(), query: EXPORT_RANGE })),
   ]),
+  // Clients: staff read them, owners keep them; each owner sees only their own organization's list.
+  row('get', '/clients', signedIn(200, 200, 403, 200)),
+  row('get', '/clients/:id', signedIn(200, 200, 403, 404), async (w) => ({ param: await w.freshClient() })),
+  row('post', '/clients', signedIn(201, 403, 403, 201), () => ({ body: { kind: 'company', name: 'Harbour Dental' } })),
+  row('patch', '/clients/:id', ownerOnly, async (w) => ({ param: await w.freshClient(), body: { phone: '+49 30 1234' } })),
+  row('post', '/clients/:id/archive', ownerOnly, async (w) => ({ param: await w.freshClient() })),
+  row('post', '/clients/:id/unarchive', ownerOnly, async (w) => ({ param: await w.freshClient() })),
+  // A client's report: anyone who may read reports and see every site; another client's person is told it does not exist.
+  row('get', '/clients/:id/report', readable, async (w) => ({ param: await w.freshClient() })),
+  row('get', '/clients/:id/report/pdf', readable, async (w) => ({ param: await w.freshClient() })),
+  // Visits: owners plan, the technician (here the keeper) works them; viewers read closed ones only, so a planned one is not there for them.
+  row('get', '/visits', signedIn(200, 200, 200, 200)),
+  row('post', '/visits', signedIn(201, 403, 403, 400), async (w) => {
+    const clientId = await w.freshClient()
+    const tank = await t.ctx.models.Tank.findOne({ where: { clientId } })
+    return {
+      body: { clientId, siteId: tank!.siteId, technicianId: w.org.users.keeper.id, startsAt: inHours(1), endsAt: inHours(2), tankIds: [tank!.id] },
+    }
+  }),
+  row('get', '/visits/:id', signedIn(200, 200, 404, 404), async (w) => ({ param: await w.freshVisit() })),
+  row('patch', '/visits/:id', ownerOnly, async (w) => ({ param: await w.freshVisit(), body: { notes: 'Bring a spare heater' } })),
+  row('delete', '/visits/:id', ownerDeletes, async (w) => ({ param: await w.freshVisit() })),
+  row('post', '/visits/:id/start', handlers, async (w) => ({ param: await w.freshVisit() })),
+  row('post', '/visits/:id/close', handlers, async (w) => ({ param: await w.freshVisit(), body: {} })),
+  row('get', '/visits/:id/report/pdf', signedIn(200, 200, 404, 404), async (w) => ({ param: await w.freshVisit() })),
+  row('get', '/rounds', signedIn(200, 200, 403, 200)),
   row('get', '/backup', signedIn(200, 403, 403, 200)),
   // No file sent: an owner reaches the upload check (400), others stop at the role.
   row('post', '/backup/restore', signedIn(400, 403, 403, 400)),
@@ -294,6 +332,7 @@ let org: TestOrg
 let other: TestOrg
 let world: World
 let emailCounter = 0
+let clientViewerId = 0
 
 const ownerActor = (o: TestOrg): UserActor => ({
   kind: 'user',
@@ -330,6 +369,8 @@ async function tokenFor(caller: Caller): Promise<string | null> {
     case 'keeper':
     case 'viewer':
       return freshToken(org.users[caller].id)
+    case 'clientViewer':
+      return freshToken(clientViewerId)
     case 'otherOrg':
       return freshToken(other.users.owner.id)
     case 'wall':
@@ -475,6 +516,25 @@ beforeAll(async () => {
       const { credential, link } = await wallService(t.ctx).createCredential(ownerActor(org), org.siteIds[0], 'Roles wall')
       return { id: credential.id, key: new URL(link, 'http://localhost').searchParams.get('key')! }
     },
+    async freshClient() {
+      const client = await models.Client.create({ organizationId: org.organizationId, kind: 'company', name: 'Fresh client' })
+      await models.Tank.update({ clientId: client.id }, { where: { id: await world.freshTank() } })
+      return client.id
+    },
+    async freshVisit() {
+      const clientId = await world.freshClient()
+      const tank = await models.Tank.findOne({ where: { clientId } })
+      const visit = await models.Visit.create({
+        organizationId: org.organizationId,
+        clientId,
+        siteId: tank!.siteId,
+        technicianId: org.users.keeper.id,
+        startsAt: new Date(),
+        endsAt: new Date(Date.now() + HOUR),
+        tankIds: [tank!.id],
+      })
+      return visit.id
+    },
     async freshMail() {
       const mail = await models.FakeMailboxMessage.create({
         organizationId: org.organizationId,
@@ -490,6 +550,19 @@ beforeAll(async () => {
       return mail.id
     },
   }
+})
+beforeAll(async () => {
+  const client = await t.ctx.models.Client.create({ organizationId: org.organizationId, kind: 'person', name: 'Own client' })
+  await t.ctx.models.Tank.update({ clientId: client.id }, { where: { id: await world.freshTank() } })
+  const person = await t.ctx.models.User.create({
+    organizationId: org.organizationId,
+    email: 'client-person@roles.example',
+    name: 'Client person',
+    role: 'viewer',
+    clientId: client.id,
+    passwordHash: (await t.ctx.models.User.findByPk(org.users.viewer.id))!.passwordHash,
+  })
+  clientViewerId = person.id
 })
 afterAll(async () => {
   console.log(`route-roles: ${CASES.length} cases (${ROUTES.length} routes × ${CALLERS.length} callers)`)

@@ -152,7 +152,7 @@ describe('managing users', () => {
   it('lists the organization’s users by name, without password hashes', async () => {
     const res = await t.api().get('/api/v1/users').set(teamOwner)
     expect(res.body.map((u: { name: string }) => u.name)).toEqual(['keeper of Team', 'owner of Team', 'viewer of Team'])
-    expect(Object.keys(res.body[0]).sort()).toEqual(['active', 'createdAt', 'email', 'id', 'name', 'organizationId', 'role', 'siteIds'])
+    expect(Object.keys(res.body[0]).sort()).toEqual(['active', 'clientId', 'createdAt', 'email', 'id', 'name', 'organizationId', 'role', 'siteIds'])
   })
 
   it('a role change applies and ends the user’s sessions; a rename with the same role does not', async () => {

@@ -37,6 +37,11 @@ export function testRouter(): Router {
     'reset-password',
     'overview',
     'setup',
+    'clients',
+    'client',
+    'round',
+    'visits',
+    'visit',
   ]
   const paths: Record<string, string> = {
     'sign-in': '/sign-in',
@@ -63,6 +68,11 @@ export function testRouter(): Router {
     'reset-password': '/reset-password',
     overview: '/',
     setup: '/setup',
+    clients: '/clients',
+    client: '/clients/:id',
+    round: '/round',
+    visits: '/visits',
+    visit: '/visits/:id',
   }
   return createRouter({
     history: createMemoryHistory(),
@@ -78,6 +88,7 @@ export function userWithRole(role: Role): PublicUser {
     role,
     active: true,
     siteIds: [],
+    clientId: null,
     organizationId: 1,
     createdAt: '2025-01-01T00:00:00.000Z',
   }

@@ -82,6 +82,8 @@ const tank: PublicTank = {
   name: 'Quarantine A',
   siteId: 3,
   siteName: 'Back fish room',
+  clientId: null,
+  clientName: null,
   kind: 'marine',
   stage: 'quarantine',
   dimensions: null,

@@ -68,6 +68,7 @@ describe('SignInView', () => {
         role: 'keeper',
         active: true,
         siteIds: [],
+        clientId: null,
         organizationId: 1,
         createdAt: '2025-01-01T00:00:00.000Z',
       },

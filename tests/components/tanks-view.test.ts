@@ -29,6 +29,8 @@ const tank: TankListItem = {
   name: 'Discus row 2',
   siteId: 3,
   siteName: 'Back fish room',
+  clientId: null,
+  clientName: null,
   kind: 'tropical_freshwater',
   stage: 'established',
   dimensions: { shape: 'rectangular', lengthCm: 120, widthCm: 50, heightCm: 50 },

@@ -80,7 +80,8 @@ afterAll(async () => {
 
 describe('the live demo at the default speed', () => {
   it('opens nothing from the seeded month when the engine starts', async () => {
-    expect(nodes).toHaveLength(9)
+    // The shop's and fish room's nine live tanks and the clients' three.
+    expect(nodes).toHaveLength(12)
     expect(await count(`SELECT count(*)::int AS n FROM incidents WHERE state <> 'resolved'`)).toBe(0)
     expect(await count('SELECT count(*)::int AS n FROM mail_outbox')).toBe(0)
   })

@@ -25,6 +25,7 @@ export interface BandDraft {
 export interface TankDraft {
   name: string
   siteId: number | null
+  clientId: number | null
   kind: TankKind
   stage: TankStage
   volumeMode: 'dimensions' | 'entered'
@@ -61,6 +62,7 @@ export function emptyDraft(kind: TankKind = 'tropical_freshwater', siteId: numbe
   return {
     name: '',
     siteId,
+    clientId: null,
     kind,
     stage: 'cycling',
     volumeMode: 'dimensions',
@@ -91,6 +93,7 @@ export function draftFromTank(tank: PublicTank): TankDraft {
   return {
     ...emptyDraft(tank.kind, tank.siteId),
     name: tank.name,
+    clientId: tank.clientId,
     stage: tank.stage,
     volumeMode: dims ? 'dimensions' : 'entered',
     shape: dims?.shape ?? 'rectangular',
@@ -156,6 +159,7 @@ export function candidateFromDraft(draft: TankDraft): Record<string, unknown> {
   return {
     name: draft.name,
     siteId: draft.siteId ?? undefined,
+    clientId: draft.clientId,
     kind: draft.kind,
     stage: draft.stage,
     dimensions: byDimensions ? shapeFromDraft(draft) : null,

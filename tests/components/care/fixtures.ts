@@ -7,6 +7,8 @@ export const careTank: PublicTank = {
   name: 'Show tank 3',
   siteId: 3,
   siteName: 'Front shop',
+  clientId: null,
+  clientName: null,
   kind: 'tropical_freshwater',
   stage: 'established',
   dimensions: { shape: 'rectangular', lengthCm: 100, widthCm: 40, heightCm: 50 },

@@ -1,0 +1,2 @@
+// What other features may use of clients/; everything else in the folder is its own.
+export { clientsService } from './clients'
