@@ -25,6 +25,7 @@ import { buildRoutes } from './builds/routes'
 import { maintenanceRouter, siteMaintenanceRoutes } from './incidents/maintenance-routes'
 import { setupRouter } from './setup/routes'
 import { overviewRouter } from './overview/routes'
+import { livestockRouter } from './livestock/routes'
 import { importSourcesRouter, importsRouter, siteImportRoutes, tankImportRoutes } from './imports/routes'
 
 export const API_VERSION = '0.1.0'
@@ -81,6 +82,7 @@ export function apiRouter(ctx: AppContext) {
   router.use(['/care-tasks', '/water-changes', '/care'], requireUser)
   router.use(careRouter(ctx))
   router.use('/ack-links', ackLinksRouter(ctx))
+  router.use('/livestock', requireUser, livestockRouter(ctx))
   router.use('/tanks', requireUser, reportRoutes(ctx, 'tank'))
   router.use('/sites', requireUser, reportRoutes(ctx, 'site'))
   router.use('/report-schedules', requireUser, reportSchedulesRouter(ctx))

@@ -18,6 +18,7 @@ import { Photo } from './photos/model'
 import { ReportSchedule } from './reports/schedule-model'
 import { ImportJob, ImportSource } from './imports/models'
 import { BuildStep, TankBuild } from './builds/models'
+import { LivestockEvent } from './livestock/models'
 
 export {
   Organization,
@@ -52,6 +53,7 @@ export {
   BuildStep,
   SiteIncident,
   MaintenanceWindow,
+  LivestockEvent,
 }
 
 /** Every model, in the order they are bound. */
@@ -88,6 +90,7 @@ const ALL_MODELS = {
   BuildStep,
   SiteIncident,
   MaintenanceWindow,
+  LivestockEvent,
 }
 
 /** Binds every model to this Sequelize instance and declares the associations, in one place. */

@@ -102,6 +102,10 @@ export class LivestockEntry extends Model<InferAttributes<LivestockEntry>, Infer
   declare notes: CreationOptional<string>
   declare removedAt: CreationOptional<Date | null>
   declare watchUntil: CreationOptional<Date | null>
+  /** The batch this one was split from when part of it moved tanks. */
+  declare parentId: CreationOptional<number | null>
+  /** Animals that left alive: split off to another tank, sold, or gone to a client's tank. */
+  declare movedOut: CreationOptional<number>
   declare createdBy: CreationOptional<number | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -122,6 +126,8 @@ export class LivestockEntry extends Model<InferAttributes<LivestockEntry>, Infer
         notes: text(),
         removedAt: optionalDate(),
         watchUntil: optionalDate(),
+        parentId: optionalInt(),
+        movedOut: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
         createdBy: optionalInt(),
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,

@@ -133,6 +133,10 @@ export interface PublicLivestockEntry {
   category: SpeciesCategory
   count: number
   losses: number
+  /** Animals that left alive: moved to another tank as a new batch, sold, gone to a client. */
+  movedOut: number
+  /** The batch this one was split from, when part of a batch moved here. */
+  parentId: number | null
   addedAt: string
   source: string
   notes: string

@@ -181,7 +181,7 @@ async function buildOrganization() {
     water_change_id: change,
   })
   await t.ctx.sequelize.query('UPDATE water_changes SET care_log_entry_id = $1 WHERE id = $2', { bind: [log, change] })
-  await insertRow(t.ctx, 'livestock', {
+  const batch = await insertRow(t.ctx, 'livestock', {
     organization_id: o,
     tank_id: tank2,
     species_key: 'zebra_danio',
@@ -190,6 +190,28 @@ async function buildOrganization() {
     count: 8,
     added_at: '2026-06-20T10:00:00Z',
     created_by: keeper,
+  })
+  const split = await insertRow(t.ctx, 'livestock', {
+    organization_id: o,
+    tank_id: tank,
+    species_key: 'zebra_danio',
+    name: 'Zebra danio',
+    category: 'fish',
+    count: 3,
+    added_at: '2026-06-20T10:00:00Z',
+    parent_id: batch,
+  })
+  await t.ctx.sequelize.query('UPDATE livestock SET moved_out = 3 WHERE id = $1', { bind: [batch] })
+  await insertRow(t.ctx, 'livestock_events', {
+    organization_id: o,
+    livestock_id: batch,
+    kind: 'moved',
+    at: '2026-06-25T10:00:00Z',
+    count: 3,
+    from_tank_id: tank2,
+    to_tank_id: tank,
+    split_id: split,
+    user_id: keeper,
   })
   const entry = await insertRow(t.ctx, 'test_kit_entries', {
     organization_id: o,

@@ -87,6 +87,21 @@ async function keepersEntry(w: World) {
   return entry.id
 }
 
+/** A batch of fish in a fresh tank of the organization's first site. */
+async function freshBatch(w: World) {
+  const tankId = await w.freshTank()
+  const batch = await t.ctx.models.LivestockEntry.create({
+    organizationId: w.org.organizationId,
+    tankId,
+    speciesKey: null,
+    name: 'Ember tetra',
+    category: 'fish',
+    count: 10,
+    addedAt: new Date(),
+  })
+  return batch.id
+}
+
 /** The care routes have their role matrix in care-roles.test.ts (owner, keeper, viewer, other org, no token). */
 const CHECKED_IN_CARE_ROLES = [
   'GET /tanks/:id/care-tasks',
@@ -235,6 +250,13 @@ const ROUTES: RouteCase[] = [
   row('post', '/sites/:id/maintenance-windows', signedIn(201, 201, 403, 404), async (w) => ({ param: await w.freshSite(), body: maintenanceBody })),
   row('post', '/maintenance-windows/:id/cancel', handlers, async (w) => ({ param: await w.freshMaintenanceWindow() })),
   row('get', '/incidents', signedIn(200, 200, 200, 200)),
+  row('get', '/livestock/batches', signedIn(200, 200, 200, 200)),
+  row('get', '/livestock/batches/:id', readable, async (w) => ({ param: await freshBatch(w) })),
+  row('post', '/livestock/batches/:id/move', handlers, async (w) => ({ param: await freshBatch(w), body: { toTankId: await w.freshTank(), confirm: true } })),
+  row('post', '/livestock/batches/:id/losses', handlers, async (w) => ({ param: await freshBatch(w), body: { count: 1, cause: 'jumped' } })),
+  row('post', '/livestock/batches/:id/out', handlers, async (w) => ({ param: await freshBatch(w), body: { outcome: 'sold', count: 2 } })),
+  row('get', '/livestock/stock', signedIn(200, 200, 200, 200)),
+  row('get', '/livestock/stock.csv', signedIn(200, 200, 200, 200)),
   row('get', '/incidents/:id', readable, async (w) => ({ param: await w.freshIncident() })),
   row('post', '/incidents/:id/acknowledge', handlers, async (w) => ({ param: await w.freshIncident(), body: { note: 'On it' } })),
   row('post', '/incidents/:id/resolve', handlers, async (w) => ({ param: await w.freshIncident(), body: { note: 'Heater replaced' } })),

@@ -22,6 +22,8 @@ const neon: PublicLivestockEntry = {
   category: 'fish',
   count: 12,
   losses: 1,
+  movedOut: 0,
+  parentId: null,
   addedAt: '2026-03-03T09:00:00.000Z',
   source: 'Harbour wholesale',
   notes: '',

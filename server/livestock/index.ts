@@ -1,0 +1,3 @@
+// What other features may use of livestock/; everything else in the folder is its own.
+export { batchesService } from './batches'
+export { stockService } from './stock'
