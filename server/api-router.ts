@@ -26,6 +26,7 @@ import { maintenanceRouter, siteMaintenanceRoutes } from './incidents/maintenanc
 import { setupRouter } from './setup/routes'
 import { overviewRouter } from './overview/routes'
 import { livestockRouter } from './livestock/routes'
+import { consumablesRouter, equipmentRouter, siteConsumableRoutes, tankEquipmentRoutes } from './equipment/routes'
 import { importSourcesRouter, importsRouter, siteImportRoutes, tankImportRoutes } from './imports/routes'
 
 export const API_VERSION = '0.1.0'
@@ -58,6 +59,7 @@ export function apiRouter(ctx: AppContext) {
     exportRoutes(ctx, 'site'),
     siteImportRoutes(ctx),
     siteMaintenanceRoutes(ctx),
+    siteConsumableRoutes(ctx),
   )
   router.use('/wall-credentials', requireUser, wallCredentialsRouter(ctx))
   router.use(
@@ -72,6 +74,7 @@ export function apiRouter(ctx: AppContext) {
     exportRoutes(ctx, 'tank'),
     tankImportRoutes(ctx),
     buildRoutes(ctx),
+    tankEquipmentRoutes(ctx),
   )
   router.use('/test-kit-entries', requireUser, testKitEntriesRouter(ctx))
   router.use('/rules', requireUser, rulesRouter(ctx))
@@ -83,6 +86,8 @@ export function apiRouter(ctx: AppContext) {
   router.use(careRouter(ctx))
   router.use('/ack-links', ackLinksRouter(ctx))
   router.use('/livestock', requireUser, livestockRouter(ctx))
+  router.use('/equipment', requireUser, equipmentRouter(ctx))
+  router.use('/consumables', requireUser, consumablesRouter(ctx))
   router.use('/tanks', requireUser, reportRoutes(ctx, 'tank'))
   router.use('/sites', requireUser, reportRoutes(ctx, 'site'))
   router.use('/report-schedules', requireUser, reportSchedulesRouter(ctx))

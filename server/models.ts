@@ -19,6 +19,7 @@ import { ReportSchedule } from './reports/schedule-model'
 import { ImportJob, ImportSource } from './imports/models'
 import { BuildStep, TankBuild } from './builds/models'
 import { LivestockEvent } from './livestock/models'
+import { Consumable, Equipment } from './equipment/models'
 
 export {
   Organization,
@@ -54,6 +55,8 @@ export {
   SiteIncident,
   MaintenanceWindow,
   LivestockEvent,
+  Equipment,
+  Consumable,
 }
 
 /** Every model, in the order they are bound. */
@@ -91,6 +94,8 @@ const ALL_MODELS = {
   SiteIncident,
   MaintenanceWindow,
   LivestockEvent,
+  Equipment,
+  Consumable,
 }
 
 /** Binds every model to this Sequelize instance and declares the associations, in one place. */

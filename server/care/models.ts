@@ -26,6 +26,9 @@ export class CareTask extends Model<InferAttributes<CareTask>, InferCreationAttr
   declare snoozedUntil: CreationOptional<Date | null>
   declare snoozeReason: CreationOptional<string | null>
   declare active: CreationOptional<boolean>
+  /** A consumable the task uses up, and how much each time (in the consumable's unit). */
+  declare consumableId: CreationOptional<number | null>
+  declare consumableAmount: CreationOptional<number | null>
   declare createdBy: CreationOptional<number | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -46,6 +49,8 @@ export class CareTask extends Model<InferAttributes<CareTask>, InferCreationAttr
         snoozedUntil: optionalDate(),
         snoozeReason: { type: DataTypes.TEXT, allowNull: true },
         active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+        consumableId: optionalInt(),
+        consumableAmount: optionalNumber(),
         createdBy: optionalInt(),
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,

@@ -131,6 +131,16 @@ async function buildOrganization() {
     ends_at: '2026-07-03T16:00:00Z',
     note: 'covering',
   })
+  const salt = await insertRow(t.ctx, 'consumables', {
+    organization_id: o,
+    site_id: site,
+    kind: 'salt',
+    name: 'Reef salt',
+    unit: 'kg',
+    quantity: 12.5,
+    low_at: 2,
+    expires_on: '2027-03-01',
+  })
   const task = await insertRow(t.ctx, 'care_tasks', {
     organization_id: o,
     tank_id: tank,
@@ -139,6 +149,20 @@ async function buildOrganization() {
     recurrence: JSON.stringify({ kind: 'interval', everyDays: 7 }),
     starts_on: '2026-07-01',
     last_done_by: keeper,
+    consumable_id: salt,
+    consumable_amount: 1.5,
+  })
+  await insertRow(t.ctx, 'equipment', {
+    organization_id: o,
+    tank_id: tank,
+    kind: 'lamp',
+    name: 'Display lamp',
+    model: 'T5 tube',
+    watts: 39,
+    installed_on: '2026-01-10',
+    service_action: 'replace',
+    service_every_days: 365,
+    care_task_id: task,
   })
   const build = await insertRow(t.ctx, 'tank_builds', {
     organization_id: o,

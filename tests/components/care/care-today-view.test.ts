@@ -20,7 +20,7 @@ const tasks = [
 
 beforeEach(() => {
   vi.mocked(getCareToday).mockReset()
-  vi.mocked(getCareToday).mockResolvedValue({ siteIds: [3], onDuty: true, tasks, watch: [] })
+  vi.mocked(getCareToday).mockResolvedValue({ siteIds: [3], onDuty: true, tasks, watch: [], stock: [] })
   vi.mocked(markCareTasksDone).mockReset()
   vi.mocked(listSites).mockResolvedValue([{ id: 3, name: 'Front shop', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 4 }])
 })
@@ -73,7 +73,7 @@ describe('CareTodayView', () => {
     expect(getCareToday).toHaveBeenCalledWith({ siteId: 3 })
 
     localStorage.clear()
-    vi.mocked(getCareToday).mockResolvedValue({ siteIds: [3], onDuty: false, tasks, watch: [] })
+    vi.mocked(getCareToday).mockResolvedValue({ siteIds: [3], onDuty: false, tasks, watch: [], stock: [] })
     const wrapper = await mountToday()
     expect(wrapper.find('[data-test="care-today-off-duty"]').text()).toContain('every site you can see is listed')
     expect(wrapper.find('[data-test="care-today-empty"]').exists()).toBe(false)
@@ -113,6 +113,7 @@ describe('CareTodayView', () => {
       siteIds: [3],
       onDuty: true,
       tasks: [],
+      stock: [],
       watch: [
         {
           tank: { id: 21, name: 'Quarantine Q1' },

@@ -1,0 +1,3 @@
+// What other features may use of equipment/; everything else in the folder is its own.
+export { checkTaskConsumable, consumableAlerts, drawDown } from './consumables'
+export { heaterAge } from './equipment'
