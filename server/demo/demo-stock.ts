@@ -56,17 +56,41 @@ export async function seedDemoStock(ctx: AppContext, actor: UserActor, now = Dat
   const serviced = async (piece: { careTaskId: number | null }, days: number) =>
     piece.careTaskId && tasks.markDone(actor, piece.careTaskId, { at: at(now, days), notes: '', values: {} })
   await serviced(
-    await put('Display 1 — community', { kind: 'heater', name: 'Main heater', model: 'Glass heater, adjustable', watts: 200, installedOn: monthsAgo(now, 27), notes: '' }),
+    await put('Display 1 — community', {
+      kind: 'heater',
+      name: 'Main heater',
+      model: 'Glass heater, adjustable',
+      watts: 200,
+      installedOn: monthsAgo(now, 27),
+      notes: '',
+    }),
     9,
   )
   // The one lamp due: its yearly tube change is a month overdue.
   await put('Display 1 — community', { kind: 'lamp', name: 'Front lamp', model: 'T5 tube 895 mm', watts: 39, installedOn: monthsAgo(now, 13), notes: '' })
-  await put('Display 1 — community', { kind: 'filter', name: 'Canister filter', model: 'External canister, 1 200 L/h', watts: 15, installedOn: daysAgo(now, 60), notes: '' })
+  await put('Display 1 — community', {
+    kind: 'filter',
+    name: 'Canister filter',
+    model: 'External canister, 1 200 L/h',
+    watts: 15,
+    installedOn: daysAgo(now, 60),
+    notes: '',
+  })
   await put('Reef display', { kind: 'pump', name: 'Return pump', model: 'DC return pump', watts: 35, installedOn: daysAgo(now, 50), notes: '' })
   await put('Reef display', { kind: 'probe', name: 'pH probe', model: 'Glass electrode', watts: null, installedOn: daysAgo(now, 20), notes: '' })
-  await serviced(await put('Reef display', { kind: 'heater', name: 'Sump heater', model: 'Titanium heater', watts: 300, installedOn: monthsAgo(now, 8), notes: '' }), 16)
   await serviced(
-    await put('Breeding cylinder C1', { kind: 'heater', name: 'Cylinder heater', model: 'Glass heater', watts: 100, installedOn: monthsAgo(now, 40), notes: '' }),
+    await put('Reef display', { kind: 'heater', name: 'Sump heater', model: 'Titanium heater', watts: 300, installedOn: monthsAgo(now, 8), notes: '' }),
+    16,
+  )
+  await serviced(
+    await put('Breeding cylinder C1', {
+      kind: 'heater',
+      name: 'Cylinder heater',
+      model: 'Glass heater',
+      watts: 100,
+      installedOn: monthsAgo(now, 40),
+      notes: '',
+    }),
     22,
   )
 
@@ -75,9 +99,28 @@ export async function seedDemoStock(ctx: AppContext, actor: UserActor, now = Dat
   const fishroom = sites.get('Cedar Row fish room')!
   await supplies.create(actor, shop, { kind: 'salt', name: 'Reef salt', unit: 'kg', quantity: 18, lowAt: 5, expiresOn: null, notes: '' })
   const carbon = await supplies.create(actor, shop, { kind: 'carbon', name: 'Activated carbon', unit: 'l', quantity: 4, lowAt: 1, expiresOn: null, notes: '' })
-  await supplies.create(actor, shop, { kind: 'reagent', name: 'Nitrite test reagent', unit: 'ml', quantity: 40, lowAt: 10, expiresOn: daysAgo(now, 12), notes: '' })
-  await supplies.create(actor, shop, { kind: 'reagent', name: 'Ammonia test reagent 1', unit: 'ml', quantity: 55, lowAt: 10, expiresOn: daysAgo(now, -300), notes: '' })
+  await supplies.create(actor, shop, {
+    kind: 'reagent',
+    name: 'Nitrite test reagent',
+    unit: 'ml',
+    quantity: 40,
+    lowAt: 10,
+    expiresOn: daysAgo(now, 12),
+    notes: '',
+  })
+  await supplies.create(actor, shop, {
+    kind: 'reagent',
+    name: 'Ammonia test reagent 1',
+    unit: 'ml',
+    quantity: 55,
+    lowAt: 10,
+    expiresOn: daysAgo(now, -300),
+    notes: '',
+  })
   await supplies.create(actor, fishroom, { kind: 'filter_media', name: 'Coarse sponge pads', unit: 'pads', quantity: 2, lowAt: 3, expiresOn: null, notes: '' })
   // Display 1's media change uses carbon from here on.
-  await ctx.models.CareTask.update({ consumableId: carbon.id, consumableAmount: 0.25 }, { where: { tankId: tankId('Display 1 — community'), kind: 'media_replace' } })
+  await ctx.models.CareTask.update(
+    { consumableId: carbon.id, consumableAmount: 0.25 },
+    { where: { tankId: tankId('Display 1 — community'), kind: 'media_replace' } },
+  )
 }

@@ -73,7 +73,13 @@ export const consumablesService = perContext((ctx: AppContext) => {
   return {
     async list(actor: UserActor, siteId: number, now = new Date()): Promise<PublicConsumable[]> {
       const site = await sitesService(ctx).find(actor, siteId)
-      const rows = await models.Consumable.findAll({ where: { siteId: site.id }, order: [['kind', 'ASC'], ['name', 'ASC']] })
+      const rows = await models.Consumable.findAll({
+        where: { siteId: site.id },
+        order: [
+          ['kind', 'ASC'],
+          ['name', 'ASC'],
+        ],
+      })
       const today = todayIn(site.timeZone, now)
       return rows.map((r) => present(r, today))
     },
@@ -91,4 +97,3 @@ export const consumablesService = perContext((ctx: AppContext) => {
     },
   }
 })
-

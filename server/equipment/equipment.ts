@@ -77,10 +77,7 @@ export const equipmentService = perContext((ctx: AppContext) => {
       }
     }
     if (!fields.active) return null
-    const task = await models.CareTask.create(
-      { organizationId: e.organizationId, tankId: e.tankId, kind: 'equipment_service', ...fields },
-      { transaction },
-    )
+    const task = await models.CareTask.create({ organizationId: e.organizationId, tankId: e.tankId, kind: 'equipment_service', ...fields }, { transaction })
     await e.update({ careTaskId: task.id }, { transaction })
     return task
   }
@@ -108,7 +105,8 @@ export const equipmentService = perContext((ctx: AppContext) => {
 
     async create(actor: UserActor, tankId: number, input: EquipmentInput): Promise<PublicEquipment> {
       const tank = await visibleTank(ctx, actor, tankId)
-      if (input.installedOn > todayIn(zoneOf(tank), new Date())) throw badRequest('installedOn: cannot be in the future', { installedOn: 'cannot be in the future' })
+      if (input.installedOn > todayIn(zoneOf(tank), new Date()))
+        throw badRequest('installedOn: cannot be in the future', { installedOn: 'cannot be in the future' })
       const defaults = SERVICE_DEFAULTS[input.kind]
       const equipment = await sequelize.transaction(async (transaction) => {
         const equipment = await models.Equipment.create(
@@ -154,7 +152,8 @@ export const equipmentService = perContext((ctx: AppContext) => {
           { transaction },
         )
         const what = `${EQUIPMENT_KIND_LABELS[equipment.kind]} replaced: ${equipment.name}`
-        const parts = input.model !== undefined && input.model !== old ? ` (${old || 'old part'} → ${input.model})` : equipment.model ? ` (${equipment.model})` : ''
+        const parts =
+          input.model !== undefined && input.model !== old ? ` (${old || 'old part'} → ${input.model})` : equipment.model ? ` (${equipment.model})` : ''
         await models.CareLogEntry.create(
           {
             organizationId: equipment.organizationId,

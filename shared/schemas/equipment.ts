@@ -20,10 +20,7 @@ export const equipmentInputSchema = z.object({
 export type EquipmentInput = z.infer<typeof equipmentInputSchema>
 export type EquipmentBody = z.input<typeof equipmentInputSchema>
 
-export const equipmentUpdateSchema = equipmentInputSchema
-  .omit({ kind: true })
-  .extend({ retired: z.boolean() })
-  .partial()
+export const equipmentUpdateSchema = equipmentInputSchema.omit({ kind: true }).extend({ retired: z.boolean() }).partial()
 export type EquipmentUpdate = z.infer<typeof equipmentUpdateSchema>
 export type EquipmentUpdateBody = z.input<typeof equipmentUpdateSchema>
 

@@ -51,7 +51,10 @@ describe('equipment on a tank', () => {
     const due = await equipmentDue()
     expect(due.map((task: { kind: string; title: string }) => [task.kind, task.title])).toEqual([['equipment_service', 'Replace the lamp tube: Display lamp']])
 
-    const replaced = await api().post(`/api/v1/equipment/${lamp.id}/replace`).set(as(org, 'keeper')).send({ model: 'T5 39 W tube, new', notes: 'old one flickering' })
+    const replaced = await api()
+      .post(`/api/v1/equipment/${lamp.id}/replace`)
+      .set(as(org, 'keeper'))
+      .send({ model: 'T5 39 W tube, new', notes: 'old one flickering' })
     expect(replaced.status, JSON.stringify(replaced.body)).toBe(200)
     expect(replaced.body).toMatchObject({ installedOn: today(), age: 'today', due: { status: 'later', daysUntilDue: 365 } })
     expect(await equipmentDue()).toEqual([])
@@ -90,7 +93,10 @@ describe('equipment on a tank', () => {
     expect(page.body.heater).toMatchObject({ name: 'Main heater', text: 'Heater installed 2 years 3 months ago' })
 
     await t.ctx.sequelize.transaction((transaction) => createMailNotifier(t.ctx).notify('opened', incident, transaction))
-    const mails = await t.ctx.sequelize.query<{ text: string }>('SELECT text_body AS text FROM mail_outbox WHERE incident_id = $1', { bind: [incident.id], type: QueryTypes.SELECT })
+    const mails = await t.ctx.sequelize.query<{ text: string }>('SELECT text_body AS text FROM mail_outbox WHERE incident_id = $1', {
+      bind: [incident.id],
+      type: QueryTypes.SELECT,
+    })
     expect(mails.length).toBeGreaterThan(0)
     expect(mails[0]!.text).toContain('Equipment: Heater installed 2 years 3 months ago')
   })
@@ -147,11 +153,15 @@ describe('consumables', () => {
       .set(as(org, 'owner'))
       .send({ kind: 'carbon', name: 'Carbon', unit: 'l', quantity: 2 })
     expect(far.status).toBe(201)
-    const task = (body: object) => api().post(`/api/v1/tanks/${tankId}/care-tasks`).set(as(org, 'owner')).send({ kind: 'other', recurrence: { kind: 'interval', everyDays: 7 }, ...body })
+    const task = (body: object) =>
+      api()
+        .post(`/api/v1/tanks/${tankId}/care-tasks`)
+        .set(as(org, 'owner'))
+        .send({ kind: 'other', recurrence: { kind: 'interval', everyDays: 7 }, ...body })
     expect(badFields(await task({ consumableId: far.body.id, consumableAmount: 1 }))).toEqual(['consumableId'])
-    expect(badFields(await api().post(`/api/v1/sites/${siteId}/consumables`).set(as(org, 'keeper')).send({ kind: 'salt', name: 'Salt', unit: 'kg', quantity: -1 }))).toEqual([
-      'quantity',
-    ])
+    expect(
+      badFields(await api().post(`/api/v1/sites/${siteId}/consumables`).set(as(org, 'keeper')).send({ kind: 'salt', name: 'Salt', unit: 'kg', quantity: -1 })),
+    ).toEqual(['quantity'])
     expect((await api().patch(`/api/v1/consumables/${far.body.id}`).set(as(other, 'owner')).send({ quantity: 1 })).status).toBe(404)
     expect((await api().get(`/api/v1/sites/${siteId}/consumables`).set(as(other, 'owner'))).status).toBe(404)
   })

@@ -116,7 +116,14 @@ async function freshEquipment(w: World) {
   return row.id
 }
 async function freshConsumable(w: World) {
-  const row = await t.ctx.models.Consumable.create({ organizationId: w.org.organizationId, siteId: w.org.siteIds[0] as number, kind: 'salt', name: 'Salt', unit: 'kg', quantity: 10 })
+  const row = await t.ctx.models.Consumable.create({
+    organizationId: w.org.organizationId,
+    siteId: w.org.siteIds[0] as number,
+    kind: 'salt',
+    name: 'Salt',
+    unit: 'kg',
+    quantity: 10,
+  })
   return row.id
 }
 

@@ -71,7 +71,10 @@ afterAll(async () => {
 })
 
 async function newTank(name: string, overrides: Record<string, unknown> = {}) {
-  const res = await api(s, '/tanks', org.users.owner.token, { method: 'POST', body: JSON.stringify(sampleTank(org.siteIds[0] as number, { name, ...overrides })) })
+  const res = await api(s, '/tanks', org.users.owner.token, {
+    method: 'POST',
+    body: JSON.stringify(sampleTank(org.siteIds[0] as number, { name, ...overrides })),
+  })
   if (res.status !== 201) throw new Error(`tank ${name}: ${res.status} ${JSON.stringify(res.body)}`)
   return res.body.id as number
 }
