@@ -3,13 +3,17 @@ import { z } from 'zod'
 import type { QuarantineStatus } from '../care/livestock'
 import type { MoveWarning } from '../livestock/move-check'
 import { idSchema } from './common'
+
+/** A row id as PostgreSQL's integer holds it: larger ones are refused here, not by the database. */
+const rowId = z.number().int().positive().max(2_147_483_647, 'no such id')
+const queryId = idSchema.max(2_147_483_647, 'no such id')
 import { instantSchema } from './time'
 
 export const BATCH_EVENT_KINDS = ['arrived', 'moved', 'lost', 'sold', 'to_client', 'removed'] as const
 export type BatchEventKind = (typeof BATCH_EVENT_KINDS)[number]
 
 export const batchMoveSchema = z.object({
-  toTankId: idSchema,
+  toTankId: rowId,
   /** Absent: the whole batch moves. */
   count: z.number().int().min(1, 'at least one').max(100000).optional(),
   at: instantSchema.optional(),
@@ -41,8 +45,8 @@ export type BatchOut = z.infer<typeof batchOutSchema>
 export type BatchOutBody = z.input<typeof batchOutSchema>
 
 export const batchListQuerySchema = z.object({
-  siteId: idSchema.optional(),
-  tankId: idSchema.optional(),
+  siteId: queryId.optional(),
+  tankId: queryId.optional(),
   /** `all` includes batches that have left (sold, gone, lost). */
   status: z.enum(['current', 'all']).default('current'),
 })
@@ -50,7 +54,7 @@ export type BatchListQuery = z.infer<typeof batchListQuerySchema>
 
 export const STOCK_GROUPS = ['tank', 'site', 'species'] as const
 export const stockQuerySchema = z.object({
-  siteId: idSchema.optional(),
+  siteId: queryId.optional(),
   by: z.enum(STOCK_GROUPS).default('tank'),
 })
 export type StockQuery = z.infer<typeof stockQuerySchema>
