@@ -179,7 +179,19 @@ describe('ids beyond what the database holds', () => {
     const tank = await newTank(t, org)
     const id = await arrive(tank, { speciesKey: 'zebra_danio', count: 2 })
     expect(badFields(await post(`${id}/move`, { toTankId: 2 ** 40 }))).toEqual(['toTankId'])
-    expect(badFields(await api().get(`/api/v1/livestock/stock?siteId=${2 ** 40}`).set(as(org, 'viewer')))).toEqual(['siteId'])
-    expect(badFields(await api().get(`/api/v1/livestock/batches?tankId=${2 ** 40}`).set(as(org, 'viewer')))).toEqual(['tankId'])
+    expect(
+      badFields(
+        await api()
+          .get(`/api/v1/livestock/stock?siteId=${2 ** 40}`)
+          .set(as(org, 'viewer')),
+      ),
+    ).toEqual(['siteId'])
+    expect(
+      badFields(
+        await api()
+          .get(`/api/v1/livestock/batches?tankId=${2 ** 40}`)
+          .set(as(org, 'viewer')),
+      ),
+    ).toEqual(['tankId'])
   })
 })
