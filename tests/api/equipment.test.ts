@@ -101,6 +101,16 @@ describe('equipment on a tank', () => {
     expect(mails[0]!.text).toContain('Equipment: Heater installed 2 years 3 months ago')
   })
 
+  it("leaves a tank's equipment reminders out of its copies", async () => {
+    const tankId = await newTank(t, org, { name: 'Copied tank' })
+    await addEquipment(tankId, { kind: 'pump', name: 'Return pump', installedOn: today() })
+    const copy = await api().post(`/api/v1/tanks/${tankId}/duplicate`).set(as(org, 'owner')).send({ count: 1 })
+    expect(copy.status, JSON.stringify(copy.body)).toBe(201)
+    const tasks = await api().get(`/api/v1/tanks/${copy.body.items[0].id}/care-tasks`).set(as(org, 'viewer'))
+    expect(tasks.body.length).toBeGreaterThan(0)
+    expect(tasks.body.map((task: { kind: string }) => task.kind)).not.toContain('equipment_service')
+  })
+
   it('refuses bad equipment, viewers and strangers', async () => {
     const tankId = await newTank(t, org)
     const post = (body: object, role: 'keeper' | 'viewer' = 'keeper') => api().post(`/api/v1/tanks/${tankId}/equipment`).set(as(org, role)).send(body)
