@@ -48,6 +48,8 @@ const screens = [
   ['incidents', '/incidents'],
   ['incident', incidents[0] && `/incidents/${incidents[0].id}`],
   ['care-today', '/care/today'],
+  ['livestock', '/livestock'],
+  ['supplies', '/supplies'],
   ['report', '/reports'],
   ['sites', '/sites'],
   ['roster', site && `/sites/${site.id}/roster`],

@@ -27,6 +27,8 @@ import { setupRouter } from './setup/routes'
 import { overviewRouter } from './overview/routes'
 import { clientsRouter } from './clients/routes'
 import { roundsRouter, visitsRouter } from './visits/routes'
+import { livestockRouter } from './livestock/routes'
+import { consumablesRouter, equipmentRouter, siteConsumableRoutes, tankEquipmentRoutes } from './equipment/routes'
 import { importSourcesRouter, importsRouter, siteImportRoutes, tankImportRoutes } from './imports/routes'
 
 export const API_VERSION = '0.1.0'
@@ -59,6 +61,7 @@ export function apiRouter(ctx: AppContext) {
     exportRoutes(ctx, 'site'),
     siteImportRoutes(ctx),
     siteMaintenanceRoutes(ctx),
+    siteConsumableRoutes(ctx),
   )
   router.use('/wall-credentials', requireUser, wallCredentialsRouter(ctx))
   router.use(
@@ -73,6 +76,7 @@ export function apiRouter(ctx: AppContext) {
     exportRoutes(ctx, 'tank'),
     tankImportRoutes(ctx),
     buildRoutes(ctx),
+    tankEquipmentRoutes(ctx),
   )
   router.use('/test-kit-entries', requireUser, testKitEntriesRouter(ctx))
   router.use('/rules', requireUser, rulesRouter(ctx))
@@ -83,6 +87,9 @@ export function apiRouter(ctx: AppContext) {
   router.use(['/care-tasks', '/water-changes', '/care'], requireUser)
   router.use(careRouter(ctx))
   router.use('/ack-links', ackLinksRouter(ctx))
+  router.use('/livestock', requireUser, livestockRouter(ctx))
+  router.use('/equipment', requireUser, equipmentRouter(ctx))
+  router.use('/consumables', requireUser, consumablesRouter(ctx))
   router.use('/tanks', requireUser, reportRoutes(ctx, 'tank'))
   router.use('/sites', requireUser, reportRoutes(ctx, 'site'))
   router.use('/clients', requireUser, clientsRouter(ctx), reportRoutes(ctx, 'client'))

@@ -20,6 +20,8 @@ import { ImportJob, ImportSource } from './imports/models'
 import { BuildStep, TankBuild } from './builds/models'
 import { Client } from './clients/client-model'
 import { Visit } from './visits/visit-model'
+import { LivestockEvent } from './livestock/models'
+import { Consumable, Equipment } from './equipment/models'
 
 export {
   Organization,
@@ -56,6 +58,9 @@ export {
   MaintenanceWindow,
   Client,
   Visit,
+  LivestockEvent,
+  Equipment,
+  Consumable,
 }
 
 /** Every model, in the order they are bound. */
@@ -94,6 +99,9 @@ const ALL_MODELS = {
   MaintenanceWindow,
   Client,
   Visit,
+  LivestockEvent,
+  Equipment,
+  Consumable,
 }
 
 /** Binds every model to this Sequelize instance and declares the associations, in one place. */

@@ -12,6 +12,7 @@ import { instantNotAhead, presentCareLog, writeCareLog } from './care-log'
 import { whoIsOnDuty } from '../roster'
 import { siteScope, visibleTank } from '../access/scope'
 import { sitesService } from '../sites'
+import { checkTaskConsumable, consumableAlerts, drawDown } from '../equipment'
 import type { CreatedTank } from '../platform/events'
 import { perContext } from '../platform/per-context'
 
@@ -36,6 +37,8 @@ function presentTask(task: CareTask, timeZone: string, now: Date): PublicCareTas
     snoozedUntil: task.snoozedUntil && task.snoozedUntil > now ? task.snoozedUntil.toISOString() : null,
     snoozeReason: task.snoozedUntil && task.snoozedUntil > now ? task.snoozeReason : null,
     active: task.active,
+    consumableId: task.consumableId ?? null,
+    consumableAmount: task.consumableAmount ?? null,
     due: task.active ? careDue(task, timeZone, now) : null,
   }
 }
@@ -143,6 +146,7 @@ export const careTasksService = perContext((ctx: AppContext) => {
 
     async create(actor: UserActor, tankId: number, input: CareTaskInput) {
       const tank = (await visibleTank(ctx, actor, tankId)) as TankWithSite
+      await checkTaskConsumable(ctx, tank.siteId, input.consumableId, input.consumableAmount)
       const task = await models.CareTask.create({
         ...input,
         title: input.title ?? CARE_TASK_KIND_TITLES[input.kind],
@@ -155,6 +159,7 @@ export const careTasksService = perContext((ctx: AppContext) => {
 
     async update(actor: UserActor, id: number, changes: CareTaskUpdate) {
       const { task, tank } = await findTask(actor, id)
+      await checkTaskConsumable(ctx, tank.siteId, changes.consumableId ?? task.consumableId, changes.consumableAmount ?? task.consumableAmount)
       await task.update(changes)
       return presentTask(task, zoneOf(tank), new Date())
     },
@@ -168,6 +173,7 @@ export const careTasksService = perContext((ctx: AppContext) => {
         if (!task.lastDoneAt || task.lastDoneAt < at) {
           await task.update({ lastDoneAt: at, lastDoneBy: actor.userId, snoozedUntil: null, snoozeReason: null }, { transaction })
         }
+        await drawDown(ctx, task, transaction)
         return writeCareLog(
           ctx,
           {
@@ -214,6 +220,7 @@ export const careTasksService = perContext((ctx: AppContext) => {
             continue
           }
           await task.update({ lastDoneAt: at, lastDoneBy: actor.userId, snoozedUntil: null, snoozeReason: null }, { transaction })
+          await drawDown(ctx, task, transaction)
           await writeCareLog(
             ctx,
             {
@@ -267,13 +274,25 @@ export const careTasksService = perContext((ctx: AppContext) => {
       if (query.siteId !== undefined) {
         await sitesService(ctx).find(actor, query.siteId)
         const siteIds = [query.siteId]
-        return { siteIds, onDuty: await isOnDutyAt(actor, query.siteId, now), tasks: await todayAt(siteIds, now), watch: await tanksToWatch(ctx, siteIds, now) }
+        return {
+          siteIds,
+          onDuty: await isOnDutyAt(actor, query.siteId, now),
+          tasks: await todayAt(siteIds, now),
+          watch: await tanksToWatch(ctx, siteIds, now),
+          stock: await consumableAlerts(ctx, siteIds, now),
+        }
       }
       const sites = await models.Site.findAll({ attributes: ['id'], where: { ...siteScope(actor, 'id'), archivedAt: null }, order: [['id', 'ASC']] })
       const mine: number[] = []
       for (const site of sites) if (await isOnDutyAt(actor, site.id, now)) mine.push(site.id)
       const siteIds = mine.length ? mine : sites.map((s) => s.id)
-      return { siteIds, onDuty: mine.length > 0, tasks: await todayAt(siteIds, now), watch: await tanksToWatch(ctx, siteIds, now) }
+      return {
+        siteIds,
+        onDuty: mine.length > 0,
+        tasks: await todayAt(siteIds, now),
+        watch: await tanksToWatch(ctx, siteIds, now),
+        stock: await consumableAlerts(ctx, siteIds, now),
+      }
     },
 
     async siteSummary(actor: UserActor, siteId: number, now = new Date()): Promise<CareDueCounts> {

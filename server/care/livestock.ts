@@ -28,6 +28,8 @@ function present(e: LivestockEntry) {
     category: e.category,
     count: e.count,
     losses: e.losses,
+    movedOut: e.movedOut,
+    parentId: e.parentId ?? null,
     addedAt: e.addedAt.toISOString(),
     source: e.source,
     notes: e.notes,
@@ -141,6 +143,18 @@ export const livestockService = perContext((ctx: AppContext) => {
           },
           transaction,
         )
+        await models.LivestockEvent.create(
+          {
+            organizationId: actor.organizationId,
+            livestockId: entry.id,
+            kind: 'arrived',
+            at: addedAt,
+            count: input.count,
+            toTankId: tank.id,
+            userId: actor.userId,
+          },
+          { transaction },
+        )
         return entry
       })
       return { entry: present(entry), warnings, acclimation, watchUntil: entry.watchUntil?.toISOString() ?? null }
@@ -151,6 +165,11 @@ export const livestockService = perContext((ctx: AppContext) => {
       const { tank, entry } = await findEntry(actor, tankId, entryId)
       const lost = changes.losses !== undefined ? changes.losses - entry.losses : 0
       if (lost < 0) throw badRequest('losses: cannot go down; losses are a running total', { losses: 'cannot go down' })
+      const count = changes.count ?? entry.count
+      if ((changes.losses ?? entry.losses) + entry.movedOut > count) {
+        const field = changes.losses !== undefined ? 'losses' : 'count'
+        throw badRequest(`${field}: more than the batch holds`, { [field]: 'more than the batch holds' })
+      }
       const removedAt = typeof changes.removedAt === 'string' ? instantNotAhead(changes.removedAt, 'removedAt') : changes.removedAt
       const wasRemoved = entry.removedAt !== null
       await sequelize.transaction(async (transaction) => {
@@ -170,8 +189,19 @@ export const livestockService = perContext((ctx: AppContext) => {
             },
             transaction,
           )
-        if (lost > 0) await out(`${lost} × ${entry.name} lost`, { losses: lost })
-        if (changes.removedAt && !wasRemoved) await out(`${entry.name} removed`, { count: entry.count })
+        const event = (kind: 'lost' | 'removed', count: number) =>
+          models.LivestockEvent.create(
+            { organizationId: actor.organizationId, livestockId: entry.id, kind, at: new Date(), count, fromTankId: tank.id, userId: actor.userId },
+            { transaction },
+          )
+        if (lost > 0) {
+          await out(`${lost} × ${entry.name} lost`, { losses: lost })
+          await event('lost', lost)
+        }
+        if (changes.removedAt && !wasRemoved) {
+          await out(`${entry.name} removed`, { count: entry.count })
+          await event('removed', entry.count - entry.losses - entry.movedOut)
+        }
       })
       return present(entry)
     },

@@ -26,6 +26,9 @@ export class CareTask extends Model<InferAttributes<CareTask>, InferCreationAttr
   declare snoozedUntil: CreationOptional<Date | null>
   declare snoozeReason: CreationOptional<string | null>
   declare active: CreationOptional<boolean>
+  /** A consumable the task uses up, and how much each time (in the consumable's unit). */
+  declare consumableId: CreationOptional<number | null>
+  declare consumableAmount: CreationOptional<number | null>
   declare createdBy: CreationOptional<number | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -46,6 +49,8 @@ export class CareTask extends Model<InferAttributes<CareTask>, InferCreationAttr
         snoozedUntil: optionalDate(),
         snoozeReason: { type: DataTypes.TEXT, allowNull: true },
         active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+        consumableId: optionalInt(),
+        consumableAmount: optionalNumber(),
         createdBy: optionalInt(),
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
@@ -102,6 +107,10 @@ export class LivestockEntry extends Model<InferAttributes<LivestockEntry>, Infer
   declare notes: CreationOptional<string>
   declare removedAt: CreationOptional<Date | null>
   declare watchUntil: CreationOptional<Date | null>
+  /** The batch this one was split from when part of it moved tanks. */
+  declare parentId: CreationOptional<number | null>
+  /** Animals that left alive: split off to another tank, sold, or gone to a client's tank. */
+  declare movedOut: CreationOptional<number>
   declare createdBy: CreationOptional<number | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -122,6 +131,8 @@ export class LivestockEntry extends Model<InferAttributes<LivestockEntry>, Infer
         notes: text(),
         removedAt: optionalDate(),
         watchUntil: optionalDate(),
+        parentId: optionalInt(),
+        movedOut: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
         createdBy: optionalInt(),
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,

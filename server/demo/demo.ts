@@ -3,6 +3,7 @@ import type { AppContext } from '../context'
 import { tanksService } from '../tanks'
 import { seedDemoBuild } from './demo-build'
 import { seedDemoHistory } from './demo-history'
+import { seedDemoStock } from './demo-stock'
 import { DEMO_ORGANIZATION, DEMO_PASSWORD, DEMO_ROSTER, DEMO_SITES, DEMO_TANKS, DEMO_USERS } from './demo-scenario'
 import { DEMO_CLIENT_USER, DEMO_CLIENTS, seedDemoVisits, type DemoClientKey } from './demo-clients'
 
@@ -56,6 +57,7 @@ export async function seedDemoIfEmpty(ctx: AppContext): Promise<boolean> {
   }
   const history = await seedDemoHistory(ctx)
   ctx.logger.info(history, 'demo history seeded')
+  await seedDemoStock(ctx, actor)
   // One tank mid-build, after the history: its own readings are the cycling tests of its timeline.
   const fishRoom = DEMO_SITES.find((s) => s.key === 'fishroom')!
   await seedDemoBuild(ctx, { actor, siteId: siteIds.get(fishRoom.name)! })

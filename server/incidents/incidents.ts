@@ -10,6 +10,7 @@ import { incidentKit, type AlertTiming } from './incident-kit'
 import { incidentLifecycle } from './lifecycle'
 import { siteScope } from '../access/scope'
 import { siteGrouping } from './site-incidents'
+import { heaterAge } from '../equipment'
 
 export type { AlertTiming } from './incident-kit'
 export type { TripInput } from './lifecycle'
@@ -165,6 +166,8 @@ export function incidentsService(ctx: AppContext, notifier: IncidentNotifier, ti
       return {
         ...presentIncident(incident),
         timeline: timeline.map((e) => ({ at: e.at.toISOString(), kind: e.kind, userId: e.userId ?? null, detail: e.detail })),
+        // A temperature fault is often the heater's: its age is the first thing worth knowing.
+        heater: incident.metric === 'temperature' ? await heaterAge(ctx, incident.tankId) : null,
       }
     },
 

@@ -24,6 +24,7 @@ import { dutyRecipients } from '../roster'
 import type { IncidentNotifier, NotifyKind, NotifyOptions } from './notifier'
 import { firstStep, needsElectricalCaution, whatToCheck } from './what-to-check'
 import { recentValues } from '../readings'
+import { heaterAge } from '../equipment'
 
 type Person = { userId: number | null; name: string; email: string }
 
@@ -134,6 +135,7 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
         value: incident.latestValue ?? incident.firstValue,
         heaterTopCm: tank?.heater?.topCm,
       })
+      const heater = incident.metric === 'temperature' && tank ? await heaterAge(ctx, tank.id, new Date(), transaction) : null
       for (const person of people) {
         const acknowledgeUrl = kind !== 'resolved' && person.userId ? await ackLinksService(ctx).create(incident.id, person.userId, transaction) : undefined
         const input: IncidentMailInput = {
@@ -154,6 +156,7 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
           safetyCaution: rule && needsElectricalCaution(rule.spec, incident.metric) ? ELECTRICAL_SAFETY_CAUTION : undefined,
           at: kind === 'opened' ? undefined : new Date().toISOString(),
           measurement,
+          heater: heater?.text,
           firstStep: rule ? firstStep(rule.spec, incident.metric, incident.latestValue) : undefined,
           note: options.afterMaintenance
             ? 'It opened during a maintenance window, which has ended while it still holds.'

@@ -6,6 +6,7 @@ import type { CyclingStatus } from '../care/cycling'
 import type { CareTaskKind, CareValues } from '../care/defaults'
 import type { CareDue, CareRecurrence } from '../care/due'
 import type { QuarantineStatus, StockingWarning } from '../care/livestock'
+import type { ConsumableAlert } from './equipment'
 import type { Species, SpeciesCategory } from '../care/species'
 import type { LabelRate, WaterChangePlan } from '../chemistry/water-change'
 import type {
@@ -49,6 +50,8 @@ export interface PublicCareTask {
   snoozedUntil: string | null
   snoozeReason: string | null
   active: boolean
+  consumableId: number | null
+  consumableAmount: number | null
   /** null when the task is switched off. */
   due: CareDue | null
 }
@@ -72,6 +75,8 @@ export interface CareToday {
   onDuty: boolean
   tasks: CareTodayTask[]
   watch: CareTankToWatch[]
+  /** Consumables running low or past their expiry date at these sites. */
+  stock: ConsumableAlert[]
 }
 
 export interface PublicCareLogEntry {
@@ -133,6 +138,10 @@ export interface PublicLivestockEntry {
   category: SpeciesCategory
   count: number
   losses: number
+  /** Animals that left alive: moved to another tank as a new batch, sold, gone to a client. */
+  movedOut: number
+  /** The batch this one was split from, when part of a batch moved here. */
+  parentId: number | null
   addedAt: string
   source: string
   notes: string

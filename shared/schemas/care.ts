@@ -40,6 +40,9 @@ export const careTaskInputSchema = z.object({
   defaultValues: careValuesSchema.default({}),
   startsOn: localDate.nullable().default(null),
   active: z.boolean().default(true),
+  /** A consumable of the tank's site the task uses up, and how much each time (in its unit). */
+  consumableId: z.number().int().positive().max(2_147_483_647, 'no such consumable').nullable().default(null),
+  consumableAmount: z.number().positive('above zero').max(100000).nullable().default(null),
 })
 export type CareTaskInput = z.infer<typeof careTaskInputSchema>
 export const careTaskUpdateSchema = careTaskInputSchema

@@ -26,7 +26,7 @@ export const pageQuerySchema = z.object({
 
 /** The one error shape every API error answers with. */
 export interface ApiErrorBody {
-  error: { code: string; message: string; fields?: Record<string, string>; retryAfterSeconds?: number }
+  error: { code: string; message: string; fields?: Record<string, string>; retryAfterSeconds?: number; details?: Record<string, unknown> }
 }
 
 export interface Page<T> {

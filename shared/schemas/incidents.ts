@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import type { HeaterAge } from './equipment'
 import { pageQuerySchema } from './common'
 import { instantSchema } from './time'
 
@@ -63,6 +64,8 @@ export interface PublicIncident {
 
 export interface IncidentDetail extends PublicIncident {
   timeline: Array<{ at: string; kind: string; userId: number | null; detail: Record<string, unknown> }>
+  /** For a temperature incident: the tank's heater and its age, when one is recorded. */
+  heater: HeaterAge | null
 }
 
 /** What an acknowledge link from an alert mail points at; readable without a session. */

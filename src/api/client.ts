@@ -41,6 +41,7 @@ export function toApiError(error: unknown): ApiError {
       message: body.message,
       fields: body.fields,
       retryAfterSeconds: body.retryAfterSeconds ?? retryAfterHeader(response),
+      details: body.details,
     })
   }
   return new ApiError({

@@ -6,6 +6,7 @@ export interface ApiErrorInit {
   message: string
   fields?: Record<string, string>
   retryAfterSeconds?: number
+  details?: Record<string, unknown>
 }
 
 /** Every failed API call rejects with this, whatever went wrong underneath. */
@@ -14,6 +15,8 @@ export class ApiError extends Error {
   readonly code: string
   readonly fields: Record<string, string>
   readonly retryAfterSeconds: number | null
+  /** What the server wants the caller to see before it asks again (e.g. warnings to confirm). */
+  readonly details: Record<string, unknown>
 
   constructor(init: ApiErrorInit) {
     super(init.message)
@@ -22,6 +25,7 @@ export class ApiError extends Error {
     this.code = init.code
     this.fields = init.fields ?? {}
     this.retryAfterSeconds = init.retryAfterSeconds ?? null
+    this.details = init.details ?? {}
   }
 }
 

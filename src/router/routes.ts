@@ -137,6 +137,8 @@ export const routes: RouteRecordRaw[] = [
       },
       { path: 'incidents', name: 'incidents', component: () => import('@/views/IncidentsView.vue'), meta: { title: 'Incidents' } },
       { path: 'care/today', name: 'care-today', component: () => import('@/views/CareTodayView.vue'), meta: { title: 'Care today' } },
+      { path: 'livestock', name: 'livestock', component: () => import('@/views/LivestockView.vue'), meta: { title: 'Livestock' } },
+      { path: 'supplies', name: 'supplies', component: () => import('@/views/SuppliesView.vue'), meta: { title: 'Supplies' } },
       {
         path: 'incidents/:id(\\d+)',
         name: 'incident',

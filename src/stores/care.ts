@@ -3,6 +3,7 @@ import { computed, ref } from 'vue'
 import type { Species } from '@shared/care/species'
 import * as careApi from '@/api/care'
 import type { CareTankToWatch, CareTaskSnoozeBody, CareTodayTask } from '@shared/schemas/care-api'
+import type { ConsumableAlert } from '@shared/schemas/equipment'
 import { urgentFirst } from '@/components/care/care-words'
 
 export type CareTodayScope = { siteId: number } | { mine: true }
@@ -15,6 +16,7 @@ export const useCareStore = defineStore('care', () => {
   const todaySiteIds = ref<number[]>([])
   const todayOnDuty = ref(true)
   const todayWatch = ref<CareTankToWatch[]>([])
+  const todayStock = ref<ConsumableAlert[]>([])
   const todayLoading = ref(false)
   // Only the newest today request may write: switching site twice quickly must not show the first.
   let todayRequest = 0
@@ -45,6 +47,7 @@ export const useCareStore = defineStore('care', () => {
       todaySiteIds.value = today.siteIds
       todayOnDuty.value = today.onDuty
       todayWatch.value = today.watch ?? []
+      todayStock.value = today.stock ?? []
     } finally {
       if (ticket === todayRequest) todayLoading.value = false
     }
@@ -77,6 +80,7 @@ export const useCareStore = defineStore('care', () => {
     todaySiteIds.value = []
     todayOnDuty.value = true
     todayWatch.value = []
+    todayStock.value = []
     todayLoading.value = false
   }
 
@@ -88,6 +92,7 @@ export const useCareStore = defineStore('care', () => {
     todaySiteIds,
     todayOnDuty,
     todayWatch,
+    todayStock,
     todayLoading,
     loadToday,
     markTodayDone,

@@ -124,7 +124,7 @@ describe('the demo seed', () => {
               coalesce((SELECT array_agg(at ORDER BY at) FROM (
                  SELECT l.at FROM care_log l WHERE l.care_task_id = c.id AND l.kind = 'task_done'
                  UNION ALL SELECT w.finished_at FROM water_changes w WHERE c.kind = 'water_change' AND w.tank_id = c.tank_id AND w.status = 'finished') d), '{}') AS done
-       FROM care_tasks c JOIN tanks t ON t.id = c.tank_id WHERE t.name <> $1`,
+       FROM care_tasks c JOIN tanks t ON t.id = c.tank_id WHERE t.name <> $1 AND c.kind <> 'equipment_service'`,
       [DEMO_BUILD_TANK],
     )
     const late: Array<{ tank: string; kind: string; occurrence: number; daysLate: number }> = []
@@ -186,13 +186,33 @@ describe('the demo seed', () => {
     expect(incidents.find((i) => i.tank === 'Breeding cylinder C1')!.kinds).toContain('escalated')
   })
 
-  it('has one livestock arrival, in quarantine since it came', async () => {
-    const [arrival] = await select<{ name: string; count: number; added_at: Date; watch_until: Date | null; stage: string; stage_changed_at: Date }>(
-      `SELECT l.name, l.count, l.added_at, l.watch_until, t.stage, t.stage_changed_at FROM livestock l JOIN tanks t ON t.id = l.tank_id`,
+  it('has one recent livestock arrival, in quarantine since it came', async () => {
+    const [arrival, ...more] = await select<{ name: string; count: number; added_at: Date; watch_until: Date | null; stage: string; stage_changed_at: Date }>(
+      `SELECT l.name, l.count, l.added_at, l.watch_until, t.stage, t.stage_changed_at FROM livestock l JOIN tanks t ON t.id = l.tank_id
+       WHERE l.added_at > now() - interval '7 days'`,
     )
+    expect(more).toEqual([])
     expect(arrival).toMatchObject({ name: 'Harlequin rasbora', count: 15, stage: 'quarantine' })
     expect(arrival!.stage_changed_at.getTime()).toBe(arrival!.added_at.getTime())
     expect(arrival!.watch_until!.getTime()).toBeGreaterThan(now)
+  })
+
+  it('has batches followed to the sales row and out, equipment with one lamp due, and one expired reagent', async () => {
+    const batches = await select<{ name: string; tank: string; count: number; losses: number; moved_out: number; parent: boolean }>(
+      `SELECT l.name, t.name AS tank, l.count, l.losses, l.moved_out, l.parent_id IS NOT NULL AS parent
+       FROM livestock l JOIN tanks t ON t.id = l.tank_id WHERE l.added_at < now() - interval '7 days' ORDER BY l.id`,
+    )
+    expect(batches).toEqual([
+      { name: 'Neon tetra', tank: 'Quarantine Q1', count: 24, losses: 2, moved_out: 16, parent: false },
+      { name: 'Neon tetra', tank: 'Sales row A1', count: 16, losses: 0, moved_out: 5, parent: true },
+      { name: 'Zebra danio', tank: 'Quarantine Q1', count: 10, losses: 0, moved_out: 10, parent: false },
+    ])
+    const due = await select<{ title: string; starts_on: string }>(
+      `SELECT title, starts_on::text FROM care_tasks WHERE kind = 'equipment_service' AND active AND last_done_at IS NULL AND starts_on <= current_date`,
+    )
+    expect(due.map((d) => d.title)).toEqual(['Replace the lamp tube: Front lamp'])
+    const expired = await select<{ name: string }>(`SELECT name FROM consumables WHERE expires_on < current_date`)
+    expect(expired.map((c) => c.name)).toEqual(['Nitrite test reagent'])
   })
 
   it('has photos of a few tanks, stored in the photo store', async () => {

@@ -131,6 +131,16 @@ async function buildOrganization() {
     ends_at: '2026-07-03T16:00:00Z',
     note: 'covering',
   })
+  const salt = await insertRow(t.ctx, 'consumables', {
+    organization_id: o,
+    site_id: site,
+    kind: 'salt',
+    name: 'Reef salt',
+    unit: 'kg',
+    quantity: 12.5,
+    low_at: 2,
+    expires_on: '2027-03-01',
+  })
   const task = await insertRow(t.ctx, 'care_tasks', {
     organization_id: o,
     tank_id: tank,
@@ -139,6 +149,20 @@ async function buildOrganization() {
     recurrence: JSON.stringify({ kind: 'interval', everyDays: 7 }),
     starts_on: '2026-07-01',
     last_done_by: keeper,
+    consumable_id: salt,
+    consumable_amount: 1.5,
+  })
+  await insertRow(t.ctx, 'equipment', {
+    organization_id: o,
+    tank_id: tank,
+    kind: 'lamp',
+    name: 'Display lamp',
+    model: 'T5 tube',
+    watts: 39,
+    installed_on: '2026-01-10',
+    service_action: 'replace',
+    service_every_days: 365,
+    care_task_id: task,
   })
   const build = await insertRow(t.ctx, 'tank_builds', {
     organization_id: o,
@@ -181,7 +205,7 @@ async function buildOrganization() {
     water_change_id: change,
   })
   await t.ctx.sequelize.query('UPDATE water_changes SET care_log_entry_id = $1 WHERE id = $2', { bind: [log, change] })
-  await insertRow(t.ctx, 'livestock', {
+  const batch = await insertRow(t.ctx, 'livestock', {
     organization_id: o,
     tank_id: tank2,
     species_key: 'zebra_danio',
@@ -190,6 +214,28 @@ async function buildOrganization() {
     count: 8,
     added_at: '2026-06-20T10:00:00Z',
     created_by: keeper,
+  })
+  const split = await insertRow(t.ctx, 'livestock', {
+    organization_id: o,
+    tank_id: tank,
+    species_key: 'zebra_danio',
+    name: 'Zebra danio',
+    category: 'fish',
+    count: 3,
+    added_at: '2026-06-20T10:00:00Z',
+    parent_id: batch,
+  })
+  await t.ctx.sequelize.query('UPDATE livestock SET moved_out = 3 WHERE id = $1', { bind: [batch] })
+  await insertRow(t.ctx, 'livestock_events', {
+    organization_id: o,
+    livestock_id: batch,
+    kind: 'moved',
+    at: '2026-06-25T10:00:00Z',
+    count: 3,
+    from_tank_id: tank2,
+    to_tank_id: tank,
+    split_id: split,
+    user_id: keeper,
   })
   const entry = await insertRow(t.ctx, 'test_kit_entries', {
     organization_id: o,

@@ -99,6 +99,46 @@ async function keepersEntry(w: World) {
   return entry.id
 }
 
+/** A batch of fish in a fresh tank of the organization's first site. */
+async function freshBatch(w: World) {
+  const tankId = await w.freshTank()
+  const batch = await t.ctx.models.LivestockEntry.create({
+    organizationId: w.org.organizationId,
+    tankId,
+    speciesKey: null,
+    name: 'Ember tetra',
+    category: 'fish',
+    count: 10,
+    addedAt: new Date(),
+  })
+  return batch.id
+}
+
+async function freshEquipment(w: World) {
+  const tankId = await w.freshTank()
+  const row = await t.ctx.models.Equipment.create({
+    organizationId: w.org.organizationId,
+    tankId,
+    kind: 'pump',
+    name: 'Return pump',
+    installedOn: '2026-01-05',
+    serviceAction: 'service',
+    serviceEveryDays: 91,
+  })
+  return row.id
+}
+async function freshConsumable(w: World) {
+  const row = await t.ctx.models.Consumable.create({
+    organizationId: w.org.organizationId,
+    siteId: w.org.siteIds[0] as number,
+    kind: 'salt',
+    name: 'Salt',
+    unit: 'kg',
+    quantity: 10,
+  })
+  return row.id
+}
+
 /** The care routes have their role matrix in care-roles.test.ts (owner, keeper, viewer, other org, no token). */
 const CHECKED_IN_CARE_ROLES = [
   'GET /tanks/:id/care-tasks',
@@ -247,6 +287,26 @@ const ROUTES: RouteCase[] = [
   row('post', '/sites/:id/maintenance-windows', signedIn(201, 201, 403, 404), async (w) => ({ param: await w.freshSite(), body: maintenanceBody })),
   row('post', '/maintenance-windows/:id/cancel', handlers, async (w) => ({ param: await w.freshMaintenanceWindow() })),
   row('get', '/incidents', signedIn(200, 200, 200, 200)),
+  row('get', '/livestock/batches', signedIn(200, 200, 200, 200)),
+  row('get', '/livestock/batches/:id', readable, async (w) => ({ param: await freshBatch(w) })),
+  row('post', '/livestock/batches/:id/move', handlers, async (w) => ({ param: await freshBatch(w), body: { toTankId: await w.freshTank(), confirm: true } })),
+  row('post', '/livestock/batches/:id/losses', handlers, async (w) => ({ param: await freshBatch(w), body: { count: 1, cause: 'jumped' } })),
+  row('post', '/livestock/batches/:id/out', handlers, async (w) => ({ param: await freshBatch(w), body: { outcome: 'sold', count: 2 } })),
+  row('get', '/livestock/stock', signedIn(200, 200, 200, 200)),
+  row('get', '/tanks/:id/equipment', readable, async (w) => ({ param: await w.freshTank() })),
+  row('post', '/tanks/:id/equipment', signedIn(201, 201, 403, 404), async (w) => ({
+    param: await w.freshTank(),
+    body: { kind: 'lamp', name: 'Lamp', installedOn: '2026-01-05' },
+  })),
+  row('patch', '/equipment/:id', handlers, async (w) => ({ param: await freshEquipment(w), body: { serviceEveryDays: 60 } })),
+  row('post', '/equipment/:id/replace', handlers, async (w) => ({ param: await freshEquipment(w), body: { notes: 'new impeller' } })),
+  row('get', '/sites/:id/consumables', readable, async (w) => ({ param: await w.freshSite() })),
+  row('post', '/sites/:id/consumables', signedIn(201, 201, 403, 404), async (w) => ({
+    param: await w.freshSite(),
+    body: { kind: 'salt', name: 'Salt', unit: 'kg', quantity: 10 },
+  })),
+  row('patch', '/consumables/:id', handlers, async (w) => ({ param: await freshConsumable(w), body: { quantity: 4 } })),
+  row('get', '/livestock/stock.csv', signedIn(200, 200, 200, 200)),
   row('get', '/incidents/:id', readable, async (w) => ({ param: await w.freshIncident() })),
   row('post', '/incidents/:id/acknowledge', handlers, async (w) => ({ param: await w.freshIncident(), body: { note: 'On it' } })),
   row('post', '/incidents/:id/resolve', handlers, async (w) => ({ param: await w.freshIncident(), body: { note: 'Heater replaced' } })),

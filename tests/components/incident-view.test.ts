@@ -53,6 +53,7 @@ const incident: IncidentDetail = {
   maintenance: false,
   siteIncidentId: null,
   conditionHolds: true,
+  heater: { name: 'Display heater', installedOn: '2024-09-01', text: 'Heater installed 2 years 3 months ago' },
   timeline: [
     { at: '2026-03-03T02:10:00.000Z', kind: 'opened', userId: null, detail: { value: 28.3, since: '2026-03-03T02:00:00.000Z', snoozed: false } },
     { at: '2026-03-03T02:10:00.000Z', kind: 'mail_queued', userId: null, detail: { kind: 'opened', recipients: ['sam@example.test'] } },
@@ -95,6 +96,10 @@ describe('incident detail', () => {
     expect(wrapper.find('[data-test="next-escalation"]').text()).toContain('none planned')
     expect(wrapper.find('[data-test="incident-severity"]').text()).toBe('Alarm')
     expect(wrapper.find('[data-test="incident-state"]').text()).toBe('Open')
+  })
+
+  it("shows the heater's age for a temperature incident", async () => {
+    expect((await pageAs('viewer')).find('[data-test="incident-heater"]').text()).toBe('Heater installed 2 years 3 months ago (Display heater)')
   })
 
   it('lists every timeline entry in order, with who and the note', async () => {

@@ -38,6 +38,7 @@ const WORK_MINUTES: Record<CareTaskKind, number> = {
   filter_rinse: 14 * 60,
   media_replace: 15 * 60,
   substrate_clean: 15 * 60 + 30,
+  equipment_service: 15 * 60 + 45,
   other: 16 * 60,
 }
 

@@ -27,6 +27,8 @@ export type IncidentMailInput = {
   measurement?: string
   /** The first line of an actionable mail: what to do first. */
   firstStep?: string
+  /** "Heater installed 2 years 3 months ago", for a temperature incident on a tank with a recorded heater. */
+  heater?: string
   /** A line about why this mail comes now (a flap that held, a severity that rose, a window that ended). */
   note?: string
 }
@@ -137,6 +139,7 @@ function render(variant: Variant, i: IncidentMailInput): RenderedMail {
     i.measurement ? ['Measured', oneLine(i.measurement)] : [i.metricLabel, reading(i)],
     [variant.sinceLabel, sinceText],
     ...(i.at ? ([['This update', formatInZone(i.at, i.siteTimeZone)]] as Array<[string, string]>) : []),
+    ...(i.heater ? ([['Equipment', i.heater]] as Array<[string, string]>) : []),
   ]
   const checks = variant.actionable ? i.whatToCheck : []
   const first = variant.actionable && i.firstStep ? oneLine(i.firstStep) : undefined

@@ -35,6 +35,7 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
         message: appError.message,
         ...(appError.fields ? { fields: appError.fields } : {}),
         ...(appError.retryAfterSeconds ? { retryAfterSeconds: appError.retryAfterSeconds } : {}),
+        ...(appError.details ? { details: appError.details } : {}),
       },
     })
   }

@@ -41,6 +41,7 @@ export const CARE_TASK_KIND_LABELS: Record<CareTaskKind, string> = {
   glass_clean: 'Glass cleaning',
   substrate_clean: 'Substrate cleaning',
   test_kit_check: 'Test-kit check',
+  equipment_service: 'Equipment service',
   other: 'Other',
 }
 export { CARE_TASK_KIND_TITLES }
@@ -90,7 +91,7 @@ const VALUE_UNITS: Record<string, string> = {
   count: 'animals or plants',
   losses: 'lost',
 }
-const HIDDEN_VALUE_KEYS = new Set(['taskKind', 'livestockId', 'speciesKey', 'category', 'unit'])
+const HIDDEN_VALUE_KEYS = new Set(['taskKind', 'livestockId', 'equipmentId', 'speciesKey', 'category', 'unit'])
 
 const shownValue = (value: number | string | boolean) =>
   typeof value === 'number' ? String(Number(value.toFixed(2))) : typeof value === 'boolean' ? (value ? 'yes' : 'no') : value

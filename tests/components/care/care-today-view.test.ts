@@ -20,7 +20,7 @@ const tasks = [
 
 beforeEach(() => {
   vi.mocked(getCareToday).mockReset()
-  vi.mocked(getCareToday).mockResolvedValue({ siteIds: [3], onDuty: true, tasks, watch: [] })
+  vi.mocked(getCareToday).mockResolvedValue({ siteIds: [3], onDuty: true, tasks, watch: [], stock: [] })
   vi.mocked(markCareTasksDone).mockReset()
   vi.mocked(listSites).mockResolvedValue([{ id: 3, name: 'Front shop', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 4 }])
 })
@@ -73,7 +73,7 @@ describe('CareTodayView', () => {
     expect(getCareToday).toHaveBeenCalledWith({ siteId: 3 })
 
     localStorage.clear()
-    vi.mocked(getCareToday).mockResolvedValue({ siteIds: [3], onDuty: false, tasks, watch: [] })
+    vi.mocked(getCareToday).mockResolvedValue({ siteIds: [3], onDuty: false, tasks, watch: [], stock: [] })
     const wrapper = await mountToday()
     expect(wrapper.find('[data-test="care-today-off-duty"]').text()).toContain('every site you can see is listed')
     expect(wrapper.find('[data-test="care-today-empty"]').exists()).toBe(false)
@@ -113,6 +113,7 @@ describe('CareTodayView', () => {
       siteIds: [3],
       onDuty: true,
       tasks: [],
+      stock: [],
       watch: [
         {
           tank: { id: 21, name: 'Quarantine Q1' },
@@ -132,5 +133,22 @@ describe('CareTodayView', () => {
     expect(wrapper.find('[data-test="care-watch-21"]').text()).toContain('Quarantine day 8 of 28: 21 days remaining')
     // 09:00 UTC is 10:00 in Berlin in March.
     expect(wrapper.find('[data-test="care-watch-22"]').text()).toContain('New arrivals: watch closely until 5 Mar, 10:00')
+  })
+
+  it('lists supplies running low or past their date', async () => {
+    const base = { siteId: 3, site: { id: 3, name: 'Front shop' }, notes: '' }
+    vi.mocked(getCareToday).mockResolvedValue({
+      siteIds: [3],
+      onDuty: true,
+      tasks: [],
+      watch: [],
+      stock: [
+        { ...base, id: 5, kind: 'reagent', name: 'Nitrite reagent', unit: 'ml', quantity: 30, lowAt: 5, expiresOn: '2026-02-28', low: false, expired: true },
+        { ...base, id: 6, kind: 'salt', name: 'Reef salt', unit: 'kg', quantity: 1.5, lowAt: 2, expiresOn: null, low: true, expired: false },
+      ],
+    })
+    const wrapper = await mountToday()
+    expect(wrapper.find('[data-test="stock-alert-5"]').text()).toContain('Test-kit reagent: expired 28 Feb 2026: replace before the next test')
+    expect(wrapper.find('[data-test="stock-alert-6"]').text()).toContain('Salt: 1.5 kg left (low at 2)')
   })
 })

@@ -70,6 +70,8 @@ export function careTask(id: number, overrides: Partial<PublicCareTask> = {}): P
     recurrence: { kind: 'interval', everyDays: 7 },
     defaultValues: {},
     startsOn: null,
+    consumableId: null,
+    consumableAmount: null,
     lastDoneAt: '2026-03-01T09:00:00.000Z',
     lastDoneBy: 7,
     snoozedUntil: null,

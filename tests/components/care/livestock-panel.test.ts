@@ -4,8 +4,10 @@ import { acclimationPlan } from '@shared/care/acclimation'
 import { SPECIES, speciesByKey } from '@shared/care/species'
 
 vi.mock('@/api/care')
+vi.mock('@/api/livestock')
 
 import { addLivestock, listLivestock, listSpecies, updateLivestock } from '@/api/care'
+import { recordBatchLoss } from '@/api/livestock'
 import type { PublicLivestockEntry } from '@shared/schemas/care-api'
 import LivestockPanel from '@/components/care/LivestockPanel.vue'
 import { mountView } from '../mount'
@@ -22,6 +24,8 @@ const neon: PublicLivestockEntry = {
   category: 'fish',
   count: 12,
   losses: 1,
+  movedOut: 0,
+  parentId: null,
   addedAt: '2026-03-03T09:00:00.000Z',
   source: 'Harbour wholesale',
   notes: '',
@@ -36,6 +40,7 @@ beforeEach(() => {
   vi.mocked(listSpecies).mockResolvedValue([...SPECIES])
   vi.mocked(addLivestock).mockReset()
   vi.mocked(updateLivestock).mockReset()
+  vi.mocked(recordBatchLoss).mockReset()
 })
 
 async function mountPanel() {
@@ -86,13 +91,12 @@ describe('LivestockPanel', () => {
     expect(wrapper.find('[data-test="livestock-periods"]').text()).toContain('Watch new arrivals closely until 6 Mar, 09:00')
   })
 
-  it('records a loss as a new running total', async () => {
+  it('records a loss with its cause on the batch', async () => {
     vi.mocked(listLivestock).mockResolvedValue({
       entries: [neon],
       watchUntil: null,
       quarantine: { startedAt: '2026-03-03T09:00:00.000Z', endsAt: '2026-03-31T09:00:00.000Z', daysIn: 0, daysRemaining: 28, days: 28 },
     })
-    vi.mocked(updateLivestock).mockResolvedValue({ ...neon, losses: 3 })
     const wrapper = await mountPanel()
     expect(wrapper.find('[data-test="livestock-31"]').text()).toContain('11 in the tank · 1 lost of 12')
     expect(wrapper.find('[data-test="livestock-periods"]').text()).toContain('Quarantine day 1 of 28: 28 days remaining')
@@ -104,6 +108,13 @@ describe('LivestockPanel', () => {
     await inDocument('input[name="lost"]').setValue('2')
     await inDocument('.v-dialog form').trigger('submit')
     await flushPromises()
-    expect(updateLivestock).toHaveBeenCalledWith(12, 31, { losses: 3 })
+    // A loss needs its cause before it goes.
+    expect(recordBatchLoss).not.toHaveBeenCalled()
+    expect(inDocument('.v-dialog').text()).toContain('say what happened')
+    await inDocument('input[name="cause"]').setValue('Jumped out overnight')
+    await inDocument('.v-dialog form').trigger('submit')
+    await flushPromises()
+    expect(recordBatchLoss).toHaveBeenCalledWith(31, { count: 2, cause: 'Jumped out overnight' })
+    expect(updateLivestock).not.toHaveBeenCalled()
   })
 })

@@ -18,6 +18,8 @@ import createBuilds from './202612051000-create-builds'
 import addDailyRollups from './202612051200-add-daily-rollups'
 import addChecklistDismissed from './202612051300-add-checklist-dismissed'
 import createClientsVisits from './202612060500-create-clients-visits'
+import addLivestockBatches from './202612060600-add-livestock-batches'
+import createEquipment from './202612060610-create-equipment'
 
 /** Every migration in order. Add new files here; never edit one that has shipped. */
 export const migrations: Migration[] = [
@@ -40,4 +42,6 @@ export const migrations: Migration[] = [
   addDailyRollups,
   addChecklistDismissed,
   createClientsVisits,
+  addLivestockBatches,
+  createEquipment,
 ]
