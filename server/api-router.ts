@@ -25,6 +25,7 @@ import { buildRoutes } from './builds/routes'
 import { maintenanceRouter, siteMaintenanceRoutes } from './incidents/maintenance-routes'
 import { setupRouter } from './setup/routes'
 import { overviewRouter } from './overview/routes'
+import { siteLabelRoutes } from './labels/routes'
 import { importSourcesRouter, importsRouter, siteImportRoutes, tankImportRoutes } from './imports/routes'
 
 export const API_VERSION = '0.1.0'
@@ -57,6 +58,7 @@ export function apiRouter(ctx: AppContext) {
     exportRoutes(ctx, 'site'),
     siteImportRoutes(ctx),
     siteMaintenanceRoutes(ctx),
+    siteLabelRoutes(ctx),
   )
   router.use('/wall-credentials', requireUser, wallCredentialsRouter(ctx))
   router.use(

@@ -29,6 +29,7 @@ export const PERMISSIONS = {
   'builds.write': ['owner', 'keeper'],
   'org.setup': ['owner'],
   'overview.read': ['owner', 'keeper'],
+  'labels.print': ['owner'],
 } as const satisfies Record<string, readonly Caller[]>
 
 export type Permission = keyof typeof PERMISSIONS
