@@ -21,6 +21,7 @@ export const AUDITED_ROUTES: Record<string, readonly string[]> = {
     'wall',
   ],
   'setup.test.ts': ['setup'],
+  'labels.test.ts': ['site-labels'],
   'accessibility-forms.test.ts': ['tank-new', 'tank-edit', 'tank-build', 'import', 'backup', 'dev-mail', 'accept-invite', 'reset-password', 'ack', 'not-found'],
 }
 
