@@ -117,7 +117,13 @@ describe('working without a connection', () => {
     const page = await keeperAtTank(context, tankId)
     const sendAgain = async () => {
       await page.locator('[data-test="offline-count"]').filter({ hasText: '1 waiting to send' }).click()
-      await page.locator('[data-test="offline-send-now"]').click()
+      await page
+        .locator('[data-test="offline-send-now"]')
+        .click({ timeout: 10_000 })
+        .catch(async (error: unknown) => {
+          await shot(page, 'offline-send-again-failed')
+          throw error
+        })
       await page.locator('[data-test="offline-count"]').waitFor({ state: 'detached', timeout: 20_000 })
     }
     await tick(page, task!.title)
