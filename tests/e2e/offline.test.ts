@@ -45,7 +45,7 @@ const tick = (page: Page, title: string) =>
   page.locator('[data-test^="care-task-"]').filter({ hasText: title }).locator('[data-test="care-task-done"]').first().click()
 
 describe('working without a connection', () => {
-  it('keeps a test-kit entry and two ticks while offline, sends them once when back, and shows a tick someone else made as already done', async () => {
+  it('keeps a test-kit entry, two ticks and a care-log note while offline, sends each once when back, and shows a tick someone else made as already done', async () => {
     const { tankId } = await tankWithProbe(s, org.users.owner.token, org.siteIds[0]!, 'Cave tank 7')
     const [first, second] = await tasksOf(tankId)
     const context = await browser.newContext({ viewport: { width: 1280, height: 800 } })
@@ -68,12 +68,17 @@ describe('working without a connection', () => {
     await tick(page, first!.title)
     await page.locator('[data-test="care-task-notice"]').filter({ hasText: 'kept on this device' }).waitFor()
     await tick(page, second!.title)
-    await page.locator('[data-test="offline-count"]').filter({ hasText: '3 waiting to send' }).waitFor()
+    await page.locator('[data-test="care-log-add"]').click()
+    await page.locator('.v-dialog textarea[name="text"]').fill('Snail eggs on the glass')
+    await page.locator('.v-dialog form').evaluate((form: HTMLFormElement) => form.requestSubmit())
+    await page.locator('[data-test="care-log-kept"]').waitFor()
+    await page.locator('[data-test="offline-count"]').filter({ hasText: '4 waiting to send' }).waitFor()
     await page.locator('[data-test="offline-count"]').click()
     expect(await page.locator('[data-test="offline-item"]').allInnerTexts()).toEqual([
       expect.stringContaining('Test-kit entry · Cave tank 7: pH 7.4'),
       expect.stringContaining(`Done · Cave tank 7: ${first!.title}`),
       expect.stringContaining(`Done · Cave tank 7: ${second!.title}`),
+      expect.stringContaining('Care log · Cave tank 7: Snail eggs on the glass'),
     ])
     await shot(page, 'offline-banner-desktop')
     await page.setViewportSize({ width: 390, height: 844 })
@@ -98,6 +103,7 @@ describe('working without a connection', () => {
     expect((kit[0]!.taken_at as Date).getTime()).toBeLessThan(Date.now())
     expect(await doneRows(first!.id)).toEqual([{ user_id: org.users.keeper.id }])
     expect(await doneRows(second!.id)).toEqual([{ user_id: org.users.owner.id }])
+    expect(await rows(`SELECT text FROM care_log WHERE tank_id = $1 AND kind = 'note'`, [tankId])).toEqual([{ text: 'Snail eggs on the glass' }])
     await context.close()
   })
 
