@@ -168,4 +168,26 @@ describe('working without a connection', () => {
     expect(await doneRows(task!.id)).toHaveLength(0)
     await context.close()
   })
+
+  it('keeps a tick from Care today while offline and sends it once', async () => {
+    const { tankId } = await tankWithProbe(s, org.users.owner.token, org.siteIds[1]!, 'Pond tub 5')
+    const [task] = await tasksOf(tankId)
+    const context = await browser.newContext({ viewport: { width: 390, height: 844 } })
+    const page = await context.newPage()
+    await signIn(page, s.baseUrl, org.users.keeper.email)
+    await page.goto(`${s.baseUrl}/care/today`)
+    const item = page.locator('[data-test="care-today-list"] [data-test^="care-task-"]').filter({ hasText: 'Pond tub 5' }).filter({ hasText: task!.title })
+    await item.locator('[data-test="care-task-done"]').first().waitFor({ timeout: FIRST_LOAD_MS })
+    await context.setOffline(true)
+    await page.locator('[data-test="offline-state"]').waitFor()
+    await item.locator('[data-test="care-task-done"]').first().click()
+    expect(await page.locator('[data-test="care-today-notice"]').innerText()).toBe(
+      `${task!.title} on Pond tub 5: kept on this device as done; sent when the connection returns.`,
+    )
+    expect(await doneRows(task!.id)).toHaveLength(0)
+    await context.setOffline(false)
+    await page.locator('[data-test="offline-count"]').waitFor({ state: 'detached', timeout: 20_000 })
+    expect(await doneRows(task!.id)).toEqual([{ user_id: org.users.keeper.id }])
+    await context.close()
+  })
 })
