@@ -38,7 +38,7 @@ async function sendOne(item: OutboxItem): Promise<'next' | 'stop'> {
   const db = await offlineDb()
   try {
     const response = await http.post(item.url, item.body)
-    outcomes.set(item.clientId, { sent: response.data })
+    if (awaited.has(item.clientId)) outcomes.set(item.clientId, { sent: response.data })
     await db?.delete('outbox', item.clientId)
     return 'next'
   } catch (caught) {
@@ -46,7 +46,7 @@ async function sendOne(item: OutboxItem): Promise<'next' | 'stop'> {
     if (!isFinal(error)) return 'stop'
     if (error.code === 'already_done' || awaited.has(item.clientId)) {
       if (error.code === 'already_done' && !awaited.has(item.clientId)) outboxNotices.value = [...outboxNotices.value, `${item.label}: ${error.message}`]
-      outcomes.set(item.clientId, { error })
+      if (awaited.has(item.clientId)) outcomes.set(item.clientId, { error })
       await db?.delete('outbox', item.clientId)
     } else {
       await db?.put('outbox', { ...item, state: 'refused', reason: error.message, fields: error.fields })
