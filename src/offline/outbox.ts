@@ -57,14 +57,17 @@ async function sendOne(item: OutboxItem): Promise<'next' | 'stop'> {
 
 /** Sends the waiting entries one at a time, in the order they were made; stops at the first that cannot get through. */
 export function sendWaiting(): Promise<void> {
-  sending = sending.then(async () => {
-    await refreshOutbox()
-    for (const item of outboxItems.value) {
-      if (item.state !== 'waiting') continue
-      if ((await sendOne(item)) === 'stop') break
-    }
-    await refreshOutbox()
-  })
+  sending = sending
+    .then(async () => {
+      await refreshOutbox()
+      for (const item of outboxItems.value) {
+        if (item.state !== 'waiting') continue
+        if ((await sendOne(item)) === 'stop') break
+      }
+      await refreshOutbox()
+    })
+    // Storage that failed once must not stop every later round: the entries stay and are tried again.
+    .catch(() => undefined)
   return sending
 }
 
