@@ -1,6 +1,7 @@
 import type { Browser, BrowserContext, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { TestOrg } from '../helpers/fixtures'
+import { describeViolations, wcagViolations } from './axe'
 import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'
 import { api, FIRST_LOAD_MS, tankWithProbe, type App } from './keeper-setup'
 
@@ -48,7 +49,8 @@ describe('working without a connection', () => {
   it('keeps a test-kit entry, two ticks and a care-log note while offline, sends each once when back, and shows a tick someone else made as already done', async () => {
     const { tankId } = await tankWithProbe(s, org.users.owner.token, org.siteIds[0]!, 'Cave tank 7')
     const [first, second] = await tasksOf(tankId)
-    const context = await browser.newContext({ viewport: { width: 1280, height: 800 } })
+    // bypassCSP: the accessibility audit is added to the page from outside its content policy.
+    const context = await browser.newContext({ viewport: { width: 1280, height: 800 }, bypassCSP: true })
     const page = await keeperAtTank(context, tankId)
     // The test-kit page once while online, as a keeper who used it before.
     await page.locator('[data-test="log-test"]').click()
@@ -80,6 +82,9 @@ describe('working without a connection', () => {
       expect.stringContaining(`Done · Cave tank 7: ${second!.title}`),
       expect.stringContaining('Care log · Cave tank 7: Snail eggs on the glass'),
     ])
+    // The banner and its list against WCAG 2.1 A and AA (W3C, 2018), with axe-core.
+    const violations = await wcagViolations(page)
+    expect(violations, describeViolations(violations)).toEqual([])
     await shot(page, 'offline-banner-desktop')
     await page.setViewportSize({ width: 390, height: 844 })
     await shot(page, 'offline-banner-phone')
