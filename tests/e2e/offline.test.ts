@@ -72,7 +72,7 @@ describe('working without a connection', () => {
     await tick(page, second!.title)
     await page.locator('[data-test="care-log-add"]').click()
     await page.locator('.v-dialog textarea[name="text"]').fill('Snail eggs on the glass')
-    await page.locator('.v-dialog form').evaluate((form: HTMLFormElement) => form.requestSubmit())
+    await page.locator('.v-dialog [data-test="log-save"]').click()
     await page.locator('[data-test="care-log-kept"]').waitFor()
     await page.locator('[data-test="offline-count"]').filter({ hasText: '4 waiting to send' }).waitFor()
     await page.locator('[data-test="offline-count"]').click()
