@@ -29,6 +29,7 @@ import { clientsRouter } from './clients/routes'
 import { roundsRouter, visitsRouter } from './visits/routes'
 import { livestockRouter } from './livestock/routes'
 import { consumablesRouter, equipmentRouter, siteConsumableRoutes, tankEquipmentRoutes } from './equipment/routes'
+import { siteLabelRoutes } from './labels/routes'
 import { importSourcesRouter, importsRouter, siteImportRoutes, tankImportRoutes } from './imports/routes'
 
 export const API_VERSION = '0.1.0'
@@ -62,6 +63,7 @@ export function apiRouter(ctx: AppContext) {
     siteImportRoutes(ctx),
     siteMaintenanceRoutes(ctx),
     siteConsumableRoutes(ctx),
+    siteLabelRoutes(ctx),
   )
   router.use('/wall-credentials', requireUser, wallCredentialsRouter(ctx))
   router.use(

@@ -36,6 +36,7 @@ export const PERMISSIONS = {
   'visits.manage': ['owner'],
   /** Closed visits' reports: a client's people read their own. */
   'visits.read': ['owner', 'keeper', 'viewer'],
+  'labels.print': ['owner'],
 } as const satisfies Record<string, readonly Caller[]>
 
 export type Permission = keyof typeof PERMISSIONS

@@ -1,10 +1,11 @@
-import { Op, type Transaction } from 'sequelize'
+import { Op, UniqueConstraintError, type Transaction } from 'sequelize'
 import type { CareValues } from '@shared/care/defaults'
 import type { CareLogInput, CareLogKind } from '@shared/schemas/care'
 import type { PublicCareLogEntry } from '@shared/schemas/care-api'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
-import { badRequest } from '../platform/errors'
+import { badRequest, conflict } from '../platform/errors'
+import type { ReadingLimits } from '../readings'
 import type { CareLogEntry } from '../models'
 import { visibleTank } from '../access/scope'
 import { perContext } from '../platform/per-context'
@@ -25,6 +26,7 @@ export type CareLogFields = {
   values?: CareValues
   careTaskId?: number | null
   waterChangeId?: number | null
+  clientId?: string | null
 }
 
 /** One entry, inside the caller's transaction when there is one. */
@@ -56,6 +58,44 @@ export function instantNotAhead(text: string | undefined, field: string, now = n
   return at
 }
 
+/**
+ * A time a phone took when the entry was made, perhaps hours before it could be sent: held to the
+ * same clock limits as readings (a little ahead for a fast clock, not older than the retention age).
+ */
+export function phoneTime(text: string | undefined, field: string, limits: ReadingLimits, now = new Date()): Date {
+  if (!text) return now
+  const at = new Date(text)
+  if (at.getTime() > now.getTime() + limits.maxFutureSeconds * 1000) {
+    throw badRequest(`${field}: more than ${limits.maxFutureSeconds} s in the future (check the phone's clock)`, { [field]: 'cannot be in the future' })
+  }
+  if (at.getTime() < now.getTime() - limits.maxAgeDays * 86_400_000) {
+    throw badRequest(`${field}: older than ${limits.maxAgeDays} days`, { [field]: `older than ${limits.maxAgeDays} days` })
+  }
+  return at
+}
+
+/**
+ * The care-log row an earlier send with the same phone-made id wrote, if any. A row of another
+ * tank, or of something else than `careTaskId` names, means the id was reused: 409.
+ */
+export async function loggedBefore(
+  ctx: AppContext,
+  organizationId: number,
+  clientId: string | undefined,
+  expect: { tankId: number; careTaskId: number | null },
+) {
+  if (!clientId) return null
+  const entry = await ctx.models.CareLogEntry.findOne({ where: { organizationId, clientId } })
+  if (!entry) return null
+  if (entry.tankId !== expect.tankId || (entry.careTaskId ?? null) !== expect.careTaskId) {
+    throw conflict('client_id_reused', 'clientId: this id belongs to another entry', { clientId: 'already used for another entry' })
+  }
+  return entry
+}
+
+/** True when a write failed only because the same phone-made id was stored meanwhile by another send. */
+export const isRepeatedClientId = (error: unknown, clientId: string | undefined) => Boolean(clientId) && error instanceof UniqueConstraintError
+
 /** The care log of a tank: what was done and when, for the tank page and its chart markers. */
 export const careLogService = perContext((ctx: AppContext) => {
   return {
@@ -77,14 +117,23 @@ export const careLogService = perContext((ctx: AppContext) => {
 
     async create(actor: UserActor, tankId: number, input: CareLogInput) {
       const tank = await visibleTank(ctx, actor, tankId)
-      const entry = await writeCareLog(ctx, {
+      const expect = { tankId: tank.id, careTaskId: null }
+      const earlier = await loggedBefore(ctx, actor.organizationId, input.clientId, expect)
+      if (earlier) return (await presentCareLog(ctx, [earlier]))[0] as PublicCareLogEntry
+      const fields = {
         organizationId: actor.organizationId,
         tankId: tank.id,
         kind: input.kind,
-        at: instantNotAhead(input.at, 'at'),
+        at: phoneTime(input.at, 'at', ctx.config.readingLimits),
         userId: actor.userId,
         text: input.text,
         values: input.values,
+        clientId: input.clientId ?? null,
+      }
+      const entry = await writeCareLog(ctx, fields).catch(async (error: unknown) => {
+        const other = isRepeatedClientId(error, input.clientId) ? await loggedBefore(ctx, actor.organizationId, input.clientId, expect) : null
+        if (!other) throw error
+        return other
       })
       return (await presentCareLog(ctx, [entry]))[0] as PublicCareLogEntry
     },

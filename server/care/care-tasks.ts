@@ -6,9 +6,9 @@ import type { PublicCareTask } from '@shared/schemas/care-api'
 import type { UserActor } from '../access/actor'
 import { tanksToWatch } from './tanks-to-watch'
 import type { AppContext } from '../context'
-import { badRequest, notFound } from '../platform/errors'
-import type { CareTask, Tank } from '../models'
-import { instantNotAhead, presentCareLog, writeCareLog } from './care-log'
+import { badRequest, conflict, notFound } from '../platform/errors'
+import type { CareLogEntry, CareTask, Tank } from '../models'
+import { isRepeatedClientId, loggedBefore, phoneTime, presentCareLog, writeCareLog } from './care-log'
 import { whoIsOnDuty } from '../roster'
 import { siteScope, visibleTank } from '../access/scope'
 import { sitesService } from '../sites'
@@ -132,6 +132,14 @@ export const careTasksService = perContext((ctx: AppContext) => {
     }))
   }
 
+  /** A tick made while offline must not log a round someone else has ticked off since the ticker looked. */
+  async function refuseIfDoneSince(task: CareTask, seenLastDoneAt: string | null) {
+    const seen = seenLastDoneAt ? new Date(seenLastDoneAt) : null
+    if (!task.lastDoneAt || (seen && task.lastDoneAt <= seen)) return
+    const doer = task.lastDoneBy == null ? null : await models.User.findByPk(task.lastDoneBy, { attributes: ['name'] })
+    throw conflict('already_done', `Already done by ${doer?.name ?? 'someone else'} since you looked`)
+  }
+
   async function isOnDutyAt(actor: UserActor, siteId: number, now: Date) {
     const { onDuty } = await whoIsOnDuty(ctx, siteId, now)
     return onDuty.some((p) => p.userId === actor.userId)
@@ -166,30 +174,43 @@ export const careTasksService = perContext((ctx: AppContext) => {
 
     async markDone(actor: UserActor, id: number, input: CareTaskDone) {
       const { task, tank } = await findTask(actor, id)
+      const expect = { tankId: tank.id, careTaskId: task.id }
+      const answer = async (entry: CareLogEntry) => ({ task: presentTask(task, zoneOf(tank), new Date()), logEntry: (await presentCareLog(ctx, [entry]))[0] })
+      const earlier = await loggedBefore(ctx, actor.organizationId, input.clientId, expect)
+      if (earlier) return answer(earlier)
       if (!task.active) throw badRequest('id: this task is switched off', { id: 'this task is switched off' })
-      const at = instantNotAhead(input.at, 'at')
-      const entry = await sequelize.transaction(async (transaction) => {
-        // A late write-up of an older round never moves "last done" backwards.
-        if (!task.lastDoneAt || task.lastDoneAt < at) {
-          await task.update({ lastDoneAt: at, lastDoneBy: actor.userId, snoozedUntil: null, snoozeReason: null }, { transaction })
-        }
-        await drawDown(ctx, task, transaction)
-        return writeCareLog(
-          ctx,
-          {
-            organizationId: actor.organizationId,
-            tankId: tank.id,
-            kind: 'task_done',
-            at,
-            userId: actor.userId,
-            text: input.notes ? `${task.title}: ${input.notes}` : task.title,
-            values: { taskKind: task.kind, ...task.defaultValues, ...input.values },
-            careTaskId: task.id,
-          },
-          transaction,
-        )
-      })
-      return { task: presentTask(task, zoneOf(tank), new Date()), logEntry: (await presentCareLog(ctx, [entry]))[0] }
+      const at = phoneTime(input.at, 'at', ctx.config.readingLimits)
+      if (input.seenLastDoneAt !== undefined) await refuseIfDoneSince(task, input.seenLastDoneAt)
+      const entry = await sequelize
+        .transaction(async (transaction) => {
+          // A late write-up of an older round never moves "last done" backwards.
+          if (!task.lastDoneAt || task.lastDoneAt < at) {
+            await task.update({ lastDoneAt: at, lastDoneBy: actor.userId, snoozedUntil: null, snoozeReason: null }, { transaction })
+          }
+          await drawDown(ctx, task, transaction)
+          return writeCareLog(
+            ctx,
+            {
+              organizationId: actor.organizationId,
+              tankId: tank.id,
+              kind: 'task_done',
+              at,
+              userId: actor.userId,
+              text: input.notes ? `${task.title}: ${input.notes}` : task.title,
+              values: { taskKind: task.kind, ...task.defaultValues, ...input.values },
+              careTaskId: task.id,
+              clientId: input.clientId ?? null,
+            },
+            transaction,
+          )
+        })
+        .catch(async (error: unknown) => {
+          const other = isRepeatedClientId(error, input.clientId) ? await loggedBefore(ctx, actor.organizationId, input.clientId, expect) : null
+          if (!other) throw error
+          await task.reload()
+          return other
+        })
+      return answer(entry)
     },
 
     /**

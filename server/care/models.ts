@@ -71,6 +71,7 @@ export class CareLogEntry extends Model<InferAttributes<CareLogEntry>, InferCrea
   declare values: CreationOptional<CareValues>
   declare careTaskId: CreationOptional<number | null>
   declare waterChangeId: CreationOptional<number | null>
+  declare clientId: CreationOptional<string | null>
   declare createdAt: CreationOptional<Date>
 
   static initModel(sequelize: Sequelize) {
@@ -86,6 +87,7 @@ export class CareLogEntry extends Model<InferAttributes<CareLogEntry>, InferCrea
         values: values(),
         careTaskId: optionalInt(),
         waterChangeId: optionalInt(),
+        clientId: { type: DataTypes.UUID, allowNull: true },
         createdAt: DataTypes.DATE,
       },
       { sequelize, tableName: 'care_log', updatedAt: false },

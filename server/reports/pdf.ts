@@ -169,10 +169,10 @@ function tankPages(doc: Doc, tank: TankReport, report: Report) {
 }
 
 /** An A4 document with the report fonts; `done` resolves to the bytes once `doc.end()` is called. */
-export function openDocument(title: string, createdAt: Date, options: { compress?: boolean } = {}) {
+export function openDocument(title: string, createdAt: Date, options: { compress?: boolean; size?: 'A4' | 'LETTER'; margin?: number } = {}) {
   const doc = new PDFDocument({
-    size: 'A4',
-    margin: MARGIN,
+    size: options.size ?? 'A4',
+    margin: options.margin ?? MARGIN,
     compress: options.compress ?? true,
     info: { Title: title, Author: 'Tankwarden', CreationDate: createdAt },
   })

@@ -10,6 +10,7 @@ export class TestKitEntry extends Model<InferAttributes<TestKitEntry>, InferCrea
   declare takenAt: Date
   declare values: KitValue[]
   declare notes: string
+  declare clientId: CreationOptional<string | null>
   declare deletedAt: CreationOptional<Date | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -25,6 +26,7 @@ export class TestKitEntry extends Model<InferAttributes<TestKitEntry>, InferCrea
         takenAt: { type: DataTypes.DATE, allowNull: false },
         values: { type: DataTypes.JSONB, allowNull: false },
         notes: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
+        clientId: { type: DataTypes.UUID, allowNull: true },
         deletedAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,

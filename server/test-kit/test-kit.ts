@@ -1,8 +1,8 @@
-import { Op } from 'sequelize'
+import { Op, UniqueConstraintError } from 'sequelize'
 import { TEST_KIT_EDIT_WINDOW_HOURS, type PublicTestKitEntry, type TestKitEntryInput } from '@shared/schemas/test-kit'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
-import { badRequest, forbidden, notFound } from '../platform/errors'
+import { badRequest, conflict, forbidden, notFound } from '../platform/errors'
 import { insertReadings, type ReadingRow } from '../readings'
 import { checkReading } from '../readings'
 import { deleteReadingsOfSource } from '../readings'
@@ -57,6 +57,16 @@ export const testKitService = perContext((ctx: AppContext) => {
     return entry
   }
 
+  /** The entry an earlier send with the same phone-made id stored, answered as it was then. */
+  async function sentBefore(actor: UserActor, tankId: number, clientId: string | undefined) {
+    if (!clientId) return null
+    const entry = await models.TestKitEntry.findOne({ where: { organizationId: actor.organizationId, clientId }, include })
+    if (!entry) return null
+    if (entry.tankId !== tankId)
+      throw conflict('client_id_reused', 'clientId: this id belongs to an entry of another tank', { clientId: 'already used for another entry' })
+    return present(entry)
+  }
+
   const snapshot = (e: TestKitEntry) => ({ takenAt: e.takenAt.toISOString(), values: e.values, notes: e.notes })
 
   return {
@@ -72,16 +82,28 @@ export const testKitService = perContext((ctx: AppContext) => {
 
     async create(actor: UserActor, tankId: number, input: TestKitEntryInput) {
       const tank = await visibleTank(ctx, actor, tankId)
+      const earlier = await sentBefore(actor, tank.id, input.clientId)
+      if (earlier) return earlier
       const takenAt = input.takenAt ? new Date(input.takenAt) : new Date()
       toRows(0, tank.id, input, takenAt) // validate before anything is written
-      const { entry, stored } = await sequelize.transaction(async (transaction) => {
-        const entry = await models.TestKitEntry.create(
-          { organizationId: actor.organizationId, tankId: tank.id, enteredBy: actor.userId, takenAt, values: input.values, notes: input.notes },
-          { transaction },
-        )
-        const stored = await insertReadings(sequelize, toRows(entry.id, tank.id, input, takenAt), transaction)
-        return { entry, stored }
-      })
+      const { clientId = null } = input
+      const written = await sequelize
+        .transaction(async (transaction) => {
+          const entry = await models.TestKitEntry.create(
+            { organizationId: actor.organizationId, tankId: tank.id, enteredBy: actor.userId, takenAt, values: input.values, notes: input.notes, clientId },
+            { transaction },
+          )
+          const stored = await insertReadings(sequelize, toRows(entry.id, tank.id, input, takenAt), transaction)
+          return { entry, stored }
+        })
+        .catch(async (error: unknown) => {
+          // The same entry sent twice at once: the other send stored it.
+          if (error instanceof UniqueConstraintError && clientId) return sentBefore(actor, tank.id, clientId)
+          throw error
+        })
+      if (!written) throw conflict('conflict', 'Another request made the same change at the same moment; reload to see it')
+      if (!('entry' in written)) return written
+      const { entry, stored } = written
       events.emit('readings.stored', stored)
       await entry.reload({ include })
       return present(entry)

@@ -1,6 +1,7 @@
 import { z } from 'zod'
 import { CARE_TASK_KINDS } from '../care/defaults'
 import { SPECIES_KEYS } from '../care/species'
+import { clientIdSchema } from './common'
 import { instantSchema } from './time'
 import { localDateSchema } from './time'
 
@@ -55,6 +56,12 @@ export const careTaskDoneSchema = z.object({
   notes: z.string().trim().max(2000).default(''),
   values: careValuesSchema.default({}),
   at: isoInstant.optional(),
+  clientId: clientIdSchema.optional(),
+  /**
+   * The "last done" the ticker saw (null: never done). When sent, a task someone else has ticked
+   * since then is answered 409 `already_done` instead of being logged twice.
+   */
+  seenLastDoneAt: isoInstant.nullable().optional(),
 })
 export type CareTaskDone = z.infer<typeof careTaskDoneSchema>
 
@@ -93,6 +100,7 @@ export const careLogInputSchema = z
     at: isoInstant.optional(),
     text: z.string().trim().max(2000).default(''),
     values: careValuesSchema.default({}),
+    clientId: clientIdSchema.optional(),
   })
   .refine((e) => e.text.length > 0 || Object.keys(e.values).length > 0, { message: 'say what was done', path: ['text'] })
 export type CareLogInput = z.infer<typeof careLogInputSchema>

@@ -3,6 +3,12 @@ import { z } from 'zod'
 export const idSchema = z.coerce.number().int().positive()
 export const idParamsSchema = z.object({ id: idSchema })
 
+/**
+ * An id a phone makes for an entry before sending it (a UUID): sending the entry again with the
+ * same id answers as the first time and stores nothing more, so a resend after a lost answer is safe.
+ */
+export const clientIdSchema = z.uuid('must be a UUID')
+
 /** `HH:MM`, 24-hour local wall-clock time. */
 export const clockTimeSchema = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'use HH:MM (24-hour)')
 

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { METRIC_KEYS } from '../metrics/registry'
+import { clientIdSchema } from './common'
 import { instantSchema } from './time'
 
 /** A keeper's test-kit entry: any kit metrics, each in the unit the kit reports. */
@@ -18,6 +19,8 @@ export const testKitEntryInputSchema = z.object({
     .max(METRIC_KEYS.length)
     .refine((vs) => new Set(vs.map((v) => v.metric)).size === vs.length, 'each metric once'),
   notes: z.string().trim().max(2000).default(''),
+  /** Kept on create only: an edit never changes it. */
+  clientId: clientIdSchema.optional(),
 })
 export type TestKitEntryInput = z.infer<typeof testKitEntryInputSchema>
 

@@ -21,6 +21,7 @@ import type {
   WaterChangeStartBody,
 } from '@shared/schemas/care-api'
 import type { Species } from '@shared/care/species'
+import { submit, type Waiting } from '@/offline/outbox'
 import { http } from './client'
 
 export async function listCareTasks(tankId: number): Promise<PublicCareTask[]> {
@@ -35,8 +36,19 @@ export async function updateCareTask(id: number, changes: CareTaskUpdateBody): P
   return (await http.patch<PublicCareTask>(`/care-tasks/${id}`, changes)).data
 }
 
-export async function markCareTaskDone(id: number, input: CareTaskDoneBody = {}): Promise<{ task: PublicCareTask; logEntry: PublicCareLogEntry }> {
-  return (await http.post<{ task: PublicCareTask; logEntry: PublicCareLogEntry }>(`/care-tasks/${id}/done`, input)).data
+/**
+ * A task ticked off now, naming the "last done" the ticker saw: if someone else ticked it since,
+ * the server answers 409 `already_done` instead of logging it twice. Kept on this device and sent
+ * later when the server cannot be reached (`Waiting`).
+ */
+export async function markCareTaskDone(
+  task: Pick<PublicCareTask, 'id' | 'tankId' | 'title' | 'lastDoneAt'>,
+  input: CareTaskDoneBody = {},
+  tankName = `tank ${task.tankId}`,
+): Promise<{ task: PublicCareTask; logEntry: PublicCareLogEntry } | Waiting> {
+  const body = { ...input, at: input.at ?? new Date().toISOString(), seenLastDoneAt: task.lastDoneAt }
+  const label = `Done · ${tankName}: ${task.title}`
+  return submit({ kind: 'task-done', tankId: task.tankId, url: `/care-tasks/${task.id}/done`, body, label })
 }
 
 /** Several tasks done in one transaction; each names the "last done" the list showed. */
@@ -64,8 +76,11 @@ export async function listCareLog(tankId: number, range: { from?: Date; to?: Dat
   return (await http.get<PublicCareLogEntry[]>(`/tanks/${tankId}/care-log`, { params })).data
 }
 
-export async function addCareLogEntry(tankId: number, input: CareLogBody): Promise<PublicCareLogEntry> {
-  return (await http.post<PublicCareLogEntry>(`/tanks/${tankId}/care-log`, input)).data
+/** A care-log entry timed on this device; kept and sent later when the server cannot be reached (`Waiting`). */
+export async function addCareLogEntry(tankId: number, input: CareLogBody, tankName = `tank ${tankId}`): Promise<PublicCareLogEntry | Waiting> {
+  const body = { ...input, at: input.at ?? new Date().toISOString() }
+  const label = `Care log · ${tankName}: ${input.text || input.kind}`
+  return submit<PublicCareLogEntry>({ kind: 'care-log', tankId, url: `/tanks/${tankId}/care-log`, body, label })
 }
 
 export async function listWaterChanges(tankId: number): Promise<PublicWaterChange[]> {

@@ -1,5 +1,6 @@
 import axios, { AxiosError, AxiosHeaders, type AxiosResponse } from 'axios'
 import { ApiError, isApiErrorBody } from './errors'
+import { installSavedReads } from '@/offline/saved-reads'
 import { currentToken, notifyUnauthorized } from './session'
 
 export { ApiError } from './errors'
@@ -51,6 +52,9 @@ export function toApiError(error: unknown): ApiError {
     retryAfterSeconds: retryAfterHeader(response),
   })
 }
+
+// Before the error mapping below: a read the server could not be asked is answered from this device's storage.
+installSavedReads(http)
 
 http.interceptors.response.use(
   (response) => response,

@@ -135,6 +135,13 @@ export const routes: RouteRecordRaw[] = [
         props: (route) => ({ id: Number(route.params.id) }),
         meta: { title: 'Duty roster' },
       },
+      {
+        path: 'sites/:id(\\d+)/labels',
+        name: 'site-labels',
+        component: () => import('@/views/SiteLabelsView.vue'),
+        props: (route) => ({ id: Number(route.params.id) }),
+        meta: { title: 'Tank labels', roles: ['owner'] },
+      },
       { path: 'incidents', name: 'incidents', component: () => import('@/views/IncidentsView.vue'), meta: { title: 'Incidents' } },
       { path: 'care/today', name: 'care-today', component: () => import('@/views/CareTodayView.vue'), meta: { title: 'Care today' } },
       { path: 'livestock', name: 'livestock', component: () => import('@/views/LivestockView.vue'), meta: { title: 'Livestock' } },

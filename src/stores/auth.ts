@@ -3,6 +3,8 @@ import { computed, ref } from 'vue'
 import type { Organization, PublicUser, SessionInfo } from '@shared/schemas/auth'
 import * as authApi from '@/api/auth'
 import { provideToken, storeToken, storedToken } from '@/api/session'
+import { provideOfflineOwner } from '@/offline/db'
+import { forgetSavedReads } from '@/offline/saved-reads'
 
 export const useAuthStore = defineStore('auth', () => {
   const token = ref<string | null>(storedToken())
@@ -12,6 +14,7 @@ export const useAuthStore = defineStore('auth', () => {
   let restoring: Promise<void> | null = null
 
   provideToken(() => token.value)
+  provideOfflineOwner(() => user.value?.id ?? null)
 
   const role = computed(() => user.value?.role ?? null)
   const isSignedIn = computed(() => token.value != null && user.value != null)
@@ -46,6 +49,8 @@ export const useAuthStore = defineStore('auth', () => {
   }
 
   async function signOut() {
+    // Entries still waiting stay for this person's next sign-in; what they looked at goes now.
+    if (user.value) void forgetSavedReads(user.value.id).catch(() => undefined)
     try {
       if (token.value) await authApi.signOut()
     } catch {

@@ -2,8 +2,10 @@ import { acceptHMRUpdate, defineStore } from 'pinia'
 import { computed, ref } from 'vue'
 import type { Species } from '@shared/care/species'
 import * as careApi from '@/api/care'
-import type { CareTankToWatch, CareTaskSnoozeBody, CareTodayTask } from '@shared/schemas/care-api'
 import type { ConsumableAlert } from '@shared/schemas/equipment'
+import type { CareTankToWatch, CareTaskDoneOutcome, CareTaskSnoozeBody, CareTodayTask } from '@shared/schemas/care-api'
+import { ApiError } from '@/api/errors'
+import { isWaiting } from '@/offline/outbox'
 import { urgentFirst } from '@/components/care/care-words'
 
 export type CareTodayScope = { siteId: number } | { mine: true }
@@ -58,12 +60,28 @@ export const useCareStore = defineStore('care', () => {
    * colleague ticked meanwhile comes back already done instead of logged twice. Done and
    * already-done tasks both leave the list, since neither is due.
    */
-  async function markTodayDone(taskIds: number[], notes = '') {
-    const seen = todayTasks.value.filter((t) => taskIds.includes(t.id)).map((t) => ({ id: t.id, seenLastDoneAt: t.lastDoneAt }))
-    const results = await careApi.markCareTasksDone(seen, notes)
-    const gone = new Set(results.map((r) => r.id))
-    todayTasks.value = todayTasks.value.filter((t) => !gone.has(t.id))
-    return results
+  async function markTodayDone(taskIds: number[], notes = ''): Promise<{ results: CareTaskDoneOutcome[]; kept: CareTodayTask[] }> {
+    const chosen = todayTasks.value.filter((t) => taskIds.includes(t.id))
+    const seen = chosen.map((t) => ({ id: t.id, seenLastDoneAt: t.lastDoneAt }))
+    const results = await careApi.markCareTasksDone(seen, notes).catch((error: unknown) => {
+      if (error instanceof ApiError && error.status === 0) return null
+      throw error
+    })
+    if (results) {
+      const gone = new Set(results.map((r) => r.id))
+      todayTasks.value = todayTasks.value.filter((t) => !gone.has(t.id))
+      return { results, kept: [] }
+    }
+    // No connection: each tick is kept on this device and sent on its own when it returns.
+    const sent: CareTaskDoneOutcome[] = []
+    const kept: CareTodayTask[] = []
+    for (const task of chosen) {
+      const answer = await careApi.markCareTaskDone(task, notes ? { notes } : {}, task.tank.name)
+      if (isWaiting(answer)) kept.push(task)
+      else sent.push({ id: task.id, outcome: 'done', doneAt: answer.task.lastDoneAt, doneBy: answer.logEntry.by, task: answer.task })
+      todayTasks.value = todayTasks.value.filter((t) => t.id !== task.id)
+    }
+    return { results: sent, kept }
   }
 
   /** Snoozed tasks are not due today, so the task leaves the list too. */

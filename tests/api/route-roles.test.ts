@@ -340,6 +340,7 @@ const ROUTES: RouteCase[] = [
   // The one route a wall key opens: the wall of its own site.
   row('get', '/sites/:id/wall', { ...readable, wall: 200 }, (w) => ({ param: w.org.siteIds[0] })),
   row('get', '/sites/:id/wall-credentials', ownerOnly, async (w) => ({ param: await w.freshSite() })),
+  row('get', '/sites/:id/labels.pdf', ownerOnly, async (w) => ({ param: await w.freshSite(), query: 'paper=letter&size=large' })),
   row('post', '/sites/:id/wall-credentials', ownerCreates, async (w) => ({ param: await w.freshSite(), body: { name: 'Shop TV' } })),
   row('post', '/wall-credentials/:id/revoke', ownerOnly, async (w) => ({ param: (await w.freshWallKey()).id })),
   // The box is shared by every organization: the other owner sees and clears only their own mail.

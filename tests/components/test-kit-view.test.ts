@@ -76,6 +76,7 @@ describe('TestKitView', () => {
           { metric: 'ammonia', value: 2, unit: 'mg/L' },
         ],
       }),
+      'Quarantine A',
     )
     // 2 mg/L total at pH 8.0 and 20 °C is 3.82 % NH3 = 0.076 mg/L (Emerson et al. 1975 table; from memory).
     const ammonia = wrapper.find('[data-test="insight-ammonia"]').text()

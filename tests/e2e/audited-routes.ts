@@ -23,6 +23,7 @@ export const AUDITED_ROUTES: Record<string, readonly string[]> = {
   'setup.test.ts': ['setup'],
   'visits.test.ts': ['clients', 'client', 'visits', 'visit', 'round'],
   'livestock-equipment.test.ts': ['livestock', 'supplies'],
+  'labels.test.ts': ['site-labels'],
   'accessibility-forms.test.ts': ['tank-new', 'tank-edit', 'tank-build', 'import', 'backup', 'dev-mail', 'accept-invite', 'reset-password', 'ack', 'not-found'],
 }
 

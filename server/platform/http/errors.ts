@@ -66,6 +66,8 @@ const UNIQUE_CONFLICTS: Record<string, { code: string; message: string }> = {
   watch_rules_one_override: { code: 'override_exists', message: 'This tank already has its own version of this rule; change that one' },
   users_email_unique: { code: 'email_taken', message: 'Someone already uses this e-mail address' },
   import_sources_organization_id_name_key: { code: 'source_exists', message: 'An import source of that name already exists' },
+  test_kit_entries_client_id_unique: { code: 'client_id_reused', message: 'This entry was sent already; reload to see it' },
+  care_log_client_id_unique: { code: 'client_id_reused', message: 'This entry was sent already; reload to see it' },
 }
 
 function uniqueConflict(error: unknown): AppError {

@@ -20,6 +20,7 @@ import addChecklistDismissed from './202612051300-add-checklist-dismissed'
 import createClientsVisits from './202612060500-create-clients-visits'
 import addLivestockBatches from './202612060600-add-livestock-batches'
 import createEquipment from './202612060610-create-equipment'
+import addClientIds from './202612060300-add-client-ids'
 
 /** Every migration in order. Add new files here; never edit one that has shipped. */
 export const migrations: Migration[] = [
@@ -44,4 +45,5 @@ export const migrations: Migration[] = [
   createClientsVisits,
   addLivestockBatches,
   createEquipment,
+  addClientIds,
 ]
