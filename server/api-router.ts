@@ -25,6 +25,7 @@ import { buildRoutes } from './builds/routes'
 import { maintenanceRouter, siteMaintenanceRoutes } from './incidents/maintenance-routes'
 import { setupRouter } from './setup/routes'
 import { overviewRouter } from './overview/routes'
+import { pushRouter } from './push/routes'
 import { importSourcesRouter, importsRouter, siteImportRoutes, tankImportRoutes } from './imports/routes'
 
 export const API_VERSION = '0.1.0'
@@ -89,6 +90,7 @@ export function apiRouter(ctx: AppContext) {
   router.use('/backup', requireUser, backupRouter(ctx))
   router.use('/imports', requireUser, importsRouter(ctx))
   router.use('/import-sources', requireUser, importSourcesRouter(ctx))
+  router.use('/push', requireUser, pushRouter(ctx))
   router.use('/readings', authenticateDevice(passport), readingsRouter(ctx))
   // The local fake mailbox, only where no real SMTP server is configured and never in production.
   if (!ctx.config.mail.smtpUrl && ctx.config.env !== 'production') router.use('/dev/mail', requireUser, allow('mail.dev'), devMailRouter(ctx))

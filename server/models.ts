@@ -18,6 +18,7 @@ import { Photo } from './photos/model'
 import { ReportSchedule } from './reports/schedule-model'
 import { ImportJob, ImportSource } from './imports/models'
 import { BuildStep, TankBuild } from './builds/models'
+import { AlertChannelChoice, PushSubscription } from './push/models'
 
 export {
   Organization,
@@ -52,6 +53,8 @@ export {
   BuildStep,
   SiteIncident,
   MaintenanceWindow,
+  PushSubscription,
+  AlertChannelChoice,
 }
 
 /** Every model, in the order they are bound. */
@@ -88,6 +91,8 @@ const ALL_MODELS = {
   BuildStep,
   SiteIncident,
   MaintenanceWindow,
+  PushSubscription,
+  AlertChannelChoice,
 }
 
 /** Binds every model to this Sequelize instance and declares the associations, in one place. */

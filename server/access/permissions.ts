@@ -29,6 +29,8 @@ export const PERMISSIONS = {
   'builds.write': ['owner', 'keeper'],
   'org.setup': ['owner'],
   'overview.read': ['owner', 'keeper'],
+  // One's own notification devices and alert channels.
+  'account.alerts': ['owner', 'keeper', 'viewer'],
 } as const satisfies Record<string, readonly Caller[]>
 
 export type Permission = keyof typeof PERMISSIONS

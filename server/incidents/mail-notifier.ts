@@ -24,6 +24,7 @@ import { dutyRecipients } from '../roster'
 import type { IncidentNotifier, NotifyKind, NotifyOptions } from './notifier'
 import { firstStep, needsElectricalCaution, whatToCheck } from './what-to-check'
 import { recentValues } from '../readings'
+import { alertChannelsOf, enqueuePush, incidentPush, pushedUserIds, wantsMail, wantsPhone } from '../push'
 
 type Person = { userId: number | null; name: string; email: string }
 
@@ -65,10 +66,14 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
       { bind: [incidentId], type: QueryTypes.SELECT, transaction },
     )
     const users = await models.User.findAll({ where: { email: { [Op.in]: rows.map((r) => r.to_address) } }, transaction })
-    return rows.map((r) => {
+    const mailed = rows.map((r) => {
       const u = users.find((x) => x.email === r.to_address)
       return { userId: u?.id ?? null, name: u?.name ?? r.to_address, email: r.to_address }
     })
+    // People who chose the phone alone were told without a mail.
+    const pushedIds = (await pushedUserIds(ctx, incidentId, transaction)).filter((id) => !mailed.some((p) => p.userId === id))
+    const pushed = pushedIds.length ? await models.User.findAll({ where: { id: pushedIds }, transaction }) : []
+    return [...mailed, ...pushed.map((u) => ({ userId: u.id, name: u.name, email: u.email }))]
   }
 
   async function recipients(kind: NotifyKind, incident: Incident, transaction: Transaction, options: NotifyOptions): Promise<Person[]> {
@@ -134,8 +139,38 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
         value: incident.latestValue ?? incident.firstValue,
         heaterTopCm: tank?.heater?.topCm,
       })
+      const channels = await alertChannelsOf(ctx, people.flatMap((p) => (p.userId ? [p.userId] : [])), incident.severity, transaction)
       for (const person of people) {
         const acknowledgeUrl = kind !== 'resolved' && person.userId ? await ackLinksService(ctx).create(incident.id, person.userId, transaction) : undefined
+        const channel = person.userId ? (channels.get(person.userId) ?? 'mail') : 'mail'
+        const devices =
+          person.userId && wantsPhone(channel)
+            ? await enqueuePush(
+                ctx,
+                {
+                  kind: 'incident',
+                  userId: person.userId,
+                  organizationId: incident.organizationId,
+                  incidentId: incident.id,
+                  urgency: incident.severity === 'alarm' && kind !== 'resolved' ? 'high' : 'normal',
+                  dedupeKey: `incident:${incident.id}:${kind}:${serial}:user:${person.userId}`,
+                  payload: incidentPush(kind, {
+                    incidentId: incident.id,
+                    severity: incident.severity,
+                    tankName: tank?.name ?? '',
+                    siteName: site?.name ?? '',
+                    what: measurement,
+                    metricLabel: def?.label ?? incident.metric,
+                    since: incident.openedAt.toISOString(),
+                    siteTimeZone: site?.timeZone ?? 'UTC',
+                    ackToken: acknowledgeUrl ? (new URL(acknowledgeUrl).searchParams.get('token') ?? undefined) : undefined,
+                  }),
+                },
+                { transaction },
+              )
+            : 0
+        // The phone alone, but no device that can show it: a mail rather than nothing.
+        if (!wantsMail(channel) && devices > 0) continue
         const input: IncidentMailInput = {
           organizationName: organization?.name ?? '',
           siteName: site?.name ?? '',

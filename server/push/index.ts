@@ -1,0 +1,13 @@
+import type { AppContext } from '../context'
+import { startPushSender, type PushSender, type PushSenderOptions } from './sender'
+
+// What other features may use of push/; everything else in the folder is its own.
+export { enqueuePush, pushedUserIds, type OutgoingPush } from './outbox'
+export { alertChannelsOf, incidentPush, wantsMail, wantsPhone, type IncidentPushInput, type IncidentPushKind } from './alerts'
+export { startPushSender, type PushSender, type PushSenderOptions, type PushRunResult } from './sender'
+export { vapidKeysFor } from './vapid'
+
+/** Starts the push outbox sender of one instance (every instance may run one; each row goes to one). */
+export function startPush(ctx: AppContext, options: PushSenderOptions = {}): PushSender {
+  return startPushSender(ctx, options)
+}
