@@ -8,3 +8,5 @@ declare module '*.vue' {
 declare module 'virtual:mdi-icons' {
   export const iconPaths: Record<string, string>
 }
+
+/// <reference types="vite-plugin-pwa/vue" />
