@@ -5,6 +5,7 @@ import vuetify from 'vite-plugin-vuetify'
 import { compression } from 'vite-plugin-compression2'
 import { VitePWA } from 'vite-plugin-pwa'
 import { mdiIcons } from './tooling/vite-mdi-icons.ts'
+import { compressServiceWorker } from './tooling/vite-compress-worker.ts'
 import { minimal2023Preset } from '@vite-pwa/assets-generator/config'
 
 // The client is served by the Express app in production; in development Vite proxies the API.
@@ -45,6 +46,7 @@ export default defineConfig({
         maximumFileSizeToCacheInBytes: 3 * 1024 * 1024,
       },
     }),
+    compressServiceWorker({ outDir: 'dist', file: 'sw.js' }),
   ],
   resolve: {
     alias: {

@@ -21,7 +21,7 @@ export function serveClientPages(app: Express, dist: string): void {
 
 // The service worker, the manifest and the icons keep their names from one version to the next: a
 // browser asks again each time, so a new version is found at the next visit, not an hour later.
-const UNHASHED = /\/(sw\.js|manifest\.webmanifest|[\w-]+\.(png|ico|svg))$/
+const UNHASHED = /\/(sw\.js|manifest\.webmanifest|[\w-]+\.(png|ico|svg))(\.br|\.gz)?$/
 
 function revalidateUnhashed(res: ServerResponse, path: string) {
   if (UNHASHED.test(path) && !path.includes('/assets/')) res.setHeader('Cache-Control', 'no-cache')
