@@ -91,8 +91,14 @@ const envSchema = z
       .string()
       .regex(/^(mailto:\S+@\S+|https:\/\/\S+)$/, 'VAPID_SUBJECT must be a mailto: address or an https:// URL')
       .optional(),
-    VAPID_PUBLIC_KEY: z.string().regex(/^[A-Za-z0-9_-]{87}$/, 'VAPID_PUBLIC_KEY: a P-256 public key, base64url (87 characters)').optional(),
-    VAPID_PRIVATE_KEY: z.string().regex(/^[A-Za-z0-9_-]{43}$/, 'VAPID_PRIVATE_KEY: a P-256 private key, base64url (43 characters)').optional(),
+    VAPID_PUBLIC_KEY: z
+      .string()
+      .regex(/^[A-Za-z0-9_-]{87}$/, 'VAPID_PUBLIC_KEY: a P-256 public key, base64url (87 characters)')
+      .optional(),
+    VAPID_PRIVATE_KEY: z
+      .string()
+      .regex(/^[A-Za-z0-9_-]{43}$/, 'VAPID_PRIVATE_KEY: a P-256 private key, base64url (43 characters)')
+      .optional(),
   })
   .refine((e) => e.PHOTO_STORE !== 's3' || e.S3_BUCKET, { message: 'S3_BUCKET is required when PHOTO_STORE=s3', path: ['S3_BUCKET'] })
   .refine((e) => !e.VAPID_PUBLIC_KEY === !e.VAPID_PRIVATE_KEY, { message: 'set both VAPID keys or neither', path: ['VAPID_PRIVATE_KEY'] })

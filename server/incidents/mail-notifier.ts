@@ -24,7 +24,7 @@ import { dutyRecipients } from '../roster'
 import type { IncidentNotifier, NotifyKind, NotifyOptions } from './notifier'
 import { firstStep, needsElectricalCaution, whatToCheck } from './what-to-check'
 import { recentValues } from '../readings'
-import { alertChannelsOf, enqueuePush, incidentPush, pushedUserIds, wantsMail, wantsPhone } from '../push'
+import { alertChannelsOf, incidentPush, pushAlert, pushedUserIds, sitePush } from '../push'
 
 type Person = { userId: number | null; name: string; email: string }
 
@@ -139,38 +139,39 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
         value: incident.latestValue ?? incident.firstValue,
         heaterTopCm: tank?.heater?.topCm,
       })
-      const channels = await alertChannelsOf(ctx, people.flatMap((p) => (p.userId ? [p.userId] : [])), incident.severity, transaction)
+      const channels = await alertChannelsOf(
+        ctx,
+        people.flatMap((p) => (p.userId ? [p.userId] : [])),
+        incident.severity,
+        transaction,
+      )
       for (const person of people) {
         const acknowledgeUrl = kind !== 'resolved' && person.userId ? await ackLinksService(ctx).create(incident.id, person.userId, transaction) : undefined
         const channel = person.userId ? (channels.get(person.userId) ?? 'mail') : 'mail'
-        const devices =
-          person.userId && wantsPhone(channel)
-            ? await enqueuePush(
-                ctx,
-                {
-                  kind: 'incident',
-                  userId: person.userId,
-                  organizationId: incident.organizationId,
-                  incidentId: incident.id,
-                  urgency: incident.severity === 'alarm' && kind !== 'resolved' ? 'high' : 'normal',
-                  dedupeKey: `incident:${incident.id}:${kind}:${serial}:user:${person.userId}`,
-                  payload: incidentPush(kind, {
-                    incidentId: incident.id,
-                    severity: incident.severity,
-                    tankName: tank?.name ?? '',
-                    siteName: site?.name ?? '',
-                    what: measurement,
-                    metricLabel: def?.label ?? incident.metric,
-                    since: incident.openedAt.toISOString(),
-                    siteTimeZone: site?.timeZone ?? 'UTC',
-                    ackToken: acknowledgeUrl ? (new URL(acknowledgeUrl).searchParams.get('token') ?? undefined) : undefined,
-                  }),
-                },
-                { transaction },
-              )
-            : 0
-        // The phone alone, but no device that can show it: a mail rather than nothing.
-        if (!wantsMail(channel) && devices > 0) continue
+        const { mailToo } = await pushAlert(
+          ctx,
+          person.userId,
+          channel,
+          {
+            organizationId: incident.organizationId,
+            incidentId: incident.id,
+            urgency: incident.severity === 'alarm' && kind !== 'resolved' ? 'high' : 'normal',
+            dedupeKey: `incident:${incident.id}:${kind}:${serial}:user:${person.userId}`,
+            payload: incidentPush(kind, {
+              incidentId: incident.id,
+              severity: incident.severity,
+              tankName: tank?.name ?? '',
+              siteName: site?.name ?? '',
+              what: measurement,
+              metricLabel: def?.label ?? incident.metric,
+              since: incident.openedAt.toISOString(),
+              siteTimeZone: site?.timeZone ?? 'UTC',
+              ackToken: acknowledgeUrl ? (new URL(acknowledgeUrl).searchParams.get('token') ?? undefined) : undefined,
+            }),
+          },
+          transaction,
+        )
+        if (!mailToo) continue
         const input: IncidentMailInput = {
           organizationName: organization?.name ?? '',
           siteName: site?.name ?? '',
@@ -249,7 +250,31 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
         incidentsUrl: `${config.publicUrl}/incidents?siteId=${siteIncident.siteId}`,
         escalated: kind === 'escalated',
       })
+      const channels = await alertChannelsOf(
+        ctx,
+        people.flatMap((p) => (p.userId ? [p.userId] : [])),
+        siteIncident.severity,
+        transaction,
+      )
+      const payload = sitePush({
+        siteIncidentId: siteIncident.id,
+        siteId: siteIncident.siteId,
+        severity: siteIncident.severity,
+        siteName: site?.name ?? '',
+        tanks,
+        openedAt: siteIncident.openedAt.toISOString(),
+        siteTimeZone: site?.timeZone ?? 'UTC',
+        escalated: kind === 'escalated',
+      })
       for (const person of people) {
+        const channel = person.userId ? (channels.get(person.userId) ?? 'mail') : 'mail'
+        const push = {
+          organizationId: siteIncident.organizationId,
+          urgency: siteIncident.severity === 'alarm' ? ('high' as const) : ('normal' as const),
+          dedupeKey: `site_incident:${siteIncident.id}:${kind}:${siteIncident.escalationLevel}:user:${person.userId}`,
+          payload,
+        }
+        if (!(await pushAlert(ctx, person.userId, channel, push, transaction)).mailToo) continue
         await enqueueMail(
           ctx,
           {

@@ -3,6 +3,7 @@ import type { AlertChannel, AlertChannels, PushPayload } from '@shared/schemas/p
 import { formatZonedDateTime } from '@shared/time'
 import type { AppContext } from '../context'
 import { DEFAULT_CHANNELS } from './devices'
+import { enqueuePush, type OutgoingPush } from './outbox'
 
 type Severity = 'warning' | 'alarm'
 export type IncidentPushKind = 'opened' | 'escalated' | 'repeated' | 'resolved' | 'raised' | 'reopened' | 'resolver'
@@ -61,8 +62,8 @@ export function incidentPush(kind: IncidentPushKind, i: IncidentPushInput): Push
   }
 }
 
-export const wantsMail = (channel: AlertChannel) => channel !== 'phone'
-export const wantsPhone = (channel: AlertChannel) => channel !== 'mail'
+const wantsMail = (channel: AlertChannel) => channel !== 'phone'
+const wantsPhone = (channel: AlertChannel) => channel !== 'mail'
 
 /** Each person's channel for a severity; people who never chose get mail. */
 export async function alertChannelsOf(
@@ -74,4 +75,45 @@ export async function alertChannelsOf(
   const rows = userIds.length ? await ctx.models.AlertChannelChoice.findAll({ where: { userId: userIds }, transaction }) : []
   const chosen = new Map(rows.map((r) => [r.userId, { warning: r.warning, alarm: r.alarm } satisfies AlertChannels]))
   return new Map(userIds.map((id) => [id, (chosen.get(id) ?? DEFAULT_CHANNELS)[severity]]))
+}
+
+export type SitePushInput = {
+  siteIncidentId: number
+  siteId: number
+  severity: Severity
+  siteName: string
+  /** One line per tank: "Reef display: temperature 29.6 °C, above 28 °C". */
+  tanks: string[]
+  openedAt: string
+  siteTimeZone: string
+  escalated: boolean
+}
+
+/** One notification for a site-wide fault, in place of each tank's own; it opens the site's incidents. */
+export function sitePush(i: SitePushInput): PushPayload {
+  const count = i.tanks.length === 1 ? '1 tank' : `${i.tanks.length} tanks`
+  const body = `Since ${formatZonedDateTime(i.openedAt, i.siteTimeZone)}: ${i.tanks.join('; ')}`
+  return {
+    title: one(`${i.escalated ? 'Escalated — ' : ''}${SEVERITY[i.severity]}: ${count} at ${i.siteName} at once`),
+    body: one(body).slice(0, 400),
+    tag: `site-incident-${i.siteIncidentId}`,
+    url: `/incidents?siteId=${i.siteId}`,
+    severity: i.severity,
+  }
+}
+
+/**
+ * Pushes an alert to a person who chose the phone for its severity. Answers whether their mail is
+ * still due: yes unless they chose the phone alone and have a device that can show it.
+ */
+export async function pushAlert(
+  ctx: Pick<AppContext, 'sequelize'>,
+  userId: number | null,
+  channel: AlertChannel,
+  push: Omit<OutgoingPush, 'kind' | 'userId'>,
+  transaction: Transaction,
+): Promise<{ mailToo: boolean }> {
+  if (!userId || !wantsPhone(channel)) return { mailToo: true }
+  const devices = await enqueuePush(ctx, { ...push, kind: 'incident', userId }, { transaction })
+  return { mailToo: wantsMail(channel) || devices === 0 }
 }

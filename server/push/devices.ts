@@ -48,7 +48,8 @@ export const pushDevicesService = perContext((ctx: AppContext) => {
      * enabled notifications on it last) or had expired: one endpoint, one row.
      */
     async subscribe(actor: UserActor, body: z.output<typeof pushSubscriptionBodySchema>): Promise<PublicPushSubscription> {
-      if (!endpointAllowed(body.endpoint, ctx.config.env)) throw badRequest('The push service must be reached over https', { endpoint: 'must be an https:// URL' })
+      if (!endpointAllowed(body.endpoint, ctx.config.env))
+        throw badRequest('The push service must be reached over https', { endpoint: 'must be an https:// URL' })
       const values = { userId: actor.userId, p256dh: body.keys.p256dh, auth: body.keys.auth, label: body.label, status: 'active' as const, expiredAt: null }
       const existing = await models.PushSubscription.findOne({ where: { endpoint: body.endpoint } })
       const row = existing ? await existing.update(values) : await models.PushSubscription.create({ ...values, endpoint: body.endpoint })

@@ -70,7 +70,12 @@ export async function onPush(scope: WorkerScope, data: unknown): Promise<void> {
  * as the mail's acknowledge link, no session and no window needed, and a short notification says
  * how it went. A tap anywhere else opens the incident, in a window of the app if one is open.
  */
-export async function onNotificationClick(scope: WorkerScope, action: string, data: Partial<NotificationData> | null, tag: string): Promise<'acknowledged' | 'refused' | 'opened'> {
+export async function onNotificationClick(
+  scope: WorkerScope,
+  action: string,
+  data: Partial<NotificationData> | null,
+  tag: string,
+): Promise<'acknowledged' | 'refused' | 'opened'> {
   const url = `${scope.origin}${ownPath(data?.url)}`
   if (action === ACKNOWLEDGE && data?.ackToken) {
     let status = 0

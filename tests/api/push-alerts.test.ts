@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { startPushSender, type PushSender } from '../../server/push'
+import { pushAlert, startPushSender, type PushSender } from '../../server/push'
 import { bearer, sampleTank } from '../helpers/app'
 import { startFakePushService } from '../helpers/fake-push'
 import type { TestOrg } from '../helpers/fixtures'
@@ -122,9 +122,15 @@ describe('a keeper who chose the phone for alarms', () => {
     // The phone alone: no alarm mail to the keeper.
     expect(await mailsTo(org.users.keeper.email)).toEqual([])
 
-    // Unacknowledged for 15 minutes: the escalation reaches the keeper's phone again, the owner by mail.
+    // The owner wants alarms both ways, on a tablet of their own.
+    const ownerTablet = fake.subscribe('Owner tablet')
+    expect((await api('/push/subscriptions', org.users.owner.token, { method: 'POST', body: JSON.stringify(ownerTablet.body) })).status).toBe(201)
+    await api('/push/channels', org.users.owner.token, { method: 'PUT', body: JSON.stringify({ warning: 'mail', alarm: 'both' }) })
+
+    // Unacknowledged for 15 minutes: the escalation reaches the keeper's phone again, the owner by mail and on the tablet.
     await s.rules.engine.tick(t0 + 26 * MIN)
-    expect(await sender.runOnce()).toMatchObject({ sent: 1 })
+    expect(await sender.runOnce()).toMatchObject({ sent: 2 })
+    expect(fake.for(ownerTablet.id).map((p) => p.payload.title)).toEqual(['Escalated alarm: Reef display'])
     const escalated = fake.for(phone.id)[1]
     expect(escalated.payload.title).toBe('Escalated alarm: Reef display')
     expect(escalated.payload.body).toMatch(/^Nobody has acknowledged it: temperature/)
@@ -182,5 +188,13 @@ describe('a keeper who chose the phone for alarms', () => {
     // Removing it is the person's choice; afterwards it is gone from the list.
     expect((await api(`/push/subscriptions/${subscriptionId}`, org.users.keeper.token, { method: 'DELETE' })).status).toBe(204)
     expect((await api('/push/subscriptions', org.users.keeper.token)).body.map((d: { id: number }) => d.id)).not.toContain(subscriptionId)
+  })
+
+  it('mails someone who chose the phone alone but has no device that can show it', async () => {
+    const push = { organizationId: org.organizationId, dedupeKey: `fallback:${Date.now()}`, payload: { title: 'Alarm', body: 'x', tag: 't', url: '/' } }
+    const viewer = await s.ctx.sequelize.transaction((t) => pushAlert(s.ctx, org.users.viewer.id, 'phone', push, t))
+    expect(viewer).toEqual({ mailToo: true })
+    const keeper = await s.ctx.sequelize.transaction((t) => pushAlert(s.ctx, org.users.keeper.id, 'phone', { ...push, dedupeKey: `${push.dedupeKey}:k` }, t))
+    expect(keeper).toEqual({ mailToo: false })
   })
 })

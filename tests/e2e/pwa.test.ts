@@ -32,15 +32,24 @@ const api = async (path: string, token: string, init: RequestInit = {}): Promise
   return { status: res.status, body: res.status === 204 ? null : await res.json() }
 }
 
+/** What the page and the worker offer, typed for these tests alone (the test program has no DOM types). */
+type Note = { title: string; body: string; tag: string; data: { url: string; ackToken?: string }; actions: Array<{ action: string; title: string }> }
+type Registration = { scope: string; active: { scriptURL: string } | null; getNotifications(): Promise<Note[]> }
+type PageGlobals = {
+  navigator: { serviceWorker: { ready: Promise<Registration> } }
+  caches: { keys(): Promise<string[]>; open(name: string): Promise<{ keys(): Promise<Array<{ url: string }>> }> }
+}
+type WorkerGlobals = { registration: Registration; dispatchEvent(e: unknown): boolean; NotificationEvent: new (type: string, init: object) => unknown }
+
 type Shown = { title: string; body: string; tag: string; data: { url: string; ackToken?: string }; actions: Array<{ action: string; title: string }> }
 const notifications = (page: Page) =>
   page.evaluate(async () =>
-    (await (await navigator.serviceWorker.ready).getNotifications()).map((n) => ({
+    (await (await (globalThis as unknown as PageGlobals).navigator.serviceWorker.ready).getNotifications()).map((n) => ({
       title: n.title,
       body: n.body,
       tag: n.tag,
       data: n.data,
-      actions: (n as unknown as { actions: Array<{ action: string; title: string }> }).actions,
+      actions: n.actions,
     })),
   ) as Promise<Shown[]>
 
@@ -70,7 +79,7 @@ describe('the installable app', () => {
     page = await context.newPage()
     await signIn(page, s.baseUrl, org.users.keeper.email)
     const registration = await page.evaluate(async () => {
-      const r = await navigator.serviceWorker.ready
+      const r = await (globalThis as unknown as PageGlobals).navigator.serviceWorker.ready
       return { scope: r.scope, script: r.active?.scriptURL ?? null }
     })
     expect(registration).toEqual({ scope: `${s.baseUrl}/`, script: `${s.baseUrl}/sw.js` })
@@ -84,7 +93,9 @@ describe('the installable app', () => {
       icons: Array<{ src: string; sizes: string; type: string; purpose?: string }>
     }
     expect(manifest).toMatchObject({ name: 'Tankwarden', start_url: '/', display: 'standalone', theme_color: '#11606B' })
-    expect(manifest.icons.map((i) => `${i.sizes}${i.purpose ? ` ${i.purpose}` : ''}`)).toEqual(expect.arrayContaining(['192x192', '512x512', '512x512 maskable']))
+    expect(manifest.icons.map((i) => `${i.sizes}${i.purpose ? ` ${i.purpose}` : ''}`)).toEqual(
+      expect.arrayContaining(['192x192', '512x512', '512x512 maskable']),
+    )
     for (const icon of manifest.icons) {
       const res = await fetch(new URL(icon.src, s.baseUrl))
       expect(res.status, icon.src).toBe(200)
@@ -94,7 +105,10 @@ describe('the installable app', () => {
     // The worker script is asked for afresh at each visit, so a new version is found at once.
     expect((await fetch(`${s.baseUrl}/sw.js`)).headers.get('cache-control')).toBe('no-cache')
     // The API never comes from the worker's cache: every call reaches the server.
-    const cached = await page.evaluate(async () => (await Promise.all((await caches.keys()).map(async (k) => (await caches.open(k)).keys()))).flat().map((r) => r.url))
+    const cached = await page.evaluate(async () => {
+      const { caches } = globalThis as unknown as PageGlobals
+      return (await Promise.all((await caches.keys()).map(async (k) => (await caches.open(k)).keys()))).flat().map((r) => r.url)
+    })
     expect(cached.some((u) => new URL(u).pathname === '/index.html')).toBe(true)
     expect(cached.filter((u) => u.includes('/api/'))).toEqual([])
   })
@@ -136,10 +150,9 @@ describe('the installable app', () => {
     const [worker] = context.serviceWorkers()
     const click = (action: string) =>
       worker.evaluate(async (action) => {
-        const scope = self as unknown as { registration: ServiceWorkerRegistration; dispatchEvent(e: Event): boolean }
+        const scope = globalThis as unknown as WorkerGlobals
         const [notification] = await scope.registration.getNotifications()
-        const Click = (globalThis as unknown as { NotificationEvent: new (type: string, init: object) => Event }).NotificationEvent
-        scope.dispatchEvent(new Click('notificationclick', { notification, action }))
+        scope.dispatchEvent(new scope.NotificationEvent('notificationclick', { notification, action }))
       }, action)
     await click('acknowledge')
     await expect.poll(async () => (await api(`/incidents/${incidentId}`, org.users.keeper.token)).body.state, { timeout: 10_000 }).toBe('acknowledged')
@@ -157,7 +170,10 @@ describe('the installable app', () => {
   it("lists the person's devices on the Account page, an expired one with what to do", async () => {
     const fake = await startFakePushService()
     try {
-      const phone = await api('/push/subscriptions', org.users.keeper.token, { method: 'POST', body: JSON.stringify(fake.subscribe('Android phone, Chrome').body) })
+      const phone = await api('/push/subscriptions', org.users.keeper.token, {
+        method: 'POST',
+        body: JSON.stringify(fake.subscribe('Android phone, Chrome').body),
+      })
       const old = await api('/push/subscriptions', org.users.keeper.token, { method: 'POST', body: JSON.stringify(fake.subscribe('iPad, Safari').body) })
       await s.ctx.models.PushSubscription.update({ status: 'expired', expiredAt: new Date() }, { where: { id: old.body.id } })
       expect(phone.status).toBe(201)

@@ -54,9 +54,7 @@ describe('the service worker on a notification click', () => {
   it('Acknowledge sends the token to the acknowledge endpoint of its own origin and says so, without opening a window', async () => {
     const { scope, shown, requests, opened } = fakeScope()
     expect(await onNotificationClick(scope, ACKNOWLEDGE, { url: '/incidents/7', ackToken: alarm.ackToken }, 'incident-7')).toBe('acknowledged')
-    expect(requests).toEqual([
-      { url: 'https://shop.example/api/v1/ack-links/use', body: { token: alarm.ackToken, note: 'Acknowledged from a notification' } },
-    ])
+    expect(requests).toEqual([{ url: 'https://shop.example/api/v1/ack-links/use', body: { token: alarm.ackToken, note: 'Acknowledged from a notification' } }])
     expect(shown.map((n) => [n.title, n.options.tag])).toEqual([['Acknowledged', 'incident-7']])
     expect(opened).toEqual([])
   })

@@ -27,7 +27,15 @@ export function deviceLabel(agent = navigator.userAgent): string {
             : /Linux|CrOS/.test(agent)
               ? 'Linux computer'
               : 'Device'
-  const browser = /Edg\//.test(agent) ? 'Edge' : /Firefox\//.test(agent) ? 'Firefox' : /Chrome\/|CriOS\//.test(agent) ? 'Chrome' : /Safari\//.test(agent) ? 'Safari' : ''
+  const browser = /Edg\//.test(agent)
+    ? 'Edge'
+    : /Firefox\//.test(agent)
+      ? 'Firefox'
+      : /Chrome\/|CriOS\//.test(agent)
+        ? 'Chrome'
+        : /Safari\//.test(agent)
+          ? 'Safari'
+          : ''
   return browser ? `${device}, ${browser}` : device
 }
 
