@@ -1,3 +1,5 @@
+/// <reference types="vite-plugin-pwa/vue" />
+
 declare module '*.vue' {
   import type { DefineComponent } from 'vue'
   const component: DefineComponent<object, object, unknown>
@@ -8,5 +10,3 @@ declare module '*.vue' {
 declare module 'virtual:mdi-icons' {
   export const iconPaths: Record<string, string>
 }
-
-/// <reference types="vite-plugin-pwa/vue" />

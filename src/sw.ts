@@ -26,14 +26,17 @@ const scope: WorkerScope = {
   fetch: (url, init) => fetch(url, init),
 }
 
-self.addEventListener('push', (event) => {
-  let data: unknown = null
+/** The payload as JSON, or null when it is not: the notification still shows (see notificationFor). */
+function payloadOf(event: PushEvent): unknown {
   try {
-    data = event.data?.json()
+    return event.data?.json() ?? null
   } catch {
-    data = null
+    return null
   }
-  event.waitUntil(onPush(scope, data))
+}
+
+self.addEventListener('push', (event) => {
+  event.waitUntil(onPush(scope, payloadOf(event)))
 })
 
 self.addEventListener('notificationclick', (event) => {

@@ -78,17 +78,14 @@ export async function onNotificationClick(
 ): Promise<'acknowledged' | 'refused' | 'opened'> {
   const url = `${scope.origin}${ownPath(data?.url)}`
   if (action === ACKNOWLEDGE && data?.ackToken) {
-    let status = 0
-    try {
-      const response = await scope.fetch(`${scope.origin}/api/v1/ack-links/use`, {
+    const status = await scope
+      .fetch(`${scope.origin}/api/v1/ack-links/use`, {
         method: 'POST',
         headers: { 'content-type': 'application/json' },
         body: JSON.stringify({ token: data.ackToken, note: 'Acknowledged from a notification' }),
       })
-      status = response.ok ? 200 : response.status
-    } catch {
-      status = 0
-    }
+      .then((response) => (response.ok ? 200 : response.status))
+      .catch(() => 0)
     const body =
       status === 200
         ? 'Nobody else will be asked. Open the incident when you can.'
