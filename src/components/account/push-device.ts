@@ -60,7 +60,14 @@ export async function subscribeThisBrowser(publicKey: string): Promise<PushSubsc
   if ((await Notification.requestPermission()) !== 'granted') return null
   const registration = await workerRegistration()
   const existing = await registration.pushManager.getSubscription()
-  const subscription = existing ?? (await registration.pushManager.subscribe({ userVisibleOnly: true, applicationServerKey: keyBytes(publicKey) }))
+  const subscription =
+    existing ??
+    (await registration.pushManager.subscribe({ userVisibleOnly: true, applicationServerKey: keyBytes(publicKey) }).catch((error: unknown) => {
+      // The browser's own push service refused or could not be reached (offline, or a browser without one).
+      throw new Error(
+        `This browser could not sign up with its push service (${error instanceof Error ? error.message : String(error)}). Try again when online.`,
+      )
+    }))
   const json = subscription.toJSON()
   return { endpoint: json.endpoint ?? subscription.endpoint, keys: { p256dh: json.keys?.p256dh ?? '', auth: json.keys?.auth ?? '' }, label: deviceLabel() }
 }
