@@ -24,7 +24,7 @@ import { dutyRecipients } from '../roster'
 import type { IncidentNotifier, NotifyKind, NotifyOptions } from './notifier'
 import { firstStep, needsElectricalCaution, whatToCheck } from './what-to-check'
 import { recentValues } from '../readings'
-import { alertChannelsOf, incidentPush, pushAlert, pushedUserIds, sitePush } from '../push'
+import { alertChannelsOf, incidentPush, pushAlert, pushedUserIds, sitePush, toldWord } from '../push'
 
 type Person = { userId: number | null; name: string; email: string }
 
@@ -145,6 +145,7 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
         incident.severity,
         transaction,
       )
+      const told: string[] = []
       for (const person of people) {
         const acknowledgeUrl = kind !== 'resolved' && person.userId ? await ackLinksService(ctx).create(incident.id, person.userId, transaction) : undefined
         const channel = person.userId ? (channels.get(person.userId) ?? 'mail') : 'mail'
@@ -171,6 +172,7 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
           },
           transaction,
         )
+        told.push(toldWord(person.email, channel, mailToo))
         if (!mailToo) continue
         const input: IncidentMailInput = {
           organizationName: organization?.name ?? '',
@@ -216,7 +218,7 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
           { transaction },
         )
       }
-      return people.map((p) => p.email)
+      return told
     },
 
     async notifySite(kind, siteIncident: SiteIncident, transaction) {
@@ -266,6 +268,7 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
         siteTimeZone: site?.timeZone ?? 'UTC',
         escalated: kind === 'escalated',
       })
+      const told: string[] = []
       for (const person of people) {
         const channel = person.userId ? (channels.get(person.userId) ?? 'mail') : 'mail'
         const push = {
@@ -274,7 +277,9 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
           dedupeKey: `site_incident:${siteIncident.id}:${kind}:${siteIncident.escalationLevel}:user:${person.userId}`,
           payload,
         }
-        if (!(await pushAlert(ctx, person.userId, channel, push, transaction)).mailToo) continue
+        const { mailToo } = await pushAlert(ctx, person.userId, channel, push, transaction)
+        told.push(toldWord(person.email, channel, mailToo))
+        if (!mailToo) continue
         await enqueueMail(
           ctx,
           {
@@ -290,7 +295,7 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
           { transaction },
         )
       }
-      return people.map((p) => p.email)
+      return told
     },
   }
 }

@@ -117,3 +117,9 @@ export async function pushAlert(
   const devices = await enqueuePush(ctx, { ...push, kind: 'incident', userId }, { transaction })
   return { mailToo: wantsMail(channel) || devices === 0 }
 }
+
+/** Who was told, for the incident's timeline: the address, and how when not by mail alone. */
+export function toldWord(email: string, channel: AlertChannel, mailToo: boolean): string {
+  if (channel === 'mail' || (channel === 'phone' && mailToo)) return email
+  return channel === 'both' && mailToo ? `${email} (mail and phone)` : `${email} (phone)`
+}

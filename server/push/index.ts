@@ -3,7 +3,7 @@ import { startPushSender, type PushSender, type PushSenderOptions } from './send
 
 // What other features may use of push/; everything else in the folder is its own.
 export { enqueuePush, pushedUserIds, type OutgoingPush } from './outbox'
-export { alertChannelsOf, incidentPush, pushAlert, sitePush, type IncidentPushInput, type IncidentPushKind } from './alerts'
+export { alertChannelsOf, incidentPush, pushAlert, sitePush, toldWord, type IncidentPushInput, type IncidentPushKind } from './alerts'
 export { startPushSender, type PushSender, type PushSenderOptions, type PushRunResult } from './sender'
 export { vapidKeysFor } from './vapid'
 

@@ -121,6 +121,11 @@ describe('a keeper who chose the phone for alarms', () => {
     expect(alarm.vapid.publicKey).toBe((await api('/push/config', org.users.keeper.token)).body.publicKey)
     // The phone alone: no alarm mail to the keeper.
     expect(await mailsTo(org.users.keeper.email)).toEqual([])
+    const timeline = (await api(`/incidents/${incident.id}`, org.users.keeper.token)).body.timeline as Array<{
+      kind: string
+      detail: { recipients?: string[] }
+    }>
+    expect(timeline.find((e) => e.kind === 'mail_queued')?.detail.recipients).toEqual([`${org.users.keeper.email} (phone)`])
 
     // The owner wants alarms both ways, on a tablet of their own.
     const ownerTablet = fake.subscribe('Owner tablet')
