@@ -83,10 +83,22 @@ export function startPushSender(ctx: Pick<AppContext, 'sequelize' | 'logger' | '
     return deliverPush({ endpoint: row.endpoint, p256dh: row.p256dh, auth: row.auth }, message, vapidKeysFor(ctx), sendTimeoutMs)
   }
 
+  /** A database hiccup right after the push service took the push would otherwise leave it to be pushed again. */
+  async function markSent(id: number) {
+    for (let attempt = 1; ; attempt++) {
+      try {
+        return await update(DONE_SQL, [id, 'sent', null])
+      } catch (error) {
+        if (attempt >= 3) throw error
+        await new Promise((r) => setTimeout(r, 500 * attempt))
+      }
+    }
+  }
+
   async function attempt(row: Row, now: Date): Promise<keyof Omit<PushRunResult, 'claimed'>> {
     const outcome = await deliver(row)
     if (outcome.kind === 'sent') {
-      await update(DONE_SQL, [row.id, 'sent', null])
+      await markSent(row.id)
       await update(`UPDATE push_subscriptions SET last_sent_at = now(), updated_at = now() WHERE id = $1`, [row.subscription_id])
       return 'sent'
     }
