@@ -102,6 +102,11 @@ describe('the installable app', () => {
       expect(res.headers.get('content-type')).toBe('image/png')
     }
     expect(await page.locator('meta[name="theme-color"]').getAttribute('content')).toBe('#11606B')
+    // Chromium's own verdict on installing it (a test browser context counts as incognito, which only it may not be).
+    const cdp = await context.newCDPSession(page)
+    const { installabilityErrors } = await cdp.send('Page.getInstallabilityErrors')
+    expect(installabilityErrors.map((e) => e.errorId).filter((id) => id !== 'in-incognito')).toEqual([])
+    await cdp.detach()
     // The worker script is asked for afresh at each visit, so a new version is found at once.
     expect((await fetch(`${s.baseUrl}/sw.js`)).headers.get('cache-control')).toBe('no-cache')
     // The API never comes from the worker's cache: every call reaches the server.
