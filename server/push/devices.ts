@@ -69,7 +69,8 @@ export const pushDevicesService = perContext((ctx: AppContext) => {
         userId: actor.userId,
         organizationId: actor.organizationId,
         subscriptionId: id,
-        dedupeKey: `test:${id}:${Date.now()}`,
+        // Taps in quick succession send one test, not a burst.
+        dedupeKey: `test:${id}:${Math.floor(Date.now() / 10_000)}`,
         payload: { title: 'Tankwarden test notification', body: `Alerts will reach ${subscription.label} like this.`, tag: `test-${id}`, url: '/account' },
       })
       return { queued: true }
