@@ -1,3 +1,5 @@
+/// <reference types="vite-plugin-pwa/vue" />
+
 declare module '*.vue' {
   import type { DefineComponent } from 'vue'
   const component: DefineComponent<object, object, unknown>

@@ -54,7 +54,8 @@ export default defineConfig({
       },
       {
         plugins: [vue(), vuetify({ autoImport: true })],
-        resolve: { alias },
+        // Only the client build makes vite-plugin-pwa's module; component tests get a stand-in.
+        resolve: { alias: { ...alias, 'virtual:pwa-register/vue': fileURLToPath(new URL('./tests/components/stubs/pwa-register-vue.ts', import.meta.url)) } },
         test: {
           name: 'components',
           include: ['tests/components/**/*.test.ts'],

@@ -30,6 +30,7 @@ import { roundsRouter, visitsRouter } from './visits/routes'
 import { livestockRouter } from './livestock/routes'
 import { consumablesRouter, equipmentRouter, siteConsumableRoutes, tankEquipmentRoutes } from './equipment/routes'
 import { siteLabelRoutes } from './labels/routes'
+import { pushRouter } from './push/routes'
 import { importSourcesRouter, importsRouter, siteImportRoutes, tankImportRoutes } from './imports/routes'
 
 export const API_VERSION = '0.1.0'
@@ -103,6 +104,7 @@ export function apiRouter(ctx: AppContext) {
   router.use('/backup', requireUser, backupRouter(ctx))
   router.use('/imports', requireUser, importsRouter(ctx))
   router.use('/import-sources', requireUser, importSourcesRouter(ctx))
+  router.use('/push', requireUser, pushRouter(ctx))
   router.use('/readings', authenticateDevice(passport), readingsRouter(ctx))
   // The local fake mailbox, only where no real SMTP server is configured and never in production.
   if (!ctx.config.mail.smtpUrl && ctx.config.env !== 'production') router.use('/dev/mail', requireUser, allow('mail.dev'), devMailRouter(ctx))

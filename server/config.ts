@@ -86,8 +86,22 @@ const envSchema = z
     S3_FORCE_PATH_STYLE: boolish.default(false),
     CARE_DIGEST_HOUR: z.coerce.number().int().min(0).max(23).default(7),
     IMPORT_MAX_MB: z.coerce.number().positive().max(10_000).default(100),
+    // Web Push (RFC 8292): who the push services may contact, and the key pair (else made once and kept in DATA_DIR).
+    VAPID_SUBJECT: z
+      .string()
+      .regex(/^(mailto:\S+@\S+|https:\/\/\S+)$/, 'VAPID_SUBJECT must be a mailto: address or an https:// URL')
+      .optional(),
+    VAPID_PUBLIC_KEY: z
+      .string()
+      .regex(/^[A-Za-z0-9_-]{87}$/, 'VAPID_PUBLIC_KEY: a P-256 public key, base64url (87 characters)')
+      .optional(),
+    VAPID_PRIVATE_KEY: z
+      .string()
+      .regex(/^[A-Za-z0-9_-]{43}$/, 'VAPID_PRIVATE_KEY: a P-256 private key, base64url (43 characters)')
+      .optional(),
   })
   .refine((e) => e.PHOTO_STORE !== 's3' || e.S3_BUCKET, { message: 'S3_BUCKET is required when PHOTO_STORE=s3', path: ['S3_BUCKET'] })
+  .refine((e) => !e.VAPID_PUBLIC_KEY === !e.VAPID_PRIVATE_KEY, { message: 'set both VAPID keys or neither', path: ['VAPID_PRIVATE_KEY'] })
 
 export type Config = Readonly<{
   env: 'development' | 'production' | 'test'
@@ -123,7 +137,18 @@ export type Config = Readonly<{
   /** Local hour (site's zone) from which the morning care digest goes out. */
   careDigestHour: number
   imports: { maxMb: number }
+  /** Web Push: the VAPID subject, and the key pair when configured (else kept in the data folder, server/push/vapid.ts). */
+  push: PushSettings
 }>
+
+export type PushSettings = { subject: string; publicKey?: string; privateKey?: string }
+
+/** The contact a push service may use: the sender address of the alert mails, unless VAPID_SUBJECT names one. */
+function vapidSubject(subject: string | undefined, mailFrom: string): string {
+  if (subject) return subject
+  const address = /<([^>]+)>/.exec(mailFrom)?.[1] ?? mailFrom.trim()
+  return `mailto:${address}`
+}
 
 export type PhotoStoreSettings =
   { kind: 'local' } | { kind: 's3'; endpoint?: string; bucket: string; region: string; accessKeyId?: string; secretAccessKey?: string; forcePathStyle: boolean }
@@ -198,6 +223,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     },
     careDigestHour: e.CARE_DIGEST_HOUR,
     imports: { maxMb: e.IMPORT_MAX_MB },
+    push: { subject: vapidSubject(e.VAPID_SUBJECT, e.MAIL_FROM), publicKey: e.VAPID_PUBLIC_KEY, privateKey: e.VAPID_PRIVATE_KEY },
   })
 }
 
@@ -231,6 +257,7 @@ export function testConfig(overrides: Partial<Config> & { databaseUrl: string })
     photos: { maxBytes: 15 * 1024 * 1024, store: { kind: 'local' as const } },
     careDigestHour: 7,
     imports: { maxMb: 100 },
+    push: { subject: 'mailto:alerts@tankwarden.invalid' },
     ...overrides,
   })
 }

@@ -22,6 +22,7 @@ import { Client } from './clients/client-model'
 import { Visit } from './visits/visit-model'
 import { LivestockEvent } from './livestock/models'
 import { Consumable, Equipment } from './equipment/models'
+import { AlertChannelChoice, PushSubscription } from './push/models'
 
 export {
   Organization,
@@ -61,6 +62,8 @@ export {
   LivestockEvent,
   Equipment,
   Consumable,
+  PushSubscription,
+  AlertChannelChoice,
 }
 
 /** Every model, in the order they are bound. */
@@ -102,6 +105,8 @@ const ALL_MODELS = {
   LivestockEvent,
   Equipment,
   Consumable,
+  PushSubscription,
+  AlertChannelChoice,
 }
 
 /** Binds every model to this Sequelize instance and declares the associations, in one place. */

@@ -14,6 +14,7 @@ import { startRuleEngine } from './incidents/runtime'
 import { createMailNotifier } from './incidents/mail-notifier'
 import { recordMailAttempts } from './incidents/mail-timeline'
 import { startMail, type RunningMail } from './mail'
+import { startPush, type PushSender } from './push'
 import { startReportJob } from './reports/job'
 import { startCareDigestJob } from './care/digest'
 import { startImportRunner } from './imports/runner'
@@ -29,6 +30,8 @@ export type RunningServer = {
   fanout: ClusterFanout
   rules: ReturnType<typeof startRuleEngine>
   mail: RunningMail
+  /** The push outbox's sender (phone notifications). */
+  push: PushSender
   hub: ReturnType<typeof attachLiveHub>
   /** On an installation without any organisation: the code that lets another machine run the setup page. */
   setupCode: string | null
@@ -62,6 +65,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
 
   const stopMailTimeline = recordMailAttempts(ctx)
   const mail: RunningMail = await startMail(ctx)
+  const push = startPush(ctx)
   ctx.incidents.notifier = createMailNotifier(ctx)
   // Jobs that must not run twice go beside the engine, in the one instance holding the lock (the
   // report and digest jobs are also safe twice over, by their outbox dedupe keys).
@@ -89,6 +93,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
     fanout,
     rules,
     mail,
+    push,
     hub,
     setupCode,
     async stop() {
@@ -97,6 +102,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
       await stopImports()
       await rules.stop()
       await mail.stop()
+      await push.stop()
       stopMailTimeline()
       hub.close()
       await broker?.close()

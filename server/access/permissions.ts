@@ -37,6 +37,8 @@ export const PERMISSIONS = {
   /** Closed visits' reports: a client's people read their own. */
   'visits.read': ['owner', 'keeper', 'viewer'],
   'labels.print': ['owner'],
+  // One's own notification devices and alert channels.
+  'account.alerts': ['owner', 'keeper', 'viewer'],
 } as const satisfies Record<string, readonly Caller[]>
 
 export type Permission = keyof typeof PERMISSIONS

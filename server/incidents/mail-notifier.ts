@@ -25,6 +25,7 @@ import type { IncidentNotifier, NotifyKind, NotifyOptions } from './notifier'
 import { firstStep, needsElectricalCaution, whatToCheck } from './what-to-check'
 import { recentValues } from '../readings'
 import { heaterAge } from '../equipment'
+import { alertChannelsOf, incidentPush, pushAlert, pushedUserIds, sitePush, toldWord } from '../push'
 
 type Person = { userId: number | null; name: string; email: string }
 
@@ -66,10 +67,14 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
       { bind: [incidentId], type: QueryTypes.SELECT, transaction },
     )
     const users = await models.User.findAll({ where: { email: { [Op.in]: rows.map((r) => r.to_address) } }, transaction })
-    return rows.map((r) => {
+    const mailed = rows.map((r) => {
       const u = users.find((x) => x.email === r.to_address)
       return { userId: u?.id ?? null, name: u?.name ?? r.to_address, email: r.to_address }
     })
+    // People who chose the phone alone were told without a mail.
+    const pushedIds = (await pushedUserIds(ctx, incidentId, transaction)).filter((id) => !mailed.some((p) => p.userId === id))
+    const pushed = pushedIds.length ? await models.User.findAll({ where: { id: pushedIds }, transaction }) : []
+    return [...mailed, ...pushed.map((u) => ({ userId: u.id, name: u.name, email: u.email }))]
   }
 
   async function recipients(kind: NotifyKind, incident: Incident, transaction: Transaction, options: NotifyOptions): Promise<Person[]> {
@@ -136,8 +141,41 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
         heaterTopCm: tank?.heater?.topCm,
       })
       const heater = incident.metric === 'temperature' && tank ? await heaterAge(ctx, tank.id, new Date(), transaction) : null
+      const channels = await alertChannelsOf(
+        ctx,
+        people.flatMap((p) => (p.userId ? [p.userId] : [])),
+        incident.severity,
+        transaction,
+      )
+      const told: string[] = []
       for (const person of people) {
         const acknowledgeUrl = kind !== 'resolved' && person.userId ? await ackLinksService(ctx).create(incident.id, person.userId, transaction) : undefined
+        const channel = person.userId ? (channels.get(person.userId) ?? 'mail') : 'mail'
+        const { mailToo } = await pushAlert(
+          ctx,
+          person.userId,
+          channel,
+          {
+            organizationId: incident.organizationId,
+            incidentId: incident.id,
+            urgency: incident.severity === 'alarm' && kind !== 'resolved' ? 'high' : 'normal',
+            dedupeKey: `incident:${incident.id}:${kind}:${serial}:user:${person.userId}`,
+            payload: incidentPush(kind, {
+              incidentId: incident.id,
+              severity: incident.severity,
+              tankName: tank?.name ?? '',
+              siteName: site?.name ?? '',
+              what: measurement,
+              metricLabel: def?.label ?? incident.metric,
+              since: incident.openedAt.toISOString(),
+              siteTimeZone: site?.timeZone ?? 'UTC',
+              ackToken: acknowledgeUrl ? (new URL(acknowledgeUrl).searchParams.get('token') ?? undefined) : undefined,
+            }),
+          },
+          transaction,
+        )
+        told.push(toldWord(person.email, channel, mailToo))
+        if (!mailToo) continue
         const input: IncidentMailInput = {
           organizationName: organization?.name ?? '',
           siteName: site?.name ?? '',
@@ -183,7 +221,7 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
           { transaction },
         )
       }
-      return people.map((p) => p.email)
+      return told
     },
 
     async notifySite(kind, siteIncident: SiteIncident, transaction) {
@@ -217,7 +255,34 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
         incidentsUrl: `${config.publicUrl}/incidents?siteId=${siteIncident.siteId}`,
         escalated: kind === 'escalated',
       })
+      const channels = await alertChannelsOf(
+        ctx,
+        people.flatMap((p) => (p.userId ? [p.userId] : [])),
+        siteIncident.severity,
+        transaction,
+      )
+      const payload = sitePush({
+        siteIncidentId: siteIncident.id,
+        siteId: siteIncident.siteId,
+        severity: siteIncident.severity,
+        siteName: site?.name ?? '',
+        tanks,
+        openedAt: siteIncident.openedAt.toISOString(),
+        siteTimeZone: site?.timeZone ?? 'UTC',
+        escalated: kind === 'escalated',
+      })
+      const told: string[] = []
       for (const person of people) {
+        const channel = person.userId ? (channels.get(person.userId) ?? 'mail') : 'mail'
+        const push = {
+          organizationId: siteIncident.organizationId,
+          urgency: siteIncident.severity === 'alarm' ? ('high' as const) : ('normal' as const),
+          dedupeKey: `site_incident:${siteIncident.id}:${kind}:${siteIncident.escalationLevel}:user:${person.userId}`,
+          payload,
+        }
+        const { mailToo } = await pushAlert(ctx, person.userId, channel, push, transaction)
+        told.push(toldWord(person.email, channel, mailToo))
+        if (!mailToo) continue
         await enqueueMail(
           ctx,
           {
@@ -233,7 +298,7 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
           { transaction },
         )
       }
-      return people.map((p) => p.email)
+      return told
     },
   }
 }

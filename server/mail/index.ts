@@ -4,7 +4,7 @@ import { startOutboxSender, type OutboxSender, type SenderOptions } from './send
 import { createMailTransport } from './transport'
 
 export { enqueueMail, type OutgoingMail } from './outbox'
-export { startOutboxSender, retryDelayMs, type OutboxSender, type RunResult, type SenderOptions } from './sender'
+export { startOutboxSender, retryDelayMs, DEFAULT_RETRY, type RetryPolicy, type OutboxSender, type RunResult, type SenderOptions } from './sender'
 export { createMailTransport, type MailTransport } from './transport'
 export { startFakeSmtp, type FakeSmtp } from './fake-smtp'
 export { renderTrendPng, renderTrendSvg, type TrendChartInput } from './trend-chart'

@@ -41,6 +41,8 @@ type World = {
   freshMail(): Promise<number>
   freshClient(): Promise<number>
   freshVisit(): Promise<number>
+  /** A notification device of the org's owner. */
+  freshPushDevice(): Promise<number>
 }
 
 /** What one case sends: the values for the route's `:params` (in order) and the body, all made fresh per case. */
@@ -88,6 +90,13 @@ const ruleBody = { name: 'pH below 6.5', severity: 'warning', spec: { kind: 'bel
 const storedRule = { name: 'pH below 6.5', severity: 'warning', spec: { kind: 'below', metric: 'ph', limit: 6.5, holdMinutes: 0, clearMargin: 0 } } as const
 const maintenanceBody = { reason: 'Weekly glass polish', repeat: 'weekly', weekday: 1, start: '09:00', durationMinutes: 90 }
 const snoozeBody = () => ({ reason: 'Water change', startsAt: inHours(0), endsAt: inHours(2) })
+let pushCounter = 0
+/** A browser's subscription: a fresh endpoint, a P-256 point (65 bytes) and a 16-byte auth secret. */
+const pushDeviceBody = () => ({
+  endpoint: `https://push.example/send/${process.pid}-${++pushCounter}`,
+  keys: { p256dh: Buffer.alloc(65, 4).toString('base64url'), auth: Buffer.alloc(16, 7).toString('base64url') },
+  label: 'Roles phone',
+})
 const probe = async (w: World) => ({ tankId: await w.freshTank(), name: 'Probe', metrics: ['temperature'], intervalSeconds: 60 })
 
 const kitBody = { values: [{ metric: 'ph', value: 7.1, unit: 'pH' }], notes: 'weekly check' }
@@ -381,6 +390,15 @@ const ROUTES: RouteCase[] = [
   row('get', '/backup', signedIn(200, 403, 403, 200)),
   // No file sent: an owner reaches the upload check (400), others stop at the role.
   row('post', '/backup/restore', signedIn(400, 403, 403, 400)),
+
+  // One's own notification devices: another person's device is not found, whoever asks.
+  row('get', '/push/config', signedIn(200, 200, 200, 200)),
+  row('get', '/push/subscriptions', signedIn(200, 200, 200, 200)),
+  row('post', '/push/subscriptions', signedIn(201, 201, 201, 201), () => ({ body: pushDeviceBody() })),
+  row('delete', '/push/subscriptions/:id', signedIn(204, 404, 404, 404), async (w) => ({ param: await w.freshPushDevice() })),
+  row('post', '/push/subscriptions/:id/test', signedIn(202, 404, 404, 404), async (w) => ({ param: await w.freshPushDevice() })),
+  row('get', '/push/channels', signedIn(200, 200, 200, 200)),
+  row('put', '/push/channels', signedIn(200, 200, 200, 200), () => ({ body: { warning: 'mail', alarm: 'both' } })),
 ]
 
 const ERROR_CODES: Record<number, string> = { 400: 'invalid_input', 401: 'unauthenticated', 403: 'forbidden', 404: 'not_found' }
@@ -609,6 +627,11 @@ beforeAll(async () => {
         rawSize: 120,
       })
       return mail.id
+    },
+    async freshPushDevice() {
+      const body = pushDeviceBody()
+      const device = await models.PushSubscription.create({ userId: org.users.owner.id, endpoint: body.endpoint, ...body.keys, label: body.label })
+      return device.id
     },
   }
 })

@@ -113,7 +113,7 @@ describe('incident detail', () => {
     expect(entries[2]).toContain('Escalated (level 1)')
     expect(entries[3]).toContain('To sam@example.test, owner@example.test')
     expect(entries[4]).toContain('Reminder')
-    expect(entries[5]).toContain('Acknowledged by Sam Keeper from the e-mail link')
+    expect(entries[5]).toContain("Acknowledged by Sam Keeper from an alert's link")
     expect(entries[5]).toContain('Heater unplugged, fan on')
     expect(entries[6]).toContain('Resolved automatically')
     expect(entries[6]).toContain('The rule cleared at 26.9 °C.')

@@ -37,6 +37,18 @@ export const accountsRoutes = (w: FuzzWorld): FuzzRoute[] => [
   { method: 'post', path: '/sites', token: w.owner, base: { name: 'Back room', timeZone: 'Europe/Paris', address: '1 Reed Lane', notes: '' } },
   { method: 'patch', path: `/sites/${w.org.siteIds[1]}`, token: w.owner, base: { name: 'Fish room', timeZone: 'America/New_York', address: '', notes: 'n' } },
   { method: 'post', path: `/sites/${w.siteId}/wall-credentials`, token: w.owner, base: { name: 'Shop TV' } },
+  // A notification device; the app alone runs here (no push sender), so no endpoint is ever called.
+  {
+    method: 'post',
+    path: '/push/subscriptions',
+    token: w.keeper,
+    base: {
+      endpoint: 'https://push.example/send/fuzz',
+      keys: { p256dh: Buffer.alloc(65, 4).toString('base64url'), auth: Buffer.alloc(16, 7).toString('base64url') },
+      label: 'Fuzz phone',
+    },
+  },
+  { method: 'put', path: '/push/channels', token: w.keeper, base: { warning: 'mail', alarm: 'both' } },
 ]
 
 /** Tanks, devices, HTTP readings, test-kit entries. */

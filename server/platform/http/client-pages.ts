@@ -1,4 +1,5 @@
 import { existsSync } from 'node:fs'
+import type { ServerResponse } from 'node:http'
 import { join } from 'node:path'
 import type { Express, RequestHandler } from 'express'
 import expressStaticGzip from 'express-static-gzip'
@@ -18,8 +19,21 @@ export function serveClientPages(app: Express, dist: string): void {
   })
 }
 
+// The service worker, the manifest and the icons keep their names from one version to the next: a
+// browser asks again each time, so a new version is found at the next visit, not an hour later.
+const UNHASHED = /\/(sw\.js|manifest\.webmanifest|[\w-]+\.(png|ico|svg))(\.br|\.gz)?$/
+
+function revalidateUnhashed(res: ServerResponse, path: string) {
+  if (UNHASHED.test(path) && !path.includes('/assets/')) res.setHeader('Cache-Control', 'no-cache')
+}
+
 function precompressedFiles(dist: string): RequestHandler {
-  const serve = expressStaticGzip(dist, { enableBrotli: true, orderPreference: ['br', 'gzip'], index: false, serveStatic: { maxAge: '1h' } })
+  const serve = expressStaticGzip(dist, {
+    enableBrotli: true,
+    orderPreference: ['br', 'gzip'],
+    index: false,
+    serveStatic: { maxAge: '1h', setHeaders: revalidateUnhashed },
+  })
   return (req, res, next) => {
     // A path that does not decode is no file of ours; the router answers it with the usual JSON error.
     try {

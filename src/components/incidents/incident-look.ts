@@ -74,7 +74,8 @@ export function describeTimelineEntry(entry: Entry, incident: Pick<PublicInciden
       return {
         ...base,
         icon: 'mdi-email-fast-outline',
-        title: `E-mail queued: ${MAIL_WORDS[text(d.kind)] ?? text(d.kind)}`,
+        // "(phone)" or "(mail and phone)" after an address: the alert went to that person's phone too.
+        title: `${recipients.some((r) => r.endsWith('phone)')) ? 'Alert' : 'E-mail'} queued: ${MAIL_WORDS[text(d.kind)] ?? text(d.kind)}`,
         detail: recipients.length ? `To ${recipients.join(', ')}` : undefined,
       }
     }
@@ -89,7 +90,7 @@ export function describeTimelineEntry(entry: Entry, incident: Pick<PublicInciden
     case 'repeated':
       return { ...base, icon: 'mdi-repeat', title: 'Reminder', detail: 'Still not acknowledged: the alert went out again.' }
     case 'acknowledged': {
-      const via = d.via === 'link' ? ' from the e-mail link' : ''
+      const via = d.via === 'link' ? " from an alert's link" : ''
       return { ...base, icon: 'mdi-account-check', color: 'info', title: `Acknowledged by ${nameOf(entry.userId)}${via}`, detail: text(d.note) || undefined }
     }
     case 'resolved':

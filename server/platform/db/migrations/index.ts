@@ -21,6 +21,7 @@ import createClientsVisits from './202612060500-create-clients-visits'
 import addLivestockBatches from './202612060600-add-livestock-batches'
 import createEquipment from './202612060610-create-equipment'
 import addClientIds from './202612060300-add-client-ids'
+import createPush from './202612060400-create-push'
 
 /** Every migration in order. Add new files here; never edit one that has shipped. */
 export const migrations: Migration[] = [
@@ -46,4 +47,5 @@ export const migrations: Migration[] = [
   addLivestockBatches,
   createEquipment,
   addClientIds,
+  createPush,
 ]
