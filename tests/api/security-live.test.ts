@@ -5,6 +5,7 @@ import { commandsTopic, readingsTopic } from '@shared/ingest/contract'
 import type { LiveServerMessage } from '@shared/schemas/live'
 import { createTankWithDevice, TEST_PASSWORD, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
+import { until } from '../helpers/wait'
 
 // Scope and revocation on the live connections. Already covered elsewhere, not repeated here:
 // another organization's tank and no-auth subscriptions (tests/api/live.test.ts), a wall key on
@@ -67,7 +68,7 @@ async function liveSocket(token: string) {
   await new Promise((resolve, reject) => ws.once('open', resolve).once('error', reject))
   ws.send(JSON.stringify({ type: 'auth', token }))
   const frame = async (index: number) => {
-    for (let i = 0; i < 100 && frames.length <= index; i++) await new Promise((r) => setTimeout(r, 50))
+    await until(() => frames.length > index, 5000, 50)
     return frames[index]
   }
   return { ws, frames, closed, frame, send: (m: unknown) => ws.send(JSON.stringify(m)) }

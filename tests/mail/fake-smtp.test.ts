@@ -6,7 +6,8 @@ import { startMail } from '../../server/mail'
 import { enqueueMail } from '../../server/mail/outbox'
 import { startOutboxSender } from '../../server/mail/sender'
 import { createOrgIn, type TestOrg } from '../helpers/fixtures'
-import { sampleMail, startMailBed, waitFor, type MailBed } from './mail-bed'
+import { sampleMail, startMailBed, type MailBed } from './mail-bed'
+import { waitFor } from '../helpers/wait'
 
 let bed: MailBed
 beforeAll(async () => {
