@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import WebSocket from 'ws'
 import { commandsTopic, readingsTopic } from '@shared/ingest/contract'
 import type { LiveServerMessage } from '@shared/schemas/live'
-import { createTankWithDevice, TEST_PASSWORD, type TestOrg } from '../helpers/fixtures'
+import { createTankRow, createTankWithDevice, TEST_PASSWORD, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
 import { until } from '../helpers/wait'
 
@@ -24,23 +24,15 @@ beforeAll(async () => {
   org = await s.createOrg('Marrowfen Live Security')
   other = await s.createOrg('Other Live Security')
   shopTank = await createTankWithDevice(s.ctx, org, 'Shop tank')
-  const room = await s.ctx.models.Tank.create({
-    organizationId: org.organizationId,
+  const room = await createTankRow(s.ctx, org, {
     siteId: org.siteIds[1],
     name: 'Fish room tank',
     kind: 'coldwater',
-    stage: 'established',
     dimensions: null,
     volumeLitres: 120,
     volumeSource: 'entered',
-    substrateDepthCm: 0,
     heater: null,
-    filter: '',
-    media: '',
     lightSchedule: null,
-    targets: {},
-    notes: '',
-    sortOrder: 0,
   })
   roomTankId = room.id
 })
