@@ -5,6 +5,7 @@ import { authService } from '../../server/people/auth'
 import type { Role } from '@shared/schemas/auth'
 import type { InferCreationAttributes } from 'sequelize'
 import type { Tank } from '../../server/tanks/tank-model'
+import type { Incident } from '../../server/incidents/models'
 
 export const TEST_PASSWORD = 'correct-horse-battery'
 let passwordHash: string | undefined
@@ -82,4 +83,30 @@ export async function createTankWithDevice(ctx: AppContext, org: TestOrg, name =
   const { token, hash } = newDeviceToken(device.id)
   await device.update({ tokenHash: hash })
   return { tankId: tank.id, deviceId: device.id, token }
+}
+
+/**
+ * An open incident row written straight to its table: an alarm for temperature above 28 °C, at
+ * 28.6 °C since now, in the organization's first site, without a rule. `fields` replace any of it.
+ */
+export function createIncidentRow(ctx: AppContext, org: TestOrg, tankId: number, fields: Partial<InferCreationAttributes<Incident>> = {}) {
+  const at = new Date()
+  return ctx.models.Incident.create({
+    organizationId: org.organizationId,
+    siteId: org.siteIds[0]!,
+    tankId,
+    ruleId: null,
+    ruleKind: 'above',
+    metric: 'temperature',
+    severity: 'alarm',
+    title: 'Temperature above 28 °C for 10 min',
+    state: 'open',
+    conditionSince: at,
+    openedAt: at,
+    firstValue: 28.6,
+    peakValue: 28.6,
+    latestValue: 28.6,
+    latestAt: at,
+    ...fields,
+  })
 }
