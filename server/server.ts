@@ -9,14 +9,12 @@ import { attachLiveHub } from './live/hub'
 import { startEmbeddedBroker, type EmbeddedBroker } from './mqtt/broker'
 import { startExternalConsumer, type ExternalConsumer } from './mqtt/external'
 import { seedDemoIfEmpty } from './demo/demo'
-import { startRetentionJob } from './readings/retention'
 import { startRuleEngine } from './incidents/runtime'
+import { leaderJobs } from './jobs'
 import { createMailNotifier } from './incidents/mail-notifier'
 import { recordMailAttempts } from './incidents/mail-timeline'
 import { startMail, type RunningMail } from './mail'
 import { startPush, type PushSender } from './push'
-import { startReportJob } from './reports/job'
-import { startCareDigestJob } from './care/digest'
 import { startImportRunner } from './imports/runner'
 import { setupCodeFor, setupService } from './setup/setup'
 
@@ -67,15 +65,8 @@ export async function startServer(config: Config): Promise<RunningServer> {
   const mail: RunningMail = await startMail(ctx)
   const push = startPush(ctx)
   ctx.incidents.notifier = createMailNotifier(ctx)
-  // Jobs that must not run twice go beside the engine, in the one instance holding the lock (the
-  // report and digest jobs are also safe twice over, by their outbox dedupe keys).
-  const rules = startRuleEngine(ctx, ctx.incidents.notifier, config.incidentTiming, config.rulesTickMs, {
-    whileLeading: [
-      () => startRetentionJob(ctx, { rawRetentionDays: config.rawRetentionDays, everyMs: 3600_000 }),
-      () => startReportJob(ctx, { everyMs: config.reportScheduleTickMs }),
-      () => startCareDigestJob(ctx),
-    ],
-  })
+  // Jobs that must not run twice go beside the engine, in the one instance holding the lock.
+  const rules = startRuleEngine(ctx, ctx.incidents.notifier, config.incidentTiming, config.rulesTickMs, { whileLeading: leaderJobs(ctx) })
   // Each instance runs the imports uploaded to it: the uploaded file is on its own disk.
   const stopImports = startImportRunner(ctx)
 

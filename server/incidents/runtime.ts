@@ -1,17 +1,14 @@
 import type { AppContext } from '../context'
 import { incidentsService, type AlertTiming } from './incidents'
 import { createRuleEngine } from './engine'
-import { LeaderLock } from '../platform/leader-lock'
+import { LeaderLock, type LeaderJob } from '../platform/leader-lock'
 import type { IncidentNotifier } from './notifier'
 
 export const ENGINE_LOCK_KEY = 7_411_002
 
-/** A job that must run in one instance only; started on taking the lock, its stop function called on losing it. */
-export type LeaderJob = () => () => void
-
 /**
  * Runs the engine in whichever instance holds the lock, with its timer, and the other
- * single-instance jobs beside it; returns a stop function.
+ * single-instance jobs beside it (server/jobs.ts lists them); returns a stop function.
  */
 export function startRuleEngine(
   ctx: AppContext,
@@ -28,7 +25,9 @@ export function startRuleEngine(
       await engine.start()
       timer = setInterval(() => void engine.tick(), tickMs)
       timer.unref()
-      jobStops = (options.whileLeading ?? []).map((start) => start())
+      const jobs = options.whileLeading ?? []
+      jobStops = jobs.map((job) => job.start())
+      ctx.logger.debug({ jobs: jobs.map((job) => job.name) }, 'leader jobs started')
     },
     onLose: async () => {
       for (const stop of jobStops) stop()

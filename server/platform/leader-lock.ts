@@ -84,3 +84,10 @@ export class LeaderLock {
     await this.drop()
   }
 }
+
+/** A job that must run in one instance only: started on taking the lock, its stop function called on losing it. */
+export interface LeaderJob {
+  /** What it does, in a few words: the list in server/jobs.ts reads by these, and the log names them. */
+  name: string
+  start: () => () => void
+}

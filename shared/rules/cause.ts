@@ -1,6 +1,3 @@
-import type { WatchRuleSpec } from './schema'
-import { metricOfSpec } from './kinds'
-
 /**
  * The kind of cause a trip points to, so that several tanks of one site tripping on the same
  * kind at once read as one site-wide fault: a power cut cools tanks, silences devices and stops
@@ -16,16 +13,15 @@ export const CAUSE_TITLES: Record<CauseKey, string> = {
   light: 'Lights off their schedule in several tanks',
 }
 
-/** `value` is the compared quantity of the trip (see RuleEvent): it tells a cold trip from a hot one. */
-export function causeOf(spec: WatchRuleSpec, value: number): CauseKey {
-  if (spec.kind === 'quiet') return 'power'
-  const metric = metricOfSpec(spec)
+/**
+ * The cause a trip of `metric` points to when nothing but its direction is known: cooling and
+ * silence point to power, warming to heat, any other chemistry to the mains water. Each kind's
+ * entry in shared/rules/kinds.ts says which way its trip went.
+ */
+export function causeOfMetric(metric: string, warming: boolean): CauseKey {
   switch (metric) {
     case 'temperature':
-      if (spec.kind === 'above') return 'heat'
-      if (spec.kind === 'outside') return value > spec.max ? 'heat' : 'power'
-      if (spec.kind === 'rate') return value > 0 ? 'heat' : 'power'
-      return 'power'
+      return warming ? 'heat' : 'power'
     case 'oxygen':
       return 'power'
     case 'water_level':

@@ -2,6 +2,8 @@
 // called, how it reads in words, and what the rule form asks for. The engine, the rule dialog and
 // the words all read it; a kind in the schema's union without an entry here does not compile.
 import type { MetricKey } from '../metrics/registry'
+import { heaterLineAdvice, levelAdvice, lightScheduleAdvice, quietAdvice, rateAdvice, type KindAdvice } from './advice'
+import { causeOfMetric, type CauseKey } from './cause'
 import { evaluateLevelSpec } from './level'
 import { evaluateQuiet } from './quiet'
 import { evaluateRate } from './rate'
@@ -78,6 +80,10 @@ export interface KindEntry<K extends WatchRuleKind = WatchRuleKind> {
    * `value` is the compared quantity (see RuleEvent), finite; `heaterTopCm` the tank's heater top.
    */
   measure(spec: SpecOfKind<K>, metric: string, value: number, words: MeasureWords, heaterTopCm?: number): string
+  /** What a trip points to when several tanks of a site trip at once (shared/rules/cause.ts); `value` as for `measure`. */
+  cause(spec: SpecOfKind<K>, metric: MetricKey, value: number): CauseKey
+  /** What the alert mail tells a keeper to do first and check (shared/rules/advice.ts). */
+  advice: KindAdvice<K>
 }
 
 const HOLD: FormField<'holdMinutes'> = {
@@ -104,6 +110,7 @@ const level = {
   takesLateReadings: false,
   asksMissingReading: true,
   ticksMatter: 'unless-clear',
+  advice: levelAdvice,
 } as const
 
 const forHold = (minutes: number, words: ConditionWords) => (minutes > 0 ? ` for ${words.minutes(minutes)}` : '')
@@ -117,6 +124,7 @@ export const KINDS = {
     describe: (s, w) =>
       `${w.metric(s.metric)} is above ${w.value(s.metric, s.limit)}${forHold(s.holdMinutes, w)}; clears below ${w.value(s.metric, s.limit - s.clearMargin)}`,
     measure: (s, metric, value, w) => `${w.metric(metric)} ${w.measured(metric, value)}, above ${w.limit(metric, s.limit)}`,
+    cause: (_s, metric) => causeOfMetric(metric, true),
   },
   below: {
     ...level,
@@ -125,6 +133,7 @@ export const KINDS = {
     describe: (s, w) =>
       `${w.metric(s.metric)} is below ${w.value(s.metric, s.limit)}${forHold(s.holdMinutes, w)}; clears above ${w.value(s.metric, s.limit + s.clearMargin)}`,
     measure: (s, metric, value, w) => `${w.metric(metric)} ${w.measured(metric, value)}, below ${w.limit(metric, s.limit)}`,
+    cause: (_s, metric) => causeOfMetric(metric, false),
   },
   outside: {
     ...level,
@@ -145,6 +154,7 @@ export const KINDS = {
       const side = value > s.max ? 'above' : value < s.min ? 'below' : 'back inside'
       return `${w.metric(metric)} ${w.measured(metric, value)}, ${side} ${metric === 'ph' ? `pH ${band}` : band}`
     },
+    cause: (s, metric, value) => causeOfMetric(metric, value > s.max),
   },
   rate: {
     label: 'Changes too fast',
@@ -162,6 +172,9 @@ export const KINDS = {
     describe: (s, w) => `${w.metric(s.metric)} changes by more than ${w.change(s.metric, s.maxChange)} within ${w.minutes(s.windowMinutes)}`,
     measure: (s, metric, value, w) =>
       `${w.metric(metric)} ${value < 0 ? 'fell' : 'rose'} ${w.measured(metric, Math.abs(value))} in ${w.minutes(s.windowMinutes)}`,
+    // The compared quantity is the change, signed.
+    cause: (_s, metric, value) => causeOfMetric(metric, value > 0),
+    advice: rateAdvice,
   },
   quiet: {
     label: 'No readings',
@@ -175,6 +188,9 @@ export const KINDS = {
     describe: (s, w) => `no ${w.metric(s.metric)} reading arrives for ${w.minutes(s.quietMinutes)}`,
     // The compared quantity is the minutes of silence.
     measure: (_s, metric, value, w) => `no ${w.metric(metric)} reading for ${w.minutes(value)}`,
+    // Devices falling silent together point to the power, whatever they measure.
+    cause: () => 'power',
+    advice: quietAdvice,
   },
   heater_line: {
     ...level,
@@ -192,6 +208,8 @@ export const KINDS = {
       const gap = value - heaterTopCm
       return gap <= 0 ? `${level}, at or below ${top}` : `${level}, ${w.limit('water_level', gap)} above ${top}`
     },
+    cause: (_s, metric) => causeOfMetric(metric, false),
+    advice: heaterLineAdvice,
   },
   light_schedule: {
     ...level,
@@ -203,6 +221,8 @@ export const KINDS = {
     describe: (s, w) =>
       `the light is on when the schedule says off, or off when it says on, for ${w.minutes(s.holdMinutes)} (on means at least ${Number(s.onLux.toFixed(1))} lux)`,
     measure: (_s, _metric, value, w) => `light ${w.measured('light', value)}, off its schedule`,
+    cause: (_s, metric) => causeOfMetric(metric, false),
+    advice: lightScheduleAdvice,
   },
 } satisfies { [K in WatchRuleKind]: KindEntry<K> }
 
@@ -223,6 +243,9 @@ export const kindOf = (spec: WatchRuleSpec): KindEntry => kindEntry(spec.kind)
 export function metricOfSpec(spec: WatchRuleSpec): MetricKey {
   return kindOf(spec).fixedMetric ?? (spec as { metric: MetricKey }).metric
 }
+
+/** What a trip of the spec points to; `value` is its compared quantity (see RuleEvent). */
+export const causeOf = (spec: WatchRuleSpec, value: number): CauseKey => kindOf(spec).cause(spec, metricOfSpec(spec), value)
 
 // Checked once on load: the schema and the table cannot drift apart unnoticed.
 for (const kind of RULE_KINDS) kindEntry(kind)

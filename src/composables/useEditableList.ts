@@ -9,8 +9,10 @@ export interface EditableListOptions<T> {
   source?: WatchSource
   /** Runs after every successful save or row action, once the list has been refreshed. */
   onChanged?: () => void
-  /** Maps the server's field paths onto the dialog's field names. */
-  mapFields?: (fields: Record<string, string>) => FieldErrors
+  /** Maps the server's field paths onto the dialog's field names (the error tells a conflict's code). */
+  mapFields?: (fields: Record<string, string>, error: ApiError) => FieldErrors
+  /** Puts a failure into words for above the list, where the screen knows better than the server's message. */
+  describe?: (error: unknown) => string
 }
 
 export interface SaveOptions<R> {
@@ -18,6 +20,8 @@ export interface SaveOptions<R> {
   refresh?: boolean
   /** Runs with the saved result after the dialog has closed. */
   onSaved?: (result: R) => void | Promise<void>
+  /** The dialog stays open after success, to show what the save answered (an invitation's link). */
+  keepOpen?: boolean
 }
 
 /**
@@ -35,6 +39,7 @@ export function useEditableList<T, E = T>(options: EditableListOptions<T>) {
   const saving = ref(false)
   const fieldErrors = ref<FieldErrors>({})
   const busyId = ref<number | string | null>(null)
+  const describe = options.describe ?? describeError
 
   let latest = 0
   async function load() {
@@ -48,7 +53,7 @@ export function useEditableList<T, E = T>(options: EditableListOptions<T>) {
       items.value = list
       loaded.value = true
     } catch (error) {
-      if (call === latest) failure.value = describeError(error)
+      if (call === latest) failure.value = describe(error)
     } finally {
       if (call === latest) loading.value = false
     }
@@ -70,16 +75,16 @@ export function useEditableList<T, E = T>(options: EditableListOptions<T>) {
     fieldErrors.value = {}
     try {
       const result = await write(editing.value)
-      dialogOpen.value = false
+      if (!saveOptions.keepOpen) dialogOpen.value = false
       if (saveOptions.refresh !== false) await load()
       await saveOptions.onSaved?.(result)
       options.onChanged?.()
       return result
     } catch (error) {
       if (error instanceof ApiError && Object.keys(error.fields).length) {
-        fieldErrors.value = options.mapFields ? options.mapFields(error.fields) : { ...error.fields }
+        fieldErrors.value = options.mapFields ? options.mapFields(error.fields, error) : { ...error.fields }
       } else {
-        failure.value = describeError(error)
+        failure.value = describe(error)
         dialogOpen.value = false
       }
       return undefined
@@ -98,7 +103,7 @@ export function useEditableList<T, E = T>(options: EditableListOptions<T>) {
       options.onChanged?.()
       return result
     } catch (error) {
-      failure.value = describeError(error)
+      failure.value = describe(error)
       return undefined
     } finally {
       busyId.value = null

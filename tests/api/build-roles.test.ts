@@ -6,6 +6,7 @@ import type { TestOrg } from '../helpers/app'
 import { bearer } from '../helpers/app'
 import { localDaysAgo, PLAN_60, TANK_60 } from '../helpers/build-plan'
 import { newTank, startCareTestApp, type CareTestApp } from './care-helpers'
+import { callAs, readable, roleCases, tokenOf, writers, type RoleRow } from '../helpers/role-table'
 
 // Who may do what on the build routes: reads (plan, templates, report PDF) for every role,
 // writes (plan, fill, ticks, report mail) for owners and keepers; another organization gets 404,
@@ -20,11 +21,6 @@ beforeAll(async () => {
   other = await t.createOrg('Other Build Roles Org')
 })
 afterAll(() => t.close())
-
-type Caller = 'owner' | 'keeper' | 'viewer' | 'otherOrg' | 'noToken'
-type Prepared = { path: string; body?: object }
-const readable = [200, 200, 200, 404]
-const writers = [200, 200, 403, 404]
 
 const owner = (): UserActor => ({
   kind: 'user',
@@ -46,38 +42,29 @@ async function filledTank() {
   return tankId
 }
 
-const ROWS: Array<[string, string, number[], () => Promise<Prepared>]> = [
+const ROWS: RoleRow[] = [
   ['get', '/tanks/:id/build', readable, async () => ({ path: `/tanks/${await plannedTank()}/build` })],
-  ['put', '/tanks/:id/build/plan', writers, async () => ({ path: `/tanks/${await freshTank()}/build/plan`, body: PLAN_60 })],
+  ['put', '/tanks/:id/build/plan', writers(200), async () => ({ path: `/tanks/${await freshTank()}/build/plan`, body: PLAN_60 })],
   [
     'post',
     '/tanks/:id/build/start',
-    writers,
+    writers(200),
     async () => ({ path: `/tanks/${await plannedTank()}/build/start`, body: { filledOn: localDaysAgo('Europe/Berlin', 1) } }),
   ],
-  ['post', '/tanks/:id/build/steps/:key/done', writers, async () => ({ path: `/tanks/${await filledTank()}/build/steps/conditioner/done`, body: {} })],
+  ['post', '/tanks/:id/build/steps/:key/done', writers(200), async () => ({ path: `/tanks/${await filledTank()}/build/steps/conditioner/done`, body: {} })],
   ['get', '/tanks/:id/build/templates', readable, async () => ({ path: `/tanks/${await freshTank()}/build/templates` })],
   ['get', '/tanks/:id/build/report/pdf', readable, async () => ({ path: `/tanks/${await plannedTank()}/build/report/pdf` })],
   [
     'post',
     '/tanks/:id/build/report/mail',
-    writers,
+    writers(200),
     async () => ({ path: `/tanks/${await plannedTank()}/build/report/mail`, body: { emails: ['client@example.test'] } }),
   ],
 ]
 
-const CALLERS: Caller[] = ['owner', 'keeper', 'viewer', 'otherOrg', 'noToken']
-const cases = ROWS.flatMap(([method, route, expected, prepare]) =>
-  CALLERS.map((caller, i) => ({ method, route, caller, status: caller === 'noToken' ? 401 : (expected[i] as number), prepare })),
-)
-
 describe('build route roles', () => {
-  it.each(cases)('$method $route as $caller → $status', async ({ method, caller, status, prepare }) => {
-    const { path, body } = await prepare()
-    const token = caller === 'otherOrg' ? other.users.owner.token : caller === 'noToken' ? null : org.users[caller].token
-    let req = (t.api() as unknown as Record<string, (p: string) => ReturnType<ReturnType<typeof t.api>['get']>>)[method]!(`/api/v1${path}`)
-    if (token) req = req.set(bearer(token))
-    const res = body ? await req.send(body) : await req
+  it.each(roleCases(ROWS))('$method $route as $caller → $status', async ({ method, caller, status, prepare }) => {
+    const res = await callAs(t, method, await prepare(), tokenOf(caller, org, other))
     expect(res.status, JSON.stringify(res.body)).toBe(status)
   })
 

@@ -3,8 +3,8 @@ import type { UserActor } from '../../server/access/actor'
 import { createDefaultCareTasks } from '../../server/care/care-tasks'
 import { waterChangesService } from '../../server/care/water-changes'
 import type { TestOrg } from '../helpers/app'
-import { bearer } from '../helpers/app'
 import { newTank, startCareTestApp, type CareTestApp } from './care-helpers'
+import { callAs, ownerOnly, readable, roleCases, tokenOf, writers, type RoleRow } from '../helpers/role-table'
 
 // Who may do what on the care routes: reads for every role, writes (done, snooze, log,
 // water changes, livestock) for owners and keepers, the task schedule for owners only;
@@ -19,12 +19,6 @@ beforeAll(async () => {
   other = await t.createOrg('Other Care Roles Org')
 })
 afterAll(() => t.close())
-
-type Caller = 'owner' | 'keeper' | 'viewer' | 'otherOrg' | 'noToken'
-type Prepared = { path: string; body?: object }
-const readable = [200, 200, 200, 404]
-const writers = (ok: number) => [ok, ok, 403, 404]
-const ownerOnly = (ok: number) => [ok, 403, 403, 404]
 
 const freshTank = () => newTank(t, org)
 async function freshTask() {
@@ -50,7 +44,7 @@ async function freshChange() {
   return (await waterChangesService(t.ctx).start(actor, await freshTank(), { percent: 10, heaterOffConfirmed: false })).id
 }
 
-const ROWS: Array<[string, string, number[], () => Promise<Prepared>]> = [
+const ROWS: RoleRow[] = [
   ['get', '/tanks/:id/care-tasks', readable, async () => ({ path: `/tanks/${await freshTank()}/care-tasks` })],
   [
     'post',
@@ -91,18 +85,9 @@ const ROWS: Array<[string, string, number[], () => Promise<Prepared>]> = [
   ['get', '/sites/:id/care-summary', readable, async () => ({ path: `/sites/${org.siteIds[0]}/care-summary` })],
 ]
 
-const CALLERS: Caller[] = ['owner', 'keeper', 'viewer', 'otherOrg', 'noToken']
-const cases = ROWS.flatMap(([method, route, expected, prepare]) =>
-  CALLERS.map((caller, i) => ({ method, route, caller, status: caller === 'noToken' ? 401 : (expected[i] as number), prepare })),
-)
-
 describe('care route roles', () => {
-  it.each(cases)('$method $route as $caller → $status', async ({ method, caller, status, prepare }) => {
-    const { path, body } = await prepare()
-    const token = caller === 'otherOrg' ? other.users.owner.token : caller === 'noToken' ? null : org.users[caller].token
-    let req = (t.api() as unknown as Record<string, (p: string) => ReturnType<ReturnType<typeof t.api>['get']>>)[method]!(`/api/v1${path}`)
-    if (token) req = req.set(bearer(token))
-    const res = body ? await req.send(body) : await req
+  it.each(roleCases(ROWS))('$method $route as $caller → $status', async ({ method, caller, status, prepare }) => {
+    const res = await callAs(t, method, await prepare(), tokenOf(caller, org, other))
     expect(res.status, JSON.stringify(res.body)).toBe(status)
   })
 })

@@ -4,6 +4,7 @@ import { startServer, type RunningServer } from '../../server/server'
 import { createTestDatabase } from '../helpers/db'
 import { createOrgIn, createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { openLiveClient } from '../helpers/live-client'
+import { sleep, until } from '../helpers/wait'
 
 const MIN = 60_000
 let db: Awaited<ReturnType<typeof createTestDatabase>>
@@ -16,14 +17,6 @@ const start = (instanceId: string) =>
     testConfig({ databaseUrl: db.url, instanceId, mqtt: { host: '127.0.0.1', port: 0 }, mail: { fakeSmtpPort: 0, from: 'fanout@tankwarden.invalid' } }),
   )
 const base = (s: RunningServer) => `http://127.0.0.1:${s.port}`
-
-async function until(check: () => boolean | Promise<boolean>, ms = 15_000) {
-  for (const end = Date.now() + ms; Date.now() < end;) {
-    if (await check()) return true
-    await new Promise((r) => setTimeout(r, 100))
-  }
-  return check()
-}
 
 const post = (s: RunningServer, path: string, token: string, body: unknown) =>
   fetch(`${base(s)}/api/v1${path}`, {
@@ -74,7 +67,7 @@ describe('live fan-out across instances over LISTEN/NOTIFY', () => {
         .map((r) => `${r.metric}@${r.time}`)
     expect(await until(() => keys(onB).length >= 3000)).toBe(true)
     expect(await until(() => keys(onA).length >= 3000)).toBe(true)
-    await new Promise((r) => setTimeout(r, 500))
+    await sleep(500)
     for (const c of [onA, onB]) {
       expect(keys(c)).toHaveLength(3000)
       expect(new Set(keys(c)).size).toBe(3000)
@@ -106,7 +99,7 @@ describe('live fan-out across instances over LISTEN/NOTIFY', () => {
       spec: { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: 10, clearMargin: 0.5 },
     })
     expect(rule.status).toBe(201)
-    await new Promise((r) => setTimeout(r, 1000))
+    await sleep(1000)
     const t0 = Date.now() - 30 * MIN
     const res = await post(follower, '/readings', node.token, {
       v: 1,

@@ -6,6 +6,7 @@ import { createLogger } from '../../server/platform/logger'
 import { bearer, startTestApp } from '../helpers/app'
 import { adminUrl } from '../helpers/db-urls'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
+import { until } from '../helpers/wait'
 
 let t: Awaited<ReturnType<typeof startTestApp>>
 let org: TestOrg
@@ -47,7 +48,7 @@ describe('when PostgreSQL is unavailable', () => {
     await setDatabaseAvailable(false)
     const held = writer.write([row(1), row(2), row(3)], { hold: true })
     // Wait until the first flush has failed.
-    for (let i = 0; i < 100 && writer.healthy; i++) await new Promise((r) => setTimeout(r, 20))
+    await until(() => !writer.healthy, 2000, 20)
     expect(writer.healthy).toBe(false)
     await expect(writer.write([row(4)], { hold: false })).rejects.toBeInstanceOf(DatabaseUnavailableError)
 

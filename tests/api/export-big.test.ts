@@ -1,9 +1,10 @@
 import { createServer, type Server } from 'node:http'
-import type { AddressInfo } from 'node:net'
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { startTestApp, type TestOrg } from '../helpers/app'
 import { insertRow, tankValues } from './export-helpers'
+import { waitFor } from '../helpers/wait'
+import { listenOnFreePort } from '../helpers/ports'
 
 // 200 000 one-minute readings: the export must stream them (a cursor batch at a time, waiting for
 // a slow client) rather than build the file in memory. No timing is asserted; figures are printed.
@@ -25,8 +26,7 @@ beforeAll(async () => {
     { bind: [tankId, ROWS] },
   )
   server = createServer(t.app)
-  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve))
-  base = `http://127.0.0.1:${(server.address() as AddressInfo).port}/api/v1`
+  base = `${await listenOnFreePort(server)}/api/v1`
 }, 120_000)
 afterAll(async () => {
   await new Promise((resolve) => server.close(resolve))
@@ -52,12 +52,7 @@ describe('a big readings export', () => {
     const first = await reader.read()
 
     // The client stops reading: the server must be waiting part way, its cursor still open.
-    let waiting = 0
-    for (let i = 0; i < 50 && waiting === 0; i++) {
-      await new Promise((r) => setTimeout(r, 100))
-      waiting = await openFetches()
-    }
-    expect(waiting).toBe(1)
+    expect(await waitFor(openFetches, (waiting) => waiting > 0, 5000, 100)).toBe(1)
 
     const heapBefore = process.memoryUsage().heapUsed
     let heapPeak = heapBefore

@@ -6,6 +6,7 @@ import { ACCOUNT_LIMIT_FACTOR } from '../../server/people/auth-routes'
 import { bearer, sampleTank, TEST_PASSWORD, type TestOrg } from '../helpers/app'
 import { createTankWithDevice } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
+import { until } from '../helpers/wait'
 
 // Hostile requests against a whole running instance (HTTP and the live socket on a real port).
 // Not repeated here: roles per route (route-roles), tenancy, token forgery (security-tokens),
@@ -137,9 +138,9 @@ describe('one time schema for every instant', () => {
     ws.on('message', (data) => frames.push(JSON.parse(data.toString())))
     await new Promise((resolve, reject) => ws.once('open', resolve).once('error', reject))
     ws.send(JSON.stringify({ type: 'auth', token: org.users.owner.token }))
-    await until(() => frames.some((f) => f.type === 'ready'))
+    expect(await until(() => frames.some((f) => f.type === 'ready'), 5000, 20)).toBe(true)
     ws.send(JSON.stringify({ type: 'subscribe', siteId: org.siteIds[0], since: YEAR_ZERO }))
-    await until(() => frames.some((f) => f.type === 'error' || f.type === 'subscribed'))
+    expect(await until(() => frames.some((f) => f.type === 'error' || f.type === 'subscribed'), 5000, 20)).toBe(true)
     ws.close()
     expect(frames.find((f) => f.type === 'error' || f.type === 'subscribed')).toMatchObject({ type: 'error', code: 'invalid_message' })
   })
@@ -220,11 +221,3 @@ describe('POST /readings', () => {
     expect([notJson.status, notJson.body.error.fields]).toEqual([400, { body: 'not valid JSON' }])
   })
 })
-
-async function until(check: () => boolean, timeoutMs = 5000) {
-  const end = Date.now() + timeoutMs
-  while (!check()) {
-    if (Date.now() > end) throw new Error('timed out waiting')
-    await new Promise((resolve) => setTimeout(resolve, 20))
-  }
-}

@@ -6,6 +6,7 @@ import type { AppContext } from '../../server/context'
 import { importRunnerFor } from '../../server/imports/runner'
 import type { PublicImportJob } from '@shared/schemas/imports'
 import { bearer, startTestApp, type TestOrg } from '../helpers/app'
+import { createTankRow } from '../helpers/fixtures'
 
 export type ImportTestApp = Awaited<ReturnType<typeof startImportTestApp>>
 
@@ -38,24 +39,7 @@ export function listImportFiles(dataDir: string): string[] {
 let tankCounter = 0
 export async function newTank(ctx: AppContext, org: TestOrg, options: { name?: string; siteIndex?: number } = {}) {
   tankCounter++
-  const tank = await ctx.models.Tank.create({
-    organizationId: org.organizationId,
-    siteId: org.siteIds[options.siteIndex ?? 0]!,
-    name: options.name ?? `Import tank ${tankCounter}`,
-    kind: 'tropical_freshwater',
-    stage: 'established',
-    dimensions: { shape: 'rectangular', lengthCm: 100, widthCm: 40, heightCm: 50 },
-    volumeLitres: 200,
-    volumeSource: 'dimensions',
-    substrateDepthCm: 0,
-    heater: { watts: 200, setPointC: 26, topCm: 30 },
-    filter: '',
-    media: '',
-    lightSchedule: { on: '09:00', off: '20:00' },
-    targets: {},
-    notes: '',
-    sortOrder: 0,
-  })
+  const tank = await createTankRow(ctx, org, { siteId: org.siteIds[options.siteIndex ?? 0]!, name: options.name ?? `Import tank ${tankCounter}` })
   return tank.id
 }
 

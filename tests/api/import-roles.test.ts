@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { importRunnerFor } from '../../server/imports/runner'
 import { bearer, type TestOrg } from '../helpers/app'
 import { minuteTimes, newTank, startImportTestApp, upload, type ImportTestApp } from './import-helpers'
+import { CALLERS, tokenOf } from '../helpers/role-table'
 
 // Who may import: owners and keepers; a viewer gets 403, another organization 404 (its rows are
 // not ours to reveal), no token 401. The same routes are listed in route-roles.test.ts.
@@ -16,9 +17,6 @@ beforeAll(async () => {
 })
 afterAll(() => t.close())
 
-type Caller = 'owner' | 'keeper' | 'viewer' | 'otherOrg' | 'noToken'
-const CALLERS: Caller[] = ['owner', 'keeper', 'viewer', 'otherOrg', 'noToken']
-const tokenOf = (caller: Caller) => (caller === 'otherOrg' ? other.users.owner.token : caller === 'noToken' ? null : org.users[caller].token)
 const csv = () => `time,temp\n${minuteTimes(1)[0]},25\n`
 
 async function uploadedJob() {
@@ -97,7 +95,7 @@ const cases = CASES.flatMap((c) => CALLERS.map((caller, i) => ({ ...c, caller, s
 
 describe('import route roles', () => {
   it.each(cases)('$method $route as $caller → $status', async ({ caller, status, send }) => {
-    const res = await send(tokenOf(caller))
+    const res = await send(tokenOf(caller, org, other))
     expect(res.status, JSON.stringify(res.body)).toBe(status)
     await importRunnerFor(t.ctx).idle()
   })

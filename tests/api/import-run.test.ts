@@ -4,6 +4,7 @@ import { importRunnerFor } from '../../server/imports/runner'
 import type { PublicImportJob } from '@shared/schemas/imports'
 import { bearer, type TestOrg } from '../helpers/app'
 import { minuteTimes, newTank, readingsOf, runImport, startImportTestApp, upload, type ImportTestApp } from './import-helpers'
+import { waitFor } from '../helpers/wait'
 
 let t: ImportTestApp
 let org: TestOrg
@@ -135,11 +136,12 @@ describe('job control', () => {
     const res = await upload(t, owner(), `/tanks/${tankId}/imports`, csv)
     const started = await t.api().post(`/api/v1/imports/${res.body.id}/start`).set(bearer(owner())).send({ mapping: res.body.preview.suggested })
     expect(started.status).toBe(202)
-    let job: PublicImportJob = started.body
-    while (job.rowsRead === 0) {
-      await new Promise((r) => setTimeout(r, 20))
-      job = (await t.api().get(`/api/v1/imports/${res.body.id}`).set(bearer(owner()))).body
-    }
+    const job = await waitFor(
+      async () => (await t.api().get(`/api/v1/imports/${res.body.id}`).set(bearer(owner()))).body as PublicImportJob,
+      (seen) => seen.rowsRead > 0,
+      30_000,
+      20,
+    )
     expect(job.status).toBe('running')
     const cancel = await t.api().post(`/api/v1/imports/${job.id}/cancel`).set(bearer(owner()))
     expect(cancel.status).toBe(200)

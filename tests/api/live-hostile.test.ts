@@ -4,6 +4,7 @@ import type { LiveServerMessage } from '@shared/schemas/live'
 import { CATCH_UP_PAGE_ROWS, CATCH_UP_SPAN_MS } from '../../server/live/catch-up'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
+import { sleep, until } from '../helpers/wait'
 
 // Live sockets that ask too much, read too little, or outlive their grant. Scope at subscribe time,
 // revoked sessions and wall keys are in tests/api/security-live.test.ts and tests/api/wall.test.ts.
@@ -41,15 +42,12 @@ async function liveSocket(token: string) {
   ws.on('message', (d) => frames.push(JSON.parse(d.toString())))
   const closed = new Promise<number>((resolve) => ws.once('close', (code) => resolve(code)))
   await new Promise((resolve, reject) => ws.once('open', resolve).once('error', reject))
-  const until = async (check: () => boolean, ms = 5000) => {
-    for (const end = Date.now() + ms; Date.now() < end && !check();) await new Promise((r) => setTimeout(r, 20))
-    return check()
-  }
+  const soon = (check: () => boolean) => until(check, 5000, 20)
   const send = (m: unknown) => ws.send(JSON.stringify(m))
   send({ type: 'auth', token })
-  expect(await until(() => frames.some((f) => f.type === 'ready'))).toBe(true)
+  expect(await soon(() => frames.some((f) => f.type === 'ready'))).toBe(true)
   const count = (type: LiveServerMessage['type']) => frames.filter((f) => f.type === type).length
-  return { ws, frames, closed, until, send, count }
+  return { ws, frames, closed, until: soon, send, count }
 }
 
 const catchUps = (frames: LiveServerMessage[]) => frames.flatMap((f) => (f.type === 'readings' && f.catchUp ? [f.readings] : []))
@@ -101,7 +99,7 @@ describe('a client that does not read', () => {
         source: 'device' as const,
       }))
       s.ctx.events.emit('readings.stored', rows)
-      await new Promise((r) => setTimeout(r, 60)) // let the 50 ms coalescing flush it
+      await sleep(60) // let the 50 ms coalescing flush it
     }
     expect(s.hub.peerCount()).toBe(peers - 1)
     ;(c.ws as unknown as { _socket: { resume: () => void } })._socket.resume()
@@ -125,7 +123,7 @@ describe('open sockets follow changes of access', () => {
       body: JSON.stringify({ v: 1, readings: [{ metric: 'ph', value: 6.8, time: new Date().toISOString() }] }),
     })
     expect(posted.status).toBe(200)
-    await new Promise((r) => setTimeout(r, 500))
+    await sleep(500)
     expect(c.frames.some((f) => f.type === 'readings' && !f.catchUp && f.readings.some((r) => r.value === 6.8))).toBe(false)
     c.ws.close()
     await s.ctx.models.UserSite.destroy({ where: { userId: viewer!.id } })

@@ -4,6 +4,7 @@ import { wallService } from '../../server/sites/wall'
 import type { UserActor } from '../../server/access/actor'
 import { bearer, type TestOrg } from '../helpers/app'
 import { as, filesUnder, makeImage, newTank, startPhotoTestApp, type PhotoTestApp } from './photos-helpers'
+import { readable, requestAs, roleCases, tokenOf, writers, type RoleRow } from '../helpers/role-table'
 
 // Photos follow the readings' scope rules: every role of the organization reads, owners and keepers
 // upload and delete, a viewer limited to one site sees nothing of another, another organization gets 404.
@@ -29,13 +30,7 @@ async function freshPhoto(siteId = org.siteIds[0] as number, takenAt?: string) {
   return { tankId, photoId: res.body.id as number }
 }
 
-type Caller = 'owner' | 'keeper' | 'viewer' | 'otherOrg' | 'noToken'
-const CALLERS: Caller[] = ['owner', 'keeper', 'viewer', 'otherOrg', 'noToken']
-const tokenOf = (c: Caller) => (c === 'otherOrg' ? other.users.owner.token : c === 'noToken' ? null : org.users[c].token)
-const readable = [200, 200, 200, 404, 401]
-const writers = (ok: number) => [ok, ok, 403, 404, 401]
-
-const ROWS: Array<[string, string, number[], () => Promise<{ path: string; attach?: boolean }>]> = [
+const ROWS: RoleRow<{ path: string; attach?: boolean }>[] = [
   ['get', '/tanks/:id/photos', readable, async () => ({ path: `/tanks/${(await freshPhoto()).tankId}/photos` })],
   ['post', '/tanks/:id/photos', writers(201), async () => ({ path: `/tanks/${await newTank(t, org)}/photos`, attach: true })],
   ['get', '/photos/:id', readable, async () => ({ path: `/photos/${(await freshPhoto()).photoId}` })],
@@ -45,16 +40,10 @@ const ROWS: Array<[string, string, number[], () => Promise<{ path: string; attac
 ]
 
 describe('photo route roles', () => {
-  const cases = ROWS.flatMap(([method, route, expected, prepare]) =>
-    CALLERS.map((caller, i) => ({ method, route, caller, status: expected[i] as number, prepare })),
-  )
-  it.each(cases)('$method $route as $caller → $status', async ({ method, caller, status, prepare }) => {
+  it.each(roleCases(ROWS))('$method $route as $caller → $status', async ({ method, caller, status, prepare }) => {
     const { path, attach } = await prepare()
-    const token = tokenOf(caller)
-    let req = (t.api() as unknown as Record<string, (p: string) => ReturnType<ReturnType<typeof t.api>['get']>>)[method]!(`/api/v1${path}`)
-    if (token) req = req.set(bearer(token))
-    if (attach) req = req.attach('photo', image, 'probe.jpg')
-    const res = await req
+    const req = requestAs(t, method, path, tokenOf(caller, org, other))
+    const res = await (attach ? req.attach('photo', image, 'probe.jpg') : req)
     expect(res.status, JSON.stringify(res.body)).toBe(status)
   })
 })

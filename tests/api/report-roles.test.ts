@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { bearer, startTestApp, type TestOrg } from '../helpers/app'
 import { seedReportWeek, WEEK } from '../helpers/report-week'
+import { callAs, ownerOnly, readable, roleCases, tokenOf, type RoleRow } from '../helpers/role-table'
 
 // Who may do what on the report routes: every role reads reports within its scope; only owners
 // manage schedules and send a report now; another organization gets 404, no token 401, a wall
@@ -18,10 +19,6 @@ beforeAll(async () => {
 })
 afterAll(() => t?.close())
 
-type Prepared = { path: string; body?: object }
-const readable = [200, 200, 200, 404]
-const ownerOnly = (ok: number) => [ok, 403, 403, 404]
-
 async function freshSchedule() {
   const row = await t.ctx.models.ReportSchedule.create({
     organizationId: org.organizationId,
@@ -33,7 +30,7 @@ async function freshSchedule() {
   return row.id
 }
 
-const ROWS: Array<[string, string, number[], () => Promise<Prepared>]> = [
+const ROWS: RoleRow[] = [
   ['get', '/tanks/:id/report', readable, async () => ({ path: `/tanks/${tankId}/report?date=${WEEK.date}` })],
   ['get', '/tanks/:id/report/pdf', readable, async () => ({ path: `/tanks/${tankId}/report/pdf?date=${WEEK.date}` })],
   ['get', '/sites/:id/report', readable, async () => ({ path: `/sites/${org.siteIds[0]}/report?date=${WEEK.date}` })],
@@ -50,19 +47,9 @@ const ROWS: Array<[string, string, number[], () => Promise<Prepared>]> = [
   ['post', '/report-schedules/:id/send-now', ownerOnly(200), async () => ({ path: `/report-schedules/${await freshSchedule()}/send-now` })],
 ]
 
-type Caller = 'owner' | 'keeper' | 'viewer' | 'otherOrg' | 'noToken'
-const CALLERS: Caller[] = ['owner', 'keeper', 'viewer', 'otherOrg', 'noToken']
-const cases = ROWS.flatMap(([method, route, expected, prepare]) =>
-  CALLERS.map((caller, i) => ({ method, route, caller, status: caller === 'noToken' ? 401 : (expected[i] as number), prepare })),
-)
-
 describe('report route roles', () => {
-  it.each(cases)('$method $route as $caller → $status', async ({ method, caller, status, prepare }) => {
-    const { path, body } = await prepare()
-    const token = caller === 'otherOrg' ? other.users.owner.token : caller === 'noToken' ? null : org.users[caller].token
-    let req = (t.api() as unknown as Record<string, (p: string) => ReturnType<ReturnType<typeof t.api>['get']>>)[method]!(`/api/v1${path}`)
-    if (token) req = req.set(bearer(token))
-    const res = body ? await req.send(body) : await req
+  it.each(roleCases(ROWS))('$method $route as $caller → $status', async ({ method, caller, status, prepare }) => {
+    const res = await callAs(t, method, await prepare(), tokenOf(caller, org, other))
     expect(res.status, JSON.stringify(res.body)).toBe(status)
   })
 

@@ -4,6 +4,7 @@ import { retentionCutoff, retentionService, startRetentionJob } from '../../serv
 import { seriesService } from '../../server/readings/series'
 import { seriesQuerySchema } from '@shared/schemas/series'
 import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
+import { sleep, until } from '../helpers/wait'
 
 const HOUR_MS = 3_600_000
 // Buckets and rollup hours start at whole multiples of the step from Monday 2000-01-03 00:00 UTC.
@@ -185,13 +186,12 @@ describe('startRetentionJob', () => {
   it('prunes on its timer and stops when told', async () => {
     // Every reading here is months older than 7 days before the real clock.
     const stop = startRetentionJob(t.ctx, { rawRetentionDays: 7, everyMs: 25 })
-    const deadline = Date.now() + 10_000
-    while ((await readingsNow()).length && Date.now() < deadline) await new Promise((r) => setTimeout(r, 50))
+    await until(async () => (await readingsNow()).length === 0, 10_000, 50)
     stop()
     expect(await readingsNow()).toEqual([])
-    await new Promise((r) => setTimeout(r, 100)) // let a run already under way finish
+    await sleep(100) // let a run already under way finish
     await insertRow('k:6', 'ph', '2026-11-01T00:00:00Z', kitTankId, 6.8)
-    await new Promise((r) => setTimeout(r, 150))
+    await sleep(150)
     expect((await readingsNow()).map((r) => r.value)).toEqual([6.8])
   })
 })

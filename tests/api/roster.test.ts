@@ -1,13 +1,7 @@
-import express from 'express'
 import { LOCAL_DATE_FORMAT_MESSAGE } from '@shared/schemas/time'
-import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { authenticate } from '../../server/access/middleware'
-import { createPassport } from '../../server/access/passport'
-import { errorHandler, notFoundHandler } from '../../server/platform/http/errors'
-import { rosterRoutes } from '../../server/roster/routes'
 import { dutyRecipients } from '../../server/roster/roster'
-import { bearer, startTestApp, type TestOrg } from '../helpers/app'
+import { bearer, startTestApp, type TestApp, type TestOrg } from '../helpers/app'
 
 // Offsets used below, from the law rather than from the code under test:
 // Directive 2000/84/EC (European Parliament and Council, 19 January 2001) Art. 2 and 3: summer
@@ -20,20 +14,11 @@ let t: Awaited<ReturnType<typeof startTestApp>>
 let org: TestOrg
 let other: TestOrg
 let owner: Record<string, string>
-let api: () => ReturnType<typeof request>
+let api: TestApp['api']
 const MON = 0
 const WED = 2
 const SAT = 5
 const SUN = 6
-
-/** The roster router behind real sign-in, as the lead mounts it under /api/v1/sites. */
-function rosterApp() {
-  const app = express()
-  app.use('/api/v1/sites', express.json(), authenticate(createPassport(t.ctx.models, t.ctx.config.jwtSecret)), rosterRoutes(t.ctx))
-  app.use(notFoundHandler)
-  app.use(errorHandler(t.ctx.logger))
-  return app
-}
 
 const path = (siteId: number, rest: string) => `/api/v1/sites/${siteId}/roster/${rest}`
 const freshSite = async (timeZone = 'Europe/Berlin', of = org) =>
@@ -63,8 +48,7 @@ beforeAll(async () => {
   org = await t.createOrg('Roster Org')
   other = await t.createOrg('Other Roster Org')
   owner = bearer(org.users.owner.token)
-  const app = rosterApp()
-  api = () => request(app)
+  api = t.api
 })
 afterAll(() => t.close())
 

@@ -11,6 +11,7 @@ import { rosterService } from '../../server/roster/roster'
 import { wallService } from '../../server/sites/wall'
 import { tankInputSchema } from '@shared/schemas/tanks'
 import { bearer, sampleTank, startTestApp, TEST_PASSWORD, type TestOrg } from '../helpers/app'
+import { createIncidentRow } from '../helpers/fixtures'
 
 const JWT_SECRET = 'test-secret-that-is-long-enough-for-hs256-signing'
 // `wall` holds a valid wall display key for the organization's first site; `clientViewer` is a
@@ -559,24 +560,7 @@ beforeAll(async () => {
     },
     async freshIncident() {
       const tankId = await world.freshTank()
-      const at = new Date()
-      const incident = await models.Incident.create({
-        organizationId: org.organizationId,
-        siteId: org.siteIds[0],
-        tankId,
-        ruleId: null,
-        ruleKind: 'above',
-        metric: 'temperature',
-        severity: 'alarm',
-        title: 'Temperature above 28 °C for 10 min',
-        state: 'open',
-        conditionSince: at,
-        openedAt: at,
-        firstValue: 28.6,
-        peakValue: 28.6,
-        latestValue: 28.6,
-        latestAt: at,
-      })
+      const incident = await createIncidentRow(t.ctx, org, tankId)
       return incident.id
     },
     async freshAckToken() {

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
-import { createTankWithDevice } from '../helpers/fixtures'
+import { createIncidentRow, createTankWithDevice } from '../helpers/fixtures'
 
 // Organization isolation on the list routes and their filters, and injection strings kept as text.
 // Already covered, not repeated: every detail and write route answering 404 to another
@@ -21,24 +21,7 @@ const post = (path: string, token: string, body: unknown) =>
     .send(body as object)
 
 async function incidentOn(org: TestOrg, tankId: number, title: string) {
-  const at = new Date()
-  const incident = await t.ctx.models.Incident.create({
-    organizationId: org.organizationId,
-    siteId: org.siteIds[0],
-    tankId,
-    ruleId: null,
-    ruleKind: 'above',
-    metric: 'temperature',
-    severity: 'alarm',
-    title,
-    state: 'open',
-    conditionSince: at,
-    openedAt: at,
-    firstValue: 29,
-    peakValue: 29,
-    latestValue: 29,
-    latestAt: at,
-  })
+  const incident = await createIncidentRow(t.ctx, org, tankId, { title, firstValue: 29, peakValue: 29, latestValue: 29 })
   return incident.id
 }
 

@@ -3,8 +3,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import WebSocket from 'ws'
 import { commandsTopic, readingsTopic } from '@shared/ingest/contract'
 import type { LiveServerMessage } from '@shared/schemas/live'
-import { createTankWithDevice, TEST_PASSWORD, type TestOrg } from '../helpers/fixtures'
+import { createTankRow, createTankWithDevice, TEST_PASSWORD, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
+import { until } from '../helpers/wait'
 
 // Scope and revocation on the live connections. Already covered elsewhere, not repeated here:
 // another organization's tank and no-auth subscriptions (tests/api/live.test.ts), a wall key on
@@ -23,23 +24,15 @@ beforeAll(async () => {
   org = await s.createOrg('Marrowfen Live Security')
   other = await s.createOrg('Other Live Security')
   shopTank = await createTankWithDevice(s.ctx, org, 'Shop tank')
-  const room = await s.ctx.models.Tank.create({
-    organizationId: org.organizationId,
+  const room = await createTankRow(s.ctx, org, {
     siteId: org.siteIds[1],
     name: 'Fish room tank',
     kind: 'coldwater',
-    stage: 'established',
     dimensions: null,
     volumeLitres: 120,
     volumeSource: 'entered',
-    substrateDepthCm: 0,
     heater: null,
-    filter: '',
-    media: '',
     lightSchedule: null,
-    targets: {},
-    notes: '',
-    sortOrder: 0,
   })
   roomTankId = room.id
 })
@@ -67,7 +60,7 @@ async function liveSocket(token: string) {
   await new Promise((resolve, reject) => ws.once('open', resolve).once('error', reject))
   ws.send(JSON.stringify({ type: 'auth', token }))
   const frame = async (index: number) => {
-    for (let i = 0; i < 100 && frames.length <= index; i++) await new Promise((r) => setTimeout(r, 50))
+    await until(() => frames.length > index, 5000, 50)
     return frames[index]
   }
   return { ws, frames, closed, frame, send: (m: unknown) => ws.send(JSON.stringify(m)) }

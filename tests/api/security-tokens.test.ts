@@ -3,6 +3,7 @@ import jwt from 'jsonwebtoken'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { TEST_PASSWORD, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
+import { until } from '../helpers/wait'
 
 // JWT forgery beyond the route matrix, brute-force limits beyond the basic case, and markup in names
 // through the real mail path. Already covered, not repeated: a flipped signature bit, alg `none`
@@ -173,11 +174,11 @@ describe('markup in names reaches mail only escaped', () => {
     const res = await call('POST', '/users/invitations', org.users.owner.token, { email: invitee, name: `Invitee ${MARKUP}`, role: 'keeper' })
     expect(res.status).toBe(201)
     let mail: { htmlBody: string | null } | null = null
-    for (let i = 0; i < 150 && !mail; i++) {
+    await until(async () => {
       const rows = await s.ctx.models.FakeMailboxMessage.findAll()
       mail = rows.find((m) => m.envelopeTo.includes(invitee)) ?? null
-      if (!mail) await new Promise((r) => setTimeout(r, 100))
-    }
+      return mail !== null
+    }, 15_000)
     expect(mail, 'the invitation mail arrived at the fake SMTP server').not.toBeNull()
     expect(mail!.htmlBody).toBeTruthy()
     expect(mail!.htmlBody).not.toContain('<img src=x')

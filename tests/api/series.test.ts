@@ -1,11 +1,5 @@
-import express from 'express'
 import { QueryTypes } from 'sequelize'
-import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { createPassport } from '../../server/access/passport'
-import { authenticate } from '../../server/access/middleware'
-import { errorHandler } from '../../server/platform/http/errors'
-import { seriesRoutes } from '../../server/readings/series-routes'
 import { seriesService } from '../../server/readings/series'
 import type { SeriesResponse } from '@shared/schemas/series'
 import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
@@ -43,7 +37,6 @@ function expectBucketsEqual(actual: SeriesResponse['points'], expected: ReturnTy
 }
 
 let t: Awaited<ReturnType<typeof startTestApp>>
-let app: express.Express
 let org: TestOrg
 let other: TestOrg
 let tankId: number
@@ -58,16 +51,10 @@ async function createTank(o: TestOrg, name: string) {
 }
 
 const series = (query: Record<string, string | number>, id = tankId, token = org.users.keeper.token) =>
-  request(app).get(`/api/v1/tanks/${id}/series`).query(query).set(bearer(token))
+  t.api().get(`/api/v1/tanks/${id}/series`).query(query).set(bearer(token))
 
 beforeAll(async () => {
   t = await startTestApp()
-  // The same chain the lead mounts in server/api-router.ts; the rest of the API falls through to the real app.
-  app = express()
-  app.use('/api/v1/tanks', authenticate(createPassport(t.ctx.models, t.ctx.config.jwtSecret)), seriesRoutes(t.ctx))
-  app.use(t.app)
-  app.use(errorHandler(t.ctx.logger))
-
   org = await t.createOrg('Series Org')
   other = await t.createOrg('Other Org')
   tankId = await createTank(org, 'Display')
@@ -213,27 +200,27 @@ describe('series validation and scoping', () => {
 
   it("answers 404 for another organization's tank and an unknown one, 401 without a token", async () => {
     for (const path of [`/api/v1/tanks/${foreignTankId}/series?metric=ph`, `/api/v1/tanks/${foreignTankId}/latest`]) {
-      const res = await request(app).get(path).set(bearer(org.users.owner.token))
+      const res = await t.api().get(path).set(bearer(org.users.owner.token))
       expect(res.status).toBe(404)
       expect(res.body.error.code).toBe('not_found')
       expect(JSON.stringify(res.body)).not.toContain('6.5')
     }
     expect((await series({ metric: 'ph' }, 999_999)).status).toBe(404)
-    expect((await request(app).get(`/api/v1/tanks/${tankId}/latest`)).status).toBe(401)
+    expect((await t.api().get(`/api/v1/tanks/${tankId}/latest`)).status).toBe(401)
   })
 
   it('lets a viewer read', async () => {
     const res = await series({ metric: 'ph', from: '2026-10-01T00:00:00Z', to: '2026-10-10T00:00:00Z' }, tankId, org.users.viewer.token)
     expect(res.status).toBe(200)
     expect(res.body.raw).toHaveLength(3)
-    const latest = await request(app).get(`/api/v1/tanks/${tankId}/latest`).set(bearer(org.users.viewer.token))
+    const latest = await t.api().get(`/api/v1/tanks/${tankId}/latest`).set(bearer(org.users.viewer.token))
     expect(latest.status).toBe(200)
   })
 })
 
 describe('latest readings', () => {
   it('answers the newest value of each metric the tank has, whatever its source', async () => {
-    const res = await request(app).get(`/api/v1/tanks/${tankId}/latest`).set(bearer(org.users.keeper.token))
+    const res = await t.api().get(`/api/v1/tanks/${tankId}/latest`).set(bearer(org.users.keeper.token))
     expect(res.status).toBe(200)
     const last = temperature.at(-1)!
     expect(res.body).toEqual({
@@ -241,7 +228,7 @@ describe('latest readings', () => {
       ph: { value: 7.1, time: '2026-10-09T08:30:00.000Z', source: 'test_kit' },
       nitrate: { value: 20, time: '2026-09-20T10:00:00.000Z', source: 'import' },
     })
-    const empty = await request(app).get(`/api/v1/tanks/${emptyTankId}/latest`).set(bearer(org.users.keeper.token))
+    const empty = await t.api().get(`/api/v1/tanks/${emptyTankId}/latest`).set(bearer(org.users.keeper.token))
     expect(empty.body).toEqual({})
   })
 

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { TankListItem } from '@shared/schemas/tanks'
 import { bearer, sampleTank, startTestApp, type TestOrg } from '../helpers/app'
+import { createIncidentRow } from '../helpers/fixtures'
 
 // The tanks list carries each tank's state as the wall computes it (shared/tank-state.ts):
 // an alarm incident wins, then a silent device, then a warning or a value near or past its band.
@@ -39,23 +40,7 @@ async function reading(tankId: number, metric: string, value: number, at: Date) 
 }
 
 async function incident(tankId: number, severity: 'warning' | 'alarm', title: string, state = 'open') {
-  const row = await t.ctx.models.Incident.create({
-    organizationId: org.organizationId,
-    siteId: org.siteIds[0],
-    tankId,
-    ruleId: null,
-    ruleKind: 'above',
-    metric: 'temperature',
-    severity,
-    title,
-    state,
-    conditionSince: new Date(),
-    openedAt: new Date(),
-    firstValue: 28.4,
-    peakValue: 28.4,
-    latestValue: 28.4,
-    latestAt: new Date(),
-  } as never)
+  const row = await createIncidentRow(t.ctx, org, tankId, { severity, title, state: state as never, firstValue: 28.4, peakValue: 28.4, latestValue: 28.4 })
   return row.id
 }
 

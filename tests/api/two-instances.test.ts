@@ -3,6 +3,7 @@ import { testConfig } from '../../server/config'
 import { startServer, type RunningServer } from '../../server/server'
 import { createTestDatabase } from '../helpers/db'
 import { createOrgIn, createTankWithDevice } from '../helpers/fixtures'
+import { sleep, until } from '../helpers/wait'
 
 const MIN = 60_000
 let db: Awaited<ReturnType<typeof createTestDatabase>>
@@ -11,14 +12,6 @@ let b: RunningServer
 
 const start = () =>
   startServer(testConfig({ databaseUrl: db.url, mqtt: { host: '127.0.0.1', port: 0 }, mail: { fakeSmtpPort: 0, from: 'two@tankwarden.invalid' } }))
-
-async function until(check: () => boolean, ms = 15_000) {
-  for (const end = Date.now() + ms; Date.now() < end;) {
-    if (check()) return true
-    await new Promise((r) => setTimeout(r, 100))
-  }
-  return check()
-}
 
 beforeAll(async () => {
   db = await createTestDatabase()
@@ -34,7 +27,7 @@ afterAll(async () => {
 describe('two app instances on one database', () => {
   it('run the rule engine in exactly one of them; the other takes over when it stops, opening the missed incident once', async () => {
     expect(await until(() => a.rules.lock.isLeader || b.rules.lock.isLeader)).toBe(true)
-    await new Promise((r) => setTimeout(r, 500))
+    await sleep(500)
     expect([a.rules.lock.isLeader, b.rules.lock.isLeader].filter(Boolean)).toHaveLength(1)
     const [leader, follower] = a.rules.lock.isLeader ? [a, b] : [b, a]
 

@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import WebSocket from 'ws'
 import type { WallResponse } from '@shared/schemas/wall'
 import { bearer, sampleTank } from '../helpers/app'
-import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
+import { createIncidentRow, createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
 
 let s: Awaited<ReturnType<typeof startTestServer>>
@@ -44,23 +44,7 @@ describe('the wall and wall displays', () => {
         }),
       })
     }
-    await s.ctx.models.Incident.create({
-      organizationId: org.organizationId,
-      siteId: site,
-      tankId: hot.tankId,
-      ruleId: null,
-      ruleKind: 'above',
-      metric: 'temperature',
-      severity: 'alarm',
-      title: 'Temperature above 28 °C for 10 min',
-      state: 'open',
-      conditionSince: new Date(),
-      openedAt: new Date(),
-      firstValue: 28.4,
-      peakValue: 28.4,
-      latestValue: 28.4,
-      latestAt: new Date(),
-    })
+    await createIncidentRow(s.ctx, org, hot.tankId, { siteId: site, firstValue: 28.4, peakValue: 28.4, latestValue: 28.4 })
     const res = await api(`/sites/${site}/wall`, org.users.viewer.token)
     expect(res.status).toBe(200)
     const wall = (await res.json()) as WallResponse

@@ -1,83 +1,27 @@
 import { mount, type ComponentMountingOptions } from '@vue/test-utils'
 import { setActivePinia, type Pinia } from 'pinia'
 import { defineComponent, h, type Component } from 'vue'
-import { createMemoryHistory, createRouter, type Router } from 'vue-router'
+import { createMemoryHistory, createRouter, type Router, type RouteRecordRaw } from 'vue-router'
 import { createVuetify } from 'vuetify'
 import { VApp } from 'vuetify/components'
 import type { PublicUser, Role } from '@shared/schemas/auth'
 import { createAppPinia } from '@/plugins/pinia'
+import { routes } from '@/router/routes'
 import { useAuthStore } from '@/stores/auth'
 
 const Blank = defineComponent({ render: () => h('div') })
 
-/** Same route names as the app, with blank pages, so links resolve and pushes can be checked. */
-export function testRouter(): Router {
-  const names = [
-    'sign-in',
-    'tanks',
-    'tank-new',
-    'tank',
-    'tank-edit',
-    'tank-test-kit',
-    'tank-build',
-    'sites',
-    'users',
-    'account',
-    'wall',
-    'incidents',
-    'incident',
-    'roster',
-    'ack',
-    'dev-mail',
-    'care-today',
-    'report',
-    'import',
-    'backup',
-    'forgot-password',
-    'reset-password',
-    'overview',
-    'setup',
-    'clients',
-    'client',
-    'round',
-    'visits',
-    'visit',
-  ]
-  const paths: Record<string, string> = {
-    'sign-in': '/sign-in',
-    tanks: '/tanks',
-    'tank-new': '/tanks/new',
-    tank: '/tanks/:id',
-    'tank-edit': '/tanks/:id/edit',
-    'tank-test-kit': '/tanks/:id/test-kit',
-    'tank-build': '/tanks/:id/build',
-    wall: '/wall/:siteId',
-    sites: '/sites',
-    users: '/users',
-    account: '/account',
-    incidents: '/incidents',
-    'care-today': '/care/today',
-    incident: '/incidents/:id',
-    roster: '/sites/:id/roster',
-    ack: '/ack',
-    'dev-mail': '/dev/mail',
-    report: '/reports',
-    import: '/import',
-    backup: '/backup',
-    'forgot-password': '/forgot-password',
-    'reset-password': '/reset-password',
-    overview: '/',
-    setup: '/setup',
-    clients: '/clients',
-    client: '/clients/:id',
-    round: '/round',
-    visits: '/visits',
-    visit: '/visits/:id',
-  }
-  return createRouter({
-    history: createMemoryHistory(),
-    routes: names.map((name) => ({ name, path: paths[name]!, component: Blank })),
+/** The app's routes with their names, paths and meta, but blank pages instead of lazy views. */
+export function blankRoutes(records: RouteRecordRaw[]): RouteRecordRaw[] {
+  return records.map((record) => {
+    if ('redirect' in record && record.redirect) return record
+    return { ...record, component: Blank, children: record.children ? blankRoutes(record.children) : undefined } as RouteRecordRaw
   })
+}
+
+/** The app's routes with blank pages and no guards, so links resolve and pushes can be checked. */
+export function testRouter(): Router {
+  return createRouter({ history: createMemoryHistory(), routes: blankRoutes(routes) })
 }
 
 export function userWithRole(role: Role): PublicUser {

@@ -1,7 +1,6 @@
 import { createPinia, setActivePinia } from 'pinia'
 import { beforeEach, describe, expect, it, vi } from 'vitest'
-import { defineComponent, h } from 'vue'
-import { createMemoryHistory, createRouter, type RouteRecordRaw } from 'vue-router'
+import { createMemoryHistory, createRouter } from 'vue-router'
 
 vi.mock('@/api/auth', () => ({
   signIn: vi.fn(),
@@ -16,16 +15,7 @@ import { WALL_KEY, WALL_SITE_KEY, storedWallSession } from '@/api/session'
 import { installGuards } from '@/router'
 import { routes } from '@/router/routes'
 import { useAuthStore } from '@/stores/auth'
-import { userWithRole } from './mount'
-
-const Blank = defineComponent({ render: () => h('div') })
-
-function blankRoutes(records: RouteRecordRaw[]): RouteRecordRaw[] {
-  return records.map((record) => {
-    if ('redirect' in record && record.redirect) return record
-    return { ...record, component: Blank, children: record.children ? blankRoutes(record.children) : undefined } as RouteRecordRaw
-  })
-}
+import { blankRoutes, userWithRole } from './mount'
 
 function appRouter() {
   const router = createRouter({ history: createMemoryHistory(), routes: blankRoutes(routes) })

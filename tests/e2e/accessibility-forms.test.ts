@@ -2,7 +2,7 @@ import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { newSecretToken } from '../../server/access/tokens'
 import { ackLinksService } from '../../server/incidents/ack-links'
-import type { TestOrg } from '../helpers/fixtures'
+import { createIncidentRow, type TestOrg } from '../helpers/fixtures'
 import { audit, checkPage, newContext, open, SIZE_THEMES } from './a11y-pages'
 import { AUDITED_ROUTES } from './audited-routes'
 import { launchBrowser, signIn, startAppForBrowser } from './browser'
@@ -49,24 +49,7 @@ beforeAll(async () => {
   })
   links.reset = `${s.baseUrl}/reset-password?token=${token}`
 
-  const at = new Date()
-  const incident = await s.ctx.models.Incident.create({
-    organizationId: org.organizationId,
-    siteId,
-    tankId,
-    ruleId: null,
-    ruleKind: 'above',
-    metric: 'temperature',
-    severity: 'alarm',
-    title: 'Temperature above 28 °C',
-    state: 'open',
-    conditionSince: at,
-    openedAt: at,
-    firstValue: 28.4,
-    peakValue: 28.6,
-    latestValue: 28.6,
-    latestAt: at,
-  })
+  const incident = await createIncidentRow(s.ctx, org, tankId, { siteId, title: 'Temperature above 28 °C', firstValue: 28.4 })
   const ack = new URL(await ackLinksService(s.ctx).create(incident.id, org.users.keeper.id))
   links.ack = `${s.baseUrl}${ack.pathname}${ack.search}`
 })

@@ -1,7 +1,7 @@
 import type { Browser } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { wallService } from '../../server/sites/wall'
-import type { TestOrg } from '../helpers/fixtures'
+import { createIncidentRow, type TestOrg } from '../helpers/fixtures'
 import { audit, newContext, SIZE_THEMES } from './a11y-pages'
 import { AUDITED_ROUTES } from './audited-routes'
 import { unnamedIconButtons, wcagViolations } from './axe'
@@ -43,23 +43,14 @@ beforeAll(async () => {
     (await post(`/tanks/${tankId}/care-tasks`, { kind: 'other', title: 'Rinse the filter sponge', recurrence: { kind: 'interval', everyDays: 1 } })).status,
   ).toBe(201)
   expect((await post(`/sites/${siteId}/roster/shifts`, { userId: org.users.keeper.id, weekday: 0, start: '00:00', end: '00:00' })).status).toBe(201)
-  const at = new Date()
-  const incident = await s.ctx.models.Incident.create({
-    organizationId: org.organizationId,
-    siteId,
-    tankId,
-    ruleId: null,
+  const incident = await createIncidentRow(s.ctx, org, tankId, {
     ruleKind: 'below',
     metric: 'ph',
     severity: 'warning',
     title: 'pH below 6.0',
-    state: 'open',
-    conditionSince: at,
-    openedAt: at,
     firstValue: 5.9,
     peakValue: 5.9,
     latestValue: 5.9,
-    latestAt: at,
   })
   incidentId = incident.id
   const ownerActor = {

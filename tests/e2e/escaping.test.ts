@@ -1,7 +1,7 @@
 import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { wallService } from '../../server/sites/wall'
-import type { TestOrg } from '../helpers/fixtures'
+import { createIncidentRow, type TestOrg } from '../helpers/fixtures'
 import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'
 import { api, FIRST_LOAD_MS, tankWithProbe, type App } from './keeper-setup'
 
@@ -35,23 +35,14 @@ beforeAll(async () => {
   expect((await post(`/tanks/${tankId}/rules`, { name: named('Rule'), severity: 'warning', spec: { kind: 'below', metric: 'ph', limit: 6 } })).status).toBe(201)
   expect((await post(`/tanks/${tankId}/care-tasks`, { kind: 'other', title: named('Task'), recurrence: { kind: 'interval', everyDays: 1 } })).status).toBe(201)
   expect((await post(`/sites/${siteId}/roster/shifts`, { userId: org.users.keeper.id, weekday: 0, start: '00:00', end: '00:00' })).status).toBe(201)
-  const at = new Date()
-  const incident = await s.ctx.models.Incident.create({
-    organizationId: org.organizationId,
-    siteId,
-    tankId,
-    ruleId: null,
+  const incident = await createIncidentRow(s.ctx, org, tankId, {
     ruleKind: 'below',
     metric: 'ph',
     severity: 'warning',
     title: named('Incident'),
-    state: 'open',
-    conditionSince: at,
-    openedAt: at,
     firstValue: 5.9,
     peakValue: 5.9,
     latestValue: 5.9,
-    latestAt: at,
   })
   incidentId = incident.id
   const ownerActor = {

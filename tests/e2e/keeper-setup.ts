@@ -1,6 +1,7 @@
 import type { Locator, Page, WebSocket } from 'playwright-core'
 import { bearer, sampleTank } from '../helpers/app'
 import type { startAppForBrowser } from './browser'
+import { until } from '../helpers/wait'
 
 export type App = Awaited<ReturnType<typeof startAppForBrowser>>
 export const MINUTE_MS = 60_000
@@ -44,8 +45,7 @@ export async function postTemperatures(app: App, deviceToken: string, points: Ar
 
 /** The rule engine runs only in the instance holding the advisory lock; wait until this one does. */
 export async function waitForRuleLeader(app: App) {
-  for (let i = 0; i < 200 && !app.rules.lock.isLeader; i++) await new Promise((r) => setTimeout(r, 50))
-  if (!app.rules.lock.isLeader) throw new Error('the rule engine never became leader')
+  if (!(await until(() => app.rules.lock.isLeader, 10_000, 50))) throw new Error('the rule engine never became leader')
 }
 
 /** Resolves when the page's live socket confirms a subscription; set up before the page loads. */

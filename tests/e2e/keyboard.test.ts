@@ -1,7 +1,7 @@
 import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { PublicTestKitEntry } from '@shared/schemas/test-kit'
-import { TEST_PASSWORD, type TestOrg } from '../helpers/fixtures'
+import { createIncidentRow, TEST_PASSWORD, type TestOrg } from '../helpers/fixtures'
 import { launchBrowser, shot, startAppForBrowser } from './browser'
 import { api, FIRST_LOAD_MS, tankWithProbe, type App } from './keeper-setup'
 
@@ -22,23 +22,14 @@ beforeAll(async () => {
   browser = b.browser
   org = await s.createOrg('Keyboard Reef Works')
   tankId = (await tankWithProbe(s, org.users.owner.token, org.siteIds[0], 'Planted nano')).tankId
-  const at = new Date()
-  const incident = await s.ctx.models.Incident.create({
-    organizationId: org.organizationId,
-    siteId: org.siteIds[0],
-    tankId,
-    ruleId: null,
+  const incident = await createIncidentRow(s.ctx, org, tankId, {
     ruleKind: 'below',
     metric: 'ph',
     severity: 'warning',
     title: 'pH below 6.0',
-    state: 'open',
-    conditionSince: at,
-    openedAt: at,
     firstValue: 5.9,
     peakValue: 5.9,
     latestValue: 5.9,
-    latestAt: at,
   })
   incidentId = incident.id
   const task = await api(s, `/tanks/${tankId}/care-tasks`, org.users.owner.token, {

@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { TestOrg } from '../helpers/fixtures'
 import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'
 import { api, FIRST_LOAD_MS, tankWithProbe, postTemperatures, waitForRuleLeader, type App } from './keeper-setup'
+import { waitFor } from '../helpers/wait'
 
 // Links that arrive by mail, followed in Chromium: a password reset and an alert's acknowledge
 // link, both through the local fake SMTP server and its test mailbox.
@@ -35,14 +36,17 @@ const atApp = (link: string) => {
 
 type Mail = { id: number; subject: string; envelope_to: string[]; text_body: string }
 async function waitForMailTo(address: string, subject: RegExp): Promise<Mail> {
-  for (let i = 0; i < 150; i++) {
-    await s.mail.sender.runOnce()
-    const mails = await s.ctx.sequelize.query<Mail>('SELECT id, subject, envelope_to, text_body FROM fake_mailbox ORDER BY id', { type: QueryTypes.SELECT })
-    const found = mails.find((m) => m.envelope_to.includes(address) && subject.test(m.subject))
-    if (found) return found
-    await new Promise((r) => setTimeout(r, 100))
-  }
-  throw new Error(`no mail to ${address} matching ${subject}`)
+  const found = await waitFor(
+    async () => {
+      await s.mail.sender.runOnce()
+      const mails = await s.ctx.sequelize.query<Mail>('SELECT id, subject, envelope_to, text_body FROM fake_mailbox ORDER BY id', { type: QueryTypes.SELECT })
+      return mails.find((m) => m.envelope_to.includes(address) && subject.test(m.subject))
+    },
+    (mail) => mail !== undefined,
+    15_000,
+    100,
+  )
+  return found!
 }
 
 describe('a forgotten password, from the sign-in page to signing in with the new one', () => {

@@ -27,6 +27,8 @@ export async function startTestApp(overrides: Partial<Config> = {}) {
   }
 }
 
+export type TestApp = Awaited<ReturnType<typeof startTestApp>>
+
 export const bearer = (token: string) => ({ Authorization: `Bearer ${token}` })
 
 export function sampleTank(siteId: number, overrides: Record<string, unknown> = {}) {

@@ -1,9 +1,10 @@
 import fc from 'fast-check'
 import { QueryTypes, type Sequelize } from 'sequelize'
 import type { Express } from 'express'
-import type { AddressInfo } from 'node:net'
+import { createServer } from 'node:http'
 import request from 'supertest'
 import { hostileBody, type FuzzBody } from './fuzz-values'
+import { listenOnFreePort } from './ports'
 
 type Method = 'post' | 'put' | 'patch'
 
@@ -91,9 +92,8 @@ export async function fuzzRoute(
   const name = `${route.method.toUpperCase()} ${route.path}`
   const outcome: FuzzOutcome = { route: name, cases: 0, failures: [], statuses: {}, ms: 0 }
   // One listening server for the whole route: supertest would otherwise open one per request.
-  const server = app.listen(0, '127.0.0.1')
-  await new Promise((resolve) => server.once('listening', resolve))
-  const origin = `http://127.0.0.1:${(server.address() as AddressInfo).port}`
+  const server = createServer(app)
+  const origin = await listenOnFreePort(server)
   // After a refused case the tables are known to be as they were, so that snapshot serves as the next "before".
   let known: Record<string, string> | null = null
   const oneCase = async (sent: FuzzBody) => {

@@ -1,7 +1,7 @@
 import { expect } from 'vitest'
 import { ackLinksService } from '../../server/incidents/ack-links'
 import { bearer, sampleTank, startTestApp, TEST_PASSWORD, type TestOrg } from './app'
-import { createTankWithDevice } from './fixtures'
+import { createIncidentRow, createTankWithDevice } from './fixtures'
 
 const HOUR = 3600_000
 export const inHours = (h: number) => new Date(Date.now() + h * HOUR).toISOString()
@@ -44,25 +44,7 @@ export async function buildFuzzWorld() {
     spec: { kind: 'above', metric: 'temperature', limit: 29 },
   })
   const shift = await created('post', `/sites/${siteId}/roster/shifts`, { userId: org.users.keeper.id, weekday: 1, start: '08:00', end: '16:00' })
-  const at = new Date()
-  const incidentRow = () =>
-    t.ctx.models.Incident.create({
-      organizationId: org.organizationId,
-      siteId,
-      tankId,
-      ruleId: null,
-      ruleKind: 'above',
-      metric: 'temperature',
-      severity: 'alarm',
-      title: 'Temperature above 28 °C for 10 min',
-      state: 'open',
-      conditionSince: at,
-      openedAt: at,
-      firstValue: 28.6,
-      peakValue: 28.6,
-      latestValue: 28.6,
-      latestAt: at,
-    })
+  const incidentRow = () => createIncidentRow(t.ctx, org, tankId, { siteId })
   const ackIncident = await incidentRow()
   const resolveIncident = await incidentRow()
   const linkIncident = await incidentRow()

@@ -1,25 +1,15 @@
 import { execFileSync, spawn, type ChildProcess } from 'node:child_process'
 import { chmodSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs'
-import { createServer, connect } from 'node:net'
+import { connect } from 'node:net'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
+import { freePort } from './ports'
+import { sleep } from './wait'
 
 export const MOSQUITTO = process.env.MOSQUITTO_PATH || '/usr/sbin/mosquitto'
 
 export type MosquittoUser = { username: string; password: string }
 export type RunningMosquitto = { port: number; url: (user?: MosquittoUser) => string; log: () => string; stop: () => Promise<void> }
-
-export async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer()
-    server.once('error', reject)
-    server.listen(0, '127.0.0.1', () => {
-      const address = server.address()
-      const port = typeof address === 'object' && address ? address.port : 0
-      server.close(() => resolve(port))
-    })
-  })
-}
 
 async function accepts(port: number): Promise<boolean> {
   return new Promise((resolve) => {
@@ -60,7 +50,7 @@ export async function startMosquitto(options: { users?: MosquittoUser[]; acl?: s
   child.stderr?.on('data', (d) => (output += d))
   for (const end = Date.now() + 10_000; !(await accepts(port));) {
     if (Date.now() > end || child.exitCode !== null) throw new Error(`mosquitto did not start: ${output}`)
-    await new Promise((r) => setTimeout(r, 50))
+    await sleep(50)
   }
   return {
     port,

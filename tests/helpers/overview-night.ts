@@ -3,7 +3,7 @@
 import { endOfYesterdaysWorkday } from '@shared/overview/since'
 import { localDateAt, weekdayOf } from '@shared/time/zoned'
 import type { AppContext } from '../../server/context'
-import type { TestOrg } from './fixtures'
+import { createTankRow, type TestOrg } from './fixtures'
 
 const MIN = 60_000
 const HOUR = 60 * MIN
@@ -26,8 +26,7 @@ export async function seedNight(ctx: AppContext, org: TestOrg, now: Date) {
   const cutoff = endOfYesterdaysWorkday(site.timeZone, now.getTime())
   const at = (offsetMs: number) => new Date(cutoff + offsetMs)
   const tank = (name: string, stage: 'established' | 'quarantine' = 'established') =>
-    models.Tank.create({
-      organizationId: org.organizationId,
+    createTankRow(ctx, org, {
       siteId,
       name,
       kind: 'marine',
@@ -35,14 +34,8 @@ export async function seedNight(ctx: AppContext, org: TestOrg, now: Date) {
       dimensions: null,
       volumeLitres: 300,
       volumeSource: 'entered',
-      substrateDepthCm: 0,
       heater: null,
-      filter: '',
-      media: '',
       lightSchedule: null,
-      targets: {},
-      notes: '',
-      sortOrder: 0,
     })
   const reef1 = await tank(NIGHT.tanks.reef1)
   const reef2 = await tank(NIGHT.tanks.reef2)

@@ -1,5 +1,5 @@
 import type { AppContext } from '../../server/context'
-import type { TestOrg } from './fixtures'
+import { createTankRow, type TestOrg } from './fixtures'
 
 /**
  * A demo-like week for one tank, worked out by hand so the report's numbers can be checked.
@@ -36,23 +36,13 @@ export async function seedReportWeek(ctx: AppContext, org: TestOrg, name = 'Marr
   const { models, sequelize } = ctx
   const organizationId = org.organizationId
   const siteId = org.siteIds[0]!
-  const tank = await models.Tank.create({
-    organizationId,
+  const tank = await createTankRow(ctx, org, {
     siteId,
     name,
-    kind: 'tropical_freshwater',
-    stage: 'established',
     dimensions: null,
-    volumeLitres: 200,
     volumeSource: 'entered',
-    substrateDepthCm: 0,
-    heater: { watts: 200, setPointC: 26, topCm: 30 },
-    filter: '',
-    media: '',
     lightSchedule: null,
     targets: { temperature: { min: 24, max: 28 }, ph: { min: 6.8, max: 7.6 } },
-    notes: '',
-    sortOrder: 0,
   })
   const from = new Date(WEEK.from).toISOString()
   await sequelize.query(

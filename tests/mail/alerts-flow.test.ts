@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { bearer, sampleTank } from '../helpers/app'
 import type { TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
+import { sleep, until } from '../helpers/wait'
 
 const MIN = 60_000
 let s: Awaited<ReturnType<typeof startTestServer>>
@@ -11,7 +12,7 @@ let org: TestOrg
 beforeAll(async () => {
   s = await startTestServer({ mail: { fakeSmtpPort: 0, from: 'Tankwarden <alerts@tankwarden.invalid>' } })
   org = await s.createOrg('Alert Flow Org')
-  for (let i = 0; i < 100 && !s.rules.lock.isLeader; i++) await new Promise((r) => setTimeout(r, 50))
+  await until(() => s.rules.lock.isLeader, 5000, 50)
 })
 afterAll(() => s.close())
 
@@ -24,12 +25,7 @@ type Mail = { id: number; subject: string; envelope_to: string[]; text_body: str
 const mailbox = () => s.ctx.sequelize.query<Mail>('SELECT * FROM fake_mailbox ORDER BY id', { type: QueryTypes.SELECT })
 
 async function waitForMail(count: number) {
-  for (let i = 0; i < 100; i++) {
-    await s.mail.sender.runOnce()
-    const mails = await mailbox()
-    if (mails.length >= count) return mails
-    await new Promise((r) => setTimeout(r, 100))
-  }
+  await until(async () => (await s.mail.sender.runOnce(), (await mailbox()).length >= count), 10_000)
   return mailbox()
 }
 
@@ -137,7 +133,7 @@ describe('a heater stuck on, from reading to mail', () => {
       'mail_queued',
     ])
     // Every delivery is on the timeline with its result: five mails, each sent.
-    await new Promise((r) => setTimeout(r, 300))
+    await sleep(300)
     const later = (await api(`/incidents/${incident.id}`, org.users.viewer.token)).body.timeline as typeof timeline
     expect(
       later

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { DIGEST_WINDOW_HOURS, inDigestWindow, localHourAt, sendCareDigests } from '../../server/care/digest'
 import { careDigest } from '../../server/mail/care-digest'
 import { startOutboxSender, type OutboxSender } from '../../server/mail/sender'
-import { createOrgIn, type TestOrg } from '../helpers/fixtures'
+import { createOrgIn, createTankRow, type TestOrg } from '../helpers/fixtures'
 import { startMailBed, type MailBed } from './mail-bed'
 
 // The morning digest over the real outbox, sender and fake SMTP server. Times are fixed: on
@@ -28,23 +28,15 @@ afterAll(async () => {
 })
 
 async function tank(o: TestOrg, siteId: number, name: string, stage = 'established') {
-  return bed.ctx.models.Tank.create({
-    organizationId: o.organizationId,
+  return createTankRow(bed.ctx, o, {
     siteId,
     name,
-    kind: 'tropical_freshwater',
     stage: stage as 'established',
     dimensions: null,
     volumeLitres: 120,
     volumeSource: 'entered',
-    substrateDepthCm: 0,
     heater: null,
-    filter: '',
-    media: '',
     lightSchedule: null,
-    targets: {},
-    notes: '',
-    sortOrder: 0,
   })
 }
 async function task(o: TestOrg, tankId: number, title: string, lastDoneAt: string, everyDays = 7) {

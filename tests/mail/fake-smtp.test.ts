@@ -1,16 +1,13 @@
-import express from 'express'
 import nodemailer from 'nodemailer'
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { createPassport } from '../../server/access/passport'
-import { authenticate } from '../../server/access/middleware'
-import { errorHandler } from '../../server/platform/http/errors'
+import { createApp } from '../../server/app'
 import { startMail } from '../../server/mail'
 import { enqueueMail } from '../../server/mail/outbox'
 import { startOutboxSender } from '../../server/mail/sender'
-import { devMailRouter } from '../../server/mail/dev-mail-routes'
 import { createOrgIn, type TestOrg } from '../helpers/fixtures'
-import { sampleMail, startMailBed, waitFor, type MailBed } from './mail-bed'
+import { sampleMail, startMailBed, type MailBed } from './mail-bed'
+import { waitFor } from '../helpers/wait'
 
 let bed: MailBed
 beforeAll(async () => {
@@ -59,9 +56,7 @@ describe('development mailbox routes', () => {
     await bed.ctx.sequelize.query('TRUNCATE fake_mailbox')
     orgA = await createOrgIn(bed.ctx, 'Mailbox A')
     orgB = await createOrgIn(bed.ctx, 'Mailbox B')
-    const app = express()
-    app.use('/dev/mail', authenticate(createPassport(bed.ctx.models, bed.ctx.config.jwtSecret)), devMailRouter(bed.ctx))
-    app.use(errorHandler(bed.ctx.logger))
+    const app = createApp(bed.ctx)
     api = () => request(app)
 
     await enqueueMail(bed.ctx, sampleMail({ subject: 'Alarm for A', organizationId: orgA.organizationId, html: '<p>A</p>' }))
@@ -74,7 +69,7 @@ describe('development mailbox routes', () => {
   })
 
   it('lists an organization’s messages without bodies, newest first', async () => {
-    const res = await api().get('/dev/mail').set(bearer(orgA.users.owner.token))
+    const res = await api().get('/api/v1/dev/mail').set(bearer(orgA.users.owner.token))
     expect(res.status).toBe(200)
     expect(res.body.items.map((m: { subject: string }) => m.subject)).toEqual(['Reset for A keeper', 'Alarm for A'])
     expect(Object.keys(res.body.items[0]).sort()).toEqual([
@@ -87,29 +82,29 @@ describe('development mailbox routes', () => {
       'receivedAt',
       'subject',
     ])
-    const resB = await api().get('/dev/mail').set(bearer(orgB.users.owner.token))
+    const resB = await api().get('/api/v1/dev/mail').set(bearer(orgB.users.owner.token))
     expect(resB.body.items.map((m: { subject: string }) => m.subject)).toEqual(['Alarm for B'])
   })
 
   it('shows one message with its text and HTML; another organization’s is a 404', async () => {
-    const list = await api().get('/dev/mail').set(bearer(orgA.users.owner.token))
+    const list = await api().get('/api/v1/dev/mail').set(bearer(orgA.users.owner.token))
     const id = list.body.items.find((m: { subject: string }) => m.subject === 'Alarm for A').id
-    const one = await api().get(`/dev/mail/${id}`).set(bearer(orgA.users.owner.token))
+    const one = await api().get(`/api/v1/dev/mail/${id}`).set(bearer(orgA.users.owner.token))
     expect(one.status).toBe(200)
     expect(one.body.htmlBody).toContain('<p>A</p>')
     expect(one.body.textBody).toContain('Body of test mail')
     expect(one.body.headers['x-tankwarden-organization']).toBe(String(orgA.organizationId))
-    const other = await api().get(`/dev/mail/${id}`).set(bearer(orgB.users.owner.token))
+    const other = await api().get(`/api/v1/dev/mail/${id}`).set(bearer(orgB.users.owner.token))
     expect(other.status).toBe(404)
-    expect((await api().get('/dev/mail/abc').set(bearer(orgA.users.owner.token))).status).toBe(400)
-    expect((await api().get('/dev/mail')).status).toBe(401)
+    expect((await api().get('/api/v1/dev/mail/abc').set(bearer(orgA.users.owner.token))).status).toBe(400)
+    expect((await api().get('/api/v1/dev/mail')).status).toBe(401)
   })
 
   it('DELETE empties the organization’s box and leaves the others', async () => {
-    const res = await api().delete('/dev/mail').set(bearer(orgA.users.owner.token))
+    const res = await api().delete('/api/v1/dev/mail').set(bearer(orgA.users.owner.token))
     expect(res.status).toBe(204)
-    expect((await api().get('/dev/mail').set(bearer(orgA.users.owner.token))).body.items).toEqual([])
-    expect((await api().get('/dev/mail').set(bearer(orgB.users.owner.token))).body.items).toHaveLength(1)
+    expect((await api().get('/api/v1/dev/mail').set(bearer(orgA.users.owner.token))).body.items).toEqual([])
+    expect((await api().get('/api/v1/dev/mail').set(bearer(orgB.users.owner.token))).body.items).toHaveLength(1)
   })
 })
 

@@ -72,13 +72,3 @@ export function sampleMail(overrides: Partial<OutgoingMail> = {}): OutgoingMail 
     ...overrides,
   }
 }
-
-export async function waitFor<T>(probe: () => Promise<T>, accept: (value: T) => boolean, timeoutMs = 10_000): Promise<T> {
-  const deadline = Date.now() + timeoutMs
-  for (;;) {
-    const value = await probe()
-    if (accept(value)) return value
-    if (Date.now() > deadline) throw new Error(`condition not met within ${timeoutMs} ms: ${JSON.stringify(value)}`)
-    await new Promise((r) => setTimeout(r, 50))
-  }
-}

@@ -2,7 +2,8 @@ import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
 import { enqueueMail } from '../../server/mail/outbox'
 import { startOutboxSender } from '../../server/mail/sender'
 import { createMailTransport } from '../../server/mail/transport'
-import { sampleMail, startMailBed, waitFor, type MailBed } from './mail-bed'
+import { sampleMail, startMailBed, type MailBed } from './mail-bed'
+import { waitFor } from '../helpers/wait'
 
 let bed: MailBed
 beforeAll(async () => {

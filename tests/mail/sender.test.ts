@@ -3,7 +3,8 @@ import type { EventMap } from '../../server/platform/events'
 import { enqueueMail } from '../../server/mail/outbox'
 import { DEFAULT_RETRY, retryDelayMs, startOutboxSender } from '../../server/mail/sender'
 import type { MailTransport } from '../../server/mail/transport'
-import { sampleMail, startMailBed, waitFor, type MailBed } from './mail-bed'
+import { sampleMail, startMailBed, type MailBed } from './mail-bed'
+import { waitFor } from '../helpers/wait'
 
 type Attempt = EventMap['mail.attempted'][0]
 let bed: MailBed

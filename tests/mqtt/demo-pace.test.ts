@@ -23,6 +23,7 @@ import { buildNodes } from '../../simulator/nodes'
 import { provisionDevices } from '../../simulator/provision'
 import { runTick, type SimulatedNode } from '../../simulator/runner'
 import { createTestDatabase } from '../helpers/db'
+import { listenOnFreePort } from '../helpers/ports'
 
 /** What `npm start` runs the simulator at (scripts/start.mjs) and the intervals it and the engine use. */
 const SPEED = 20
@@ -49,9 +50,7 @@ beforeAll(async () => {
   ctx = createContext(config)
   expect(await seedDemoIfEmpty(ctx)).toBe(true)
   http = createServer(createApp(ctx))
-  await new Promise<void>((resolve) => http.listen(0, '127.0.0.1', resolve))
-  const address = http.address()
-  const baseUrl = `http://127.0.0.1:${typeof address === 'object' && address ? address.port : 0}`
+  const baseUrl = await listenOnFreePort(http)
   broker = await startEmbeddedBroker(ctx, { host: '127.0.0.1', port: 0 })
   ctx.incidents.notifier = createMailNotifier(ctx)
   clock = Date.now()

@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { readingsTopic } from '@shared/ingest/contract'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
+import { sleep } from '../helpers/wait'
 
 // What a device keeps after losing its grant. The revocation event cutting the connection and a
 // revoked token refused at CONNECT are in tests/mqtt/ingest.test.ts.
@@ -31,7 +32,6 @@ async function storedCount(tankId: number) {
 }
 
 const reading = (value: number) => JSON.stringify({ v: 1, readings: [{ metric: 'ph', value, time: new Date(Date.now() - 10_000).toISOString() }] })
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms))
 
 describe('a device that loses its grant', () => {
   it('does not have its will message stored once it is revoked', async () => {

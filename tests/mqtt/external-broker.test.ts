@@ -12,6 +12,7 @@ import { readingsTopic } from '@shared/ingest/contract'
 import { createTestDatabase } from '../helpers/db'
 import { createOrgIn, createTankWithDevice } from '../helpers/fixtures'
 import { DEPLOYMENT_ACL, startMosquitto, type MosquittoUser, type RunningMosquitto } from '../helpers/mosquitto'
+import { sleep, until } from '../helpers/wait'
 
 const run = promisify(execFile)
 const APP: MosquittoUser = { username: 'tankwarden-app', password: 'app-secret-for-the-test-broker' }
@@ -54,14 +55,6 @@ const deviceStatus = async (deviceId: number) =>
       type: QueryTypes.SELECT,
     })
   )[0]
-
-async function until(check: () => Promise<boolean> | boolean, ms = 15_000) {
-  for (const end = Date.now() + ms; Date.now() < end;) {
-    if (await check()) return true
-    await new Promise((r) => setTimeout(r, 100))
-  }
-  return check()
-}
 
 /** Debian's mosquitto_pub with a device's credentials, as the deployment notes show it. */
 const mosquittoPub = (user: number, token: string, topic: string, message: string) =>
@@ -115,7 +108,7 @@ describe('MQTT_URL mode against mosquitto', () => {
     expect(await until(async () => (await rowsOf(node.tankId)).length === 1)).toBe(true)
     // The same message again (a device retrying after a lost PUBACK) is a duplicate.
     expect((await mosquittoPub(node.deviceId, node.token, readingsTopic(node.deviceId), message(25.8, time))).ok).toBe(true)
-    await new Promise((r) => setTimeout(r, 500))
+    await sleep(500)
     const rows = await rowsOf(node.tankId)
     expect(rows.map((r) => [r.value, r.time.getTime()])).toEqual([[25.8, time]])
     await stop(app)
@@ -127,7 +120,7 @@ describe('MQTT_URL mode against mosquitto', () => {
     expect(wrong.ok).toBe(false)
     expect(wrong.stderr).toMatch(/not authori[sz]ed|bad user name or password|Connection Refused/i)
     await mosquittoPub(node.deviceId, node.token, readingsTopic(other.deviceId), message(7, Date.now() - 5000, 'ph'))
-    await new Promise((r) => setTimeout(r, 700))
+    await sleep(700)
     expect(await rowsOf(other.tankId)).toHaveLength(0)
     await stop(app)
   })
@@ -167,7 +160,7 @@ describe('MQTT_URL mode against mosquitto', () => {
     await device.endAsync()
     const inRange = async () => (await rowsOf(node.tankId)).filter((r) => r.time.getTime() >= t0 && r.time.getTime() < t0 + N * 1000)
     expect(await until(async () => (await inRange()).length === N)).toBe(true)
-    await new Promise((r) => setTimeout(r, 500))
+    await sleep(500)
     expect(await inRange()).toHaveLength(N)
     // mosquitto 2.0 gives each message of a $share group to one member (MQTT 5 clients here).
     expect(stored.get(a)! + stored.get(b)!).toBe(N)
@@ -204,13 +197,13 @@ describe('MQTT_URL mode against mosquitto', () => {
     await device.endAsync()
     expect(await until(() => received.length >= 4)).toBe(true)
     for (const c of doomed) c.stream.destroy() // dies without DISCONNECT, nothing stored
-    await new Promise((r) => setTimeout(r, 300))
+    await sleep(300)
     const inRange = async () => (await rowsOf(node.tankId)).filter((r) => r.time.getTime() >= t0 && r.time.getTime() < t0 + 8000)
     expect(await inRange()).toHaveLength(0)
 
     const restarted = await start('ext-crash') // same INSTANCE_ID: the broker resends what was never acknowledged
     expect(await until(async () => (await inRange()).length === 8)).toBe(true)
-    await new Promise((r) => setTimeout(r, 500))
+    await sleep(500)
     expect((await inRange()).map((r) => r.value)).toEqual([26, 26.1, 26.2, 26.3, 26.4, 26.5, 26.6, 26.7])
     await stop(restarted)
   })

@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { outcomesTopic, readingsTopic, type MessageOutcome } from '@shared/ingest/contract'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
+import { until } from '../helpers/wait'
 
 // The outcomes topic: what a device hears about each message it sent. Rejection reasons as such are
 // in tests/mqtt/ingest.test.ts (recorded on the device) and tests/api/readings-http.test.ts.
@@ -32,7 +33,7 @@ afterAll(async () => {
 async function send(payload: string) {
   const seen = outcomes.length
   const packet = await client.publishAsync(readingsTopic(node.deviceId), payload, { qos: 1 })
-  for (let i = 0; i < 100 && outcomes.length === seen; i++) await new Promise((r) => setTimeout(r, 20))
+  await until(() => outcomes.length > seen, 2000, 20)
   expect(outcomes.length).toBe(seen + 1)
   return { outcome: outcomes[seen], messageId: packet?.messageId }
 }
@@ -94,7 +95,7 @@ describe('the device outcomes topic', () => {
   it('tells a QoS 0 message without a packet id', async () => {
     const seen = outcomes.length
     client.publish(readingsTopic(node.deviceId), JSON.stringify({ v: 1, readings: [{ metric: 'ph', value: 7.3, time: at(30_000) }] }), { qos: 0 })
-    for (let i = 0; i < 100 && outcomes.length === seen; i++) await new Promise((r) => setTimeout(r, 20))
+    await until(() => outcomes.length > seen, 2000, 20)
     expect(outcomes[seen]).toMatchObject({ messageId: null, outcome: 'stored', accepted: 1 })
   })
 

@@ -6,7 +6,8 @@ import { createTestDatabase } from '../helpers/db'
 import { createOrgIn, createTankWithDevice } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
 import { appProcess } from './helpers/faults-app-process'
-import { mqttPublisher, sleep, storedTimes, until } from './helpers/faults-load'
+import { mqttPublisher, storedTimes } from './helpers/faults-load'
+import { sleep, until } from '../helpers/wait'
 
 // Fault: a device's TCP connection drops mid-stream (either end), and the whole app process with
 // its embedded broker goes away and comes back; devices reconnect and send unacknowledged QoS 1

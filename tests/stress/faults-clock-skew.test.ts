@@ -4,7 +4,7 @@ import { readingsTopic } from '@shared/ingest/contract'
 import { bearer } from '../helpers/app'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
-import { sleep } from './helpers/faults-load'
+import { sleep } from '../helpers/wait'
 
 // Fault: devices with clocks ahead of the server, and readings that arrive out of time order
 // (a device catching up on a backlog, two paths with different delays).

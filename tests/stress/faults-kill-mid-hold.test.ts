@@ -7,7 +7,7 @@ import { readingsTopic } from '@shared/ingest/contract'
 import { createTestDatabase } from '../helpers/db'
 import { createOrgIn, createTankWithDevice } from '../helpers/fixtures'
 import { appProcess, type AppProcess } from './helpers/faults-app-process'
-import { sleep, until } from './helpers/faults-load'
+import { sleep, until } from '../helpers/wait'
 
 // Fault: the app process is SIGKILLed while a rule "above 28 °C for 10 min" is holding, and
 // started again. The incident must open at hold start + 10 min, exactly once, like an app that

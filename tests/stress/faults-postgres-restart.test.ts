@@ -3,7 +3,8 @@ import { testConfig } from '../../server/config'
 import { startServer, type RunningServer } from '../../server/server'
 import { createOrgIn, createTankWithDevice } from '../helpers/fixtures'
 import { startStoppablePostgres, type StoppablePostgres } from './helpers/faults-postgres'
-import { httpPoster, mqttPublisher, sleep, storedTimes, until } from './helpers/faults-load'
+import { httpPoster, mqttPublisher, storedTimes } from './helpers/faults-load'
+import { sleep, until } from '../helpers/wait'
 
 // Fault: the PostgreSQL server the app uses is stopped (fast shutdown, sessions terminated) and
 // started again while devices keep sending over MQTT (QoS 1) and HTTP. The app is not restarted.

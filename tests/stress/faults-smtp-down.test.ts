@@ -5,8 +5,8 @@ import { startFakeSmtp, startMail, retryDelayMs, type FakeSmtp, type RunningMail
 import { bearer } from '../helpers/app'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
-import { freePort } from './helpers/faults-app-process'
-import { sleep, until } from './helpers/faults-load'
+import { freePort } from '../helpers/ports'
+import { sleep, until } from '../helpers/wait'
 
 // Fault: the mail server is down for "ten minutes" while an incident opens and escalates.
 // Time is scaled by 1/150: the app's default policy (first retry after 15 s, doubling, capped at

@@ -6,7 +6,8 @@ import type { AppContext } from '../../server/context'
 import { createTestDatabase } from '../helpers/db'
 import { createOrgIn, createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { appProcess } from './helpers/faults-app-process'
-import { mqttPublisher, sleep, storedTimes } from './helpers/faults-load'
+import { mqttPublisher, storedTimes } from './helpers/faults-load'
+import { sleep } from '../helpers/wait'
 import { deafLiveClient, hugePacketBeforeConnect, oversizeMessage, percentile, prober, repeat, rssMb } from './helpers/hostile-clients'
 
 // Hostile load: for a minute, outsiders pin memory every way the broker, the live socket and the

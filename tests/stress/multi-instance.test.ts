@@ -13,7 +13,9 @@ import { readingsTopic } from '@shared/ingest/contract'
 import { createTestDatabase } from '../helpers/db'
 import { createOrgIn, createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { openLiveClient, type LiveClient } from '../helpers/live-client'
-import { DEPLOYMENT_ACL, freePort, startMosquitto, type MosquittoUser, type RunningMosquitto } from '../helpers/mosquitto'
+import { DEPLOYMENT_ACL, startMosquitto, type MosquittoUser, type RunningMosquitto } from '../helpers/mosquitto'
+import { freePort } from '../helpers/ports'
+import { sleep, until } from '../helpers/wait'
 
 const ENTRY = join(import.meta.dirname, 'multi-instance-entry.ts')
 const APP: MosquittoUser = { username: 'tankwarden-app', password: 'multi-instance-app-secret' }
@@ -39,14 +41,6 @@ let dataDir: string
 const instances: Instance[] = []
 let T = Date.now()
 const mark = (what: string) => console.log(`[multi] ${((Date.now() - T) / 1000).toFixed(1)} s ${what}`)
-
-async function until(check: () => boolean | Promise<boolean>, ms = 20_000) {
-  for (const end = Date.now() + ms; Date.now() < end;) {
-    if (await check()) return true
-    await new Promise((r) => setTimeout(r, 100))
-  }
-  return check()
-}
 
 /** One app instance as a separate process (separate model classes, pools and sockets), on its own ports. */
 async function startInstance(id: string, port?: number): Promise<Instance> {
@@ -156,7 +150,7 @@ describe('three instances on one PostgreSQL and one mosquitto, one killed mid-st
         victim.child.kill('SIGKILL')
         killedAt = i
       }
-      if (i % 20 === 0) await new Promise((r) => setTimeout(r, 10))
+      if (i % 20 === 0) await sleep(10)
     }
     await device.endAsync()
     mark('published')
@@ -175,7 +169,7 @@ describe('three instances on one PostgreSQL and one mosquitto, one killed mid-st
     mark('restarted')
     expect(await until(async () => (await stored()) === N, 30_000)).toBe(true)
     mark('all stored')
-    await new Promise((r) => setTimeout(r, 1500))
+    await sleep(1500)
 
     // Every reading stored exactly once, with its own value.
     const rows = await ctx.sequelize.query<{ time: Date; value: number }>(`SELECT time, value FROM readings WHERE tank_id = $1 ORDER BY time`, {
@@ -204,7 +198,7 @@ describe('three instances on one PostgreSQL and one mosquitto, one killed mid-st
     expect(
       await until(async () => (await count(`SELECT count(*) AS n FROM mail_outbox WHERE incident_id = $1 AND status = 'sent'`, [incidents[0].id])) >= 1),
     ).toBe(true)
-    await new Promise((r) => setTimeout(r, 2000))
+    await sleep(2000)
     const outbox = await ctx.sequelize.query<{ smtp_message_id: string; to_address: string; kind: string }>(
       `SELECT smtp_message_id, to_address, kind FROM mail_outbox WHERE incident_id = $1`,
       { bind: [incidents[0].id], type: QueryTypes.SELECT },

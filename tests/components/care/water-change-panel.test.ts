@@ -7,6 +7,7 @@ vi.mock('@/api/care')
 import { cancelWaterChange, finishWaterChange, listWaterChanges, planWaterChange, startWaterChange } from '@/api/care'
 import type { PublicWaterChange } from '@shared/schemas/care-api'
 import WaterChangePanel from '@/components/care/WaterChangePanel.vue'
+import { ApiError } from '@/api/errors'
 import { heaterConfirmReason, needsHeaterConfirmation } from '@/components/care/water-change-draft'
 import { mountView } from '../mount'
 import { careTank, gentlePlan, heaterExposingPlan } from './fixtures'
@@ -154,6 +155,25 @@ describe('WaterChangePanel', () => {
     expect(wrapper.find('[data-test="water-change-notice"]').text()).toContain('70 L replaced')
     expect(wrapper.findAll('[data-test="water-change-finished-cautions"] li').map((li) => li.text())).toEqual([HEATER_OFF_CAUTION, UNPLUG_CAUTION])
     expect(wrapper.findComponent(WaterChangePanel).emitted('logged')).toHaveLength(1)
+  })
+
+  it('reads the list again when someone else finished the change first, and says why', async () => {
+    const { cautions: _c, ...open } = startedChange()
+    vi.mocked(listWaterChanges)
+      .mockResolvedValueOnce([open])
+      .mockResolvedValueOnce([{ ...open, status: 'finished', litresReplaced: 60 }])
+    vi.mocked(finishWaterChange).mockRejectedValue(
+      new ApiError({ status: 409, code: 'not_in_progress', message: 'This water change is no longer in progress' }),
+    )
+    const wrapper = await mountPanel()
+    await wrapper.find('[data-test="water-change-finish"]').trigger('click')
+    await flushPromises()
+    await inDocument('input[name="litresReplaced"]').setValue('70')
+    await inDocument('.v-dialog form').trigger('submit')
+    await flushPromises()
+    expect(listWaterChanges).toHaveBeenCalledTimes(2)
+    expect(wrapper.find('[data-test="water-change-in-progress"]').exists()).toBe(false)
+    expect(wrapper.find('.v-alert').text()).toContain('This water change is no longer in progress')
   })
 
   it('cancels a change in progress only after the confirmation, with the reason, and says it was not done', async () => {

@@ -1,24 +1,12 @@
 import { fork, type ChildProcess } from 'node:child_process'
 import { compiledEntry } from '../../helpers/compiled-server'
+import { freePort } from '../../helpers/ports'
 import { mkdtempSync, rmSync } from 'node:fs'
-import { createServer } from 'node:net'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 
 const ROOT = fileURLToPath(new URL('../../../', import.meta.url))
-
-export function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer()
-    server.once('error', reject)
-    server.listen(0, '127.0.0.1', () => {
-      const address = server.address()
-      const port = typeof address === 'object' && address ? address.port : 0
-      server.close(() => resolve(port))
-    })
-  })
-}
 
 /**
  * The real process entry (server/index.ts) in a child process, on fixed ports so devices can

@@ -1,16 +1,7 @@
 import mqtt, { type MqttClient } from 'mqtt'
 import { QueryTypes, type Sequelize } from 'sequelize'
 import { readingsTopic } from '@shared/ingest/contract'
-
-export const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms))
-
-export async function until(check: () => boolean | Promise<boolean>, timeoutMs = 20_000, everyMs = 100) {
-  for (const end = Date.now() + timeoutMs; Date.now() < end;) {
-    if (await check()) return true
-    await sleep(everyMs)
-  }
-  return check()
-}
+import { sleep } from '../../helpers/wait'
 
 /** Stored rows of one device and metric, keyed by time in ms, with how often each time is stored. */
 export async function storedTimes(sequelize: Sequelize, deviceId: number, metric: string) {

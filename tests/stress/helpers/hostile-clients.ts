@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs'
 import WebSocket from 'ws'
 import { readingsTopic } from '@shared/ingest/contract'
 import { connectPacket, publishHeader, rawSocket, streamZeros } from '../../helpers/mqtt-raw'
-import { sleep } from './faults-load'
+import { sleep } from '../../helpers/wait'
 
 /** Resident memory of a process, in MB, from /proc. */
 export function rssMb(pid: number) {

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { KINDS, RULE_KINDS, kindEntry, type ConditionWords } from '@shared/rules/kinds'
 import { watchRuleSpecSchema, type WatchRuleSpec } from '@shared/rules/schema'
 import { replay } from '@shared/rules/evaluate'
+import { CAUSE_TITLES } from '@shared/rules/cause'
 
 // Every kind the schema accepts must have its entry: the engine rebuilds a rule's state from the
 // entry's look-back, the rule form shows the entry's fields, and the words come from it.
@@ -79,6 +80,15 @@ describe('the kinds table', () => {
       )
       expect(measured).not.toMatch(/undefined|NaN/)
       expect(measured).toMatch(/12\.5|2\.5/)
+    })
+
+    it('names a site-wide cause and the mail’s advice', () => {
+      const spec = formSpec(kind)
+      expect(Object.keys(CAUSE_TITLES)).toContain(entry.cause(spec, entry.fixedMetric ?? 'temperature', 12.5))
+      expect(entry.advice.firstStep(spec, 'temperature', 12.5)).toMatch(/^First: \S/)
+      const checks = entry.advice.checks(spec, 'temperature')
+      expect(checks.length).toBeGreaterThan(0)
+      for (const check of checks) expect(check).not.toMatch(/undefined|NaN/)
     })
   })
 })
