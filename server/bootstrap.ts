@@ -5,6 +5,8 @@ import { createEventBus } from './platform/events'
 import { BatchWriter, type BatchWriterOptions } from './readings/batch-writer'
 import { DeviceStatusTracker } from './readings/device-status'
 import { createIngest } from './readings/ingest'
+import { CorrectionCache } from './readings/corrections'
+import { currentCorrections } from './calibration'
 import { createLogger } from './platform/logger'
 import { initModels } from './models'
 import { silentNotifier } from './incidents/notifier'
@@ -22,8 +24,18 @@ export function createContext(config: Config, options: { writer?: BatchWriterOpt
     onStored: (rows) => events.emit('readings.stored', rows),
   })
   const status = new DeviceStatusTracker(sequelize, logger)
-  const ingest = createIngest({ writer, status, limits: config.readingLimits })
-  const ctx: AppContext = { config, sequelize, models, logger, events, readings: { writer, status, ingest }, incidents: { notifier: silentNotifier } }
+  const corrections = new CorrectionCache((deviceId) => currentCorrections(sequelize, deviceId))
+  const ingest = createIngest({ writer, status, limits: config.readingLimits, corrections })
+  const ctx: AppContext = {
+    config,
+    sequelize,
+    models,
+    logger,
+    events,
+    readings: { writer, status, ingest, corrections },
+    incidents: { notifier: silentNotifier },
+  }
+  events.on('calibration.changed', ({ deviceId }) => corrections.forget(deviceId))
   // A new tank gets its starter watch rules, then its care routine, before its creation answers.
   events.on('tank.created', (tank) => rulesService(ctx).createDefaults(tank))
   events.on('tank.created', (tank) => createDefaultCareTasks(ctx, tank))

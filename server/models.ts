@@ -18,6 +18,7 @@ import { Photo } from './photos/model'
 import { ReportSchedule } from './reports/schedule-model'
 import { ImportJob, ImportSource } from './imports/models'
 import { BuildStep, TankBuild } from './builds/models'
+import { Calibration } from './calibration/models'
 
 export {
   Organization,
@@ -52,6 +53,7 @@ export {
   BuildStep,
   SiteIncident,
   MaintenanceWindow,
+  Calibration,
 }
 
 /** Every model, in the order they are bound. */
@@ -88,6 +90,7 @@ const ALL_MODELS = {
   BuildStep,
   SiteIncident,
   MaintenanceWindow,
+  Calibration,
 }
 
 /** Binds every model to this Sequelize instance and declares the associations, in one place. */
@@ -103,6 +106,7 @@ export function initModels(sequelize: Sequelize) {
   Incident.belongsTo(Tank, { as: 'tank', foreignKey: 'tankId' })
   Incident.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
   ImportJob.belongsTo(ImportSource, { as: 'source', foreignKey: 'sourceId' })
+  Calibration.belongsTo(User, { as: 'performer', foreignKey: 'performedBy' })
   return ALL_MODELS
 }
 export type Models = ReturnType<typeof initModels>

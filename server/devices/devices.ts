@@ -41,6 +41,7 @@ export const devicesService = perContext((ctx: AppContext) => {
       readingsToday,
       quiet: isDeviceQuiet(d),
       revokedAt: d.revokedAt?.toISOString() ?? null,
+      selfCalibrating: d.selfCalibrating,
       createdAt: d.createdAt.toISOString(),
     }
   }
@@ -100,6 +101,7 @@ export const devicesService = perContext((ctx: AppContext) => {
     async update(actor: Actor, id: number, changes: Partial<Omit<DeviceInput, 'tankId'>>) {
       const device = await find(actor, id)
       await device.update(changes)
+      if (changes.selfCalibrating !== undefined) ctx.events.emit('calibration.changed', { deviceId: device.id })
       return (await present([device]))[0]
     },
 

@@ -26,6 +26,8 @@ export type EventMap = {
   /** Awaited with `settle`: the tank's starter watch rules and care routine exist when creation answers. */
   'tank.created': [CreatedTank]
   'device.revoked': [{ deviceId: number }]
+  /** A device's calibrations or its self-calibrating flag changed: ingest reloads its corrections. */
+  'calibration.changed': [{ deviceId: number }]
   'wall.revoked': [{ credentialId: number }]
   /** Who may see what in an organization changed (a person's sites, role or status; a site or tank archived). */
   'access.changed': [{ organizationId: number }]
