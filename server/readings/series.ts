@@ -78,7 +78,6 @@ function markSpikes(metric: MetricKey, raw: RawReading[]) {
   for (const i of spikeIndexes(
     probe.map((r) => r.value),
     trust.spike,
-    trust.relative,
   ))
     probe[i].spike = true
 }

@@ -17,7 +17,9 @@ export const CAUSE_TITLES: Record<CauseKey, string> = {
 }
 
 /** `value` is the compared quantity of the trip (see RuleEvent): it tells a cold trip from a hot one. */
-export function causeOf(spec: WatchRuleSpec, value: number): CauseKey {
+export function causeOf(spec: WatchRuleSpec, value: number): CauseKey | undefined {
+  // A probe's own fault says nothing about the site.
+  if (spec.kind === 'probe_kit' || spec.kind === 'stuck') return undefined
   if (spec.kind === 'quiet') return 'power'
   const metric = metricOfSpec(spec)
   switch (metric) {

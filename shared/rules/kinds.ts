@@ -5,6 +5,8 @@ import type { MetricKey } from '../metrics/registry'
 import { evaluateLevelSpec } from './level'
 import { evaluateQuiet } from './quiet'
 import { evaluateRate } from './rate'
+import { evaluateProbeKit } from './probe-kit'
+import { evaluateStuck } from './stuck'
 import { watchRuleSpecSchema, type SpecOfKind, type WatchRuleKind, type WatchRuleSpec } from './schema'
 import type { EvaluationResult, RuleContext, RuleInput, RuleState } from './types'
 
@@ -19,7 +21,7 @@ export interface FormField<Key extends string = RuleFormField> {
   key: Key
   label: string
   /** `metric`: the watched metric's stored unit; otherwise shown as written. */
-  suffix: 'metric' | 'min' | 'cm' | 'lux'
+  suffix: 'metric' | 'min' | 'cm' | 'lux' | '%'
   /** What an empty form holds. */
   initial: string
   hint?: string
@@ -203,6 +205,50 @@ export const KINDS = {
     describe: (s, w) =>
       `the light is on when the schedule says off, or off when it says on, for ${w.minutes(s.holdMinutes)} (on means at least ${Number(s.onLux.toFixed(1))} lux)`,
     measure: (_s, _metric, value, w) => `light ${w.measured('light', value)}, off its schedule`,
+  },
+  probe_kit: {
+    label: 'Probe disagrees with the test kit',
+    fixedMetric: null,
+    fields: [
+      { key: 'tolerance', label: 'Allowed difference', suffix: 'metric', initial: '0.2', line: 1 },
+      { key: 'tolerancePercent', label: 'Or this share of the kit value', suffix: '%', initial: '0', hint: 'Whichever is larger', line: 1 },
+      {
+        key: 'withinMinutes',
+        label: 'Probe reading within',
+        suffix: 'min',
+        initial: '15',
+        hint: 'Of the test time, or the probe’s interval if longer',
+        line: 2,
+      },
+    ],
+    step: (spec, state, input, ctx) => evaluateProbeKit(spec, state, input, ctx),
+    // A rebuild needs the probe readings near a kit value; running, the rule remembers a day of them for a kit value entered late.
+    lookbackMinutes: (spec) => spec.withinMinutes,
+    takesLateReadings: true,
+    asksMissingReading: false,
+    ticksMatter: 'never',
+    describe: (s, w) => {
+      const parts = [s.tolerance > 0 ? w.change(s.metric, s.tolerance) : '', s.tolerancePercent > 0 ? `${Number(s.tolerancePercent.toFixed(1))} %` : '']
+      return `a test-kit ${w.metric(s.metric)} differs from the probe's reading by more than ${parts.filter(Boolean).join(' or ') || 'nothing'}; calibrate the probe`
+    },
+    measure: (_s, metric, value, w) => `${w.metric(metric)} probe reads ${w.measured(metric, Math.abs(value))} ${value > 0 ? 'above' : 'below'} the test kit`,
+  },
+  stuck: {
+    label: 'Probe stands still',
+    fixedMetric: null,
+    fields: [
+      { key: 'flatMinutes', label: 'Unchanged for', suffix: 'min', initial: '180', line: 1 },
+      { key: 'noiseFloor', label: 'Changes smaller than', suffix: 'metric', initial: '0.05', hint: 'The probe’s own noise', line: 1 },
+    ],
+    step: (spec, state, input) => evaluateStuck(spec, state, input),
+    // The engine's look-back pad (two hours) lets a restarted engine see the probe move before the flat run.
+    lookbackMinutes: (spec) => spec.flatMinutes,
+    takesLateReadings: false,
+    asksMissingReading: false,
+    ticksMatter: 'never',
+    describe: (s, w) =>
+      `the ${w.metric(s.metric)} probe moves less than ${w.change(s.metric, s.noiseFloor)} for ${w.minutes(s.flatMinutes)}: frozen or out of the water?`,
+    measure: (_s, metric, value, w) => `${w.metric(metric)} probe unchanged for ${w.minutes(Math.round(value))}: frozen or out of the water?`,
   },
 } satisfies { [K in WatchRuleKind]: KindEntry<K> }
 
