@@ -39,6 +39,8 @@ export function createContext(config: Config, options: { writer?: BatchWriterOpt
   // A new tank gets its starter watch rules, then its care routine, before its creation answers.
   events.on('tank.created', (tank) => rulesService(ctx).createDefaults(tank))
   events.on('tank.created', (tank) => createDefaultCareTasks(ctx, tank))
+  // A new probe brings its watch rules (it disagrees with the test kit, it stands still).
+  events.on('device.created', (device) => rulesService(ctx).createProbeDefaults(device))
   return ctx
 }
 

@@ -95,6 +95,13 @@ export const devicesService = perContext((ctx: AppContext) => {
       })
       const { token, hash } = newDeviceToken(placeholder.id)
       await placeholder.update({ tokenHash: hash })
+      await ctx.events.settle('device.created', {
+        id: placeholder.id,
+        organizationId: actor.organizationId,
+        siteId: tank.siteId,
+        tankId: tank.id,
+        metrics: placeholder.metrics as MetricKey[],
+      })
       return { device: (await present([await find(actor, placeholder.id)]))[0], token }
     },
 
