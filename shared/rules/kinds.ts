@@ -248,7 +248,7 @@ export const KINDS = {
     ticksMatter: 'never',
     describe: (s, w) =>
       `the ${w.metric(s.metric)} probe moves less than ${w.change(s.metric, s.noiseFloor)} for ${w.minutes(s.flatMinutes)}: frozen or out of the water?`,
-    measure: (_s, metric, value, w) => `${w.metric(metric)} probe unchanged for ${w.minutes(Math.round(value))}: frozen or out of the water?`,
+    measure: (_s, metric, value, w) => `${w.metric(metric)} probe unchanged for ${w.minutes(value)}: frozen or out of the water?`,
   },
 } satisfies { [K in WatchRuleKind]: KindEntry<K> }
 

@@ -33,7 +33,7 @@ export function evaluateStuck(spec: StuckSpec, state: RuleState, input: RuleInpu
     return state.status === 'tripped' ? { state: next, event: { type: 'clear', at: input.at, value: v } } : { state: next }
   }
   const next: RuleState = { ...state, band: [low, high], lastValue: v, ...(state.moved ? { lastReadingAt: input.at } : {}) }
-  const flatMinutes = (input.at - state.since) / 60_000
+  const flatMinutes = Math.round((input.at - state.since) / 60_000)
   if (state.status === 'tripped')
     return { state: { ...next, peakValue: flatMinutes }, event: { type: 'update', at: input.at, value: flatMinutes, peak: flatMinutes } }
   if (!state.moved || flatMinutes < spec.flatMinutes) return { state: next }
