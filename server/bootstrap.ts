@@ -11,7 +11,7 @@ import { createLogger } from './platform/logger'
 import { initModels } from './models'
 import { silentNotifier } from './incidents/notifier'
 import { rulesService } from './incidents/watch-rules'
-import { createDefaultCareTasks } from './care/care-tasks'
+import { createDefaultCareTasks, createProbeCareTasks } from './care/care-tasks'
 
 /** Builds the shared context (database, models, logger, events, ingest) from a config. */
 export function createContext(config: Config, options: { writer?: BatchWriterOptions } = {}): AppContext {
@@ -41,6 +41,7 @@ export function createContext(config: Config, options: { writer?: BatchWriterOpt
   events.on('tank.created', (tank) => createDefaultCareTasks(ctx, tank))
   // A new probe brings its watch rules (it disagrees with the test kit, it stands still).
   events.on('device.created', (device) => rulesService(ctx).createProbeDefaults(device))
+  events.on('device.created', (device) => createProbeCareTasks(ctx, device))
   return ctx
 }
 

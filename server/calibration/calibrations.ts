@@ -6,6 +6,7 @@ import { badRequest } from '../platform/errors'
 import { perContext } from '../platform/per-context'
 import type { Calibration } from '../models'
 import { devicesService } from '../devices'
+import { markDeviceTasksDone } from '../care'
 
 export function presentCalibration(c: Calibration): PublicCalibration {
   return {
@@ -106,6 +107,7 @@ export const calibrationsService = perContext((ctx: AppContext) => {
         notes: input.notes,
       })
       events.emit('calibration.changed', { deviceId: device.id })
+      await markDeviceTasksDone(ctx, device.id, row.performedAt, actor.userId)
       await row.reload({ include })
       return presentCalibration(row)
     },

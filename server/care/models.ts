@@ -27,6 +27,8 @@ export class CareTask extends Model<InferAttributes<CareTask>, InferCreationAttr
   declare snoozeReason: CreationOptional<string | null>
   declare active: CreationOptional<boolean>
   declare createdBy: CreationOptional<number | null>
+  /** The probe this task belongs to (calibrating it), if any. */
+  declare deviceId: CreationOptional<number | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
 
@@ -47,6 +49,7 @@ export class CareTask extends Model<InferAttributes<CareTask>, InferCreationAttr
         snoozeReason: { type: DataTypes.TEXT, allowNull: true },
         active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
         createdBy: optionalInt(),
+        deviceId: optionalInt(),
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

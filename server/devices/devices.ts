@@ -100,6 +100,7 @@ export const devicesService = perContext((ctx: AppContext) => {
         organizationId: actor.organizationId,
         siteId: tank.siteId,
         tankId: tank.id,
+        name: placeholder.name,
         metrics: placeholder.metrics as MetricKey[],
       })
       return { device: (await present([await find(actor, placeholder.id)]))[0], token }

@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { bearer, startTestApp } from '../helpers/app'
+import { bearer, sampleTank, startTestApp } from '../helpers/app'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 
 let t: Awaited<ReturnType<typeof startTestApp>>
@@ -143,5 +143,33 @@ describe('pH calibration', () => {
       { bind: [node.tankId, 'temperature'], type: QueryTypes.SELECT },
     )
     expect(row).toEqual({ value: 25, raw_value: null })
+  })
+
+  it('a pH probe brings a four-weekly care task, which recording its calibration ticks off', async () => {
+    const owner = bearer(org.users.owner.token)
+    const tank = await t
+      .api()
+      .post('/api/v1/tanks')
+      .set(owner)
+      .send(sampleTank(org.siteIds[0], { name: 'Care probe tank' }))
+    const device = await t
+      .api()
+      .post('/api/v1/devices')
+      .set(owner)
+      .send({ tankId: tank.body.id, name: 'Dosing node', metrics: ['ph'], intervalSeconds: 60 })
+    expect(device.status).toBe(201)
+    const tasks = async () =>
+      (await t.api().get(`/api/v1/tanks/${tank.body.id}/care-tasks`).set(owner)).body as Array<{
+        title: string
+        recurrence: unknown
+        lastDoneAt: string | null
+      }>
+    const before = (await tasks()).find((task) => task.title === 'Calibrate the pH probe (Dosing node)')
+    // Every four weeks (`common practice`).
+    expect(before).toMatchObject({ recurrence: { kind: 'interval', everyDays: 28 }, lastDoneAt: null })
+    const saved = await calibrate(device.body.device.id, TWO_POINT)
+    expect(saved.status).toBe(201)
+    const after = (await tasks()).find((task) => task.title === 'Calibrate the pH probe (Dosing node)')
+    expect(after!.lastDoneAt).toBe(saved.body.performedAt)
   })
 })

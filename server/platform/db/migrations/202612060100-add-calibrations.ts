@@ -26,8 +26,12 @@ CREATE TABLE calibrations (
 CREATE INDEX calibrations_device_metric ON calibrations (device_id, metric, performed_at DESC, id DESC);
 ALTER TABLE devices ADD COLUMN self_calibrating boolean NOT NULL DEFAULT false;
 ALTER TABLE readings ADD COLUMN raw_value double precision, ADD COLUMN calibration_id integer;
+-- A care task that belongs to one probe ("calibrate the pH probe"): recording its calibration ticks it off.
+ALTER TABLE care_tasks ADD COLUMN device_id integer REFERENCES devices(id) ON DELETE CASCADE;
+CREATE INDEX care_tasks_device ON care_tasks (device_id) WHERE device_id IS NOT NULL;
 `
 const down = `
+ALTER TABLE care_tasks DROP COLUMN device_id;
 ALTER TABLE readings DROP COLUMN raw_value, DROP COLUMN calibration_id;
 ALTER TABLE devices DROP COLUMN self_calibrating;
 DROP TABLE calibrations;
