@@ -13,6 +13,13 @@ export function whatToCheck(spec: WatchRuleSpec, metric: string): string[] {
       return ['Is the sensor node powered and on the network?', 'Check the tank by eye and with a thermometer until readings return.']
     case 'light_schedule':
       return ['Check the light timer and the light’s own controller.', 'Check the site’s clock and time zone.']
+    case 'probe_kit':
+      return [
+        'Calibrate the probe (the device’s Calibration panel on the tank page), then test again.',
+        'Check the test kit’s expiry date and follow its instructions exactly; a second kit settles which one is off.',
+      ]
+    case 'stuck':
+      return ['Is the probe still under water and in a place with flow?', 'Clean the probe; if it still does not move, its node or the probe may have failed.']
     case 'rate':
       return metric === 'ph'
         ? ['Test pH and KH with a test kit to confirm.', 'A falling KH lets pH crash: consider a partial water change.', 'Check CO2 dosing, if any.']
@@ -49,6 +56,10 @@ export function firstStep(spec: WatchRuleSpec, metric: string, value: number | n
       return 'First: look at the tank yourself (by eye and with a thermometer), then check the sensor node’s power and network.'
     case 'light_schedule':
       return 'First: check the light’s timer and its plug.'
+    case 'probe_kit':
+      return 'First: calibrate the probe, then test the water again with the kit.'
+    case 'stuck':
+      return 'First: check the probe is under water and clean, and look at the tank yourself until it moves again.'
     case 'rate':
       return metric === 'ph'
         ? 'First: test pH and KH with a test kit before dosing or changing water.'
