@@ -5,9 +5,8 @@ import { windowCovers, type MaintenanceSpan } from '@shared/rules/maintenance'
 import { kindOf, metricOfSpec } from '@shared/rules/kinds'
 import type { RuleContext, RuleEvent, RuleState } from '@shared/rules/types'
 import { initialRuleState } from '@shared/rules/types'
-import { spikeRelease, spikeStep, type SpikeState, type TimedValue } from '@shared/rules/spike-filter'
-import { PROBE_TRUST } from '@shared/calibration'
-import { spikeIndexes } from '@shared/calibration'
+import type { TimedValue } from '@shared/rules/spike-filter'
+import { createSpikeGate, withoutSpikes } from './spike-gate'
 import type { AppContext } from '../context'
 import type { StoredReading } from '../platform/events'
 import { windowOfTanks } from '../readings'
@@ -61,8 +60,8 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
   let windows: Window[] = []
   let snoozes: Array<{ tankId: number; window: Parameters<typeof snoozeCovers>[0] }> = []
   let queue: StoredReading[] = []
-  // Per `${tankId}:${metric}` of a probe: the reading held back until the next says whether it was a spike.
-  const spikes = new Map<string, SpikeState>()
+  // Per probe: the reading held back until the next says whether it was a spike.
+  const spikes = createSpikeGate()
   let chain: Promise<void> = Promise.resolve()
   let running = false
 
@@ -253,22 +252,7 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
       }
     }
     // The rules never saw a probe's spikes; neither does the rebuild.
-    for (const [k, list] of history) {
-      const trust = PROBE_TRUST[k.split(':')[1] as keyof typeof PROBE_TRUST]
-      if (!trust) continue
-      const probe = list.filter((r) => r.source === 'device')
-      const dropped = new Set(
-        spikeIndexes(
-          probe.map((r) => r.value),
-          trust.spike,
-        ).map((i) => probe[i]),
-      )
-      if (dropped.size)
-        history.set(
-          k,
-          list.filter((r) => !dropped.has(r)),
-        )
-    }
+    for (const [k, list] of history) history.set(k, withoutSpikes(k.split(':')[1], list))
     return history
   }
 
@@ -338,12 +322,9 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
 
   /** Held readings whose successor never came go on: the probe may have stopped after a real step. */
   async function releaseHeld(at: number) {
-    for (const [key, state] of spikes) {
-      const released = spikeRelease(state, at)
-      if (!released.pass.length) continue
-      spikes.set(key, released.state)
+    for (const [key, readings] of spikes.release(at)) {
       const slotsOfReading = byTankMetric.get(key)
-      if (slotsOfReading) await feed(slotsOfReading, released.pass, 'device')
+      if (slotsOfReading) await feed(slotsOfReading, readings, 'device')
     }
   }
 
@@ -362,9 +343,7 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
           await feed(slotsOfReading, [reading], r.source)
           continue
         }
-        const filtered = spikeStep(r.metric, spikes.get(key) ?? {}, reading)
-        spikes.set(key, filtered.state)
-        await feed(slotsOfReading, filtered.pass, 'device')
+        await feed(slotsOfReading, spikes.pass(key, r.metric, reading), 'device')
       }
     })
   }
