@@ -231,7 +231,11 @@ export const KINDS = {
       const parts = [s.tolerance > 0 ? w.change(s.metric, s.tolerance) : '', s.tolerancePercent > 0 ? `${Number(s.tolerancePercent.toFixed(1))} %` : '']
       return `a test-kit ${w.metric(s.metric)} differs from the probe's reading by more than ${parts.filter(Boolean).join(' or ') || 'nothing'}; calibrate the probe`
     },
-    measure: (_s, metric, value, w) => `${w.metric(metric)} probe reads ${w.measured(metric, Math.abs(value))} ${value > 0 ? 'above' : 'below'} the test kit`,
+    // A difference is no level: the words convert levels (°C to °F adds 32), so a temperature difference stays in °C.
+    measure: (_s, metric, value, w) =>
+      metric === 'temperature'
+        ? `temperature probe reads ${Number(Math.abs(value).toFixed(1))} °C ${value > 0 ? 'above' : 'below'} the test kit`
+        : `${w.metric(metric)} probe reads ${w.measured(metric, Math.abs(value))} ${value > 0 ? 'above' : 'below'} the test kit`,
   },
   stuck: {
     label: 'Probe stands still',
