@@ -4,6 +4,7 @@ import { allow, authenticate, authenticateDevice } from './access/middleware'
 import type { AppContext } from './context'
 import { authRouter } from './people/auth-routes'
 import { devicesRouter } from './devices/routes'
+import { deviceCalibrationRoutes } from './calibration/routes'
 import { readingsRouter } from './readings/routes'
 import { seriesRoutes } from './readings/series-routes'
 import { tankTestKitRoutes, testKitEntriesRouter } from './test-kit/routes'
@@ -99,7 +100,7 @@ export function apiRouter(ctx: AppContext) {
   router.use('/visits', requireUser, visitsRouter(ctx))
   router.use('/rounds', requireUser, roundsRouter(ctx))
   router.use('/report-schedules', requireUser, reportSchedulesRouter(ctx))
-  router.use('/devices', requireUser, devicesRouter(ctx))
+  router.use('/devices', requireUser, devicesRouter(ctx), deviceCalibrationRoutes(ctx))
   router.use('/photos', requireUser, photosRouter(ctx))
   router.use('/backup', requireUser, backupRouter(ctx))
   router.use('/imports', requireUser, importsRouter(ctx))

@@ -3,6 +3,7 @@ import type { Config } from './config'
 import type { EventBus } from './platform/events'
 import type { BatchWriter } from './readings/batch-writer'
 import type { DeviceStatusTracker } from './readings/device-status'
+import type { CorrectionCache } from './readings/corrections'
 import type { Ingest } from './readings/ingest'
 import type { IncidentNotifier } from './incidents/notifier'
 import type { Logger } from './platform/logger'
@@ -15,7 +16,7 @@ export type AppContext = {
   models: Models
   logger: Logger
   events: EventBus
-  readings: { writer: BatchWriter; status: DeviceStatusTracker; ingest: Ingest }
+  readings: { writer: BatchWriter; status: DeviceStatusTracker; ingest: Ingest; corrections: CorrectionCache }
   /** Who hears about incidents; the mail notifier in a running server, silent in bare tests. */
   incidents: { notifier: IncidentNotifier }
 }

@@ -23,6 +23,7 @@ import { Visit } from './visits/visit-model'
 import { LivestockEvent } from './livestock/models'
 import { Consumable, Equipment } from './equipment/models'
 import { AlertChannelChoice, PushSubscription } from './push/models'
+import { Calibration } from './calibration/models'
 
 export {
   Organization,
@@ -64,6 +65,7 @@ export {
   Consumable,
   PushSubscription,
   AlertChannelChoice,
+  Calibration,
 }
 
 /** Every model, in the order they are bound. */
@@ -107,6 +109,7 @@ const ALL_MODELS = {
   Consumable,
   PushSubscription,
   AlertChannelChoice,
+  Calibration,
 }
 
 /** Binds every model to this Sequelize instance and declares the associations, in one place. */
@@ -126,6 +129,7 @@ export function initModels(sequelize: Sequelize) {
   Visit.belongsTo(Client, { as: 'client', foreignKey: 'clientId' })
   Visit.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
   Visit.belongsTo(User, { as: 'technician', foreignKey: 'technicianId' })
+  Calibration.belongsTo(User, { as: 'performer', foreignKey: 'performedBy' })
   return ALL_MODELS
 }
 export type Models = ReturnType<typeof initModels>

@@ -13,7 +13,8 @@ import { whoIsOnDuty } from '../roster'
 import { siteScope, visibleTank } from '../access/scope'
 import { sitesService } from '../sites'
 import { checkTaskConsumable, consumableAlerts, drawDown } from '../equipment'
-import type { CreatedTank } from '../platform/events'
+import type { CreatedDevice, CreatedTank } from '../platform/events'
+import { phCalibrationTask } from '@shared/calibration/care'
 import { perContext } from '../platform/per-context'
 
 /** A snooze longer than this is a task that should be changed or switched off instead. */
@@ -55,6 +56,17 @@ export async function createDefaultCareTasks(ctx: AppContext, tank: CreatedTank,
     drafts.map((d) => ({ ...d, organizationId: tank.organizationId, tankId: tank.id })),
     { transaction },
   )
+}
+
+/** A new pH probe's care task: calibrate it every few weeks (shared/calibration/care.ts). */
+export async function createProbeCareTasks(ctx: AppContext, device: CreatedDevice) {
+  if (!device.metrics.includes('ph')) return
+  await ctx.models.CareTask.create({ ...phCalibrationTask(device.name), organizationId: device.organizationId, tankId: device.tankId, deviceId: device.id })
+}
+
+/** Recording a probe's calibration ticks off its care task. */
+export async function markDeviceTasksDone(ctx: AppContext, deviceId: number, at: Date, userId: number | null) {
+  await ctx.models.CareTask.update({ lastDoneAt: at, lastDoneBy: userId, snoozedUntil: null, snoozeReason: null }, { where: { deviceId, active: true } })
 }
 
 /** Marks every active task of `kind` on the tank done at `at` (a finished water change does this). */

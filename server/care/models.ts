@@ -30,6 +30,8 @@ export class CareTask extends Model<InferAttributes<CareTask>, InferCreationAttr
   declare consumableId: CreationOptional<number | null>
   declare consumableAmount: CreationOptional<number | null>
   declare createdBy: CreationOptional<number | null>
+  /** The probe this task belongs to (calibrating it), if any. */
+  declare deviceId: CreationOptional<number | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
 
@@ -52,6 +54,7 @@ export class CareTask extends Model<InferAttributes<CareTask>, InferCreationAttr
         consumableId: optionalInt(),
         consumableAmount: optionalNumber(),
         createdBy: optionalInt(),
+        deviceId: optionalInt(),
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

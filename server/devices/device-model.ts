@@ -14,6 +14,7 @@ export class Device extends Model<InferAttributes<Device>, InferCreationAttribut
   declare lastErrorAt: CreationOptional<Date | null>
   declare rejectedCount: CreationOptional<number>
   declare revokedAt: CreationOptional<Date | null>
+  declare selfCalibrating: CreationOptional<boolean>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
   declare tank?: NonAttribute<Tank>
@@ -33,6 +34,7 @@ export class Device extends Model<InferAttributes<Device>, InferCreationAttribut
         lastErrorAt: { type: DataTypes.DATE, allowNull: true },
         rejectedCount: { type: DataTypes.BIGINT, allowNull: false, defaultValue: 0 },
         revokedAt: { type: DataTypes.DATE, allowNull: true },
+        selfCalibrating: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -40,6 +40,7 @@ export const devicesService = perContext((ctx: AppContext) => {
       readingsToday,
       quiet: isDeviceQuiet(d),
       revokedAt: d.revokedAt?.toISOString() ?? null,
+      selfCalibrating: d.selfCalibrating,
       createdAt: d.createdAt.toISOString(),
     }
   }
@@ -93,12 +94,21 @@ export const devicesService = perContext((ctx: AppContext) => {
       })
       const { token, hash } = newDeviceToken(placeholder.id)
       await placeholder.update({ tokenHash: hash })
+      await ctx.events.settle('device.created', {
+        id: placeholder.id,
+        organizationId: actor.organizationId,
+        siteId: tank.siteId,
+        tankId: tank.id,
+        name: placeholder.name,
+        metrics: placeholder.metrics as MetricKey[],
+      })
       return { device: (await present([await find(actor, placeholder.id)]))[0], token }
     },
 
     async update(actor: Actor, id: number, changes: Partial<Omit<DeviceInput, 'tankId'>>) {
       const device = await find(actor, id)
       await device.update(changes)
+      if (changes.selfCalibrating !== undefined) ctx.events.emit('calibration.changed', { deviceId: device.id })
       return (await present([device]))[0]
     },
 

@@ -71,7 +71,27 @@ export const BACKUP_TABLES = [
     table: 'devices',
     hasId: true,
     order: 'id',
-    columns: { tank_id: '->tanks', name: 'text', metrics: 'text[]', interval_seconds: 'int', revoked_at: 'time?' },
+    columns: { tank_id: '->tanks', name: 'text', metrics: 'text[]', interval_seconds: 'int', revoked_at: 'time?', self_calibrating: 'bool' },
+  },
+  {
+    // Readings keep their corrected values; which calibration corrected each stays behind.
+    table: 'calibrations',
+    hasId: true,
+    order: 'id',
+    columns: {
+      device_id: '->devices',
+      metric: 'text',
+      method: 'text',
+      points: 'json',
+      gain: 'float',
+      intercept: 'float',
+      slope_percent: 'float?',
+      offset_mv: 'float?',
+      slope_ok: 'bool?',
+      performed_at: 'time',
+      performed_by: '->users?',
+      notes: 'text',
+    },
   },
   {
     table: 'watch_rules',

@@ -4,6 +4,8 @@ import { windowCovers, type MaintenanceSpan } from '@shared/rules/maintenance'
 import { causeOf, kindOf, metricOfSpec } from '@shared/rules/kinds'
 import type { RuleContext, RuleEvent, RuleState } from '@shared/rules/types'
 import { initialRuleState } from '@shared/rules/types'
+import type { TimedValue } from '@shared/rules/spike-filter'
+import { createSpikeGate, withoutSpikes } from './spike-gate'
 import type { AppContext } from '../context'
 import type { StoredReading } from '../platform/events'
 import { windowOfTanks } from '../readings'
@@ -57,6 +59,8 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
   let windows: Window[] = []
   let snoozes: Array<{ tankId: number; window: Parameters<typeof snoozeCovers>[0] }> = []
   let queue: StoredReading[] = []
+  // Per probe: the reading held back until the next says whether it was a spike.
+  const spikes = createSpikeGate()
   let chain: Promise<void> = Promise.resolve()
   let running = false
 
@@ -70,8 +74,11 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
     const effective = await rulesService(ctx).effectiveRules()
     const tankIds = [...new Set(effective.map((e) => e.tankId))]
     const tanks = await ctx.models.Tank.findAll({ where: { id: tankIds }, include: [{ association: 'site', attributes: ['timeZone'] }] })
-    const devices = await ctx.models.Device.findAll({ where: { tankId: tankIds, revokedAt: null }, attributes: ['tankId', 'metrics'] })
+    const devices = await ctx.models.Device.findAll({ where: { tankId: tankIds, revokedAt: null }, attributes: ['tankId', 'metrics', 'intervalSeconds'] })
     const reported = new Set(devices.flatMap((d) => d.metrics.map((m) => `${d.tankId}:${m}`)))
+    const probeIntervalMs = new Map<string, number>()
+    for (const d of devices)
+      for (const m of d.metrics) probeIntervalMs.set(`${d.tankId}:${m}`, Math.max(probeIntervalMs.get(`${d.tankId}:${m}`) ?? 0, d.intervalSeconds * 1000))
     const tankById = new Map(tanks.map((t) => [t.id, t]))
     const rules: EngineRule[] = []
     for (const { rule, tankId } of effective) {
@@ -89,7 +96,10 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
         tank: { id: tank.id, siteId: tank.siteId, organizationId: tank.organizationId },
         timeZone: tank.site?.timeZone ?? 'UTC',
         ladderKey: `${tank.id}:${rule.spec.kind}:${metric}`,
-        ctx: ruleContextFor({ heater: tank.heater, lightSchedule: tank.lightSchedule, timeZone: tank.site?.timeZone ?? 'UTC' }),
+        ctx: {
+          ...ruleContextFor({ heater: tank.heater, lightSchedule: tank.lightSchedule, timeZone: tank.site?.timeZone ?? 'UTC' }),
+          probeIntervalMs: probeIntervalMs.get(`${tankId}:${metric}`),
+        },
       })
     }
     return rules
@@ -222,7 +232,7 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
       const k = `${r.tank.id}:${r.metric}`
       need.set(k, Math.max(need.get(k) ?? 0, lookbackMs(r)))
     }
-    const history = new Map<string, Array<{ at: number; value: number }>>()
+    const history = new Map<string, Array<{ at: number; value: number; source: StoredReading['source'] }>>()
     const byMetric = new Map<string, { tankIds: number[]; ms: number }>()
     for (const [k, ms] of need) {
       const [tankId, metric] = k.split(':')
@@ -236,10 +246,12 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
       for (const r of rows) {
         const k = `${r.tank_id}:${metric}`
         const list = history.get(k) ?? []
-        list.push({ at: r.time.getTime(), value: r.value })
+        list.push({ at: r.time.getTime(), value: r.value, source: r.source })
         history.set(k, list)
       }
     }
+    // The rules never saw a probe's spikes; neither does the rebuild.
+    for (const [k, list] of history) history.set(k, withoutSpikes(k.split(':')[1], list))
     return history
   }
 
@@ -259,6 +271,7 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
         recheckMs: recheckMsOf(rule),
         maintenance: inMaintenance({ id: rule.id, tankId: rule.tank.id, siteId: rule.tank.siteId }, rule.timeZone, event.at),
         cause: causeOf(rule.spec, event.value),
+        detail: event.detail,
       })
       slot.incidentId = incident.id
     } else if (event.type === 'update' && slot.incidentId) {
@@ -294,6 +307,26 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
     if (result.event) await handle(slot, result.event)
   }
 
+  /** Readings to every rule of their tank and metric; evaluated in line, only a trip, update or clear waits for the database. */
+  async function feed(slotsOfReading: Slot[], readings: TimedValue[], source: StoredReading['source']) {
+    for (const reading of readings) {
+      const input = { type: 'reading' as const, at: reading.at, value: reading.value, source }
+      for (const slot of slotsOfReading) {
+        const result = evaluate(slot.rule.spec, slot.state, input, slot.rule.ctx)
+        slot.state = result.state
+        if (result.event) await handle(slot, result.event)
+      }
+    }
+  }
+
+  /** Held readings whose successor never came go on: the probe may have stopped after a real step. */
+  async function releaseHeld(at: number) {
+    for (const [key, readings] of spikes.release(at)) {
+      const slotsOfReading = byTankMetric.get(key)
+      if (slotsOfReading) await feed(slotsOfReading, readings, 'device')
+    }
+  }
+
   const onStored = (rows: StoredReading[]) => {
     if (!running) return
     queue.push(...rows)
@@ -301,15 +334,15 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
       const batch = queue.sort((a, b) => a.time.getTime() - b.time.getTime())
       queue = []
       for (const r of batch) {
-        const slotsOfReading = byTankMetric.get(`${r.tankId}:${r.metric}`)
+        const key = `${r.tankId}:${r.metric}`
+        const slotsOfReading = byTankMetric.get(key)
         if (!slotsOfReading) continue
-        const input = { type: 'reading' as const, at: r.time.getTime(), value: r.value }
-        for (const slot of slotsOfReading) {
-          // Evaluated in line; only a trip, update or clear waits for the database.
-          const result = evaluate(slot.rule.spec, slot.state, input, slot.rule.ctx)
-          slot.state = result.state
-          if (result.event) await handle(slot, result.event)
+        const reading = { at: r.time.getTime(), value: r.value }
+        if (r.source !== 'device') {
+          await feed(slotsOfReading, [reading], r.source)
+          continue
         }
+        await feed(slotsOfReading, spikes.pass(key, r.metric, reading), 'device')
       }
     })
   }
@@ -336,6 +369,7 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
     /** Hold times, quiet rules and escalations: called on a timer, or by tests with their clock. */
     tick(at = now()) {
       return serial(async () => {
+        await releaseHeld(at)
         for (const slot of slots.values()) await step(slot, { type: 'tick', at })
         await endMaintenances(at)
         await incidents.processDue(at)

@@ -23,6 +23,8 @@ export type TripInput = {
   maintenance?: boolean
   /** The kind of cause, for gathering several tanks' trips into one site incident. */
   cause?: string
+  /** Values behind the compared one (a kit value and the probe's), kept in the timeline's opening entry. */
+  detail?: Record<string, number>
 }
 
 /** The engine's side of an incident: trips, flaps, severity changes, clears and the timers. */
@@ -142,7 +144,7 @@ export function incidentLifecycle(ctx: AppContext, notifier: IncidentNotifier, t
     await record(
       created.id,
       'opened',
-      { value: trip.value, since: new Date(trip.since).toISOString(), snoozed: trip.snoozed, maintenance: Boolean(trip.maintenance) },
+      { ...trip.detail, value: trip.value, since: new Date(trip.since).toISOString(), snoozed: trip.snoozed, maintenance: Boolean(trip.maintenance) },
       transaction,
       null,
       new Date(trip.at),

@@ -1,5 +1,5 @@
 import { Op, type Transaction } from 'sequelize'
-import { defaultRulesForTank } from '@shared/rules/defaults'
+import { defaultProbeRules, defaultRulesForTank } from '@shared/rules/defaults'
 import type { PublicRule, RuleInput } from '@shared/schemas/rules'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
@@ -7,7 +7,7 @@ import { badRequest, notFound } from '../platform/errors'
 import type { WatchRule } from '../models'
 import { sitesService } from '../sites'
 import { visibleTank } from '../access/scope'
-import type { CreatedTank } from '../platform/events'
+import type { CreatedDevice, CreatedTank } from '../platform/events'
 import { perContext } from '../platform/per-context'
 
 export type EffectiveRule = { rule: WatchRule; tankId: number }
@@ -78,6 +78,16 @@ export const rulesService = perContext((ctx: AppContext) => {
         { transaction },
       )
       changed([tank.id])
+    },
+
+    /** A new probe's rules on its tank, for each metric the tank has none of that kind for yet. */
+    async createProbeDefaults(device: CreatedDevice) {
+      const existing = await models.WatchRule.findAll({ where: { tankId: device.tankId }, attributes: ['spec'] })
+      const has = new Set(existing.map((r) => `${r.spec.kind}:${'metric' in r.spec ? r.spec.metric : ''}`))
+      const drafts = defaultProbeRules(device.metrics).filter((d) => !has.has(`${d.spec.kind}:${'metric' in d.spec ? d.spec.metric : ''}`))
+      if (!drafts.length) return
+      await models.WatchRule.bulkCreate(drafts.map((d) => ({ ...d, organizationId: device.organizationId, siteId: device.siteId, tankId: device.tankId })))
+      changed([device.tankId])
     },
 
     async listForTank(actor: UserActor, tankId: number, status?: (ruleId: number) => PublicRule['status']) {

@@ -1,5 +1,6 @@
 import { EventEmitter } from 'node:events'
 import type { TankKind, TankStage, Targets } from '@shared/schemas/tanks'
+import type { MetricKey } from '@shared/metrics/registry'
 
 export type StoredReading = {
   tankId: number
@@ -20,12 +21,19 @@ export type CreatedTank = {
   heater: { topCm: number } | null
 }
 
+/** What a new device's defaults need to know of it. */
+export type CreatedDevice = { id: number; organizationId: number; siteId: number; tankId: number; name: string; metrics: MetricKey[] }
+
 /** Everything that happens in-process and that other parts react to. Models import no transport. */
 export type EventMap = {
   'readings.stored': [StoredReading[]]
   /** Awaited with `settle`: the tank's starter watch rules and care routine exist when creation answers. */
   'tank.created': [CreatedTank]
+  /** Awaited with `settle`: the probe's watch rules exist when creation answers. */
+  'device.created': [CreatedDevice]
   'device.revoked': [{ deviceId: number }]
+  /** A device's calibrations or its self-calibrating flag changed: ingest reloads its corrections. */
+  'calibration.changed': [{ deviceId: number }]
   'wall.revoked': [{ credentialId: number }]
   /** Who may see what in an organization changed (a person's sites, role or status; a site or tank archived). */
   'access.changed': [{ organizationId: number }]

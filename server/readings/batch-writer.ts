@@ -8,6 +8,9 @@ export type ReadingRow = {
   tankId: number
   value: number
   source: 'device' | 'test_kit' | 'import'
+  /** What the device sent, when a calibration corrected it into `value`. */
+  rawValue?: number | null
+  calibrationId?: number | null
 }
 
 type Pending = {
@@ -177,8 +180,8 @@ export async function insertReadings(sequelize: Sequelize, rows: ReadingRow[], t
   for (const r of rows) if (!unique.has(keyOf(r))) unique.set(keyOf(r), r)
   const list = [...unique.values()]
   const [result] = (await sequelize.query(
-    `INSERT INTO readings (source_key, metric, time, tank_id, value, source)
-     SELECT * FROM unnest($1::text[], $2::text[], $3::timestamptz[], $4::int[], $5::float8[], $6::text[])
+    `INSERT INTO readings (source_key, metric, time, tank_id, value, source, raw_value, calibration_id)
+     SELECT * FROM unnest($1::text[], $2::text[], $3::timestamptz[], $4::int[], $5::float8[], $6::text[], $7::float8[], $8::int[])
      ON CONFLICT DO NOTHING
      RETURNING source_key, metric, (extract(epoch FROM time) * 1000)::float8 AS ms, tank_id, value, source`,
     {
@@ -189,6 +192,8 @@ export async function insertReadings(sequelize: Sequelize, rows: ReadingRow[], t
         list.map((r) => r.tankId),
         list.map((r) => r.value),
         list.map((r) => r.source),
+        list.map((r) => r.rawValue ?? null),
+        list.map((r) => r.calibrationId ?? null),
       ],
       transaction,
     },

@@ -1,6 +1,7 @@
 import { readingsMessageSchema, MAX_READINGS_PER_MESSAGE, type IngestSummary, type ReadingOutcome } from '@shared/ingest/contract'
 import type { DeviceActor } from '../access/actor'
 import type { BatchWriter, ReadingRow } from './batch-writer'
+import type { CorrectionCache } from './corrections'
 import type { DeviceStatusTracker } from './device-status'
 import { checkReading, type ReadingLimits } from './validate-readings'
 
@@ -20,6 +21,7 @@ export type IngestDeps = {
   writer: BatchWriter
   status: DeviceStatusTracker
   limits: ReadingLimits
+  corrections: CorrectionCache
 }
 
 function parseEnvelope(body: unknown) {
@@ -42,7 +44,7 @@ function parseEnvelope(body: unknown) {
  * units, check plausibility and clock, dedupe, write in batches, and answer per reading.
  */
 export function createIngest(deps: IngestDeps) {
-  const { writer, status, limits } = deps
+  const { writer, status, limits, corrections } = deps
 
   async function fromDevice(device: DeviceActor, body: unknown, options: { hold: boolean }): Promise<IngestSummary> {
     const readings = parseEnvelope(body)
@@ -54,19 +56,24 @@ export function createIngest(deps: IngestDeps) {
     const results: ReadingOutcome[] = []
     const rows: ReadingRow[] = []
     const rowIndex: number[] = []
+    // Cached per device: a calibration is applied here, before the batch write, never by a query per reading.
+    const calibrations = readings.length ? await corrections.of(device.deviceId) : undefined
     readings.forEach((raw, index) => {
       const checked = checkReading(raw, limits, now)
       if (!checked.ok) {
         results[index] = { index, outcome: 'rejected', reason: checked.reason, field: `readings.${index}.${checked.field}` }
         return
       }
+      const correction = calibrations?.get(checked.metric)
       rows.push({
         sourceKey: `d:${device.deviceId}`,
         metric: checked.metric,
         time: checked.time,
         tankId: device.tankId,
-        value: checked.value,
+        value: correction ? correction.intercept + correction.gain * checked.value : checked.value,
         source: 'device',
+        rawValue: correction ? checked.value : null,
+        calibrationId: correction ? correction.calibrationId : null,
       })
       rowIndex.push(index)
     })

@@ -3,7 +3,7 @@
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize'
 
 export type TimedRow = { time: Date; value: number }
-export type TankTimedRow = { tank_id: number; time: Date; value: number }
+export type TankTimedRow = { tank_id: number; time: Date; value: number; source: 'device' | 'test_kit' | 'import' }
 /** A reading with its source key: `k:<entry id>` for a test-kit entry, `d:<device id>` for a device. */
 export type KitRow = { sourceKey: string; time: Date; metric: string; value: number }
 export type CatchUpRow = { tank_id: number; metric: string; time: Date; value: number; source: 'device' | 'test_kit' | 'import' }
@@ -45,7 +45,7 @@ export async function newestReadingsOfTanks(sequelize: Sequelize, tankIds: numbe
 /** One metric of several tanks between `from` and `to` (both included), by tank, then time: a rule's history. */
 export async function windowOfTanks(sequelize: Sequelize, metric: string, tankIds: number[], from: Date, to: Date): Promise<TankTimedRow[]> {
   return sequelize.query<TankTimedRow>(
-    `SELECT tank_id, time, value FROM readings WHERE metric = $1 AND tank_id = ANY($2) AND time >= $3 AND time <= $4 ORDER BY tank_id, time`,
+    `SELECT tank_id, time, value, source FROM readings WHERE metric = $1 AND tank_id = ANY($2) AND time >= $3 AND time <= $4 ORDER BY tank_id, time`,
     { bind: [metric, tankIds, from, to], type: QueryTypes.SELECT },
   )
 }
@@ -117,4 +117,15 @@ export async function kitRowsBetween(sequelize: Sequelize, tankId: number, metri
      WHERE tank_id = $1 AND source_key LIKE 'k:%' AND metric = ANY($2) AND time >= $3 AND time <= $4 ORDER BY time`,
     { bind: [tankId, metrics, from, until], type: QueryTypes.SELECT },
   )
+}
+
+/** A tank's probe reading of `metric` nearest to `at`, at most `withinMs` away (a test-kit value's comparison). */
+export async function nearestProbeReading(sequelize: Sequelize, tankId: number, metric: string, at: Date, withinMs: number): Promise<TimedRow | undefined> {
+  const [row] = await sequelize.query<TimedRow>(
+    `SELECT time, value FROM readings
+     WHERE tank_id = $1 AND metric = $2 AND source = 'device' AND time BETWEEN $3::timestamptz - $4 * interval '1 millisecond' AND $3::timestamptz + $4 * interval '1 millisecond'
+     ORDER BY abs(extract(epoch FROM time - $3::timestamptz)) LIMIT 1`,
+    { bind: [tankId, metric, at, withinMs], type: QueryTypes.SELECT },
+  )
+  return row
 }

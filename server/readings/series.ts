@@ -1,6 +1,16 @@
 import { QueryTypes } from 'sequelize'
 import { METRIC_KEYS, METRICS, type MetricKey } from '@shared/metrics/registry'
-import type { LatestResponse, ReadingSource, SeriesBucket, SeriesQuery, SeriesResponse, SiteLatestResponse } from '@shared/schemas/series'
+import type {
+  LatestResponse,
+  RawReading,
+  ReadingSource,
+  SeriesBucket,
+  SeriesQuery,
+  SeriesResponse,
+  SeriesValues,
+  SiteLatestResponse,
+} from '@shared/schemas/series'
+import { PROBE_TRUST, spikeIndexes } from '@shared/calibration'
 import type { AppContext } from '../context'
 import { perContext } from '../platform/per-context'
 
@@ -60,6 +70,18 @@ export function chooseBucketSeconds(from: Date, to: Date, points: number, floorS
   throw new Error('unreachable: the step list is unbounded')
 }
 
+/** Spikes among a probe's readings (test-kit values are deliberate and never spikes). */
+function markSpikes(metric: MetricKey, raw: RawReading[]) {
+  const trust = PROBE_TRUST[metric]
+  if (!trust) return
+  const probe = raw.filter((r) => r.source === 'device')
+  for (const i of spikeIndexes(
+    probe.map((r) => r.value),
+    trust.spike,
+  ))
+    probe[i].spike = true
+}
+
 type Span = [from: number, to: number]
 export type ReadPlan = { raw: [Span, Span]; hourly: [Span, Span]; daily: Span }
 const NONE: Span = [0, 0]
@@ -90,7 +112,7 @@ export function readPlan(from: number, to: number, stepSeconds: number, state: {
   return { raw, hourly: [span(hourStart, hourEnd), NONE], daily: NONE }
 }
 
-type RawRow = { time: Date; value: number; source: ReadingSource }
+type RawRow = { time: Date; value: number; source: ReadingSource; calibrated: boolean }
 // pg answers the timestamp '-infinity' (nothing pruned yet) as the number -Infinity, not a Date.
 type StateRow = { rolled_up_before: Date; raw_kept_from: Date | number; raw: number }
 const instantMs = (v: Date | number) => (typeof v === 'number' ? v : v.getTime())
@@ -109,8 +131,11 @@ SELECT s.rolled_up_before, s.raw_kept_from,
      LIMIT $5) capped) AS raw
 FROM readings_rollup_state s`
 
-const RAW_SQL = `
-SELECT time, value, source FROM readings
+// `value` is the stored (corrected) value, or with `raw` what the device sent.
+const valueOf = (values: SeriesValues) => (values === 'raw' ? 'coalesce(raw_value, value)' : 'value')
+
+const rawSql = (values: SeriesValues) => `
+SELECT time, ${valueOf(values)} AS value, source, calibration_id IS NOT NULL AS calibrated FROM readings
 WHERE tank_id = $1 AND metric = $2 AND time >= $3::timestamptz AND time < $4::timestamptz
 ORDER BY time, source_key`
 
@@ -119,12 +144,12 @@ ORDER BY time, source_key`
  * readings_daily, whole hours around them from readings_hourly, and the minutes at either edge (and
  * after the last rolled-up hour) from raw rows. The parts are disjoint, so a bucket is their union.
  */
-const BUCKETS_SQL = `
+const bucketsSql = (values: SeriesValues) => `
 WITH samples AS (
-  SELECT time AS t, value AS lo, value AS hi, value AS total, 1 AS n FROM readings
+  SELECT time AS t, ${valueOf(values)} AS lo, ${valueOf(values)} AS hi, ${valueOf(values)} AS total, 1 AS n FROM readings
   WHERE tank_id = $1 AND metric = $2 AND time >= $5::timestamptz AND time < $6::timestamptz
   UNION ALL
-  SELECT time, value, value, value, 1 FROM readings
+  SELECT time, ${valueOf(values)}, ${valueOf(values)}, ${valueOf(values)}, 1 FROM readings
   WHERE tank_id = $1 AND metric = $2 AND time >= $7::timestamptz AND time < $8::timestamptz
   UNION ALL
   SELECT hour, min, max, sum, count FROM readings_hourly
@@ -174,7 +199,8 @@ export const seriesService = perContext((ctx: AppContext) => {
 
   return {
     /** Every reading when the range holds at most `points` of them, else min/mean/max per time bucket. */
-    async series(tankId: number, q: SeriesQuery): Promise<SeriesResponse> {
+    async series(tankId: number, query: Omit<SeriesQuery, 'values'> & { values?: SeriesValues }): Promise<SeriesResponse> {
+      const q = { ...query, values: query.values ?? 'corrected' }
       const head = {
         metric: q.metric,
         unit: METRICS[q.metric].unit,
@@ -185,8 +211,14 @@ export const seriesService = perContext((ctx: AppContext) => {
       const [state] = await select<StateRow>(STATE_SQL, [...range, q.points + 1])
       const rawComplete = q.from.getTime() >= instantMs(state.raw_kept_from)
       if (rawComplete && state.raw <= q.points) {
-        const rows = await select<RawRow>(RAW_SQL, range)
-        const raw = rows.map((r) => ({ t: r.time.toISOString(), value: r.value, source: r.source }))
+        const rows = await select<RawRow>(rawSql(q.values), range)
+        const raw: RawReading[] = rows.map((r) => ({
+          t: r.time.toISOString(),
+          value: r.value,
+          source: r.source,
+          ...(r.calibrated ? { calibrated: true } : {}),
+        }))
+        markSpikes(q.metric, raw)
         return { ...head, bucketSeconds: 0, points: [], raw }
       }
       // Where raw rows are gone, hours are the finest thing left, and they cannot be split.
@@ -197,7 +229,7 @@ export const seriesService = perContext((ctx: AppContext) => {
       })
       const spans = [...parts.raw, ...parts.hourly, parts.daily]
       const bind = [tankId, q.metric, bucketSeconds, BUCKET_ORIGIN, ...spans.flatMap(([a, b]) => [new Date(a), new Date(b)])]
-      const rows = await select<BucketRow>(BUCKETS_SQL, bind)
+      const rows = await select<BucketRow>(bucketsSql(q.values), bind)
       const points: SeriesBucket[] = rows.map((r) => ({
         t: r.bucket.toISOString(),
         min: r.min,

@@ -9,6 +9,7 @@ import { deleteReadingsOfSource } from '../readings'
 import type { TestKitEntry } from '../models'
 import { visibleTank } from '../access/scope'
 import { perContext } from '../platform/per-context'
+import { probeChecksFor } from './probe-checks'
 
 const sourceKey = (entryId: number) => `k:${entryId}`
 
@@ -106,7 +107,7 @@ export const testKitService = perContext((ctx: AppContext) => {
       const { entry, stored } = written
       events.emit('readings.stored', stored)
       await entry.reload({ include })
-      return present(entry)
+      return { ...present(entry), probeChecks: await probeChecksFor(ctx, tank.id, stored) }
     },
 
     async update(actor: UserActor, id: number, input: TestKitEntryInput) {
@@ -121,7 +122,7 @@ export const testKitService = perContext((ctx: AppContext) => {
       })
       events.emit('readings.stored', stored)
       await entry.reload({ include })
-      return present(entry)
+      return { ...present(entry), probeChecks: await probeChecksFor(ctx, entry.tankId, stored) }
     },
 
     async remove(actor: UserActor, id: number) {

@@ -78,3 +78,21 @@ export const lightScheduleAdvice: KindAdvice<'light_schedule'> = {
   checks: () => ['Check the light timer and the light’s own controller.', 'Check the site’s clock and time zone.'],
   electricalCaution: false,
 }
+
+export const probeKitAdvice: KindAdvice<'probe_kit'> = {
+  firstStep: () => 'First: calibrate the probe, then test the water again with the kit.',
+  checks: () => [
+    'Calibrate the probe (the device’s Calibration panel on the tank page), then test again.',
+    'Check the test kit’s expiry date and follow its instructions exactly; a second kit settles which one is off.',
+  ],
+  electricalCaution: false,
+}
+
+export const stuckAdvice: KindAdvice<'stuck'> = {
+  firstStep: () => 'First: check the probe is under water and clean, and look at the tank yourself until it moves again.',
+  checks: () => [
+    'Is the probe still under water and in a place with flow?',
+    'Clean the probe; if it still does not move, its node or the probe may have failed.',
+  ],
+  electricalCaution: false,
+}

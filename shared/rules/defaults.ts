@@ -1,4 +1,8 @@
+import type { MetricKey } from '../metrics/registry'
+import { METRICS } from '../metrics/registry'
+import { defaultProbeKitSpec } from './probe-kit'
 import type { RuleSeverity, WatchRuleSpec } from './schema'
+import { defaultStuckSpec } from './stuck'
 
 export interface TankRuleDefaultsInput {
   /** The tank's kind; today every kind gets the same starter set. */
@@ -79,5 +83,21 @@ export function defaultRulesForTank(input: TankRuleDefaultsInput): DefaultRule[]
     severity: 'warning',
     spec: { kind: 'rate', metric: 'ph', maxChange: PH_MAX_CHANGE, windowMinutes: PH_WINDOW_MINUTES },
   })
+  return rules
+}
+
+/**
+ * The rules a probe brings to its tank, per metric it reports that probes can be judged on
+ * (PROBE_TRUST): it disagrees with the test kit, and it stands still. Both are watches.
+ */
+export function defaultProbeRules(metrics: readonly MetricKey[]): DefaultRule[] {
+  const rules: DefaultRule[] = []
+  for (const metric of metrics) {
+    const kit = defaultProbeKitSpec(metric)
+    const stuck = defaultStuckSpec(metric)
+    const label = METRICS[metric].label
+    if (kit) rules.push({ name: `${label} probe disagrees with the test kit`, severity: 'warning', spec: kit })
+    if (stuck) rules.push({ name: `${label} probe may be frozen or out of the water`, severity: 'warning', spec: stuck })
+  }
   return rules
 }

@@ -33,11 +33,19 @@ export interface ReplayResult {
 }
 
 /** Stored readings in time order, then one tick at `now`; every event along the way. */
-export function replay(spec: WatchRuleSpec, readings: ReadonlyArray<{ at: number; value: number }>, now: number, ctx: RuleContext = {}): ReplayResult {
+export function replay(
+  spec: WatchRuleSpec,
+  readings: ReadonlyArray<{ at: number; value: number; source?: 'device' | 'test_kit' | 'import' }>,
+  now: number,
+  ctx: RuleContext = {},
+): ReplayResult {
   const sorted = [...readings].sort((a, b) => a.at - b.at)
   const events: RuleEvent[] = []
   let state = initialRuleState()
-  const inputs: RuleInput[] = [...sorted.map((r): RuleInput => ({ type: 'reading', at: r.at, value: r.value })), { type: 'tick', at: now }]
+  const inputs: RuleInput[] = [
+    ...sorted.map((r): RuleInput => ({ type: 'reading', at: r.at, value: r.value, ...(r.source ? { source: r.source } : {}) })),
+    { type: 'tick', at: now },
+  ]
   for (const input of inputs) {
     const result = evaluate(spec, state, input, ctx)
     state = result.state

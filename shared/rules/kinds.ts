@@ -2,11 +2,13 @@
 // called, how it reads in words, and what the rule form asks for. The engine, the rule dialog and
 // the words all read it; a kind in the schema's union without an entry here does not compile.
 import type { MetricKey } from '../metrics/registry'
-import { heaterLineAdvice, levelAdvice, lightScheduleAdvice, quietAdvice, rateAdvice, type KindAdvice } from './advice'
+import { heaterLineAdvice, levelAdvice, lightScheduleAdvice, probeKitAdvice, quietAdvice, rateAdvice, stuckAdvice, type KindAdvice } from './advice'
 import { causeOfMetric, type CauseKey } from './cause'
 import { evaluateLevelSpec } from './level'
 import { evaluateQuiet } from './quiet'
 import { evaluateRate } from './rate'
+import { evaluateProbeKit } from './probe-kit'
+import { evaluateStuck } from './stuck'
 import { watchRuleSpecSchema, type SpecOfKind, type WatchRuleKind, type WatchRuleSpec } from './schema'
 import type { EvaluationResult, RuleContext, RuleInput, RuleState } from './types'
 
@@ -21,7 +23,7 @@ export interface FormField<Key extends string = RuleFormField> {
   key: Key
   label: string
   /** `metric`: the watched metric's stored unit; otherwise shown as written. */
-  suffix: 'metric' | 'min' | 'cm' | 'lux'
+  suffix: 'metric' | 'min' | 'cm' | 'lux' | '%'
   /** What an empty form holds. */
   initial: string
   hint?: string
@@ -80,8 +82,11 @@ export interface KindEntry<K extends WatchRuleKind = WatchRuleKind> {
    * `value` is the compared quantity (see RuleEvent), finite; `heaterTopCm` the tank's heater top.
    */
   measure(spec: SpecOfKind<K>, metric: string, value: number, words: MeasureWords, heaterTopCm?: number): string
-  /** What a trip points to when several tanks of a site trip at once (shared/rules/cause.ts); `value` as for `measure`. */
-  cause(spec: SpecOfKind<K>, metric: MetricKey, value: number): CauseKey
+  /**
+   * What a trip points to when several tanks of a site trip at once (shared/rules/cause.ts); `value`
+   * as for `measure`. Undefined: the trip is the probe's own fault and says nothing about the site.
+   */
+  cause(spec: SpecOfKind<K>, metric: MetricKey, value: number): CauseKey | undefined
   /** What the alert mail tells a keeper to do first and check (shared/rules/advice.ts). */
   advice: KindAdvice<K>
 }
@@ -224,6 +229,61 @@ export const KINDS = {
     cause: (_s, metric) => causeOfMetric(metric, false),
     advice: lightScheduleAdvice,
   },
+  probe_kit: {
+    label: 'Probe disagrees with the test kit',
+    fixedMetric: null,
+    fields: [
+      { key: 'tolerance', label: 'Allowed difference', suffix: 'metric', initial: '0.2', line: 1 },
+      { key: 'tolerancePercent', label: 'Or this share of the kit value', suffix: '%', initial: '0', hint: 'Whichever is larger', line: 1 },
+      {
+        key: 'withinMinutes',
+        label: 'Probe reading within',
+        suffix: 'min',
+        initial: '15',
+        hint: 'Of the test time, or the probe’s interval if longer',
+        line: 2,
+      },
+    ],
+    step: (spec, state, input, ctx) => evaluateProbeKit(spec, state, input, ctx),
+    // A rebuild needs the probe readings near a kit value; running, the rule remembers a day of them for a kit value entered late.
+    lookbackMinutes: (spec) => spec.withinMinutes,
+    takesLateReadings: true,
+    asksMissingReading: false,
+    ticksMatter: 'never',
+    describe: (s, w) => {
+      const parts = [s.tolerance > 0 ? w.change(s.metric, s.tolerance) : '', s.tolerancePercent > 0 ? `${Number(s.tolerancePercent.toFixed(1))} %` : '']
+      return `a test-kit ${w.metric(s.metric)} differs from the probe's reading by more than ${parts.filter(Boolean).join(' or ') || 'nothing'}; calibrate the probe`
+    },
+    // A difference is no level: the words convert levels (°C to °F adds 32), so a temperature difference stays in °C.
+    measure: (_s, metric, value, w) =>
+      metric === 'temperature'
+        ? `temperature probe reads ${Number(Math.abs(value).toFixed(1))} °C ${value > 0 ? 'above' : 'below'} the test kit`
+        : `${w.metric(metric)} probe reads ${w.measured(metric, Math.abs(value))} ${value > 0 ? 'above' : 'below'} the test kit`,
+
+    // A probe's own fault says nothing about the site.
+    cause: () => undefined,
+    advice: probeKitAdvice,
+  },
+  stuck: {
+    label: 'Probe stands still',
+    fixedMetric: null,
+    fields: [
+      { key: 'flatMinutes', label: 'Unchanged for', suffix: 'min', initial: '180', line: 1 },
+      { key: 'noiseFloor', label: 'Changes smaller than', suffix: 'metric', initial: '0.05', hint: 'The probe’s own noise', line: 1 },
+    ],
+    step: (spec, state, input) => evaluateStuck(spec, state, input),
+    // The engine's look-back pad (two hours) lets a restarted engine see the probe move before the flat run.
+    lookbackMinutes: (spec) => spec.flatMinutes,
+    takesLateReadings: false,
+    asksMissingReading: false,
+    ticksMatter: 'never',
+    describe: (s, w) =>
+      `the ${w.metric(s.metric)} probe moves less than ${w.change(s.metric, s.noiseFloor)} for ${w.minutes(s.flatMinutes)}: frozen or out of the water?`,
+    measure: (_s, metric, value, w) => `${w.metric(metric)} probe unchanged for ${w.minutes(value)}: frozen or out of the water?`,
+
+    cause: () => undefined,
+    advice: stuckAdvice,
+  },
 } satisfies { [K in WatchRuleKind]: KindEntry<K> }
 
 /** Every kind the schema accepts, in its order. */
@@ -245,7 +305,7 @@ export function metricOfSpec(spec: WatchRuleSpec): MetricKey {
 }
 
 /** What a trip of the spec points to; `value` is its compared quantity (see RuleEvent). */
-export const causeOf = (spec: WatchRuleSpec, value: number): CauseKey => kindOf(spec).cause(spec, metricOfSpec(spec), value)
+export const causeOf = (spec: WatchRuleSpec, value: number): CauseKey | undefined => kindOf(spec).cause(spec, metricOfSpec(spec), value)
 
 // Checked once on load: the schema and the table cannot drift apart unnoticed.
 for (const kind of RULE_KINDS) kindEntry(kind)

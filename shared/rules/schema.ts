@@ -97,6 +97,29 @@ export const lightScheduleSpecSchema = z.object({
   onLux: z.number().positive().finite().default(50),
 })
 
+/** A test-kit value differs from the probe's at that time by more than the larger of `tolerance` and `tolerancePercent` of the kit value. */
+export const probeKitSpecSchema = z.object({
+  kind: z.literal('probe_kit'),
+  ...commonFields,
+  metric: metricSchema,
+  tolerance: z.number().min(0).finite(),
+  tolerancePercent: z.number().min(0).max(100).default(0),
+  withinMinutes: z
+    .number()
+    .positive()
+    .max(24 * 60)
+    .default(15),
+})
+
+/** A probe whose readings stay within `noiseFloor` for `flatMinutes` after it has been seen to move. */
+export const stuckSpecSchema = z.object({
+  kind: z.literal('stuck'),
+  ...commonFields,
+  metric: metricSchema,
+  flatMinutes: z.number().positive().max(MAX_MINUTES),
+  noiseFloor: z.number().min(0).finite(),
+})
+
 export const watchRuleSpecSchema = z.discriminatedUnion('kind', [
   aboveSpecSchema,
   belowSpecSchema,
@@ -105,6 +128,8 @@ export const watchRuleSpecSchema = z.discriminatedUnion('kind', [
   quietSpecSchema,
   heaterLineSpecSchema,
   lightScheduleSpecSchema,
+  probeKitSpecSchema,
+  stuckSpecSchema,
 ])
 
 /** A parsed spec: every default filled in. This is what the evaluator takes. */

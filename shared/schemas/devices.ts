@@ -7,6 +7,8 @@ export const deviceInputSchema = z.object({
   metrics: z.array(z.enum(METRIC_KEYS)).min(1, 'choose at least one metric').max(METRIC_KEYS.length),
   /** How often the device is expected to report; overdue by more than three intervals means `quiet`. */
   intervalSeconds: z.number().int().min(1).max(86400),
+  /** The device calibrates its probes itself: stored readings are left as it sends them. */
+  selfCalibrating: z.boolean().optional(),
 })
 export type DeviceInput = z.infer<typeof deviceInputSchema>
 export const deviceUpdateSchema = deviceInputSchema.omit({ tankId: true }).partial()
@@ -28,6 +30,7 @@ export interface PublicDevice {
   readingsToday: number
   quiet: boolean
   revokedAt: string | null
+  selfCalibrating: boolean
   createdAt: string
 }
 

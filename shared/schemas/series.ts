@@ -7,6 +7,8 @@ export type ReadingSource = (typeof READING_SOURCES)[number]
 
 export const SERIES_DEFAULT_HOURS = 24
 export const SERIES_MAX_DAYS = 400
+export const SERIES_VALUES = ['corrected', 'raw'] as const
+export type SeriesValues = (typeof SERIES_VALUES)[number]
 export const SERIES_POINTS = { min: 10, max: 5000, default: 500 } as const
 
 const HOUR_MS = 3_600_000
@@ -23,11 +25,13 @@ export const seriesQuerySchema = z
       .min(SERIES_POINTS.min, `at least ${SERIES_POINTS.min}`)
       .max(SERIES_POINTS.max, `at most ${SERIES_POINTS.max}`)
       .default(SERIES_POINTS.default),
+    /** `raw`: what devices sent before their calibration corrected it (rolled-up hours keep the corrected values only). */
+    values: z.enum(SERIES_VALUES).default('corrected'),
   })
-  .transform(({ metric, from, to, points }) => {
+  .transform(({ metric, from, to, points, values }) => {
     const end = to ?? new Date()
     const start = from ?? new Date(end.getTime() - SERIES_DEFAULT_HOURS * HOUR_MS)
-    return { metric, from: start, to: end, points }
+    return { metric, from: start, to: end, points, values }
   })
   .refine((q) => q.from.getTime() < q.to.getTime(), { message: 'must be before to', path: ['from'] })
   .refine((q) => q.to.getTime() - q.from.getTime() <= SERIES_MAX_DAYS * DAY_MS, {
@@ -46,7 +50,15 @@ export const seriesBucketSchema = z.object({
 })
 export type SeriesBucket = z.infer<typeof seriesBucketSchema>
 
-export const rawReadingSchema = z.object({ t: z.string(), value: z.number(), source: z.enum(READING_SOURCES) })
+export const rawReadingSchema = z.object({
+  t: z.string(),
+  value: z.number(),
+  source: z.enum(READING_SOURCES),
+  /** A calibration corrected this reading (the other view of the series shows the other value). */
+  calibrated: z.literal(true).optional(),
+  /** One reading far from both neighbours, which agree: a spike the watch rules do not act on alone. */
+  spike: z.literal(true).optional(),
+})
 export type RawReading = z.infer<typeof rawReadingSchema>
 
 export const seriesResponseSchema = z.object({

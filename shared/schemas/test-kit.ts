@@ -1,3 +1,4 @@
+import type { MetricKey } from '../metrics/registry'
 import { z } from 'zod'
 import { METRIC_KEYS } from '../metrics/registry'
 import { clientIdSchema } from './common'
@@ -37,4 +38,18 @@ export interface PublicTestKitEntry {
   editableUntil: string
   revisions: number
   createdAt: string
+  /** On the answer to a save only: each value a probe of the tank also measured, against the probe's reading then. */
+  probeChecks?: ProbeCheck[]
+}
+
+/** A test-kit value against the tank's probe at that time: they disagree by more than `limit` (the tank's rule or the usual tolerance). */
+export interface ProbeCheck {
+  metric: MetricKey
+  kit: number
+  probe: number
+  probeAt: string
+  /** probe − kit */
+  difference: number
+  limit: number
+  disagrees: boolean
 }

@@ -1,4 +1,5 @@
 import type { DeviceInput, DeviceWithToken, PublicDevice } from '@shared/schemas/devices'
+import type { CalibrationBody, PublicCalibration } from '@shared/schemas/calibrations'
 import { http } from './client'
 
 export async function listDevices(tankId: number): Promise<PublicDevice[]> {
@@ -15,4 +16,12 @@ export async function rotateDeviceToken(id: number): Promise<DeviceWithToken> {
 
 export async function revokeDevice(id: number): Promise<PublicDevice> {
   return (await http.post<PublicDevice>(`/devices/${id}/revoke`)).data
+}
+
+export async function listCalibrations(deviceId: number): Promise<PublicCalibration[]> {
+  return (await http.get<PublicCalibration[]>(`/devices/${deviceId}/calibrations`)).data
+}
+
+export async function recordCalibration(deviceId: number, body: CalibrationBody): Promise<PublicCalibration> {
+  return (await http.post<PublicCalibration>(`/devices/${deviceId}/calibrations`, body)).data
 }

@@ -1,5 +1,5 @@
 import type { MetricKey } from '@shared/metrics/registry'
-import type { LatestResponse, SeriesResponse } from '@shared/schemas/series'
+import type { LatestResponse, SeriesResponse, SeriesValues } from '@shared/schemas/series'
 import { http } from './client'
 
 export interface SeriesParams {
@@ -7,6 +7,8 @@ export interface SeriesParams {
   from: Date
   to: Date
   points?: number
+  /** `raw`: what devices sent before their calibration corrected it. */
+  values?: SeriesValues
 }
 
 export async function getSeries(tankId: number, params: SeriesParams): Promise<SeriesResponse> {
@@ -16,6 +18,7 @@ export async function getSeries(tankId: number, params: SeriesParams): Promise<S
     to: params.to.toISOString(),
   }
   if (params.points) query.points = String(params.points)
+  if (params.values && params.values !== 'corrected') query.values = params.values
   return (await http.get<SeriesResponse>(`/tanks/${tankId}/series`, { params: query })).data
 }
 

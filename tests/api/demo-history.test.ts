@@ -124,7 +124,9 @@ describe('the demo seed', () => {
               coalesce((SELECT array_agg(at ORDER BY at) FROM (
                  SELECT l.at FROM care_log l WHERE l.care_task_id = c.id AND l.kind = 'task_done'
                  UNION ALL SELECT w.finished_at FROM water_changes w WHERE c.kind = 'water_change' AND w.tank_id = c.tank_id AND w.status = 'finished') d), '{}') AS done
-       FROM care_tasks c JOIN tanks t ON t.id = c.tank_id WHERE t.name <> $1 AND c.kind <> 'equipment_service'`,
+       FROM care_tasks c JOIN tanks t ON t.id = c.tank_id WHERE t.name <> $1 AND c.kind <> 'equipment_service'
+         -- A probe's calibration task is ticked off by its calibration, not the care log.
+         AND c.device_id IS NULL`,
       [DEMO_BUILD_TANK],
     )
     const late: Array<{ tank: string; kind: string; occurrence: number; daysLate: number }> = []
@@ -142,6 +144,18 @@ describe('the demo seed', () => {
       expect(due, `${task.tank} ${task.kind} next due`).toBeGreaterThanOrEqual(day(now) - 1)
     }
     expect(late.sort((a, b) => a.tank.localeCompare(b.tank))).toEqual([...PLANNED_LATE].sort((a, b) => a.tank.localeCompare(b.tank)))
+  })
+
+  it('has each pH probe calibrated, its care task not due', async () => {
+    const rows = await select<{ slope_ok: boolean; last_done_at: Date | null }>(
+      `SELECT c.slope_ok, t.last_done_at FROM calibrations c JOIN care_tasks t ON t.device_id = c.device_id`,
+      [],
+    )
+    expect(rows.length).toBeGreaterThan(0)
+    for (const r of rows) {
+      expect(r.slope_ok).toBe(true)
+      expect(r.last_done_at).not.toBeNull()
+    }
   })
 
   it('logs each water change in the care log', async () => {

@@ -48,6 +48,23 @@ async function buildOrganization() {
     interval_seconds: 60,
     token_hash: 'secret-hash',
   })
+  await insertRow(t.ctx, 'calibrations', {
+    organization_id: o,
+    device_id: device,
+    metric: 'ph',
+    method: 'ph_buffers',
+    points: JSON.stringify([
+      { buffer: 7, temperatureC: 25, reading: 7.1 },
+      { buffer: 4.01, temperatureC: 25, reading: 4.2 },
+    ]),
+    gain: 1.031,
+    intercept: -0.32,
+    slope_percent: 97,
+    offset_mv: -5.9,
+    slope_ok: true,
+    performed_at: '2026-06-02T09:00:00Z',
+    performed_by: owner.id,
+  })
   const siteRule = await insertRow(t.ctx, 'watch_rules', {
     organization_id: o,
     site_id: site,

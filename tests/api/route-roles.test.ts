@@ -271,6 +271,11 @@ const ROUTES: RouteCase[] = [
   row('patch', '/devices/:id', ownerOnly, async (w) => ({ param: await w.freshDevice(), body: { name: 'Renamed probe' } })),
   row('post', '/devices/:id/rotate', ownerOnly, async (w) => ({ param: await w.freshDevice() })),
   row('post', '/devices/:id/revoke', ownerOnly, async (w) => ({ param: await w.freshDevice() })),
+  row('get', '/devices/:id/calibrations', readable, async (w) => ({ param: await w.freshDevice() })),
+  row('post', '/devices/:id/calibrations', signedIn(201, 201, 403, 404), async (w) => ({
+    param: await w.freshDevice(),
+    body: { metric: 'temperature', referenceC: 25.3, reading: 25 },
+  })),
   row('get', '/tanks/:id/test-kit-entries', signedIn(200, 200, 200, 404), async (w) => ({ param: await w.freshTank() })),
   row('post', '/tanks/:id/test-kit-entries', signedIn(201, 201, 403, 404), async (w) => ({ param: await w.freshTank(), body: kitBody })),
   // Entries are made by the keeper: only their author may change them, within the edit window.

@@ -24,6 +24,7 @@ const device: PublicDevice = {
   readingsToday: 1320,
   quiet: false,
   revokedAt: null,
+  selfCalibrating: false,
   createdAt: '2026-01-01T00:00:00.000Z',
 }
 

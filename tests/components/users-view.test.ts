@@ -18,6 +18,7 @@ const waiting: Invitation = {
   email: 'new@example.test',
   name: 'Robin New',
   role: 'keeper',
+  clientId: null,
   siteIds: [],
   expiresAt: '2026-03-10T00:00:00.000Z',
   createdAt: '2026-03-03T00:00:00.000Z',

@@ -77,6 +77,19 @@ export const tanksRoutes = (w: FuzzWorld): FuzzRoute[] => [
   { method: 'post', path: '/devices', token: w.owner, base: { tankId: w.tankId, name: 'Probe', metrics: ['temperature'], intervalSeconds: 60 } },
   { method: 'patch', path: `/devices/${w.deviceId}`, token: w.owner, base: { name: 'Fuzz probe', metrics: ['temperature', 'ph'], intervalSeconds: 120 } },
   {
+    method: 'post',
+    path: `/devices/${w.deviceId}/calibrations`,
+    token: w.owner,
+    base: {
+      metric: 'ph',
+      points: [
+        { buffer: 7, temperatureC: 25, reading: 7.05 },
+        { buffer: 4.01, temperatureC: 25, reading: 4.1 },
+      ],
+      notes: '',
+    },
+  },
+  {
     // Rejected readings are counted on the device by design: only `devices` may change on a 400.
     method: 'post',
     path: '/readings',

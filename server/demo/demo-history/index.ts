@@ -5,6 +5,7 @@ import type { UserActor } from '../../access/actor'
 import type { AppContext } from '../../context'
 import type { Tank } from '../../models'
 import { devicesService } from '../../devices'
+import { calibrationsService } from '../../calibration'
 import { photosService } from '../../photos'
 import { retentionService } from '../../readings'
 import { insertDeviceSeries } from '../../readings'
@@ -65,6 +66,16 @@ export async function seedDemoHistory(ctx: AppContext, now = Date.now()): Promis
   await sequelize.query('UPDATE tanks SET stage_changed_at = $1', { bind: [from] })
 
   const devices = devicesService(ctx)
+  // Invented demo figures: a healthy probe reading a little high in both buffers.
+  const DEMO_PH_CALIBRATION = (at: number) => ({
+    metric: 'ph' as const,
+    performedAt: new Date(at).toISOString(),
+    notes: '',
+    points: [
+      { buffer: 7, temperatureC: 24, reading: 7.04 },
+      { buffer: 4.01, temperatureC: 24, reading: 4.09 },
+    ],
+  })
   const histories = new Map<number, TankHistory>()
   // PostgreSQL stores one tank's month while the next one is computed here.
   const inserts: Array<Promise<number>> = []
@@ -75,6 +86,8 @@ export async function seedDemoHistory(ctx: AppContext, now = Date.now()): Promis
       metrics: [...HISTORY_METRICS],
       intervalSeconds: DEMO_NODE_INTERVAL_SECONDS,
     })
+    // Each probe was calibrated nine days ago, which also ticks off its care task.
+    await calibrationsService(ctx).record(actorFor(owner.email), device.id, DEMO_PH_CALIBRATION(now - 9 * 86400_000))
     const history = tankHistory(
       {
         name: tank.name,

@@ -1,7 +1,15 @@
 import type { EventMap, StoredReading } from '../events'
 
 /** Events every instance must hear, whichever instance they happened in. `mail.attempted` stays local. */
-export const RELAYED_EVENTS = ['readings.stored', 'incident.changed', 'rules.changed', 'device.revoked', 'wall.revoked', 'access.changed'] as const
+export const RELAYED_EVENTS = [
+  'readings.stored',
+  'incident.changed',
+  'rules.changed',
+  'device.revoked',
+  'calibration.changed',
+  'wall.revoked',
+  'access.changed',
+] as const
 export type RelayedEvent = (typeof RELAYED_EVENTS)[number]
 
 /** PostgreSQL refuses NOTIFY payloads of 8000 bytes or more; stay clear of it. */

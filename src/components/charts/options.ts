@@ -29,6 +29,7 @@ export const SERIES_NAMES = {
   envelope: 'Min–max range',
   sensor: 'Sensor',
   kit: 'Test kit',
+  spike: 'Spike (rules ignore it)',
   events: 'Care and incidents',
 } as const
 
@@ -135,6 +136,19 @@ function kitScatter(points: Array<[number, number]>, color: string): ScatterSeri
     symbolSize: 11,
     itemStyle: { color, borderColor: '#ffffff', borderWidth: 1 },
     z: 5,
+    data: points,
+  }
+}
+
+/** A probe's spikes: ringed on the line, since the watch rules do not act on them alone. */
+function spikeScatter(points: Array<[number, number]>, color: string): ScatterSeriesOption {
+  return {
+    name: SERIES_NAMES.spike,
+    type: 'scatter',
+    symbol: 'circle',
+    symbolSize: 14,
+    itemStyle: { color: 'transparent', borderColor: color, borderWidth: 2 },
+    z: 6,
     data: points,
   }
 }
@@ -254,11 +268,14 @@ export function buildMetricOption(input: MetricChartInput): MetricChartOption {
   main.markArea = bandArea(input.band, convert, colors.band)
   seriesList.push(main)
   if (kit.length) seriesList.push(kitScatter(kit, colors.kit))
+  const spikes = bucketed ? [] : series.raw.filter((r) => r.spike).map((r) => [ms(r.t), convert(r.value)] as [number, number])
+  if (spikes.length) seriesList.push(spikeScatter(spikes, colors.text))
   const marks = eventsSeries(input, fromMs, toMs, colors.text)
   if (marks) seriesList.push(marks)
 
   const legend: string[] = bucketed ? [SERIES_NAMES.mean, SERIES_NAMES.envelope] : [SERIES_NAMES.sensor]
   if (kit.length) legend.push(SERIES_NAMES.kit)
+  if (spikes.length) legend.push(SERIES_NAMES.spike)
   const band = input.band ? { min: convert(input.band.min), max: convert(input.band.max) } : null
   const format = (v: number) => `${v.toFixed(input.precision)} ${input.unitLabel}`.trim()
 

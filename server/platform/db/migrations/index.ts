@@ -22,6 +22,7 @@ import addLivestockBatches from './202612060600-add-livestock-batches'
 import createEquipment from './202612060610-create-equipment'
 import addClientIds from './202612060300-add-client-ids'
 import createPush from './202612060400-create-push'
+import addCalibrations from './202612060100-add-calibrations'
 
 /** Every migration in order. Add new files here; never edit one that has shipped. */
 export const migrations: Migration[] = [
@@ -48,4 +49,5 @@ export const migrations: Migration[] = [
   createEquipment,
   addClientIds,
   createPush,
+  addCalibrations,
 ]

@@ -1,0 +1,5 @@
+export { nernstSlopeMv, GAS_CONSTANT_R, FARADAY_CONSTANT_F } from './nernst'
+export { phCalibration, SLOPE_OK_PERCENT, type PhCalibrationPoint, type PhCalibrationResult } from './ph'
+export { temperatureOffset, conductivityFactor, applyCorrection, type Correction } from './one-point'
+export { PROBE_TRUST, probeKitDifference, bandAround, type ProbeTrust, type Band } from './probe-trust'
+export { spikeIndexes, jumped } from './spikes'
