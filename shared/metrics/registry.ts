@@ -164,7 +164,7 @@ export const METRICS: Record<MetricKey, MetricDef> = {
     unit: 'PSU',
     unitLabel: 'PSU',
     // Practical salinity has no unit; keepers write the same number as ‰ or ppt, taken as equal here.
-    units: { PSU: { label: 'PSU (practical salinity)' }, ppt: { label: 'ppt (‰, as commonly written)' } },
+    units: { PSU: { label: 'PSU' }, ppt: { label: 'ppt (‰, as commonly written)' } },
     // Fresh water to a badly mixed brine; the equations behind it are fitted up to 42.
     plausible: { min: 0, max: 42 },
     precision: 1,
@@ -176,8 +176,9 @@ export const METRICS: Record<MetricKey, MetricDef> = {
     unit: 'SG25',
     unitLabel: 'SG 25/25 °C',
     // Stored at the reference 25/25 °C; a hydrometer read at the water's temperature converts through salinity.
-    units: { SG25: { label: 'SG 25/25 °C (corrected)' }, SG_t: { label: 'SG at the water temperature', needs: 'temperatureC' } },
-    plausible: { min: 0.995, max: 1.035 },
+    units: { SG25: { label: 'SG 25/25 °C' }, SG_t: { label: 'SG read at the water temperature (hydrometer for 25 °C)', needs: 'temperatureC' } },
+    // Fresh water to the top of the density equation's fit (salinity 42).
+    plausible: { min: 1, max: 1.0316 },
     precision: 4,
     kitMetric: true,
   },
@@ -206,7 +207,7 @@ export const METRICS: Record<MetricKey, MetricDef> = {
     label: 'Phosphate',
     unit: 'mg/L',
     unitLabel: 'mg/L PO₄',
-    units: { 'mg/L': { label: 'mg/L as PO₄' }, 'mg/L PO4-P': { label: 'mg/L PO₄-P', precision: 3 } },
+    units: { 'mg/L': { label: 'mg/L PO₄' }, 'mg/L PO4-P': { label: 'mg/L PO₄-P', precision: 3 } },
     plausible: { min: 0, max: 20 },
     precision: 2,
     kitMetric: true,

@@ -94,13 +94,16 @@ function readTemperature(ctx: ConversionContext): ConversionResult {
   return ok(temperatureC)
 }
 
-/** Specific gravity read at the water's own temperature (t/t), restated at 25/25 °C through salinity. */
+/**
+ * A hydrometer calibrated at 25 °C read in water at another temperature: the water's density there
+ * over pure water's at 25 °C. Restated at 25/25 °C through the salinity it implies.
+ */
 const sgAtReadTemperature: UnitConverter = {
   toCanonical: (v, ctx) => {
     const t = readTemperature(ctx)
     if (!t.ok) return t
     try {
-      return ok(specificGravity(salinityFromSpecificGravity(v, t.value), SG_REFERENCE_C))
+      return ok(specificGravity(salinityFromSpecificGravity(v, t.value, SG_REFERENCE_C), SG_REFERENCE_C))
     } catch (err) {
       return fail(`specific gravity ${v} at ${t.value} °C: ${(err as Error).message}`)
     }
@@ -109,7 +112,7 @@ const sgAtReadTemperature: UnitConverter = {
     const t = readTemperature(ctx)
     if (!t.ok) return t
     try {
-      return ok(specificGravity(salinityFromSpecificGravity(v, SG_REFERENCE_C), t.value))
+      return ok(specificGravity(salinityFromSpecificGravity(v, SG_REFERENCE_C), t.value, SG_REFERENCE_C))
     } catch (err) {
       return fail(`specific gravity ${v} at ${t.value} °C: ${(err as Error).message}`)
     }
