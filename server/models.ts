@@ -14,6 +14,7 @@ import { DutyShift, DutyOverride } from './roster/models'
 import { WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink } from './incidents/models'
 import { SiteIncident, MaintenanceWindow } from './incidents/group-models'
 import { CareTask, CareLogEntry, LivestockEntry, WaterChange } from './care/models'
+import { TreatmentCourse } from './care/treatment-model'
 import { Photo } from './photos/model'
 import { ReportSchedule } from './reports/schedule-model'
 import { ImportJob, ImportSource } from './imports/models'
@@ -44,6 +45,7 @@ export {
   CareLogEntry,
   LivestockEntry,
   WaterChange,
+  TreatmentCourse,
   Photo,
   ReportSchedule,
   ImportJob,
@@ -80,6 +82,7 @@ const ALL_MODELS = {
   CareLogEntry,
   LivestockEntry,
   WaterChange,
+  TreatmentCourse,
   Photo,
   ReportSchedule,
   ImportJob,
@@ -103,6 +106,7 @@ export function initModels(sequelize: Sequelize) {
   Incident.belongsTo(Tank, { as: 'tank', foreignKey: 'tankId' })
   Incident.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
   ImportJob.belongsTo(ImportSource, { as: 'source', foreignKey: 'sourceId' })
+  TreatmentCourse.belongsTo(User, { as: 'author', foreignKey: 'createdBy' })
   return ALL_MODELS
 }
 export type Models = ReturnType<typeof initModels>

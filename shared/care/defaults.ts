@@ -2,7 +2,7 @@
 // keepers, not a published standard; keepers change them per tank afterwards.
 import type { CareRecurrence } from './due'
 
-export const CARE_TASK_KINDS = ['water_change', 'filter_rinse', 'media_replace', 'glass_clean', 'substrate_clean', 'test_kit_check', 'other'] as const
+export const CARE_TASK_KINDS = ['water_change', 'filter_rinse', 'media_replace', 'glass_clean', 'substrate_clean', 'test_kit_check', 'treatment_dose', 'treatment_test', 'other'] as const
 export type CareTaskKind = (typeof CARE_TASK_KINDS)[number]
 
 export type CareValues = Record<string, number | string | boolean>
@@ -55,5 +55,7 @@ export const CARE_TASK_KIND_TITLES: Record<CareTaskKind, string> = {
   glass_clean: 'Clean the glass',
   substrate_clean: 'Clean the substrate',
   test_kit_check: 'Test-kit check',
+  treatment_dose: 'Treatment dose',
+  treatment_test: 'Test during a treatment',
   other: 'Care task',
 }

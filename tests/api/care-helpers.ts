@@ -22,7 +22,7 @@ export async function startCareTestApp() {
     const care = Router()
     care.use('/tanks', requireUser, careRoutes(t.ctx))
     care.use('/sites', requireUser, siteCareRoutes(t.ctx))
-    care.use(['/care-tasks', '/water-changes', '/care'], requireUser)
+    care.use(['/care-tasks', '/water-changes', '/treatment-courses', '/care'], requireUser)
     care.use(careRouter(t.ctx))
     const wrapper = express()
     wrapper.use('/api/v1', express.json(), care)

@@ -38,6 +38,8 @@ const WORK_MINUTES: Record<CareTaskKind, number> = {
   filter_rinse: 14 * 60,
   media_replace: 15 * 60,
   substrate_clean: 15 * 60 + 30,
+  treatment_dose: 9 * 60,
+  treatment_test: 9 * 60 + 15,
   other: 16 * 60,
 }
 
