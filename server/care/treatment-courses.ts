@@ -1,6 +1,6 @@
 import { Op, type Transaction } from 'sequelize'
-import { waterVolumeLitres, type TankShape } from '@shared/chemistry/volume'
-import { COURSE_CAUTIONS, courseEndsOn, courseState, courseTaskDrafts, doseForTank } from '@shared/care/treatment'
+import type { TankShape } from '@shared/chemistry/volume'
+import { COURSE_CAUTIONS, courseEndsOn, courseState, courseTaskDrafts, doseForTank, doseWaterLitres } from '@shared/care/treatment'
 import type { PublicTreatmentCourse, RunningCourse, TreatmentCourseInput } from '@shared/schemas/treatment'
 import { formatLocalDate, localDateAt } from '@shared/time/zoned'
 import type { UserActor } from '../access/actor'
@@ -14,14 +14,8 @@ import { writeCareLog } from './care-log'
 
 type TankWithSite = Tank & { site?: { timeZone: string } }
 
-/** common practice: with no level reading, a tank is taken to be filled to 90 % of its height (as the water-change planner does). */
-const ASSUMED_FILL_FRACTION = 0.9
-
-/** The water a label dose is for: from the dimensions less the substrate, else the entered volume. */
-export function tankWaterLitres(tank: Tank): number {
-  const shape = tank.dimensions as TankShape | null
-  return shape ? waterVolumeLitres(shape, shape.heightCm * ASSUMED_FILL_FRACTION, tank.substrateDepthCm) : tank.volumeLitres
-}
+const tankWaterLitres = (tank: Tank) =>
+  doseWaterLitres({ dimensions: tank.dimensions as TankShape | null, substrateDepthCm: tank.substrateDepthCm, volumeLitres: tank.volumeLitres })
 
 const todayAt = (timeZone: string, now: Date) => formatLocalDate(localDateAt(timeZone, now.getTime()))
 
@@ -49,7 +43,8 @@ export const treatmentCoursesService = perContext((ctx: AppContext) => {
   async function present(course: TreatmentCourse, tank: TankWithSite, now: Date, taskIds?: number[]): Promise<PublicTreatmentCourse> {
     const today = todayAt(tank.site?.timeZone ?? 'UTC', now)
     const waterLitres = tankWaterLitres(tank)
-    const ids = taskIds ?? (await models.CareTask.findAll({ attributes: ['id'], where: { treatmentCourseId: course.id }, order: [['id', 'ASC']] })).map((t) => t.id)
+    const ids =
+      taskIds ?? (await models.CareTask.findAll({ attributes: ['id'], where: { treatmentCourseId: course.id }, order: [['id', 'ASC']] })).map((t) => t.id)
     const author = course.createdBy ? await models.User.findByPk(course.createdBy, { attributes: ['id', 'name'] }) : null
     return {
       id: course.id,
@@ -79,13 +74,24 @@ export const treatmentCoursesService = perContext((ctx: AppContext) => {
   }
 
   async function writeLog(actor: UserActor, tankId: number, text: string, courseId: number, transaction: Transaction) {
-    await writeCareLog(ctx, { organizationId: actor.organizationId, tankId, kind: 'dosing', at: new Date(), userId: actor.userId, text, values: { courseId } }, transaction)
+    await writeCareLog(
+      ctx,
+      { organizationId: actor.organizationId, tankId, kind: 'dosing', at: new Date(), userId: actor.userId, text, values: { courseId } },
+      transaction,
+    )
   }
 
   return {
     async list(actor: UserActor, tankId: number, now = new Date()) {
       const tank = await tankOf(actor, tankId)
-      const courses = await models.TreatmentCourse.findAll({ where: { tankId: tank.id }, order: [['startsOn', 'DESC'], ['id', 'DESC']], limit: 100 })
+      const courses = await models.TreatmentCourse.findAll({
+        where: { tankId: tank.id },
+        order: [
+          ['startsOn', 'DESC'],
+          ['id', 'DESC'],
+        ],
+        limit: 100,
+      })
       return Promise.all(courses.map((c) => present(c, tank, now)))
     },
 

@@ -1,6 +1,7 @@
 // Treatment courses: what a course's label dose comes to for a tank, which days it runs, what a
 // water change does to it, and the tasks it puts in Care today. The dose and the days are always
 // the product label's; nothing here suggests a medication or an amount of its own.
+import { waterVolumeLitres, type TankShape } from '../chemistry/volume'
 import { METRICS, type MetricKey } from '../metrics/registry'
 import { formatValue } from '../metrics/units'
 import { addDays, formatLocalDate, parseLocalDate } from '../time/zoned'
@@ -34,6 +35,15 @@ export const COURSE_CAUTIONS = [
 
 /** Activated carbon and similar media take most medications out of the water. */
 export const CARBON_NOTE = 'Activated carbon removes most medications: leave carbon out of the filter while the course runs, unless the label says otherwise'
+
+/** common practice: with no level reading, a tank is taken to be filled to 90 % of its height (as the water-change planner does). */
+export const ASSUMED_FILL_FRACTION = 0.9
+
+/** The water a label dose is for: from the inside dimensions less the substrate, else the entered volume. */
+export function doseWaterLitres(tank: { dimensions: TankShape | null; substrateDepthCm: number; volumeLitres: number }): number {
+  const shape = tank.dimensions
+  return shape ? waterVolumeLitres(shape, shape.heightCm * ASSUMED_FILL_FRACTION, tank.substrateDepthCm) : tank.volumeLitres
+}
 
 /** The label's dose scaled to the tank's water. */
 export function doseForTank(dose: LabelDose, waterLitres: number): number {
@@ -121,7 +131,10 @@ export function courseTaskDrafts(course: {
  * What a running course means for another care task: carbon in the filter takes the medication out,
  * a water change dilutes it. Null when the task does not touch the course.
  */
-export function courseNoteFor(task: { kind: string; title: string; defaultValues: Record<string, unknown> }, courses: Array<{ product: string; endsOn: string }>): string | null {
+export function courseNoteFor(
+  task: { kind: string; title: string; defaultValues: Record<string, unknown> },
+  courses: Array<{ product: string; endsOn: string }>,
+): string | null {
   const course = courses[0]
   if (!course) return null
   if (task.kind === 'media_replace' || /carbon/i.test(task.title)) return `${CARBON_NOTE} (${course.product} runs until ${course.endsOn}).`

@@ -41,6 +41,8 @@ export const CARE_TASK_KIND_LABELS: Record<CareTaskKind, string> = {
   glass_clean: 'Glass cleaning',
   substrate_clean: 'Substrate cleaning',
   test_kit_check: 'Test-kit check',
+  treatment_dose: 'Treatment dose',
+  treatment_test: 'Test during a treatment',
   other: 'Other',
 }
 export { CARE_TASK_KIND_TITLES }

@@ -46,6 +46,7 @@ export const heaterExposingPlan: WaterChangePlanResult = {
   heaterConfirmAbovePercent: 25,
   dose: null,
   temperature: null,
+  treatment: null,
   cautions: [UNPLUG_CAUTION, HEATER_OFF_CAUTION, 'Follow the product label for dechlorinator and other additives; the dose shown only scales the label rate'],
 }
 
@@ -68,6 +69,8 @@ export function careTask(id: number, overrides: Partial<PublicCareTask> = {}): P
     recurrence: { kind: 'interval', everyDays: 7 },
     defaultValues: {},
     startsOn: null,
+    endsOn: null,
+    treatmentCourseId: null,
     lastDoneAt: '2026-03-01T09:00:00.000Z',
     lastDoneBy: 7,
     snoozedUntil: null,
@@ -83,5 +86,6 @@ export function todayTask(id: number, tankName: string, due: PublicCareTask['due
     ...careTask(id, { due, title: `Task ${id}`, ...overrides }),
     tank: { id: 100 + id, name: tankName },
     site: { id: 3, name: 'Front shop', timeZone: 'Europe/Berlin' },
+    courseNote: null,
   }
 }
