@@ -1,6 +1,7 @@
 // Salt in a marine or brackish tank: evaporation leaves the salt behind and raises salinity, fresh
 // top-up water brings it back, a water change swaps water for new water mixed to the nominal level.
 import type { TankKind } from '@shared/schemas/tanks'
+import { compensateTo25C } from '@shared/chemistry/conductivity'
 import { conductivityFromSalinity, salinityFromConductivity } from '@shared/chemistry/salinity'
 
 /** Practical salinity a tank of each kind is mixed to (assumptions: natural seawater, mid-range brackish). */
@@ -33,8 +34,11 @@ export function stepSalt(state: SaltState, kind: TankKind, beforeLitres: number,
 
 export const salinityOf = (state: SaltState, litres: number) => (litres > 0 ? state.saltUnits / litres : 0)
 
-/** What the probe reports: conductivity at the water's temperature, and the practical salinity it computes from it (PSS-78). */
+/**
+ * What the probe reports: the practical salinity it computes from the conductivity it measures at
+ * the water's temperature (PSS-78), and that conductivity referred to 25 °C, as the contract states it.
+ */
 export function probeReadings(salinity: number, waterC: number, noise: number): { conductivityUsCm: number; salinity: number } {
-  const conductivityUsCm = conductivityFromSalinity(Math.min(42, salinity), waterC) * (1 + CONDUCTIVITY_NOISE_FRACTION * noise)
-  return { conductivityUsCm, salinity: salinityFromConductivity(conductivityUsCm, waterC) }
+  const measured = conductivityFromSalinity(Math.min(42, salinity), waterC) * (1 + CONDUCTIVITY_NOISE_FRACTION * noise)
+  return { conductivityUsCm: compensateTo25C(measured, waterC), salinity: salinityFromConductivity(measured, waterC) }
 }

@@ -1,13 +1,14 @@
 import { describe, expect, it } from 'vitest'
 import { METRICS, isMetricKey } from '@shared/metrics'
-import { salinityFromConductivity } from '@shared/chemistry/salinity'
+import { compensateTo25C } from '@shared/chemistry/conductivity'
+import { conductivityFromSalinity } from '@shared/chemistry/salinity'
 import { initialSaltState, salinityOf, stepSalt } from '../../../simulator/model/salinity'
 import { HOUR_S, sample, simulate } from './fixtures'
 
 const reef = { kind: 'marine' as const, dimensions: { shape: 'rectangular' as const, lengthCm: 100, widthCm: 50, heightCm: 50 }, volumeLitres: 250 }
 
 describe('salt in a simulated tank', () => {
-  it('a marine node reports conductivity and the salinity its probe computes from it (PSS-78), near 35, over a day', () => {
+  it('a marine node reports conductivity at 25 °C and the salinity its probe computes (PSS-78), near 35, over a day', () => {
     const sim = simulate(reef)
     const days = sample(sim, 24 * HOUR_S, HOUR_S, () => sim.readings(new Date(sim.snapshot().simMs).toISOString()))
     for (const readings of days) {
@@ -18,8 +19,10 @@ describe('salt in a simulated tank', () => {
         expect(r.unit).toBe(METRICS[r.metric].unit)
         expect(r.value).toBeLessThanOrEqual(METRICS[r.metric].plausible.max)
       }
-      // The reported pair agrees with PSS-78 at the reported temperature (rounding aside).
-      expect(salinityFromConductivity(byMetric.conductivity!.value, byMetric.temperature!.value)).toBeCloseTo(byMetric.salinity!.value, 1)
+      // The pair agrees: PSS-78's conductivity for that salinity at that temperature, referred to 25 °C (noise and rounding aside).
+      const t = byMetric.temperature!.value
+      const expected = compensateTo25C(conductivityFromSalinity(byMetric.salinity!.value, t), t)
+      expect(Math.abs(byMetric.conductivity!.value / expected - 1)).toBeLessThan(0.001)
       expect(Math.abs(byMetric.salinity!.value - 35)).toBeLessThan(0.6)
     }
   })
