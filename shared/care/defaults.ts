@@ -2,7 +2,17 @@
 // keepers, not a published standard; keepers change them per tank afterwards.
 import type { CareRecurrence } from './due'
 
-export const CARE_TASK_KINDS = ['water_change', 'filter_rinse', 'media_replace', 'glass_clean', 'substrate_clean', 'test_kit_check', 'treatment_dose', 'treatment_test', 'other'] as const
+export const CARE_TASK_KINDS = [
+  'water_change',
+  'filter_rinse',
+  'media_replace',
+  'glass_clean',
+  'substrate_clean',
+  'test_kit_check',
+  'treatment_dose',
+  'treatment_test',
+  'other',
+] as const
 export type CareTaskKind = (typeof CARE_TASK_KINDS)[number]
 
 export type CareValues = Record<string, number | string | boolean>

@@ -63,7 +63,15 @@ describe('treatment courses', () => {
 
     // The morning test done: due again tomorrow, so gone from today's list.
     const morning = course3.find((task) => task.title.includes('(morning)'))!
-    expect((await t.api().post(`/api/v1/care-tasks/${morning.id}/done`).set(as(org, 'keeper')).send({ values: { copper: 0.17 } })).status).toBe(200)
+    expect(
+      (
+        await t
+          .api()
+          .post(`/api/v1/care-tasks/${morning.id}/done`)
+          .set(as(org, 'keeper'))
+          .send({ values: { copper: 0.17 } })
+      ).status,
+    ).toBe(200)
     expect(tasksOf(await today(), tankId).map((task) => task.id)).not.toContain(morning.id)
 
     // A second course while this one runs is refused; stopping switches its tasks off.
@@ -78,7 +86,10 @@ describe('treatment courses', () => {
     expect(after.find((task) => task.kind === 'media_replace')?.courseNote).toBeNull()
     const log = await t.api().get(`/api/v1/tanks/${tankId}/care-log`).set(as(org, 'keeper'))
     expect(log.body.map((e: { text: string }) => e.text)).toEqual(
-      expect.arrayContaining([expect.stringMatching(/^Treatment course started: Copper sulfate/), 'Treatment course stopped: Copper sulfate treatment (label batch 7)']),
+      expect.arrayContaining([
+        expect.stringMatching(/^Treatment course started: Copper sulfate/),
+        'Treatment course stopped: Copper sulfate treatment (label batch 7)',
+      ]),
     )
   })
 
@@ -160,6 +171,13 @@ describe('test-kit entries in the marine units', () => {
     const noTemp = await post([{ metric: 'specific_gravity', value: 1.025, unit: 'SG_t' }])
     expect(badFields(noTemp)).toEqual(['values.0.unit'])
     expect(noTemp.body.error.message).toMatch(/temperature/)
-    expect(badFields(await post([{ metric: 'salinity', value: 35, unit: 'PSU' }, { metric: 'calcium', value: 2000, unit: 'mg/L' }]))).toEqual(['values.1.value'])
+    expect(
+      badFields(
+        await post([
+          { metric: 'salinity', value: 35, unit: 'PSU' },
+          { metric: 'calcium', value: 2000, unit: 'mg/L' },
+        ]),
+      ),
+    ).toEqual(['values.1.value'])
   })
 })

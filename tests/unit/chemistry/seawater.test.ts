@@ -1,12 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { conductivityFromSalinity, practicalSalinity, salinityFromConductivity, STANDARD_SEAWATER_MS_CM, T68_PER_T90 } from '@shared/chemistry/salinity'
-import {
-  pureWaterDensity,
-  salinityFromSpecificGravity,
-  seawaterDensity,
-  specificGravity,
-  specificGravityAtReference,
-} from '@shared/chemistry/seawater-density'
+import { pureWaterDensity, salinityFromSpecificGravity, seawaterDensity, specificGravity, specificGravityAtReference } from '@shared/chemistry/seawater-density'
 import { expectWithin } from './helpers'
 
 // UNESCO 44's tables are on the IPTS-68 scale; our functions take ITS-90, so the checks convert.

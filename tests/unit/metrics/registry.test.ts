@@ -67,7 +67,8 @@ describe('metric registry', () => {
 
   it('marks the test-kit metrics', () => {
     const kit = METRIC_KEYS.filter((k) => METRICS[k].kitMetric)
-    expect(kit.sort()).toEqual([
+    expect(kit.sort()).toEqual(
+      [
         'temperature',
         'ph',
         'ammonia',
@@ -83,7 +84,8 @@ describe('metric registry', () => {
         'magnesium',
         'phosphate',
         'copper',
-      ].sort(),)
+      ].sort(),
+    )
   })
 
   it('keeps plausibility bounds physically sensible', () => {
