@@ -87,8 +87,8 @@ export function apiRouter(ctx: AppContext) {
   router.use('/snoozes', requireUser, snoozesRouter(ctx))
   router.use('/maintenance-windows', requireUser, maintenanceRouter(ctx))
   router.use('/incidents', requireUser, incidentsRouter(ctx))
-  // careRouter carries its full paths (/care-tasks, /water-changes, /care), so it is mounted without a prefix.
-  router.use(['/care-tasks', '/water-changes', '/care'], requireUser)
+  // careRouter carries its full paths (/care-tasks, /water-changes, /treatment-courses, /care), so it is mounted without a prefix.
+  router.use(['/care-tasks', '/water-changes', '/treatment-courses', '/care'], requireUser)
   router.use(careRouter(ctx))
   router.use('/ack-links', ackLinksRouter(ctx))
   router.use('/livestock', requireUser, livestockRouter(ctx))

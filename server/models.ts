@@ -14,6 +14,7 @@ import { DutyShift, DutyOverride } from './roster/models'
 import { WatchRule, Incident, IncidentEvent, Snooze, IncidentAckLink } from './incidents/models'
 import { SiteIncident, MaintenanceWindow } from './incidents/group-models'
 import { CareTask, CareLogEntry, LivestockEntry, WaterChange } from './care/models'
+import { TreatmentCourse } from './care/treatment-model'
 import { Photo } from './photos/model'
 import { ReportSchedule } from './reports/schedule-model'
 import { ImportJob, ImportSource } from './imports/models'
@@ -50,6 +51,7 @@ export {
   CareLogEntry,
   LivestockEntry,
   WaterChange,
+  TreatmentCourse,
   Photo,
   ReportSchedule,
   ImportJob,
@@ -94,6 +96,7 @@ const ALL_MODELS = {
   CareLogEntry,
   LivestockEntry,
   WaterChange,
+  TreatmentCourse,
   Photo,
   ReportSchedule,
   ImportJob,
@@ -130,6 +133,7 @@ export function initModels(sequelize: Sequelize) {
   Visit.belongsTo(Site, { as: 'site', foreignKey: 'siteId' })
   Visit.belongsTo(User, { as: 'technician', foreignKey: 'technicianId' })
   Calibration.belongsTo(User, { as: 'performer', foreignKey: 'performedBy' })
+  TreatmentCourse.belongsTo(User, { as: 'author', foreignKey: 'createdBy' })
   return ALL_MODELS
 }
 export type Models = ReturnType<typeof initModels>

@@ -4,10 +4,14 @@ import type { Page } from '@shared/schemas/common'
 import type { PublicSite } from '@shared/schemas/sites'
 import type { PublicTank } from '@shared/schemas/tanks'
 import { ApiError, withRetry, type ApiClient } from './api-client'
+import { hasSaltProbe } from './model/salinity'
 import type { SimTankSpec } from './model/spec'
 
 export const SIMULATED_NODE_NAME = 'Simulated node'
 export const SIMULATED_METRICS: MetricKey[] = ['temperature', 'ph', 'light', 'water_level']
+/** A marine or brackish tank's node also has a conductivity probe that reports salinity. */
+export const SALT_PROBE_METRICS: MetricKey[] = ['conductivity', 'salinity']
+const metricsFor = (kind: PublicTank['kind']): MetricKey[] => (hasSaltProbe(kind) ? [...SIMULATED_METRICS, ...SALT_PROBE_METRICS] : SIMULATED_METRICS)
 
 /** The fields of the API's PublicDevice the simulator reads. */
 interface DeviceSummary {
@@ -62,7 +66,7 @@ async function deviceFor(api: ApiClient, token: string, tank: PublicTank, interv
   }
   return api.request<DeviceWithToken>('POST', '/api/v1/devices', {
     token,
-    body: { tankId: tank.id, name: SIMULATED_NODE_NAME, metrics: SIMULATED_METRICS, intervalSeconds },
+    body: { tankId: tank.id, name: SIMULATED_NODE_NAME, metrics: metricsFor(tank.kind), intervalSeconds },
   })
 }
 

@@ -5,6 +5,8 @@ import type { CareTaskDone, CareTaskInput, CareTasksDone, CareTaskUpdate } from 
 import type { PublicCareTask } from '@shared/schemas/care-api'
 import type { UserActor } from '../access/actor'
 import { tanksToWatch } from './tanks-to-watch'
+import { runningCourses } from './treatment-courses'
+import { courseNoteFor } from '@shared/care/treatment'
 import type { AppContext } from '../context'
 import { badRequest, conflict, notFound } from '../platform/errors'
 import type { CareLogEntry, CareTask, Tank } from '../models'
@@ -33,6 +35,8 @@ function presentTask(task: CareTask, timeZone: string, now: Date): PublicCareTas
     recurrence: task.recurrence,
     defaultValues: task.defaultValues,
     startsOn: task.startsOn ?? null,
+    endsOn: task.endsOn ?? null,
+    treatmentCourseId: task.treatmentCourseId ?? null,
     lastDoneAt: task.lastDoneAt?.toISOString() ?? null,
     lastDoneBy: task.lastDoneBy ?? null,
     snoozedUntil: task.snoozedUntil && task.snoozedUntil > now ? task.snoozedUntil.toISOString() : null,
@@ -117,10 +121,12 @@ export async function dueItems(ctx: AppContext, where: { siteIds?: number[]; tan
   if (!tanks.length) return []
   const byId = new Map(tanks.map((t) => [t.id, t]))
   const tasks = await ctx.models.CareTask.findAll({ where: { tankId: tanks.map((t) => t.id), active: true }, order: [['id', 'ASC']] })
-  return tasks.map((task) => {
-    const tank = byId.get(task.tankId) as TankWithSite
-    return { task, tank, due: careDue(task, zoneOf(tank), now) as CareDue }
-  })
+  return tasks
+    .map((task) => {
+      const tank = byId.get(task.tankId) as TankWithSite
+      return { task, tank, due: careDue(task, zoneOf(tank), now) as CareDue }
+    })
+    .filter(({ task, due }) => !task.endsOn || (due.today <= task.endsOn && due.dueOn <= task.endsOn))
 }
 
 export const careTasksService = perContext((ctx: AppContext) => {
@@ -137,10 +143,13 @@ export const careTasksService = perContext((ctx: AppContext) => {
   async function todayAt(siteIds: number[], now: Date) {
     const items = (await dueItems(ctx, { siteIds }, now)).filter((i) => !i.due.snoozed && (i.due.status === 'overdue' || i.due.status === 'due_today'))
     items.sort((a, b) => byUrgency(a.due, b.due) || a.tank.name.localeCompare(b.tank.name) || a.task.id - b.task.id)
+    const tanks = [...new Map(items.map(({ tank }) => [tank.id, { id: tank.id, timeZone: zoneOf(tank) }])).values()]
+    const courses = await runningCourses(ctx, tanks, now)
     return items.map(({ task, tank }) => ({
       ...presentTask(task, zoneOf(tank), now),
       tank: { id: tank.id, name: tank.name },
       site: { id: tank.siteId, name: tank.site?.name ?? '', timeZone: zoneOf(tank) },
+      courseNote: task.treatmentCourseId ? null : courseNoteFor(task, courses.get(tank.id) ?? []),
     }))
   }
 

@@ -21,6 +21,9 @@ export class CareTask extends Model<InferAttributes<CareTask>, InferCreationAttr
   declare recurrence: CareRecurrence
   declare defaultValues: CreationOptional<CareValues>
   declare startsOn: CreationOptional<string | null>
+  /** The last day the task is due (a treatment course's last day); null for a standing task. */
+  declare endsOn: CreationOptional<string | null>
+  declare treatmentCourseId: CreationOptional<number | null>
   declare lastDoneAt: CreationOptional<Date | null>
   declare lastDoneBy: CreationOptional<number | null>
   declare snoozedUntil: CreationOptional<Date | null>
@@ -46,6 +49,8 @@ export class CareTask extends Model<InferAttributes<CareTask>, InferCreationAttr
         recurrence: { type: DataTypes.JSONB, allowNull: false },
         defaultValues: values(),
         startsOn: { type: DataTypes.DATEONLY, allowNull: true },
+        endsOn: { type: DataTypes.DATEONLY, allowNull: true },
+        treatmentCourseId: optionalInt(),
         lastDoneAt: optionalDate(),
         lastDoneBy: optionalInt(),
         snoozedUntil: optionalDate(),

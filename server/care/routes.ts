@@ -18,6 +18,7 @@ import {
   waterChangeStartSchema,
 } from '@shared/schemas/care'
 import { SPECIES } from '@shared/care/species'
+import { treatmentCourseInputSchema } from '@shared/schemas/treatment'
 import { actorOf, allow } from '../access/middleware'
 import type { AppContext } from '../context'
 import { parse, parseChanges } from '../platform/http/validate'
@@ -25,17 +26,19 @@ import { careLogService } from './care-log'
 import { livestockService } from './livestock'
 import { careTasksService } from './care-tasks'
 import { waterChangesService } from './water-changes'
+import { treatmentCoursesService } from './treatment-courses'
 
 const id = (req: Request) => parse(idParamsSchema, req, 'params').id
 const entryParams = z.object({ id: idSchema, entryId: idSchema })
 
-/** Mounted under /tanks: a tank's care tasks, care log, water changes, livestock and cycling. */
+/** Mounted under /tanks: a tank's care tasks, care log, water changes, livestock, cycling and treatment courses. */
 export function careRoutes(ctx: AppContext) {
   const router = Router()
   const tasks = careTasksService(ctx)
   const log = careLogService(ctx)
   const changes = waterChangesService(ctx)
   const livestock = livestockService(ctx)
+  const courses = treatmentCoursesService(ctx)
 
   router.get('/:id/care-tasks', allow('org.read'), async (req, res) => {
     res.json(await tasks.listForTank(actorOf(req), id(req)))
@@ -72,10 +75,16 @@ export function careRoutes(ctx: AppContext) {
   router.get('/:id/cycling', allow('org.read'), async (req, res) => {
     res.json(await livestock.cycling(actorOf(req), id(req)))
   })
+  router.get('/:id/treatment-courses', allow('org.read'), async (req, res) => {
+    res.json(await courses.list(actorOf(req), id(req)))
+  })
+  router.post('/:id/treatment-courses', allow('care.write'), async (req, res) => {
+    res.status(201).json(await courses.start(actorOf(req), id(req), parse(treatmentCourseInputSchema, req, 'body')))
+  })
   return router
 }
 
-/** Mounted at the API root: /care-tasks/done, /care-tasks/:id…, /water-changes/:id/finish|cancel, /care/today, /care/species. */
+/** Mounted at the API root: /care-tasks/done, /care-tasks/:id…, /water-changes/:id/finish|cancel, /treatment-courses/:id/stop, /care/today, /care/species. */
 export function careRouter(ctx: AppContext) {
   const router = Router()
   const tasks = careTasksService(ctx)
@@ -98,6 +107,9 @@ export function careRouter(ctx: AppContext) {
   })
   router.post('/water-changes/:id/cancel', allow('care.write'), async (req, res) => {
     res.json(await changes.cancel(actorOf(req), id(req), parse(waterChangeCancelSchema, req, 'body')))
+  })
+  router.post('/treatment-courses/:id/stop', allow('care.write'), async (req, res) => {
+    res.json(await treatmentCoursesService(ctx).stop(actorOf(req), id(req)))
   })
   router.get('/care/today', allow('org.read'), async (req, res) => {
     res.json(await tasks.today(actorOf(req), parse(careTodayQuerySchema, req, 'query')))

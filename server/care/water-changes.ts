@@ -8,6 +8,8 @@ import type { Tank, WaterChange } from '../models'
 import { presentCareLog, writeCareLog } from './care-log'
 import { latestReading, tankTemperature } from './care-readings'
 import { markTasksOfKindDone } from './care-tasks'
+import { runningCourses } from './treatment-courses'
+import { doseForTank, fractionLeftAfterWaterChange } from '@shared/care/treatment'
 import { visibleTank } from '../access/scope'
 import { perContext } from '../platform/per-context'
 
@@ -95,6 +97,7 @@ export const waterChangesService = perContext((ctx: AppContext) => {
         }
       : null
     const requiresHeaterOffConfirmation = plan.heaterExposed || plan.percent > HEATER_CONFIRM_PERCENT
+    const treatment = await treatmentFor(tank, waterLitres, plan.litresOut)
     return {
       tankId: tank.id,
       waterLitres,
@@ -105,7 +108,29 @@ export const waterChangesService = perContext((ctx: AppContext) => {
       heaterConfirmAbovePercent: HEATER_CONFIRM_PERCENT,
       dose,
       temperature,
+      treatment,
       cautions: [...new Set([...plan.cautions, ...SAFETY_CAUTIONS])],
+    }
+  }
+
+  /** A course running on the tank: a change takes its share of the medication out with the water. */
+  async function treatmentFor(tank: Tank, waterLitres: number, litresOut: number) {
+    const site = await models.Site.findByPk(tank.siteId, { attributes: ['timeZone'] })
+    const [running] = (await runningCourses(ctx, [{ id: tank.id, timeZone: site?.timeZone ?? 'UTC' }])).get(tank.id) ?? []
+    if (!running) return null
+    const course = await models.TreatmentCourse.findByPk(running.id)
+    if (!course) return null
+    const percentLeft = 100 * fractionLeftAfterWaterChange(waterLitres, litresOut)
+    const doseForNewWater = { amount: doseForTank(course.dose, litresOut), unit: course.dose.unit, litres: litresOut }
+    return {
+      courseId: course.id,
+      product: course.product,
+      endsOn: course.endsOn,
+      percentLeft,
+      doseForNewWater,
+      note:
+        `${course.product} is running until ${course.endsOn}: this change leaves ${percentLeft.toFixed(0)} % of it in the water. ` +
+        `The label rate for the ${litresOut.toFixed(1)} L of new water is ${doseForNewWater.amount.toFixed(2)} ${course.dose.unit}; follow the label on whether to dose it.`,
     }
   }
 

@@ -2,6 +2,7 @@ import bcrypt from 'bcryptjs'
 import type { AppContext } from '../context'
 import { tanksService } from '../tanks'
 import { seedDemoBuild } from './demo-build'
+import { seedDemoCourse } from './demo-course'
 import { seedDemoHistory } from './demo-history'
 import { seedDemoStock } from './demo-stock'
 import { DEMO_ORGANIZATION, DEMO_PASSWORD, DEMO_ROSTER, DEMO_SITES, DEMO_TANKS, DEMO_USERS } from './demo-scenario'
@@ -62,6 +63,8 @@ export async function seedDemoIfEmpty(ctx: AppContext): Promise<boolean> {
   const fishRoom = DEMO_SITES.find((s) => s.key === 'fishroom')!
   await seedDemoBuild(ctx, { actor, siteId: siteIds.get(fishRoom.name)! })
   await seedDemoVisits(ctx, clientIds)
+  // The quarantine tank on day 4 of a treatment course, its doses and tests in Care today.
+  await seedDemoCourse(ctx, { actor })
   return true
 }
 

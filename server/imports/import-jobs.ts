@@ -12,7 +12,6 @@ import { canSeeSite, visibleTank } from '../access/scope'
 import { perContext } from '../platform/per-context'
 
 /** Units that need the tank's context (full-scale lux, water temperature) cannot come from a file column. */
-const CONTEXT_UNITS = new Set(['light:pct', 'oxygen:pct_sat'])
 
 export type UploadedFile = { key: string; originalName: string; size: number }
 
@@ -126,7 +125,7 @@ export const importJobsService = perContext((ctx: AppContext) => {
       mapping.metrics.forEach((m, i) => {
         known(`mapping.metrics.${i}.column`, m.column)
         if (!(m.unit in METRICS[m.metric].units)) fields[`mapping.metrics.${i}.unit`] = `${m.metric} has no unit "${m.unit}"`
-        else if (CONTEXT_UNITS.has(`${m.metric}:${m.unit}`))
+        else if (METRICS[m.metric].units[m.unit]?.needs)
           fields[`mapping.metrics.${i}.unit`] = `${m.unit} needs the tank's context; import ${METRICS[m.metric].unit} instead`
       })
       if (!job.tankId) {

@@ -107,6 +107,12 @@ const METRIC_WORDS: Record<MetricKey, string[]> = {
   gh: ['gh', 'general hardness'],
   conductivity: ['conductivity', 'ec', 'us/cm'],
   oxygen: ['oxygen', 'do', 'o2', 'dissolved oxygen'],
+  salinity: ['salinity', 'psu', 'sal'],
+  specific_gravity: ['specific gravity', 'sg'],
+  calcium: ['calcium', 'ca'],
+  magnesium: ['magnesium'],
+  phosphate: ['phosphate', 'po4'],
+  copper: ['copper', 'cu'],
 }
 
 /** A metric and unit guessed from a header such as "Water temp (°F)" or "temp_f". */
@@ -119,6 +125,8 @@ export function guessMetric(header: string): { metric: MetricKey; unit: string }
     const def = METRICS[metric]
     let unit = def.unit
     if (metric === 'temperature' && /\bdeg f\b|\bf\b|fahrenheit/.test(text)) unit = 'F'
+    // An ammonium kit's column is total ammonia written as NH4+, never NH3.
+    else if (metric === 'ammonia' && (words.includes('nh4') || words.includes('ammonium'))) unit = 'mg/L NH4'
     else {
       for (const code of Object.keys(def.units)) {
         if (code !== def.unit && words.includes(normalise(code))) unit = code

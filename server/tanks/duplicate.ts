@@ -21,11 +21,11 @@ export async function duplicateTank(ctx: AppContext, actor: UserActor, id: numbe
   )
   const rules = await models.WatchRule.findAll({ where: { tankId: source.id }, order: [['id', 'ASC']] })
   const allTasks = await models.CareTask.findAll({ where: { tankId: source.id }, order: [['id', 'ASC']] })
-  // A build's steps belong to that build, and an equipment service to that piece of equipment
-  // (which stays with this tank): the copy gets the tank's routine only.
+  // A build's steps belong to that build, a treatment course's tasks to that course, and an equipment
+  // service to that piece of equipment (which stays with this tank): the copy gets the tank's routine only.
   const buildSteps = await models.BuildStep.findAll({ where: { careTaskId: allTasks.map((t) => t.id) }, attributes: ['careTaskId'] })
   const stepTaskIds = new Set(buildSteps.map((s) => s.careTaskId))
-  const tasks = allTasks.filter((t) => !stepTaskIds.has(t.id) && t.kind !== 'equipment_service')
+  const tasks = allTasks.filter((t) => !stepTaskIds.has(t.id) && t.kind !== 'equipment_service' && t.treatmentCourseId == null)
 
   const created = await sequelize.transaction(async (transaction) => {
     const tanks = []

@@ -1,5 +1,6 @@
 import { Op, UniqueConstraintError } from 'sequelize'
-import { TEST_KIT_EDIT_WINDOW_HOURS, type PublicTestKitEntry, type TestKitEntryInput } from '@shared/schemas/test-kit'
+import { METRICS, toCanonical } from '@shared/metrics/index'
+import { TEST_KIT_EDIT_WINDOW_HOURS, type KitValue, type PublicTestKitEntry, type TestKitEntryInput } from '@shared/schemas/test-kit'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { badRequest, conflict, forbidden, notFound } from '../platform/errors'
@@ -13,6 +14,21 @@ import { probeChecksFor } from './probe-checks'
 
 const sourceKey = (entryId: number) => `k:${entryId}`
 
+/**
+ * A kit value in a unit that needs the water temperature (a hydrometer's specific gravity at the
+ * temperature it was read, oxygen in % saturation) is restated in the canonical unit with the
+ * entry's own temperature; the device path has no such context and refuses those units.
+ */
+function withEntryContext(value: KitValue, values: KitValue[]): { ok: true; value: KitValue } | { ok: false; reason: string } {
+  const def = METRICS[value.metric]
+  if (def.units[value.unit]?.needs !== 'temperatureC') return { ok: true, value }
+  const temperature = values.find((v) => v.metric === 'temperature')
+  const temperatureC = temperature ? toCanonical('temperature', temperature.value, temperature.unit) : null
+  if (!temperatureC?.ok) return { ok: false, reason: `${def.label} in ${def.units[value.unit]?.label} needs the water temperature in the same entry` }
+  const converted = toCanonical(value.metric, value.value, value.unit, { temperatureC: temperatureC.value })
+  return converted.ok ? { ok: true, value: { metric: value.metric, value: converted.value, unit: def.unit } } : converted
+}
+
 /** Keepers' test-kit entries: readings with source `test_kit`, written with the entry in one transaction. */
 export const testKitService = perContext((ctx: AppContext) => {
   const { models, sequelize, events, config } = ctx
@@ -25,7 +41,12 @@ export const testKitService = perContext((ctx: AppContext) => {
     const fields: Record<string, string> = {}
     const rows: ReadingRow[] = []
     input.values.forEach((v, i) => {
-      const checked = checkReading({ ...v, time: takenAt.toISOString() }, config.readingLimits)
+      const stated = withEntryContext(v, input.values)
+      if (!stated.ok) {
+        fields[`values.${i}.unit`] = stated.reason
+        return
+      }
+      const checked = checkReading({ ...stated.value, time: takenAt.toISOString() }, config.readingLimits)
       if (!checked.ok) fields[`values.${i}.value`] = checked.reason
       else rows.push({ sourceKey: sourceKey(entryId), metric: checked.metric, time: checked.time, tankId, value: checked.value, source: 'test_kit' })
     })

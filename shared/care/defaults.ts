@@ -10,6 +10,8 @@ export const CARE_TASK_KINDS = [
   'substrate_clean',
   'test_kit_check',
   'equipment_service',
+  'treatment_dose',
+  'treatment_test',
   'other',
 ] as const
 export type CareTaskKind = (typeof CARE_TASK_KINDS)[number]
@@ -65,5 +67,7 @@ export const CARE_TASK_KIND_TITLES: Record<CareTaskKind, string> = {
   substrate_clean: 'Clean the substrate',
   test_kit_check: 'Test-kit check',
   equipment_service: 'Equipment service',
+  treatment_dose: 'Treatment dose',
+  treatment_test: 'Test during a treatment',
   other: 'Care task',
 }

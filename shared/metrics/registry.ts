@@ -1,4 +1,22 @@
-export const METRIC_KEYS = ['temperature', 'ph', 'light', 'water_level', 'ammonia', 'nitrite', 'nitrate', 'kh', 'gh', 'conductivity', 'oxygen'] as const
+export const METRIC_KEYS = [
+  'temperature',
+  'ph',
+  'light',
+  'water_level',
+  'ammonia',
+  'nitrite',
+  'nitrate',
+  'kh',
+  'gh',
+  'conductivity',
+  'oxygen',
+  'salinity',
+  'specific_gravity',
+  'calcium',
+  'magnesium',
+  'phosphate',
+  'copper',
+] as const
 
 export type MetricKey = (typeof METRIC_KEYS)[number]
 
@@ -6,6 +24,8 @@ export interface UnitDef {
   label: string
   /** Decimal places when shown in this unit; falls back to the metric's precision. */
   precision?: number
+  /** What converting this unit needs beside the value; a CSV column has neither, so imports leave these units out. */
+  needs?: 'temperatureC' | 'fullScaleLux'
 }
 
 export interface MetricDef {
@@ -57,7 +77,7 @@ export const METRICS: Record<MetricKey, MetricDef> = {
     label: 'Light',
     unit: 'lux',
     unitLabel: 'lux',
-    units: { lux: { label: 'lux' }, pct: { label: '% of full scale' } },
+    units: { lux: { label: 'lux' }, pct: { label: '% of full scale', needs: 'fullScaleLux' } },
     // Direct tropical sunlight is around 100 000 lux; sensors saturate not far above.
     plausible: { min: 0, max: 200_000 },
     precision: 0,
@@ -78,7 +98,8 @@ export const METRICS: Record<MetricKey, MetricDef> = {
     label: 'Ammonia',
     unit: 'mg/L',
     unitLabel: 'mg/L',
-    units: { 'mg/L': { label: 'mg/L' }, 'mg/L NH3-N': { label: 'mg/L NH₃-N' } },
+    // Total ammonia (NH3 + NH4+) counted as NH3; an ammonium kit's figure converts by molar mass.
+    units: { 'mg/L': { label: 'mg/L' }, 'mg/L NH3-N': { label: 'mg/L NH₃-N' }, 'mg/L NH4': { label: 'mg/L NH₄⁺ (ammonium kit)' } },
     plausible: { min: 0, max: 50 },
     precision: 2,
     kitMetric: true,
@@ -108,7 +129,8 @@ export const METRICS: Record<MetricKey, MetricDef> = {
     label: 'KH',
     unit: 'dKH',
     unitLabel: '°dKH',
-    units: hardnessUnits('dKH', '°dKH'),
+    // Alkalinity: reef kits give it in °dKH or meq/L.
+    units: { ...hardnessUnits('dKH', '°dKH'), 'meq/L': { label: 'meq/L (alkalinity)', precision: 2 } },
     plausible: { min: 0, max: 50 },
     precision: 1,
     kitMetric: true,
@@ -139,10 +161,74 @@ export const METRICS: Record<MetricKey, MetricDef> = {
     label: 'Dissolved oxygen',
     unit: 'mg/L',
     unitLabel: 'mg/L',
-    units: { 'mg/L': { label: 'mg/L' }, pct_sat: { label: '% saturation', precision: 0 } },
+    units: { 'mg/L': { label: 'mg/L' }, pct_sat: { label: '% saturation', precision: 0, needs: 'temperatureC' } },
     // Pure-oxygen injection can supersaturate water several times over air saturation.
     plausible: { min: 0, max: 50 },
     precision: 1,
+    kitMetric: true,
+  },
+  salinity: {
+    key: 'salinity',
+    label: 'Salinity',
+    unit: 'PSU',
+    unitLabel: 'PSU',
+    // Practical salinity has no unit; keepers write the same number as ‰ or ppt, taken as equal here.
+    units: { PSU: { label: 'PSU' }, ppt: { label: 'ppt (‰, as commonly written)' } },
+    // Fresh water to a badly mixed brine; the equations behind it are fitted up to 42.
+    plausible: { min: 0, max: 42 },
+    precision: 1,
+    kitMetric: true,
+  },
+  specific_gravity: {
+    key: 'specific_gravity',
+    label: 'Specific gravity',
+    unit: 'SG25',
+    unitLabel: 'SG 25/25 °C',
+    // Stored at the reference 25/25 °C; a hydrometer read at the water's temperature converts through salinity.
+    units: { SG25: { label: 'SG 25/25 °C' }, SG_t: { label: 'SG read at the water temperature (hydrometer for 25 °C)', needs: 'temperatureC' } },
+    // Fresh water to the top of the density equation's fit (salinity 42).
+    plausible: { min: 1, max: 1.0316 },
+    precision: 4,
+    kitMetric: true,
+  },
+  calcium: {
+    key: 'calcium',
+    label: 'Calcium',
+    unit: 'mg/L',
+    unitLabel: 'mg/L',
+    units: { 'mg/L': { label: 'mg/L' }, 'mmol/L': { label: 'mmol/L', precision: 2 } },
+    plausible: { min: 0, max: 1000 },
+    precision: 0,
+    kitMetric: true,
+  },
+  magnesium: {
+    key: 'magnesium',
+    label: 'Magnesium',
+    unit: 'mg/L',
+    unitLabel: 'mg/L',
+    units: { 'mg/L': { label: 'mg/L' }, 'mmol/L': { label: 'mmol/L', precision: 1 } },
+    plausible: { min: 0, max: 3000 },
+    precision: 0,
+    kitMetric: true,
+  },
+  phosphate: {
+    key: 'phosphate',
+    label: 'Phosphate',
+    unit: 'mg/L',
+    unitLabel: 'mg/L PO₄',
+    units: { 'mg/L': { label: 'mg/L PO₄' }, 'mg/L PO4-P': { label: 'mg/L PO₄-P', precision: 3 } },
+    plausible: { min: 0, max: 20 },
+    precision: 2,
+    kitMetric: true,
+  },
+  copper: {
+    key: 'copper',
+    label: 'Copper',
+    unit: 'mg/L',
+    unitLabel: 'mg/L',
+    units: { 'mg/L': { label: 'mg/L' } },
+    plausible: { min: 0, max: 5 },
+    precision: 2,
     kitMetric: true,
   },
 }

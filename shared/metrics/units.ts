@@ -1,13 +1,18 @@
 import { oxygenSolubilityMgL } from '../chemistry/oxygen'
+import { SG_REFERENCE_C, specificGravity, salinityFromSpecificGravity } from '../chemistry/seawater-density'
 import {
   CACO3_MG_PER_L_PER_GERMAN_DEGREE,
   CM_PER_INCH,
   FAHRENHEIT_OFFSET,
   FAHRENHEIT_PER_KELVIN,
+  MEQ_PER_L_PER_GERMAN_DEGREE,
   MMOL_PER_L_PER_GERMAN_DEGREE,
+  MOLAR_MASS,
   NH3_PER_NH3_N,
+  NH3_PER_NH4,
   NO2_PER_NO2_N,
   NO3_PER_NO3_N,
+  PO4_PER_PO4_P,
 } from './constants'
 import { displayPrecision, METRICS, type MetricKey } from './registry'
 
@@ -81,6 +86,39 @@ function airSaturatedOxygenMgL(ctx: ConversionContext): ConversionResult {
   }
 }
 
+function readTemperature(ctx: ConversionContext): ConversionResult {
+  const { temperatureC } = ctx
+  if (typeof temperatureC !== 'number' || !Number.isFinite(temperatureC)) {
+    return fail("specific gravity in 'SG_t' needs the water temperature in °C it was read at (temperatureC)")
+  }
+  return ok(temperatureC)
+}
+
+/**
+ * A hydrometer calibrated at 25 °C read in water at another temperature: the water's density there
+ * over pure water's at 25 °C. Restated at 25/25 °C through the salinity it implies.
+ */
+const sgAtReadTemperature: UnitConverter = {
+  toCanonical: (v, ctx) => {
+    const t = readTemperature(ctx)
+    if (!t.ok) return t
+    try {
+      return ok(specificGravity(salinityFromSpecificGravity(v, t.value, SG_REFERENCE_C), SG_REFERENCE_C))
+    } catch (err) {
+      return fail(`specific gravity ${v} at ${t.value} °C: ${(err as Error).message}`)
+    }
+  },
+  fromCanonical: (v, ctx) => {
+    const t = readTemperature(ctx)
+    if (!t.ok) return t
+    try {
+      return ok(specificGravity(salinityFromSpecificGravity(v, SG_REFERENCE_C), t.value, SG_REFERENCE_C))
+    } catch (err) {
+      return fail(`specific gravity ${v} at ${t.value} °C: ${(err as Error).message}`)
+    }
+  },
+}
+
 const hardness: Record<string, UnitConverter> = {
   'mg/L CaCO3': scaled(1 / CACO3_MG_PER_L_PER_GERMAN_DEGREE),
   'mmol/L': scaled(1 / MMOL_PER_L_PER_GERMAN_DEGREE),
@@ -97,13 +135,20 @@ const CONVERTERS: { [K in MetricKey]: Record<string, UnitConverter> } = {
   ph: { pH: canonical },
   light: { lux: canonical, pct: percentOf(fullScaleLux) },
   water_level: { cm: canonical, mm: scaled(0.1), in: scaled(CM_PER_INCH) },
-  ammonia: { 'mg/L': canonical, 'mg/L NH3-N': scaled(NH3_PER_NH3_N) },
+  ammonia: { 'mg/L': canonical, 'mg/L NH3-N': scaled(NH3_PER_NH3_N), 'mg/L NH4': scaled(NH3_PER_NH4) },
   nitrite: { 'mg/L': canonical, 'mg/L NO2-N': scaled(NO2_PER_NO2_N) },
   nitrate: { 'mg/L': canonical, 'mg/L NO3-N': scaled(NO3_PER_NO3_N) },
-  kh: { dKH: canonical, ...hardness },
+  kh: { dKH: canonical, ...hardness, 'meq/L': scaled(1 / MEQ_PER_L_PER_GERMAN_DEGREE) },
   gh: { dGH: canonical, ...hardness },
   conductivity: { 'uS/cm': canonical, 'mS/cm': scaled(1000) },
   oxygen: { 'mg/L': canonical, pct_sat: percentOf(airSaturatedOxygenMgL) },
+  // Practical salinity is unitless; "ppt" is how most keepers write the same number.
+  salinity: { PSU: canonical, ppt: canonical },
+  specific_gravity: { SG25: canonical, SG_t: sgAtReadTemperature },
+  calcium: { 'mg/L': canonical, 'mmol/L': scaled(MOLAR_MASS.Ca) },
+  magnesium: { 'mg/L': canonical, 'mmol/L': scaled(MOLAR_MASS.Mg) },
+  phosphate: { 'mg/L': canonical, 'mg/L PO4-P': scaled(PO4_PER_PO4_P) },
+  copper: { 'mg/L': canonical },
 }
 
 /** Unit codes this module can convert for a metric (kept equal to the registry's list by tests). */

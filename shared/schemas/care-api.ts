@@ -45,6 +45,9 @@ export interface PublicCareTask {
   recurrence: CareRecurrence
   defaultValues: CareValues
   startsOn: string | null
+  /** The last day the task is due (a treatment course's last day); null for a standing task. */
+  endsOn: string | null
+  treatmentCourseId: number | null
   lastDoneAt: string | null
   lastDoneBy: number | null
   snoozedUntil: string | null
@@ -59,6 +62,8 @@ export interface PublicCareTask {
 export interface CareTodayTask extends PublicCareTask {
   tank: { id: number; name: string }
   site: { id: number; name: string; timeZone: string }
+  /** What a treatment course running on the tank means for this task (carbon, water changes). */
+  courseNote: string | null
 }
 
 /** A tank worth a look beyond its tasks: in quarantine, or with new arrivals under watch. */
@@ -92,6 +97,15 @@ export interface PublicCareLogEntry {
 }
 
 export interface WaterChangePlanResult extends WaterChangePlan {
+  /** A treatment course running on the tank: how much of its medication the change leaves and the label dose for the new water. */
+  treatment: {
+    courseId: number
+    product: string
+    endsOn: string
+    percentLeft: number
+    doseForNewWater: { amount: number; unit: string; litres: number }
+    note: string
+  } | null
   tankId: number
   waterLitres: number
   fillHeight: { cm: number; source: 'reading' | 'assumed'; readingAt: string | null; note: string }

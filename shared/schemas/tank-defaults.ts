@@ -32,6 +32,8 @@ export const DEFAULT_TARGETS: Record<TankKind, Targets> = {
     ammonia: { min: 0, max: 0.02 },
     nitrite: { min: 0, max: 0.1 },
     nitrate: { min: 0, max: 40 },
+    // Mid-range brackish, stated at 25/25 °C; many brackish species want more or less.
+    specific_gravity: { min: 1.005, max: 1.012 },
   },
   marine: {
     temperature: { min: 24, max: 27 },
@@ -39,6 +41,12 @@ export const DEFAULT_TARGETS: Record<TankKind, Targets> = {
     ammonia: { min: 0, max: 0.02 },
     nitrite: { min: 0, max: 0.1 },
     nitrate: { min: 0, max: 10 },
+    // Natural seawater is near 35; reef keepers hold calcium, alkalinity and magnesium near its levels.
+    salinity: { min: 33.5, max: 35.5 },
+    calcium: { min: 380, max: 450 },
+    kh: { min: 7, max: 11 },
+    magnesium: { min: 1250, max: 1400 },
+    phosphate: { min: 0.02, max: 0.1 },
   },
 }
 

@@ -6,6 +6,7 @@ import { initialLevelState, stepLevel, WATER_CHANGE_TOTAL_S, waterChangeLevelCm,
 import { lightLux, scheduleFraction } from './light'
 import { CRASH_DURATION_S, initialPhState, phValue, stepPh, type PhState } from './ph'
 import { gaussian, mulberry32, type Random } from './random'
+import { hasSaltProbe, initialSaltState, probeReadings, salinityOf, stepSalt, type SaltState } from './salinity'
 import { NO_SCENARIO, scenarioElapsedS, type Scenario, type ScenarioPlan } from './scenarios'
 import type { SimTankSpec } from './spec'
 import { mixedTemperatureC, roomTemperatureC, stepTemperature, type HeaterMode, type ThermalState } from './temperature'
@@ -41,6 +42,8 @@ export interface TankSnapshot {
   ph: number
   lux: number
   levelCm: number
+  /** Practical salinity; 0 in a freshwater tank. */
+  salinity: number
   /** The tank's scenario is running now. */
   faultActive: boolean
 }
@@ -59,6 +62,9 @@ export class TankSimulation {
   private ph: PhState = initialPhState()
   private level: LevelState
   private changeStartCm: number | null = null
+  private salt: SaltState
+  /** The probe's own noise, so adding it leaves every other sensor's random stream as it was. */
+  private readonly probeRandom: Random
 
   constructor(
     readonly spec: SimTankSpec,
@@ -74,6 +80,8 @@ export class TankSimulation {
     const waterC = options.initialWaterC ?? spec.heater?.setPointC ?? this.roomAt(options.startMs)
     this.thermal = { waterC, heaterOn: false }
     this.level = initialLevelState(this.geometry.heightCm * START_FILL_FRACTION)
+    this.salt = initialSaltState(spec.kind, litresAtLevel(this.geometry, this.level.levelCm))
+    this.probeRandom = mulberry32(options.seed ^ 0x5a17)
   }
 
   get elapsedS(): number {
@@ -123,13 +131,15 @@ export class TankSimulation {
       this.changeStartCm = null
       this.level = stepLevel(this.level, dtS)
     }
-    const addedLitres = litresAtLevel(this.geometry, this.level.levelCm) - litresAtLevel(this.geometry, before)
+    const beforeLitres = litresAtLevel(this.geometry, before)
+    const afterLitres = litresAtLevel(this.geometry, this.level.levelCm)
+    if (hasSaltProbe(this.spec.kind)) this.salt = stepSalt(this.salt, this.spec.kind, beforeLitres, afterLitres, change !== null)
+    const addedLitres = afterLitres - beforeLitres
     if (addedLitres > 0) {
       // Water-change water is tempered to the tank; top-up water comes from a reservoir at room temperature.
       const setPoint = this.spec.heater?.setPointC
       const addedC = change !== null && setPoint !== undefined ? setPoint - REFILL_BELOW_SET_POINT_K : roomC
-      const litres = litresAtLevel(this.geometry, before)
-      this.thermal = { ...this.thermal, waterC: mixedTemperatureC(litres, this.thermal.waterC, addedLitres, addedC) }
+      this.thermal = { ...this.thermal, waterC: mixedTemperatureC(beforeLitres, this.thermal.waterC, addedLitres, addedC) }
     }
   }
 
@@ -170,6 +180,7 @@ export class TankSimulation {
       ph: this.phNow(),
       lux: lightLux(this.spec.kind, fraction, false),
       levelCm: this.level.levelCm,
+      salinity: salinityOf(this.salt, litresAtLevel(this.geometry, this.level.levelCm)),
       faultActive: this.plan.scenario !== 'none' && scenarioElapsedS(this.plan, this.elapsedS) !== null,
     }
   }
@@ -183,11 +194,19 @@ export class TankSimulation {
   readings(time: string): DeviceReading[] {
     const s = this.snapshot()
     const noise = () => gaussian(this.random)
-    return [
-      { metric: 'temperature', value: round(s.waterC + SENSOR_NOISE.temperatureC * noise(), 2), unit: 'C', time },
+    const temperatureC = round(s.waterC + SENSOR_NOISE.temperatureC * noise(), 2)
+    const readings: DeviceReading[] = [
+      { metric: 'temperature', value: temperatureC, unit: 'C', time },
       { metric: 'ph', value: round(s.ph + SENSOR_NOISE.ph * noise(), 2), unit: 'pH', time },
       { metric: 'light', value: Math.max(0, Math.round(s.lux * (1 + SENSOR_NOISE.luxFraction * noise()))), unit: 'lux', time },
       { metric: 'water_level', value: round(Math.max(0, s.levelCm + SENSOR_NOISE.levelCm * noise()), 2), unit: 'cm', time },
     ]
+    // A salt tank's node carries a conductivity probe that also reports the practical salinity it computes.
+    if (hasSaltProbe(this.spec.kind)) {
+      const probe = probeReadings(s.salinity, Math.min(40, Math.max(0, temperatureC)), gaussian(this.probeRandom))
+      readings.push({ metric: 'conductivity', value: Math.round(probe.conductivityUsCm), unit: 'uS/cm', time })
+      readings.push({ metric: 'salinity', value: round(probe.salinity, 2), unit: 'PSU', time })
+    }
+    return readings
   }
 }

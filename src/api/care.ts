@@ -22,6 +22,7 @@ import type {
 } from '@shared/schemas/care-api'
 import type { Species } from '@shared/care/species'
 import { submit, type Waiting } from '@/offline/outbox'
+import type { PublicTreatmentCourse, TreatmentCourseBody } from '@shared/schemas/treatment'
 import { http } from './client'
 
 export async function listCareTasks(tankId: number): Promise<PublicCareTask[]> {
@@ -120,4 +121,16 @@ export async function getCycling(tankId: number): Promise<CyclingResult> {
 
 export async function cancelWaterChange(id: number, reason = ''): Promise<PublicWaterChange & { logEntry: PublicCareLogEntry; cautions: string[] }> {
   return (await http.post<PublicWaterChange & { logEntry: PublicCareLogEntry; cautions: string[] }>(`/water-changes/${id}/cancel`, { reason })).data
+}
+
+export async function listTreatmentCourses(tankId: number): Promise<PublicTreatmentCourse[]> {
+  return (await http.get<PublicTreatmentCourse[]>(`/tanks/${tankId}/treatment-courses`)).data
+}
+
+export async function startTreatmentCourse(tankId: number, input: TreatmentCourseBody): Promise<PublicTreatmentCourse> {
+  return (await http.post<PublicTreatmentCourse>(`/tanks/${tankId}/treatment-courses`, input)).data
+}
+
+export async function stopTreatmentCourse(id: number): Promise<PublicTreatmentCourse> {
+  return (await http.post<PublicTreatmentCourse>(`/treatment-courses/${id}/stop`)).data
 }

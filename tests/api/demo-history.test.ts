@@ -279,4 +279,37 @@ describe('the demo seed', () => {
     // The demo's past sends no mail: its history was mailed at the time.
     expect((await select<{ n: number }>('SELECT count(*)::int AS n FROM mail_outbox'))[0]!.n).toBe(0)
   })
+
+  it('has the reef display’s salinity, calcium, magnesium and phosphate from its weekly kit tests', async () => {
+    const rows = await select<{ metric: string; n: number; lo: number; hi: number }>(
+      `SELECT metric, count(*)::int AS n, min(value) AS lo, max(value) AS hi FROM readings
+       WHERE tank_id = $1 AND source = 'test_kit' AND metric IN ('salinity', 'calcium', 'magnesium', 'phosphate') GROUP BY metric ORDER BY metric`,
+      [await tankId('Reef display')],
+    )
+    expect(rows.map((r) => r.metric)).toEqual(['calcium', 'magnesium', 'phosphate', 'salinity'])
+    const [entries] = await select<{ n: number }>(
+      `SELECT count(*)::int AS n FROM test_kit_entries WHERE tank_id = $1 AND values @> '[{"metric": "salinity"}]'`,
+      [await tankId('Reef display')],
+    )
+    expect(entries!.n).toBeGreaterThanOrEqual(4)
+    // Inside the marine default bands (common practice): salinity 33.5–35.5, calcium 380–450.
+    const salinity = rows.find((r) => r.metric === 'salinity')!
+    expect(salinity.lo).toBeGreaterThanOrEqual(33.5)
+    expect(salinity.hi).toBeLessThanOrEqual(35.5)
+  })
+
+  it('has the quarantine tank on day 4 of a treatment course, its dose and tests due today and done on the days before', async () => {
+    const [course] = await select<{ id: number; starts_on: string; ends_on: string }>(
+      `SELECT id, starts_on::text, ends_on::text FROM treatment_courses WHERE tank_id = $1`,
+      [await tankId('Quarantine Q1')],
+    )
+    const today = formatLocalDate(localDateAt(ZONE, now))
+    expect(course!.starts_on).toBe(formatLocalDate(localDateAt(ZONE, Date.parse(`${today}T12:00:00Z`) - 3 * DAY_MS)))
+    const tasks = await select<{ title: string; done: number; ends_on: string }>(
+      `SELECT c.title, c.ends_on::text, (SELECT count(*)::int FROM care_log l WHERE l.care_task_id = c.id) AS done FROM care_tasks c WHERE c.treatment_course_id = $1`,
+      [course!.id],
+    )
+    expect(tasks).toHaveLength(3)
+    for (const task of tasks) expect(task).toMatchObject({ done: 3, ends_on: course!.ends_on })
+  })
 })

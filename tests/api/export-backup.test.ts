@@ -158,6 +158,27 @@ async function buildOrganization() {
     low_at: 2,
     expires_on: '2027-03-01',
   })
+  const course = await insertRow(t.ctx, 'treatment_courses', {
+    organization_id: o,
+    tank_id: tank,
+    product: 'Copper treatment',
+    dose: JSON.stringify({ amount: 1, unit: 'mL', perLitres: 10 }),
+    days: 14,
+    starts_on: '2026-07-01',
+    ends_on: '2026-07-14',
+    tests: JSON.stringify([{ metric: 'copper', timesPerDay: 2, band: null }]),
+    created_by: keeper,
+  })
+  await insertRow(t.ctx, 'care_tasks', {
+    organization_id: o,
+    tank_id: tank,
+    kind: 'treatment_dose',
+    title: 'Dose copper treatment',
+    recurrence: JSON.stringify({ kind: 'interval', everyDays: 1 }),
+    starts_on: '2026-07-01',
+    ends_on: '2026-07-14',
+    treatment_course_id: course,
+  })
   const task = await insertRow(t.ctx, 'care_tasks', {
     organization_id: o,
     tank_id: tank,

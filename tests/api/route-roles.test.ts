@@ -5,6 +5,8 @@ import type { UserActor } from '../../server/access/actor'
 import { authService } from '../../server/people/auth'
 import { tanksService } from '../../server/tanks/tanks'
 import { testKitService } from '../../server/test-kit/test-kit'
+import { treatmentCoursesService } from '../../server/care/treatment-courses'
+import { treatmentCourseInputSchema } from '@shared/schemas/treatment'
 import { usersService } from '../../server/people/users'
 import { ackLinksService } from '../../server/incidents/ack-links'
 import { rosterService } from '../../server/roster/roster'
@@ -149,6 +151,15 @@ async function freshConsumable(w: World) {
   return row.id
 }
 
+const courseBody = { product: 'Copper treatment', dose: { amount: 1, unit: 'mL', perLitres: 10 }, days: 14, tests: [{ metric: 'copper', timesPerDay: 2 }] }
+
+async function freshCourse(w: World) {
+  const tankId = await w.freshTank()
+  const keeper = await t.ctx.models.User.findByPk(w.org.users.keeper.id)
+  const actor: UserActor = { kind: 'user', userId: keeper!.id, organizationId: keeper!.organizationId, role: 'keeper', siteIds: null, sessionId: randomUUID() }
+  return (await treatmentCoursesService(t.ctx).start(actor, tankId, treatmentCourseInputSchema.parse(courseBody))).id
+}
+
 /** The care routes have their role matrix in care-roles.test.ts (owner, keeper, viewer, other org, no token). */
 const CHECKED_IN_CARE_ROLES = [
   'GET /tanks/:id/care-tasks',
@@ -256,6 +267,9 @@ const ROUTES: RouteCase[] = [
   row('post', '/sites/:id/unarchive', ownerOnly, async (w) => ({ param: await w.freshSite(true) })),
   row('get', '/tanks', signedIn(200, 200, 200, 200)),
   row('get', '/tanks/:id', signedIn(200, 200, 200, 404), async (w) => ({ param: await w.freshTank() })),
+  row('get', '/tanks/:id/treatment-courses', signedIn(200, 200, 200, 404), async (w) => ({ param: await w.freshTank() })),
+  row('post', '/tanks/:id/treatment-courses', signedIn(201, 201, 403, 404), async (w) => ({ param: await w.freshTank(), body: courseBody })),
+  row('post', '/treatment-courses/:id/stop', signedIn(200, 200, 403, 404), async (w) => ({ param: await freshCourse(w) })),
   // The other organization's owner names this organization's site: for them that site does not exist.
   row('post', '/tanks', signedIn(201, 201, 403, 400), (w) => ({ body: sampleTank(w.org.siteIds[0]) })),
   row('patch', '/tanks/:id', signedIn(200, 200, 403, 404), async (w) => ({ param: await w.freshTank(), body: { stage: 'quarantine' } })),

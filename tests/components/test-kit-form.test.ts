@@ -102,6 +102,21 @@ describe('checkDraft', () => {
     // 100 % at 25 °C is the solubility, 8.26 mg/L (ISO 5814:1990 table of oxygen solubility).
     const withLatest = checkDraft({ takenAt: '', values: { oxygen: '100' }, units, notes: '' }, {}, { temperatureC: 25 })
     expect(withLatest.canonical.oxygen).toBeCloseTo(8.26, 2)
-    expect(withLatest.payload?.values).toEqual([{ metric: 'oxygen', value: 100, unit: 'pct_sat' }])
+    // The server reads % saturation with the entry's own temperature only, so with the tank's latest the form sends mg/L.
+    expect(withLatest.payload?.values).toEqual([{ metric: 'oxygen', value: withLatest.canonical.oxygen, unit: 'mg/L' }])
+    const withOwn = checkDraft({ takenAt: '', values: { oxygen: '100', temperature: '25' }, units, notes: '' }, {}, { temperatureC: 20 })
+    expect(withOwn.payload?.values).toEqual([
+      { metric: 'temperature', value: 25, unit: 'C' },
+      { metric: 'oxygen', value: 100, unit: 'pct_sat' },
+    ])
+  })
+
+  it('restates a hydrometer read at the water temperature through EOS-80 when the tank latest gives the temperature', () => {
+    const units = { ...loadKitUnits(null), specific_gravity: 'SG_t' }
+    const without = checkDraft({ takenAt: '', values: { specific_gravity: '1.025' }, units, notes: '' }, {})
+    expect(without.warnings.specific_gravity).toBe('enter the temperature too, or give specific gravity in SG 25/25 °C')
+    const withLatest = checkDraft({ takenAt: '', values: { specific_gravity: '1.025' }, units, notes: '' }, {}, { temperatureC: 28 })
+    expect(withLatest.canonical.specific_gravity).toBeCloseTo(1.0259, 4)
+    expect(withLatest.payload?.values).toEqual([{ metric: 'specific_gravity', value: withLatest.canonical.specific_gravity, unit: 'SG25' }])
   })
 })

@@ -39,6 +39,8 @@ const WORK_MINUTES: Record<CareTaskKind, number> = {
   media_replace: 15 * 60,
   substrate_clean: 15 * 60 + 30,
   equipment_service: 15 * 60 + 45,
+  treatment_dose: 9 * 60,
+  treatment_test: 9 * 60 + 15,
   other: 16 * 60,
 }
 
@@ -129,6 +131,16 @@ function kitValues(tank: StoryTank, week: number, random: () => number): { value
     { metric: 'ph', value: r(phBase, 0.2), unit: 'pH' },
   ]
   if (salt) values.push({ metric: 'kh', value: r(tank.kind === 'marine' ? 8.5 : 10, 1), unit: 'dKH' })
+  // Reef chemistry read off kits, steady by the week; no random draws, so every other value stays as it was.
+  if (tank.kind === 'marine') {
+    values.push(
+      { metric: 'salinity', value: [34.8, 35.0, 35.2, 34.9, 35.1][week % 5]!, unit: 'ppt' },
+      { metric: 'calcium', value: [420, 430, 410, 425, 415][week % 5]!, unit: 'mg/L' },
+      { metric: 'magnesium', value: [1320, 1340, 1300, 1330, 1310][week % 5]!, unit: 'mg/L' },
+      { metric: 'phosphate', value: [0.04, 0.05, 0.06, 0.05, 0.04][week % 5]!, unit: 'mg/L' },
+    )
+  }
+  if (tank.kind === 'brackish') values.push({ metric: 'specific_gravity', value: [1.0085, 1.009, 1.0095, 1.009, 1.0085][week % 5]!, unit: 'SG25' })
   return { values, notes: week % 2 ? 'All clear.' : '' }
 }
 

@@ -42,6 +42,8 @@ export const CARE_TASK_KIND_LABELS: Record<CareTaskKind, string> = {
   substrate_clean: 'Substrate cleaning',
   test_kit_check: 'Test-kit check',
   equipment_service: 'Equipment service',
+  treatment_dose: 'Treatment dose',
+  treatment_test: 'Test during a treatment',
   other: 'Other',
 }
 export { CARE_TASK_KIND_TITLES }

@@ -60,18 +60,22 @@ export function checkDraft(draft: KitDraft, targets: Targets, context: { tempera
     order.push(metric)
   }
 
-  // Oxygen in % saturation needs the temperature: this entry's if given, else the tank's latest.
+  // Oxygen in % saturation and specific gravity at the water temperature need it: this entry's if given, else the tank's latest.
   const temperature = values.find((v) => v.metric === 'temperature')
   const temperatureC = temperature ? toCanonical('temperature', temperature.value, temperature.unit) : null
   const ctx = { temperatureC: temperatureC?.ok ? temperatureC.value : context.temperatureC }
 
-  for (const { metric, value, unit } of values) {
+  for (const [index, { metric, value, unit }] of values.entries()) {
     const converted = toCanonical(metric, value, unit, ctx)
     if (!converted.ok) {
-      warnings[metric] = metric === 'oxygen' ? 'enter the temperature too, or give oxygen in mg/L' : converted.reason
+      const needsTemperature = METRICS[metric].units[unit]?.needs === 'temperatureC'
+      const name = metric === 'oxygen' ? 'oxygen' : METRICS[metric].label.toLowerCase()
+      warnings[metric] = needsTemperature ? `enter the temperature too, or give ${name} in ${METRICS[metric].unitLabel}` : converted.reason
       continue
     }
     canonical[metric] = converted.value
+    // The server reads a temperature-bound unit with the entry's own temperature; with the tank's latest instead, send the converted value.
+    if (!temperature && METRICS[metric].units[unit]?.needs === 'temperatureC') values[index] = { metric, value: converted.value, unit: METRICS[metric].unit }
     const { min, max } = METRICS[metric].plausible
     if (converted.value < min || converted.value > max) {
       warnings[metric] = `No kit reads this: ${METRICS[metric].label} runs ${range(metric)}. Check the value and the unit.`

@@ -48,6 +48,7 @@ export const heaterExposingPlan: WaterChangePlanResult = {
   heaterConfirmAbovePercent: 25,
   dose: null,
   temperature: null,
+  treatment: null,
   cautions: [UNPLUG_CAUTION, HEATER_OFF_CAUTION, 'Follow the product label for dechlorinator and other additives; the dose shown only scales the label rate'],
 }
 
@@ -72,6 +73,8 @@ export function careTask(id: number, overrides: Partial<PublicCareTask> = {}): P
     startsOn: null,
     consumableId: null,
     consumableAmount: null,
+    endsOn: null,
+    treatmentCourseId: null,
     lastDoneAt: '2026-03-01T09:00:00.000Z',
     lastDoneBy: 7,
     snoozedUntil: null,
@@ -87,5 +90,6 @@ export function todayTask(id: number, tankName: string, due: PublicCareTask['due
     ...careTask(id, { due, title: `Task ${id}`, ...overrides }),
     tank: { id: 100 + id, name: tankName },
     site: { id: 3, name: 'Front shop', timeZone: 'Europe/Berlin' },
+    courseNote: null,
   }
 }

@@ -15,7 +15,7 @@ import {
 // Molar masses below are worked by hand from those values; the code derives them separately.
 describe('atomic weights and molar masses', () => {
   it('uses the IUPAC 2021 abridged atomic weights', () => {
-    expect(ATOMIC_WEIGHT).toEqual({ H: 1.008, C: 12.011, N: 14.007, O: 15.999, Ca: 40.078 })
+    expect(ATOMIC_WEIGHT).toEqual({ H: 1.008, C: 12.011, N: 14.007, O: 15.999, Ca: 40.078, Mg: 24.305, P: 30.973762 })
   })
 
   it.each([

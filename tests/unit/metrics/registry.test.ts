@@ -2,9 +2,27 @@ import { describe, expect, it } from 'vitest'
 import { displayPrecision, isMetricKey, METRIC_KEYS, METRICS, supportedUnits } from '@shared/metrics'
 
 describe('metric registry', () => {
-  it('lists the eleven metrics of the product, each defined once', () => {
+  it('lists the seventeen metrics of the product, each defined once', () => {
     expect([...METRIC_KEYS].sort()).toEqual(
-      ['ammonia', 'conductivity', 'gh', 'kh', 'light', 'nitrate', 'nitrite', 'oxygen', 'ph', 'temperature', 'water_level'].sort(),
+      [
+        'ammonia',
+        'conductivity',
+        'gh',
+        'kh',
+        'light',
+        'nitrate',
+        'nitrite',
+        'oxygen',
+        'ph',
+        'temperature',
+        'water_level',
+        'salinity',
+        'specific_gravity',
+        'calcium',
+        'magnesium',
+        'phosphate',
+        'copper',
+      ].sort(),
     )
     expect(Object.keys(METRICS).sort()).toEqual([...METRIC_KEYS].sort())
   })
@@ -38,12 +56,36 @@ describe('metric registry', () => {
       gh: 'dGH',
       conductivity: 'uS/cm',
       oxygen: 'mg/L',
+      salinity: 'PSU',
+      specific_gravity: 'SG25',
+      calcium: 'mg/L',
+      magnesium: 'mg/L',
+      phosphate: 'mg/L',
+      copper: 'mg/L',
     })
   })
 
   it('marks the test-kit metrics', () => {
     const kit = METRIC_KEYS.filter((k) => METRICS[k].kitMetric)
-    expect(kit.sort()).toEqual(['temperature', 'ph', 'ammonia', 'nitrite', 'nitrate', 'kh', 'gh', 'conductivity', 'oxygen'].sort())
+    expect(kit.sort()).toEqual(
+      [
+        'temperature',
+        'ph',
+        'ammonia',
+        'nitrite',
+        'nitrate',
+        'kh',
+        'gh',
+        'conductivity',
+        'oxygen',
+        'salinity',
+        'specific_gravity',
+        'calcium',
+        'magnesium',
+        'phosphate',
+        'copper',
+      ].sort(),
+    )
   })
 
   it('keeps plausibility bounds physically sensible', () => {

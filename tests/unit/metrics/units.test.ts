@@ -109,7 +109,7 @@ describe('round trips', () => {
     for (const unit of Object.keys(METRICS[metric].units)) {
       it(`${metric} in ${unit}`, () => {
         const { min, max } = METRICS[metric].plausible
-        for (const canonical of [min, (min + max) / 3, max]) {
+        for (const canonical of [min, min + (max - min) / 3, max]) {
           const shown = valueOf(fromCanonical(metric, canonical, unit, ctx))
           expect(valueOf(toCanonical(metric, shown, unit, ctx))).toBeCloseTo(canonical, 8)
         }
@@ -137,7 +137,7 @@ describe('rejections', () => {
   })
 
   it('rejects a metric it does not know', () => {
-    expect(toCanonical('salinity' as MetricKey, 35, 'ppt').ok).toBe(false)
+    expect(toCanonical('chlorophyll' as MetricKey, 35, 'ug/L').ok).toBe(false)
   })
 
   it.each([Number.NaN, Number.POSITIVE_INFINITY])('rejects the value %d', (value) => {

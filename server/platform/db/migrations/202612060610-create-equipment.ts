@@ -42,7 +42,7 @@ CREATE INDEX consumables_site ON consumables (site_id);
 
 ALTER TABLE care_tasks DROP CONSTRAINT care_tasks_kind_check;
 ALTER TABLE care_tasks ADD CONSTRAINT care_tasks_kind_check
-  CHECK (kind IN ('water_change', 'filter_rinse', 'media_replace', 'glass_clean', 'substrate_clean', 'test_kit_check', 'equipment_service', 'other'));
+  CHECK (kind IN ('water_change', 'filter_rinse', 'media_replace', 'glass_clean', 'substrate_clean', 'test_kit_check', 'treatment_dose', 'treatment_test', 'equipment_service', 'other'));
 ALTER TABLE care_tasks ADD COLUMN consumable_id integer REFERENCES consumables(id) ON DELETE SET NULL;
 ALTER TABLE care_tasks ADD COLUMN consumable_amount double precision CHECK (consumable_amount > 0);
 `
@@ -52,7 +52,7 @@ ALTER TABLE care_tasks DROP COLUMN consumable_id;
 DELETE FROM care_tasks WHERE kind = 'equipment_service';
 ALTER TABLE care_tasks DROP CONSTRAINT care_tasks_kind_check;
 ALTER TABLE care_tasks ADD CONSTRAINT care_tasks_kind_check
-  CHECK (kind IN ('water_change', 'filter_rinse', 'media_replace', 'glass_clean', 'substrate_clean', 'test_kit_check', 'other'));
+  CHECK (kind IN ('water_change', 'filter_rinse', 'media_replace', 'glass_clean', 'substrate_clean', 'test_kit_check', 'treatment_dose', 'treatment_test', 'other'));
 DROP TABLE consumables;
 DROP TABLE equipment;
 `

@@ -23,6 +23,7 @@ import createEquipment from './202612060610-create-equipment'
 import addClientIds from './202612060300-add-client-ids'
 import createPush from './202612060400-create-push'
 import addCalibrations from './202612060100-add-calibrations'
+import createTreatmentCourses from './202612060200-create-treatment-courses'
 
 /** Every migration in order. Add new files here; never edit one that has shipped. */
 export const migrations: Migration[] = [
@@ -50,4 +51,5 @@ export const migrations: Migration[] = [
   addClientIds,
   createPush,
   addCalibrations,
+  createTreatmentCourses,
 ]
