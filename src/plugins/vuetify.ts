@@ -28,6 +28,7 @@ export const tankwardenLight: ThemeDefinition = {
     watch: '#8A5A00',
     alarm: '#B3261E',
     quiet: '#5D5F86',
+    no_sensor: '#5F6B6E',
   },
   variables: {
     // Labels, subtitles and hints are drawn at this share of the text colour; field labels also sit
@@ -54,6 +55,7 @@ export const tankwardenDark: ThemeDefinition = {
     watch: '#E5AE55',
     alarm: '#F28B82',
     quiet: '#A7A9DB',
+    no_sensor: '#B5C0C2',
     // The light tints need dark text on top to stay legible.
     'on-primary': '#00292E',
     'on-secondary': '#161E2C',
@@ -65,6 +67,7 @@ export const tankwardenDark: ThemeDefinition = {
     'on-watch': '#2B1C00',
     'on-alarm': '#3D0B08',
     'on-quiet': '#181A3A',
+    'on-no_sensor': '#1B2224',
   },
 }
 

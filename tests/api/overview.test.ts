@@ -71,9 +71,10 @@ describe("the owner's overview after an injected night", () => {
   })
 
   it('counts the tank states per site as the wall does', () => {
-    expect(site().states).toEqual({ steady: 1, watch: 1, alarm: 1, quiet: 1 })
+    // The quarantine bay has neither a device nor a reading: nothing says it is steady.
+    expect(site().states).toEqual({ steady: 0, watch: 1, alarm: 1, quiet: 1, no_sensor: 1 })
     const second = overview.sites.find((s) => s.site.id === org.siteIds[1])!
-    expect(second.states).toEqual({ steady: 0, watch: 0, alarm: 0, quiet: 0 })
+    expect(second.states).toEqual({ steady: 0, watch: 0, alarm: 0, quiet: 0, no_sensor: 0 })
     expect(second.overnight.incidents).toEqual([])
   })
 

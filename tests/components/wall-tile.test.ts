@@ -22,6 +22,7 @@ describe('WallTile', () => {
     ['watch', 'Watch', 'mdi-eye'],
     ['alarm', 'Alarm', 'mdi-alert-octagon'],
     ['quiet', 'Quiet', 'mdi-access-point-network-off'],
+    ['no_sensor', 'No sensor', 'mdi-help-circle-outline'],
   ] as const)('shows the %s state as a word and its own icon, not colour alone', async (state, word, icon) => {
     const wrapper = await tile({ state: state as TankState })
     expect(wrapper.find('[data-test="tile-state"]').text()).toBe(word)

@@ -14,6 +14,8 @@ export const STATE_LOOKS: Record<TankState, StateLook> = {
   watch: { word: 'Watch', icon: 'mdi-eye', color: 'watch', hint: 'Near a limit, or a warning is open' },
   alarm: { word: 'Alarm', icon: 'mdi-alert-octagon', color: 'alarm', hint: 'An alarm is open' },
   quiet: { word: 'Quiet', icon: 'mdi-access-point-network-off', color: 'quiet', hint: 'No fresh data from a device' },
+  // Neutral, not green: nothing is known about the water, which is not the same as "all in band".
+  no_sensor: { word: 'No sensor', icon: 'mdi-help-circle-outline', color: 'no_sensor', hint: 'No device and no reading: nothing tells how this tank is' },
 }
 
 export interface HeaterLine {
