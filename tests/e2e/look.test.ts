@@ -52,7 +52,9 @@ beforeAll(async () => {
   }
   const post = (path: string, body: unknown) => api(s, path, owner, { method: 'POST', body: JSON.stringify(body) })
   expect((await post(`/sites/${siteId}/roster/shifts`, { userId: org.users.keeper.id, weekday: 0, start: '07:00', end: '19:00' })).status).toBe(201)
-  expect((await post(`/tanks/${tankId}/care-tasks`, { kind: 'other', title: 'Rinse the sponge', recurrence: { kind: 'interval', everyDays: 1 } })).status).toBe(201)
+  expect((await post(`/tanks/${tankId}/care-tasks`, { kind: 'other', title: 'Rinse the sponge', recurrence: { kind: 'interval', everyDays: 1 } })).status).toBe(
+    201,
+  )
 })
 afterAll(async () => {
   await b?.close()
@@ -165,9 +167,9 @@ describe('a viewer sent away from a page for owners', () => {
     expect(await page.locator('[data-test="denied-notice"]').count()).toBe(0)
     await page.goto(`${s.baseUrl}/users`)
     await page.waitForURL(/\/tanks$/, { timeout: FIRST_LOAD_MS })
-    await expect.poll(() => page.locator('[data-test="denied-notice"]').innerText()).toBe(
-      'People is open to owners only. As a viewer you cannot open it, so here is the tanks list. Ask an owner if you need it.',
-    )
+    await expect
+      .poll(() => page.locator('[data-test="denied-notice"]').innerText())
+      .toBe('People is open to owners only. As a viewer you cannot open it, so here is the tanks list. Ask an owner if you need it.')
     await page.locator('a[href="/incidents"]').first().click()
     await page.waitForURL(/\/incidents/)
     expect(await page.locator('[data-test="denied-notice"]').count()).toBe(0)

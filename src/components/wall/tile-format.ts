@@ -1,4 +1,5 @@
 import type { TankState } from '@shared/schemas/tank-status'
+import { formatTimeOfDay } from '@shared/time'
 
 export interface StateLook {
   word: string
@@ -49,6 +50,7 @@ export function lightLine(lightOn: boolean | null, scheduledOn: boolean | null, 
   const word = lightOn ? 'Light on' : 'Light off'
   const icon = lightOn ? 'mdi-lightbulb-on' : 'mdi-lightbulb-off-outline'
   if (scheduledOn == null || !schedule) return { word, icon, detail: 'no schedule', offSchedule: false }
-  if (scheduledOn === lightOn) return { word, icon, detail: `as scheduled ${schedule.on}–${schedule.off}`, offSchedule: false }
-  return { word, icon, detail: `should be ${scheduledOn ? 'on' : 'off'} (${schedule.on}–${schedule.off})`, offSchedule: true }
+  const hours = `${formatTimeOfDay(schedule.on)}–${formatTimeOfDay(schedule.off)}`
+  if (scheduledOn === lightOn) return { word, icon, detail: `as scheduled ${hours}`, offSchedule: false }
+  return { word, icon, detail: `should be ${scheduledOn ? 'on' : 'off'} (${hours})`, offSchedule: true }
 }

@@ -17,6 +17,7 @@ import addIncidentFlapsSitesMaintenance from './202612050200-add-incident-flaps-
 import createBuilds from './202612051000-create-builds'
 import addDailyRollups from './202612051200-add-daily-rollups'
 import addChecklistDismissed from './202612051300-add-checklist-dismissed'
+import addOrganizationClockStyle from './202612060700-add-organization-clock-style'
 
 /** Every migration in order. Add new files here; never edit one that has shipped. */
 export const migrations: Migration[] = [
@@ -38,4 +39,5 @@ export const migrations: Migration[] = [
   createBuilds,
   addDailyRollups,
   addChecklistDismissed,
+  addOrganizationClockStyle,
 ]
