@@ -18,6 +18,7 @@ import createBuilds from './202612051000-create-builds'
 import addDailyRollups from './202612051200-add-daily-rollups'
 import addChecklistDismissed from './202612051300-add-checklist-dismissed'
 import addOrganizationClockStyle from './202612060700-add-organization-clock-style'
+import addSiteWorkdayEnd from './202612060710-add-site-workday-end'
 
 /** Every migration in order. Add new files here; never edit one that has shipped. */
 export const migrations: Migration[] = [
@@ -40,4 +41,5 @@ export const migrations: Migration[] = [
   addDailyRollups,
   addChecklistDismissed,
   addOrganizationClockStyle,
+  addSiteWorkdayEnd,
 ]
