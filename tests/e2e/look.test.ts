@@ -176,3 +176,22 @@ describe('a viewer sent away from a page for owners', () => {
     await context.close()
   }, 90_000)
 })
+
+describe("the organisation's clock", () => {
+  it('writes every time the chosen way once an owner picks the 12-hour clock', async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 800 } })
+    const page = await context.newPage()
+    await signIn(page, s.baseUrl, org.users.owner.email)
+    const roster = `/sites/${org.siteIds[0]}/roster`
+    await openPage(page, roster)
+    const shift = page.locator('[data-test="roster-pattern"] tbody tr').first()
+    expect(await shift.innerText()).toMatch(/07:00\s+19:00/)
+    await openPage(page, '/account')
+    await page.locator('[data-test="clock-12h"]').click()
+    await expect.poll(async () => (await api(s, '/auth/me', org.users.keeper.token)).body.organization.clockStyle).toBe('12h')
+    await openPage(page, roster)
+    expect(await shift.innerText()).toMatch(/7:00 am\s+7:00 pm/)
+    await shot(page, 'look-roster-12h')
+    await context.close()
+  }, 90_000)
+})
