@@ -18,6 +18,7 @@ import { invitationsRouter } from './people/invitation-routes'
 import { sitesRouter } from './sites/routes'
 import { tanksRouter } from './tanks/routes'
 import { usersRouter } from './people/user-routes'
+import { organizationRouter } from './people/organization-routes'
 import { photosRouter, tankPhotoRoutes } from './photos/routes'
 import { reportRoutes, reportSchedulesRouter } from './reports/routes'
 import { exportRoutes } from './exports/routes'
@@ -51,6 +52,7 @@ export function apiRouter(ctx: AppContext) {
   router.use('/overview', requireUser, overviewRouter(ctx))
   router.use('/invitations', invitationsRouter(ctx))
   router.use('/users', requireUser, usersRouter(ctx))
+  router.use('/organization', requireUser, organizationRouter(ctx))
   // The wall answers wall displays too, so it is mounted ahead of the people-only /sites chain.
   router.use('/sites', wallRoute(ctx, authenticate(passport, ['user-jwt', 'wall-token'])))
   router.use(

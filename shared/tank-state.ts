@@ -17,7 +17,8 @@ export const NEAR_LIMIT_FRACTION = 0.1
 /**
  * A tank's state for the wall, in order of precedence: `alarm` (an alarm incident open),
  * `quiet` (a device that should report has gone silent), `watch` (a warning open, or a
- * value outside or near the edge of its band), otherwise `steady`.
+ * value outside or near the edge of its band), `no_sensor` (no device and no reading at all, so
+ * nothing is known about the water), otherwise `steady`.
  */
 export function tankState(input: TankStateInput): { state: TankState; reasons: string[] } {
   const alarms = input.openIncidents.filter((i) => i.severity === 'alarm')
@@ -35,12 +36,15 @@ export function tankState(input: TankStateInput): { state: TankState; reasons: s
     else if (margin > 0 && ((band.min > 0 && current < band.min + margin) || current > band.max - margin))
       reasons.push(`${metric} ${current} near the edge of ${band.min}–${band.max}`)
   }
-  return reasons.length ? { state: 'watch', reasons } : { state: 'steady', reasons: [] }
+  if (reasons.length) return { state: 'watch', reasons }
+  const hasReadings = Object.values(input.latest).some((v) => v !== undefined)
+  if (!input.hasDevices && !hasReadings) return { state: 'no_sensor', reasons: ['No sensor and no test-kit entry'] }
+  return { state: 'steady', reasons: [] }
 }
 
-const ORDER: Record<TankState, number> = { alarm: 0, watch: 1, quiet: 2, steady: 3 }
+const ORDER: Record<TankState, number> = { alarm: 0, watch: 1, quiet: 2, no_sensor: 3, steady: 4 }
 
-/** Wall order: alarm first, then watch, then quiet, then the site's chosen order. */
+/** Wall order: alarm first, then watch, then quiet, then tanks without a sensor, then the site's chosen order. */
 export function compareForWall(a: { state: TankState; sortOrder: number; name: string }, b: typeof a): number {
   return ORDER[a.state] - ORDER[b.state] || a.sortOrder - b.sortOrder || a.name.localeCompare(b.name)
 }

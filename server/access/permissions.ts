@@ -28,6 +28,7 @@ export const PERMISSIONS = {
   'imports.write': ['owner', 'keeper'],
   'builds.write': ['owner', 'keeper'],
   'org.setup': ['owner'],
+  'org.settings': ['owner'],
   'overview.read': ['owner', 'keeper'],
   'clients.read': ['owner', 'keeper'],
   'clients.manage': ['owner'],

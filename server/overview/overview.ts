@@ -11,7 +11,7 @@ import { checklistService } from '../setup'
 import { tankStatuses } from '../tanks'
 import { visitsLeftOpen } from '../visits'
 
-type SiteRow = { id: number; name: string; timeZone: string }
+type SiteRow = { id: number; name: string; timeZone: string; workdayEnd: string | null }
 type IncidentRow = {
   id: number
   title: string
@@ -58,7 +58,8 @@ export function overviewService(ctx: AppContext) {
   }
 
   async function forSite(site: SiteRow, now: Date): Promise<OverviewSite> {
-    const since = new Date(endOfYesterdaysWorkday(site.timeZone, now.getTime()))
+    const workdayEnd = site.workdayEnd ?? DEFAULT_WORKDAY_END
+    const since = new Date(endOfYesterdaysWorkday(site.timeZone, now.getTime(), workdayEnd))
     const tanks = await models.Tank.findAll({
       where: { siteId: site.id, archivedAt: null },
       order: [
@@ -100,10 +101,10 @@ export function overviewService(ctx: AppContext) {
     const overdue = unsnoozed.filter((c) => c.due.status === 'overdue').sort((a, b) => a.due.dueOn.localeCompare(b.due.dueOn))
 
     return {
-      site,
+      site: { id: site.id, name: site.name, timeZone: site.timeZone },
       since: since.toISOString(),
-      workdayEnd: DEFAULT_WORKDAY_END,
-      workdayEndAssumed: true,
+      workdayEnd,
+      workdayEndAssumed: site.workdayEnd == null,
       states,
       overnight: {
         incidents: incidents.map((i) => ({
@@ -136,13 +137,13 @@ export function overviewService(ctx: AppContext) {
     async get(actor: UserActor, now = new Date()): Promise<Overview> {
       const sites = await models.Site.findAll({
         where: { ...(siteScope(actor, 'id') as object), archivedAt: null },
-        attributes: ['id', 'name', 'timeZone'],
+        attributes: ['id', 'name', 'timeZone', 'workdayEnd'],
         order: [
           ['name', 'ASC'],
           ['id', 'ASC'],
         ],
       })
-      const rows = sites.map((s) => ({ id: s.id, name: s.name, timeZone: s.timeZone }))
+      const rows = sites.map((s) => ({ id: s.id, name: s.name, timeZone: s.timeZone, workdayEnd: s.workdayEnd ?? null }))
       const checklist = actor.role === 'owner' ? await checklistService(ctx).forOwner(actor) : null
       return { now: now.toISOString(), sites: await Promise.all(rows.map((s) => forSite(s, now))), checklist }
     },

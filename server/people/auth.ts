@@ -6,7 +6,7 @@ import { signAccessToken } from '../access/tokens'
 import type { AppContext } from '../context'
 import { AppError, badRequest, notFound } from '../platform/errors'
 import type { User } from '../models'
-import { presentUser } from './present-user'
+import { presentOrganization, presentUser } from './present-user'
 import { perContext } from '../platform/per-context'
 
 // Compared against when the e-mail is unknown, so both failures take the same time.
@@ -27,7 +27,7 @@ export const authService = perContext((ctx: AppContext) => {
       token,
       expiresAt: expiresAt.toISOString(),
       user: presentUser(user),
-      organization: { id: user.organizationId, name: organization?.name ?? '' },
+      organization: presentOrganization(user.organizationId, organization),
     }
   }
 
@@ -55,7 +55,7 @@ export const authService = perContext((ctx: AppContext) => {
       const user = await loadUser({ id: actor.userId })
       if (!user) throw notFound('User not found')
       const organization = await models.Organization.findByPk(actor.organizationId)
-      return { user: presentUser(user), organization: { id: actor.organizationId, name: organization?.name ?? '' } }
+      return { user: presentUser(user), organization: presentOrganization(actor.organizationId, organization) }
     },
 
     async changePassword(actor: UserActor, currentPassword: string, newPassword: string) {

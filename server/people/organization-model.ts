@@ -1,8 +1,10 @@
+import type { ClockStyle } from '@shared/schemas/auth'
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
 
 export class Organization extends Model<InferAttributes<Organization>, InferCreationAttributes<Organization>> {
   declare id: CreationOptional<number>
   declare name: string
+  declare clockStyle: CreationOptional<ClockStyle>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
 
@@ -11,6 +13,7 @@ export class Organization extends Model<InferAttributes<Organization>, InferCrea
       {
         id: { type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true },
         name: { type: DataTypes.TEXT, allowNull: false },
+        clockStyle: { type: DataTypes.TEXT, allowNull: false, defaultValue: '24h' },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

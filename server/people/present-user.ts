@@ -1,5 +1,5 @@
-import type { PublicUser } from '@shared/schemas/auth'
-import type { User } from '../models'
+import type { Organization as PublicOrganization, PublicUser } from '@shared/schemas/auth'
+import type { Organization, User } from '../models'
 
 /** The public shape of a person: the password hash never leaves the server. */
 export function presentUser(user: User): PublicUser {
@@ -14,4 +14,9 @@ export function presentUser(user: User): PublicUser {
     organizationId: user.organizationId,
     createdAt: user.createdAt.toISOString(),
   }
+}
+
+/** The organisation as its people's screens need it; a missing row (a race with deletion) reads as defaults. */
+export function presentOrganization(id: number, organization: Organization | null): PublicOrganization {
+  return { id, name: organization?.name ?? '', clockStyle: organization?.clockStyle ?? '24h' }
 }

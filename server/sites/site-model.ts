@@ -7,6 +7,7 @@ export class Site extends Model<InferAttributes<Site>, InferCreationAttributes<S
   declare timeZone: string
   declare address: CreationOptional<string>
   declare notes: CreationOptional<string>
+  declare workdayEnd: CreationOptional<string | null>
   declare archivedAt: CreationOptional<Date | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -20,6 +21,7 @@ export class Site extends Model<InferAttributes<Site>, InferCreationAttributes<S
         timeZone: { type: DataTypes.TEXT, allowNull: false },
         address: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
         notes: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
+        workdayEnd: { type: DataTypes.TEXT, allowNull: true },
         archivedAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,

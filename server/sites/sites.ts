@@ -18,6 +18,7 @@ function presentSite(site: Site, tankCount = 0): PublicSite {
     timeZone: site.timeZone,
     address: site.address,
     notes: site.notes,
+    workdayEnd: site.workdayEnd ?? null,
     archivedAt: iso(site.archivedAt),
     tankCount,
   }

@@ -62,16 +62,24 @@ export interface SessionInfo {
   token: string
   expiresAt: string
   user: PublicUser
-  organization: { id: number; name: string }
+  organization: Organization
 }
 
 export const passwordResetRequestSchema = z.object({ email: emailSchema })
 export const passwordResetConfirmSchema = z.object({ token: z.string().min(20).max(200), password: passwordSchema })
 
+/** How clock times read on the organisation's screens: "14:05" or "2:05 pm". */
+export const CLOCK_STYLES = ['24h', '12h'] as const
+export type ClockStyle = (typeof CLOCK_STYLES)[number]
+
 export interface Organization {
   id: number
   name: string
+  clockStyle: ClockStyle
 }
+
+export const organizationSettingsSchema = z.object({ clockStyle: z.enum(CLOCK_STYLES) })
+export type OrganizationSettingsBody = z.input<typeof organizationSettingsSchema>
 
 export interface Me {
   user: PublicUser

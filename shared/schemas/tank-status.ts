@@ -1,6 +1,7 @@
 import type { LatestResponse } from './series'
 
-export const TANK_STATES = ['alarm', 'watch', 'quiet', 'steady'] as const
+/** Most urgent first; `no_sensor` is a tank with no device and no reading, so nothing says it is well. */
+export const TANK_STATES = ['alarm', 'watch', 'quiet', 'no_sensor', 'steady'] as const
 export type TankState = (typeof TANK_STATES)[number]
 
 /** What the wall and the tanks list say about a tank now. */

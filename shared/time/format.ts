@@ -2,6 +2,8 @@
  * Instants as text on a site's clock, for the screens, the mails and the PDFs alike: a fish
  * room's 06:00 is its own, whoever reads it and wherever the server runs.
  */
+import type { ClockStyle } from '../schemas/auth'
+
 const formatters = new Map<string, Intl.DateTimeFormat>()
 
 function formatter(timeZone: string | undefined, options: Intl.DateTimeFormatOptions): Intl.DateTimeFormat {
@@ -22,17 +24,49 @@ function formatter(timeZone: string | undefined, options: Intl.DateTimeFormatOpt
 export type Instant = Date | string | number
 
 const toDate = (value: Instant) => (value instanceof Date ? value : new Date(value))
-const CLOCK = { hour: '2-digit', minute: '2-digit', hourCycle: 'h23' } as const
+const CLOCKS = {
+  '24h': { hour: '2-digit', minute: '2-digit', hourCycle: 'h23' },
+  '12h': { hour: 'numeric', minute: '2-digit', hourCycle: 'h12' },
+} as const satisfies Record<ClockStyle, Intl.DateTimeFormatOptions>
+let clockStyle: ClockStyle = '24h'
 
-/** "14:05" */
+/**
+ * How every clock time this module writes reads from now on: "14:05" or "2:05 pm". The client sets
+ * its organisation's choice once signed in; the server's mails and PDFs keep the 24-hour default.
+ */
+export function setClockStyle(style: ClockStyle) {
+  clockStyle = style
+}
+
+const clock = () => CLOCKS[clockStyle]
+
+/** "14:05", or "2:05 pm" on a 12-hour clock */
 export function formatClock(value: Instant, timeZone?: string): string {
-  return formatter(timeZone, CLOCK).format(toDate(value))
+  return formatter(timeZone, clock()).format(toDate(value))
 }
 
 /** "3 Mar, 14:05" */
 export function formatDateTime(value: Instant | null | undefined, timeZone?: string): string {
   if (value == null) return '—'
-  return formatter(timeZone, { day: 'numeric', month: 'short', ...CLOCK }).format(toDate(value))
+  return formatter(timeZone, { day: 'numeric', month: 'short', ...clock() }).format(toDate(value))
+}
+
+/** A time of day as stored ("07:00", "19:30") in the clock style: "07:00", or "7:00 am". */
+export function formatTimeOfDay(hhmm: string): string {
+  const match = /^(\d{2}):(\d{2})$/.exec(hhmm)
+  if (!match || clockStyle === '24h') return hhmm
+  const hour = Number(match[1]) % 24
+  return `${hour % 12 === 0 ? 12 : hour % 12}:${match[2]} ${hour < 12 ? 'am' : 'pm'}`
+}
+
+/** "Tue 3 Mar, 14:05" */
+export function formatDayTime(value: Instant, timeZone?: string): string {
+  return formatter(timeZone, { weekday: 'short', day: 'numeric', month: 'short', ...clock() }).format(toDate(value))
+}
+
+/** "2026" on the zone's calendar */
+export function formatYear(value: Instant, timeZone?: string): string {
+  return formatter(timeZone, { year: 'numeric' }).format(toDate(value))
 }
 
 /**
@@ -80,7 +114,7 @@ export function formatInZone(iso: string, timeZone: string): string {
     day: 'numeric',
     month: 'short',
     year: 'numeric',
-    ...CLOCK,
+    ...clock(),
     timeZoneName: 'shortOffset',
   }).format(moment)
 }

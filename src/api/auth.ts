@@ -1,4 +1,4 @@
-import type { InvitationPreview, Me, SessionInfo, SignInInput } from '@shared/schemas/auth'
+import type { InvitationPreview, Me, Organization, OrganizationSettingsBody, SessionInfo, SignInInput } from '@shared/schemas/auth'
 import { http } from './client'
 
 export async function signIn(input: SignInInput): Promise<SessionInfo> {
@@ -32,4 +32,8 @@ export async function requestPasswordReset(email: string): Promise<{ message: st
 
 export async function confirmPasswordReset(input: { token: string; password: string }): Promise<void> {
   await http.post('/auth/password-reset/confirm', input)
+}
+
+export async function updateOrganization(changes: OrganizationSettingsBody): Promise<Organization> {
+  return (await http.patch<Organization>('/organization', changes)).data
 }

@@ -57,7 +57,8 @@ export function withNewerReadings(wall: WallTank | null, latest: LatestResponse)
     targets: wall.targets,
     openIncidents: wall.openIncident ? [wall.openIncident] : [],
     quietDevices: [],
-    hasDevices: true,
+    // A tank without a sensor stays so until a reading (a test-kit entry, say) arrives.
+    hasDevices: wall.state !== 'no_sensor',
   })
   return { ...wall, state: decided.state, stateReasons: decided.reasons }
 }

@@ -8,11 +8,20 @@ import { aliases } from 'vuetify/iconsets/mdi-svg'
 import { mdiSvg } from './icons'
 import { initialThemeName } from '@/composables/useThemePreference'
 
-// Tank-state colours (steady, watch, alarm, quiet) are theme colours so later screens can use
-// `color="alarm"` and get the right shade for light and dark alike.
+// Tankwarden's look is defined here once: the palette, the header, the state colours and the tile.
+// Tank-state colours (steady, watch, alarm, quiet, no_sensor) are theme colours so screens use
+// `color="alarm"` and get the right shade for light and dark alike. Every pair of a colour and its
+// `on-` colour keeps at least 4.5:1 (WCAG 2.1, 1.4.3), which tests/e2e/look.test.ts measures.
+
+/** The tile and card shape every screen and the wall share (as `--v-tile-radius`, `--v-tile-border`). */
+const TILE = { 'tile-radius': '12px', 'tile-border': '3px' }
+
 export const tankwardenLight: ThemeDefinition = {
   dark: false,
   colors: {
+    // Deep pond teal for the header: white on it reads at about 9:1.
+    header: '#0E4950',
+    'on-header': '#FFFFFF',
     background: '#F3F6F6',
     surface: '#FFFFFF',
     'surface-variant': '#DDE5E6',
@@ -28,11 +37,13 @@ export const tankwardenLight: ThemeDefinition = {
     watch: '#8A5A00',
     alarm: '#B3261E',
     quiet: '#5D5F86',
+    no_sensor: '#5F6B6E',
   },
   variables: {
     // Labels, subtitles and hints are drawn at this share of the text colour; field labels also sit
     // inside a field at 87 %. At 0.72 the faintest of them stays above 4.5:1 on every light surface.
     'medium-emphasis-opacity': 0.72,
+    ...TILE,
   },
 }
 
@@ -40,6 +51,9 @@ export const tankwardenLight: ThemeDefinition = {
 export const tankwardenDark: ThemeDefinition = {
   dark: true,
   colors: {
+    // A header a shade above the page, not a bright band across the top of a dark room.
+    header: '#1B3236',
+    'on-header': '#E3F1F2',
     background: '#0E1517',
     surface: '#162124',
     'surface-variant': '#2A3A3E',
@@ -54,6 +68,7 @@ export const tankwardenDark: ThemeDefinition = {
     watch: '#E5AE55',
     alarm: '#F28B82',
     quiet: '#A7A9DB',
+    no_sensor: '#B5C0C2',
     // The light tints need dark text on top to stay legible.
     'on-primary': '#00292E',
     'on-secondary': '#161E2C',
@@ -65,7 +80,9 @@ export const tankwardenDark: ThemeDefinition = {
     'on-watch': '#2B1C00',
     'on-alarm': '#3D0B08',
     'on-quiet': '#181A3A',
+    'on-no_sensor': '#1B2224',
   },
+  variables: { ...TILE },
 }
 
 export const vuetify = createVuetify({

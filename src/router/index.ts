@@ -4,6 +4,7 @@ import { requestWallEarly } from '@/api/wall-early'
 import { pageTitle } from '@/composables/usePageTitle'
 import { fetchSetupState } from '@/api/setup'
 import { useAuthStore } from '@/stores/auth'
+import { denyWithNotice, settleNotice } from './denied'
 import { safeRedirect } from './redirect'
 import { routes } from './routes'
 
@@ -50,12 +51,17 @@ export function installGuards(target: Router) {
       return true
     }
     if (!auth.isSignedIn) return { name: 'sign-in', query: { redirect: to.fullPath } }
-    if (to.meta.roles && (!auth.role || !to.meta.roles.includes(auth.role))) return { name: 'tanks' }
+    if (to.meta.roles && (!auth.role || !to.meta.roles.includes(auth.role))) {
+      // The overview is everyone's first stop after signing in; a viewer's is the tanks list, unexplained.
+      if (to.name !== 'overview') denyWithNotice(to.meta.title, to.meta.roles, auth.role)
+      return { name: 'tanks' }
+    }
     return to.name === 'wall' ? openingWall(to, from) : true
   })
 
   target.afterEach((to, from, failure) => {
     if (!failure) {
+      settleNotice()
       // Within one page (a hash, a filter in the query) the title the page gave itself stays.
       if (to.path !== from.path || to.name !== from.name) document.title = pageTitle(to.meta.title)
       sessionStorage.removeItem(CHUNK_RELOAD_KEY)

@@ -1,6 +1,7 @@
 import { acceptHMRUpdate, defineStore } from 'pinia'
-import { computed, ref } from 'vue'
-import type { Organization, PublicUser, SessionInfo } from '@shared/schemas/auth'
+import { computed, ref, watch } from 'vue'
+import type { ClockStyle, Organization, PublicUser, SessionInfo } from '@shared/schemas/auth'
+import { setClockStyle } from '@shared/time'
 import * as authApi from '@/api/auth'
 import { provideToken, storeToken, storedToken } from '@/api/session'
 import { provideOfflineOwner } from '@/offline/db'
@@ -15,6 +16,8 @@ export const useAuthStore = defineStore('auth', () => {
 
   provideToken(() => token.value)
   provideOfflineOwner(() => user.value?.id ?? null)
+  // Every time on every screen follows the organisation's clock; signed out, the 24-hour default.
+  watch(organization, (org) => setClockStyle(org?.clockStyle ?? '24h'), { immediate: true, flush: 'sync' })
 
   const role = computed(() => user.value?.role ?? null)
   const isSignedIn = computed(() => token.value != null && user.value != null)
@@ -76,6 +79,10 @@ export const useAuthStore = defineStore('auth', () => {
     return restoring
   }
 
+  async function setOrganizationClock(clockStyle: ClockStyle) {
+    organization.value = await authApi.updateOrganization({ clockStyle })
+  }
+
   async function changePassword(currentPassword: string, newPassword: string) {
     await authApi.changePassword({ currentPassword, newPassword })
   }
@@ -96,6 +103,7 @@ export const useAuthStore = defineStore('auth', () => {
     applySession,
     restore,
     clearSession,
+    setOrganizationClock,
     changePassword,
     // Signing out resets every store (stores/session-reset.ts); for this one that is the session itself.
     $reset: clearSession,

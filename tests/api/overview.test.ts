@@ -71,15 +71,31 @@ describe("the owner's overview after an injected night", () => {
   })
 
   it('counts the tank states per site as the wall does', () => {
-    expect(site().states).toEqual({ steady: 1, watch: 1, alarm: 1, quiet: 1 })
+    // The quarantine bay has neither a device nor a reading: nothing says it is steady.
+    expect(site().states).toEqual({ steady: 0, watch: 1, alarm: 1, quiet: 1, no_sensor: 1 })
     const second = overview.sites.find((s) => s.site.id === org.siteIds[1])!
-    expect(second.states).toEqual({ steady: 0, watch: 0, alarm: 0, quiet: 0 })
+    expect(second.states).toEqual({ steady: 0, watch: 0, alarm: 0, quiet: 0, no_sensor: 0 })
     expect(second.overnight.incidents).toEqual([])
   })
 
   it('shows the owner the first-steps checklist and keepers none', async () => {
     expect(overview.checklist?.items.map((i) => `${i.step}:${i.done}`)).toEqual(['tanks:true', 'device:true', 'roster:true', 'people:true', 'wall:false'])
     expect((await overviewService(t.ctx).get(actorOf(org, 'keeper'), NOW)).checklist).toBeNull()
+  })
+
+  it("counts from the site's own end of the working day once the owner names one, refusing a time that is none", async () => {
+    const path = `/api/v1/sites/${org.siteIds[0]}`
+    const bad = await t.api().patch(path).set(bearer(org.users.owner.token)).send({ workdayEnd: '25:00' })
+    expect(bad.status).toBe(400)
+    expect(bad.body.error.fields).toHaveProperty('workdayEnd')
+    const res = await t.api().patch(path).set(bearer(org.users.owner.token)).send({ workdayEnd: '20:00' })
+    expect(res.status).toBe(200)
+    expect(res.body.workdayEnd).toBe('20:00')
+    const later = (await overviewService(t.ctx).get(actorOf(org, 'owner'), NOW)).sites.find((s) => s.site.id === org.siteIds[0])!
+    // 20:00 CET on 9 March is 19:00 UTC: the water change at 17:30 UTC was before the evening began.
+    expect(later).toMatchObject({ since: '2026-03-09T19:00:00.000Z', workdayEnd: '20:00', workdayEndAssumed: false })
+    expect(later.overnight.waterChanges).toEqual([])
+    await t.api().patch(path).set(bearer(org.users.owner.token)).send({ workdayEnd: null })
   })
 
   it('answers owners and keepers of the organisation only, over HTTP', async () => {

@@ -258,6 +258,8 @@ const ROUTES: RouteCase[] = [
     body: { email: w.freshEmail(), name: 'New keeper', role: 'keeper' },
   })),
   row('delete', '/users/invitations/:id', signedIn(204, 403, 403, 404), async (w) => ({ param: (await w.freshInvitation()).id })),
+  // Each owner changes their own organisation, so another organisation's owner is answered too.
+  row('patch', '/organization', signedIn(200, 403, 403, 200), () => ({ body: { clockStyle: '24h' } })),
   row('patch', '/users/:id', ownerOnly, async (w) => ({ param: await w.freshUser(), body: { name: 'Renamed keeper' } })),
   row('get', '/sites', signedIn(200, 200, 200, 200)),
   row('get', '/sites/:id', signedIn(200, 200, 200, 404), async (w) => ({ param: await w.freshSite() })),

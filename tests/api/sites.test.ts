@@ -26,6 +26,7 @@ describe('create', () => {
       timeZone: 'Europe/Lisbon',
       address: '1 Quay Street',
       notes: '',
+      workdayEnd: null,
       archivedAt: null,
       tankCount: 0,
     })

@@ -42,6 +42,14 @@ const named = (option: ReturnType<typeof build>, name: string) => seriesOf(optio
 describe('buildMetricOption for bucketed series', () => {
   const option = build({ kitPoints: [{ t: '2026-03-01T01:30:00.000Z', value: 25.6, source: 'test_kit' }] })
 
+  it("lists the mean first, so the zoom slider's preview is the line the chart draws, and keeps the labels inside", () => {
+    expect(seriesOf(option)[0]!.name).toBe(SERIES_NAMES.mean)
+    const slider = (option.dataZoom as Array<{ type: string; showDataShadow?: boolean }>).find((z) => z.type === 'slider')
+    expect(slider?.showDataShadow).toBe(true)
+    expect(option.grid).toMatchObject({ containLabel: true })
+    expect((option.grid as { right: number }).right).toBeGreaterThanOrEqual(32)
+  })
+
   it('draws the min–max envelope as a stacked area on the minimum', () => {
     const base = named(option, SERIES_NAMES.envelopeBase)!
     const spread = named(option, SERIES_NAMES.envelope)!

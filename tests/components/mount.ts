@@ -54,7 +54,7 @@ export async function mountView<P extends Record<string, unknown>>(component: Co
     const auth = useAuthStore()
     auth.token = 'test-token'
     auth.user = userWithRole(options.role)
-    auth.organization = { id: 1, name: 'Harbour Fish Room' }
+    auth.organization = { id: 1, name: 'Harbour Fish Room', clockStyle: '24h' }
   }
   const router = options.router ?? testRouter()
   await router.push(options.path ?? '/tanks')

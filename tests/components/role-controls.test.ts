@@ -104,7 +104,9 @@ const tank: PublicTank = {
 
 beforeEach(() => {
   vi.mocked(getTank).mockResolvedValue(tank)
-  vi.mocked(listSites).mockResolvedValue([{ id: 3, name: 'Back fish room', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 1 }])
+  vi.mocked(listSites).mockResolvedValue([
+    { id: 3, name: 'Back fish room', timeZone: 'Europe/Berlin', address: '', notes: '', workdayEnd: null, archivedAt: null, tankCount: 1 },
+  ])
 })
 
 const buttonTexts = (wrapper: { findAll: (s: string) => { text: () => string }[] }) => wrapper.findAll('a, button').map((el) => el.text())
@@ -126,7 +128,7 @@ describe('tank page', () => {
     expect(text).toMatch(/Temperature\s24\.0 – 27\.0 °C/)
     expect(text).toMatch(/pH\s8\.00 – 8\.40/)
     for (const empty of [
-      'No readings yet.',
+      'No readings yet — they come from a registered device or a test-kit entry.',
       'No devices on this tank yet.',
       'No watch rules yet.',
       'No snoozes: every alert is sent.',

@@ -42,7 +42,7 @@ describe('route guards', () => {
 
   it('restores a remembered session before deciding', async () => {
     localStorage.setItem('tw.token', 'remembered')
-    vi.mocked(fetchMe).mockResolvedValue({ user: userWithRole('keeper'), organization: { id: 1, name: 'Shop' } })
+    vi.mocked(fetchMe).mockResolvedValue({ user: userWithRole('keeper'), organization: { id: 1, name: 'Shop', clockStyle: '24h' } })
     const router = appRouter()
     await router.push('/tanks/new')
     expect(fetchMe).toHaveBeenCalledTimes(1)

@@ -57,6 +57,14 @@ describe('SignInView', () => {
     expect(wrapper.text()).toContain('not an e-mail address')
   })
 
+  it('drops the e-mail message as soon as the e-mail is changed, keeping it off a corrected value', async () => {
+    const { wrapper } = await attempt('not-an-address', 'whatever')
+    expect(wrapper.text()).toContain('not an e-mail address')
+    await wrapper.find('input[type="email"]').setValue('sam@example.test')
+    await flushPromises()
+    expect(wrapper.text()).not.toContain('not an e-mail address')
+  })
+
   it("signs in and goes to the overview (a keeper's home)", async () => {
     vi.mocked(signIn).mockResolvedValue({
       token: 'jwt-token',
@@ -72,7 +80,7 @@ describe('SignInView', () => {
         organizationId: 1,
         createdAt: '2025-01-01T00:00:00.000Z',
       },
-      organization: { id: 1, name: 'Harbour Fish Room' },
+      organization: { id: 1, name: 'Harbour Fish Room', clockStyle: '24h' },
     })
     const { router } = await attempt(' Sam@Example.test ', 'correct horse battery')
 

@@ -11,6 +11,7 @@ const site: PublicSite = {
   timeZone: 'Europe/Berlin',
   address: '',
   notes: '',
+  workdayEnd: null,
   archivedAt: null,
   tankCount: 0,
 }

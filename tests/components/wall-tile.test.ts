@@ -22,11 +22,24 @@ describe('WallTile', () => {
     ['watch', 'Watch', 'mdi-eye'],
     ['alarm', 'Alarm', 'mdi-alert-octagon'],
     ['quiet', 'Quiet', 'mdi-access-point-network-off'],
+    ['no_sensor', 'No sensor', 'mdi-help-circle-outline'],
   ] as const)('shows the %s state as a word and its own icon, not colour alone', async (state, word, icon) => {
     const wrapper = await tile({ state: state as TankState })
     expect(wrapper.find('[data-test="tile-state"]').text()).toBe(word)
     expect(wrapper.find('[data-test="tile-state-icon"]').classes()).toContain(icon)
     expect(wrapper.find('article').attributes('data-state')).toBe(state)
+  })
+
+  it('says a tank without a sensor has nothing measuring it, instead of showing empty figures', async () => {
+    const wrapper = await tile({ state: 'no_sensor', latest: {}, stateReasons: ['No sensor and no test-kit entry'], newestReadingAt: null })
+    expect(wrapper.find('[data-test="tile-no-sensor"]').text()).toContain('Nothing measures this tank')
+    expect(wrapper.find('[data-test="tile-temperature"]').exists()).toBe(false)
+    expect(wrapper.find('[data-test="tile-age"]').text()).toBe('no readings')
+  })
+
+  it('names the metric and the span of its trend line', async () => {
+    const { wrapper } = await mountView(WallTile, { props: { tank: wallTank(4), now: NOW, timeZone: 'Europe/Berlin', showTrend: true } })
+    expect(wrapper.find('[data-test="tile-trend-label"]').text()).toBe('Temperature · last 6 h')
   })
 
   it('shows the temperature in °C with one decimal, pH with two, and the heater margin', async () => {

@@ -69,11 +69,12 @@ describe("the owner's overview", () => {
     expect(await lines(page, 'overview-quarantine')).toEqual([`${NIGHT.tanks.quarantine}: quarantine day ${NIGHT.quarantineDaysIn + 1} of 28`])
 
     const strip = card(page).locator('[data-test="overview-strip"]')
-    for (const state of ['steady', 'watch', 'alarm', 'quiet']) {
+    for (const state of ['watch', 'alarm', 'quiet', 'no_sensor']) {
       expect(await strip.locator(`[data-test="strip-${state}"]`).getAttribute('data-count')).toBe('1')
     }
+    expect(await strip.locator('[data-test="strip-steady"]').getAttribute('data-count')).toBe('0')
     // The same chips and words as the wall and the tanks list.
-    expect(await strip.locator('[data-test="tank-state"]').allInnerTexts()).toEqual(['ALARM', 'WATCH', 'QUIET', 'STEADY'])
+    expect(await strip.locator('[data-test="tank-state"]').allInnerTexts()).toEqual(['ALARM', 'WATCH', 'QUIET', 'NO SENSOR', 'STEADY'])
     await page.close()
   })
 

@@ -35,7 +35,13 @@ export const accountsRoutes = (w: FuzzWorld): FuzzRoute[] => [
   { method: 'post', path: '/users/invitations', token: w.owner, base: { email: 'invitee@fuzz.example', name: 'Invitee', role: 'viewer', siteIds: [w.siteId] } },
   { method: 'patch', path: `/users/${w.targetUserId}`, token: w.owner, base: { role: 'keeper', active: true, name: 'Fuzz target', siteIds: [] } },
   { method: 'post', path: '/sites', token: w.owner, base: { name: 'Back room', timeZone: 'Europe/Paris', address: '1 Reed Lane', notes: '' } },
-  { method: 'patch', path: `/sites/${w.org.siteIds[1]}`, token: w.owner, base: { name: 'Fish room', timeZone: 'America/New_York', address: '', notes: 'n' } },
+  {
+    method: 'patch',
+    path: `/sites/${w.org.siteIds[1]}`,
+    token: w.owner,
+    base: { name: 'Fish room', timeZone: 'America/New_York', address: '', notes: 'n', workdayEnd: '18:30' },
+  },
+  { method: 'patch', path: '/organization', token: w.owner, base: { clockStyle: '12h' } },
   { method: 'post', path: `/sites/${w.siteId}/wall-credentials`, token: w.owner, base: { name: 'Shop TV' } },
   // A notification device; the app alone runs here (no push sender), so no endpoint is ever called.
   {

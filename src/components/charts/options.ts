@@ -224,13 +224,15 @@ export function buildMetricOption(input: MetricChartInput): MetricChartOption {
   const seriesList: Array<LineSeriesOption | ScatterSeriesOption> = []
   let kit: Array<[number, number]>
   let main: LineSeriesOption
+  // Drawn under the mean, but listed after it: the zoom slider previews the first line series of its axis.
+  let envelope: LineSeriesOption[] = []
 
   if (bucketed) {
     const step = series.bucketSeconds * 1000
     const lastMs = series.points.length ? ms(series.points[series.points.length - 1]!.t) : fromMs
     const mean: Array<[number, number]> = series.points.map((b) => [ms(b.t), convert(b.mean)])
     const live = liveAfter(input.livePoints, lastMs, false).map(([t, v]) => [t, convert(v)] as [number, number])
-    seriesList.push(...envelopeSeries(series.points, step, convert, colors))
+    envelope = envelopeSeries(series.points, step, convert, colors)
     main = {
       name: SERIES_NAMES.mean,
       type: 'line',
@@ -266,7 +268,8 @@ export function buildMetricOption(input: MetricChartInput): MetricChartOption {
     ].map(([t, v]) => [t, convert(v)])
   }
   main.markArea = bandArea(input.band, convert, colors.band)
-  seriesList.push(main)
+  main.z = 3
+  seriesList.push(main, ...envelope)
   if (kit.length) seriesList.push(kitScatter(kit, colors.kit))
   const spikes = bucketed ? [] : series.raw.filter((r) => r.spike).map((r) => [ms(r.t), convert(r.value)] as [number, number])
   if (spikes.length) seriesList.push(spikeScatter(spikes, colors.text))
@@ -282,7 +285,8 @@ export function buildMetricOption(input: MetricChartInput): MetricChartOption {
   return {
     animation: false,
     textStyle: { color: colors.text },
-    grid: { left: 8, right: 16, top: 36, bottom: 64, containLabel: true },
+    // Room on the right for the last time label, which ECharts centres on the axis's end.
+    grid: { left: 8, right: 32, top: 36, bottom: 64, containLabel: true },
     legend: { data: legend, top: 0, textStyle: { color: colors.text } },
     tooltip: {
       trigger: 'axis',
@@ -307,7 +311,7 @@ export function buildMetricOption(input: MetricChartInput): MetricChartOption {
     },
     dataZoom: [
       { type: 'inside', xAxisIndex: 0, filterMode: 'none' },
-      { type: 'slider', xAxisIndex: 0, filterMode: 'none', height: 22, bottom: 8 },
+      { type: 'slider', xAxisIndex: 0, filterMode: 'none', height: 22, bottom: 8, left: 48, right: 48, showDataShadow: true },
     ],
     series: seriesList,
   }

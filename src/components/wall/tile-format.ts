@@ -1,4 +1,5 @@
 import type { TankState } from '@shared/schemas/tank-status'
+import { formatTimeOfDay } from '@shared/time'
 
 export interface StateLook {
   word: string
@@ -14,6 +15,8 @@ export const STATE_LOOKS: Record<TankState, StateLook> = {
   watch: { word: 'Watch', icon: 'mdi-eye', color: 'watch', hint: 'Near a limit, or a warning is open' },
   alarm: { word: 'Alarm', icon: 'mdi-alert-octagon', color: 'alarm', hint: 'An alarm is open' },
   quiet: { word: 'Quiet', icon: 'mdi-access-point-network-off', color: 'quiet', hint: 'No fresh data from a device' },
+  // Neutral, not green: nothing is known about the water, which is not the same as "all in band".
+  no_sensor: { word: 'No sensor', icon: 'mdi-help-circle-outline', color: 'no_sensor', hint: 'No device and no reading: nothing tells how this tank is' },
 }
 
 export interface HeaterLine {
@@ -47,6 +50,7 @@ export function lightLine(lightOn: boolean | null, scheduledOn: boolean | null, 
   const word = lightOn ? 'Light on' : 'Light off'
   const icon = lightOn ? 'mdi-lightbulb-on' : 'mdi-lightbulb-off-outline'
   if (scheduledOn == null || !schedule) return { word, icon, detail: 'no schedule', offSchedule: false }
-  if (scheduledOn === lightOn) return { word, icon, detail: `as scheduled ${schedule.on}–${schedule.off}`, offSchedule: false }
-  return { word, icon, detail: `should be ${scheduledOn ? 'on' : 'off'} (${schedule.on}–${schedule.off})`, offSchedule: true }
+  const hours = `${formatTimeOfDay(schedule.on)}–${formatTimeOfDay(schedule.off)}`
+  if (scheduledOn === lightOn) return { word, icon, detail: `as scheduled ${hours}`, offSchedule: false }
+  return { word, icon, detail: `should be ${scheduledOn ? 'on' : 'off'} (${hours})`, offSchedule: true }
 }

@@ -22,7 +22,9 @@ beforeEach(() => {
   vi.mocked(getCareToday).mockReset()
   vi.mocked(getCareToday).mockResolvedValue({ siteIds: [3], onDuty: true, tasks, watch: [], stock: [] })
   vi.mocked(markCareTasksDone).mockReset()
-  vi.mocked(listSites).mockResolvedValue([{ id: 3, name: 'Front shop', timeZone: 'Europe/Berlin', address: '', notes: '', archivedAt: null, tankCount: 4 }])
+  vi.mocked(listSites).mockResolvedValue([
+    { id: 3, name: 'Front shop', timeZone: 'Europe/Berlin', address: '', notes: '', workdayEnd: null, archivedAt: null, tankCount: 4 },
+  ])
 })
 
 async function mountToday() {

@@ -91,7 +91,7 @@ describe('PhotoTimeline', () => {
     vi.mocked(listPhotos).mockResolvedValue([])
     const { wrapper } = await mountView(PhotoTimeline, { role: 'keeper', props: { tankId: 12, canWrite: true, timeZone: 'UTC' } })
     await flushPromises()
-    expect(wrapper.find('[data-test="photo-empty"]').text()).toBe('No photos of this tank yet.')
+    expect(wrapper.find('[data-test="photo-empty"]').text()).toBe('No photos of this tank yet — add one to see how it changes over the weeks.')
     expect(wrapper.find('[data-test="photo-add"]').exists()).toBe(true)
   })
 })

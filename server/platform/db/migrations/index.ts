@@ -17,13 +17,15 @@ import addIncidentFlapsSitesMaintenance from './202612050200-add-incident-flaps-
 import createBuilds from './202612051000-create-builds'
 import addDailyRollups from './202612051200-add-daily-rollups'
 import addChecklistDismissed from './202612051300-add-checklist-dismissed'
+import addCalibrations from './202612060100-add-calibrations'
+import createTreatmentCourses from './202612060200-create-treatment-courses'
+import addClientIds from './202612060300-add-client-ids'
+import createPush from './202612060400-create-push'
 import createClientsVisits from './202612060500-create-clients-visits'
 import addLivestockBatches from './202612060600-add-livestock-batches'
 import createEquipment from './202612060610-create-equipment'
-import addClientIds from './202612060300-add-client-ids'
-import createPush from './202612060400-create-push'
-import addCalibrations from './202612060100-add-calibrations'
-import createTreatmentCourses from './202612060200-create-treatment-courses'
+import addOrganizationClockStyle from './202612060700-add-organization-clock-style'
+import addSiteWorkdayEnd from './202612060710-add-site-workday-end'
 
 /** Every migration in order. Add new files here; never edit one that has shipped. */
 export const migrations: Migration[] = [
@@ -45,11 +47,13 @@ export const migrations: Migration[] = [
   createBuilds,
   addDailyRollups,
   addChecklistDismissed,
+  addCalibrations,
+  createTreatmentCourses,
+  addClientIds,
+  createPush,
   createClientsVisits,
   addLivestockBatches,
   createEquipment,
-  addClientIds,
-  createPush,
-  addCalibrations,
-  createTreatmentCourses,
+  addOrganizationClockStyle,
+  addSiteWorkdayEnd,
 ]
