@@ -6,7 +6,9 @@ import { ROLLUP_BACKUP_TABLES } from '../readings'
  * What an organization backup holds, table by table, in the order a restore inserts them.
  * Columns are named as in PostgreSQL. A column typed `->table` is an id of that table's rows and
  * is remapped on restore; a trailing `?` allows null. Secrets never leave: no password or token
- * hashes, no sessions, invitations, wall keys, reset or acknowledge links, no mail.
+ * hashes, no sessions, invitations, wall keys, reset or acknowledge links, no mail, no push devices.
+ * Service visits stay out for now: their lists of tanks, photos and test-kit entries are ids a
+ * restore cannot remap yet.
  */
 type Kind = 'text' | 'int' | 'float' | 'bool' | 'time' | 'date' | 'json' | 'text[]'
 export type BackupTableName = (typeof BACKUP_TABLES)[number]['table']
@@ -26,16 +28,31 @@ export interface BackupTable {
 
 export const BACKUP_TABLES = [
   {
+    table: 'clients',
+    hasId: true,
+    order: 'id',
+    columns: {
+      kind: 'text',
+      name: 'text',
+      contact_name: 'text',
+      email: 'text',
+      phone: 'text',
+      address: 'text',
+      notes: 'text',
+      archived_at: 'time?',
+    },
+  },
+  {
     table: 'users',
     hasId: true,
     order: 'id',
-    columns: { email: 'text', name: 'text', role: 'text', active: 'bool', unit_preferences: 'json' },
+    columns: { email: 'text', name: 'text', role: 'text', active: 'bool', unit_preferences: 'json', client_id: '->clients?' },
   },
   {
     table: 'sites',
     hasId: true,
     order: 'id',
-    columns: { name: 'text', time_zone: 'text', address: 'text', notes: 'text', archived_at: 'time?', backup_user_id: '->users?' },
+    columns: { name: 'text', time_zone: 'text', address: 'text', notes: 'text', archived_at: 'time?', backup_user_id: '->users?', workday_end: 'text?' },
   },
   {
     table: 'user_sites',
@@ -50,6 +67,7 @@ export const BACKUP_TABLES = [
     order: 'id',
     columns: {
       site_id: '->sites',
+      client_id: '->clients?',
       name: 'text',
       kind: 'text',
       stage: 'text',

@@ -23,6 +23,13 @@ async function buildOrganization() {
     password_hash: 'x',
     unit_preferences: JSON.stringify({ temperature: 'F' }),
   })
+  const client = await insertRow(t.ctx, 'clients', {
+    organization_id: o,
+    kind: 'company',
+    name: 'Harbour Café',
+    email: 'tanks@harbour.example',
+    address: '1 Quay',
+  })
   const viewer = await insertRow(t.ctx, 'users', {
     organization_id: o,
     email: `client@marrowfen-${stamp}.example`,
@@ -30,7 +37,21 @@ async function buildOrganization() {
     role: 'viewer',
     password_hash: 'x',
   })
-  const site = await insertRow(t.ctx, 'sites', { organization_id: o, name: 'Riverside shop', time_zone: 'Europe/London', backup_user_id: keeper })
+  await insertRow(t.ctx, 'users', {
+    organization_id: o,
+    email: `cafe@marrowfen-${stamp}.example`,
+    name: 'Café manager',
+    role: 'viewer',
+    password_hash: 'x',
+    client_id: client,
+  })
+  const site = await insertRow(t.ctx, 'sites', {
+    organization_id: o,
+    name: 'Riverside shop',
+    time_zone: 'Europe/London',
+    backup_user_id: keeper,
+    workday_end: '17:30',
+  })
   const room = await insertRow(t.ctx, 'sites', {
     organization_id: o,
     name: 'Fish room',
@@ -40,6 +61,7 @@ async function buildOrganization() {
   await insertRow(t.ctx, 'user_sites', { user_id: viewer, site_id: site })
   const tank = await insertRow(t.ctx, 'tanks', { ...tankValues(o, site, 'Display 1'), heater: JSON.stringify({ watts: 150, setPointC: 25, topCm: 30 }) })
   const tank2 = await insertRow(t.ctx, 'tanks', tankValues(o, room, 'Quarantine'))
+  await insertRow(t.ctx, 'tanks', { ...tankValues(o, site, 'Café tank'), client_id: client })
   const device = await insertRow(t.ctx, 'devices', {
     organization_id: o,
     tank_id: tank,
@@ -359,8 +381,13 @@ describe('organization backup', () => {
     expect(first.res.headers['content-disposition']).toMatch(/^attachment; filename="tankwarden-backup-marrowfen-aquatics-\d{4}-\d{2}-\d{2}\.json"$/)
     const file = first.res.text
     const backup = first.backup
-    expect(backup.formatVersion).toBe(1)
-    expect(backup.tables.users!.map((u) => u.email).sort()).toEqual([`ash@marrowfen-${stamp}.example`, `client@marrowfen-${stamp}.example`, ownerEmail])
+    expect(backup.formatVersion).toBe(2)
+    expect(backup.tables.users!.map((u) => u.email).sort()).toEqual([
+      `ash@marrowfen-${stamp}.example`,
+      `cafe@marrowfen-${stamp}.example`,
+      `client@marrowfen-${stamp}.example`,
+      ownerEmail,
+    ])
     expect(file).not.toContain('password_hash')
     expect(file).not.toContain('secret-hash')
     expect(backup.tables.sites![1]!.archived_at).toBe('2026-06-01T10:00:00.123456+00:00')
@@ -372,7 +399,8 @@ describe('organization backup', () => {
     const target = await emptyOrganization(ownerEmail)
     const restored = await restore(target.owner.token, file)
     expect(restored.status, JSON.stringify(restored.body)).toBe(201)
-    expect(restored.body.rows.users).toBe(2)
+    expect(restored.body.rows.users).toBe(3)
+    expect(restored.body.rows.clients).toBe(1)
     expect(restored.body.readings).toBe(3)
     expect(restored.body.notes.join(' ')).toMatch(/new token.*new password/s)
 
@@ -438,7 +466,7 @@ describe('a malformed backup', () => {
   })
 
   const cases: Array<[string, (b: Backup) => unknown, string]> = [
-    ['a wrong format version', (b) => ({ ...b, formatVersion: 2 }), 'formatVersion'],
+    ['a wrong format version', (b) => ({ ...b, formatVersion: 1 }), 'formatVersion'],
     [
       'a text where a number belongs',
       (b) => {
