@@ -1,6 +1,6 @@
 import { Router } from 'express'
+import { idParamsSchema, idSchema } from '@shared/schemas/common'
 import { z } from 'zod'
-import { idParamsSchema } from '@shared/schemas/common'
 import { ruleInputSchema, ruleUpdateSchema, snoozeInputSchema } from '@shared/schemas/rules'
 import { actorOf, allow } from '../access/middleware'
 import type { AppContext } from '../context'
@@ -8,7 +8,7 @@ import { parse, parseChanges } from '../platform/http/validate'
 import { rulesService } from './watch-rules'
 import { snoozesService } from './snoozes'
 
-const overrideParams = z.object({ id: z.coerce.number().int().positive(), ruleId: z.coerce.number().int().positive() })
+const overrideParams = z.object({ id: idSchema, ruleId: idSchema })
 
 /** Mounted under /tanks: a tank's rules (its own and the site's) and its snoozes. */
 export function tankRulesRoutes(ctx: AppContext, status?: (ruleId: number, tankId: number) => 'clear' | 'holding' | 'tripped' | undefined) {

@@ -1,9 +1,9 @@
 import { z } from 'zod'
+import { clockTimeSchema, idSchema } from './common'
 import { SPECIES_KEYS } from '../care/species'
 import { DEFAULT_MEDIA_ORDER, TROPICAL_SET_POINT_C } from '../build/equipment'
 import { DEFAULT_MAX_PH_CHANGE_PER_DAY, DEFAULT_SETTLE_DAYS } from '../build/timeline'
 import { parseLocalDate } from '../time/zoned'
-import { clockTimeSchema } from './common'
 import { targetBandSchema, type PublicTank } from './tanks'
 
 const localDate = z.string().refine((s) => {
@@ -103,7 +103,7 @@ export type BuildStepDoneInput = z.infer<typeof buildStepDoneSchema>
 /** The body as a client sends it, before the defaults are filled in. */
 export type BuildStepDoneBody = z.input<typeof buildStepDoneSchema>
 export const buildStepParamsSchema = z.object({
-  id: z.coerce.number().int().positive(),
+  id: idSchema,
   key: z.string().regex(/^(conditioner|heater_check|ph|plants|cycling|stock_[1-8])$/, 'unknown step'),
 })
 export const buildReportMailSchema = z.object({ emails: z.array(z.email().max(320)).min(1, 'at least one address').max(10) })

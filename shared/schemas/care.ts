@@ -1,7 +1,7 @@
 import { z } from 'zod'
+import { clientIdSchema, idSchema } from './common'
 import { CARE_TASK_KINDS } from '../care/defaults'
 import { SPECIES_KEYS } from '../care/species'
-import { clientIdSchema } from './common'
 import { instantSchema } from './time'
 import { localDateSchema } from './time'
 
@@ -86,7 +86,7 @@ export const careTaskSnoozeSchema = z.object({
 
 export const careTodayQuerySchema = z
   .object({
-    siteId: z.coerce.number().int().positive().optional(),
+    siteId: idSchema.optional(),
     mine: z
       .enum(['true', 'false'])
       .optional()

@@ -1,6 +1,8 @@
 import { z } from 'zod'
 
-export const idSchema = z.coerce.number().int().positive()
+/** PostgreSQL's integer, the type of every id column: a larger id names no row and is refused as bad input. */
+export const MAX_ID = 2_147_483_647
+export const idSchema = z.coerce.number().int().positive().max(MAX_ID, 'no such id')
 export const idParamsSchema = z.object({ id: idSchema })
 
 /**

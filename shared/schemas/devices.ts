@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { idSchema } from './common'
 import { METRIC_KEYS, type MetricKey } from '../metrics/registry'
 
 export const deviceInputSchema = z.object({
@@ -13,7 +14,7 @@ export const deviceInputSchema = z.object({
 export type DeviceInput = z.infer<typeof deviceInputSchema>
 export const deviceUpdateSchema = deviceInputSchema.omit({ tankId: true }).partial()
 
-export const deviceListQuerySchema = z.object({ tankId: z.coerce.number().int().positive().optional() })
+export const deviceListQuerySchema = z.object({ tankId: idSchema.optional() })
 
 export interface PublicDevice {
   id: number

@@ -1,14 +1,14 @@
 import { z } from 'zod'
+import { idSchema, pageQuerySchema } from './common'
 import type { HeaterAge } from './equipment'
-import { pageQuerySchema } from './common'
 import { instantSchema } from './time'
 
 export const INCIDENT_STATES = ['open', 'acknowledged', 'resolved'] as const
 export type IncidentState = (typeof INCIDENT_STATES)[number]
 
 export const incidentListQuerySchema = pageQuerySchema.extend({
-  siteId: z.coerce.number().int().positive().optional(),
-  tankId: z.coerce.number().int().positive().optional(),
+  siteId: idSchema.optional(),
+  tankId: idSchema.optional(),
   state: z.enum([...INCIDENT_STATES, 'unresolved']).optional(),
   severity: z.enum(['warning', 'alarm']).optional(),
   from: instantSchema.optional(),

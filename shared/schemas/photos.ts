@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { idSchema } from './common'
 import { instantSchema } from './time'
 
 export const PHOTO_CAPTION_MAX = 500
@@ -12,7 +13,7 @@ const isoInstant = instantSchema
 export const photoUploadFieldsSchema = z.object({
   caption: z.string().trim().max(PHOTO_CAPTION_MAX).default(''),
   takenAt: isoInstant.optional(),
-  careLogEntryId: z.coerce.number().int().positive().optional(),
+  careLogEntryId: idSchema.optional(),
 })
 export type PhotoUploadFields = z.infer<typeof photoUploadFieldsSchema>
 /** The same fields as a client has them, before they become form strings. */

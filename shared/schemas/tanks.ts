@@ -1,6 +1,6 @@
 import { z } from 'zod'
+import { clockTimeSchema, idSchema, pageQuerySchema } from './common'
 import { METRIC_KEYS } from '../metrics/registry'
-import { clockTimeSchema, pageQuerySchema } from './common'
 import type { TankStatus } from './tank-status'
 
 export const TANK_KINDS = ['tropical_freshwater', 'planted', 'coldwater', 'brackish', 'marine'] as const
@@ -91,8 +91,8 @@ export type TankUpdate = z.infer<typeof tankUpdateSchema>
 
 export const TANK_SORT_KEYS = ['name', 'site', 'kind', 'stage', 'volume', 'updated'] as const
 export const tankListQuerySchema = pageQuerySchema.extend({
-  siteId: z.coerce.number().int().positive().optional(),
-  clientId: z.coerce.number().int().positive().optional(),
+  siteId: idSchema.optional(),
+  clientId: idSchema.optional(),
   stage: z.enum(TANK_STAGES).optional(),
   kind: z.enum(TANK_KINDS).optional(),
   sortBy: z.enum(TANK_SORT_KEYS).default('name'),

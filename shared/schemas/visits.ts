@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { idSchema } from './common'
 import type { KitVerdict } from '../care/kit-verdict'
 import type { KitValue } from './test-kit'
 import { instantSchema, localDateSchema } from './time'
@@ -29,13 +30,13 @@ export const visitUpdateSchema = z
 export type VisitUpdate = z.infer<typeof visitUpdateSchema>
 
 export const visitListQuerySchema = z.object({
-  clientId: z.coerce.number().int().positive().optional(),
+  clientId: idSchema.optional(),
   state: z.enum(VISIT_STATES).optional(),
 })
 
 /** A technician's day: `date` on the calendar of the business's first site, default today. */
 export const roundQuerySchema = z.object({
-  technicianId: z.coerce.number().int().positive().optional(),
+  technicianId: idSchema.optional(),
   date: localDateSchema.optional(),
 })
 

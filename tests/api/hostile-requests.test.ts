@@ -221,3 +221,26 @@ describe('POST /readings', () => {
     expect([notJson.status, notJson.body.error.fields]).toEqual([400, { body: 'not valid JSON' }])
   })
 })
+
+describe('ids past what the database stores', () => {
+  // Every id column is PostgreSQL's integer (at most 2^31 − 1, PostgreSQL documentation, "Numeric Types").
+  const tooBig = '99999999999'
+  it.each([
+    ['a tank', `/api/v1/tanks/${tooBig}`],
+    ['a tank’s care tasks', `/api/v1/tanks/${tooBig}/care-tasks`],
+    ['an incident', `/api/v1/incidents/${tooBig}`],
+    ['a livestock batch', `/api/v1/livestock/batches/${tooBig}`],
+    ['a visit', `/api/v1/visits/${tooBig}`],
+    ['a device’s calibrations', `/api/v1/devices/${tooBig}/calibrations`],
+  ])('%s → 400 naming the id, never 500', async (_what, path) => {
+    const res = await api().get(path).set(owner())
+    expect(res.status, JSON.stringify(res.body)).toBe(400)
+    expect(res.body.error.fields).toHaveProperty('id')
+  })
+
+  it('a query filter past it → 400 naming the filter', async () => {
+    const res = await api().get('/api/v1/incidents').query({ tankId: tooBig }).set(owner())
+    expect(res.status, JSON.stringify(res.body)).toBe(400)
+    expect(res.body.error.fields).toHaveProperty('tankId')
+  })
+})

@@ -18,6 +18,9 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
       appError = new AppError(400, 'invalid_json', 'The request body is not valid JSON', { body: 'not valid JSON' })
     } else if (isUniqueViolation(error)) {
       appError = uniqueConflict(error)
+    } else if (databaseCode(error) === '22003') {
+      // An id or count past PostgreSQL's integer that no schema caught: the request's number, not our bug.
+      appError = new AppError(400, 'out_of_range', 'A number in the request is larger than the server stores')
     } else if (isDatabaseUnavailable(error)) {
       appError = new AppError(503, 'unavailable', 'The database is unavailable; try again shortly', undefined, 5)
     } else if (typeof error?.status === 'number' && error.status >= 400 && error.status < 500) {
@@ -39,6 +42,11 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
       },
     })
   }
+}
+
+function databaseCode(error: unknown): string {
+  const e = error as { original?: { code?: string }; parent?: { code?: string } } | null
+  return e?.original?.code ?? e?.parent?.code ?? ''
 }
 
 /** Connection failures and server shutdowns are outages to wait out (503), not bugs (500). */
