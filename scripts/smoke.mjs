@@ -114,7 +114,7 @@ async function checkInBrowser(url, owner, password, shotsDir) {
     )
     const words = (await states.allTextContents()).map((t) => t.trim())
     const count = await rows.count()
-    if (words.length !== count || words.some((w) => !/^(Steady|Watch|Alarm|Quiet)\b/.test(w))) {
+    if (words.length !== count || words.some((w) => !/^(Steady|Watch|Alarm|Quiet|No sensor)\b/.test(w))) {
       throw new Error(`each of the ${count} tank rows should show its state; saw: ${words.join(', ')}`)
     }
     log(`Signed in as ${owner}: ${count} tanks, states ${[...new Set(words)].join(' / ')} (${seconds()})`)
