@@ -75,3 +75,16 @@ export async function subscribeThisBrowser(publicKey: string): Promise<PushSubsc
 /** Which listed device is this browser: remembered when it was enabled here. */
 export const rememberedDeviceId = () => Number(localStorage.getItem(REMEMBERED)) || null
 export const rememberDevice = (id: number | null) => (id ? localStorage.setItem(REMEMBERED, String(id)) : localStorage.removeItem(REMEMBERED))
+
+/**
+ * Signing out stops this browser's alerts: the next person on a shared phone must not see them.
+ * Best effort (offline, no worker): the device stays on the Account page to remove by hand then.
+ */
+export async function forgetThisBrowser(remove: (id: number) => Promise<void>): Promise<void> {
+  const id = rememberedDeviceId()
+  if (!id) return
+  rememberDevice(null)
+  await remove(id).catch(() => undefined)
+  const registration = 'serviceWorker' in navigator ? await navigator.serviceWorker.getRegistration().catch(() => undefined) : undefined
+  await (await registration?.pushManager.getSubscription().catch(() => null))?.unsubscribe().catch(() => false)
+}
