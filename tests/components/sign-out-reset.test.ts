@@ -5,8 +5,10 @@ import { describe, expect, it, vi } from 'vitest'
 vi.mock('@/api/auth', () => ({ signOut: vi.fn(async () => undefined) }))
 vi.mock('@/api/sites', () => ({ listSites: vi.fn(async () => []) }))
 vi.mock('@/api/dev-mail', () => ({ listMail: vi.fn(async () => null) }))
+vi.mock('@/api/push', () => ({ removePushDevice: vi.fn(async () => undefined) }))
 
 import { signOut } from '@/api/auth'
+import { removePushDevice } from '@/api/push'
 import AppShell from '@/components/layout/AppShell.vue'
 import UserMenu from '@/components/layout/UserMenu.vue'
 import { mountView } from './mount'
@@ -57,5 +59,17 @@ describe('signing out', { timeout: 30_000 }, () => {
     expect(signOut).toHaveBeenCalledTimes(1)
     await vi.waitFor(() => expect(router.currentRoute.value.name).toBe('sign-in'))
     for (const useStore of useStores) expect.soft(useStore(pinia).$state, useStore.$id).toEqual(expected.get(useStore.$id))
+  })
+
+  it('removes this browser’s notification device first, so a shared phone stops showing alerts', async () => {
+    localStorage.setItem('tankwarden.pushDeviceId', '42')
+    const { wrapper } = await mountView(AppShell, { role: 'keeper' })
+    await flushPromises()
+    vi.mocked(signOut).mockClear()
+    wrapper.findComponent(UserMenu).vm.$emit('sign-out')
+    await flushPromises()
+    expect(removePushDevice).toHaveBeenCalledWith(42)
+    expect(vi.mocked(removePushDevice).mock.invocationCallOrder[0]!).toBeLessThan(vi.mocked(signOut).mock.invocationCallOrder[0]!)
+    expect(localStorage.getItem('tankwarden.pushDeviceId')).toBeNull()
   })
 })
