@@ -62,9 +62,9 @@ export async function createDefaultCareTasks(ctx: AppContext, tank: CreatedTank,
   )
 }
 
-/** A new pH probe's care task: calibrate it every few weeks (shared/calibration/care.ts). */
+/** A new pH probe's care task: calibrate it every few weeks (shared/calibration/care.ts); not for one that calibrates itself. */
 export async function createProbeCareTasks(ctx: AppContext, device: CreatedDevice) {
-  if (!device.metrics.includes('ph')) return
+  if (!device.metrics.includes('ph') || device.selfCalibrating) return
   await ctx.models.CareTask.create({ ...phCalibrationTask(device.name), organizationId: device.organizationId, tankId: device.tankId, deviceId: device.id })
 }
 

@@ -101,6 +101,7 @@ export const devicesService = perContext((ctx: AppContext) => {
         tankId: tank.id,
         name: placeholder.name,
         metrics: placeholder.metrics as MetricKey[],
+        selfCalibrating: placeholder.selfCalibrating,
       })
       return { device: (await present([await find(actor, placeholder.id)]))[0], token }
     },

@@ -22,7 +22,7 @@ export type CreatedTank = {
 }
 
 /** What a new device's defaults need to know of it. */
-export type CreatedDevice = { id: number; organizationId: number; siteId: number; tankId: number; name: string; metrics: MetricKey[] }
+export type CreatedDevice = { id: number; organizationId: number; siteId: number; tankId: number; name: string; metrics: MetricKey[]; selfCalibrating: boolean }
 
 /** Everything that happens in-process and that other parts react to. Models import no transport. */
 export type EventMap = {

@@ -172,4 +172,23 @@ describe('pH calibration', () => {
     const after = (await tasks()).find((task) => task.title === 'Calibrate the pH probe (Dosing node)')
     expect(after!.lastDoneAt).toBe(saved.body.performedAt)
   })
+
+  it('a pH probe that calibrates itself brings no calibration task', async () => {
+    const owner = bearer(org.users.owner.token)
+    const tank = await t
+      .api()
+      .post('/api/v1/tanks')
+      .set(owner)
+      .send(sampleTank(org.siteIds[0], { name: 'Self-calibrating tank' }))
+    const device = await t
+      .api()
+      .post('/api/v1/devices')
+      .set(owner)
+      .send({ tankId: tank.body.id, name: 'Smart node', metrics: ['ph'], intervalSeconds: 60, selfCalibrating: true })
+    expect(device.status).toBe(201)
+    expect(device.body.device.selfCalibrating).toBe(true)
+    const tasks = (await t.api().get(`/api/v1/tanks/${tank.body.id}/care-tasks`).set(owner)).body as Array<{ title: string }>
+    expect(tasks.map((task) => task.title)).not.toContain('Calibrate the pH probe (Smart node)')
+    expect(tasks.length).toBeGreaterThan(0)
+  })
 })

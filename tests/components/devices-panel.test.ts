@@ -68,7 +68,7 @@ describe('DevicesPanel', () => {
     await inDocument('input[name="deviceName"]').setValue('Level node')
     await inDocument('.v-dialog form').trigger('submit')
     await flushPromises()
-    expect(createDevice).toHaveBeenCalledWith({ tankId: 12, name: 'Level node', metrics: ['temperature'], intervalSeconds: 60 })
+    expect(createDevice).toHaveBeenCalledWith({ tankId: 12, name: 'Level node', metrics: ['temperature'], intervalSeconds: 60, selfCalibrating: false })
     expect((document.querySelector('[data-test="device-token"] input') as HTMLInputElement).value).toBe('twd_42_abcdefghijklmnopqrstuv')
     expect(document.querySelector('[data-test="device-topic"]')?.textContent).toBe('tankwarden/v1/devices/42/readings')
     expect(document.querySelector('[data-test="device-example"]')?.textContent).toContain("-u 42 -P 'twd_42_abcdefghijklmnopqrstuv'")
