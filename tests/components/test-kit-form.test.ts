@@ -120,3 +120,25 @@ describe('checkDraft', () => {
     expect(withLatest.payload?.values).toEqual([{ metric: 'specific_gravity', value: withLatest.canonical.specific_gravity, unit: 'SG25' }])
   })
 })
+
+describe('TestKitForm on tanks of different water', () => {
+  it('folds the reef and treatment tests away on a freshwater tank, and unfolds them on request', async () => {
+    const { wrapper } = await mountForm()
+    expect(wrapper.find('[data-test="kit-ph"]').exists()).toBe(true)
+    expect(wrapper.find('[data-test="kit-salinity"]').exists()).toBe(false)
+    expect(wrapper.find('[data-test="kit-copper"]').exists()).toBe(false)
+    const more = wrapper.find('[data-test="kit-more"]')
+    expect(more.text()).toContain('salinity')
+    await more.trigger('click')
+    expect(wrapper.find('[data-test="kit-copper"]').exists()).toBe(true)
+    expect(wrapper.find('[data-test="kit-more"]').exists()).toBe(false)
+  })
+
+  it('shows the tests a marine tank’s targets name', async () => {
+    const marine = { ...targets, salinity: { min: 33.5, max: 35.5 }, calcium: { min: 380, max: 450 } }
+    const { wrapper } = await mountView(TestKitForm, { props: { targets: marine, userId: 7 } })
+    expect(wrapper.find('[data-test="kit-salinity"]').exists()).toBe(true)
+    expect(wrapper.find('[data-test="kit-calcium"]').exists()).toBe(true)
+    expect(wrapper.find('[data-test="kit-copper"]').exists()).toBe(false)
+  })
+})
