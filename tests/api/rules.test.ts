@@ -193,7 +193,7 @@ describe('rule validation', () => {
     ['an unknown kind', { kind: 'sideways', metric: 'ph', limit: 7 }, 'spec.kind'],
     ['a negative hold', { kind: 'above', metric: 'temperature', limit: 28, holdMinutes: -5 }, 'spec.holdMinutes'],
     ['an outside band with max below min', { kind: 'outside', metric: 'ph', min: 7.5, max: 6.5 }, 'spec.max'],
-    ['an unknown metric', { kind: 'above', metric: 'salinity', limit: 35 }, 'spec.metric'],
+    ['an unknown metric', { kind: 'above', metric: 'turbidity', limit: 35 }, 'spec.metric'],
   ])('answers 400 naming the field for %s', async (_what, spec, field) => {
     const tankId = await newTank()
     const before = (await tankRules(tankId)).length

@@ -174,7 +174,7 @@ describe('GET /tanks/:id/series in buckets', () => {
 
 describe('series validation and scoping', () => {
   it.each([
-    [{ metric: 'salinity' }, 'metric'],
+    [{ metric: 'turbidity' }, 'metric'],
     [{}, 'metric'],
     [{ metric: 'ph', from: '2026-10-05T00:00:00Z', to: '2026-10-04T00:00:00Z' }, 'from'],
     [{ metric: 'ph', from: '2026-10-05T00:00:00Z', to: '2026-10-05T00:00:00Z' }, 'from'],

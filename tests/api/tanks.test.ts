@@ -125,7 +125,7 @@ describe('create: validation names the field', () => {
       [() => list('pageSize=500'), 400],
       [() => list('siteId=1&siteId=2'), 400],
       [() => t.api().get('/api/v1/tanks/abc').set(keeper), 400],
-      [() => t.api().get('/api/v1/tanks/99999999999').set(keeper), 404],
+      [() => t.api().get('/api/v1/tanks/99999999999').set(keeper), 400],
       [() => patch(99_999_999, { name: 'Ghost' }), 404],
     ]
     for (const [send, status] of cases) expect((await send()).status).toBe(status)

@@ -62,7 +62,7 @@ describe('invitation → description → acceptance', () => {
       siteIds: [org.siteIds[0]],
       organizationId: org.organizationId,
     })
-    expect(session.body.organization).toEqual({ id: org.organizationId, name: 'Users Org' })
+    expect(session.body.organization).toEqual({ id: org.organizationId, name: 'Users Org', clockStyle: '24h' })
     expect((await me(session.body.token)).body.user.email).toBe('vera.viewer@example.com')
     const again = await signIn('vera.viewer@example.com', NEW_PASSWORD)
     expect(again.status).toBe(200)

@@ -32,7 +32,7 @@ describe('live store', () => {
 
   it('ignores metrics it does not know and merges latest values by time', () => {
     const live = useLiveStore()
-    live.ingest([{ ...at(start), metric: 'salinity' }])
+    live.ingest([{ ...at(start), metric: 'turbidity' }])
     expect(live.latestFor(1)).toEqual({})
     const older = { value: 7, time: '2026-03-03T00:00:00.000Z', source: 'device' as const }
     const newer = { value: 7.2, time: '2026-03-03T00:01:00.000Z', source: 'device' as const }

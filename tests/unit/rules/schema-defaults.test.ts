@@ -18,7 +18,7 @@ group('watchRuleSpecSchema', () => {
 
   const rejected: Array<[string, unknown, string]> = [
     ['an unknown kind', { kind: 'sideways', metric: 'ph' }, 'kind'],
-    ['an unknown metric', { kind: 'above', metric: 'salinity', limit: 1 }, 'metric'],
+    ['an unknown metric', { kind: 'above', metric: 'turbidity', limit: 1 }, 'metric'],
     ['a negative hold', { kind: 'above', metric: 'ph', limit: 8, holdMinutes: -1 }, 'holdMinutes'],
     ['a band too narrow to ever clear', { kind: 'outside', metric: 'ph', min: 7, max: 7.25, clearMargin: 0.125 }, 'max'],
     ['an empty band', { kind: 'outside', metric: 'ph', min: 7, max: 7 }, 'max'],
