@@ -86,7 +86,8 @@ export const testKitService = perContext((ctx: AppContext) => {
     if (!entry) return null
     if (entry.tankId !== tankId)
       throw conflict('client_id_reused', 'clientId: this id belongs to an entry of another tank', { clientId: 'already used for another entry' })
-    return present(entry)
+    const rows = toRows(entry.id, entry.tankId, { values: entry.values, notes: entry.notes }, entry.takenAt)
+    return { ...present(entry), probeChecks: await probeChecksFor(ctx, entry.tankId, rows) }
   }
 
   const snapshot = (e: TestKitEntry) => ({ takenAt: e.takenAt.toISOString(), values: e.values, notes: e.notes })
