@@ -75,7 +75,7 @@ function sidewaysScroll(page: Page): Promise<string[]> {
     const root = document.scrollingElement
     if (root.scrollWidth > innerWidth) found.push('page ' + root.scrollWidth + ' px wide in ' + innerWidth)
     for (const wrapper of document.querySelectorAll('.v-table__wrapper')) {
-      if (wrapper.scrollWidth > wrapper.clientWidth + 1) found.push('table ' + wrapper.scrollWidth + ' px wide in ' + wrapper.clientWidth)
+      if (wrapper.scrollWidth > wrapper.clientWidth + 1) found.push('table ' + (wrapper.closest('[data-test]')?.getAttribute('data-test') ?? '') + ' ' + wrapper.scrollWidth + ' px wide in ' + wrapper.clientWidth)
     }
     return found
   })()`) as Promise<string[]>
