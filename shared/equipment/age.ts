@@ -1,4 +1,5 @@
 // How old a piece of equipment is, in calendar years, months and days between two local dates.
+import { plural } from '../plural'
 import { parseLocalDate, type LocalDate } from '../time/zoned'
 
 export interface Age {
@@ -29,8 +30,6 @@ export function ageBetween(from: string, to: string): Age {
   const days = dayNumber(b) - dayNumber(plusMonths(a, months))
   return { years: Math.floor(months / 12), months: months % 12, days }
 }
-
-const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`
 
 /** "2 years 3 months", "5 months", "12 days", "today": the two largest non-zero parts at most, years and months first. */
 export function ageText(age: Age): string {
