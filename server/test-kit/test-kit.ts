@@ -107,6 +107,8 @@ export const testKitService = perContext((ctx: AppContext) => {
       const tank = await visibleTank(ctx, actor, tankId)
       const earlier = await sentBefore(actor, tank.id, input.clientId)
       if (earlier) return earlier
+      // A phone offline since before the tank was archived keeps the refused entry with this reason.
+      if (tank.archivedAt) throw conflict('tank_archived', 'This tank is archived; restore it before recording a test-kit entry')
       const takenAt = input.takenAt ? new Date(input.takenAt) : new Date()
       toRows(0, tank.id, input, takenAt) // validate before anything is written
       const { clientId = null } = input

@@ -74,6 +74,24 @@ describe('a test-kit entry sent twice', () => {
   })
 })
 
+describe('a test-kit entry for an archived tank', () => {
+  it('is refused with 409 and nothing stored, while a repeat of an entry sent before archiving still answers as the first time', async () => {
+    const tankId = await newTank(t, org)
+    const post = (body: object) => t.api().post(`/api/v1/tanks/${tankId}/test-kit-entries`).set(as(org, 'keeper')).send(body)
+    const before = { clientId: randomUUID(), values: [{ metric: 'ph', value: 7.1, unit: 'pH' }] }
+    const first = await post(before)
+    expect(first.status).toBe(201)
+    expect((await t.api().post(`/api/v1/tanks/${tankId}/archive`).set(as(org, 'owner'))).status).toBe(200)
+    const late = await post({ clientId: randomUUID(), values: [{ metric: 'ph', value: 7.3, unit: 'pH' }] })
+    expect(late.status).toBe(409)
+    expect(late.body.error.code).toBe('tank_archived')
+    expect(late.body.error.message).toMatch(/archived/)
+    const repeat = await post(before)
+    expect([repeat.status, repeat.body.id]).toEqual([201, first.body.id])
+    expect(await rows('SELECT id FROM test_kit_entries WHERE tank_id = $1', [tankId])).toHaveLength(1)
+  })
+})
+
 describe('a care-log note sent twice', () => {
   it('answers 201 with the same body both times and logs once', async () => {
     const tankId = await newTank(t, org)
