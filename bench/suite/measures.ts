@@ -20,6 +20,9 @@ export function percentile(xs: number[], p: number) {
   return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))] ?? NaN
 }
 
+/** How long the connections stay open and idle before the first publish, when `whileIdle` is given. */
+export const IDLE_MS = 3000
+
 /**
  * MQTT at QoS 1, one connection per device: rows stored per second, publish to the last ack, and
  * publish → PUBACK per message. `whileIdle` runs once every connection is open, before the first publish.
@@ -29,7 +32,7 @@ export async function ingestMqtt(app: AppProcess, shop: Shop, rate: number, seco
   let idle: Promise<void> | undefined
   const done = await runLoad<LoadDone>(
     'load-mqtt.ts',
-    { url: `mqtt://127.0.0.1:${app.mqttPort}`, devices: shop.devices, ratePerSecond: rate, seconds, timeBaseMs, pauseMs: whileIdle ? 3000 : 0 },
+    { url: `mqtt://127.0.0.1:${app.mqttPort}`, devices: shop.devices, ratePerSecond: rate, seconds, timeBaseMs, pauseMs: whileIdle ? IDLE_MS : 0 },
     (m) => void (m.type === 'connected' && whileIdle && (idle = whileIdle())),
   )
   await idle
@@ -305,7 +308,7 @@ export async function engineCost(ctx: AppContext, shop: Shop, readings: number) 
   )
   await engine.start()
   // Later than anything the ingest figures stored, so no reading counts as late.
-  const start = Date.now() - 30 * 60_000
+  const start = Date.now() - 5 * 60_000
   const rows: StoredReading[] = Array.from({ length: readings }, (_, i) => {
     const d = shop.devices[i % shop.devices.length]
     return {
