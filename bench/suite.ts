@@ -202,7 +202,19 @@ if (runs('realistic')) {
   })
   const cpu = rss.cpuShareSince(mark)
   const stored = (await app.stored()) - before
-  realistic = { tanks: REALISTIC_TANKS, rss: rss.peakMb(), cpu, p99: latency.p99, ackP99: latency.ackP99, lost: latency.acked - stored, stored }
+  // The app's CPU per tank at this rate, and so how many tanks keep it at half of one core (its JavaScript runs on one).
+  const cpuPerTank = (rss.cpuSecondsSince(mark) / stored) * (REALISTIC_RATE / REALISTIC_TANKS)
+  const tanksAtHalfCore = 0.5 / cpuPerTank
+  realistic = {
+    tanks: REALISTIC_TANKS,
+    rss: rss.peakMb(),
+    cpu,
+    tanksAtHalfCore,
+    p99: latency.p99,
+    ackP99: latency.ackP99,
+    lost: latency.acked - stored,
+    stored,
+  }
   console.log(`  ${latency.sent} sent, ${latency.acked} acked, ${stored} stored; ${JSON.stringify(realistic)}`)
   rss.stop()
   await app.stop()
@@ -257,8 +269,8 @@ const rows: Array<[string, string, (f: Figures) => string, string]> = [
 console.log(
   `\nMachine: ${cpus().length} × ${cpus()[0]?.model ?? 'cpu'}, ${Math.round(totalmem() / 2 ** 30)} GiB, Node ${process.version}, PostgreSQL on the same machine; ${SECONDS} s of MQTT load per size\n`,
 )
-console.log(`| figure | ${results.map((f) => `${n(f.tanks)} tanks`).join(' | ')} | target | growth k (∝ tanks^k) |`)
-console.log(`|---|${results.map(() => '---').join('|')}|---|---|`)
+if (results.length) console.log(`| figure | ${results.map((f) => `${n(f.tanks)} tanks`).join(' | ')} | target | growth k (∝ tanks^k) |`)
+if (results.length) console.log(`|---|${results.map(() => '---').join('|')}|---|---|`)
 for (const f of results) if ('mqtt' in f) f.ratio = (100 * f.mqtt) / f.copy
 for (const [label, key, show, target] of rows)
   if (results.some((f) => key in f || (key === 'ratio' && 'mqtt' in f)))
@@ -272,6 +284,7 @@ if (realistic) {
   console.log(`| readings stored; acked but not stored | ${n(r.stored)}; ${n(r.lost)} | 0 lost |`)
   console.log(`| app peak RSS (MB) | ${n(r.rss)} | — |`)
   console.log(`| app CPU (% of one core; the machine has ${cpus().length}) | ${n(r.cpu)} | — |`)
+  console.log(`| tanks at this rate one instance serves at 50 % of one core (its CPU per stored reading) | ${n(r.tanksAtHalfCore)} | — |`)
   console.log(`| publish → browser p99 (ms) | ${n(r.p99)} | < 100 |`)
   console.log(`| publish → PUBACK p99 (ms) | ${n(r.ackP99)} | — |`)
 }

@@ -105,6 +105,7 @@ export function sampleRss(pid: number) {
     cpuMark: () => ({ at: performance.now(), cpuSeconds: readProc(pid)?.cpuSeconds ?? NaN }),
     cpuShareSince: (mark: { at: number; cpuSeconds: number }) =>
       (100 * ((readProc(pid)?.cpuSeconds ?? NaN) - mark.cpuSeconds)) / ((performance.now() - mark.at) / 1000),
+    cpuSecondsSince: (mark: { at: number; cpuSeconds: number }) => (readProc(pid)?.cpuSeconds ?? NaN) - mark.cpuSeconds,
     stop: () => clearInterval(timer),
   }
 }
