@@ -1,12 +1,23 @@
 // A load generator in its own process, so the app's memory and CPU figures are the app's alone.
-// Receives { url, devices, ratePerSecond, seconds, timeBaseMs } over IPC; reports { sent, acked, errors }.
+// Receives { url, devices, ratePerSecond, seconds, timeBaseMs, pauseMs? } over IPC; reports
+// 'connected' once every connection is open, waits pauseMs (so the suite can read the app's memory
+// with the connections idle), then publishes and reports { sent, acked, errors, ackP50, ackP99 }.
 // Each connection publishes once a second, at its own offset within the second so the load is even,
 // one message per second of up to MAX_READINGS_PER_MESSAGE readings (more messages when a connection's
 // share is larger).
 import mqtt, { type MqttClient } from 'mqtt'
 import { MAX_READINGS_PER_MESSAGE, readingsTopic } from '@shared/ingest/contract'
 
-type Job = { url: string; devices: Array<{ deviceId: number; token: string }>; ratePerSecond: number; seconds: number; timeBaseMs: number }
+type Job = {
+  url: string
+  devices: Array<{ deviceId: number; token: string }>
+  ratePerSecond: number
+  seconds: number
+  timeBaseMs: number
+  pauseMs?: number
+}
+
+const percentile = (sorted: number[], p: number) => sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))] ?? NaN
 
 process.on('message', async (job: Job) => {
   const clients: MqttClient[] = []
@@ -26,10 +37,13 @@ process.on('message', async (job: Job) => {
     )
   }
   process.send!({ type: 'connected', clients: clients.length })
+  if (job.pauseMs) await new Promise((r) => setTimeout(r, job.pauseMs))
   const perClientPerSecond = Math.max(1, Math.round(job.ratePerSecond / clients.length))
   let sent = 0
   let acked = 0
   let errors = 0
+  // Publish → PUBACK of each message, which the app sends once the message's rows are committed.
+  const ackMs: number[] = []
   const started = Date.now()
   const pending: Promise<unknown>[] = []
   await Promise.all(
@@ -47,9 +61,13 @@ process.on('message', async (job: Job) => {
             time: new Date(job.timeBaseMs + second * 1000 + ((from + k) % 1000) + Math.floor((from + k) / 1000) * job.seconds * 1000).toISOString(),
           }))
           sent += readings.length
+          const at = performance.now()
           pending.push(
             client.publishAsync(readingsTopic(job.devices[c].deviceId), JSON.stringify({ v: 1, readings }), { qos: 1 }).then(
-              () => void (acked += readings.length),
+              () => {
+                acked += readings.length
+                ackMs.push(performance.now() - at)
+              },
               () => void errors++,
             ),
           )
@@ -58,8 +76,10 @@ process.on('message', async (job: Job) => {
     }),
   )
   await Promise.allSettled(pending)
+  const elapsedMs = Date.now() - started
+  ackMs.sort((a, b) => a - b)
   // From the first publish to the last acknowledgement: connecting is not ingest time.
-  process.send!({ type: 'done', sent, acked, errors, elapsedMs: Date.now() - started })
+  process.send!({ type: 'done', sent, acked, errors, elapsedMs, ackP50: percentile(ackMs, 50), ackP99: percentile(ackMs, 99) })
   await Promise.all(clients.map((c) => c.endAsync()))
   process.exit(0)
 })

@@ -7,7 +7,7 @@ import { fileURLToPath } from 'node:url'
 import { ensureDependencies } from './lib/deps.mjs'
 import { startCluster } from './lib/postgres.mjs'
 import { log, run } from './lib/run.mjs'
-import { buildServer } from './lib/build-server.mjs'
+import { buildServer, serverNodeFlags } from './lib/build-server.mjs'
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..')
 process.chdir(root)
@@ -91,7 +91,7 @@ try {
   const serverModule = await buildServer(root)
   const app = fork(serverModule, [], {
     env,
-    execArgv: [],
+    execArgv: serverNodeFlags(),
     stdio: ['inherit', 'inherit', 'inherit', 'ipc'],
   })
   children.push(app)

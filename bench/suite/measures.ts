@@ -12,7 +12,7 @@ import type { StoredReading } from '../../server/platform/events'
 import { runLoad, type AppProcess } from './processes'
 
 export type Shop = { organizationId: number; siteId: number; devices: Array<{ deviceId: number; tankId: number; token: string }> }
-type LoadDone = { sent: number; acked?: number; accepted?: number; errors: number; elapsedMs: number }
+type LoadDone = { sent: number; acked?: number; accepted?: number; errors: number; elapsedMs: number; ackP50?: number; ackP99?: number }
 
 export const median = (xs: number[]) => percentile(xs, 50)
 export function percentile(xs: number[], p: number) {
@@ -20,19 +20,33 @@ export function percentile(xs: number[], p: number) {
   return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))] ?? NaN
 }
 
-/** MQTT at QoS 1, one connection per device: rows stored per second, publish to the last ack. */
-export async function ingestMqtt(app: AppProcess, shop: Shop, rate: number, seconds: number, timeBaseMs: number) {
+/** How long the connections stay open and idle before the first publish, when `whileIdle` is given. */
+export const IDLE_MS = 3000
+
+/**
+ * MQTT at QoS 1, one connection per device: rows stored per second, publish to the last ack, and
+ * publish → PUBACK per message. `whileIdle` runs once every connection is open, before the first publish.
+ */
+export async function ingestMqtt(app: AppProcess, shop: Shop, rate: number, seconds: number, timeBaseMs: number, whileIdle?: () => Promise<void>) {
   const before = await app.stored()
-  const done = await runLoad<LoadDone>('load-mqtt.ts', {
-    url: `mqtt://127.0.0.1:${app.mqttPort}`,
-    devices: shop.devices,
-    ratePerSecond: rate,
-    seconds,
-    timeBaseMs,
-  })
+  let idle: Promise<void> | undefined
+  const done = await runLoad<LoadDone>(
+    'load-mqtt.ts',
+    { url: `mqtt://127.0.0.1:${app.mqttPort}`, devices: shop.devices, ratePerSecond: rate, seconds, timeBaseMs, pauseMs: whileIdle ? IDLE_MS : 0 },
+    (m) => void (m.type === 'connected' && whileIdle && (idle = whileIdle())),
+  )
+  await idle
   const stored = (await app.stored()) - before
   // From the first publish to the last acknowledgement (sent once the rows are committed), not the load process's start-up.
-  return { rate: stored / (done.elapsedMs / 1000), stored, sent: done.sent, acked: done.acked ?? 0, errors: done.errors }
+  return {
+    rate: stored / (done.elapsedMs / 1000),
+    stored,
+    sent: done.sent,
+    acked: done.acked ?? 0,
+    errors: done.errors,
+    ackP50: done.ackP50 ?? NaN,
+    ackP99: done.ackP99 ?? NaN,
+  }
 }
 
 /** HTTP, a closed loop of 8 requests of 500 readings in flight: rows stored per second. */
@@ -81,8 +95,18 @@ export async function rawCopy(ctx: AppContext, shop: Shop, rows: number) {
 /**
  * Publish → browser: a Chromium page holds the live socket a keeper's screen holds, subscribed to the
  * site; readings are stamped with the moment they are published, so receipt − time is the whole path.
+ * The load comes from `devices` connections (the first 100 of the shop unless given), each sending
+ * one message with a reading of every one of `metrics` in turn.
  */
-export async function latencyInBrowser(browser: Browser, app: AppProcess, shop: Shop, token: string, ratePerSecond: number, seconds: number) {
+export async function latencyInBrowser(
+  browser: Browser,
+  app: AppProcess,
+  shop: Shop,
+  token: string,
+  ratePerSecond: number,
+  seconds: number,
+  load: { devices?: Shop['devices']; metrics?: string[]; onConnected?: () => void } = {},
+) {
   const page = await browser.newPage()
   await page.goto(`http://127.0.0.1:${app.port}/sign-in`)
   await page.evaluate(
@@ -104,11 +128,22 @@ export async function latencyInBrowser(browser: Browser, app: AppProcess, shop: 
       }),
     { token, siteId: shop.siteId },
   )
-  await runLoad('load-latency.ts', { url: `mqtt://127.0.0.1:${app.mqttPort}`, devices: shop.devices.slice(0, 100), ratePerSecond, seconds })
+  const done = await runLoad<LoadDone>(
+    'load-latency.ts',
+    { url: `mqtt://127.0.0.1:${app.mqttPort}`, devices: load.devices ?? shop.devices.slice(0, 100), ratePerSecond, seconds, metrics: load.metrics ?? ['ph'] },
+    (m) => void (m.type === 'connected' && load.onConnected?.()),
+  )
   await new Promise((r) => setTimeout(r, 1000))
   const latencies = await page.evaluate(() => (globalThis as unknown as { __latencies: number[] }).__latencies)
   await page.close()
-  return { p50: percentile(latencies, 50), p99: percentile(latencies, 99), count: latencies.length }
+  return {
+    p50: percentile(latencies, 50),
+    p99: percentile(latencies, 99),
+    count: latencies.length,
+    sent: done.sent,
+    acked: done.acked ?? 0,
+    ackP99: done.ackP99 ?? NaN,
+  }
 }
 
 export const SERIES_RANGES = [
@@ -273,7 +308,7 @@ export async function engineCost(ctx: AppContext, shop: Shop, readings: number) 
   )
   await engine.start()
   // Later than anything the ingest figures stored, so no reading counts as late.
-  const start = Date.now() - 30 * 60_000
+  const start = Date.now() - 5 * 60_000
   const rows: StoredReading[] = Array.from({ length: readings }, (_, i) => {
     const d = shop.devices[i % shop.devices.length]
     return {

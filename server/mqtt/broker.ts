@@ -23,6 +23,12 @@ const PUBLISH = 3
 
 /** A connection that has not sent CONNECT by then is closed. */
 export const CONNECT_TIMEOUT_MS = 5000
+/**
+ * Packets a device may send while its CONNECT is still being checked; past it the connection closes.
+ * Each may be a whole message (PACKET_LIMITS.publishBytes), so this bounds what a connection can
+ * make the broker hold before it is known (the broker's own default is 42).
+ */
+export const QUEUED_BEFORE_CONNECTED = 4
 /** Checked on each packet's fixed header, before the packet is buffered. */
 export const PACKET_LIMITS: PacketLimits = {
   // Client id, credentials (a token is under 150 bytes) and a will.
@@ -60,6 +66,7 @@ export async function startEmbeddedBroker(ctx: AppContext, options: { host: stri
   const broker = await Aedes.createBroker({
     drainTimeout: 10_000,
     connectTimeout: CONNECT_TIMEOUT_MS,
+    queueLimit: QUEUED_BEFORE_CONNECTED,
     authenticate: (client: DeviceClient, username, password, done) => {
       const id = Number(username)
       const token = password?.toString('utf8') ?? ''

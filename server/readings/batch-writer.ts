@@ -15,6 +15,8 @@ export type ReadingRow = {
 
 type Pending = {
   rows: ReadingRow[]
+  /** What the rows hold in memory, as `rowBytes` reckons it. */
+  bytes: number
   /** Held requests (MQTT) wait out a database outage; others fail at once so HTTP can answer 503. */
   hold: boolean
   resolve: (inserted: boolean[]) => void
@@ -33,12 +35,16 @@ export type BatchWriterOptions = {
   maxBatchRows?: number
   /** Most rows held in memory while the database is away; past it new held writes are refused. */
   maxBufferedRows?: number
+  /** The same by the memory the rows hold (long source keys of imported files make rows larger). */
+  maxBufferedBytes?: number
   /** Batches written at once; two keep PostgreSQL busy while the next batch is being gathered. */
   maxConcurrentFlushes?: number
   onStored?: (rows: ReadingRow[]) => void
 }
 
 const keyOf = (r: { sourceKey: string; metric: string; time: Date }) => `${r.sourceKey}|${r.metric}|${r.time.getTime()}`
+/** A queued row in memory, roughly: the object with its Date and numbers, and its two strings. */
+const rowBytes = (r: ReadingRow) => 160 + 2 * (r.sourceKey.length + r.metric.length)
 
 /**
  * Collects readings from every source and writes them in batches: one
@@ -48,6 +54,7 @@ const keyOf = (r: { sourceKey: string; metric: string; time: Date }) => `${r.sou
 export class BatchWriter {
   private queue: Pending[] = []
   private queuedRows = 0
+  private queuedBytes = 0
   private timer: NodeJS.Timeout | null = null
   private inFlight = 0
   private retryDelayMs = 0
@@ -58,6 +65,7 @@ export class BatchWriter {
   private readonly flushMs: number
   private readonly maxBatchRows: number
   private readonly maxBufferedRows: number
+  private readonly maxBufferedBytes: number
   private readonly maxConcurrentFlushes: number
 
   constructor(
@@ -69,6 +77,8 @@ export class BatchWriter {
     this.flushMs = options.flushMs ?? 20
     this.maxBatchRows = options.maxBatchRows ?? 5000
     this.maxBufferedRows = options.maxBufferedRows ?? 100_000
+    // About 20 MB for 100,000 device rows; the count is the limit unless rows are unusually large.
+    this.maxBufferedBytes = options.maxBufferedBytes ?? 32 * 1024 * 1024
     this.maxConcurrentFlushes = options.maxConcurrentFlushes ?? 2
   }
 
@@ -84,14 +94,17 @@ export class BatchWriter {
       if (Date.now() < this.probeAt) return Promise.reject(new DatabaseUnavailableError())
       this.probeAt = Date.now() + this.retryDelayMs
     }
-    if (this.queuedRows + rows.length > this.maxBufferedRows) {
+    let bytes = 0
+    for (const r of rows) bytes += rowBytes(r)
+    if (this.queuedRows + rows.length > this.maxBufferedRows || this.queuedBytes + bytes > this.maxBufferedBytes) {
       this.refusedRows += rows.length
-      this.logger.warn({ refused: rows.length, buffered: this.queuedRows }, 'reading buffer full; readings refused')
+      this.logger.warn({ refused: rows.length, buffered: this.queuedRows, bufferedBytes: this.queuedBytes }, 'reading buffer full; readings refused')
       return Promise.reject(new BufferFullError('The reading buffer is full'))
     }
     return new Promise((resolve, reject) => {
-      this.queue.push({ rows, hold, resolve, reject })
+      this.queue.push({ rows, bytes, hold, resolve, reject })
       this.queuedRows += rows.length
+      this.queuedBytes += bytes
       if (this.queuedRows >= this.maxBatchRows) this.schedule(0)
       else this.schedule(this.flushMs)
     })
@@ -126,6 +139,7 @@ export class BatchWriter {
     while (this.queue.length && (n === 0 || n + this.queue[0].rows.length <= this.maxBatchRows)) {
       const next = this.queue.shift()!
       n += next.rows.length
+      this.queuedBytes -= next.bytes
       batch.push(next)
     }
     this.queuedRows -= n
@@ -153,10 +167,10 @@ export class BatchWriter {
       const held = batch.filter((p) => p.hold)
       for (const p of batch) if (!p.hold) p.reject(new DatabaseUnavailableError())
       this.queue.unshift(...held)
-      this.queuedRows += held.reduce((n, p) => n + p.rows.length, 0)
       for (const p of this.queue.filter((q) => !q.hold)) p.reject(new DatabaseUnavailableError())
       this.queue = this.queue.filter((q) => q.hold)
       this.queuedRows = this.queue.reduce((n, p) => n + p.rows.length, 0)
+      this.queuedBytes = this.queue.reduce((n, p) => n + p.bytes, 0)
     } finally {
       this.inFlight--
     }

@@ -19,9 +19,18 @@ function thin(points: Point[]): Point[] {
   return [...kept, last]
 }
 
-/** The boundary is inclusive: a reading exactly `windowMinutes` old still counts. */
-function prune(points: Point[], newestAt: number, windowMs: number): Point[] {
-  return points.filter(([at]) => at >= newestAt - windowMs)
+/**
+ * The window with an in-order point added and the points older than the window dropped (the
+ * boundary is inclusive: a reading exactly `windowMinutes` old still counts). One copy per reading:
+ * the window is in time order, and every reading of every tank meets it.
+ */
+function slide(points: Point[], point: Point, windowMs: number): Point[] {
+  const cutoff = point[0] - windowMs
+  let first = 0
+  while (first < points.length && (points[first] as Point)[0] < cutoff) first++
+  const next = points.slice(first)
+  next.push(point)
+  return next
 }
 
 function insertSorted(points: Point[], point: Point): Point[] {
@@ -55,7 +64,7 @@ export function evaluateRate(spec: RateSpec, state: RuleState, input: RuleInput)
     return { state: { ...state, window: thin(insertSorted(window, point)) } }
   }
 
-  const nextWindow = thin(prune([...window, point], input.at, windowMs))
+  const nextWindow = thin(slide(window, point, windowMs))
   const base: RuleState = { ...state, window: nextWindow, lastValue: input.value, lastReadingAt: input.at }
   const change = changeAcross(nextWindow)
   const exceeded = change !== undefined && Math.abs(change) > spec.maxChange

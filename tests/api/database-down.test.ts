@@ -80,4 +80,17 @@ describe('when PostgreSQL is unavailable', () => {
     await setDatabaseAvailable(true)
     expect(await held).toEqual([true, true, true, true])
   })
+
+  it('refuses writes past the buffer bound in bytes, whatever their count', async () => {
+    // A row with a 2,000-character source key holds over 4 KB; a 6 KB bound takes one such row, not two.
+    const longRow = (i: number): ReadingRow => ({ ...row(20 + i), sourceKey: `import:${'x'.repeat(2000)}:${i}` })
+    const writer = new BatchWriter(t.ctx.sequelize, createLogger('silent'), { flushMs: 50, maxBufferedBytes: 6 * 1024 })
+    await setDatabaseAvailable(false)
+    const held = writer.write([longRow(0)], { hold: true })
+    await expect(writer.write([longRow(1)], { hold: true })).rejects.toBeInstanceOf(BufferFullError)
+    expect(writer.refusedRows).toBe(1)
+    expect(writer.bufferedRows).toBe(1)
+    await setDatabaseAvailable(true)
+    expect(await held).toEqual([true])
+  })
 })

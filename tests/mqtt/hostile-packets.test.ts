@@ -2,7 +2,7 @@ import mqtt from 'mqtt'
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { MAX_PAYLOAD_BYTES, outcomesTopic, readingsTopic, type MessageOutcome } from '@shared/ingest/contract'
-import { CONNECT_TIMEOUT_MS } from '../../server/mqtt/broker'
+import { CONNECT_TIMEOUT_MS, QUEUED_BEFORE_CONNECTED } from '../../server/mqtt/broker'
 import { createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { connectPacket, publishHeader, rawSocket as openRaw, remainingLength, streamZeros as stream } from '../helpers/mqtt-raw'
 import { startTestServer } from '../helpers/server'
@@ -57,6 +57,21 @@ describe('packets before sign-in', () => {
     raw.socket.write(Buffer.concat([Buffer.from([0x10]), remainingLength(1024 * 1024), variable]))
     await within(stream(raw, 2 * 1024 * 1024), 10_000)
     expect(await within(raw.closedAt, 3000)).not.toBe('timeout')
+  })
+
+  it(`closes a connection that sends more than ${QUEUED_BEFORE_CONNECTED} packets before its CONNECT is checked, storing none of them`, async () => {
+    const before = await storedCount(node.tankId)
+    const message = (i: number) =>
+      JSON.stringify({ v: 1, readings: [{ metric: 'temperature', value: 25, time: new Date(Date.now() - i * 1000).toISOString() }] })
+    const publishes = Array.from({ length: 20 }, (_, i) =>
+      Buffer.concat([publishHeader(readingsTopic(node.deviceId), Buffer.byteLength(message(i))), Buffer.from(message(i))]),
+    )
+    const raw = await rawSocket()
+    // One write: the broker reads all of it while the device's token is still being looked up.
+    raw.socket.write(Buffer.concat([connectPacket(String(node.deviceId), node.token, 'eager-device'), ...publishes]))
+    expect(await within(raw.closedAt, 3000)).not.toBe('timeout')
+    await s.ctx.readings.writer.drain()
+    expect(await storedCount(node.tankId)).toBe(before)
   })
 
   it(`closes a connection that sends no CONNECT within ${CONNECT_TIMEOUT_MS / 1000} s`, async () => {

@@ -6,6 +6,15 @@ import type { Logger } from '../logger'
 import { RELAYED_EVENTS, decodeEvent, encodeEvent, type RelayedEvent } from './codec'
 
 export const FANOUT_CHANNEL = 'tankwarden_events'
+/**
+ * Notifications waiting for their statement, by count and bytes (a payload is under 8 KB): enough for
+ * about a hundred thousand readings. Past it a slow database would only make them pile up in memory,
+ * so newer ones are dropped with a warning; other instances' screens catch up from the table.
+ */
+export const MAX_QUEUED_PAYLOADS = 2000
+export const MAX_QUEUED_BYTES = 8 * 1024 * 1024
+/** Payloads sent in one statement. */
+const PAYLOADS_PER_STATEMENT = 250
 
 /** The part of the app's context the fan-out uses (platform code names no feature's types). */
 export type FanoutContext = {
@@ -45,17 +54,35 @@ export async function startClusterFanout(ctx: FanoutContext, options: { reconnec
   let received = 0
   let client: pg.Client | null = null
   let retry: NodeJS.Timeout | undefined
-  let sending: Promise<unknown> = Promise.resolve()
+  const queue: string[] = []
+  let queuedBytes = 0
+  let sending: Promise<void> | null = null
 
-  // Sent in order, one statement at a time, without holding up whoever emitted the event.
+  // Sent in order, one statement at a time (whatever queued meanwhile goes together), without holding up whoever emitted the event.
   function publish(payloads: string[]) {
-    sending = sending
-      .then(() =>
-        sequelize.query('SELECT pg_notify($1, payload) FROM unnest($2::text[]) WITH ORDINALITY AS p(payload, n) ORDER BY n', {
-          bind: [FANOUT_CHANNEL, payloads],
-        }),
-      )
-      .catch((error) => logger.warn({ err: error, payloads: payloads.length }, 'live fan-out to other instances failed'))
+    let dropped = 0
+    for (const payload of payloads) {
+      const bytes = Buffer.byteLength(payload, 'utf8')
+      if (queue.length >= MAX_QUEUED_PAYLOADS || queuedBytes + bytes > MAX_QUEUED_BYTES) {
+        dropped++
+        continue
+      }
+      queue.push(payload)
+      queuedBytes += bytes
+    }
+    if (dropped) logger.warn({ dropped, queued: queue.length, queuedBytes }, 'live fan-out queue full; notifications dropped')
+    sending ??= send()
+  }
+
+  async function send() {
+    while (queue.length) {
+      const payloads = queue.splice(0, PAYLOADS_PER_STATEMENT)
+      for (const payload of payloads) queuedBytes -= Buffer.byteLength(payload, 'utf8')
+      await sequelize
+        .query('SELECT pg_notify($1, payload) FROM unnest($2::text[]) WITH ORDINALITY AS p(payload, n) ORDER BY n', { bind: [FANOUT_CHANNEL, payloads] })
+        .catch((error) => logger.warn({ err: error, payloads: payloads.length }, 'live fan-out to other instances failed'))
+    }
+    sending = null
   }
 
   const forwarders = RELAYED_EVENTS.map((event) => {
