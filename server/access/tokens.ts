@@ -1,4 +1,4 @@
-import { randomUUID, createHash, randomBytes } from 'node:crypto'
+import { randomUUID, createHash, createSecretKey, randomBytes, type KeyObject } from 'node:crypto'
 import jwt from 'jsonwebtoken'
 
 export type AccessClaims = { sub: string; org: number; jti: string; typ: 'user' }
@@ -19,9 +19,20 @@ export function signAccessToken(secret: string, claims: { userId: number; organi
   return { token, jti, expiresAt }
 }
 
+/*
+ * Given a string, jsonwebtoken first tries it as a public key, which throws, then makes a secret key
+ * of it: on every request. The key is made once per secret instead.
+ */
+const secretKeys = new Map<string, KeyObject>()
+function secretKey(secret: string): KeyObject {
+  let key = secretKeys.get(secret)
+  if (!key) secretKeys.set(secret, (key = createSecretKey(Buffer.from(secret))))
+  return key
+}
+
 export function verifyAccessToken(secret: string, token: string): AccessClaims | null {
   try {
-    const payload = jwt.verify(token, secret, { algorithms: [ALGORITHM] })
+    const payload = jwt.verify(token, secretKey(secret), { algorithms: [ALGORITHM] })
     if (typeof payload !== 'object' || payload.typ !== 'user' || !payload.sub || !payload.jti) return null
     // The session id is a UUID; anything else would only reach the database to fail there.
     if (!UUID_RE.test(payload.jti) || !/^\d{1,10}$/.test(payload.sub) || !Number.isInteger(payload.org)) return null

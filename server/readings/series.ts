@@ -114,7 +114,9 @@ export function readPlan(from: number, to: number, stepSeconds: number, state: {
 
 type RawRow = { time: Date; value: number; source: ReadingSource; calibrated: boolean }
 // pg answers the timestamp '-infinity' (nothing pruned yet) as the number -Infinity, not a Date.
-type StateRow = { rolled_up_before: Date; raw_kept_from: Date | number; raw: number }
+type StateRow = { rolled_up_before: Date; raw_kept_from: Date | number; raw: number | string }
+type Rollups = { rolledUpBefore: number; rawKeptFrom: number }
+const rollupsOf = (row: StateRow): Rollups => ({ rolledUpBefore: row.rolled_up_before.getTime(), rawKeptFrom: instantMs(row.raw_kept_from) })
 const instantMs = (v: Date | number) => (typeof v === 'number' ? v : v.getTime())
 type BucketRow = { bucket: Date; min: number; mean: number; max: number; count: number }
 type LatestRow = { tank_id: number; metric: MetricKey; time: Date; value: number; source: ReadingSource }
@@ -123,13 +125,11 @@ type LatestRow = { tank_id: number; metric: MetricKey; time: Date; value: number
  * Every reading before `rolled_up_before` is in its hour and its day; raw rows are complete from
  * `raw_kept_from` on (migration 202612051200). The raw count reads at most points + 1 index entries.
  */
-const STATE_SQL = `
-SELECT s.rolled_up_before, s.raw_kept_from,
-  (SELECT count(*) FROM (
+const rawCount = (from: string, to: string, cap: string) => `(SELECT count(*) FROM (
      SELECT 1 FROM readings
-     WHERE tank_id = $1 AND metric = $2 AND time >= $3::timestamptz AND time < $4::timestamptz
-     LIMIT $5) capped) AS raw
-FROM readings_rollup_state s`
+     WHERE tank_id = $1 AND metric = $2 AND time >= ${from}::timestamptz AND time < ${to}::timestamptz
+     LIMIT ${cap}) capped)`
+const STATE_SQL = `SELECT s.rolled_up_before, s.raw_kept_from, ${rawCount('$3', '$4', '$5')} AS raw FROM readings_rollup_state s`
 
 // `value` is the stored (corrected) value, or with `raw` what the device sent.
 const valueOf = (values: SeriesValues) => (values === 'raw' ? 'coalesce(raw_value, value)' : 'value')
@@ -143,6 +143,8 @@ ORDER BY time, source_key`
  * The range is read from the coarsest source that holds each part of it: whole days from
  * readings_daily, whole hours around them from readings_hourly, and the minutes at either edge (and
  * after the last rolled-up hour) from raw rows. The parts are disjoint, so a bucket is their union.
+ * The plan was made from the rollup state last seen; every row carries the state as this statement
+ * saw it (and the raw count), so a plan made from a state since moved on is noticed and made again.
  */
 const bucketsSql = (values: SeriesValues) => `
 WITH samples AS (
@@ -160,12 +162,15 @@ WITH samples AS (
   UNION ALL
   SELECT day, min, max, sum, count FROM readings_daily
   WHERE tank_id = $1 AND metric = $2 AND day >= $13::timestamptz AND day < $14::timestamptz
+), buckets AS (
+  SELECT date_bin($3::integer * interval '1 second', t, $4::timestamptz) AS bucket,
+         min(lo) AS min, sum(total) / sum(n) AS mean, max(hi) AS max, sum(n) AS count
+  FROM samples
+  GROUP BY bucket
 )
-SELECT date_bin($3::integer * interval '1 second', t, $4::timestamptz) AS bucket,
-       min(lo) AS min, sum(total) / sum(n) AS mean, max(hi) AS max, sum(n) AS count
-FROM samples
-GROUP BY bucket
-ORDER BY bucket`
+SELECT s.rolled_up_before, s.raw_kept_from, ${rawCount('$15', '$16', '$17')} AS raw, b.*
+FROM readings_rollup_state s LEFT JOIN buckets b ON true
+ORDER BY b.bucket`
 
 /*
  * One index probe per (tank, metric): the newest entry of (tank_id, metric, time) read backwards.
@@ -191,6 +196,8 @@ function latestByMetric(rows: LatestRow[]): LatestResponse {
 
 export const seriesService = perContext((ctx: AppContext) => {
   const select = <T extends object>(sql: string, bind: unknown[]) => ctx.sequelize.query<T>(sql, { bind, type: QueryTypes.SELECT })
+  // The rollup state as last read: it moves at most once an hour, and every bucket read checks it.
+  let lastRollups: Rollups | null = null
 
   async function latestFor(tankIds: number[]): Promise<LatestRow[]> {
     if (!tankIds.length) return []
@@ -208,9 +215,7 @@ export const seriesService = perContext((ctx: AppContext) => {
         to: q.to.toISOString(),
       }
       const range = [tankId, q.metric, q.from, q.to]
-      const [state] = await select<StateRow>(STATE_SQL, [...range, q.points + 1])
-      const rawComplete = q.from.getTime() >= instantMs(state.raw_kept_from)
-      if (rawComplete && state.raw <= q.points) {
+      const rawAnswer = async (): Promise<SeriesResponse> => {
         const rows = await select<RawRow>(rawSql(q.values), range)
         const raw: RawReading[] = rows.map((r) => ({
           t: r.time.toISOString(),
@@ -221,23 +226,35 @@ export const seriesService = perContext((ctx: AppContext) => {
         markSpikes(q.metric, raw)
         return { ...head, bucketSeconds: 0, points: [], raw }
       }
-      // Where raw rows are gone, hours are the finest thing left, and they cannot be split.
-      const bucketSeconds = chooseBucketSeconds(q.from, q.to, q.points, rawComplete ? 1 : HOUR)
-      const parts = readPlan(q.from.getTime(), q.to.getTime(), bucketSeconds, {
-        rolledUpBefore: state.rolled_up_before.getTime(),
-        rawKeptFrom: instantMs(state.raw_kept_from),
-      })
-      const spans = [...parts.raw, ...parts.hourly, parts.daily]
-      const bind = [tankId, q.metric, bucketSeconds, BUCKET_ORIGIN, ...spans.flatMap(([a, b]) => [new Date(a), new Date(b)])]
-      const rows = await select<BucketRow>(bucketsSql(q.values), bind)
-      const points: SeriesBucket[] = rows.map((r) => ({
-        t: r.bucket.toISOString(),
-        min: r.min,
-        mean: r.mean,
-        max: r.max,
-        count: r.count,
-      }))
-      return { ...head, bucketSeconds, points, raw: [] }
+      // The raw count is known only from a statement of this request; the state may be the last one seen.
+      let rollups = lastRollups
+      let rawCountNow: number | null = null
+      if (!rollups) {
+        const [state] = await select<StateRow>(STATE_SQL, [...range, q.points + 1])
+        rollups = lastRollups = rollupsOf(state)
+        rawCountNow = Number(state.raw)
+      }
+      for (;;) {
+        const rawComplete = q.from.getTime() >= rollups.rawKeptFrom
+        if (rawComplete && rawCountNow !== null && rawCountNow <= q.points) return rawAnswer()
+        // Where raw rows are gone, hours are the finest thing left, and they cannot be split.
+        const bucketSeconds = chooseBucketSeconds(q.from, q.to, q.points, rawComplete ? 1 : HOUR)
+        const parts = readPlan(q.from.getTime(), q.to.getTime(), bucketSeconds, rollups)
+        const spans = [...parts.raw, ...parts.hourly, parts.daily]
+        const bind = [tankId, q.metric, bucketSeconds, BUCKET_ORIGIN, ...spans.flatMap(([a, b]) => [new Date(a), new Date(b)]), q.from, q.to, q.points + 1]
+        const rows = await select<StateRow & Partial<BucketRow>>(bucketsSql(q.values), bind)
+        const seen = (lastRollups = rollupsOf(rows[0]))
+        rawCountNow = Number(rows[0].raw)
+        if (seen.rolledUpBefore !== rollups.rolledUpBefore || seen.rawKeptFrom !== rollups.rawKeptFrom) {
+          rollups = seen
+          continue
+        }
+        if (rawComplete && rawCountNow <= q.points) continue
+        const points: SeriesBucket[] = (rows as BucketRow[])
+          .filter((r) => r.bucket)
+          .map((r) => ({ t: r.bucket.toISOString(), min: r.min, mean: r.mean, max: r.max, count: r.count }))
+        return { ...head, bucketSeconds, points, raw: [] }
+      }
     },
 
     /** Newest value of each metric the tank has ever reported. */

@@ -213,4 +213,26 @@ describe('series from rollups', () => {
     expect((await dailyRows()).get(day)).toMatchObject({ min: 6.1, max: 8.3, count: 146 })
     expectSameDays(await dailyRows(), writtenDays())
   })
+
+  // Last in the file: it prunes raw rows the tests above read.
+  it('answers from the rollups as they are now after the hourly job has moved them on since the last chart', async () => {
+    const to = now - 1234
+    const from = now - 25 * DAY + 17 * MINUTE
+    const before = await series(from, to, 1000)
+    expect(before.bucketSeconds).toBe(3600)
+    expectPointsMatch(
+      before.points,
+      written.filter((r) => r.t >= from && r.t < to),
+      HOUR,
+    )
+    // The raw window shrinks past `from`: its first hour is now only in the rollups, and counts whole.
+    await retentionService(t.ctx).rollUpAndPrune({ rawRetentionDays: 20, now: new Date(now) })
+    const after = await series(from, to, 1000)
+    expect(after.points[0]).toMatchObject({ t: at(floorTo(from, HOUR)), count: 6 })
+    expectPointsMatch(
+      after.points,
+      written.filter((r) => r.t >= floorTo(from, HOUR) && r.t < to),
+      HOUR,
+    )
+  })
 })
