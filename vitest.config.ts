@@ -78,6 +78,8 @@ export default defineConfig({
           // A sign-in may be retried once on a busy machine (tests/e2e/browser.ts).
           testTimeout: 120000,
           hookTimeout: 120000,
+          // Like the api project: a worker imports the server once for all its files.
+          isolate: false,
         },
       },
       {
@@ -90,6 +92,7 @@ export default defineConfig({
           globalSetup: ['tests/helpers/global-setup.ts'],
           testTimeout: 120000,
           hookTimeout: 120000,
+          isolate: false,
         },
       },
       {
