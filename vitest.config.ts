@@ -3,6 +3,7 @@ import { defineConfig } from 'vitest/config'
 import { BaseSequencer, type TestSpecification } from 'vitest/node'
 import vue from '@vitejs/plugin-vue'
 import vuetify from 'vite-plugin-vuetify'
+import { createRequire } from 'node:module'
 
 const alias = {
   '@': fileURLToPath(new URL('./src', import.meta.url)),
@@ -22,6 +23,24 @@ class LongestFirst extends BaseSequencer {
     const rank = (spec: TestSpecification) => PROJECT_ORDER.indexOf(spec.project.name)
     return (await super.sort(files)).sort((a, b) => rank(a) - rank(b))
   }
+}
+
+// Component tests get Vuetify pre-bundled once per run (vitest's dependency optimizer) instead of
+// hundreds of its modules transformed and evaluated for every file: every entry the auto-import
+// plugin can name (Vuetify's own import map) and the ones the app imports by hand. Vuetify's CSS
+// imports become empty modules, as vitest's `css: false` makes them anyway.
+const vuetifyImportMap = createRequire(import.meta.url)('vuetify/dist/json/importMap.json') as { components: Record<string, { from: string }> }
+const VUETIFY_ENTRIES = [
+  'vuetify',
+  'vuetify/components',
+  'vuetify/directives',
+  'vuetify/iconsets/mdi-svg',
+  ...new Set(Object.values(vuetifyImportMap.components).map((c) => `vuetify/${c.from}`)),
+]
+const vuetifyCssOff = {
+  name: 'vuetify-css-off',
+  resolveId: (id: string) => (id.endsWith('.css') ? { id: '\0css-off', moduleSideEffects: false } : null),
+  load: (id: string) => (id === '\0css-off' ? 'export {}' : null),
 }
 
 // Projects: pure unit tests, API/integration tests over a real PostgreSQL (DATABASE_URL from
@@ -62,6 +81,7 @@ export default defineConfig({
           environment: 'jsdom',
           setupFiles: ['tests/components/setup.ts'],
           server: { deps: { inline: ['vuetify'] } },
+          deps: { optimizer: { client: { enabled: true, include: VUETIFY_ENTRIES, rolldownOptions: { plugins: [vuetifyCssOff] } } } },
           // Mounting Vuetify in jsdom is all CPU: a test may wait its turn among three workers.
           testTimeout: 30000,
         },
@@ -78,6 +98,8 @@ export default defineConfig({
           // A sign-in may be retried once on a busy machine (tests/e2e/browser.ts).
           testTimeout: 120000,
           hookTimeout: 120000,
+          // Like the api project: a worker imports the server once for all its files.
+          isolate: false,
         },
       },
       {
@@ -90,6 +112,7 @@ export default defineConfig({
           globalSetup: ['tests/helpers/global-setup.ts'],
           testTimeout: 120000,
           hookTimeout: 120000,
+          isolate: false,
         },
       },
       {
