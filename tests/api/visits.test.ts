@@ -165,7 +165,7 @@ describe('service visits', () => {
     expect(pdf).toMatchObject({ contentType: 'application/pdf' })
     expect(Buffer.from(pdf.base64, 'base64').subarray(0, 5).toString()).toBe('%PDF-')
     // The same report, uncompressed so its text can be read back.
-    const text = pdfText(await renderVisitPdf(t.ctx, closed.body, { compress: false })).join('\n')
+    const text = pdfText(await renderVisitPdf(t.ctx, closed.body, '24h', { compress: false })).join('\n')
     expect(text).toContain('Waiting room reef')
     expect(text).toContain('nitrate 40 mg/L: above band')
     expect(text).toContain('Photos: 1')
