@@ -1,5 +1,15 @@
 import { afterEach, describe, expect, it } from 'vitest'
-import { formatClock, formatDateTime, formatDayTime, formatInZone, formatTimeOfDay, formatYear, formatZonedClock, formatZonedDateTime, setClockStyle } from '@shared/time'
+import {
+  formatClock,
+  formatDateTime,
+  formatDayTime,
+  formatInZone,
+  formatTimeOfDay,
+  formatYear,
+  formatZonedClock,
+  formatZonedDateTime,
+  setClockStyle,
+} from '@shared/time'
 
 // 2026-03-03 13:05 UTC is 14:05 in Berlin (CET, UTC+1).
 const AT = '2026-03-03T13:05:00Z'
