@@ -1,11 +1,13 @@
 import { QueryTypes } from 'sequelize'
 import { byUrgency } from '@shared/care/due'
+import { formatDayTime } from '@shared/time'
 import { formatLocalDate, localDateAt, offsetAt } from '@shared/time/zoned'
 import type { AppContext } from '../context'
 import { careDigest, type DigestTank, type DigestTask } from '../mail'
 import { enqueueMail } from '../mail'
 import { dueItems } from './care-tasks'
 import { dutyRecipients } from '../roster'
+import { clockStyleOf } from '../people'
 import { tanksToWatch } from './tanks-to-watch'
 
 /** The digest goes out from the configured hour until this many hours later (a late start still sends it). */
@@ -39,18 +41,6 @@ function dayLabel(timeZone: string, atMs: number) {
   return new Intl.DateTimeFormat('en-GB', { timeZone, weekday: 'long', day: 'numeric', month: 'long', year: 'numeric' }).format(atMs).replace(',', '')
 }
 
-function shortMoment(timeZone: string, iso: string) {
-  return new Intl.DateTimeFormat('en-GB', {
-    timeZone,
-    weekday: 'short',
-    day: 'numeric',
-    month: 'short',
-    hour: '2-digit',
-    minute: '2-digit',
-    hourCycle: 'h23',
-  }).format(new Date(iso))
-}
-
 /**
  * Mails each site's care digest to the people on duty, once per site per local day: the first run
  * inside the site's window decides who gets it and enqueues all of it in one transaction; a lock
@@ -79,11 +69,12 @@ export async function sendCareDigests(ctx: AppContext, options: DigestOptions, n
       if (!entry || entry.url !== url) tanks.push((entry = { name: tank.name, url, tasks: [] }))
       entry.tasks.push({ title: task.title, status: due.status as DigestTask['status'], dueOn: due.dueOn, daysUntilDue: due.daysUntilDue })
     }
+    const clockStyle = await clockStyleOf(ctx, site.organizationId)
     const watch = (await tanksToWatch(ctx, [site.id], now)).map((w) => ({
       name: w.tank.name,
       url: `${ctx.config.publicUrl}/tanks/${w.tank.id}`,
       quarantine: w.quarantine,
-      watchUntilText: w.watchUntil ? shortMoment(zone, w.watchUntil) : null,
+      watchUntilText: w.watchUntil ? formatDayTime(w.watchUntil, zone, clockStyle) : null,
     }))
     const mail = careDigest({ siteName: site.name, dayLabel: dayLabel(zone, now.getTime()), tanks, watch, careTodayUrl: `${ctx.config.publicUrl}/care/today` })
 

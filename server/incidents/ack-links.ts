@@ -3,6 +3,7 @@ import { hashSecret, newSecretToken } from '../access/tokens'
 import type { AppContext } from '../context'
 import { AppError, notFound } from '../platform/errors'
 import { incidentsOf } from './incidents'
+import { clockStyleOf } from '../people'
 import { perContext } from '../platform/per-context'
 
 export const ACK_LINK_HOURS = 48
@@ -44,6 +45,7 @@ export const ackLinksService = perContext((ctx: AppContext) => {
       tankName: joined.tank?.name ?? '',
       siteName: joined.site?.name ?? '',
       timeZone: joined.site?.timeZone ?? 'UTC',
+      clockStyle: await clockStyleOf(ctx, incident.organizationId),
       openedAt: incident.openedAt.toISOString(),
       acknowledgedAt: incident.acknowledgedAt?.toISOString() ?? null,
       acknowledgedBy: person(incident.acknowledgedBy),

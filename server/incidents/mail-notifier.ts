@@ -120,6 +120,7 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
               window: { from: Date.now() - 6 * 3600_000, to: Date.now() },
               unitLabel: def?.unitLabel ?? '',
               timeZone: site?.timeZone ?? 'UTC',
+              clockStyle: organization?.clockStyle,
             })
           : undefined
       const serial =
@@ -169,6 +170,7 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
               metricLabel: def?.label ?? incident.metric,
               since: incident.openedAt.toISOString(),
               siteTimeZone: site?.timeZone ?? 'UTC',
+              clockStyle: organization?.clockStyle,
               ackToken: acknowledgeUrl ? (new URL(acknowledgeUrl).searchParams.get('token') ?? undefined) : undefined,
             }),
           },
@@ -187,6 +189,7 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
           unitLabel: def?.unitLabel ?? '',
           since: incident.openedAt.toISOString(),
           siteTimeZone: site?.timeZone ?? 'UTC',
+          clockStyle: organization?.clockStyle,
           whatToCheck: rule ? whatToCheck(rule.spec, incident.metric) : [],
           incidentUrl: `${config.publicUrl}/incidents/${incident.id}`,
           acknowledgeUrl,
@@ -247,6 +250,7 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
         organizationName: organization?.name ?? '',
         siteName: site?.name ?? '',
         siteTimeZone: site?.timeZone ?? 'UTC',
+        clockStyle: organization?.clockStyle,
         title: siteIncident.title,
         severity: siteIncident.severity,
         tanks,
@@ -269,6 +273,7 @@ export function createMailNotifier(ctx: AppContext): IncidentNotifier {
         tanks,
         openedAt: siteIncident.openedAt.toISOString(),
         siteTimeZone: site?.timeZone ?? 'UTC',
+        clockStyle: organization?.clockStyle,
         escalated: kind === 'escalated',
       })
       const told: string[] = []

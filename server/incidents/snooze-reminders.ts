@@ -3,6 +3,7 @@ import type { AppContext } from '../context'
 import { enqueueMail } from '../mail'
 import { escapeHtml, layout } from '../mail'
 import { formatInZone } from '@shared/time'
+import { clockStyleOf } from '../people'
 
 export const REMIND_BEFORE_MS = 15 * 60_000
 const WEEK_MS = 7 * 86400_000
@@ -35,7 +36,7 @@ export async function remindEndingSnoozes(ctx: AppContext, now = Date.now()) {
     const [user, tank] = await Promise.all([models.User.findByPk(s.createdBy!), models.Tank.findByPk(s.tankId, { include: [{ association: 'site' }] })])
     if (!user?.active || !tank) continue
     const zone = tank.site?.timeZone ?? 'UTC'
-    const until = formatInZone(new Date(end).toISOString(), zone)
+    const until = formatInZone(new Date(end).toISOString(), zone, await clockStyleOf(ctx, s.organizationId))
     const text = `The snooze you set on ${tank.name} ("${s.reason}") ends at ${until}. From then on its watch rules alert the people on duty again.`
     const id = await enqueueMail(ctx, {
       kind: 'snooze_ending',

@@ -1,3 +1,5 @@
+import type { ClockStyle } from '@shared/schemas/auth'
+import { formatClock, formatDateTime } from '@shared/time'
 import { offsetAt } from '@shared/time/zoned'
 
 // The chart library and the image library are loaded on the first chart, not at start-up: together
@@ -10,6 +12,8 @@ export type TrendChartInput = {
   title: string
   unitLabel: string
   timeZone: string
+  /** The organisation's clock for the axis labels; 24-hour unless given. */
+  clockStyle?: ClockStyle
   /** The span the axis shows (the mail's "last 6 h"); by default the points' own span. */
   window?: { from: number; to: number }
   width?: number
@@ -19,15 +23,9 @@ export type TrendChartInput = {
 export const TREND_CHART_SIZE = { width: 600, height: 240 }
 
 /** Axis labels in the site's zone: the chart library itself only knows the process's zone. */
-function clockLabel(timeZone: string, spanMs: number) {
-  const format = new Intl.DateTimeFormat('en-GB', {
-    timeZone,
-    hour: '2-digit',
-    minute: '2-digit',
-    hourCycle: 'h23',
-    ...(spanMs > 36 * 3_600_000 ? { day: 'numeric', month: 'short' } : {}),
-  })
-  return (ms: number) => format.format(new Date(ms))
+function clockLabel(timeZone: string, spanMs: number, style?: ClockStyle) {
+  const format = spanMs > 36 * 3_600_000 ? formatDateTime : formatClock
+  return (ms: number) => format(ms, timeZone, style)
 }
 
 const MINUTE = 60_000
@@ -97,7 +95,7 @@ export async function renderTrendSvg(input: TrendChartInput): Promise<string> {
         max: ticks.max,
         minInterval: ticks.step,
         maxInterval: ticks.step,
-        axisLabel: { formatter: clockLabel(input.timeZone, spanMs), color: '#52606d', fontSize: 10, hideOverlap: true },
+        axisLabel: { formatter: clockLabel(input.timeZone, spanMs, input.clockStyle), color: '#52606d', fontSize: 10, hideOverlap: true },
       },
       yAxis: {
         type: 'value',

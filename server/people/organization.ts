@@ -1,5 +1,6 @@
-import type { Organization, OrganizationSettingsBody } from '@shared/schemas/auth'
+import type { ClockStyle, Organization, OrganizationSettingsBody } from '@shared/schemas/auth'
 import type { UserActor } from '../access/actor'
+import type { Transaction } from 'sequelize'
 import type { AppContext } from '../context'
 import { notFound } from '../platform/errors'
 import { perContext } from '../platform/per-context'
@@ -15,3 +16,9 @@ export const organizationService = perContext((ctx: AppContext) => ({
     return presentOrganization(organization.id, organization)
   },
 }))
+
+/** The clock the organisation's people read times on, for mails and PDFs written on its behalf. */
+export async function clockStyleOf(ctx: AppContext, organizationId: number, transaction?: Transaction): Promise<ClockStyle> {
+  const organization = await ctx.models.Organization.findByPk(organizationId, { attributes: ['clockStyle'], transaction })
+  return organization?.clockStyle ?? '24h'
+}

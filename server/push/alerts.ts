@@ -1,5 +1,6 @@
 import type { Transaction } from 'sequelize'
 import type { AlertChannel, AlertChannels, PushPayload } from '@shared/schemas/push'
+import type { ClockStyle } from '@shared/schemas/auth'
 import { formatZonedDateTime } from '@shared/time'
 import type { AppContext } from '../context'
 import { DEFAULT_CHANNELS } from './devices'
@@ -19,6 +20,7 @@ export type IncidentPushInput = {
   /** When it started (ISO). */
   since: string
   siteTimeZone: string
+  clockStyle?: ClockStyle
   /** The single-use acknowledge token of this person's alert (none for the all-clear). */
   ackToken?: string
 }
@@ -44,7 +46,7 @@ const TITLES: Record<IncidentPushKind, (i: IncidentPushInput) => string> = {
  * Acknowledge action; the all-clear does not.
  */
 export function incidentPush(kind: IncidentPushKind, i: IncidentPushInput): PushPayload {
-  const since = formatZonedDateTime(i.since, i.siteTimeZone)
+  const since = formatZonedDateTime(i.since, i.siteTimeZone, i.clockStyle)
   const body =
     kind === 'resolved'
       ? `${i.metricLabel} is back in range (opened ${since}) · ${i.siteName}`
@@ -86,13 +88,14 @@ export type SitePushInput = {
   tanks: string[]
   openedAt: string
   siteTimeZone: string
+  clockStyle?: ClockStyle
   escalated: boolean
 }
 
 /** One notification for a site-wide fault, in place of each tank's own; it opens the site's incidents. */
 export function sitePush(i: SitePushInput): PushPayload {
   const count = i.tanks.length === 1 ? '1 tank' : `${i.tanks.length} tanks`
-  const body = `Since ${formatZonedDateTime(i.openedAt, i.siteTimeZone)}: ${i.tanks.join('; ')}`
+  const body = `Since ${formatZonedDateTime(i.openedAt, i.siteTimeZone, i.clockStyle)}: ${i.tanks.join('; ')}`
   return {
     title: one(`${i.escalated ? 'Escalated — ' : ''}${SEVERITY[i.severity]}: ${count} at ${i.siteName} at once`),
     body: one(body).slice(0, 400),

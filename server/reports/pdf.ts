@@ -106,7 +106,11 @@ function metricBlock(doc: Doc, m: ReportMetric, report: Report) {
   doc.fillColor(COLOURS.ink)
   write(doc, metricSummary(m), 'body', 9)
   if (m.gaps.length) {
-    const listed = m.gaps.slice(0, 4).map((g) => `${moment(g.from, report.subject.timeZone)} to ${moment(g.to, report.subject.timeZone)}`)
+    const listed = m.gaps
+      .slice(0, 4)
+      .map(
+        (g) => `${moment(g.from, report.subject.timeZone, report.subject.clockStyle)} to ${moment(g.to, report.subject.timeZone, report.subject.clockStyle)}`,
+      )
     doc.fillColor(COLOURS.muted)
     write(doc, `No readings: ${listed.join('; ')}${m.gaps.length > 4 ? `; and ${m.gaps.length - 4} more` : ''}`, 'body', 8)
   }
@@ -141,7 +145,7 @@ function tankPages(doc: Doc, tank: TankReport, report: Report) {
   const s = tank.incidentSummary
   const incidentLines = tank.incidents.map(
     (i) =>
-      `${moment(i.openedAt, zone)} · ${i.severity} · ${i.title} · acknowledged after ${formatSpan(i.timeToAcknowledgeMs)} · ${i.resolvedAt ? `resolved after ${formatSpan(i.timeToResolveMs)}` : 'still open'}`,
+      `${moment(i.openedAt, zone, report.subject.clockStyle)} · ${i.severity} · ${i.title} · acknowledged after ${formatSpan(i.timeToAcknowledgeMs)} · ${i.resolvedAt ? `resolved after ${formatSpan(i.timeToResolveMs)}` : 'still open'}`,
   )
   const incidentHead = s.opened
     ? [
@@ -164,8 +168,13 @@ function tankPages(doc: Doc, tank: TankReport, report: Report) {
   )
   const stock = tank.livestock
   const stockHead = stock.changes.length ? [`added ${stock.added} · removed ${stock.removed} · lost ${stock.lost}`] : []
-  section(doc, 'Livestock', [...stockHead, ...capped(stock.changes.map((c) => `${moment(c.at, zone)} · ${c.text}`))], 'No livestock changes.')
-  section(doc, 'Photos', capped(tank.photos.map((p) => `${moment(p.takenAt, zone)} · ${p.caption}`)), 'No photos in this period.')
+  section(
+    doc,
+    'Livestock',
+    [...stockHead, ...capped(stock.changes.map((c) => `${moment(c.at, zone, report.subject.clockStyle)} · ${c.text}`))],
+    'No livestock changes.',
+  )
+  section(doc, 'Photos', capped(tank.photos.map((p) => `${moment(p.takenAt, zone, report.subject.clockStyle)} · ${p.caption}`)), 'No photos in this period.')
 }
 
 /** An A4 document with the report fonts; `done` resolves to the bytes once `doc.end()` is called. */
@@ -200,7 +209,12 @@ export async function renderReportPdf(report: Report, options: { compress?: bool
     doc.fillColor(COLOURS.ink)
     write(doc, report.period.label, 'bold', 13)
     doc.fillColor(COLOURS.muted)
-    write(doc, `Times in ${zone}${report.period.inProgress ? ` · period still running, figures up to ${moment(report.generatedAt, zone)}` : ''}`, 'body', 8)
+    write(
+      doc,
+      `Times in ${zone}${report.period.inProgress ? ` · period still running, figures up to ${moment(report.generatedAt, zone, report.subject.clockStyle)}` : ''}`,
+      'body',
+      8,
+    )
     doc.moveDown(0.6)
     tankPages(doc, tank, report)
   })

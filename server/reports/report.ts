@@ -7,6 +7,7 @@ import { badRequest, notFound } from '../platform/errors'
 import type { Client, Site, Tank } from '../models'
 import { tankReport } from './report-data'
 import { sitesService } from '../sites'
+import { clockStyleOf } from '../people'
 import { tankScope, visibleTank } from '../access/scope'
 import { perContext } from '../platform/per-context'
 
@@ -31,13 +32,14 @@ export async function buildReport(ctx: AppContext, subject: ReportSubject, perio
   const reports = []
   for (const tank of tanks) reports.push(await tankReport(ctx, tank, period, to))
   const { site } = subject
+  const clockStyle = await clockStyleOf(ctx, site.organizationId)
   return {
     subject:
       subject.kind === 'tank'
-        ? { kind: 'tank', id: subject.tank.id, name: subject.tank.name, siteId: site.id, siteName: site.name, timeZone: site.timeZone }
+        ? { kind: 'tank', id: subject.tank.id, name: subject.tank.name, siteId: site.id, siteName: site.name, timeZone: site.timeZone, clockStyle }
         : subject.kind === 'client'
-          ? { kind: 'client', id: subject.client.id, name: subject.client.name, siteId: site.id, siteName: site.name, timeZone: site.timeZone }
-          : { kind: 'site', id: site.id, name: site.name, siteId: site.id, siteName: site.name, timeZone: site.timeZone },
+          ? { kind: 'client', id: subject.client.id, name: subject.client.name, siteId: site.id, siteName: site.name, timeZone: site.timeZone, clockStyle }
+          : { kind: 'site', id: site.id, name: site.name, siteId: site.id, siteName: site.name, timeZone: site.timeZone, clockStyle },
     period: {
       kind: period.kind,
       label: period.label,

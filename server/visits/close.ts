@@ -7,6 +7,7 @@ import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { instantNotAhead, writeCareLog } from '../care'
 import { enqueueMail } from '../mail'
+import { clockStyleOf } from '../people'
 import { badRequest, conflict } from '../platform/errors'
 import type { CareTask, Tank, TestKitEntry, Visit } from '../models'
 import { presentVisits } from './present'
@@ -146,8 +147,9 @@ export async function closeVisit(
     )
     if (options.sendReport === false) return
     const [closed] = await presentVisits(ctx, [Object.assign(locked, { site: visit.site, client: visit.client, technician: visit.technician }) as Visit], now)
-    const pdf = await renderVisitPdf(ctx, closed)
-    const mail = visitReportMail(closed, pdf, new URL(`/visits/${visit.id}`, ctx.config.publicUrl).toString())
+    const clock = await clockStyleOf(ctx, visit.organizationId, transaction)
+    const pdf = await renderVisitPdf(ctx, closed, clock)
+    const mail = visitReportMail(closed, pdf, new URL(`/visits/${visit.id}`, ctx.config.publicUrl).toString(), clock)
     for (const to of await recipientsOf(ctx, visit)) {
       await enqueueMail(ctx, { kind: 'visit_report', to, ...mail, organizationId: visit.organizationId, dedupeKey: `visit:${visit.id}:${to}` }, { transaction })
     }

@@ -1,3 +1,4 @@
+import type { ClockStyle } from '@shared/schemas/auth'
 import type { PublicVisit } from '@shared/schemas/visits'
 import { button, escapeHtml, factsTable, layout, oneLine, READINGS_ARE_AIDS, type RenderedMail } from '../mail'
 import { materialLines, nextLine, readingLine, timeOnSite, visitHeadline } from './report-text'
@@ -9,12 +10,12 @@ export function visitFileName(visit: PublicVisit) {
 }
 
 /** The visit report mail: what was done per tank, the readings with their verdicts, what comes next; the PDF attached. */
-export function visitReportMail(visit: PublicVisit, pdf: Buffer, link: string): RenderedMail {
+export function visitReportMail(visit: PublicVisit, pdf: Buffer, link: string, clock: ClockStyle): RenderedMail {
   const subject = oneLine(`Tankwarden visit report: ${visit.clientName}, ${visit.siteName}`)
-  const headline = visitHeadline(visit)
+  const headline = visitHeadline(visit, clock)
   const facts: Array<[string, string]> = [
     ['Technician', visit.technician.name],
-    ['On site', timeOnSite(visit)],
+    ['On site', timeOnSite(visit, clock)],
     ['Photos', String(visit.photoIds.length)],
     ['Materials', materialLines(visit).join(', ') || 'none recorded'],
   ]

@@ -1,4 +1,5 @@
 // The visit report as a PDF, with the report fonts and layout of server/reports/.
+import type { ClockStyle } from '@shared/schemas/auth'
 import type { PublicVisit } from '@shared/schemas/visits'
 import type { AppContext } from '../context'
 import { READINGS_ARE_AIDS } from '../mail'
@@ -9,15 +10,15 @@ import { materialLines, nextLine, readingLine, timeOnSite, visitHeadline } from 
 const THUMB = 120
 const MAX_PHOTOS = 8
 
-/** Renders the report of a closed visit; `compress: false` keeps the text readable for tests. */
-export async function renderVisitPdf(ctx: AppContext, visit: PublicVisit, options: { compress?: boolean } = {}): Promise<Buffer> {
+/** Renders the report of a closed visit on the organisation's clock; `compress: false` keeps the text readable for tests. */
+export async function renderVisitPdf(ctx: AppContext, visit: PublicVisit, clock: ClockStyle, options: { compress?: boolean } = {}): Promise<Buffer> {
   const { doc, done } = openDocument(`Tankwarden visit report: ${visit.clientName}`, new Date(visit.closedAt ?? Date.now()), options)
   doc.fillColor(COLOURS.muted)
   write(doc, `Tankwarden visit report · ${visit.clientName}`, 'body', 9)
   doc.fillColor(COLOURS.ink)
-  write(doc, visitHeadline(visit), 'bold', 16)
+  write(doc, visitHeadline(visit, clock), 'bold', 16)
   doc.fillColor(COLOURS.muted)
-  write(doc, `${visit.siteAddress || visit.siteName} · technician ${visit.technician.name} · on site ${timeOnSite(visit)}`, 'body', 9)
+  write(doc, `${visit.siteAddress || visit.siteName} · technician ${visit.technician.name} · on site ${timeOnSite(visit, clock)}`, 'body', 9)
   doc.moveDown(0.8)
   for (const w of visit.work) {
     doc.fillColor(COLOURS.accent)

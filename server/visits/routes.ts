@@ -3,6 +3,7 @@ import { idParamsSchema } from '@shared/schemas/common'
 import { roundQuerySchema, visitCloseSchema, visitInputSchema, visitListQuerySchema, visitUpdateSchema } from '@shared/schemas/visits'
 import { actorOf, allow } from '../access/middleware'
 import type { AppContext } from '../context'
+import { clockStyleOf } from '../people'
 import { parse, parseChanges } from '../platform/http/validate'
 import { closeVisit } from './close'
 import { visitFileName } from './report-mail'
@@ -39,11 +40,12 @@ export function visitsRouter(ctx: AppContext) {
     res.json(await closeVisit(ctx, actorOf(req), id(req), parse(visitCloseSchema, req, 'body')))
   })
   router.get('/:id/report/pdf', allow('visits.read'), async (req, res) => {
-    const visit = await visits.get(actorOf(req), id(req))
+    const actor = actorOf(req)
+    const visit = await visits.get(actor, id(req))
     res
       .type('application/pdf')
       .set('Content-Disposition', `attachment; filename="${visitFileName(visit)}"`)
-      .send(await renderVisitPdf(ctx, visit))
+      .send(await renderVisitPdf(ctx, visit, await clockStyleOf(ctx, actor.organizationId)))
   })
   return router
 }

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import type { ClockStyle } from './auth'
 import { idSchema, pageQuerySchema } from './common'
 import type { HeaterAge } from './equipment'
 import { instantSchema } from './time'
@@ -78,6 +79,8 @@ export interface AckLinkIncident {
   siteName: string
   /** The site's zone: every time on the page is shown on its clock. */
   timeZone: string
+  /** The organisation's clock: the page is read without a session, so it cannot come from one. */
+  clockStyle: ClockStyle
   openedAt: string
   acknowledgedAt: string | null
   acknowledgedBy: { name: string } | null

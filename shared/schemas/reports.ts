@@ -1,6 +1,7 @@
 import { z } from 'zod'
 import { REPORT_PERIOD_KINDS, type ReportPeriodKind } from '../report/period'
 import { localDateSchema } from './time'
+import type { ClockStyle } from './auth'
 
 const localDate = localDateSchema
 
@@ -115,7 +116,8 @@ export type TankReport = {
 }
 
 export type Report = {
-  subject: { kind: 'tank' | 'site' | 'client'; id: number; name: string; siteId: number; siteName: string; timeZone: string }
+  /** `clockStyle`: the organisation's clock, which the PDF and the mail write times on. */
+  subject: { kind: 'tank' | 'site' | 'client'; id: number; name: string; siteId: number; siteName: string; timeZone: string; clockStyle: ClockStyle }
   period: {
     kind: ReportPeriodKind
     label: string

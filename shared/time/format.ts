@@ -31,37 +31,38 @@ const CLOCKS = {
 let clockStyle: ClockStyle = '24h'
 
 /**
- * How every clock time this module writes reads from now on: "14:05" or "2:05 pm". The client sets
- * its organisation's choice once signed in; the server's mails and PDFs keep the 24-hour default.
+ * How every clock time this module writes reads when no style is passed: "14:05" or "2:05 pm". The
+ * client sets its organisation's choice once signed in. The server serves many organisations at once,
+ * so its mails and PDFs pass the organisation's style to each call (the last argument) instead.
  */
 export function setClockStyle(style: ClockStyle) {
   clockStyle = style
 }
 
-const clock = () => CLOCKS[clockStyle]
+const clock = (style: ClockStyle = clockStyle) => CLOCKS[style]
 
 /** "14:05", or "2:05 pm" on a 12-hour clock */
-export function formatClock(value: Instant, timeZone?: string): string {
-  return formatter(timeZone, clock()).format(toDate(value))
+export function formatClock(value: Instant, timeZone?: string, style?: ClockStyle): string {
+  return formatter(timeZone, clock(style)).format(toDate(value))
 }
 
 /** "3 Mar, 14:05" */
-export function formatDateTime(value: Instant | null | undefined, timeZone?: string): string {
+export function formatDateTime(value: Instant | null | undefined, timeZone?: string, style?: ClockStyle): string {
   if (value == null) return '—'
-  return formatter(timeZone, { day: 'numeric', month: 'short', ...clock() }).format(toDate(value))
+  return formatter(timeZone, { day: 'numeric', month: 'short', ...clock(style) }).format(toDate(value))
 }
 
 /** A time of day as stored ("07:00", "19:30") in the clock style: "07:00", or "7:00 am". */
-export function formatTimeOfDay(hhmm: string): string {
+export function formatTimeOfDay(hhmm: string, style: ClockStyle = clockStyle): string {
   const match = /^(\d{2}):(\d{2})$/.exec(hhmm)
-  if (!match || clockStyle === '24h') return hhmm
+  if (!match || style === '24h') return hhmm
   const hour = Number(match[1]) % 24
   return `${hour % 12 === 0 ? 12 : hour % 12}:${match[2]} ${hour < 12 ? 'am' : 'pm'}`
 }
 
 /** "Tue 3 Mar, 14:05" */
-export function formatDayTime(value: Instant, timeZone?: string): string {
-  return formatter(timeZone, { weekday: 'short', day: 'numeric', month: 'short', ...clock() }).format(toDate(value))
+export function formatDayTime(value: Instant, timeZone?: string, style?: ClockStyle): string {
+  return formatter(timeZone, { weekday: 'short', day: 'numeric', month: 'short', ...clock(style) }).format(toDate(value))
 }
 
 /** "2026" on the zone's calendar */
@@ -81,14 +82,14 @@ export function zoneAbbreviation(value: Instant, timeZone?: string): string {
 }
 
 /** "3 Mar, 14:05 CET": a date and time that names its zone. */
-export function formatZonedDateTime(value: Instant | null | undefined, timeZone?: string): string {
+export function formatZonedDateTime(value: Instant | null | undefined, timeZone?: string, style?: ClockStyle): string {
   if (value == null) return '—'
-  return `${formatDateTime(value, timeZone)} ${zoneAbbreviation(value, timeZone)}`
+  return `${formatDateTime(value, timeZone, style)} ${zoneAbbreviation(value, timeZone)}`
 }
 
 /** "14:05 CET" */
-export function formatZonedClock(value: Instant, timeZone?: string): string {
-  return `${formatClock(value, timeZone)} ${zoneAbbreviation(value, timeZone)}`
+export function formatZonedClock(value: Instant, timeZone?: string, style?: ClockStyle): string {
+  return `${formatClock(value, timeZone, style)} ${zoneAbbreviation(value, timeZone)}`
 }
 
 /** "Tue 3 Mar" */
@@ -105,7 +106,7 @@ export function formatCalendarDay(value: Instant, timeZone?: string): string {
  * "Sun, 25 Oct 2026, 02:30 GMT+1": a moment with the UTC offset, so a shift change or a clock
  * change is unambiguous in a mail read days later.
  */
-export function formatInZone(iso: string, timeZone: string): string {
+export function formatInZone(iso: string, timeZone: string, style?: ClockStyle): string {
   const moment = new Date(iso)
   if (Number.isNaN(moment.getTime())) throw new RangeError(`Not an ISO time: ${iso}`)
   return new Intl.DateTimeFormat('en-GB', {
@@ -114,7 +115,7 @@ export function formatInZone(iso: string, timeZone: string): string {
     day: 'numeric',
     month: 'short',
     year: 'numeric',
-    ...clock(),
+    ...clock(style),
     timeZoneName: 'shortOffset',
   }).format(moment)
 }

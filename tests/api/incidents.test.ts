@@ -210,7 +210,13 @@ describe('acknowledge links', () => {
     expect(shown.body).toMatchObject({ incident: { id, title: ABOVE, severity: 'alarm', state: 'open' }, usedAt: null, expired: false })
     expect(shown.body.incident.tankName).toMatch(/^Tank /)
     // The site's zone comes along, so the page can show every time on the site's clock.
-    expect(shown.body.incident).toMatchObject({ siteName: 'Incident Org shop', timeZone: 'Europe/Berlin', acknowledgedAt: null, acknowledgedBy: null })
+    expect(shown.body.incident).toMatchObject({
+      siteName: 'Incident Org shop',
+      timeZone: 'Europe/Berlin',
+      clockStyle: '24h',
+      acknowledgedAt: null,
+      acknowledgedBy: null,
+    })
     const expiresIn = Date.parse(shown.body.expiresAt) - before
     expect(expiresIn).toBeGreaterThanOrEqual(ACK_LINK_HOURS * 3600_000)
     expect(expiresIn).toBeLessThan(ACK_LINK_HOURS * 3600_000 + 60_000)

@@ -165,10 +165,15 @@ describe('service visits', () => {
     expect(pdf).toMatchObject({ contentType: 'application/pdf' })
     expect(Buffer.from(pdf.base64, 'base64').subarray(0, 5).toString()).toBe('%PDF-')
     // The same report, uncompressed so its text can be read back.
-    const text = pdfText(await renderVisitPdf(t.ctx, closed.body, { compress: false })).join('\n')
+    const text = pdfText(await renderVisitPdf(t.ctx, closed.body, '24h', { compress: false })).join('\n')
     expect(text).toContain('Waiting room reef')
     expect(text).toContain('nitrate 40 mg/L: above band')
     expect(text).toContain('Photos: 1')
+    expect(text).toMatch(/on site \d+ \w+, \d{2}:\d{2} [A-Z]/)
+    // On a 12-hour clock the same times read "9:05 am CET", and no "09:05 CET" is left.
+    const twelve = pdfText(await renderVisitPdf(t.ctx, closed.body, '12h', { compress: false })).join('\n')
+    expect(twelve).toMatch(/on site \d+ \w+, \d{1,2}:\d{2} [ap]m [A-Z]/)
+    expect(twelve).not.toMatch(/\d{2}:\d{2} [A-Z]/)
 
     // Closed once: a second close is a conflict.
     expect((await api('post', `/visits/${visit.id}/close`, keeper(), {})).status).toBe(409)

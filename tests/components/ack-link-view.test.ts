@@ -19,6 +19,7 @@ const fresh: AckLinkInfo = {
     tankName: 'Reef display',
     siteName: 'Front shop',
     timeZone: 'Europe/Berlin',
+    clockStyle: '24h',
     openedAt: '2026-03-03T02:10:00.000Z',
     acknowledgedAt: null,
     acknowledgedBy: null,
@@ -56,6 +57,11 @@ describe('acknowledge link page', () => {
     expect(wrapper.find('[data-test="ack-opened"]').text()).toBe('Reef display · opened 3 Mar, 03:10 CET')
     expect(about).toContain("Times are Front shop's local time (Europe/Berlin).")
     expect(wrapper.find('[data-test="ack-button"]').exists()).toBe(true)
+  })
+
+  it("shows the times on the organisation's 12-hour clock when it chose one, without a session", async () => {
+    const wrapper = await openLink({ ...fresh, incident: { ...fresh.incident, clockStyle: '12h' } })
+    expect(wrapper.find('[data-test="ack-opened"]').text()).toBe('Reef display · opened 3 Mar, 3:10 am CET')
   })
 
   it('acknowledges on the button, with the note', async () => {

@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest'
 import SnoozeDialog from '@/components/rules/SnoozeDialog.vue'
 import { parseSnoozeDraft } from '@/components/rules/snooze-draft'
 import { mountView } from './mount'
+import { typeMoment } from './type-moment'
 
 const inDocument = (selector: string) => new DOMWrapper(document.querySelector(selector)!)
 // Mid-January: no clock change in any zone the tests may run in falls between these dates.
@@ -32,8 +33,8 @@ describe('snooze form', () => {
   it('refuses more than 7 days and sends nothing', async () => {
     const dialog = await openDialog()
     await inDocument('input[name="snoozeReason"]').setValue('Moving the tank to the new stand')
-    await inDocument('input[name="snoozeStarts"]').setValue('2026-01-10T09:00')
-    await inDocument('input[name="snoozeEnds"]').setValue('2026-01-17T09:01')
+    await typeMoment('snoozeStarts', '2026-01-10T09:00')
+    await typeMoment('snoozeEnds', '2026-01-17T09:01')
     await inDocument('.v-dialog form').trigger('submit')
     await flushPromises()
     expect(document.querySelector('.v-dialog')!.textContent).toContain('at most 7 days at a time')
@@ -43,8 +44,8 @@ describe('snooze form', () => {
   it('sends exactly 7 days, heater line left alone unless ticked', async () => {
     const dialog = await openDialog()
     await inDocument('input[name="snoozeReason"]').setValue('Moving the tank to the new stand')
-    await inDocument('input[name="snoozeStarts"]').setValue('2026-01-10T09:00')
-    await inDocument('input[name="snoozeEnds"]').setValue('2026-01-17T09:00')
+    await typeMoment('snoozeStarts', '2026-01-10T09:00')
+    await typeMoment('snoozeEnds', '2026-01-17T09:00')
     await inDocument('.v-dialog form').trigger('submit')
     expect(dialog.emitted('save')![0]).toEqual([
       {

@@ -9,6 +9,7 @@ import { cancelSnooze, createSnooze, listSnoozes } from '@/api/rules'
 import SnoozeDialog from '@/components/rules/SnoozeDialog.vue'
 import SnoozesPanel from '@/components/rules/SnoozesPanel.vue'
 import { mountView } from './mount'
+import { typeMoment } from './type-moment'
 
 // A panel written with useEditableList, end to end: list, dialog, the server's field message,
 // the message going when the field is edited, and the list fetched again after the save.
@@ -42,8 +43,8 @@ async function openPanelAndDialog() {
   await wrapper.find('[data-test="add-snooze"]').trigger('click')
   await flushPromises()
   await inDocument('input[name="snoozeReason"]').setValue('Moving the tank to the new stand')
-  await inDocument('input[name="snoozeStarts"]').setValue('2026-01-10T09:00')
-  await inDocument('input[name="snoozeEnds"]').setValue('2026-01-10T17:00')
+  await typeMoment('snoozeStarts', '2026-01-10T09:00')
+  await typeMoment('snoozeEnds', '2026-01-10T17:00')
   return wrapper
 }
 
@@ -67,7 +68,7 @@ describe('snoozes panel', { timeout: 30_000 }, () => {
     await inDocument('input[name="snoozeReason"]').setValue('Moving the tank to the new stand, second go')
     await flushPromises()
     expect(messageUnder('snoozeEnds')).toBe('overlaps the snooze already set')
-    await inDocument('input[name="snoozeEnds"]').setValue('2026-01-10T16:00')
+    await typeMoment('snoozeEnds', '2026-01-10T16:00')
     await flushPromises()
     // The field's own hint comes back in place of the message.
     expect(messageUnder('snoozeEnds')).toBe('At most 7 days at a time')

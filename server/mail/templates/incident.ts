@@ -1,6 +1,7 @@
 import type { OutboxAttachment, RenderedMail } from '../types'
 import { button, cautionBox, escapeHtml, factsTable, layout, oneLine, safeUrl } from './html'
 import { READINGS_ARE_AIDS } from './safety'
+import type { ClockStyle } from '@shared/schemas/auth'
 import { formatDuration, formatInZone } from '@shared/time'
 
 export type IncidentMailInput = {
@@ -16,6 +17,8 @@ export type IncidentMailInput = {
   /** ISO time the incident opened (for device-back: since when the tank was quiet). */
   since: string
   siteTimeZone: string
+  /** The organisation's clock: "14:05" or "2:05 pm"; 24-hour unless given. */
+  clockStyle?: ClockStyle
   whatToCheck: string[]
   incidentUrl: string
   acknowledgeUrl?: string
@@ -129,7 +132,7 @@ const VARIANTS = {
 } satisfies Record<string, Variant>
 
 function render(variant: Variant, i: IncidentMailInput): RenderedMail {
-  const sinceText = formatInZone(i.since, i.siteTimeZone)
+  const sinceText = formatInZone(i.since, i.siteTimeZone, i.clockStyle)
   const facts: Array<[string, string]> = [
     ['Organization', i.organizationName],
     ['Site', i.siteName],
@@ -138,7 +141,7 @@ function render(variant: Variant, i: IncidentMailInput): RenderedMail {
     ['Severity', SEVERITY[i.severity]],
     i.measurement ? ['Measured', oneLine(i.measurement)] : [i.metricLabel, reading(i)],
     [variant.sinceLabel, sinceText],
-    ...(i.at ? ([['This update', formatInZone(i.at, i.siteTimeZone)]] as Array<[string, string]>) : []),
+    ...(i.at ? ([['This update', formatInZone(i.at, i.siteTimeZone, i.clockStyle)]] as Array<[string, string]>) : []),
     ...(i.heater ? ([['Equipment', i.heater]] as Array<[string, string]>) : []),
   ]
   const checks = variant.actionable ? i.whatToCheck : []

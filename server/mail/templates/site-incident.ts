@@ -1,12 +1,14 @@
 import type { RenderedMail } from '../types'
 import { button, escapeHtml, layout, oneLine } from './html'
 import { READINGS_ARE_AIDS } from './safety'
+import type { ClockStyle } from '@shared/schemas/auth'
 import { formatInZone } from '@shared/time'
 
 export type SiteIncidentMailInput = {
   organizationName: string
   siteName: string
   siteTimeZone: string
+  clockStyle?: ClockStyle
   title: string
   severity: 'warning' | 'alarm'
   /** One line per tank: "Reef 2: no temperature reading for 15 min". */
@@ -25,7 +27,7 @@ export function siteIncidentMail(i: SiteIncidentMailInput): RenderedMail {
   const count = `${i.tanks.length} tanks`
   const heading = `${i.escalated ? 'Escalated — ' : ''}${SEVERITY[i.severity]}: ${i.title}`
   const subject = oneLine(`${i.escalated ? 'Escalated — ' : ''}${SEVERITY[i.severity]}: ${count} at ${i.siteName} at once`)
-  const lead = `${count} of ${i.siteName} tripped within a few minutes of each other on the same kind of cause, from ${formatInZone(i.openedAt, i.siteTimeZone)}. Each tank keeps its own incident; this is the one mail for all of them.`
+  const lead = `${count} of ${i.siteName} tripped within a few minutes of each other on the same kind of cause, from ${formatInZone(i.openedAt, i.siteTimeZone, i.clockStyle)}. Each tank keeps its own incident; this is the one mail for all of them.`
   const footer = `Sent by Tankwarden for ${i.organizationName}. ${READINGS_ARE_AIDS}`
   const html = layout({
     heading,
