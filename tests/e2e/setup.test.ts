@@ -100,6 +100,26 @@ describe('a business starting for real', () => {
     expect((await s.ctx.models.Tank.findAll()).map((t) => t.name)).toEqual([TANK])
   })
 
+  it('imports more tanks from a sheet, the checklist's other way to add them', async () => {
+    await page.goto(`${s.baseUrl}/`, { timeout: FIRST_LOAD_MS })
+    await checklistStep('tanks').waitFor({ timeout: FIRST_LOAD_MS })
+    expect(await checklistStep('tanks').getAttribute('data-done')).toBe('true')
+    await page.goto(`${s.baseUrl}/tanks?import=1`, { timeout: FIRST_LOAD_MS })
+    const dialog = page.locator('[data-test="tank-import-dialog"]')
+    await dialog.waitFor({ timeout: FIRST_LOAD_MS })
+    const sheet = 'name,site,kind,volume,set point\nSales row A1,Back room,tropical freshwater,96,25\nSales row A2,Back room,tropical freshwater,96,25\n'
+    await dialog.locator('input[type=file]').setInputFiles({ name: 'tanks.csv', mimeType: 'text/csv', buffer: Buffer.from(sheet) })
+    await shot(page, 'setup-import-tanks-desktop')
+    await dialog.getByRole('button', { name: 'Add the tanks' }).click()
+    expect(await page.locator('[data-test="tanks-imported"]').textContent({ timeout: FIRST_LOAD_MS })).toContain('Added 2 tanks.')
+    const tanks = await s.ctx.models.Tank.findAll({ order: [['id', 'ASC']] })
+    expect(tanks.map((t) => t.name)).toEqual([TANK, 'Sales row A1', 'Sales row A2'])
+    expect(tanks.slice(1).map((t) => [t.kind, t.volumeLitres, t.heater?.setPointC])).toEqual([
+      ['tropical_freshwater', 96, 25],
+      ['tropical_freshwater', 96, 25],
+    ])
+  })
+
   let deviceToken = ''
   it('registers a device from the checklist, shown its MQTT and HTTP examples with the token once, and a reading arrives', async () => {
     await page.goto(`${s.baseUrl}/`, { timeout: FIRST_LOAD_MS })
