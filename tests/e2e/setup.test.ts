@@ -100,7 +100,7 @@ describe('a business starting for real', () => {
     expect((await s.ctx.models.Tank.findAll()).map((t) => t.name)).toEqual([TANK])
   })
 
-  it('imports more tanks from a sheet, the checklist's other way to add them', async () => {
+  it("imports more tanks from a sheet, the checklist's other way to add them", async () => {
     await page.goto(`${s.baseUrl}/`, { timeout: FIRST_LOAD_MS })
     await checklistStep('tanks').waitFor({ timeout: FIRST_LOAD_MS })
     expect(await checklistStep('tanks').getAttribute('data-done')).toBe('true')
