@@ -3,12 +3,13 @@
 // anyone can look at the whole product in a minute. Signs in as the demo owner unless told otherwise:
 //   npm run screenshots -- [--url http://127.0.0.1:8080] [--email owner@…] [--password …] [--out folder]
 // Node built-ins only at the top: playwright-core is imported once the packages are installed.
-import { mkdirSync } from 'node:fs'
+import { mkdirSync, readFileSync } from 'node:fs'
 import { dirname, join, resolve } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { parseArgs } from 'node:util'
 import { ensureChromium } from './lib/chromium.mjs'
 import { log } from './lib/run.mjs'
+import { routeNamesIn, screensOf } from './lib/screens.mjs'
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..')
 const { values: args } = parseArgs({
@@ -33,33 +34,18 @@ const { token } = await api('/auth/sign-in', null, { method: 'POST', body: JSON.
 const tanks = (await api('/tanks?pageSize=100', token)).items
 const sites = await api('/sites', token)
 const incidents = (await api('/incidents?pageSize=1', token)).items ?? []
+const clients = await api('/clients', token)
+const visits = await api('/visits', token)
 const tank = tanks.find((t) => t.status?.openIncidents?.length) ?? tanks[0]
-const site = sites[0]
 
-/** Every screen a signed-in owner can open, by the name its file gets. */
-const screens = [
-  ['overview', '/'],
-  ['tanks', '/tanks'],
-  ['tank', tank && `/tanks/${tank.id}`],
-  ['tank-test-kit', tank && `/tanks/${tank.id}/test-kit`],
-  ['tank-edit', tank && `/tanks/${tank.id}/edit`],
-  ['tank-build', tank && `/tanks/${tank.id}/build`],
-  ['tank-new', '/tanks/new'],
-  ['incidents', '/incidents'],
-  ['incident', incidents[0] && `/incidents/${incidents[0].id}`],
-  ['care-today', '/care/today'],
-  ['livestock', '/livestock'],
-  ['supplies', '/supplies'],
-  ['report', '/reports'],
-  ['sites', '/sites'],
-  ['roster', site && `/sites/${site.id}/roster`],
-  ['import', '/import'],
-  ['users', '/users'],
-  ['backup', '/backup'],
-  ['account', '/account'],
-  ['dev-mail', '/dev/mail'],
-  ['wall', site && `/wall/${site.id}`],
-].filter(([, path]) => path)
+const all = screensOf({ tank, site: sites[0], incident: incidents[0], client: clients[0], visit: visits[0] })
+// Every screen of the router, or the run fails: a new screen cannot be left out of the pictures.
+const routeNames = routeNamesIn(readFileSync(join(root, 'src/router/routes.ts'), 'utf8'))
+const missing = routeNames.filter((name) => !all.some((s) => s.route === name))
+if (missing.length) throw new Error(`scripts/lib/screens.mjs has no screen for the route(s) ${missing.join(', ')}`)
+const screens = all.filter((s) => s.path)
+const skipped = all.filter((s) => !s.path).map((s) => s.route)
+if (skipped.length) log(`no record to open for ${skipped.join(', ')} (the demo has none): left out`)
 const SIZES = [
   ['desktop', { width: 1920, height: 1080 }],
   ['phone', { width: 390, height: 844 }],
@@ -78,26 +64,36 @@ mkdirSync(out, { recursive: true })
 let count = 0
 try {
   for (const [sizeName, viewport] of SIZES)
-    for (const [themeName, theme] of THEMES) {
-      const context = await browser.newContext({ viewport })
-      // The signed-in session and the theme, as the app keeps them (src/api/session.ts, useThemePreference.ts).
-      await context.addInitScript(
-        ([token, theme]) => {
-          localStorage.setItem('tw.token', token)
-          localStorage.setItem('tw.theme', theme)
-        },
-        [token, theme],
-      )
-      const page = await context.newPage()
-      for (const [name, path] of screens) {
-        await page.goto(`${base}${path}`, { waitUntil: 'networkidle', timeout: 60_000 }).catch(() => undefined)
-        await page.waitForTimeout(500)
-        const file = join(out, `${name}-${sizeName}-${themeName}.png`)
-        await page.screenshot({ path: file, fullPage: sizeName === 'phone' })
-        count++
+    for (const [themeName, theme] of THEMES)
+      for (const signedIn of [false, true]) {
+        const context = await browser.newContext({ viewport })
+        // The session (when signed in) and the theme, as the app keeps them (src/api/session.ts, useThemePreference.ts).
+        await context.addInitScript(
+          ([token, theme]) => {
+            if (token) localStorage.setItem('tw.token', token)
+            localStorage.setItem('tw.theme', theme)
+          },
+          [signedIn ? token : null, theme],
+        )
+        const page = await context.newPage()
+        for (const { route, path, stub } of screens.filter((s) => !!s.signedIn === signedIn)) {
+          for (const [apiPath, body] of Object.entries(stub ?? {}))
+            await page.route(`${base}${apiPath}`, (r) => r.fulfill({ status: 200, contentType: 'application/json', body: JSON.stringify(body) }))
+          await page.goto(`${base}${path}`, { waitUntil: 'networkidle', timeout: 60_000 }).catch(() => undefined)
+          // A first load on a busy machine can outlast network idle: wait for the page to say something too.
+          await page
+            .locator('#app :is(h1, .v-card, .v-main, main)')
+            .first()
+            .waitFor({ timeout: 30_000 })
+            .catch(() => undefined)
+          await page.waitForLoadState('networkidle', { timeout: 10_000 }).catch(() => undefined)
+          await page.waitForTimeout(500)
+          await page.screenshot({ path: join(out, `${route}-${sizeName}-${themeName}.png`), fullPage: sizeName === 'phone' })
+          await page.unrouteAll()
+          count++
+        }
+        await context.close()
       }
-      await context.close()
-    }
 } finally {
   await browser.close()
 }

@@ -6,6 +6,8 @@ import type { AppContext } from '../context'
 import { parse, parseChanges } from '../platform/http/validate'
 import { tanksService } from './tanks'
 import { duplicateTank } from './duplicate'
+import { importTanks } from './csv-import'
+import { tankImportBodySchema } from '@shared/tank-import'
 
 export function tanksRouter(ctx: AppContext) {
   const router = Router()
@@ -13,6 +15,9 @@ export function tanksRouter(ctx: AppContext) {
 
   router.get('/', allow('org.read'), async (req, res) => {
     res.json(await tanks.list(actorOf(req), parse(tankListQuerySchema, req, 'query')))
+  })
+  router.post('/import', allow('tanks.write'), async (req, res) => {
+    res.status(201).json(await importTanks(ctx, actorOf(req), parse(tankImportBodySchema, req, 'body').csv))
   })
   router.get('/:id', allow('org.read'), async (req, res) => {
     res.json(await tanks.get(actorOf(req), parse(idParamsSchema, req, 'params').id))

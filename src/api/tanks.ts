@@ -60,3 +60,8 @@ export async function unarchiveTank(id: number): Promise<PublicTank> {
 export async function duplicateTank(id: number, count: number): Promise<{ items: PublicTank[] }> {
   return (await http.post<{ items: PublicTank[] }>(`/tanks/${id}/duplicate`, { count })).data
 }
+
+/** Tanks from a CSV sheet (name, site, kind, volume, set point); all rows or none. */
+export async function importTanks(csv: string): Promise<{ items: PublicTank[] }> {
+  return (await http.post<{ items: PublicTank[] }>('/tanks/import', { csv })).data
+}

@@ -277,6 +277,11 @@ const ROUTES: RouteCase[] = [
   row('patch', '/tanks/:id', signedIn(200, 200, 403, 404), async (w) => ({ param: await w.freshTank(), body: { stage: 'quarantine' } })),
   row('post', '/tanks/:id/archive', ownerOnly, async (w) => ({ param: await w.freshTank() })),
   row('post', '/tanks/:id/unarchive', ownerOnly, async (w) => ({ param: await w.freshTank(true) })),
+  // A sheet naming this organisation's site: to another organisation that site does not exist (400).
+  row('post', '/tanks/import', signedIn(201, 201, 403, 400), async (w) => {
+    const site = await t.ctx.models.Site.findByPk(w.org.siteIds[0])
+    return { body: { csv: `name,site,kind,volume\nRow ${w.freshEmail()},${site!.name},marine,120\n` } }
+  }),
   row('post', '/tanks/:id/duplicate', signedIn(201, 201, 403, 404), async (w) => ({ param: await w.freshTank(), body: { count: 1 } })),
   row('get', '/tanks/:id/series', signedIn(200, 200, 200, 404), async (w) => ({ param: await w.freshTank(), query: 'metric=temperature' })),
   row('get', '/tanks/:id/latest', signedIn(200, 200, 200, 404), async (w) => ({ param: await w.freshTank() })),

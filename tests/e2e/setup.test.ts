@@ -40,6 +40,25 @@ describe('a business starting for real', () => {
     expect(found).toEqual([])
   })
 
+  it('asks another machine for the printed code and refuses it without', async () => {
+    // Through a proxy TRUST_PROXY does not name, the caller counts as another machine.
+    const context = await browser.newContext({ viewport: { width: 390, height: 844 }, extraHTTPHeaders: { 'x-forwarded-for': '203.0.113.40' } })
+    const stranger = await context.newPage()
+    await stranger.goto(`${s.baseUrl}/setup`, { timeout: FIRST_LOAD_MS })
+    await stranger.getByLabel('Setup code').fill('ABCD-EFGH', { timeout: FIRST_LOAD_MS })
+    await stranger.getByLabel('Business name').fill('Claimed from afar')
+    await stranger.getByLabel('Your name').fill('Stranger')
+    await stranger.getByLabel('E-mail').fill('stranger@elsewhere.example')
+    await stranger.getByLabel('Password').fill('a-long-enough-password')
+    await stranger.getByLabel('First site').fill('Anywhere')
+    await stranger.getByRole('button', { name: 'Set up and sign in' }).click()
+    expect(await stranger.locator('[data-test="setup-error"]').textContent({ timeout: FIRST_LOAD_MS })).toContain('not the setup code the server printed')
+    await shot(stranger, 'setup-code-refused-phone')
+    expect(stranger.url()).toMatch(/\/setup$/)
+    await context.close()
+    expect(await s.ctx.models.Organization.count()).toBe(0)
+  })
+
   it('opens the setup page on an empty installation and signs the owner in', async () => {
     await page.goto(`${s.baseUrl}/`, { timeout: FIRST_LOAD_MS })
     await page.waitForURL((url) => url.pathname === '/setup', { timeout: FIRST_LOAD_MS })
@@ -81,9 +100,32 @@ describe('a business starting for real', () => {
     expect((await s.ctx.models.Tank.findAll()).map((t) => t.name)).toEqual([TANK])
   })
 
+  it("imports more tanks from a sheet, the checklist's other way to add them", async () => {
+    await page.goto(`${s.baseUrl}/`, { timeout: FIRST_LOAD_MS })
+    await checklistStep('tanks').waitFor({ timeout: FIRST_LOAD_MS })
+    expect(await checklistStep('tanks').getAttribute('data-done')).toBe('true')
+    await page.goto(`${s.baseUrl}/tanks?import=1`, { timeout: FIRST_LOAD_MS })
+    const dialog = page.locator('[data-test="tank-import-dialog"]')
+    await dialog.waitFor({ timeout: FIRST_LOAD_MS })
+    const sheet = 'name,site,kind,volume,set point\nSales row A1,Back room,tropical freshwater,96,25\nSales row A2,Back room,tropical freshwater,96,25\n'
+    await dialog.locator('input[type=file]').setInputFiles({ name: 'tanks.csv', mimeType: 'text/csv', buffer: Buffer.from(sheet) })
+    await shot(page, 'setup-import-tanks-desktop')
+    await dialog.getByRole('button', { name: 'Add the tanks' }).click()
+    expect(await page.locator('[data-test="tanks-imported"]').textContent({ timeout: FIRST_LOAD_MS })).toContain('Added 2 tanks.')
+    const tanks = await s.ctx.models.Tank.findAll({ order: [['id', 'ASC']] })
+    expect(tanks.map((t) => t.name)).toEqual([TANK, 'Sales row A1', 'Sales row A2'])
+    expect(tanks.slice(1).map((t) => [t.kind, t.volumeLitres, t.heater?.setPointC])).toEqual([
+      ['tropical_freshwater', 96, 25],
+      ['tropical_freshwater', 96, 25],
+    ])
+  })
+
   let deviceToken = ''
-  it('registers a device on the tank and a reading arrives over HTTP with its token', async () => {
-    await page.locator('[data-test="register-device"]').click()
+  it('registers a device from the checklist, shown its MQTT and HTTP examples with the token once, and a reading arrives', async () => {
+    await page.goto(`${s.baseUrl}/`, { timeout: FIRST_LOAD_MS })
+    await checklistStep('device').getByRole('link', { name: 'Devices of your first tank' }).click({ timeout: FIRST_LOAD_MS })
+    await page.waitForURL((url) => /^\/tanks\/\d+$/.test(url.pathname), { timeout: FIRST_LOAD_MS })
+    await page.locator('[data-test="register-device"]').click({ timeout: FIRST_LOAD_MS })
     await page.getByLabel('Name, e.g. Probe node 4').fill('Back room probe 1')
     // Temperature is what a new device measures unless told otherwise.
     await page.getByRole('button', { name: 'Register', exact: true }).click()
@@ -91,6 +133,13 @@ describe('a business starting for real', () => {
     await token.waitFor({ timeout: FIRST_LOAD_MS })
     deviceToken = await token.inputValue()
     expect(deviceToken.length).toBeGreaterThan(20)
+    expect(await page.locator('[data-test="device-example"]').textContent()).toContain(`-P '${deviceToken}'`)
+    expect(await page.locator('[data-test="device-http-example"]').textContent()).toContain(`Bearer ${deviceToken}`)
+    await shot(page, 'setup-device-token-desktop')
+    await page.getByRole('button', { name: 'I have saved the token' }).click()
+    // Once: the page never shows the token again.
+    expect(await page.locator('[data-test="device-token"]').count()).toBe(0)
+    expect(await page.content()).not.toContain(deviceToken)
     const res = await fetch(`${s.baseUrl}/api/v1/readings`, {
       method: 'POST',
       headers: { 'content-type': 'application/json', authorization: `Bearer ${deviceToken}` },
