@@ -137,6 +137,22 @@ export const equipmentService = perContext((ctx: AppContext) => {
       return view(equipment, tank)
     },
 
+    /**
+     * The tank's working equipment, one record each on another tank (a copy of the tank), with
+     * its own service reminder: same kind, name, model, power, install day and interval.
+     */
+    async copyToTank(fromTankId: number, toTankId: number, userId: number, transaction: Transaction) {
+      const rows = await models.Equipment.findAll({ where: { tankId: fromTankId, retiredAt: null }, order: [['id', 'ASC']], transaction })
+      for (const e of rows) {
+        const { organizationId, kind, name, model, watts, installedOn, serviceAction, serviceEveryDays, notes } = e
+        const copy = await models.Equipment.create(
+          { organizationId, tankId: toTankId, kind, name, model, watts, installedOn, serviceAction, serviceEveryDays, notes, createdBy: userId },
+          { transaction },
+        )
+        await syncTask(copy, transaction)
+      }
+    },
+
     /** A new part in place of the old: the install date starts again, the care log says so, the reminder counts from now. */
     async replace(actor: UserActor, id: number, input: EquipmentReplace): Promise<PublicEquipment> {
       const { equipment, tank } = await findVisible(actor, id)

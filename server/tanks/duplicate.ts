@@ -3,6 +3,7 @@ import type { UserActor } from '../access/actor'
 import { presentTank } from './tanks'
 import { visibleTank } from '../access/scope'
 import type { AppContext } from '../context'
+import { equipmentService } from '../equipment'
 import { badRequest } from '../platform/errors'
 
 /**
@@ -21,8 +22,8 @@ export async function duplicateTank(ctx: AppContext, actor: UserActor, id: numbe
   )
   const rules = await models.WatchRule.findAll({ where: { tankId: source.id }, order: [['id', 'ASC']] })
   const allTasks = await models.CareTask.findAll({ where: { tankId: source.id }, order: [['id', 'ASC']] })
-  // A build's steps belong to that build, a treatment course's tasks to that course, and an equipment
-  // service to that piece of equipment (which stays with this tank): the copy gets the tank's routine only.
+  // A build's steps belong to that build and a treatment course's tasks to that course; an equipment
+  // service belongs to its piece of equipment, and each copy gets its own pieces and their reminders.
   const buildSteps = await models.BuildStep.findAll({ where: { careTaskId: allTasks.map((t) => t.id) }, attributes: ['careTaskId'] })
   const stepTaskIds = new Set(buildSteps.map((s) => s.careTaskId))
   const tasks = allTasks.filter((t) => !stepTaskIds.has(t.id) && t.kind !== 'equipment_service' && t.treatmentCourseId == null)
@@ -81,6 +82,7 @@ export async function duplicateTank(ctx: AppContext, actor: UserActor, id: numbe
         })),
         { transaction },
       )
+      await equipmentService(ctx).copyToTank(source.id, tank.id, actor.userId, transaction)
       tanks.push(tank)
     }
     return tanks

@@ -101,14 +101,27 @@ describe('equipment on a tank', () => {
     expect(mails[0]!.text).toContain('Equipment: Heater installed 2 years 3 months ago')
   })
 
-  it("leaves a tank's equipment reminders out of its copies", async () => {
+  it('gives each copy of a tank its own working equipment with its own service reminder, and leaves retired parts behind', async () => {
     const tankId = await newTank(t, org, { name: 'Copied tank' })
-    await addEquipment(tankId, { kind: 'pump', name: 'Return pump', installedOn: today() })
-    const copy = await api().post(`/api/v1/tanks/${tankId}/duplicate`).set(as(org, 'owner')).send({ count: 1 })
+    const pump = await addEquipment(tankId, { kind: 'pump', name: 'Return pump', model: 'RP-12', installedOn: today(), serviceEveryDays: 90 })
+    const old = await addEquipment(tankId, { kind: 'lamp', name: 'Old lamp', installedOn: today() })
+    expect((await api().patch(`/api/v1/equipment/${old.id}`).set(as(org, 'keeper')).send({ retired: true })).status).toBe(200)
+    const copy = await api().post(`/api/v1/tanks/${tankId}/duplicate`).set(as(org, 'owner')).send({ count: 2 })
     expect(copy.status, JSON.stringify(copy.body)).toBe(201)
-    const tasks = await api().get(`/api/v1/tanks/${copy.body.items[0].id}/care-tasks`).set(as(org, 'viewer'))
-    expect(tasks.body.length).toBeGreaterThan(0)
-    expect(tasks.body.map((task: { kind: string }) => task.kind)).not.toContain('equipment_service')
+    const copyIds: number[] = copy.body.items.map((x: { id: number }) => x.id)
+    for (const id of copyIds) {
+      const kit = await api().get(`/api/v1/tanks/${id}/equipment`).set(as(org, 'viewer'))
+      expect(kit.body.map((e: { name: string; model: string; installedOn: string }) => [e.name, e.model, e.installedOn])).toEqual([
+        ['Return pump', 'RP-12', today()],
+      ])
+      expect(kit.body[0].id).not.toBe(pump.id)
+      const tasks = await api().get(`/api/v1/tanks/${id}/care-tasks`).set(as(org, 'viewer'))
+      expect(tasks.body.filter((task: { kind: string }) => task.kind === 'equipment_service').map((task: { title: string }) => task.title)).toEqual([
+        'Clean the pump impeller: Return pump',
+      ])
+    }
+    const source = await api().get(`/api/v1/tanks/${tankId}/equipment`).set(as(org, 'viewer'))
+    expect(source.body).toHaveLength(2)
   })
 
   it('refuses bad equipment, viewers and strangers', async () => {
