@@ -5,6 +5,7 @@ import { hashSecret } from '../access/tokens'
 import type { AppContext } from '../context'
 import { notFound } from '../platform/errors'
 import type { Device } from '../models'
+import { brokerAddress } from './broker-address'
 import { newDeviceToken } from './device-tokens'
 import { tankScope, visibleTank } from '../access/scope'
 import { perContext } from '../platform/per-context'
@@ -103,7 +104,7 @@ export const devicesService = perContext((ctx: AppContext) => {
         metrics: placeholder.metrics as MetricKey[],
         selfCalibrating: placeholder.selfCalibrating,
       })
-      return { device: (await present([await find(actor, placeholder.id)]))[0], token }
+      return { device: (await present([await find(actor, placeholder.id)]))[0], token, broker: brokerAddress(ctx.config.mqtt) }
     },
 
     async update(actor: Actor, id: number, changes: Partial<Omit<DeviceInput, 'tankId'>>) {
@@ -119,7 +120,7 @@ export const devicesService = perContext((ctx: AppContext) => {
       const { token, hash } = newDeviceToken(device.id)
       await device.update({ tokenHash: hash, revokedAt: null })
       ctx.events.emit('device.revoked', { deviceId: device.id })
-      return { device: (await present([device]))[0], token }
+      return { device: (await present([device]))[0], token, broker: brokerAddress(ctx.config.mqtt) }
     },
 
     async revoke(actor: Actor, id: number) {

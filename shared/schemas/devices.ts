@@ -49,4 +49,6 @@ export interface DeviceWithToken {
   device: PublicDevice
   /** Shown once; the server keeps only a hash. */
   token: string
+  /** Where the device publishes: the app's own host (null) on the embedded broker's port, or the external broker. */
+  broker: { host: string | null; port: number }
 }

@@ -133,6 +133,8 @@ describe('POST /api/v1/readings', () => {
       })
     expect(created.status).toBe(201)
     expect(created.body.token).toMatch(/^twd_\d+_/)
+    // Where the device publishes: this app's host (null) on the embedded broker's configured port.
+    expect(created.body.broker).toEqual({ host: null, port: t.ctx.config.mqtt.port })
     const deviceRow = await t.ctx.models.Device.findByPk(created.body.device.id)
     expect(deviceRow!.tokenHash).not.toContain(created.body.token.split('_')[2])
     const list = await t.api().get(`/api/v1/devices?tankId=${tank.body.id}`).set(bearer(org.users.viewer.token))
@@ -142,6 +144,7 @@ describe('POST /api/v1/readings', () => {
     const body = { v: 1, readings: [{ metric: 'temperature', value: 25.4, time: iso(0) }] }
     expect((await post(body, created.body.token)).status).toBe(200)
     const rotated = await t.api().post(`/api/v1/devices/${created.body.device.id}/rotate`).set(bearer(org.users.owner.token))
+    expect(rotated.body.broker).toEqual(created.body.broker)
     expect((await post(body, created.body.token)).status).toBe(401)
     expect((await post({ v: 1, readings: [{ metric: 'ph', value: 8.1, time: iso(0) }] }, rotated.body.token)).status).toBe(200)
     const keeperTry = await t.api().post(`/api/v1/devices/${created.body.device.id}/revoke`).set(bearer(org.users.keeper.token))
