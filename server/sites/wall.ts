@@ -55,12 +55,14 @@ export const wallService = perContext((ctx: AppContext) => {
     async get(actor: Actor, siteId: number, trendTanks?: number): Promise<WallResponse> {
       const site = await visibleSite(actor, siteId)
       const now = Date.now()
+      // Plain rows: a large site's wall would otherwise build a model instance per tank only to read it.
       const tanks = await models.Tank.findAll({
         where: { siteId, archivedAt: null },
         order: [
           ['sortOrder', 'ASC'],
           ['name', 'ASC'],
         ],
+        raw: true,
       })
       const ids = tanks.map((t) => t.id)
       const [statuses, snoozes, duty, care, settling, windows, siteIncidents] = await Promise.all([
