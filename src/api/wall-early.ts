@@ -1,6 +1,6 @@
 import type { WallResponse, WallTrendsResponse } from '@shared/schemas/wall'
+import { tilesOnOneScreen } from '@/components/wall/wall-layout'
 import { http } from './client'
-import { takeWallFirst, trendsForThisScreen } from './wall-first'
 import { currentToken, storedWallSession } from './session'
 
 /** A display without a person signed in sends its wall key; the request interceptor adds a person's token. */
@@ -8,6 +8,11 @@ function wallHeaders(): Record<string, string> {
   if (currentToken()) return {}
   const wall = storedWallSession()
   return wall ? { Authorization: `Bearer ${wall.key}` } : {}
+}
+
+/** The whole window stands in for the grid (the header only makes it smaller): never fewer tiles than a page shows. */
+function trendsForThisScreen(): number {
+  return tilesOnOneScreen({ width: window.innerWidth, height: window.innerHeight })
 }
 
 /** The wall, with the trend lines of the tanks one screen shows first; the rest are asked for by page. */
@@ -28,8 +33,7 @@ let early: { siteId: number; at: number; answer: Promise<WallResponse> } | null 
  * while the wall's code is still loading; the wall's first request takes this answer.
  */
 export function requestWallEarly(siteId: number): void {
-  const first = takeWallFirst(siteId)
-  const answer = first ? first.then((data) => data ?? fetchWall(siteId)) : fetchWall(siteId)
+  const answer = fetchWall(siteId)
   // Whoever takes the answer sees a failure; until then it is not an unhandled rejection.
   answer.catch(() => undefined)
   early = { siteId, at: Date.now(), answer }
