@@ -263,7 +263,7 @@ export async function wallRender(browser: Browser, app: AppProcess, link: string
           performance: { getEntriesByType: (k: string) => Array<{ name: string; startTime: number; responseStart: number; responseEnd: number }> }
         }
       ).performance.getEntriesByType('resource')
-      const wall = entries.find((e) => /\/api\/v1\/sites\/\d+\/wall$/.test(e.name))
+      const wall = entries.find((e) => /\/api\/v1\/sites\/\d+\/wall(\?|$)/.test(e.name))
       return wall ? [wall.startTime, wall.responseStart, wall.responseEnd].map(Math.round) : null
     })
     if (api) console.log(`  wall run ${i + 1}: ${Math.round(times[i]!)} ms; its data asked at ${api[0]} ms, first byte ${api[1]} ms, all in ${api[2]} ms`)

@@ -1,5 +1,5 @@
 import { Op } from 'sequelize'
-import type { PublicWallCredential, WallResponse, WallTank } from '@shared/schemas/wall'
+import type { PublicWallCredential, WallResponse, WallTank, WallTrendPoint, WallTrendsResponse } from '@shared/schemas/wall'
 import { compareForWall } from '@shared/tank-state'
 import { occurrenceAt } from '@shared/rules/maintenance'
 import type { Actor, UserActor } from '../access/actor'
@@ -42,25 +42,31 @@ export const wallService = perContext((ctx: AppContext) => {
 
   /** Each tank's temperature in 15-minute means, one row per tank (a row per point costs a large site more than the query). */
   async function trends(tankIds: number[], now: number) {
+    if (!tankIds.length) return new Map<number, WallTrendPoint[]>()
     const rows = await temperatureTrends(sequelize, tankIds, new Date(now - TREND_HOURS * 3600_000))
-    return new Map(rows.map((r) => [r.tank_id, r.trend as WallTank['trend']]))
+    return new Map(rows.map((r) => [r.tank_id, r.trend as WallTrendPoint[]]))
   }
 
   return {
-    async get(actor: Actor, siteId: number): Promise<WallResponse> {
+    /**
+     * The wall in its order. `trendTanks`: only that many tanks from the top bring their trend line
+     * (the six-hour scan is most of a large site's cost, and a screen shows a page of tiles at a time).
+     */
+    async get(actor: Actor, siteId: number, trendTanks?: number): Promise<WallResponse> {
       const site = await visibleSite(actor, siteId)
       const now = Date.now()
+      // Plain rows: a large site's wall would otherwise build a model instance per tank only to read it.
       const tanks = await models.Tank.findAll({
         where: { siteId, archivedAt: null },
         order: [
           ['sortOrder', 'ASC'],
           ['name', 'ASC'],
         ],
+        raw: true,
       })
       const ids = tanks.map((t) => t.id)
-      const [statuses, trend, snoozes, duty, care, settling, windows, siteIncidents] = await Promise.all([
+      const [statuses, snoozes, duty, care, settling, windows, siteIncidents] = await Promise.all([
         tankStatuses(ctx, tanks, now),
-        trends(ids, now),
         models.Snooze.findAll({
           where: { tankId: ids, cancelledAt: null, [Op.or]: [{ endsAt: { [Op.gt]: new Date(now) } }, { repeatUntil: { [Op.gt]: new Date(now) } }] },
         }),
@@ -113,7 +119,7 @@ export const wallService = perContext((ctx: AppContext) => {
           lightSchedule: tank.lightSchedule,
           targets: tank.targets,
           latest: metrics,
-          trend: trend.get(tank.id) ?? [],
+          trend: null,
           state,
           stateReasons,
           openIncident: worst
@@ -139,6 +145,12 @@ export const wallService = perContext((ctx: AppContext) => {
       const buildDays = await buildDaysFor(ctx, ids, site.timeZone, new Date(now))
       for (const t of wallTanks) t.buildDay = buildDays.get(t.id) ?? null
       wallTanks.sort(compareForWall)
+      const drawn = trendTanks === undefined ? wallTanks : wallTanks.slice(0, trendTanks)
+      const trend = await trends(
+        drawn.map((t) => t.id),
+        now,
+      )
+      for (const t of drawn) t.trend = trend.get(t.id) ?? []
       return {
         site: { id: site.id, name: site.name, timeZone: site.timeZone },
         generatedAt: new Date(now).toISOString(),
@@ -155,6 +167,15 @@ export const wallService = perContext((ctx: AppContext) => {
         })),
         overdueCareTasks: care.bySite.get(siteId)?.overdue ?? 0,
       }
+    },
+
+    /** The trend lines of these tanks of the site (others are left out), for the wall's later pages. */
+    async trends(actor: Actor, siteId: number, tankIds: number[]): Promise<WallTrendsResponse> {
+      await visibleSite(actor, siteId)
+      const tanks = await models.Tank.findAll({ where: { id: tankIds, siteId, archivedAt: null }, attributes: ['id'], order: [['id', 'ASC']], raw: true })
+      const ids = tanks.map((t) => t.id)
+      const lines = await trends(ids, Date.now())
+      return { trends: ids.map((tankId) => ({ tankId, trend: lines.get(tankId) ?? [] })) }
     },
 
     async listCredentials(actor: UserActor, siteId: number) {

@@ -22,7 +22,11 @@ export async function tankStatuses(ctx: AppContext, tanks: StatusTank[], now = D
   if (!ids.length) return new Map()
   const [latest, devices, open] = await Promise.all([
     seriesService(ctx).siteLatest(ids),
-    ctx.models.Device.findAll({ where: { tankId: ids, revokedAt: null } }),
+    ctx.models.Device.findAll({
+      where: { tankId: ids, revokedAt: null },
+      attributes: ['tankId', 'name', 'lastSeenAt', 'createdAt', 'intervalSeconds', 'revokedAt'],
+      raw: true,
+    }),
     incidentsOf(ctx).openForTanks(ids),
   ])
   const latestByTank = new Map(latest.map((l) => [l.tankId, l.metrics]))

@@ -1,4 +1,5 @@
-import type { WallResponse } from '@shared/schemas/wall'
+import type { WallResponse, WallTrendsResponse } from '@shared/schemas/wall'
+import { tilesOnOneScreen } from '@/components/wall/wall-layout'
 import { http } from './client'
 import { currentToken, storedWallSession } from './session'
 
@@ -9,8 +10,18 @@ function wallHeaders(): Record<string, string> {
   return wall ? { Authorization: `Bearer ${wall.key}` } : {}
 }
 
+/** The whole window stands in for the grid (the header only makes it smaller): never fewer tiles than a page shows. */
+function trendsForThisScreen(): number {
+  return tilesOnOneScreen({ width: window.innerWidth, height: window.innerHeight })
+}
+
+/** The wall, with the trend lines of the tanks one screen shows first; the rest are asked for by page. */
 export async function fetchWall(siteId: number): Promise<WallResponse> {
-  return (await http.get<WallResponse>(`/sites/${siteId}/wall`, { headers: wallHeaders() })).data
+  return (await http.get<WallResponse>(`/sites/${siteId}/wall`, { params: { trends: trendsForThisScreen() }, headers: wallHeaders() })).data
+}
+
+export async function fetchWallTrends(siteId: number, tankIds: number[]): Promise<WallTrendsResponse> {
+  return (await http.get<WallTrendsResponse>(`/sites/${siteId}/wall/trends`, { params: { tankIds: tankIds.join(',') }, headers: wallHeaders() })).data
 }
 
 /** An early answer older than this is not taken: the wall asks afresh. */

@@ -2,6 +2,8 @@ import type { CreatedWallCredential, PublicWallCredential, WallResponse } from '
 import { http } from './client'
 import { fetchWall, takeEarlyWall } from './wall-early'
 
+export { fetchWallTrends } from './wall-early'
+
 export async function getWall(siteId: number): Promise<WallResponse> {
   return takeEarlyWall(siteId) ?? fetchWall(siteId)
 }

@@ -1,10 +1,12 @@
-import { onScopeDispose, ref, shallowRef, watch } from 'vue'
-import type { WallResponse } from '@shared/schemas/wall'
+import { onScopeDispose, ref, shallowRef, triggerRef, watch } from 'vue'
+import { MAX_TREND_TANKS, type WallResponse, type WallTank, type WallTrendPoint } from '@shared/schemas/wall'
 import { ApiError, describeError } from '@/api/errors'
-import { getWall } from '@/api/wall'
+import { fetchWallTrends, getWall } from '@/api/wall'
 
 /** State changes (incidents, quiet devices) come with the payload; readings come live in between. */
 export const WALL_REFRESH_MS = 60_000
+/** A trend line asked for by page is asked for again when its page comes up after this long (live points fill it meanwhile). */
+export const TREND_KEPT_MS = 5 * 60_000
 
 export function useWall(siteId: () => number) {
   const wall = shallowRef<WallResponse | null>(null)
@@ -15,6 +17,9 @@ export function useWall(siteId: () => number) {
   let lastGoodAt: string | null = null
   let timer: ReturnType<typeof setInterval> | null = null
   let ticket = 0
+  /** Trend lines the wall's answer left out, asked for as their tanks come on screen. */
+  const trends = shallowRef(new Map<number, { line: WallTrendPoint[]; at: number }>())
+  const asking = new Set<number>()
 
   async function load() {
     const mine = ++ticket
@@ -22,6 +27,8 @@ export function useWall(siteId: () => number) {
     try {
       const payload = await getWall(id)
       if (mine !== ticket) return
+      const at = Date.now()
+      for (const tank of payload.tanks) if (tank.trend) trends.value.set(tank.id, { line: tank.trend, at })
       wall.value = payload
       error.value = null
       staleSince.value = null
@@ -35,10 +42,37 @@ export function useWall(siteId: () => number) {
     }
   }
 
+  /** The tank with its trend line: from the wall's answer, else as asked for by page (null until it comes). */
+  function withTrend(tank: WallTank): WallTank {
+    return tank.trend ? tank : { ...tank, trend: trends.value.get(tank.id)?.line ?? null }
+  }
+
+  /** Asks for the trend lines of these tanks that the wall has not got, or got too long ago. */
+  async function showTrends(tankIds: number[]) {
+    const id = siteId()
+    const now = Date.now()
+    const wanted = tankIds.filter((tankId) => !asking.has(tankId) && now - (trends.value.get(tankId)?.at ?? -Infinity) > TREND_KEPT_MS)
+    for (let i = 0; i < wanted.length; i += MAX_TREND_TANKS) {
+      const batch = wanted.slice(i, i + MAX_TREND_TANKS)
+      batch.forEach((tankId) => asking.add(tankId))
+      try {
+        const answer = await fetchWallTrends(id, batch)
+        if (id !== siteId()) return
+        for (const { tankId, trend } of answer.trends) trends.value.set(tankId, { line: trend, at: Date.now() })
+        triggerRef(trends)
+      } catch {
+        // The tile keeps its live points; the line is asked for again the next time its page comes up.
+      } finally {
+        batch.forEach((tankId) => asking.delete(tankId))
+      }
+    }
+  }
+
   watch(
     siteId,
     () => {
       wall.value = null
+      trends.value = new Map()
       lastGoodAt = null
       void load()
     },
@@ -50,5 +84,5 @@ export function useWall(siteId: () => number) {
     ticket++
   })
 
-  return { wall, error, notAllowed, staleSince, reload: load }
+  return { wall, error, notAllowed, staleSince, reload: load, withTrend, showTrends }
 }

@@ -373,8 +373,9 @@ const ROUTES: RouteCase[] = [
   row('get', '/sites/:id/roster/on-duty', readable, async (w) => ({ param: await w.freshSite() })),
   row('get', '/sites/:id/roster/week', readable, async (w) => ({ param: await w.freshSite(), query: 'start=2026-03-02' })),
   row('put', '/sites/:id/roster/backup', ownerOnly, async (w) => ({ param: await w.freshSite(), body: { userId: w.org.users.keeper.id } })),
-  // The one route a wall key opens: the wall of its own site.
+  // The two routes a wall key opens: the wall of its own site, and its trend lines page by page.
   row('get', '/sites/:id/wall', { ...readable, wall: 200 }, (w) => ({ param: w.org.siteIds[0] })),
+  row('get', '/sites/:id/wall/trends', { ...readable, wall: 200 }, async (w) => ({ param: w.org.siteIds[0], query: `tankIds=${await w.freshTank()}` })),
   row('get', '/sites/:id/wall-credentials', ownerOnly, async (w) => ({ param: await w.freshSite() })),
   row('get', '/sites/:id/labels.pdf', ownerOnly, async (w) => ({ param: await w.freshSite(), query: 'paper=letter&size=large' })),
   row('post', '/sites/:id/wall-credentials', ownerCreates, async (w) => ({ param: await w.freshSite(), body: { name: 'Shop TV' } })),
@@ -705,7 +706,7 @@ describe('the table itself', () => {
 
   it("no wall key can write anything: it opens its own site's wall, and elsewhere gets what no token gets", async () => {
     const name = (r: RouteCase) => `${r.method.toUpperCase()} ${r.route}`
-    expect(ROUTES.filter((r) => r.expected.wall !== r.expected.noToken).map(name)).toEqual(['GET /sites/:id/wall'])
+    expect(ROUTES.filter((r) => r.expected.wall !== r.expected.noToken).map(name)).toEqual(['GET /sites/:id/wall', 'GET /sites/:id/wall/trends'])
     expect(ROUTES.filter((r) => r.expected.wall !== 401).map(name)).toEqual([
       'GET /health',
       'POST /auth/sign-in',
@@ -718,9 +719,13 @@ describe('the table itself', () => {
       'GET /ack-links/:token',
       'POST /ack-links/use',
       'GET /sites/:id/wall',
+      'GET /sites/:id/wall/trends',
     ])
     const { key } = await world.freshWallKey()
-    for (const siteId of [org.siteIds[1], other.siteIds[0]]) expect((await send('get', `/sites/${siteId}/wall`, key)).status).toBe(404)
+    for (const siteId of [org.siteIds[1], other.siteIds[0]]) {
+      expect((await send('get', `/sites/${siteId}/wall`, key)).status).toBe(404)
+      expect((await send('get', `/sites/${siteId}/wall/trends?tankIds=1`, key)).status).toBe(404)
+    }
   })
 
   it('the forged tokens fail only on what was forged: the same claims signed properly are accepted', async () => {

@@ -2,9 +2,9 @@ import { get, type IncomingHttpHeaders } from 'node:http'
 import { gunzipSync } from 'node:zlib'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import WebSocket from 'ws'
-import type { WallResponse } from '@shared/schemas/wall'
+import { MAX_TREND_TANKS, type WallResponse, type WallTrendsResponse } from '@shared/schemas/wall'
 import { bearer, sampleTank } from '../helpers/app'
-import { createIncidentRow, createTankWithDevice, type TestOrg } from '../helpers/fixtures'
+import { createIncidentRow, createTankRow, createTankWithDevice, type TestOrg } from '../helpers/fixtures'
 import { startTestServer } from '../helpers/server'
 
 let s: Awaited<ReturnType<typeof startTestServer>>
@@ -135,6 +135,49 @@ describe('the wall data itself', () => {
       'Second tank': [],
       'Third tank': [],
     })
+  })
+})
+
+describe('trend lines a screenful at a time', () => {
+  it('sends the trend lines of the first tanks only when asked, and the others by tank on request', async () => {
+    const pageOrg = await s.createOrg('Pages Org')
+    const site = pageOrg.siteIds[0]!
+    const tanks = []
+    for (const [i, name] of ['First tank', 'Second tank', 'Third tank'].entries()) {
+      const tank = await createTankWithDevice(s.ctx, pageOrg, name)
+      await s.ctx.models.Tank.update({ sortOrder: i }, { where: { id: tank.tankId } })
+      tanks.push(tank)
+    }
+    const elsewhere = await createTankRow(s.ctx, pageOrg, { name: 'Other site tank', siteId: pageOrg.siteIds[1]! })
+    const QUARTER = 15 * 60_000
+    const start = Math.floor(Date.now() / QUARTER) * QUARTER - 2 * QUARTER
+    for (const [i, tank] of tanks.entries()) {
+      const readings = [{ metric: 'temperature', value: 25 + i, time: new Date(start + 60_000).toISOString() }]
+      expect((await api('/readings', tank.token, { method: 'POST', body: JSON.stringify({ v: 1, readings }) })).status).toBe(200)
+    }
+    const token = pageOrg.users.viewer.token
+
+    const wall = (await (await api(`/sites/${site}/wall?trends=1`, token)).json()) as WallResponse
+    expect(wall.tanks.map((t) => [t.name, t.trend])).toEqual([
+      ['First tank', [{ t: new Date(start).toISOString(), value: 25 }]],
+      ['Second tank', null],
+      ['Third tank', null],
+    ])
+
+    const [, second, third] = tanks
+    const res = await api(`/sites/${site}/wall/trends?tankIds=${third!.tankId},${second!.tankId},${elsewhere.id}`, token)
+    expect(res.status).toBe(200)
+    expect(((await res.json()) as WallTrendsResponse).trends).toEqual([
+      { tankId: second!.tankId, trend: [{ t: new Date(start).toISOString(), value: 26 }] },
+      { tankId: third!.tankId, trend: [{ t: new Date(start).toISOString(), value: 27 }] },
+    ])
+
+    const bad = await api(`/sites/${site}/wall/trends?tankIds=3,x`, token)
+    expect(bad.status).toBe(400)
+    expect(((await bad.json()) as { error: { fields: Record<string, string> } }).error.fields).toHaveProperty('tankIds')
+    const many = Array.from({ length: MAX_TREND_TANKS + 1 }, (_, i) => i + 1).join(',')
+    expect((await api(`/sites/${site}/wall/trends?tankIds=${many}`, token)).status).toBe(400)
+    expect((await api(`/sites/${site}/wall?trends=-1`, token)).status).toBe(400)
   })
 })
 

@@ -5,6 +5,7 @@ import type { WallTank } from '@shared/schemas/wall'
 import WallSound from '@/components/wall/WallSound.vue'
 import { NOW, wallTank } from './fixtures/wall'
 import { mountView } from './mount'
+import { until } from '../helpers/wait'
 
 // Sound on a wall is the display's choice, made by a tap each time the wall is opened: an alarm
 // never makes a screen start chiming by itself.
@@ -64,6 +65,8 @@ describe('the wall sound is opt-in', () => {
     await wrapper.find('[data-test=wall-sound-enable]').trigger('click')
     await flushPromises()
     expect(plays).toBe(0)
+    // The mute menu's code comes in once sound is on.
+    await until(async () => (await flushPromises(), wrapper.find('[data-test=wall-sound-on]').exists()))
     expect(wrapper.find('[data-test=wall-sound-on]').text()).toBe('Sound on')
     await set({ tanks: [alarm, wallTank(2)], now: NOW + 60_000 })
     expect(plays).toBe(1)

@@ -3,12 +3,13 @@ import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest'
 
 vi.mock('@/api/wall', () => ({
   getWall: vi.fn(),
+  fetchWallTrends: vi.fn(),
   listWallCredentials: vi.fn(),
   createWallCredential: vi.fn(),
   revokeWallCredential: vi.fn(),
 }))
 
-import { getWall } from '@/api/wall'
+import { fetchWallTrends, getWall } from '@/api/wall'
 import { resetLiveSocket } from '@/composables/useLiveSocket'
 import WallView from '@/views/WallView.vue'
 import { wallPayload } from './fixtures/wall'
@@ -72,6 +73,39 @@ describe('WallView', () => {
     // tens of milliseconds in Chromium); the bound only catches a layout that renders every page at once.
     console.info(`wall: first page of 200 tanks rendered in ${elapsedMs.toFixed(0)} ms (jsdom)`)
     expect(elapsedMs).toBeLessThan(15_000)
+  }, 30_000)
+
+  it('asks for the trend lines a page lacks when that page comes up, and draws them', async () => {
+    vi.useFakeTimers({ toFake: ['setInterval', 'clearInterval', 'setTimeout', 'clearTimeout', 'Date'] })
+    vi.setSystemTime(Date.parse('2026-03-03T12:00:00.000Z'))
+    const payload = wallPayload(48)
+    // The answer brought the first screenful's lines only.
+    payload.tanks = payload.tanks.map((t) => (t.id > 24 ? { ...t, trend: null } : t))
+    vi.mocked(getWall).mockResolvedValue(payload)
+    const line = [
+      { t: '2026-03-03T10:00:00.000Z', value: 26.1 },
+      { t: '2026-03-03T11:00:00.000Z', value: 26.4 },
+    ]
+    vi.mocked(fetchWallTrends).mockReset()
+    vi.mocked(fetchWallTrends).mockImplementation(async (_site, ids) => ({ trends: ids.map((tankId) => ({ tankId, trend: line })) }))
+    const { wrapper } = await mountView(WallView, { props: { siteId: 3 } })
+    await flushPromises()
+    expect(wrapper.findAll('[data-test="tile-trend"]')).toHaveLength(24)
+    expect(fetchWallTrends).not.toHaveBeenCalled()
+
+    await vi.advanceTimersByTimeAsync(15_000)
+    await flushPromises()
+    expect(wrapper.find('.tw-tile__name').text()).toBe('Tank 25')
+    expect(fetchWallTrends).toHaveBeenCalledTimes(1)
+    expect(fetchWallTrends).toHaveBeenCalledWith(
+      3,
+      Array.from({ length: 24 }, (_, i) => i + 25),
+    )
+    expect(wrapper.findAll('[data-test="tile-trend"]')).toHaveLength(24)
+
+    // Back to the first page and on to the second again within five minutes: nothing asked again.
+    await vi.advanceTimersByTimeAsync(30_000)
+    expect(fetchWallTrends).toHaveBeenCalledTimes(1)
   }, 30_000)
 
   it('scrolls all 200 tiles on a phone without drawing charts that are out of view', async () => {

@@ -56,6 +56,16 @@ export function wallLayout(tankCount: number, screen: Screen): WallLayout {
   return { columns: maxColumns, rows: maxRows, perPage, pages: Math.ceil(count / perPage), ...fit(maxColumns, maxRows), scroll: false }
 }
 
+/**
+ * How many tiles one screenful of this size can hold at most (a page, or a phone's first screen):
+ * the wall asks for the trend lines of that many tanks with its data, and the rest as they come up.
+ */
+export function tilesOnOneScreen(screen: Screen): number {
+  const columns = Math.max(1, Math.floor((screen.width + GAP_PX) / (MIN_TILE.width + GAP_PX)))
+  const rows = Math.max(1, Math.ceil((screen.height + GAP_PX) / (MIN_TILE.height + GAP_PX)))
+  return columns * rows
+}
+
 /** The tanks on one page (zero-based), in the server's order. */
 export function pageSlice<T>(items: T[], layout: WallLayout, page: number): T[] {
   if (layout.scroll || layout.pages <= 1) return items
