@@ -11,6 +11,7 @@ import type { WallCredential } from '../models'
 import { scheduleFn, snoozeCovers } from '../incidents'
 import { careDueCounts } from '../care'
 import { whoIsOnDuty } from '../roster'
+import { clockStyleOf } from '../people'
 import { canSeeSite } from '../access/scope'
 import { tankStatuses } from '../tanks'
 import { perContext } from '../platform/per-context'
@@ -65,7 +66,7 @@ export const wallService = perContext((ctx: AppContext) => {
         raw: true,
       })
       const ids = tanks.map((t) => t.id)
-      const [statuses, snoozes, duty, care, settling, windows, siteIncidents] = await Promise.all([
+      const [statuses, snoozes, duty, care, settling, windows, siteIncidents, clockStyle] = await Promise.all([
         tankStatuses(ctx, tanks, now),
         models.Snooze.findAll({
           where: { tankId: ids, cancelledAt: null, [Op.or]: [{ endsAt: { [Op.gt]: new Date(now) } }, { repeatUntil: { [Op.gt]: new Date(now) } }] },
@@ -77,6 +78,7 @@ export const wallService = perContext((ctx: AppContext) => {
           where: { siteId, ruleId: null, cancelledAt: null, [Op.or]: [{ endsAt: null }, { endsAt: { [Op.gt]: new Date(now) } }] },
         }),
         models.SiteIncident.findAll({ where: { siteId, state: { [Op.ne]: 'resolved' } }, order: [['openedAt', 'DESC']] }),
+        clockStyleOf(ctx, site.organizationId),
       ])
       const maintenanceOf = (tankId: number) => {
         for (const w of windows) {
@@ -152,7 +154,7 @@ export const wallService = perContext((ctx: AppContext) => {
       )
       for (const t of drawn) t.trend = trend.get(t.id) ?? []
       return {
-        site: { id: site.id, name: site.name, timeZone: site.timeZone },
+        site: { id: site.id, name: site.name, timeZone: site.timeZone, clockStyle },
         generatedAt: new Date(now).toISOString(),
         tanks: wallTanks,
         onDuty: duty.onDuty.map((d) => ({ userId: d.userId, name: d.name })),

@@ -1,3 +1,4 @@
+import type { ClockStyle } from './auth'
 import { z } from 'zod'
 import type { LatestResponse } from './series'
 import type { Targets, TankKind, TankStage } from './tanks'
@@ -55,7 +56,8 @@ export interface WallTank {
 }
 
 export interface WallResponse {
-  site: { id: number; name: string; timeZone: string }
+  /** `clockStyle`: the organisation's 24- or 12-hour clock, for a display that has no signed-in person. */
+  site: { id: number; name: string; timeZone: string; clockStyle: ClockStyle }
   generatedAt: string
   tanks: WallTank[]
   onDuty: Array<{ userId: number; name: string }>

@@ -1,5 +1,6 @@
 import { onScopeDispose, ref, shallowRef, triggerRef, watch } from 'vue'
 import { MAX_TREND_TANKS, type WallResponse, type WallTank, type WallTrendPoint } from '@shared/schemas/wall'
+import { setClockStyle } from '@shared/time'
 import { ApiError, describeError } from '@/api/errors'
 import { fetchWallTrends, getWall } from '@/api/wall'
 
@@ -29,6 +30,8 @@ export function useWall(siteId: () => number) {
       if (mine !== ticket) return
       const at = Date.now()
       for (const tank of payload.tanks) if (tank.trend) trends.value.set(tank.id, { line: tank.trend, at })
+      // A display has no signed-in person to carry the organisation's clock: the wall brings it.
+      setClockStyle(payload.site.clockStyle)
       wall.value = payload
       error.value = null
       staleSince.value = null

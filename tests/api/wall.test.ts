@@ -66,7 +66,13 @@ describe('the wall and wall displays', () => {
     const key = new URL(link, 'http://x').searchParams.get('key')!
     expect(key).toMatch(/^tww_\d+_/)
 
-    expect((await api(`/sites/${site}/wall`, key)).status).toBe(200)
+    const seen = await api(`/sites/${site}/wall`, key)
+    expect(seen.status).toBe(200)
+    expect(((await seen.json()) as { site: { clockStyle: string } }).site.clockStyle).toBe('24h')
+    const twelve = await api('/organization', org.users.owner.token, { method: 'PATCH', body: JSON.stringify({ clockStyle: '12h' }) })
+    expect(twelve.status).toBe(200)
+    expect(((await (await api(`/sites/${site}/wall`, key)).json()) as { site: { clockStyle: string } }).site.clockStyle).toBe('12h')
+    await api('/organization', org.users.owner.token, { method: 'PATCH', body: JSON.stringify({ clockStyle: '24h' }) })
     expect((await api(`/sites/${org.siteIds[1]}/wall`, key)).status).toBe(404)
     expect((await api(`/sites/${other.siteIds[0]}/wall`, key)).status).toBe(404)
     // Nothing else, and no writes.

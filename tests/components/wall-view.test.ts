@@ -9,6 +9,7 @@ vi.mock('@/api/wall', () => ({
   revokeWallCredential: vi.fn(),
 }))
 
+import { setClockStyle } from '@shared/time'
 import { fetchWallTrends, getWall } from '@/api/wall'
 import { resetLiveSocket } from '@/composables/useLiveSocket'
 import WallView from '@/views/WallView.vue'
@@ -47,6 +48,17 @@ describe('WallView', () => {
     expect(wrapper.find('[data-test="wall-overdue"]').text()).toBe('Care overdue: —')
     expect(wrapper.findAll('article.tw-tile')).toHaveLength(3)
     expect(wrapper.find('[data-test="wall-page"]').exists()).toBe(false)
+  })
+
+  it("writes its clock the organisation's way, which the wall's answer brings for a display with nobody signed in", async () => {
+    vi.useFakeTimers({ toFake: ['Date'] })
+    vi.setSystemTime(Date.parse('2026-03-03T14:05:00.000Z'))
+    try {
+      const { wrapper } = await mountWall(1, { site: { id: 3, name: 'Back fish room', timeZone: 'Europe/Berlin', clockStyle: '12h' } })
+      expect(wrapper.find('[data-test="wall-clock"]').text()).toContain('3:05 pm')
+    } finally {
+      setClockStyle('24h')
+    }
   })
 
   it('keeps the order the server sent', async () => {
