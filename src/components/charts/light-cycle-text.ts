@@ -6,9 +6,8 @@ export interface LightTableRow {
   date: string
   /** "Tue 14 Jul" */
   day: string
-  /** "09:00–19:00", several spans joined with commas, or "off all day". */
+  /** "09:00–19:00 (10.0 h)", several spans joined with commas, or "off all day". */
   measuredOn: string
-  measuredHours: string
   /** "09:00–19:00 (10.0 h)", or "—" without a schedule. */
   scheduled: string
   coveredHours: string
@@ -22,8 +21,7 @@ export function lightTableRows(days: LightDay[], timeZone: string): LightTableRo
   return days.map((day) => ({
     date: day.date,
     day: formatDay(day.dayStartMs + 12 * 3_600_000, timeZone),
-    measuredOn: day.measured.length ? spans(day.measured, timeZone) : 'off all day',
-    measuredHours: formatHours(day.measuredHours),
+    measuredOn: day.measured.length ? `${spans(day.measured, timeZone)} (${formatHours(day.measuredHours)})` : 'off all day',
     scheduled:
       day.scheduledHours == null ? '—' : day.scheduled.length ? `${spans(day.scheduled, timeZone)} (${formatHours(day.scheduledHours)})` : 'off all day',
     coveredHours: formatHours(day.coveredHours),
