@@ -183,9 +183,10 @@ export class LookAuditor {
    */
   async overlay(label: string, trigger: (page: Page) => Promise<unknown>, { close = true, inside = '.v-card' } = {}) {
     await this.each(async (page, theme) => {
+      // The new overlay comes after those already open (a dialog opened from a dialog).
+      const overlay = page.locator('.v-overlay--active').nth(await page.locator('.v-overlay--active').count())
       await trigger(page)
-      const overlay = page.locator(`.v-overlay--active ${inside}`).last()
-      await overlay.waitFor({ timeout: FIRST_LOAD_MS })
+      await overlay.locator(inside).first().waitFor({ timeout: FIRST_LOAD_MS })
       await settle(page)
       await this.bothSizes(page, theme, label)
       if (close) await closeOverlay(page, overlay)
