@@ -16,7 +16,7 @@ describe('temperature unit preference', () => {
     expect(formatReading('temperature', 25)).toBe('25.0 °C')
     await wrapper.find('button[data-test="account-menu"]').trigger('click')
     await flushPromises()
-    await new DOMWrapper(document.querySelector('button[aria-label="Degrees Fahrenheit"]')!).trigger('click')
+    await new DOMWrapper(document.querySelector('button[aria-label="°F, degrees Fahrenheit"]')!).trigger('click')
     await flushPromises()
     expect(localStorage.getItem(TEMPERATURE_UNIT_KEY)).toBe('F')
     // 25 °C = 77 °F and 24–27 °C = 75.2–80.6 °F (t/°F = 1.8 t/°C + 32, NIST SP 811, 2008, Appendix B).

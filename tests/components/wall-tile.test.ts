@@ -93,8 +93,32 @@ describe('WallTile', () => {
     expect(wrapper.find('[data-test="tile-age"]').text()).toBe('just now')
   })
 
-  it('draws the trend line without failing in jsdom', async () => {
+  it('draws the trend line and describes it: metric, span, lowest and highest', async () => {
     const { wrapper } = await mountView(WallTile, { props: { tank: wallTank(5), now: NOW, timeZone: 'UTC' } })
-    expect(wrapper.find('.tw-spark').attributes('aria-label')).toBe('Temperature over the last 6 hours for Tank 5')
+    expect(wrapper.find('.tw-spark').attributes('role')).toBe('img')
+    expect(wrapper.find('.tw-spark').attributes('aria-label')).toBe('Temperature over the last 6 hours for Tank 5: lowest 25.2 °C, highest 25.3 °C')
+  })
+
+  it('describes the trend with the live readings that arrived since, and leaves out what is older than 6 hours', async () => {
+    const trend = [
+      { t: '2026-03-03T05:00:00.000Z', value: 22.0 },
+      { t: '2026-03-03T10:00:00.000Z', value: 25.2 },
+    ]
+    const { wrapper } = await mountView(WallTile, { props: { tank: wallTank(6, { trend }), now: NOW, timeZone: 'UTC' } })
+    useLiveStore().ingest([{ tankId: 6, metric: 'temperature', time: '2026-03-03T11:59:00.000Z', value: 26.4, source: 'device' }])
+    await wrapper.vm.$nextTick()
+    expect(wrapper.find('.tw-spark').attributes('aria-label')).toBe('Temperature over the last 6 hours for Tank 6: lowest 25.2 °C, highest 26.4 °C')
+  })
+
+  it('says when every reading of the trend is the same, in the unit the person reads', async () => {
+    localStorage.setItem(TEMPERATURE_UNIT_KEY, 'F')
+    reloadUnitPreference()
+    const trend = [
+      { t: '2026-03-03T10:00:00.000Z', value: 25 },
+      { t: '2026-03-03T11:00:00.000Z', value: 25 },
+    ]
+    const { wrapper } = await mountView(WallTile, { props: { tank: wallTank(7, { trend }), now: NOW, timeZone: 'UTC' } })
+    // 25 °C = 77 °F (t/°F = 1.8 t/°C + 32, NIST SP 811, 2008, Appendix B).
+    expect(wrapper.find('.tw-spark').attributes('aria-label')).toBe('Temperature over the last 6 hours for Tank 7: every reading 77.0 °F')
   })
 })

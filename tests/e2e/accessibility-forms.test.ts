@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { newSecretToken } from '../../server/access/tokens'
 import { ackLinksService } from '../../server/incidents/ack-links'
 import { createIncidentRow, type TestOrg } from '../helpers/fixtures'
-import { audit, checkPage, newContext, open, SIZE_THEMES } from './a11y-pages'
+import { go, LookAuditor, open, settle } from './a11y-pages'
 import { AUDITED_ROUTES } from './audited-routes'
 import { launchBrowser, signIn, startAppForBrowser } from './browser'
 import { api, FIRST_LOAD_MS, postTemperatures, tankWithProbe, type App } from './keeper-setup'
@@ -58,89 +58,71 @@ afterAll(async () => {
   await s?.close()
 })
 
-/** Opens a dialog with `trigger`, checks the page with it open, and closes it again with Cancel or Escape. */
-async function auditDialog(page: Page, label: string, trigger: () => Promise<void>, found: string[]) {
-  await trigger()
-  const dialog = page.locator('.v-overlay--active .v-card').last()
-  await dialog.waitFor({ timeout: FIRST_LOAD_MS })
-  await page.waitForTimeout(400)
-  await checkPage(page, `${label}-dialog`, found)
-  const cancel = dialog.getByRole('button', { name: /^(Cancel|Keep)$/ })
-  if (await cancel.count()) await cancel.first().click()
-  else await page.keyboard.press('Escape')
-  await dialog.waitFor({ state: 'hidden' })
-}
-
-const visited = new Set<string | null>()
+let visited = new Set<string | null>()
 
 describe('forms, mail links and dialogs meet WCAG 2.1 AA as axe-core checks them', () => {
-  it.each(SIZE_THEMES)(
-    'at %s size in the %s theme',
-    async (size, theme) => {
-      const found: string[] = []
-      const label = `${size}-${theme}`
-      const context = await newContext(browser, size, theme)
-      const page = await context.newPage()
-      for (const link of [links.invite, links.reset, links.ack]) visited.add(await audit(page, label, link, found))
+  // One browser context, signed in once; each screen and dialog is opened once per theme and checked
+  // at both sizes (a11y-pages.ts).
+  it('at desktop and phone size, in the light and the dark theme', async () => {
+    const { context, auditor } = await LookAuditor.start(browser)
+    for (const link of [links.invite, links.reset, links.ack]) await auditor.load(link)
 
-      await signIn(page, s.baseUrl, org.users.owner.email)
-      for (const path of ['/tanks/new', `/tanks/${tankId}/edit`, `/tanks/${tankId}/build`, '/import', '/backup', '/dev/mail', '/no-such-screen']) {
-        visited.add(await audit(page, label, `${s.baseUrl}${path}`, found))
-      }
+    await signIn(auditor.pages.light, s.baseUrl, org.users.owner.email)
+    await open(auditor.pages.dark, `${s.baseUrl}/`)
+    for (const path of ['/tanks/new', `/tanks/${tankId}/edit`, `/tanks/${tankId}/build`, '/import', '/backup', '/dev/mail', '/no-such-screen']) {
+      await auditor.visit(path)
+    }
 
-      await open(page, `${s.baseUrl}/tanks/${tankId}`)
-      // A chart's points as a table, as someone who cannot see the chart asks for them.
-      const chart = page.locator('[data-test=metric-panel-temperature]')
-      await chart.locator('[data-test=chart-table-toggle]').click()
-      await chart.locator('[data-test=chart-table] caption').waitFor()
-      await chart.locator('[data-test=chart-table]').scrollIntoViewIfNeeded()
-      await checkPage(page, `${label}-chart-table`, found)
-      await auditDialog(page, `${label}-rule`, () => page.locator('[data-test=add-rule]').click(), found)
-      await auditDialog(page, `${label}-care-done`, () => page.locator('[data-test=care-task-done-notes]').first().click(), found)
-      const planner = page.locator('[data-test=water-change-panel]')
-      await planner.locator('input[name=amount]').fill('40')
-      await planner.locator('[data-test=water-change-plan-button]').click()
-      await planner.locator('[data-test=water-change-plan]').waitFor({ timeout: FIRST_LOAD_MS })
-      await planner.scrollIntoViewIfNeeded()
-      await checkPage(page, `${label}-water-change-plan`, found)
-      // The sample tank's heater top sits above the water left by a 40 % change: the start asks first.
-      await auditDialog(page, `${label}-heater-confirm`, () => planner.locator('[data-test=water-change-start]').click(), found)
+    // A chart's points as a table, as someone who cannot see the chart asks for them.
+    const chart = (page: Page) => page.locator('[data-test=metric-panel-temperature]')
+    await auditor.each(async (page) => {
+      await go(page, `/tanks/${tankId}`)
+      await chart(page).locator('[data-test=chart-table-toggle]').click()
+      await chart(page).locator('[data-test=chart-table] caption').waitFor()
+      await settle(page)
+    })
+    await auditor.checkEveryLook('chart-table', (page) => chart(page).locator('[data-test=chart-table]'))
+    await auditor.overlay('rule-dialog', (page) => page.locator('[data-test=add-rule]').click())
+    await auditor.overlay('care-done-dialog', (page) => page.locator('[data-test=care-task-done-notes]').first().click())
+    const planner = (page: Page) => page.locator('[data-test=water-change-panel]')
+    await auditor.each(async (page) => {
+      await planner(page).locator('input[name=amount]').fill('40')
+      await planner(page).locator('[data-test=water-change-plan-button]').click()
+      await planner(page).locator('[data-test=water-change-plan]').waitFor({ timeout: FIRST_LOAD_MS })
+      await settle(page)
+    })
+    await auditor.checkEveryLook('water-change-plan', planner)
+    // The sample tank's heater top sits above the water left by a 40 % change: the start asks first.
+    await auditor.overlay('heater-confirm-dialog', (page) => planner(page).locator('[data-test=water-change-start]').click())
 
-      // A report's chart as a table: the same shared chart component, fed by the report.
-      await open(page, `${s.baseUrl}/reports?tank=${tankId}&period=week&date=${new Date().toISOString().slice(0, 10)}`)
-      const reportChart = page.locator('[data-test=report-metric-temperature]')
-      await reportChart.locator('[data-test=chart-table-toggle]').click()
-      await reportChart.locator('[data-test=chart-table] caption').waitFor()
-      await reportChart.locator('[data-test=chart-table]').scrollIntoViewIfNeeded()
-      await checkPage(page, `${label}-report-chart-table`, found)
+    // A report's chart as a table: the same shared chart component, fed by the report.
+    const reportChart = (page: Page) => page.locator('[data-test=report-metric-temperature]')
+    await auditor.each(async (page) => {
+      await go(page, `/reports?tank=${tankId}&period=week&date=${new Date().toISOString().slice(0, 10)}`)
+      await reportChart(page).locator('[data-test=chart-table-toggle]').click()
+      await reportChart(page).locator('[data-test=chart-table] caption').waitFor()
+      await settle(page)
+    })
+    await auditor.checkEveryLook('report-chart-table', (page) => reportChart(page).locator('[data-test=chart-table]'))
 
-      await open(page, `${s.baseUrl}/tanks/${tankId}/test-kit`)
-      await auditDialog(
-        page,
-        `${label}-test-kit-entry`,
-        () =>
-          page
-            .getByRole('button', { name: /^Edit the entry of/ })
-            .first()
-            .click(),
-        found,
-      )
-      await auditDialog(
-        page,
-        `${label}-delete-confirm`,
-        () =>
-          page
-            .getByRole('button', { name: /^Delete the entry of/ })
-            .first()
-            .click(),
-        found,
-      )
-      await context.close()
+    await auditor.each((page) => go(page, `/tanks/${tankId}/test-kit`))
+    await auditor.overlay('test-kit-entry-dialog', (page) =>
+      page
+        .getByRole('button', { name: /^Edit the entry of/ })
+        .first()
+        .click(),
+    )
+    await auditor.overlay('delete-confirm-dialog', (page) =>
+      page
+        .getByRole('button', { name: /^Delete the entry of/ })
+        .first()
+        .click(),
+    )
+    await context.close()
 
-      expect(found, found.join('\n\n')).toEqual([])
-    },
-    420_000,
-  )
+    visited = auditor.visited
+    expect(auditor.found, auditor.found.join('\n\n')).toEqual([])
+  }, 480_000)
 
   it('opened every route this file is listed as auditing', () => {
     expect([...visited].sort()).toEqual([...AUDITED_ROUTES['accessibility-forms.test.ts']!].sort())

@@ -54,3 +54,15 @@ export function lightLine(lightOn: boolean | null, scheduledOn: boolean | null, 
   if (scheduledOn === lightOn) return { word, icon, detail: `as scheduled ${hours}`, offSchedule: false }
   return { word, icon, detail: `should be ${scheduledOn ? 'on' : 'off'} (${hours})`, offSchedule: true }
 }
+
+/**
+ * A trend line in words for assistive technology: what it shows, over which span, and its lowest
+ * and highest values, since the line's shape cannot be read out.
+ */
+export function describeTrend(subject: string, points: Array<[number, number]>, format: (value: number) => string): string {
+  if (!points.length) return `${subject}: no readings`
+  const values = points.map(([, value]) => value)
+  const low = Math.min(...values)
+  const high = Math.max(...values)
+  return low === high ? `${subject}: every reading ${format(low)}` : `${subject}: lowest ${format(low)}, highest ${format(high)}`
+}
