@@ -77,7 +77,8 @@ describe('building a tank', () => {
     await page.getByRole('option', { name: /Harlequin rasbora/ }).click()
 
     const figures = page.locator('[data-test=build-figures]')
-    expect(await figures.locator('[data-test=figure-water]').innerText()).toBe('47.5 L')
+    // The figures follow the last typed field a moment later on a busy machine: wait for them to settle.
+    await expect.poll(() => figures.locator('[data-test=figure-water]').innerText(), { timeout: 15_000 }).toBe('47.5 L')
     expect(await figures.locator('[data-test=figure-heater]').innerText()).toMatch(/^75 W suggested .*top between 6\.0 and 20\.0 cm/)
     expect(await figures.locator('[data-test=figure-conditioner]').innerText()).toBe('23.7 mL for 47.5 L')
     expect(await figures.locator('[data-test=figure-weight]').innerText()).toMatch(/^about 82 kg/)
