@@ -59,21 +59,32 @@ export async function recentValues(sequelize: Sequelize, tankId: number, metric:
   })
 }
 
-/** Temperature of these tanks since `since`, as 15-minute means per tank (`t` the bin's start, ISO), oldest first; one row per tank. */
+/**
+ * Temperature of these tanks from `since` to `until`, as 15-minute means per tank (`t` the bin's
+ * start, ISO), oldest first; one row per tank. A bin's mean is of its first 60 readings (one every
+ * 15 s): a sensor sending far faster would otherwise make the wall read every one of them, and a
+ * line this size cannot show the difference.
+ */
 export async function temperatureTrends(
   sequelize: Sequelize,
   tankIds: number[],
   since: Date,
+  until: Date,
 ): Promise<Array<{ tank_id: number; trend: Array<{ t: string; value: number }> }>> {
   return sequelize.query<{ tank_id: number; trend: Array<{ t: string; value: number }> }>(
     `SELECT tank_id, json_agg(json_build_object(
-              't', to_char(t AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"'),
-              'value', round(value::numeric, 2)::float8) ORDER BY t) AS trend
-       FROM (SELECT tank_id, date_bin('15 minutes', time, TIMESTAMPTZ '2000-01-03') AS t, avg(value) AS value
-               FROM readings WHERE metric = 'temperature' AND tank_id = ANY($1) AND time >= $2
-              GROUP BY 1, 2) buckets
+              't', to_char(bin AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"'),
+              'value', round(mean::numeric, 2)::float8) ORDER BY bin) AS trend
+       FROM unnest($1::int[]) AS tank(tank_id)
+      CROSS JOIN generate_series(date_bin('15 minutes', $2::timestamptz, TIMESTAMPTZ '2000-01-03'), $3::timestamptz, interval '15 minutes') AS bin
+      CROSS JOIN LATERAL (
+        SELECT avg(value) AS mean FROM (
+          SELECT value FROM readings
+           WHERE tank_id = tank.tank_id AND metric = 'temperature' AND time >= greatest(bin, $2::timestamptz) AND time < bin + interval '15 minutes'
+           ORDER BY time LIMIT 60) firsts) bucket
+      WHERE mean IS NOT NULL
       GROUP BY tank_id`,
-    { bind: [tankIds, since], type: QueryTypes.SELECT },
+    { bind: [tankIds, since, until], type: QueryTypes.SELECT },
   )
 }
 

@@ -44,7 +44,7 @@ export const wallService = perContext((ctx: AppContext) => {
   /** Each tank's temperature in 15-minute means, one row per tank (a row per point costs a large site more than the query). */
   async function trends(tankIds: number[], now: number) {
     if (!tankIds.length) return new Map<number, WallTrendPoint[]>()
-    const rows = await temperatureTrends(sequelize, tankIds, new Date(now - TREND_HOURS * 3600_000))
+    const rows = await temperatureTrends(sequelize, tankIds, new Date(now - TREND_HOURS * 3600_000), new Date(now))
     return new Map(rows.map((r) => [r.tank_id, r.trend as WallTrendPoint[]]))
   }
 

@@ -142,6 +142,20 @@ describe('the wall data itself', () => {
       'Third tank': [],
     })
   })
+
+  it('leaves out readings older than six hours and averages at most the first 60 readings of a 15-minute bin', async () => {
+    const fastOrg = await s.createOrg('Fast Sensor Org')
+    const tank = await createTankWithDevice(s.ctx, fastOrg, 'Fast sensor tank')
+    const QUARTER = 15 * 60_000
+    const bin = Math.floor(Date.now() / QUARTER) * QUARTER - 2 * QUARTER
+    // A reading every 5 s: the first 60 at 25 °C, then 20 at 35 °C that the bin's mean leaves out.
+    const fast = Array.from({ length: 80 }, (_, i) => ({ metric: 'temperature', value: i < 60 ? 25 : 35, time: new Date(bin + i * 5000).toISOString() }))
+    const old = { metric: 'temperature', value: 20, time: new Date(Date.now() - 7 * 3600_000).toISOString() }
+    expect((await api('/readings', tank.token, { method: 'POST', body: JSON.stringify({ v: 1, readings: [old, ...fast] }) })).status).toBe(200)
+
+    const wall = (await (await api(`/sites/${fastOrg.siteIds[0]}/wall`, fastOrg.users.viewer.token)).json()) as WallResponse
+    expect(wall.tanks.map((t) => t.trend)).toEqual([[{ t: new Date(bin).toISOString(), value: 25 }]])
+  })
 })
 
 describe('trend lines a screenful at a time', () => {
