@@ -1,12 +1,11 @@
-import type { Browser, Page } from 'playwright-core'
+import type { Page } from 'playwright-core'
 import sharp from 'sharp'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { formatLocalDate, localDateAt, localToInstant } from '@shared/time/zoned'
-import { bearer, sampleTank } from '../helpers/app'
-import type { TestOrg } from '../helpers/fixtures'
-import { closeOverlay, go, LookAuditor, open } from './a11y-pages'
-import { launchBrowser, signIn, startAppForBrowser } from './browser'
-import { api, tankWithProbe, type App } from './keeper-setup'
+import { formatLocalDate } from '@shared/time/zoned'
+import { bearer } from '../helpers/app'
+import { closeOverlay, go } from './a11y-pages'
+import { click, startDialogWorld, startSignedInAuditor, type DialogWorld } from './dialog-audit-setup'
+import { api } from './keeper-setup'
 
 // The less used dialogs of a tank page and the account menu, opened on top of their screens and audited with axe-core
 // against WCAG 2.1 levels A and AA (Web Content Accessibility Guidelines 2.1, W3C, 2018) in both
@@ -14,31 +13,14 @@ import { api, tankWithProbe, type App } from './keeper-setup'
 // them are audited there and in their own feature tests; the roster's, supplies', clients' and
 // visits' dialogs are in accessibility-dialogs-more.test.ts.
 
-let s: App
-let b: Awaited<ReturnType<typeof launchBrowser>>
-let browser: Browser
-let org: TestOrg
-const ids = { tank: 0, phProbe: 0, batch: 0, equipment: 0, photo: 0, client: 0, visit: 0 }
+let world: DialogWorld
+const ids = { phProbe: 0, batch: 0, equipment: 0, photo: 0 }
 
 beforeAll(async () => {
-  s = await startAppForBrowser()
-  b = await launchBrowser()
-  browser = b.browser
-  org = await s.createOrg('Kelpwood Aquaria')
-  const owner = org.users.owner.token
-  const siteId = org.siteIds[0]!
-  const post = async (path: string, body: unknown) => {
-    const res = await api(s, path, owner, { method: 'POST', body: JSON.stringify(body) })
-    expect(res.status, `${path}: ${JSON.stringify(res.body)}`).toBeLessThan(300)
-    return res.body
-  }
-  const zone = (await s.ctx.models.Site.findByPk(siteId))!.timeZone
-  const today = localDateAt(zone, Date.now())
-  ids.client = (await post('/clients', { kind: 'company', name: 'Harbourside Clinic', email: 'front@harbourside.example' })).id
-  ids.tank = (await tankWithProbe(s, owner, siteId, 'Lobby reef')).tankId
-  await s.ctx.models.Tank.update({ clientId: ids.client }, { where: { id: ids.tank } })
-  await post('/tanks', sampleTank(siteId, { name: 'Quarantine 3' }))
-  const probe = await post('/devices', { tankId: ids.tank, name: 'pH and light probe', metrics: ['ph', 'temperature', 'light'], intervalSeconds: 600 })
+  world = await startDialogWorld()
+  const { s, post, zone, today } = world
+  const tank = world.ids.tank
+  const probe = await post('/devices', { tankId: tank, name: 'pH and light probe', metrics: ['ph', 'temperature', 'light'], intervalSeconds: 600 })
   ids.phProbe = probe.device.id
   // Two days of light every half hour, on from 09:00 to 19:00 on the site's clock (invented demo figures).
   const readings = []
@@ -48,9 +30,9 @@ beforeAll(async () => {
   }
   const sent = await api(s, '/readings', probe.token, { method: 'POST', body: JSON.stringify({ v: 1, readings }) })
   expect(sent.body?.accepted, JSON.stringify(sent.body)).toBe(readings.length)
-  ids.batch = (await post(`/tanks/${ids.tank}/livestock`, { speciesKey: 'zebra_danio', count: 12, source: 'Test wholesaler' })).entry.id
+  ids.batch = (await post(`/tanks/${tank}/livestock`, { speciesKey: 'zebra_danio', count: 12, source: 'Test wholesaler' })).entry.id
   ids.equipment = (
-    await post(`/tanks/${ids.tank}/equipment`, { kind: 'heater', name: 'Main heater', model: 'Glass heater', watts: 200, installedOn: formatLocalDate(today) })
+    await post(`/tanks/${tank}/equipment`, { kind: 'heater', name: 'Main heater', model: 'Glass heater', watts: 200, installedOn: formatLocalDate(today) })
   ).id
 
   const image = await sharp({ create: { width: 800, height: 600, channels: 3, background: { r: 30, g: 110, b: 140 } } })
@@ -59,34 +41,21 @@ beforeAll(async () => {
   const form = new FormData()
   form.append('caption', 'Lobby reef after the rescape')
   form.append('photo', new Blob([image]), 'reef.jpg')
-  const photo = await fetch(`${s.baseUrl}/api/v1/tanks/${ids.tank}/photos`, { method: 'POST', body: form, headers: bearer(owner) })
+  const photo = await fetch(`${s.baseUrl}/api/v1/tanks/${tank}/photos`, { method: 'POST', body: form, headers: bearer(world.org.users.owner.token) })
   expect(photo.status).toBe(201)
   ids.photo = ((await photo.json()) as { id: number }).id
-
-  const at = (hour: number) => new Date(localToInstant(zone, today, hour * 60)).toISOString()
-  ids.visit = (
-    await post('/visits', { clientId: ids.client, siteId, technicianId: org.users.owner.id, startsAt: at(9), endsAt: at(10), tankIds: [ids.tank] })
-  ).id
-  await post(`/visits/${ids.visit}/start`, {})
 })
-afterAll(async () => {
-  await b?.close()
-  await s?.close()
-})
-
-const click = (selector: string) => (page: Page) => page.locator(selector).first().click()
+afterAll(() => world?.close())
 
 describe('dialogs and menus meet WCAG 2.1 AA as axe-core checks them', () => {
   // One browser context, signed in once; each dialog is opened once per theme and checked at both
   // sizes (a11y-pages.ts).
   it('at desktop and phone size, in the light and the dark theme', async () => {
-    const { context, auditor } = await LookAuditor.start(browser)
-    await signIn(auditor.pages.light, s.baseUrl, org.users.owner.email)
-    await open(auditor.pages.dark, `${s.baseUrl}/`)
+    const { context, auditor } = await startSignedInAuditor(world)
 
     await auditor.overlay('account-menu', click('[data-test=account-menu]'), { inside: '.v-list' })
 
-    await auditor.each((page) => go(page, `/tanks/${ids.tank}`))
+    await auditor.each((page) => go(page, `/tanks/${world.ids.tank}`))
     // The light-cycle bars as a table, as someone who cannot see them asks for them.
     const lightCycle = (page: Page) => page.locator('[data-test=light-cycle]')
     await auditor.each(async (page) => {

@@ -4,7 +4,7 @@ import { MAINS_CAUTION } from '@shared/equipment/defaults'
 import { formatLocalDate, localDateAt } from '@shared/time/zoned'
 import { sampleTank } from '../helpers/app'
 import type { TestOrg } from '../helpers/fixtures'
-import { audit, checkPage, newContext, open, SIZE_THEMES } from './a11y-pages'
+import { go, LookAuditor, open } from './a11y-pages'
 import { AUDITED_ROUTES } from './audited-routes'
 import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'
 import { api, FIRST_LOAD_MS, type App } from './keeper-setup'
@@ -157,33 +157,18 @@ describe('equipment on a tank', () => {
 })
 
 describe('the livestock and supplies screens meet WCAG 2.1 AA as axe-core checks them', () => {
+  // One browser context signed in once, a page per theme, each screen checked at both sizes (a11y-pages.ts).
   it('in both sizes and themes', async () => {
-    const found: string[] = []
-    const visited = new Set<string | null>()
-    for (const [size, theme] of SIZE_THEMES) {
-      const context = await newContext(browser, size, theme)
-      const page = await context.newPage()
-      await signIn(page, s.baseUrl, org.users.owner.email)
-      for (const path of ['/livestock', `/supplies?site=${org.siteIds[0]}`]) visited.add(await audit(page, `${size}-${theme}`, `${s.baseUrl}${path}`, found))
-      // Every panel of the tank page loaded and faded in: a table half-faded would be measured at half its contrast.
-      await open(page, `${s.baseUrl}/tanks/${sales}`)
-      await page.locator('[data-test=equipment-panel] .v-list-item').first().scrollIntoViewIfNeeded({ timeout: FIRST_LOAD_MS })
-      await page.waitForTimeout(400)
-      await checkPage(page, `${size}-${theme}-equipment`, found)
-      const dialog = await askToMove(page, '1')
-      await page.waitForTimeout(400)
-      await checkPage(page, `${size}-${theme}-batch-move-dialog`, found)
-      await dialog.getByRole('button', { name: 'Cancel' }).click()
-      await dialog.waitFor({ state: 'hidden' })
-      await page.locator(`[data-test=livestock-sell-${batchId}]`).click()
-      const sell = page.locator('.v-overlay--active .v-card').last()
-      await sell.waitFor()
-      await page.waitForTimeout(400)
-      await checkPage(page, `${size}-${theme}-batch-out-dialog`, found)
-      await sell.getByRole('button', { name: 'Cancel' }).click()
-      await context.close()
-    }
-    expect(found, found.join('\n\n')).toEqual([])
-    expect([...visited].sort()).toEqual([...AUDITED_ROUTES['livestock-equipment.test.ts']!].sort())
+    const { context, auditor } = await LookAuditor.start(browser)
+    await signIn(auditor.pages.light, s.baseUrl, org.users.owner.email)
+    await open(auditor.pages.dark, `${s.baseUrl}/`)
+    for (const path of ['/livestock', `/supplies?site=${org.siteIds[0]}`]) await auditor.visit(path)
+    await auditor.each((page) => go(page, `/tanks/${sales}`))
+    await auditor.checkEveryLook('equipment', (page) => page.locator('[data-test=equipment-panel] .v-list-item').first())
+    await auditor.overlay('batch-move-dialog', (page) => askToMove(page, '1'))
+    await auditor.overlay('batch-out-dialog', (page) => page.locator(`[data-test=livestock-sell-${batchId}]`).click())
+    await context.close()
+    expect(auditor.found, auditor.found.join('\n\n')).toEqual([])
+    expect([...auditor.visited].sort()).toEqual([...AUDITED_ROUTES['livestock-equipment.test.ts']!].sort())
   }, 300_000)
 })
