@@ -81,8 +81,9 @@ describe('building a tank', () => {
     await expect.poll(() => figures.locator('[data-test=figure-water]').innerText(), { timeout: 15_000 }).toBe('47.5 L')
     expect(await figures.locator('[data-test=figure-heater]').innerText()).toMatch(/^75 W suggested .*top between 6\.0 and 20\.0 cm/)
     expect(await figures.locator('[data-test=figure-conditioner]').innerText()).toBe('23.7 mL for 47.5 L')
-    expect(await figures.locator('[data-test=figure-weight]').innerText()).toMatch(/^about 82 kg/)
-    expect(await figures.locator('[data-test=figure-layer]').nth(1).innerText()).toContain('7.2 L · 6.5 kg · 3 bags')
+    // Each figure follows its own fields (the weight the hardscape typed last): wait for each.
+    await expect.poll(() => figures.locator('[data-test=figure-weight]').innerText(), { timeout: 15_000 }).toMatch(/^about 82 kg/)
+    await expect.poll(() => figures.locator('[data-test=figure-layer]').nth(1).innerText(), { timeout: 15_000 }).toContain('7.2 L · 6.5 kg · 3 bags')
     expect(await figures.locator('[data-test=caution-weight]').innerText()).toContain('ask a structural engineer when unsure')
     expect(await figures.locator('[data-test=caution-electric]').innerText()).toContain('RCD/GFCI')
     expect(await figures.locator('[data-test=caution-label]').innerText()).toContain('follow the product label')
