@@ -40,7 +40,8 @@ export interface PhState {
   swing: number
 }
 
-export const initialPhState = (): PhState => ({ drift: 0, swing: 0 })
+/** Settled where the lights put it (a tank that has been running), with no drift yet. */
+export const initialPhState = (kind: TankKind, lightFraction: number): PhState => ({ drift: 0, swing: SWING_PH[kind] * (2 * lightFraction - 1) })
 
 const smoothstep = (x: number) => x * x * (3 - 2 * x)
 
@@ -55,9 +56,14 @@ export function crashOffset(elapsedS: number | null, lastsS = Infinity): number 
   return fall(lastsS) * (1 - smoothstep(Math.min(1, (elapsedS - lastsS) / CRASH_DURATION_S)))
 }
 
-export function stepPh(state: PhState, kind: TankKind, lightFraction: number, dtS: number, random: Random): PhState {
+/**
+ * `swingDtS`: the wall-clock seconds of the step. The swing follows the lights, which keep the site's
+ * wall clock at any simulator speed, so it keeps the wall clock too: at 20× a lights-off would
+ * otherwise drop the pH in minutes, and a day's-change watch rule would see it as a real change.
+ */
+export function stepPh(state: PhState, kind: TankKind, lightFraction: number, dtS: number, random: Random, swingDtS = dtS): PhState {
   const target = SWING_PH[kind] * (2 * lightFraction - 1)
-  const swing = target + (state.swing - target) * Math.exp(-dtS / SWING_TAU_S)
+  const swing = target + (state.swing - target) * Math.exp(-swingDtS / SWING_TAU_S)
   // Exact OU update, so the spread does not depend on the step size.
   const decay = Math.exp(-dtS / DRIFT_TAU_S)
   const drift = state.drift * decay + DRIFT_SD * Math.sqrt(1 - decay * decay) * gaussian(random)

@@ -59,7 +59,7 @@ export class TankSimulation {
   private readonly speed: number
   private simMs: number
   private thermal: ThermalState
-  private ph: PhState = initialPhState()
+  private ph: PhState
   private level: LevelState
   private changeStartCm: number | null = null
   private salt: SaltState
@@ -82,6 +82,7 @@ export class TankSimulation {
     this.level = initialLevelState(this.geometry.heightCm * START_FILL_FRACTION)
     this.salt = initialSaltState(spec.kind, litresAtLevel(this.geometry, this.level.levelCm))
     this.probeRandom = mulberry32(options.seed ^ 0x5a17)
+    this.ph = initialPhState(spec.kind, this.lightFraction())
   }
 
   get elapsedS(): number {
@@ -159,7 +160,7 @@ export class TankSimulation {
       },
       dtS,
     )
-    this.ph = stepPh(this.ph, this.spec.kind, this.lightFraction(), dtS, this.random)
+    this.ph = stepPh(this.ph, this.spec.kind, this.lightFraction(), dtS, this.random, dtS / this.speed)
     this.simMs += dtS * 1000
   }
 

@@ -90,13 +90,13 @@ export function tankHistory(spec: SimTankSpec & { substrateDepthCm: number }, op
   const heater = spec.heater
   let level = initialLevelState(geometry.heightCm * START_FILL_FRACTION)
   let thermal = { waterC: heater?.setPointC ?? roomTemperatureC(minutesOfDay(options.fromMs)), heaterOn: false }
-  let ph = initialPhState()
   let wasChanging = false
   const history: TankHistory = { times: [], values: { temperature: [], ph: [], light: [], water_level: [] } }
   const reportEvery = Math.max(1, Math.round(options.reportEveryMs / STEP_MS))
   // The room and the lights depend only on the local minute: one table each for the whole month.
   const roomByMinute = Array.from({ length: 1440 }, (_, m) => roomTemperatureC(m))
   const lightByMinute = Array.from({ length: 1440 }, (_, m) => scheduleFraction(m, spec.lightSchedule))
+  let ph = initialPhState(spec.kind, lightByMinute[minutesOfDay(options.fromMs)]!)
 
   for (let at = options.fromMs, step = 0; at < options.toMs; at += STEP_MS, step++) {
     const minute = Math.floor(minutesOfDay(at)) % 1440

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { localMinutesOfDay } from '../../../simulator/model/clock'
 import { BASELINE_PH, crashOffset, CRASH_DURATION_S } from '../../../simulator/model/ph'
-import { HOUR_S, sample, simulate } from './fixtures'
+import { HOUR_S, sample, simulate, WINTER_MIDNIGHT_BERLIN } from './fixtures'
 
 const planted = { kind: 'planted' as const, lightSchedule: { on: '10:00', off: '18:00' } }
 
@@ -28,6 +28,22 @@ describe('pH day–night swing', () => {
     expect(meanOf(14, 18) - meanOf(0, 10)).toBeGreaterThan(0.3)
     const mean = values.reduce((a, b) => a + b, 0) / values.length
     expect(Math.abs(mean - BASELINE_PH.planted)).toBeLessThan(0.2)
+  })
+
+  it('follows the lights on the wall clock when the simulator runs faster (a demo at 20×)', () => {
+    const SPEED = 20
+    const sim = simulate(planted, { speed: SPEED })
+    const wallMinute = () => localMinutesOfDay(WINTER_MIDNIGHT_BERLIN + (sim.snapshot().simMs - WINTER_MIDNIGHT_BERLIN) / SPEED, 'Europe/Berlin')
+    // From 17:40 to 18:10 on the wall clock, across the lights going off at 18:00.
+    sim.advance((17 * 60 + 40) * 60 * SPEED)
+    expect(wallMinute()).toBe(17 * 60 + 40)
+    const before = sim.snapshot().ph
+    sim.advance(30 * 60 * SPEED)
+    const drop = before - sim.snapshot().ph
+    // A 90-minute time constant on the wall clock moves the swing about a fifth of its 0.4 in half
+    // an hour (1 − e^(−30/90) ≈ 0.28 at most); 600 simulated minutes would move nearly all of it.
+    expect(drop).toBeGreaterThan(0)
+    expect(drop).toBeLessThan(0.15)
   })
 
   it('barely moves in an unplanted tank', () => {
