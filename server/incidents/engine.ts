@@ -1,3 +1,4 @@
+import { setImmediate as nextTurn } from 'node:timers/promises'
 import { Op } from 'sequelize'
 import { evaluate, replay } from '@shared/rules/evaluate'
 import { windowCovers, type MaintenanceSpan } from '@shared/rules/maintenance'
@@ -35,6 +36,10 @@ type Window = MaintenanceSpan & { siteId: number; tankId: number | null; ruleId:
 // engine still opens at the moment it happened (longer outages open it when the engine returns).
 const LOOKBACK_PAD_MS = 2 * 3600_000
 const TOUCH_EVERY_MS = 60_000
+// A batch of thousands of readings is evaluated in slices this long; between them the process
+// answers its sockets (MQTT acknowledgements, live screens) instead of holding them for the whole batch.
+const SLICE_MS = 10
+const MAX_BACKLOG = 10_000
 // A flap back that lasts this long is no longer a flap: it is mailed again (`common practice`).
 const RECHECK_MIN_MS = 5 * 60_000
 
@@ -333,7 +338,15 @@ export function createRuleEngine(ctx: AppContext, incidents: IncidentsService, o
     void serial(async () => {
       const batch = queue.sort((a, b) => a.time.getTime() - b.time.getTime())
       queue = []
-      for (const r of batch) {
+      let sliceStart = performance.now()
+      for (let i = 0; i < batch.length; i++) {
+        const r = batch[i]!
+        // Behind by more than a backlog, the engine keeps the process to itself: readings then wait in
+        // the devices and the network, not as an ever longer queue in this process's memory.
+        if (performance.now() - sliceStart > SLICE_MS && batch.length - i + queue.length < MAX_BACKLOG) {
+          await nextTurn()
+          sliceStart = performance.now()
+        }
         const key = `${r.tankId}:${r.metric}`
         const slotsOfReading = byTankMetric.get(key)
         if (!slotsOfReading) continue

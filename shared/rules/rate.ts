@@ -6,44 +6,50 @@ type Point = [number, number]
 
 /**
  * A sensor reporting every few seconds would otherwise keep a day's worth of points per rule.
- * Thinning keeps the oldest and newest points, so the change across the window stays exact
- * at the moment of thinning; later, as the window slides, the next-oldest point may be a
- * little younger than it would have been.
+ * The window keeps one point per slot of `windowMinutes / MAX_WINDOW_POINTS` (six minutes in a
+ * day): the slot's oldest reading. The newest reading is the state's `lastValue`. So the change
+ * across the window is measured from a point at most one slot younger than the exact oldest
+ * reading, and a reading that lands in a slot already held changes no array: the hot path
+ * copies the window only when a new slot begins.
  */
 export const MAX_WINDOW_POINTS = 240
 
-function thin(points: Point[]): Point[] {
-  if (points.length <= MAX_WINDOW_POINTS) return points
-  const last = points[points.length - 1] as Point
-  const kept = points.slice(0, -1).filter((_, index) => index % 2 === 0)
-  return [...kept, last]
-}
+// A window of W spans at most W / slot + 2 slots (both ends partly), so this many slots keep it within the bound.
+const slotMs = (windowMs: number) => windowMs / (MAX_WINDOW_POINTS - 2)
+const sameSlot = (a: number, b: number, windowMs: number) => Math.floor(a / slotMs(windowMs)) === Math.floor(b / slotMs(windowMs))
 
 /**
- * The window with an in-order point added and the points older than the window dropped (the
- * boundary is inclusive: a reading exactly `windowMinutes` old still counts). One copy per reading:
- * the window is in time order, and every reading of every tank meets it.
+ * The window with an in-order point taken in and the points older than the window dropped (the
+ * boundary is inclusive: a reading exactly `windowMinutes` old still counts). Unchanged, the
+ * same array comes back.
  */
 function slide(points: Point[], point: Point, windowMs: number): Point[] {
   const cutoff = point[0] - windowMs
   let first = 0
   while (first < points.length && (points[first] as Point)[0] < cutoff) first++
+  const last = points[points.length - 1]
+  const opensSlot = first === points.length || !last || !sameSlot(last[0], point[0], windowMs)
+  if (first === 0 && !opensSlot) return points
   const next = points.slice(first)
-  next.push(point)
+  if (opensSlot) next.push(point)
   return next
 }
 
-function insertSorted(points: Point[], point: Point): Point[] {
+/** A late point slotted in by time; it replaces the point of its slot when it is older. */
+function insertLate(points: Point[], point: Point, windowMs: number): Point[] {
   const index = points.findIndex(([at]) => at > point[0])
-  if (index === -1) return [...points, point]
-  return [...points.slice(0, index), point, ...points.slice(index)]
+  const before = index === -1 ? points.length - 1 : index - 1
+  const neighbour = points[before]
+  if (neighbour && sameSlot(neighbour[0], point[0], windowMs)) return points
+  const after = points[before + 1]
+  const replaces = after && sameSlot(after[0], point[0], windowMs) ? 1 : 0
+  return [...points.slice(0, before + 1), point, ...points.slice(before + 1 + replaces)]
 }
 
-/** Newest minus oldest; undefined until the window holds two readings. */
-export function changeAcross(points: Point[]): number | undefined {
-  if (points.length < 2) return undefined
-  const oldest = points[0] as Point
-  const newest = points[points.length - 1] as Point
+/** Newest minus oldest; undefined until the window reaches back before the newest reading. */
+export function changeAcross(points: Point[], newest: Point): number | undefined {
+  const oldest = points[0]
+  if (!oldest || oldest[0] >= newest[0]) return undefined
   return newest[1] - oldest[1]
 }
 
@@ -61,12 +67,12 @@ export function evaluateRate(spec: RateSpec, state: RuleState, input: RuleInput)
 
   if (state.lastReadingAt !== undefined && input.at < state.lastReadingAt) {
     if (input.at < state.lastReadingAt - windowMs) return { state }
-    return { state: { ...state, window: thin(insertSorted(window, point)) } }
+    return { state: { ...state, window: insertLate(window, point, windowMs) } }
   }
 
-  const nextWindow = thin(slide(window, point, windowMs))
+  const nextWindow = slide(window, point, windowMs)
   const base: RuleState = { ...state, window: nextWindow, lastValue: input.value, lastReadingAt: input.at }
-  const change = changeAcross(nextWindow)
+  const change = changeAcross(nextWindow, point)
   const exceeded = change !== undefined && Math.abs(change) > spec.maxChange
 
   if (state.status !== 'tripped') {

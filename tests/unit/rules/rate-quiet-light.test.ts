@@ -118,14 +118,55 @@ group('rate', () => {
     expect(result.state.lastReadingAt).toBe(at(50))
   })
 
-  it('keeps the window bounded, with the oldest and newest points', () => {
+  it('keeps the window bounded: one point per slot, the oldest exact, the newest reading as the state', () => {
     const steps: Step[] = Array.from({ length: 1000 }, (_, i): Step => ['r', i, 7 + (i % 2) * 0.01])
     const { state } = run(phRate, steps)
     const window = state.window ?? []
     expect(window.length).toBeLessThanOrEqual(MAX_WINDOW_POINTS)
-    expect(window.length).toBeGreaterThan(MAX_WINDOW_POINTS / 2)
+    // 1,000 minutes in slots of 24 h / 238 (about 6 min): about 166 slots, each holding its first reading.
+    expect(window.length).toBeGreaterThan(160)
     expect(window[0]).toEqual([T0, 7])
-    expect(window[window.length - 1]).toEqual([at(999), 7.01])
+    expect([state.lastReadingAt, state.lastValue]).toEqual([at(999), 7.01])
+  })
+
+  it('measures a slow day-long fall across the bounded window, and clears as the fall leaves it', () => {
+    // A reading a minute for two days, falling 0.4 over the first day, then level.
+    const steps: Step[] = Array.from({ length: 2 * 1440 }, (_, i): Step => ['r', i, 7.5 - (0.4 * Math.min(i, 1440)) / 1440])
+    const { events } = run(phRate, steps)
+    // 0.3 of the fall is reached at minute 1080; the trip may not wait for a slot (6 min) to pass.
+    expect(events[0]).toMatch(/^trip@108[01] -0\.30/)
+    // Level after minute 1440: exactly, the change drops to 0.3 once the window starts after minute
+    // 360; measured from a slot's first reading, up to one slot (about 6 min) sooner.
+    const clear = Number(/^clear@(\d+)/.exec(events.find((e) => e.startsWith('clear'))!)![1])
+    expect(clear).toBeGreaterThanOrEqual(1800 - 7)
+    expect(clear).toBeLessThanOrEqual(1800)
+  })
+
+  it("copies no window for a reading in a slot already held, and a late reading keeps its slot's oldest", () => {
+    // Slots of a 24 h window are 24 h / 238 long, counted from the epoch; b is the first slot start after T0.
+    const slot = (24 * 60) / (MAX_WINDOW_POINTS - 2)
+    const b = (Math.ceil(T0 / (slot * 60_000)) * slot * 60_000 - T0) / 60_000
+    const once = run(phRate, [
+      ['r', b, 7],
+      ['r', b + 2, 7],
+    ])
+    const again = run(phRate, [['r', b + 3, 7]], {}, once.state)
+    expect(again.state.window).toBe(once.state.window)
+    expect(again.state.window).toEqual([[at(b), 7]])
+    const late = run(
+      phRate,
+      [
+        ['r', b + slot + 3, 6.9],
+        ['r', b + slot + 2, 6.8],
+        ['r', b + 1, 6.7],
+      ],
+      {},
+      again.state,
+    )
+    expect(late.state.window).toEqual([
+      [at(b), 7],
+      [at(b + slot + 2), 6.8],
+    ])
   })
 })
 
