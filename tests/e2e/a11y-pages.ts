@@ -1,6 +1,6 @@
 import type { Browser, BrowserContext, Locator, Page } from 'playwright-core'
 import { describeViolations, unnamedIconButtons, wcagViolations } from './axe'
-import { shot } from './browser'
+import { shot, signIn } from './browser'
 import { FIRST_LOAD_MS } from './keeper-setup'
 
 // How the accessibility audits open a screen, check it and record which route it was.
@@ -134,6 +134,12 @@ export class LookAuditor {
     const dark = await context.newPage()
     await dark.emulateMedia({ colorScheme: 'dark', reducedMotion: 'reduce' })
     return { context, auditor: new LookAuditor({ light, dark }) }
+  }
+
+  /** Signs in on the light page; the dark page takes up the session the context keeps. */
+  async signIn(baseUrl: string, email: string) {
+    await signIn(this.pages.light, baseUrl, email)
+    await open(this.pages.dark, `${baseUrl}/`)
   }
 
   /** Runs `step` on each page in turn, that page in front. */

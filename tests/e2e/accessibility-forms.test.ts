@@ -3,9 +3,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { newSecretToken } from '../../server/access/tokens'
 import { ackLinksService } from '../../server/incidents/ack-links'
 import { createIncidentRow, type TestOrg } from '../helpers/fixtures'
-import { go, LookAuditor, open, settle } from './a11y-pages'
+import { go, LookAuditor, settle } from './a11y-pages'
 import { AUDITED_ROUTES } from './audited-routes'
-import { launchBrowser, signIn, startAppForBrowser } from './browser'
+import { launchBrowser, startAppForBrowser } from './browser'
 import { api, FIRST_LOAD_MS, postTemperatures, tankWithProbe, type App } from './keeper-setup'
 
 // The screens of forms, links from mails and the main dialogs, audited with axe-core against WCAG
@@ -67,8 +67,7 @@ describe('forms, mail links and dialogs meet WCAG 2.1 AA as axe-core checks them
     const { context, auditor } = await LookAuditor.start(browser)
     for (const link of [links.invite, links.reset, links.ack]) await auditor.load(link)
 
-    await signIn(auditor.pages.light, s.baseUrl, org.users.owner.email)
-    await open(auditor.pages.dark, `${s.baseUrl}/`)
+    await auditor.signIn(s.baseUrl, org.users.owner.email)
     for (const path of ['/tanks/new', `/tanks/${tankId}/edit`, `/tanks/${tankId}/build`, '/import', '/backup', '/dev/mail', '/no-such-screen']) {
       await auditor.visit(path)
     }

@@ -2,10 +2,10 @@ import type { Browser } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { wallService } from '../../server/sites/wall'
 import { createIncidentRow, type TestOrg } from '../helpers/fixtures'
-import { LookAuditor, open } from './a11y-pages'
+import { LookAuditor } from './a11y-pages'
 import { AUDITED_ROUTES } from './audited-routes'
 import { unnamedIconButtons, wcagViolations } from './axe'
-import { launchBrowser, signIn, startAppForBrowser } from './browser'
+import { launchBrowser, startAppForBrowser } from './browser'
 import { api, postTemperatures, tankWithProbe, type App } from './keeper-setup'
 
 // Every screen, as a keeper's owner sees it with real data on it, is audited with axe-core against
@@ -110,10 +110,8 @@ describe('every screen meets WCAG 2.1 AA as axe-core checks it', () => {
   it('on every screen, at desktop and phone size, in the light and the dark theme', async () => {
     const { context, auditor } = await LookAuditor.start(browser)
     for (const path of SIGNED_OUT) await auditor.load(`${s.baseUrl}${path}`)
-    await signIn(auditor.pages.light, s.baseUrl, org.users.owner.email)
+    await auditor.signIn(s.baseUrl, org.users.owner.email)
     await auditor.pages.light.evaluate(`localStorage.setItem('tw.careTodayScope', '${org.siteIds[0]}')`)
-    // The other page takes up the session kept in the context's storage.
-    await open(auditor.pages.dark, `${s.baseUrl}/`)
     for (const path of signedInScreens()) await auditor.visit(path)
     await context.close()
 

@@ -3,8 +3,8 @@ import { expect } from 'vitest'
 import { localDateAt, localToInstant, type LocalDate } from '@shared/time/zoned'
 import { sampleTank } from '../helpers/app'
 import type { TestOrg } from '../helpers/fixtures'
-import { LookAuditor, open } from './a11y-pages'
-import { launchBrowser, signIn, startAppForBrowser } from './browser'
+import { LookAuditor } from './a11y-pages'
+import { launchBrowser, startAppForBrowser } from './browser'
 import { api, tankWithProbe, type ApiAnswer, type App } from './keeper-setup'
 
 // What both dialog audit files (accessibility-dialogs*.test.ts) open their dialogs on: the app, a
@@ -61,8 +61,7 @@ export async function startDialogWorld(): Promise<DialogWorld> {
 /** One browser context with a page per theme, signed in as the owner (a11y-pages.ts). */
 export async function startSignedInAuditor(world: DialogWorld) {
   const started = await LookAuditor.start(world.browser)
-  await signIn(started.auditor.pages.light, world.s.baseUrl, world.org.users.owner.email)
-  await open(started.auditor.pages.dark, `${world.s.baseUrl}/`)
+  await started.auditor.signIn(world.s.baseUrl, world.org.users.owner.email)
   return started
 }
 

@@ -4,7 +4,7 @@ import { MAINS_CAUTION } from '@shared/equipment/defaults'
 import { formatLocalDate, localDateAt } from '@shared/time/zoned'
 import { sampleTank } from '../helpers/app'
 import type { TestOrg } from '../helpers/fixtures'
-import { go, LookAuditor, open } from './a11y-pages'
+import { go, LookAuditor } from './a11y-pages'
 import { AUDITED_ROUTES } from './audited-routes'
 import { launchBrowser, shot, signIn, startAppForBrowser } from './browser'
 import { api, FIRST_LOAD_MS, type App } from './keeper-setup'
@@ -160,8 +160,7 @@ describe('the livestock and supplies screens meet WCAG 2.1 AA as axe-core checks
   // One browser context signed in once, a page per theme, each screen checked at both sizes (a11y-pages.ts).
   it('in both sizes and themes', async () => {
     const { context, auditor } = await LookAuditor.start(browser)
-    await signIn(auditor.pages.light, s.baseUrl, org.users.owner.email)
-    await open(auditor.pages.dark, `${s.baseUrl}/`)
+    await auditor.signIn(s.baseUrl, org.users.owner.email)
     for (const path of ['/livestock', `/supplies?site=${org.siteIds[0]}`]) await auditor.visit(path)
     await auditor.each((page) => go(page, `/tanks/${sales}`))
     await auditor.checkEveryLook('equipment', (page) => page.locator('[data-test=equipment-panel] .v-list-item').first())
