@@ -14,7 +14,7 @@ import { BACKUP_READINGS_SQL } from '../readings'
 export const RESTORE_NOTES = [
   'Devices come back without their tokens: issue each device a new token (Devices, rotate) before it can send again.',
   'People come back without passwords: each one sets a new password through "Forgot password" on the sign-in page.',
-  'Wall display keys, invitations, sessions and sent mail are not part of a backup.',
+  'Wall display keys, invitations, sessions, sent mail and photos are not part of a backup: a restored visit or care entry keeps its words but not its photos.',
 ]
 
 const ORGANIZATION = 'organization_id = :organizationId'

@@ -5,8 +5,8 @@ import { z } from 'zod'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { AppError, badRequest, conflict, fromZod } from '../platform/errors'
-import { BACKUP_FORMAT, BACKUP_FORMAT_VERSION } from '@shared/schemas/exports'
-import { BACKUP_TABLES, readingTupleSchema, referenceOf, rowSchema, type BackupTable } from './backup-tables'
+import { BACKUP_FORMAT, READABLE_BACKUP_VERSIONS } from '@shared/schemas/exports'
+import { BACKUP_TABLES, mapIds, readingTupleSchema, referenceOf, rowSchema, TABLES_SINCE_VERSION_3, type BackupTable } from './backup-tables'
 import { perContext } from '../platform/per-context'
 import { insertRestoredReadings } from '../readings'
 import type { RestoreSummary } from '@shared/schemas/exports'
@@ -17,9 +17,20 @@ type Backup = { organization: { name: string }; tables: Record<string, Row[]>; r
 
 const backupSchema = z.object({
   format: z.literal(BACKUP_FORMAT, { message: 'not a Tankwarden organization backup' }),
-  formatVersion: z.literal(BACKUP_FORMAT_VERSION, { message: `this server restores format version ${BACKUP_FORMAT_VERSION}` }),
+  formatVersion: z.union(
+    READABLE_BACKUP_VERSIONS.map((version) => z.literal(version)),
+    { message: `this server restores format versions ${READABLE_BACKUP_VERSIONS.join(' and ')}` },
+  ),
   organization: z.object({ name: z.string().trim().min(1).max(200) }),
-  tables: z.object(Object.fromEntries(BACKUP_TABLES.map((spec) => [spec.table, z.array(rowSchema(spec))]))),
+  tables: z.object(
+    Object.fromEntries(
+      BACKUP_TABLES.map((spec) => {
+        const rows = z.array(rowSchema(spec))
+        // A version 2 file has no visits: it restores none.
+        return [spec.table, (TABLES_SINCE_VERSION_3 as readonly string[]).includes(spec.table) ? rows.default([]) : rows]
+      }),
+    ),
+  ),
   readings: z.array(readingTupleSchema),
 })
 
@@ -55,12 +66,11 @@ function checkReferences(backup: Backup) {
         if (seen.has(row.id as number)) throw refuse(`tables.${spec.table}.${index}.id`, 'appears twice')
         seen.add(row.id as number)
       }
-      for (const [column, type] of Object.entries(spec.columns)) {
-        const reference = referenceOf(type)
-        const value = row[column]
-        if (reference && value !== null && !ids.get(reference.table)!.has(value as number)) {
-          throw refuse(`tables.${spec.table}.${index}.${column}`, `no ${reference.table} row has id ${value}`)
-        }
+      for (const column of Object.keys(spec.columns)) {
+        mapIds(spec, column, row[column], (table, id) => {
+          if (!ids.get(table)!.has(id)) throw refuse(`tables.${spec.table}.${index}.${column}`, `no ${table} row has id ${id}`)
+          return id
+        })
       }
     })
   }
@@ -202,11 +212,7 @@ export const backupImportService = perContext((ctx: AppContext) => {
     const remapped = rows.map((row) => {
       const out: Row = {}
       if (spec.hasId) out.id = maps.get(spec.table)!.get(row.id as number)
-      for (const column of columns) {
-        const reference = referenceOf(spec.columns[column]!)
-        const value = row[column]
-        out[column] = reference && value !== null ? maps.get(reference.table)!.get(value as number) : value
-      }
+      for (const column of columns) out[column] = mapIds(spec, column, row[column], (table, id) => maps.get(table)!.get(id))
       return out
     })
     const targets = [...(spec.hasId ? ['id'] : []), ...columns]

@@ -5,14 +5,23 @@ import { ROLLUP_BACKUP_TABLES } from '../readings'
 /**
  * What an organization backup holds, table by table, in the order a restore inserts them.
  * Columns are named as in PostgreSQL. A column typed `->table` is an id of that table's rows and
- * is remapped on restore; a trailing `?` allows null. Secrets never leave: no password or token
- * hashes, no sessions, invitations, wall keys, reset or acknowledge links, no mail, no push devices.
- * Service visits stay out for now: their lists of tanks, photos and test-kit entries are ids a
- * restore cannot remap yet.
+ * is remapped on restore; a trailing `?` allows null; `->table[]` is a list of such ids. Secrets never leave: no password
+ * or token hashes, no sessions, invitations, wall keys, reset or acknowledge links, no mail, no push
+ * devices, no photos.
  */
 type Kind = 'text' | 'int' | 'float' | 'bool' | 'time' | 'date' | 'json' | 'text[]'
 export type BackupTableName = (typeof BACKUP_TABLES)[number]['table']
-type Column = Kind | `${Kind}?` | `->${string}` | `->${string}?`
+type Column = Kind | `${Kind}?` | `->${string}` | `->${string}?` | `->${string}[]`
+
+/**
+ * A JSON column that holds ids of other tables: its shape, checked before anything is written, and
+ * one walk over it that rewrites every id through `id` (the restore remaps with it; the check
+ * refuses an id the backup lacks).
+ */
+export interface IdsInJson {
+  schema: z.ZodType
+  remap(value: unknown, id: (table: string, old: number) => unknown): unknown
+}
 
 export interface BackupTable {
   table: string
@@ -23,7 +32,31 @@ export interface BackupTable {
   scope?: string
   /** References written after every table is in (a cycle, or a table pointing at itself). */
   deferred?: string[]
+  /** JSON columns with ids inside (their column is `json`). */
+  idsInJson?: Record<string, IdsInJson>
   order: string
+}
+
+const idValue = z.number().int().positive()
+
+/** A closed visit's work per tank: the tank, the care tasks ticked and the test-kit entry made there. */
+const visitWork: IdsInJson = {
+  schema: z
+    .array(
+      z.looseObject({
+        tankId: idValue,
+        doneTasks: z.array(z.looseObject({ id: idValue })).max(1000),
+        kitEntryId: idValue.nullable(),
+      }),
+    )
+    .max(1000),
+  remap: (value, id) =>
+    (value as Array<{ tankId: number; doneTasks: Array<{ id: number }>; kitEntryId: number | null }>).map((work) => ({
+      ...work,
+      tankId: id('tanks', work.tankId),
+      doneTasks: work.doneTasks.map((task) => ({ ...task, id: id('care_tasks', task.id) })),
+      kitEntryId: work.kitEntryId === null ? null : id('test_kit_entries', work.kitEntryId),
+    })),
 }
 
 export const BACKUP_TABLES = [
@@ -430,8 +463,34 @@ export const BACKUP_TABLES = [
     scope: 'entry_id IN (SELECT id FROM test_kit_entries WHERE organization_id = :organizationId)',
     columns: { entry_id: '->test_kit_entries', action: 'text', changed_by: '->users?', snapshot: 'json' },
   },
+  {
+    // Photos are not part of a backup, so a visit comes back without its photo list.
+    table: 'visits',
+    hasId: true,
+    order: 'id',
+    idsInJson: { work: visitWork },
+    columns: {
+      client_id: '->clients',
+      site_id: '->sites',
+      technician_id: '->users',
+      starts_at: 'time',
+      ends_at: 'time',
+      tank_ids: '->tanks[]',
+      state: 'text',
+      arrived_at: 'time?',
+      left_at: 'time?',
+      notes: 'text',
+      materials: 'json',
+      work: 'json',
+      closed_at: 'time?',
+      closed_by: '->users?',
+    },
+  },
   ...ROLLUP_BACKUP_TABLES,
 ] as const satisfies readonly BackupTable[]
+
+/** Tables a file of format version 2 lacks; such a file restores them empty. */
+export const TABLES_SINCE_VERSION_3: readonly BackupTableName[] = ['visits']
 
 /** Readings are many: one array per row, in this column order. */
 export const READING_COLUMNS = ['tank_id', 'metric', 'time', 'value', 'source', 'source_key'] as const
@@ -440,10 +499,20 @@ export function isOrganizationScoped(spec: BackupTable): boolean {
   return !spec.scope
 }
 
-/** The table a reference column points at, or null for a plain value. */
-export function referenceOf(column: Column): { table: string; nullable: boolean } | null {
+/** The table a reference column points at (`list`: a list of ids), or null for a plain value. */
+export function referenceOf(column: Column): { table: string; nullable: boolean; list: boolean } | null {
   if (!column.startsWith('->')) return null
-  return { table: column.replace(/^->|\?$/g, ''), nullable: column.endsWith('?') }
+  return { table: column.replace(/^->|\?$|\[\]$/g, ''), nullable: column.endsWith('?'), list: column.endsWith('[]') }
+}
+
+/** A column's value with every id it holds rewritten through `id`. */
+export function mapIds(spec: BackupTable, column: string, value: unknown, id: (table: string, old: number) => unknown): unknown {
+  if (value === null) return null
+  const inJson = spec.idsInJson?.[column]
+  if (inJson) return inJson.remap(value, id)
+  const reference = referenceOf(spec.columns[column]!)
+  if (!reference) return value
+  return reference.list ? (value as number[]).map((old) => id(reference.table, old)) : id(reference.table, value as number)
 }
 
 const MAX_TEXT = 100_000
@@ -458,17 +527,18 @@ const KIND_SCHEMAS: Record<Kind, z.ZodType> = {
   json: z.json(),
   'text[]': z.array(z.string().max(MAX_TEXT)),
 }
-const idValue = z.number().int().positive()
-
-function columnSchema(column: Column): z.ZodType {
-  const nullable = column.endsWith('?')
-  const base = referenceOf(column) ? idValue : KIND_SCHEMAS[column.replace(/\?$/, '') as Kind]
-  return nullable ? base.nullable() : base
+function columnSchema(column: Column, inJson?: IdsInJson): z.ZodType {
+  if (inJson) return inJson.schema
+  const reference = referenceOf(column)
+  const base = reference ? (reference.list ? z.array(idValue).max(10_000) : idValue) : KIND_SCHEMAS[column.replace(/\?$/, '') as Kind]
+  return column.endsWith('?') ? base.nullable() : base
 }
 
 /** The zod schema of one table's rows in a backup file; unknown columns are refused. */
 export function rowSchema(spec: BackupTable) {
-  const shape: Record<string, z.ZodType> = Object.fromEntries(Object.entries(spec.columns).map(([name, column]) => [name, columnSchema(column)]))
+  const shape: Record<string, z.ZodType> = Object.fromEntries(
+    Object.entries(spec.columns).map(([name, column]) => [name, columnSchema(column, spec.idsInJson?.[name])]),
+  )
   if (spec.hasId) shape.id = idValue
   return z.strictObject(shape)
 }

@@ -23,7 +23,9 @@ export type ExportKind = (typeof EXPORT_KINDS)[number]
 
 /** What the backup file says about itself; readers refuse a format or version they do not know. */
 export const BACKUP_FORMAT = 'tankwarden-organization-backup'
-export const BACKUP_FORMAT_VERSION = 2
+export const BACKUP_FORMAT_VERSION = 3
+/** Version 3 added service visits; a version 2 file restores without them. */
+export const READABLE_BACKUP_VERSIONS = [2, 3] as const
 /** The largest backup file a restore accepts. */
 export const MAX_BACKUP_BYTES = 256 * 1024 * 1024
 

@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { BACKUP_TABLES } from '../../server/exports/backup-tables'
+import { BACKUP_TABLES, mapIds } from '../../server/exports/backup-tables'
 import { bearer, startTestApp, TEST_PASSWORD } from '../helpers/app'
 import { insertReading, insertRow, signedInUser, tankValues } from './export-helpers'
 
@@ -310,6 +310,26 @@ async function buildOrganization() {
     changed_by: keeper,
     snapshot: JSON.stringify({ values: [{ metric: 'ph', value: 7.2 }] }),
   })
+  // A closed visit: its tank list and the ids inside its work (tank, ticked task, test-kit entry) come back remapped.
+  await insertRow(t.ctx, 'visits', {
+    organization_id: o,
+    client_id: client,
+    site_id: site,
+    technician_id: keeper,
+    starts_at: '2026-07-02T09:00:00Z',
+    ends_at: '2026-07-02T10:00:00Z',
+    tank_ids: [tank],
+    state: 'closed',
+    arrived_at: '2026-07-02T09:05:00Z',
+    left_at: '2026-07-02T09:50:00Z',
+    notes: 'Glass cleaned',
+    materials: JSON.stringify([{ what: 'Filter floss', amount: 1, unit: 'pack' }]),
+    work: JSON.stringify([
+      { tankId: tank, tankName: 'Display 1', doneTasks: [{ id: task, title: 'Weekly change' }], kitEntryId: entry, readings: [], notes: 'Fine', next: [] },
+    ]),
+    closed_at: '2026-07-02T09:50:00Z',
+    closed_by: keeper,
+  })
   // An hour whose raw rows retention has deleted: raw rows are kept from 1 July on.
   await t.ctx.sequelize.query("UPDATE readings_rollup_state SET raw_kept_from = '2026-07-01T00:00:00Z'")
   await insertRow(t.ctx, 'readings_hourly', { tank_id: tank, metric: 'temperature', hour: '2026-06-30T12:00:00Z', min: 25, max: 29.2, sum: 1620.4, count: 60 })
@@ -346,9 +366,7 @@ function withoutIds(backup: Backup) {
         Object.fromEntries(
           Object.entries(row).map(([column, value]) => {
             if (column === 'id') return [column, rank.get(spec.table)!.get(value)]
-            const type = (spec.columns as Record<string, string>)[column]!
-            const target = type.startsWith('->') ? type.replace(/^->|\?$/g, '') : null
-            return [column, target && value !== null ? `${target}#${rank.get(target)!.get(value)}` : value]
+            return [column, mapIds(spec, column, value, (table, id) => `${table}#${rank.get(table)!.get(id)}`)]
           }),
         ),
       ),
@@ -381,7 +399,7 @@ describe('organization backup', () => {
     expect(first.res.headers['content-disposition']).toMatch(/^attachment; filename="tankwarden-backup-marrowfen-aquatics-\d{4}-\d{2}-\d{2}\.json"$/)
     const file = first.res.text
     const backup = first.backup
-    expect(backup.formatVersion).toBe(2)
+    expect(backup.formatVersion).toBe(3)
     expect(backup.tables.users!.map((u) => u.email).sort()).toEqual([
       `ash@marrowfen-${stamp}.example`,
       `cafe@marrowfen-${stamp}.example`,
@@ -393,6 +411,22 @@ describe('organization backup', () => {
     expect(backup.tables.sites![1]!.archived_at).toBe('2026-06-01T10:00:00.123456+00:00')
     expect(backup.readings).toHaveLength(3)
     for (const spec of BACKUP_TABLES) expect(backup.tables[spec.table]!.length, spec.table).toBeGreaterThan(0)
+    expect(backup.tables.visits![0]).not.toHaveProperty('photo_ids')
+
+    // A visit naming a tank, or with work naming a test-kit entry, that the file lacks: 400 naming it, before anything is written.
+    const spoilt = await emptyOrganization(`spoilt-${stamp}@marrowfen.example`)
+    const visitSpoils: Array<[(visit: Record<string, unknown>) => void, string]> = [
+      [(visit) => void (visit.tank_ids = [999999]), 'tables.visits.0.tank_ids'],
+      [(visit) => void ((visit.work as Array<{ kitEntryId: number }>)[0]!.kitEntryId = 999999), 'tables.visits.0.work'],
+      [(visit) => void (visit.work = [{ tankId: 'Display 1' }]), 'tables.visits.0.work.0.tankId'],
+    ]
+    for (const [spoil, field] of visitSpoils) {
+      const spoiled = structuredClone(backup)
+      spoil(spoiled.tables.visits![0]!)
+      const refused = await restore(spoilt.owner.token, JSON.stringify(spoiled))
+      expect(refused.status, field).toBe(400)
+      expect(Object.keys(refused.body.error.fields), field).toContain(field)
+    }
 
     // The organization is gone (the reason for a restore); its owner starts a new, empty one.
     await t.ctx.models.Organization.destroy({ where: { id: source.organizationId } })
@@ -401,6 +435,7 @@ describe('organization backup', () => {
     expect(restored.status, JSON.stringify(restored.body)).toBe(201)
     expect(restored.body.rows.users).toBe(3)
     expect(restored.body.rows.clients).toBe(1)
+    expect(restored.body.rows.visits).toBe(1)
     expect(restored.body.readings).toBe(3)
     expect(restored.body.notes.join(' ')).toMatch(/new token.*new password/s)
 
@@ -529,6 +564,16 @@ describe('a malformed backup', () => {
       { bind: [target.organizationId], type: QueryTypes.SELECT },
     )) as Array<{ sites: number; tanks: number; name: string }>
     expect(counts).toEqual({ sites: 0, tanks: 0, name: 'New organization' })
+  })
+
+  it('of format version 2, from before visits were kept, restores without visits', async () => {
+    const target = await emptyOrganization(`version2-${stamp}@marrowfen.example`)
+    // Without its reading, which the shape organization still holds (a reading's key is its source's).
+    const older: Backup = { ...structuredClone(file), formatVersion: 2, readings: [] }
+    delete older.tables.visits
+    const res = await restore(target.owner.token, JSON.stringify(older))
+    expect(res.status, JSON.stringify(res.body)).toBe(201)
+    expect(res.body.rows).toMatchObject({ tanks: 1, visits: 0 })
   })
 
   it('that is not JSON at all → 400', async () => {

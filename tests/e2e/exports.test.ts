@@ -65,7 +65,7 @@ describe('downloads and restore in the browser', () => {
     const path = join(downloads, download.suggestedFilename())
     await download.saveAs(path)
     const backup = JSON.parse(readFileSync(path, 'utf8'))
-    expect(backup.formatVersion).toBe(2)
+    expect(backup.formatVersion).toBe(3)
     expect(backup.tables.tanks.map((tank: { name: string }) => tank.name)).toEqual(['Plant tank'])
     await page.close()
 
