@@ -9,6 +9,7 @@ import { dueItems } from './care-tasks'
 import { dutyRecipients } from '../roster'
 import { clockStyleOf } from '../people'
 import { tanksToWatch } from './tanks-to-watch'
+import { consumableAlerts } from '../equipment'
 
 /** The digest goes out from the configured hour until this many hours later (a late start still sends it). */
 export const DIGEST_WINDOW_HOURS = 3
@@ -45,7 +46,7 @@ function dayLabel(timeZone: string, atMs: number) {
  * Mails each site's care digest to the people on duty, once per site per local day: the first run
  * inside the site's window decides who gets it and enqueues all of it in one transaction; a lock
  * per site and the outbox dedupe keys make a second run (a restart, another instance) a no-op.
- * Sites with no task overdue, due today or due soon get nothing.
+ * Sites with no task overdue, due today or due soon and no supply to reorder get nothing.
  */
 export async function sendCareDigests(ctx: AppContext, options: DigestOptions, now = new Date()): Promise<DigestRun[]> {
   const sites = await ctx.models.Site.findAll({ where: { archivedAt: null }, order: [['id', 'ASC']] })
@@ -57,7 +58,8 @@ export async function sendCareDigests(ctx: AppContext, options: DigestOptions, n
     const run = (outcome: DigestRun['outcome'], recipients: string[] = []) => runs.push({ site: { id: site.id, name: site.name }, day, outcome, recipients })
 
     const items = (await dueItems(ctx, { siteIds: [site.id] }, now)).filter((i) => !i.due.snoozed && i.due.status !== 'later')
-    if (!items.length) {
+    const supplies = await consumableAlerts(ctx, [site.id], now)
+    if (!items.length && !supplies.length) {
       run('nothing_due')
       continue
     }
@@ -76,7 +78,15 @@ export async function sendCareDigests(ctx: AppContext, options: DigestOptions, n
       quarantine: w.quarantine,
       watchUntilText: w.watchUntil ? formatDayTime(w.watchUntil, zone, clockStyle) : null,
     }))
-    const mail = careDigest({ siteName: site.name, dayLabel: dayLabel(zone, now.getTime()), tanks, watch, careTodayUrl: `${ctx.config.publicUrl}/care/today` })
+    const mail = careDigest({
+      siteName: site.name,
+      dayLabel: dayLabel(zone, now.getTime()),
+      tanks,
+      watch,
+      supplies,
+      suppliesUrl: `${ctx.config.publicUrl}/supplies?site=${site.id}`,
+      careTodayUrl: `${ctx.config.publicUrl}/care/today`,
+    })
 
     const prefix = digestKeyPrefix(site.id, day)
     const outcome = await ctx.sequelize.transaction(async (transaction) => {

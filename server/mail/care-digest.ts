@@ -9,6 +9,8 @@ const STATUS_COLOURS: Record<Exclude<CareDueStatus, 'later'>, string> = { overdu
 export type DigestTask = { title: string; status: Exclude<CareDueStatus, 'later'>; dueOn: string; daysUntilDue: number }
 export type DigestTank = { name: string; url: string; tasks: DigestTask[] }
 export type DigestWatch = { name: string; url: string; quarantine: QuarantineStatus | null; watchUntilText: string | null }
+/** A supply at or below its reorder level, or a reagent past its expiry date. */
+export type DigestSupply = { name: string; quantity: number; unit: string; lowAt: number | null; low: boolean; expiresOn: string | null; expired: boolean }
 
 export type CareDigestInput = {
   siteName: string
@@ -16,6 +18,8 @@ export type CareDigestInput = {
   dayLabel: string
   tanks: DigestTank[]
   watch: DigestWatch[]
+  supplies: DigestSupply[]
+  suppliesUrl: string
   careTodayUrl: string
 }
 
@@ -41,6 +45,16 @@ export function watchWords(w: Pick<DigestWatch, 'quarantine' | 'watchUntilText'>
   return lines
 }
 
+const amount = (value: number, unit: string) => `${Number(value.toFixed(2))}${unit ? ` ${unit}` : ''}`
+
+/** "2 L left, reorder at 5 L"; "past its expiry date (2026-03-01)". */
+export function supplyWords(s: DigestSupply): string {
+  const words: string[] = []
+  if (s.low) words.push(s.lowAt === null ? `${amount(s.quantity, s.unit)} left` : `${amount(s.quantity, s.unit)} left, reorder at ${amount(s.lowAt, s.unit)}`)
+  if (s.expired && s.expiresOn) words.push(`past its expiry date (${s.expiresOn})`)
+  return words.join('; ')
+}
+
 const countOf = (tanks: DigestTank[], status: DigestTask['status']) => tanks.reduce((n, t) => n + t.tasks.filter((x) => x.status === status).length, 0)
 
 /** The morning list of care work for one site, for the people on duty. Every name is escaped in the HTML. */
@@ -48,7 +62,8 @@ export function careDigest(i: CareDigestInput): RenderedMail {
   const overdue = countOf(i.tanks, 'overdue')
   const today = countOf(i.tanks, 'due_today')
   const soon = countOf(i.tanks, 'due_soon')
-  const summary = [overdue && `${overdue} overdue`, today && `${today} due today`, soon && `${soon} due soon`].filter(Boolean).join(', ')
+  const reorder = i.supplies.length && `${i.supplies.length} ${i.supplies.length === 1 ? 'supply' : 'supplies'} to reorder`
+  const summary = [overdue && `${overdue} overdue`, today && `${today} due today`, soon && `${soon} due soon`, reorder].filter(Boolean).join(', ')
   const lead = `Care work at ${i.siteName} for ${i.dayLabel}: ${summary || 'nothing due'}.`
   const safety = 'Unplug heaters, pumps and lights before hands go in the water, and follow the product labels for anything you dose.'
 
@@ -57,6 +72,7 @@ export function careDigest(i: CareDigestInput): RenderedMail {
     '',
     ...i.tanks.flatMap((tank) => [`${tank.name} (${safeUrl(tank.url)})`, ...tank.tasks.map((t) => `  - ${t.title}: ${dueWords(t)}`), '']),
     ...(i.watch.length ? ['Worth a look:', ...i.watch.map((w) => `  - ${w.name}: ${watchWords(w).join('; ')}`), ''] : []),
+    ...(i.supplies.length ? [`Supplies to reorder (${safeUrl(i.suppliesUrl)}):`, ...i.supplies.map((s) => `  - ${s.name}: ${supplyWords(s)}`), ''] : []),
     `Mark tasks done: ${safeUrl(i.careTodayUrl)}`,
     '',
     safety,
@@ -80,6 +96,12 @@ export function careDigest(i: CareDigestInput): RenderedMail {
         .join('') +
       '</ul>'
     : ''
+  const suppliesBlock = i.supplies.length
+    ? `<h3 style="margin:20px 0 4px;font-size:15px"><a href="${escapeHtml(safeUrl(i.suppliesUrl))}" style="color:#1f2933">Supplies to reorder</a></h3>` +
+      '<ul style="margin:0;padding-left:20px">' +
+      i.supplies.map((s) => `<li>${escapeHtml(s.name)}: ${escapeHtml(supplyWords(s))}</li>`).join('') +
+      '</ul>'
+    : ''
 
   return {
     subject: oneLine(`Care today at ${i.siteName}: ${summary || 'nothing due'}`),
@@ -92,6 +114,7 @@ export function careDigest(i: CareDigestInput): RenderedMail {
         `<p style="margin:0 0 8px">${escapeHtml(lead)}</p>`,
         tankBlocks,
         watchBlock,
+        suppliesBlock,
         `<p style="margin-top:16px">${button('Open Care today', i.careTodayUrl, ACCENT)}</p>`,
         `<p style="color:#52606d;font-size:12px">${escapeHtml(safety)}</p>`,
       ].join(''),

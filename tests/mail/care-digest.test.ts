@@ -178,11 +178,49 @@ describe('the digest template', () => {
         },
       ],
       watch: [],
+      supplies: [],
+      suppliesUrl: 'http://127.0.0.1:8080/supplies?site=1',
     })
     expect(mail.subject).toBe('Care today at Shop "A" front: 1 due soon')
     expect(mail.html).toContain('O&#39;Brien&#39;s &lt;tank&gt;')
     expect(mail.html).toContain('&lt;script&gt;x&lt;/script&gt;: <strong style="color:#3e4c59">due tomorrow</strong>')
     expect(mail.html).not.toContain('<script>')
-    expect(() => careDigest({ siteName: 'x', dayLabel: 'y', careTodayUrl: 'javascript:alert(1)', tanks: [], watch: [] })).toThrow(TypeError)
+    expect(() =>
+      careDigest({
+        siteName: 'x',
+        dayLabel: 'y',
+        careTodayUrl: 'javascript:alert(1)',
+        tanks: [],
+        watch: [],
+        supplies: [],
+        suppliesUrl: 'http://127.0.0.1/supplies',
+      }),
+    ).toThrow(TypeError)
+  })
+})
+
+describe('supplies in the digest', () => {
+  it('lists what is at its reorder level or past its expiry date, even on a morning with no care due', async () => {
+    const supplied = await createOrgIn(bed.ctx, 'Supply Digest Org')
+    const shop = supplied.siteIds[0] as number
+    const stock = (name: string, kind: 'salt' | 'reagent' | 'carbon', quantity: number, unit: string, lowAt: number | null, expiresOn: string | null = null) =>
+      bed.ctx.models.Consumable.create({ organizationId: supplied.organizationId, siteId: shop, kind, name, unit, quantity, lowAt, expiresOn })
+    await stock('Marine salt <25 kg>', 'salt', 1.5, 'kg', 5)
+    await stock('Ammonia reagent', 'reagent', 40, 'mL', 10, '2026-03-03')
+    await stock('Carbon', 'carbon', 800, 'g', 500)
+    await onDuty(supplied, shop, 'keeper', 2, '00:00', '00:00')
+    const runs = await sendCareDigests(bed.ctx, { hour: HOUR }, new Date('2026-03-04T06:30:00Z'))
+    expect(runs.find((r) => r.site.id === shop)).toMatchObject({ outcome: 'sent', recipients: [supplied.users.keeper.email] })
+    const [row] = await bed.ctx.sequelize.query<{ subject: string; text_body: string; html_body: string }>(
+      `SELECT subject, text_body, html_body FROM mail_outbox WHERE kind = 'care_digest' AND starts_with(dedupe_key, $1)`,
+      { bind: [`care_digest:site:${shop}:`], type: QueryTypes.SELECT },
+    )
+    expect(row!.subject).toMatch(/: 2 supplies to reorder$/)
+    expect(row!.text_body).toContain(`Supplies to reorder (${bed.ctx.config.publicUrl}/supplies?site=${shop}):`)
+    // Good through 3 March on the site's clock, spent on the 4th; the carbon is above its level.
+    expect(row!.text_body).toContain('  - Ammonia reagent: past its expiry date (2026-03-03)')
+    expect(row!.text_body).toContain('  - Marine salt <25 kg>: 1.5 kg left, reorder at 5 kg')
+    expect(row!.text_body).not.toContain('Carbon')
+    expect(row!.html_body).toContain('<li>Marine salt &lt;25 kg&gt;: 1.5 kg left, reorder at 5 kg</li>')
   })
 })
