@@ -6,8 +6,8 @@ type Point = [number, number]
 
 /**
  * A sensor reporting every few seconds would otherwise keep a day's worth of points per rule.
- * The window keeps one point per slot of `windowMinutes / MAX_WINDOW_POINTS` (six minutes in a
- * day): the slot's oldest reading. The newest reading is the state's `lastValue`. So the change
+ * The window keeps one point per slot of `windowMinutes / (MAX_WINDOW_POINTS - 2)` (about six
+ * minutes in a day): the slot's oldest reading. The newest reading is the state's `lastValue`. So the change
  * across the window is measured from a point at most one slot younger than the exact oldest
  * reading, and a reading that lands in a slot already held changes no array: the hot path
  * copies the window only when a new slot begins.
