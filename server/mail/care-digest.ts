@@ -1,5 +1,8 @@
 import type { CareDueStatus } from '@shared/care/due'
 import type { QuarantineStatus } from '@shared/care/livestock'
+import { stockProblem } from '@shared/equipment/stock-words'
+import { plural } from '@shared/plural'
+import type { PublicConsumable } from '@shared/schemas/equipment'
 import { button, escapeHtml, layout, oneLine, safeUrl } from './templates/html'
 import type { RenderedMail } from './types'
 
@@ -9,8 +12,8 @@ const STATUS_COLOURS: Record<Exclude<CareDueStatus, 'later'>, string> = { overdu
 export type DigestTask = { title: string; status: Exclude<CareDueStatus, 'later'>; dueOn: string; daysUntilDue: number }
 export type DigestTank = { name: string; url: string; tasks: DigestTask[] }
 export type DigestWatch = { name: string; url: string; quarantine: QuarantineStatus | null; watchUntilText: string | null }
-/** A supply at or below its reorder level, or a reagent past its expiry date. */
-export type DigestSupply = { name: string; quantity: number; unit: string; lowAt: number | null; low: boolean; expiresOn: string | null; expired: boolean }
+/** A supply at or below its low level, or past its expiry date. */
+export type DigestSupply = Pick<PublicConsumable, 'name' | 'quantity' | 'unit' | 'lowAt' | 'expiresOn' | 'low' | 'expired'>
 
 export type CareDigestInput = {
   siteName: string
@@ -45,16 +48,6 @@ export function watchWords(w: Pick<DigestWatch, 'quarantine' | 'watchUntilText'>
   return lines
 }
 
-const amount = (value: number, unit: string) => `${Number(value.toFixed(2))}${unit ? ` ${unit}` : ''}`
-
-/** "2 L left, reorder at 5 L"; "past its expiry date (2026-03-01)". */
-export function supplyWords(s: DigestSupply): string {
-  const words: string[] = []
-  if (s.low) words.push(s.lowAt === null ? `${amount(s.quantity, s.unit)} left` : `${amount(s.quantity, s.unit)} left, reorder at ${amount(s.lowAt, s.unit)}`)
-  if (s.expired && s.expiresOn) words.push(`past its expiry date (${s.expiresOn})`)
-  return words.join('; ')
-}
-
 const countOf = (tanks: DigestTank[], status: DigestTask['status']) => tanks.reduce((n, t) => n + t.tasks.filter((x) => x.status === status).length, 0)
 
 /** The morning list of care work for one site, for the people on duty. Every name is escaped in the HTML. */
@@ -62,7 +55,7 @@ export function careDigest(i: CareDigestInput): RenderedMail {
   const overdue = countOf(i.tanks, 'overdue')
   const today = countOf(i.tanks, 'due_today')
   const soon = countOf(i.tanks, 'due_soon')
-  const reorder = i.supplies.length && `${i.supplies.length} ${i.supplies.length === 1 ? 'supply' : 'supplies'} to reorder`
+  const reorder = i.supplies.length && `${plural(i.supplies.length, 'supply', 'supplies')} to reorder`
   const summary = [overdue && `${overdue} overdue`, today && `${today} due today`, soon && `${soon} due soon`, reorder].filter(Boolean).join(', ')
   const lead = `Care work at ${i.siteName} for ${i.dayLabel}: ${summary || 'nothing due'}.`
   const safety = 'Unplug heaters, pumps and lights before hands go in the water, and follow the product labels for anything you dose.'
@@ -72,7 +65,7 @@ export function careDigest(i: CareDigestInput): RenderedMail {
     '',
     ...i.tanks.flatMap((tank) => [`${tank.name} (${safeUrl(tank.url)})`, ...tank.tasks.map((t) => `  - ${t.title}: ${dueWords(t)}`), '']),
     ...(i.watch.length ? ['Worth a look:', ...i.watch.map((w) => `  - ${w.name}: ${watchWords(w).join('; ')}`), ''] : []),
-    ...(i.supplies.length ? [`Supplies to reorder (${safeUrl(i.suppliesUrl)}):`, ...i.supplies.map((s) => `  - ${s.name}: ${supplyWords(s)}`), ''] : []),
+    ...(i.supplies.length ? [`Supplies to reorder (${safeUrl(i.suppliesUrl)}):`, ...i.supplies.map((s) => `  - ${s.name}: ${stockProblem(s)}`), ''] : []),
     `Mark tasks done: ${safeUrl(i.careTodayUrl)}`,
     '',
     safety,
@@ -99,7 +92,7 @@ export function careDigest(i: CareDigestInput): RenderedMail {
   const suppliesBlock = i.supplies.length
     ? `<h3 style="margin:20px 0 4px;font-size:15px"><a href="${escapeHtml(safeUrl(i.suppliesUrl))}" style="color:#1f2933">Supplies to reorder</a></h3>` +
       '<ul style="margin:0;padding-left:20px">' +
-      i.supplies.map((s) => `<li>${escapeHtml(s.name)}: ${escapeHtml(supplyWords(s))}</li>`).join('') +
+      i.supplies.map((s) => `<li>${escapeHtml(s.name)}: ${escapeHtml(stockProblem(s))}</li>`).join('') +
       '</ul>'
     : ''
 

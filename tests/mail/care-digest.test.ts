@@ -218,9 +218,9 @@ describe('supplies in the digest', () => {
     expect(row!.subject).toMatch(/: 2 supplies to reorder$/)
     expect(row!.text_body).toContain(`Supplies to reorder (${bed.ctx.config.publicUrl}/supplies?site=${shop}):`)
     // Good through 3 March on the site's clock, spent on the 4th; the carbon is above its level.
-    expect(row!.text_body).toContain('  - Ammonia reagent: past its expiry date (2026-03-03)')
-    expect(row!.text_body).toContain('  - Marine salt <25 kg>: 1.5 kg left, reorder at 5 kg')
+    expect(row!.text_body).toContain('  - Ammonia reagent: expired 3 Mar 2026: replace before the next test')
+    expect(row!.text_body).toContain('  - Marine salt <25 kg>: 1.5 kg left (low at 5)')
     expect(row!.text_body).not.toContain('Carbon')
-    expect(row!.html_body).toContain('<li>Marine salt &lt;25 kg&gt;: 1.5 kg left, reorder at 5 kg</li>')
+    expect(row!.html_body).toContain('<li>Marine salt &lt;25 kg&gt;: 1.5 kg left (low at 5)</li>')
   })
 })

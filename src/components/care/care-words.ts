@@ -123,7 +123,4 @@ export function urgentFirst<T extends { due: CareDue | null }>(tasks: readonly T
   })
 }
 
-/** Plain number of at most `decimals` places: 12.3, 40, 0.05. */
-export function plainNumber(value: number, decimals = 1): string {
-  return String(Number(value.toFixed(decimals)))
-}
+export { plainNumber } from '@shared/plain-number'
