@@ -48,6 +48,13 @@ export function watchWords(w: Pick<DigestWatch, 'quarantine' | 'watchUntilText'>
   return lines
 }
 
+const link = (url: string, text: string) => `<a href="${escapeHtml(safeUrl(url))}" style="color:#1f2933">${escapeHtml(text)}</a>`
+/** A heading over a list, both already HTML; nothing at all without items. */
+const section = (heading: string, items: string[], marginTop = 20) =>
+  items.length
+    ? `<h3 style="margin:${marginTop}px 0 4px;font-size:15px">${heading}</h3><ul style="margin:0;padding-left:20px">${items.map((item) => `<li>${item}</li>`).join('')}</ul>`
+    : ''
+
 const countOf = (tanks: DigestTank[], status: DigestTask['status']) => tanks.reduce((n, t) => n + t.tasks.filter((x) => x.status === status).length, 0)
 
 /** The morning list of care work for one site, for the people on duty. Every name is escaped in the HTML. */
@@ -72,29 +79,22 @@ export function careDigest(i: CareDigestInput): RenderedMail {
   ].join('\n')
 
   const tankBlocks = i.tanks
-    .map(
-      (tank) =>
-        `<h3 style="margin:16px 0 4px;font-size:15px"><a href="${escapeHtml(safeUrl(tank.url))}" style="color:#1f2933">${escapeHtml(tank.name)}</a></h3>` +
-        '<ul style="margin:0;padding-left:20px">' +
-        tank.tasks
-          .map((t) => `<li>${escapeHtml(t.title)}: <strong style="color:${STATUS_COLOURS[t.status]}">${escapeHtml(dueWords(t))}</strong></li>`)
-          .join('') +
-        '</ul>',
+    .map((tank) =>
+      section(
+        link(tank.url, tank.name),
+        tank.tasks.map((t) => `${escapeHtml(t.title)}: <strong style="color:${STATUS_COLOURS[t.status]}">${escapeHtml(dueWords(t))}</strong>`),
+        16,
+      ),
     )
     .join('')
-  const watchBlock = i.watch.length
-    ? '<h3 style="margin:20px 0 4px;font-size:15px">Worth a look</h3><ul style="margin:0;padding-left:20px">' +
-      i.watch
-        .map((w) => `<li><a href="${escapeHtml(safeUrl(w.url))}" style="color:#1f2933">${escapeHtml(w.name)}</a>: ${escapeHtml(watchWords(w).join('; '))}</li>`)
-        .join('') +
-      '</ul>'
-    : ''
-  const suppliesBlock = i.supplies.length
-    ? `<h3 style="margin:20px 0 4px;font-size:15px"><a href="${escapeHtml(safeUrl(i.suppliesUrl))}" style="color:#1f2933">Supplies to reorder</a></h3>` +
-      '<ul style="margin:0;padding-left:20px">' +
-      i.supplies.map((s) => `<li>${escapeHtml(s.name)}: ${escapeHtml(stockProblem(s))}</li>`).join('') +
-      '</ul>'
-    : ''
+  const watchBlock = section(
+    'Worth a look',
+    i.watch.map((w) => `${link(w.url, w.name)}: ${escapeHtml(watchWords(w).join('; '))}`),
+  )
+  const suppliesBlock = section(
+    link(i.suppliesUrl, 'Supplies to reorder'),
+    i.supplies.map((s) => `${escapeHtml(s.name)}: ${escapeHtml(stockProblem(s))}`),
+  )
 
   return {
     subject: oneLine(`Care today at ${i.siteName}: ${summary || 'nothing due'}`),
