@@ -6,7 +6,7 @@ import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
 import { AppError, badRequest, conflict, fromZod } from '../platform/errors'
 import { BACKUP_FORMAT, READABLE_BACKUP_VERSIONS } from '@shared/schemas/exports'
-import { BACKUP_TABLES, mapIds, readingTupleSchema, referenceOf, rowSchema, TABLES_SINCE_VERSION_3, type BackupTable } from './backup-tables'
+import { BACKUP_TABLES, mapIds, readingTupleSchema, referenceOf, rowSchema, type BackupTable } from './backup-tables'
 import { perContext } from '../platform/per-context'
 import { insertRestoredReadings } from '../readings'
 import type { RestoreSummary } from '@shared/schemas/exports'
@@ -24,10 +24,9 @@ const backupSchema = z.object({
   organization: z.object({ name: z.string().trim().min(1).max(200) }),
   tables: z.object(
     Object.fromEntries(
-      BACKUP_TABLES.map((spec) => {
+      (BACKUP_TABLES as readonly BackupTable[]).map((spec) => {
         const rows = z.array(rowSchema(spec))
-        // A version 2 file has no visits: it restores none.
-        return [spec.table, (TABLES_SINCE_VERSION_3 as readonly string[]).includes(spec.table) ? rows.default([]) : rows]
+        return [spec.table, spec.sinceVersion ? rows.default([]) : rows]
       }),
     ),
   ),

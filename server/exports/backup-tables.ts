@@ -34,6 +34,8 @@ export interface BackupTable {
   deferred?: string[]
   /** JSON columns with ids inside (their column is `json`). */
   idsInJson?: Record<string, IdsInJson>
+  /** The format version that added the table: a file of an earlier version restores it empty. */
+  sinceVersion?: number
   order: string
 }
 
@@ -468,6 +470,7 @@ export const BACKUP_TABLES = [
     table: 'visits',
     hasId: true,
     order: 'id',
+    sinceVersion: 3,
     idsInJson: { work: visitWork },
     columns: {
       client_id: '->clients',
@@ -488,9 +491,6 @@ export const BACKUP_TABLES = [
   },
   ...ROLLUP_BACKUP_TABLES,
 ] as const satisfies readonly BackupTable[]
-
-/** Tables a file of format version 2 lacks; such a file restores them empty. */
-export const TABLES_SINCE_VERSION_3: readonly BackupTableName[] = ['visits']
 
 /** Readings are many: one array per row, in this column order. */
 export const READING_COLUMNS = ['tank_id', 'metric', 'time', 'value', 'source', 'source_key'] as const
