@@ -1,5 +1,6 @@
 // The build timeline: dated steps from the day the tank is filled to its first stocking.
 // Day 1 is the fill day. Every interval here is common practice among keepers, not a standard.
+import { plainNumber } from '../plain-number'
 import { addDays, formatLocalDate, parseLocalDate } from '../time/zoned'
 import { daysBetween } from '../care/due'
 import { AMMONIA_ZERO_MG_L, NITRITE_ZERO_MG_L } from '../care/cycling'
@@ -42,7 +43,7 @@ export interface Timeline {
   aboutDays: number
 }
 
-const plain = (n: number) => String(Number(n.toFixed(2)))
+const plain = (n: number) => plainNumber(n, 2)
 
 /** Daily pH targets from `start` into the band, at most `maxPerDay` apart; empty when already inside. */
 export function phSteps(start: number, band: { min: number; max: number }, maxPerDay = DEFAULT_MAX_PH_CHANGE_PER_DAY): number[] {

@@ -1,4 +1,5 @@
 // Stocking checks for one addition to one tank, the post-addition watch, and quarantine time.
+import { plainNumber } from '../plain-number'
 import type { Species } from './species'
 
 export type StockingWarningCode = 'temperature_outside_range' | 'ph_outside_range' | 'water_type' | 'tank_cycling' | 'tank_empty'
@@ -22,7 +23,7 @@ export const WATCH_PERIOD_DAYS = 3
 export const QUARANTINE_DAYS = 28
 
 const DAY_MS = 86_400_000
-const plain = (n: number) => String(Number(n.toFixed(2)))
+const plain = (n: number) => plainNumber(n, 2)
 const band = (b: Band, unit: string) => `${plain(b.min)}–${plain(b.max)}${unit}`
 const inside = (inner: Band, outer: Band) => inner.min >= outer.min && inner.max <= outer.max
 

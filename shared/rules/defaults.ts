@@ -1,3 +1,4 @@
+import { plainNumber } from '../plain-number'
 import type { MetricKey } from '../metrics/registry'
 import { METRICS } from '../metrics/registry'
 import { defaultProbeKitSpec } from './probe-kit'
@@ -31,7 +32,7 @@ const TEMPERATURE_QUIET_MINUTES = 15
 const PH_MAX_CHANGE = 0.3
 const PH_WINDOW_MINUTES = 24 * 60
 
-const plain = (value: number): string => String(Number(value.toFixed(2)))
+const plain = (n: number) => plainNumber(n, 2)
 
 /** The watch rules a new tank starts with. */
 export function defaultRulesForTank(input: TankRuleDefaultsInput): DefaultRule[] {
