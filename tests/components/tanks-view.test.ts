@@ -22,6 +22,7 @@ import { listTanks } from '@/api/tanks'
 import { useLiveStore } from '@/stores/live'
 import TanksView from '@/views/TanksView.vue'
 import { mountView } from './mount'
+import { restoreViewport, viewportWidth } from './viewport'
 
 const readAt = new Date(Date.now() - 3 * 60_000).toISOString()
 const tank: TankListItem = {
@@ -57,33 +58,7 @@ const tank: TankListItem = {
   },
 }
 
-// Vuetify reads the window's width through media queries; jsdom answers none, so answer them for a width.
-const realMatchMedia = window.matchMedia
-function viewportWidth(width: number) {
-  const px = (query: string, name: string) => Number(new RegExp(`${name}:\\s*([\\d.]+)px`).exec(query)?.[1] ?? NaN)
-  Object.defineProperty(window, 'innerWidth', { value: width, configurable: true })
-  Object.defineProperty(window, 'matchMedia', {
-    configurable: true,
-    value: (query: string) => {
-      const min = px(query, 'min-width')
-      const max = px(query, 'max-width')
-      const matches = (Number.isNaN(min) || width >= min) && (Number.isNaN(max) || width <= max)
-      return {
-        matches,
-        media: query,
-        onchange: null,
-        addListener: vi.fn(),
-        removeListener: vi.fn(),
-        addEventListener: vi.fn(),
-        removeEventListener: vi.fn(),
-        dispatchEvent: () => false,
-      }
-    },
-  })
-}
-afterEach(() => {
-  Object.defineProperty(window, 'matchMedia', { configurable: true, value: realMatchMedia })
-})
+afterEach(restoreViewport)
 
 beforeEach(() => {
   viewportWidth(1280)
