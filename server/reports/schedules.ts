@@ -1,6 +1,5 @@
 import { Op } from 'sequelize'
-import { lastEndedPeriod, type ReportPeriod } from '@shared/report/period'
-import { localToInstant, parseLocalDate } from '@shared/time/zoned'
+import { lastEndedPeriod, sendTimeOf, type ReportPeriod } from '@shared/report/period'
 import type { ReportSchedule as PublicSchedule, ReportScheduleInput, ReportScheduleUpdate } from '@shared/schemas/reports'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
@@ -11,14 +10,6 @@ import { reportMail } from './mail'
 import { renderReportPdf } from './pdf'
 import { buildReport, loadSubject, reportService, type ReportTarget } from './report'
 import { perContext } from '../platform/per-context'
-
-/** Scheduled reports go out at 08:00 on the site's clock, on the first day after the period. */
-export const REPORT_SEND_MINUTES = 8 * 60
-
-/** When the report of `period` is due to go out. */
-export function sendTimeOf(period: ReportPeriod): number {
-  return localToInstant(period.timeZone, parseLocalDate(period.endDate), REPORT_SEND_MINUTES)
-}
 
 /** The period a schedule sends at `now`: the last one ended, once its send time has come; else none. */
 export function periodDue(kind: ReportSchedule['period'], timeZone: string, now: number): ReportPeriod | null {

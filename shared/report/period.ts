@@ -76,3 +76,22 @@ export function daysOf(period: Pick<ReportPeriod, 'startDate' | 'endDate'>): Loc
   for (let d = parseLocalDate(period.startDate); formatLocalDate(d) < period.endDate; d = addDays(d, 1)) days.push(d)
   return days
 }
+
+/** Scheduled reports go out at 08:00 on the site's clock, on the first day after the period. */
+export const REPORT_SEND_MINUTES = 8 * 60
+
+/** When the report of `period` is due to go out. */
+export function sendTimeOf(period: ReportPeriod): number {
+  return localToInstant(period.timeZone, parseLocalDate(period.endDate), REPORT_SEND_MINUTES)
+}
+
+/**
+ * The report a schedule sends next and when: the last ended period unless it went out (or was
+ * skipped, for a schedule made after its send time: `lastSentPeriod` is its first day), else the
+ * period running now. A time already past means it goes out at the scheduler's next round.
+ */
+export function nextReportSend(kind: ReportPeriodKind, lastSentPeriod: string | null, now: number, timeZone: string): { period: ReportPeriod; at: number } {
+  const ended = lastEndedPeriod(kind, now, timeZone)
+  const period = ended.startDate === lastSentPeriod ? reportPeriod(kind, ended.nextDate, timeZone) : ended
+  return { period, at: sendTimeOf(period) }
+}

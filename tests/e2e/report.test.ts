@@ -1,4 +1,6 @@
 import type { Browser } from 'playwright-core'
+import { nextReportSend } from '@shared/report/period'
+import { formatDayTime } from '@shared/time'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { TestOrg } from '../helpers/fixtures'
 import { pdfPageCount } from '../helpers/pdf-text'
@@ -77,6 +79,10 @@ describe('the report screen', () => {
       expect(await panel.textContent()).toContain('Weekly to client@marrowfen.example')
       const rows = await s.ctx.models.ReportSchedule.findAll({ where: { tankId } })
       expect(rows.map((r) => r.emails)).toEqual([['client@marrowfen.example']])
+      // The line says when the next report goes out on the site's clock, not a period it never sent.
+      const zone = (await s.ctx.models.Site.findByPk(org.siteIds[0]))!.timeZone
+      const next = nextReportSend('week', rows[0]!.lastSentPeriod, Date.now(), zone)
+      expect(await panel.locator('.v-list-item').first().textContent()).toContain(`Next report ${formatDayTime(next.at, zone)}`)
     } finally {
       await context.close()
     }

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { tallyCareTask } from '@shared/report/care'
-import { isoWeek, lastEndedPeriod, reportPeriod } from '@shared/report/period'
+import { isoWeek, lastEndedPeriod, nextReportSend, reportPeriod } from '@shared/report/period'
 
 // ISO 8601-1:2019 §5.2.4 (ISO week date): weeks start on Monday; week 1 holds the year's first
 // Thursday. Offsets: Directive 2000/84/EC Art. 2–3 (EU summer time ends 01:00 UTC on the last
@@ -47,6 +47,38 @@ describe('report periods on the site calendar', () => {
 
   it('garbage dates are refused', () => {
     expect(() => reportPeriod('week', '2026-02-30', BERLIN)).toThrow(RangeError)
+  })
+})
+
+describe('when a schedule sends its next report (08:00 site time, the day after the period)', () => {
+  // Saturday 5 December 2026, 12:00 CET (UTC+1): the week of 30 November runs; the week of 23
+  // November ended, and its send time (Monday 30 November 08:00 CET) has passed.
+  const saturdayNoon = Date.parse('2026-12-05T11:00:00Z')
+
+  it('a schedule made after the last week went out (or was skipped) sends the running week next Monday 08:00', () => {
+    const next = nextReportSend('week', '2026-11-23', saturdayNoon, BERLIN)
+    expect(next.period.startDate).toBe('2026-11-30')
+    expect(new Date(next.at).toISOString()).toBe('2026-12-07T07:00:00.000Z')
+  })
+
+  it('a schedule whose ended week has not gone out names that week, already due', () => {
+    const next = nextReportSend('week', '2026-11-16', saturdayNoon, BERLIN)
+    expect(next.period.startDate).toBe('2026-11-23')
+    expect(new Date(next.at).toISOString()).toBe('2026-11-30T07:00:00.000Z')
+    expect(next.at).toBeLessThan(saturdayNoon)
+  })
+
+  it('early on the Monday, before 08:00, the ended week is next, at 08:00 that day', () => {
+    const mondaySeven = Date.parse('2026-12-07T06:00:00Z') // 07:00 CET
+    const next = nextReportSend('week', '2026-11-23', mondaySeven, BERLIN)
+    expect(next.period.startDate).toBe('2026-11-30')
+    expect(new Date(next.at).toISOString()).toBe('2026-12-07T07:00:00.000Z')
+  })
+
+  it('a monthly schedule sends December on 1 January 08:00 CET', () => {
+    const next = nextReportSend('month', '2026-11-01', saturdayNoon, BERLIN)
+    expect(next.period.label).toBe('December 2026')
+    expect(new Date(next.at).toISOString()).toBe('2027-01-01T07:00:00.000Z')
   })
 })
 
