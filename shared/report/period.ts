@@ -1,4 +1,6 @@
 // Report periods on the site's own calendar: an ISO week (Monday to Sunday) or a calendar month.
+import { formatDayValue } from '../time/field-text'
+import { formatDay } from '../time/format'
 import { addDays, formatLocalDate, localDateAt, localToInstant, parseLocalDate, weekdayOf, type LocalDate } from '../time/zoned'
 
 export const REPORT_PERIOD_KINDS = ['week', 'month'] as const
@@ -35,6 +37,12 @@ export function isoWeek(date: LocalDate): { year: number; week: number } {
   return { year: thursday.year, week: Math.floor(day / 7) + 1 }
 }
 
+/** "Mon 2 Nov to Sun 8 Nov 2026", the year said once unless the span crosses into the next. */
+function daySpan(first: LocalDate, last: LocalDate): string {
+  const firstText = first.year === last.year ? formatDay(`${formatLocalDate(first)}T12:00:00Z`, 'UTC') : formatDayValue(formatLocalDate(first))
+  return `${firstText} to ${formatDayValue(formatLocalDate(last))}`
+}
+
 /** The period of `kind` holding the local day `date` (`YYYY-MM-DD`) in `timeZone`. */
 export function reportPeriod(kind: ReportPeriodKind, date: string, timeZone: string): ReportPeriod {
   const day = parseLocalDate(date)
@@ -45,7 +53,7 @@ export function reportPeriod(kind: ReportPeriodKind, date: string, timeZone: str
     start = addDays(day, -weekdayOf(day))
     end = addDays(start, 7)
     const { year, week } = isoWeek(start)
-    label = `Week ${week} of ${year} (${formatLocalDate(start)} to ${formatLocalDate(addDays(end, -1))})`
+    label = `Week ${week} of ${year} (${daySpan(start, addDays(end, -1))})`
   } else {
     start = firstOfMonth(day)
     end = firstOfMonth(day, 1)

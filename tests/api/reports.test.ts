@@ -118,7 +118,7 @@ describe('the weekly report of a tank, from seeded records', () => {
     const text = pdfText(pdf).join('')
     expect(pdfPageCount(pdf)).toBe(1)
     expect(text).toContain('Marrowfen display')
-    expect(text).toContain('Week 45 of 2026 (2026-11-02 to 2026-11-08)')
+    expect(text).toContain('Week 45 of 2026 (Mon 2 Nov to Sun 8 Nov 2026)')
     expect(text).toContain('Temperature — target 24.0–28.0 °C')
     expect(text).toContain(`in band ${EXPECTED.temperature.timeInBandPercent.toFixed(1)} % · min 26.0 °C · max 29.0 °C`)
     expect(text).toContain('1 gap (12 h 00 min)')

@@ -54,7 +54,7 @@ describe('scheduled client reports by mail', () => {
     const mails = await deliver()
     expect(mails.map((m) => m.envelope_to[0]).sort()).toEqual(['client@marrowfen.example', org.users.viewer.email].sort())
     for (const mail of mails) {
-      expect(mail.subject).toBe('Tankwarden report: Marrowfen <b>display</b>, Week 45 of 2026 (2026-11-02 to 2026-11-08)')
+      expect(mail.subject).toBe('Tankwarden report: Marrowfen <b>display</b>, Week 45 of 2026 (Mon 2 Nov to Sun 8 Nov 2026)')
       expect(mail.attachments).toHaveLength(1)
       expect(mail.attachments[0]).toMatchObject({ filename: 'tankwarden-report-marrowfen-b-display-b-week-2026-11-02.pdf', contentType: 'application/pdf' })
       expect(mail.attachments[0]!.size).toBeGreaterThan(5000)

@@ -14,7 +14,7 @@ describe('report periods on the site calendar', () => {
     expect([p.startDate, p.endDate]).toEqual(['2026-11-02', '2026-11-09'])
     expect(new Date(p.from).toISOString()).toBe('2026-11-01T23:00:00.000Z')
     expect(new Date(p.to).toISOString()).toBe('2026-11-08T23:00:00.000Z')
-    expect(p.label).toBe('Week 45 of 2026 (2026-11-02 to 2026-11-08)')
+    expect(p.label).toBe('Week 45 of 2026 (Mon 2 Nov to Sun 8 Nov 2026)')
     expect([p.previousDate, p.nextDate]).toEqual(['2026-11-01', '2026-11-09'])
   })
 
@@ -34,6 +34,8 @@ describe('report periods on the site calendar', () => {
     // 1 January 2027 is a Friday: it belongs to week 53 of 2026. 4 January 2027 starts week 1.
     expect(isoWeek({ year: 2027, month: 1, day: 1 })).toEqual({ year: 2026, week: 53 })
     expect(isoWeek({ year: 2027, month: 1, day: 4 })).toEqual({ year: 2027, week: 1 })
+    // Its label names both years: Monday 28 December 2026 to Sunday 3 January 2027.
+    expect(reportPeriod('week', '2027-01-01', BERLIN).label).toBe('Week 53 of 2026 (Mon 28 Dec 2026 to Sun 3 Jan 2027)')
   })
 
   it('the last ended period at Monday 08:00 local is the week before', () => {
