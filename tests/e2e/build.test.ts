@@ -26,9 +26,14 @@ afterAll(async () => {
   await s?.close()
 })
 
+// Every layer's select offers the same materials: the option is taken from the list this click
+// opened, and the list is gone before the next step (a list still fading out, on a busy machine,
+// would take the next layer's click).
 async function choose(page: Page, field: ReturnType<Page['locator']>, option: RegExp) {
   await field.click()
-  await page.getByRole('option', { name: option }).click()
+  const list = page.locator('.v-overlay--active [role=listbox]').last()
+  await list.getByRole('option', { name: option }).click()
+  await list.waitFor({ state: 'hidden', timeout: FIRST_LOAD_MS })
 }
 
 async function addLayer(page: Page, index: number, material: RegExp | null, depth: string, bag?: string) {

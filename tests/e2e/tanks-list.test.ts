@@ -180,25 +180,25 @@ describe('the tanks list, for a keeper', () => {
     ])
 
     await page.goto(`${s.baseUrl}/tanks?siteId=${org.siteIds[0]}`)
-    await expect.poll(() => page.title()).toBe(`Tanks at ${siteName} · Tankwarden`)
+    await expect.poll(() => page.title(), { timeout: FIRST_LOAD_MS }).toBe(`Tanks at ${siteName} · Tankwarden`)
 
     await row(page, 'Alarm tank').locator('[data-test=tank-row]').click()
     await page.waitForURL(`**/tanks/${probes['Alarm tank']!.tankId}`)
-    await expect.poll(() => page.title()).toBe('Alarm tank · Tankwarden')
+    await expect.poll(() => page.title(), { timeout: FIRST_LOAD_MS }).toBe('Alarm tank · Tankwarden')
     // A jump within the page keeps the tank's name.
     await page.getByRole('link', { name: 'Devices' }).click()
     await page.waitForURL('**#devices')
     expect(await page.title()).toBe('Alarm tank · Tankwarden')
     await page.locator('[data-test=log-test]').click()
     await page.waitForURL('**/test-kit')
-    await expect.poll(() => page.title()).toBe('Log test · Alarm tank · Tankwarden')
+    await expect.poll(() => page.title(), { timeout: FIRST_LOAD_MS }).toBe('Log test · Alarm tank · Tankwarden')
 
     await page.goBack()
     await page.goBack()
     await page.goBack()
     await row(page, 'Alarm tank').locator('[data-test=open-incidents] a').click()
     await page.waitForURL('**/incidents/*')
-    await expect.poll(() => page.title()).toBe(`${HOT_TITLE} · Tankwarden`)
+    await expect.poll(() => page.title(), { timeout: FIRST_LOAD_MS }).toBe(`${HOT_TITLE} · Tankwarden`)
 
     await page.locator('[data-test=nav-wall]', { hasText: siteName }).click()
     await page.waitForURL(`**/wall/${org.siteIds[0]}`)
