@@ -1,4 +1,5 @@
-import { afterEach, vi } from 'vitest'
+import { afterEach } from 'vitest'
+import { fixedMediaQuery } from './viewport'
 
 // jsdom lacks these; Vuetify's layout, menus and selects call them.
 class ResizeObserverStub {
@@ -27,16 +28,7 @@ if (!window.visualViewport) {
 if (!window.matchMedia) {
   Object.defineProperty(window, 'matchMedia', {
     configurable: true,
-    value: (query: string) => ({
-      matches: false,
-      media: query,
-      onchange: null,
-      addListener: vi.fn(),
-      removeListener: vi.fn(),
-      addEventListener: vi.fn(),
-      removeEventListener: vi.fn(),
-      dispatchEvent: () => false,
-    }),
+    value: (query: string) => fixedMediaQuery(query, false),
   })
 }
 
