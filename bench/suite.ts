@@ -7,6 +7,7 @@ import { cpus, totalmem } from 'node:os'
 import { existsSync } from 'node:fs'
 import { execFileSync } from 'node:child_process'
 import { chromium } from 'playwright-core'
+import { CHROMIUM_FLAGS } from '../scripts/lib/chromium.mjs'
 import { QueryTypes } from 'sequelize'
 import { testConfig } from '../server/config'
 import { closeContext, createContext } from '../server/bootstrap'
@@ -54,15 +55,7 @@ if (!process.env.BENCH_SKIP_BUILD || !existsSync('dist/index.html')) {
 const browser = await chromium.launch({
   executablePath: process.env.CHROMIUM_PATH || '/usr/bin/chromium',
   headless: true,
-  args: [
-    '--no-sandbox',
-    '--disable-gpu',
-    '--disable-dev-shm-usage',
-    '--disable-background-networking',
-    '--disable-component-update',
-    '--disable-sync',
-    '--no-first-run',
-  ],
+  args: CHROMIUM_FLAGS,
 })
 const SERIES_RUNS = Number(process.env.BENCH_SERIES_RUNS ?? 9)
 

@@ -9,7 +9,7 @@ import { chmodSync, createWriteStream, existsSync, mkdtempSync, readdirSync, rea
 import { createServer } from 'node:net'
 import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
-import { ensureChromium } from './lib/chromium.mjs'
+import { CHROMIUM_FLAGS, ensureChromium } from './lib/chromium.mjs'
 import { freePort } from './lib/postgres.mjs'
 import { log } from './lib/run.mjs'
 
@@ -79,16 +79,7 @@ async function checkInBrowser(url, owner, password, shotsDir) {
   const browser = await chromium.launch({
     executablePath: chromiumPath,
     headless: true,
-    args: [
-      '--no-sandbox',
-      '--disable-gpu',
-      '--disable-dev-shm-usage',
-      '--disable-background-networking',
-      '--disable-component-update',
-      '--disable-sync',
-      '--no-first-run',
-      '--disable-quic',
-    ],
+    args: CHROMIUM_FLAGS,
   })
   const page = await browser.newPage({ viewport: { width: 1280, height: 800 } })
   try {

@@ -4,6 +4,21 @@
 import { existsSync } from 'node:fs'
 import { aptInstall, commandExists, log } from './run.mjs'
 
+/**
+ * Flags for every headless Chromium the project starts (tests, smoke, bench): no sandbox (root in
+ * CI), no GPU, and none of the background connections this closed network refuses.
+ */
+export const CHROMIUM_FLAGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-dev-shm-usage',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--no-first-run',
+  '--disable-quic',
+]
+
 export function ensureChromium() {
   const path = process.env.CHROMIUM_PATH || '/usr/bin/chromium'
   if (existsSync(path)) return path

@@ -1,6 +1,7 @@
 import { mkdirSync } from 'node:fs'
 import { join } from 'node:path'
 import { chromium, type Browser, type Page } from 'playwright-core'
+import { CHROMIUM_FLAGS } from '../../scripts/lib/chromium.mjs'
 import { startTestServer } from '../helpers/server'
 import { TEST_PASSWORD } from '../helpers/fixtures'
 
@@ -12,16 +13,7 @@ export async function launchBrowser(): Promise<{ browser: Browser; close: () => 
   const browser = await chromium.launch({
     executablePath: process.env.CHROMIUM_PATH || '/usr/bin/chromium',
     headless: true,
-    args: [
-      '--no-sandbox',
-      '--disable-gpu',
-      '--disable-dev-shm-usage',
-      '--disable-background-networking',
-      '--disable-component-update',
-      '--disable-sync',
-      '--no-first-run',
-      '--disable-quic',
-    ],
+    args: CHROMIUM_FLAGS,
   })
   return {
     browser,
