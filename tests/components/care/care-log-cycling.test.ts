@@ -41,6 +41,28 @@ describe('CareLogPanel', () => {
     expect(wrapper.find('[data-test="care-log-add"]').exists()).toBe(false)
   })
 
+  it('shows the newest ten entries, and twenty older ones at each tap', async () => {
+    // 35 entries a day apart, newest first, as the API answers.
+    const many = Array.from({ length: 35 }, (_, i) => ({
+      ...waterChange,
+      id: 100 + i,
+      at: new Date(Date.parse(waterChange.at) - i * 86_400_000).toISOString(),
+    }))
+    vi.mocked(listCareLog).mockResolvedValue(many)
+    const { wrapper } = await mountView(CareLogPanel, { role: 'viewer', props: { tankId: 12, canWrite: false, timeZone: 'UTC' } })
+    await flushPromises()
+    const rows = () => wrapper.findAll('[data-test^="care-log-1"]').map((r) => r.attributes('data-test'))
+    expect(rows()).toEqual(many.slice(0, 10).map((e) => `care-log-${e.id}`))
+    const older = wrapper.find('[data-test="care-log-older"]')
+    expect(older.text()).toBe('Show older entries (25 more)')
+    await older.trigger('click')
+    expect(rows()).toHaveLength(30)
+    expect(wrapper.find('[data-test="care-log-older"]').text()).toBe('Show older entries (5 more)')
+    await wrapper.find('[data-test="care-log-older"]').trigger('click')
+    expect(rows()).toHaveLength(35)
+    expect(wrapper.find('[data-test="care-log-older"]').exists()).toBe(false)
+  })
+
   it('adds a dosing entry with product and amount', async () => {
     const dosing: PublicCareLogEntry = {
       ...waterChange,
