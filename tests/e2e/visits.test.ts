@@ -18,6 +18,8 @@ let browser: Browser
 let org: TestOrg
 const clients = { dental: 0, bakery: 0 }
 const ZONE = 'Europe/Berlin'
+/** The day the three stops are planned for, `YYYY-MM-DD` on the sites' clock. */
+let plannedDay: string
 
 async function post(path: string, body: unknown) {
   const res = await api(s, path, org.users.owner.token, { method: 'POST', body: JSON.stringify(body) })
@@ -56,6 +58,7 @@ beforeAll(async () => {
   const window = await tank(org.siteIds[1], 'Shop window tank', clients.bakery)
   // Today on the sites' clock, three stops in order.
   const today = localDateAt(ZONE, Date.now())
+  plannedDay = formatLocalDate(today)
   const at = (hour: number) => new Date(localToInstant(ZONE, today, hour * 60)).toISOString()
   const plan = (clientId: number, siteId: number, tankIds: number[], from: number) =>
     post('/visits', { clientId, siteId, technicianId: org.users.keeper.id, startsAt: at(from), endsAt: at(from + 1), tankIds })
@@ -71,7 +74,7 @@ afterAll(async () => {
 })
 
 async function workStop(page: Page, index: number, withPhoto: boolean) {
-  await page.goto(`${s.baseUrl}/round`)
+  await page.goto(`${s.baseUrl}/round?date=${plannedDay}`)
   const stop = page.locator('[data-test=round-stop]').nth(index)
   await stop.waitFor({ timeout: FIRST_LOAD_MS })
   await stop.click()
@@ -102,7 +105,9 @@ describe('a service round on a phone', () => {
   it('works three visits in order, closes each, and the client receives the visit report with its PDF', async () => {
     const page = await browser.newPage({ viewport: { width: 390, height: 844 } })
     await signIn(page, s.baseUrl, org.users.keeper.email)
-    await page.goto(`${s.baseUrl}/round`)
+    // The round of the planned day: a run that crosses the sites' midnight would open the next
+    // day's round, with no stops, at plain /round.
+    await page.goto(`${s.baseUrl}/round?date=${plannedDay}`)
     const stops = page.locator('[data-test=round-stop]')
     await stops.nth(2).waitFor({ timeout: FIRST_LOAD_MS })
     expect(await stops.locator('.v-card-title').allInnerTexts()).toEqual(['Harbour Dental', 'Corner Bakery', 'Harbour Dental'])
@@ -117,7 +122,7 @@ describe('a service round on a phone', () => {
     await workStop(page, 0, true)
     await workStop(page, 1, false)
     await workStop(page, 2, false)
-    await page.goto(`${s.baseUrl}/round`)
+    await page.goto(`${s.baseUrl}/round?date=${plannedDay}`)
     await stops.nth(2).waitFor()
     expect(await stops.locator('.v-chip').allInnerTexts()).toEqual(['closed', 'closed', 'closed'])
 
