@@ -1,5 +1,6 @@
 import type { AppContext } from '../context'
-import { periodDue, sendScheduledReport } from './schedules'
+import { nextReportSend } from '@shared/report/period'
+import { sendScheduledReport } from './schedules'
 
 /**
  * One pass: every enabled schedule whose last ended period has reached its send time (08:00 site
@@ -13,9 +14,10 @@ export async function runReportSchedules(ctx: AppContext, now = new Date()): Pro
       const tank = schedule.tankId !== null ? await ctx.models.Tank.findByPk(schedule.tankId, { attributes: ['siteId'] }) : null
       const site = await ctx.models.Site.findByPk(schedule.siteId ?? tank?.siteId ?? 0, { attributes: ['id', 'timeZone'] })
       if (!site) continue
-      const period = periodDue(schedule.period, site.timeZone, now.getTime())
-      if (!period || schedule.lastSentPeriod === period.startDate) continue
-      queued += await sendScheduledReport(ctx, schedule, period, { claim: true, dedupeSuffix: 'scheduled', now })
+      // The same rule the Reports screen shows as "Next report …".
+      const next = nextReportSend(schedule.period, schedule.lastSentPeriod, now.getTime(), site.timeZone)
+      if (next.at > now.getTime()) continue
+      queued += await sendScheduledReport(ctx, schedule, next.period, { claim: true, dedupeSuffix: 'scheduled', now })
     } catch (error) {
       // One broken schedule must not hold up the others; it is tried again next pass.
       ctx.logger.error({ err: error, scheduleId: schedule.id }, 'scheduled report failed')

@@ -1,5 +1,5 @@
 import { Op } from 'sequelize'
-import { lastEndedPeriod, sendTimeOf, type ReportPeriod } from '@shared/report/period'
+import { lastEndedPeriod, nextReportSend, type ReportPeriod } from '@shared/report/period'
 import type { ReportSchedule as PublicSchedule, ReportScheduleInput, ReportScheduleUpdate } from '@shared/schemas/reports'
 import type { UserActor } from '../access/actor'
 import type { AppContext } from '../context'
@@ -10,12 +10,6 @@ import { reportMail } from './mail'
 import { renderReportPdf } from './pdf'
 import { buildReport, loadSubject, reportService, type ReportTarget } from './report'
 import { perContext } from '../platform/per-context'
-
-/** The period a schedule sends at `now`: the last one ended, once its send time has come; else none. */
-export function periodDue(kind: ReportSchedule['period'], timeZone: string, now: number): ReportPeriod | null {
-  const period = lastEndedPeriod(kind, now, timeZone)
-  return sendTimeOf(period) <= now ? period : null
-}
 
 /** Whether a person may receive the report of a subject: a client's people only their client's, a site's viewer only their site's. */
 function canSee(user: User, subject: { siteId: number; clientId: number | null }) {
@@ -164,8 +158,9 @@ export const reportSchedulesService = perContext((ctx: AppContext) => {
         throw badRequest(`${field}: ${message}`, { [field]: message })
       })
       await assertUsers(actor, input.userIds, { siteId: subject.site.id, clientId: input.clientId })
-      // A schedule made after this period's send time starts with the next period, not a late send.
-      const due = periodDue(input.period, subject.site.timeZone, now.getTime())
+      // A schedule made after this period's send time starts with the next period, not a late send:
+      // the ended period is marked as sent.
+      const ended = nextReportSend(input.period, null, now.getTime(), subject.site.timeZone)
       const row = await models.ReportSchedule.create({
         organizationId: actor.organizationId,
         tankId: input.tankId,
@@ -176,7 +171,7 @@ export const reportSchedulesService = perContext((ctx: AppContext) => {
         userIds: input.userIds,
         enabled: input.enabled,
         createdBy: actor.userId,
-        lastSentPeriod: due?.startDate ?? null,
+        lastSentPeriod: ended.at <= now.getTime() ? ended.period.startDate : null,
       })
       return present(row, await names([row]))
     },
