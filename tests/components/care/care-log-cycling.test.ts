@@ -1,5 +1,6 @@
 import { DOMWrapper, flushPromises } from '@vue/test-utils'
 import { beforeEach, describe, expect, it, vi } from 'vitest'
+import { defineComponent, h, ref } from 'vue'
 import { CYCLED_RULE } from '@shared/care/cycling'
 
 vi.mock('@/api/care')
@@ -49,7 +50,10 @@ describe('CareLogPanel', () => {
       at: new Date(Date.parse(waterChange.at) - i * 86_400_000).toISOString(),
     }))
     vi.mocked(listCareLog).mockResolvedValue(many)
-    const { wrapper } = await mountView(CareLogPanel, { role: 'viewer', props: { tankId: 12, canWrite: false, timeZone: 'UTC' } })
+    // A page that shows one tank, then another, keeping the panel.
+    const tankId = ref(12)
+    const Page = defineComponent({ render: () => h(CareLogPanel, { tankId: tankId.value, canWrite: false, timeZone: 'UTC' }) })
+    const { wrapper } = await mountView(Page, { role: 'viewer' })
     await flushPromises()
     const rows = () => wrapper.findAll('[data-test^="care-log-1"]').map((r) => r.attributes('data-test'))
     expect(rows()).toEqual(many.slice(0, 10).map((e) => `care-log-${e.id}`))
@@ -61,6 +65,10 @@ describe('CareLogPanel', () => {
     await wrapper.find('[data-test="care-log-older"]').trigger('click')
     expect(rows()).toHaveLength(35)
     expect(wrapper.find('[data-test="care-log-older"]').exists()).toBe(false)
+    // Another tank on the same page: its log starts folded again.
+    tankId.value = 13
+    await flushPromises()
+    expect(rows()).toHaveLength(10)
   })
 
   it('adds a dosing entry with product and amount', async () => {
