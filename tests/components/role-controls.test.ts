@@ -75,6 +75,7 @@ import { getTank } from '@/api/tanks'
 import { listSites } from '@/api/sites'
 import SitesView from '@/views/SitesView.vue'
 import TankView from '@/views/TankView.vue'
+import { BACK_FISH_ROOM } from './fixtures/site'
 import { mountView } from './mount'
 
 const tank: PublicTank = {
@@ -104,9 +105,7 @@ const tank: PublicTank = {
 
 beforeEach(() => {
   vi.mocked(getTank).mockResolvedValue(tank)
-  vi.mocked(listSites).mockResolvedValue([
-    { id: 3, name: 'Back fish room', timeZone: 'Europe/Berlin', address: '', notes: '', workdayEnd: null, archivedAt: null, tankCount: 1 },
-  ])
+  vi.mocked(listSites).mockResolvedValue([{ ...BACK_FISH_ROOM, tankCount: 1 }])
 })
 
 const buttonTexts = (wrapper: { findAll: (s: string) => { text: () => string }[] }) => wrapper.findAll('a, button').map((el) => el.text())

@@ -1,21 +1,12 @@
 import { DOMWrapper, flushPromises } from '@vue/test-utils'
 import { afterEach, describe, expect, it } from 'vitest'
-import type { PublicSite } from '@shared/schemas/sites'
 import { setClockStyle } from '@shared/time'
 import SiteDialog from '@/components/sites/SiteDialog.vue'
+import { BACK_FISH_ROOM } from './fixtures/site'
 import { mountView } from './mount'
 
 const inDocument = (selector: string) => new DOMWrapper(document.querySelector(selector)!)
-const site: PublicSite = {
-  id: 3,
-  name: 'Back fish room',
-  timeZone: 'Europe/Berlin',
-  address: '',
-  notes: '',
-  workdayEnd: '19:30',
-  archivedAt: null,
-  tankCount: 4,
-}
+const site = { ...BACK_FISH_ROOM, workdayEnd: '19:30', tankCount: 4 }
 
 async function typeEnd(text: string) {
   const input = inDocument('input[name="workdayEnd"]')

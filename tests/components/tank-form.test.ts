@@ -1,20 +1,11 @@
 import { flushPromises } from '@vue/test-utils'
 import { describe, expect, it } from 'vitest'
-import type { PublicSite } from '@shared/schemas/sites'
 import type { TankInput } from '@shared/schemas/tanks'
 import TankForm from '@/components/tanks/TankForm.vue'
+import { BACK_FISH_ROOM } from './fixtures/site'
 import { mountView } from './mount'
 
-const site: PublicSite = {
-  id: 3,
-  name: 'Back fish room',
-  timeZone: 'Europe/Berlin',
-  address: '',
-  notes: '',
-  workdayEnd: null,
-  archivedAt: null,
-  tankCount: 0,
-}
+const site = BACK_FISH_ROOM
 
 async function mountForm() {
   const { wrapper } = await mountView(TankForm, { props: { sites: [site] } })
